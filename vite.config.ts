@@ -4,5 +4,5 @@ import { defineConfig } from "vite";
 
 export default defineConfig({
   plugins: [tailwindcss(), reactRouter()],
-  resolve: { tsconfigPaths: true },
+  resolve: { alias: { "~": new URL("./app", import.meta.url).pathname } },
 });
