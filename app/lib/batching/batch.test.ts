@@ -55,7 +55,11 @@ describe("batch sheet of the invented paving mixture", () => {
 
   it("scales cement and SCM by V", () => {
     // common practice arithmetic: 280 × 0.1035 = 28.98 kg, 70 × 0.1035 = 7.245 kg, Σ 36.225 kg
-    expect(row("Type I/II portland cement")).toMatchObject({ amount: expect.closeTo(28.98, 6), unit: "kg", lot: "C-24-117" });
+    expect(row("Type I/II portland cement")).toMatchObject({
+      amount: expect.closeTo(28.98, 6),
+      unit: "kg",
+      lot: "C-24-117",
+    });
     expect(row("Class F fly ash").amount).toBeCloseTo(7.245, 6);
     expect(sheet.cementitiousKg).toBeCloseTo(36.225, 6);
   });
@@ -92,7 +96,10 @@ describe("batch sheet of the invented paving mixture", () => {
 
   it("measures admixtures in mL on the batch's cementitious mass and leaves air unbatched", () => {
     // common practice arithmetic: 30 × 36.225/100 = 10.8675 mL; 300 × 36.225/100 = 108.675 mL
-    expect(row("Air-entraining admixture")).toMatchObject({ amount: expect.closeTo(10.8675, 6), unit: "mL" });
+    expect(row("Air-entraining admixture")).toMatchObject({
+      amount: expect.closeTo(10.8675, 6),
+      unit: "mL",
+    });
     expect(row("Water-reducing admixture").amount).toBeCloseTo(108.675, 6);
     expect(sheet.rows.map((r) => r.kind)).not.toContain("air");
     expect(sheet.rows).toHaveLength(7);
@@ -114,6 +121,40 @@ describe("batch sheet guards", () => {
     });
     expect(sheet.rows.find((r) => r.kind === "water")?.amount).toBeCloseTo(-0.1443, 4);
     expect(sheet.warnings.map((w) => w.code)).toEqual(["aggregate_too_wet"]);
+  });
+
+  it("weighs a fiber by its volume fraction of the batch", () => {
+    // invented fibered variant; batching.md check value 4.55 kg/m³ × 0.1035 m³ = 0.470925 kg
+    const fibered = {
+      ...inventedPavingMix,
+      constituents: [
+        ...inventedPavingMix.constituents,
+        {
+          kind: "fiber" as const,
+          name: "Polypropylene macrofiber",
+          volumeFractionPercent: 0.5,
+          fiberDensity: 910,
+        },
+      ],
+    };
+    const sheet = batchSheet(fibered, {
+      batchVolumeM3: 0.1035,
+      moistureContentPercent: { 3: 0.8, 4: 1.2 },
+    });
+    expect(sheet.rows.find((r) => r.kind === "fiber")).toMatchObject({
+      amount: expect.closeTo(0.470925, 8),
+      unit: "kg",
+    });
+  });
+
+  it("refuses a design without exactly one water row", () => {
+    const dry = {
+      ...inventedPavingMix,
+      constituents: inventedPavingMix.constituents.filter((c) => c.kind !== "water"),
+    };
+    expect(() =>
+      batchSheet(dry, { batchVolumeM3: 0.1, moistureContentPercent: { 2: 1, 3: 1 } }),
+    ).toThrow("A batch sheet needs exactly one water row in the mixture design");
   });
 
   it("refuses a missing moisture content or a non-positive volume", () => {

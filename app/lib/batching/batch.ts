@@ -1,4 +1,4 @@
-import { isAggregate, totalCementitiousKgPerM3 } from "./design";
+import { isAggregate, isMassConstituent, totalCementitiousKgPerM3 } from "./design";
 import type { BatchingWarning, ConstituentKind, MixtureDesign } from "./types";
 
 // Moisture corrections of the SSD design to stockpile aggregate (common
@@ -135,10 +135,8 @@ export function batchSheet(design: MixtureDesign, input: BatchSheetInput): Batch
           freeWaterKg: free,
         },
       });
-    } else if (c.kind === "water") {
-      waterRowAt = rows.length;
-      rows.push({ ...base, kind: c.kind, amount: c.ssdMassKgPerM3 * v, unit: "kg" });
-    } else if (c.kind === "cement" || c.kind === "scm") {
+    } else if (isMassConstituent(c)) {
+      if (c.kind === "water") waterRowAt = rows.length;
       rows.push({ ...base, kind: c.kind, amount: c.ssdMassKgPerM3 * v, unit: "kg" });
     } else if (c.kind === "admixture") {
       rows.push({

@@ -82,7 +82,9 @@ describe("absolute volume", () => {
     // 0.72430 m³ without sand; 712/2620 = 0.27176 → 0.99605 m³ (−0.39 %),
     // 706/2620 = 0.26947 → 0.99376 m³ (−0.62 %)
     expect(checkMixtureDesign(withSand(712)).warnings).toEqual([]);
-    expect(checkMixtureDesign(withSand(706)).warnings.map((w) => w.code)).toEqual(["absolute_volume"]);
+    expect(checkMixtureDesign(withSand(706)).warnings.map((w) => w.code)).toEqual([
+      "absolute_volume",
+    ]);
   });
 });
 

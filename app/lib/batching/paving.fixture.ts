@@ -8,8 +8,20 @@ import type { MixtureDesign } from "./types";
 export const inventedPavingMix: MixtureDesign = {
   name: "Reference paving mix (invented)",
   constituents: [
-    { kind: "cement", name: "Type I/II portland cement", lot: "C-24-117", ssdMassKgPerM3: 280, relativeDensity: 3.15 },
-    { kind: "scm", name: "Class F fly ash", lot: "FA-0932", ssdMassKgPerM3: 70, relativeDensity: 2.5 },
+    {
+      kind: "cement",
+      name: "Type I/II portland cement",
+      lot: "C-24-117",
+      ssdMassKgPerM3: 280,
+      relativeDensity: 3.15,
+    },
+    {
+      kind: "scm",
+      name: "Class F fly ash",
+      lot: "FA-0932",
+      ssdMassKgPerM3: 70,
+      relativeDensity: 2.5,
+    },
     { kind: "water", name: "Potable water", ssdMassKgPerM3: 140, relativeDensity: 1 },
     {
       kind: "coarse_aggregate",

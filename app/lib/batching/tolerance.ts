@@ -53,7 +53,11 @@ export interface ToleranceCheck {
 const ROUNDING_ALLOWANCE = 1e-9;
 
 /** Whether a measured value is within target ± tolerance, limits included. */
-export function checkTolerance(target: number, measured: number, tolerance: number): ToleranceCheck {
+export function checkTolerance(
+  target: number,
+  measured: number,
+  tolerance: number,
+): ToleranceCheck {
   const deviation = measured - target;
   return {
     target,
