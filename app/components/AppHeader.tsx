@@ -1,0 +1,63 @@
+import { Form, NavLink } from "react-router";
+import type { Role } from "~/db/schema";
+import { Wordmark } from "./Wordmark";
+
+type HeaderUser = { name: string; role: Role };
+
+const NAV_BY_ROLE: Record<Role, { to: string; label: string }[]> = {
+  admin: [
+    { to: "/admin/users", label: "Users" },
+    { to: "/admin/labs", label: "Labs" },
+    { to: "/studies", label: "Studies" },
+  ],
+  coordinator: [{ to: "/studies", label: "Studies" }],
+  analyst: [{ to: "/lab", label: "My lab" }],
+  reviewer: [{ to: "/review", label: "Reviews" }],
+};
+
+const ROLE_LABEL: Record<Role, string> = {
+  admin: "Administrator",
+  coordinator: "Study coordinator",
+  analyst: "Lab analyst",
+  reviewer: "Committee reviewer",
+};
+
+export function AppHeader({ user }: { user: HeaderUser | null }) {
+  return (
+    <header className="no-print bg-basalt-800 text-white">
+      <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
+        <a href="/" className="rounded text-white">
+          <Wordmark />
+        </a>
+        {user && (
+          <nav aria-label="Main" className="flex flex-1 flex-wrap gap-1">
+            {NAV_BY_ROLE[user.role].map((item) => (
+              <NavLink
+                key={item.to}
+                to={item.to}
+                className={({ isActive }) =>
+                  `rounded px-3 py-1.5 font-semibold ${isActive ? "bg-basalt-700 text-ochre-300" : "text-basalt-100 hover:bg-basalt-700"}`
+                }
+              >
+                {item.label}
+              </NavLink>
+            ))}
+          </nav>
+        )}
+        {user && (
+          <div className="flex items-center gap-3">
+            <NavLink to="/account" className="rounded px-2 py-1 text-basalt-100 hover:bg-basalt-700">
+              <span className="font-semibold text-white">{user.name}</span>
+              <span className="block text-xs">{ROLE_LABEL[user.role]}</span>
+            </NavLink>
+            <Form method="post" action="/logout">
+              <button type="submit" className="rounded border border-basalt-200 px-3 py-1.5 font-semibold text-white hover:bg-basalt-700">
+                Sign out
+              </button>
+            </Form>
+          </div>
+        )}
+      </div>
+    </header>
+  );
+}

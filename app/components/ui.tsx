@@ -1,0 +1,171 @@
+/** Small shared building blocks, styled once so every page looks alike. */
+import type { ComponentProps, ReactNode } from "react";
+
+export function PageHeader({ title, subtitle, actions }: { title: string; subtitle?: ReactNode; actions?: ReactNode }) {
+  return (
+    <div className="mb-6 flex flex-wrap items-end justify-between gap-4">
+      <div>
+        <h1 className="text-2xl font-bold text-basalt-900">{title}</h1>
+        {subtitle && <p className="mt-1 text-basalt-700">{subtitle}</p>}
+      </div>
+      {actions && <div className="flex gap-2">{actions}</div>}
+    </div>
+  );
+}
+
+export function Card({ title, children, className = "" }: { title?: string; children: ReactNode; className?: string }) {
+  return (
+    <section className={`rounded-lg border border-basalt-100 bg-white p-5 shadow-sm ${className}`}>
+      {title && <h2 className="mb-3 text-lg font-semibold text-basalt-800">{title}</h2>}
+      {children}
+    </section>
+  );
+}
+
+const BUTTON_STYLES = {
+  primary: "bg-basalt-700 text-white hover:bg-basalt-800",
+  secondary: "border border-basalt-500 bg-white text-basalt-800 hover:bg-basalt-50",
+  danger: "bg-signal-700 text-white hover:brightness-110",
+} as const;
+
+export function Button({
+  variant = "primary",
+  className = "",
+  ...props
+}: ComponentProps<"button"> & { variant?: keyof typeof BUTTON_STYLES }) {
+  return (
+    <button
+      className={`inline-flex min-h-11 items-center justify-center rounded-md px-4 py-2 font-semibold disabled:opacity-60 ${BUTTON_STYLES[variant]} ${className}`}
+      {...props}
+    />
+  );
+}
+
+/** A labelled input with its error message right below it. */
+export function Field({
+  label,
+  name,
+  error,
+  hint,
+  ...input
+}: ComponentProps<"input"> & { label: string; name: string; error?: string; hint?: string }) {
+  const id = input.id ?? `field-${name}`;
+  const describedBy = [error ? `${id}-error` : null, hint ? `${id}-hint` : null].filter(Boolean).join(" ") || undefined;
+  return (
+    <div className="flex flex-col gap-1">
+      <label htmlFor={id} className="font-semibold text-basalt-800">
+        {label}
+      </label>
+      <input
+        id={id}
+        name={name}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={describedBy}
+        className={`min-h-11 rounded-md border bg-white px-3 py-2 text-basalt-900 ${error ? "border-signal-700" : "border-basalt-200"}`}
+        {...input}
+      />
+      {hint && (
+        <p id={`${id}-hint`} className="text-sm text-basalt-700">
+          {hint}
+        </p>
+      )}
+      {error && (
+        <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
+          {error}
+        </p>
+      )}
+    </div>
+  );
+}
+
+export function SelectField({
+  label,
+  name,
+  error,
+  options,
+  ...select
+}: ComponentProps<"select"> & { label: string; name: string; error?: string; options: { value: string; label: string }[] }) {
+  const id = select.id ?? `field-${name}`;
+  return (
+    <div className="flex flex-col gap-1">
+      <label htmlFor={id} className="font-semibold text-basalt-800">
+        {label}
+      </label>
+      <select
+        id={id}
+        name={name}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={error ? `${id}-error` : undefined}
+        className="min-h-11 rounded-md border border-basalt-200 bg-white px-3 py-2"
+        {...select}
+      >
+        {options.map((o) => (
+          <option key={o.value} value={o.value}>
+            {o.label}
+          </option>
+        ))}
+      </select>
+      {error && (
+        <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
+          {error}
+        </p>
+      )}
+    </div>
+  );
+}
+
+const NOTICE_STYLES = {
+  info: "border-basalt-200 bg-basalt-50 text-basalt-900",
+  success: "border-leaf-700 bg-leaf-100 text-leaf-700",
+  error: "border-signal-700 bg-signal-100 text-signal-700",
+  caution: "border-ochre-600 bg-ochre-100 text-ochre-800",
+} as const;
+
+export function Notice({ tone = "info", children }: { tone?: keyof typeof NOTICE_STYLES; children: ReactNode }) {
+  return (
+    <div role={tone === "error" ? "alert" : "status"} className={`rounded-md border-l-4 px-4 py-3 ${NOTICE_STYLES[tone]}`}>
+      {children}
+    </div>
+  );
+}
+
+export function Badge({ children, tone = "neutral" }: { children: ReactNode; tone?: "neutral" | "ochre" | "leaf" | "signal" }) {
+  const styles = {
+    neutral: "bg-basalt-100 text-basalt-800",
+    ochre: "bg-ochre-100 text-ochre-800",
+    leaf: "bg-leaf-100 text-leaf-700",
+    signal: "bg-signal-100 text-signal-700",
+  }[tone];
+  return <span className={`inline-block rounded px-2 py-0.5 text-sm font-semibold ${styles}`}>{children}</span>;
+}
+
+/** A plain table with accessible headers; pages pass header labels and rows. */
+export function SimpleTable({ caption, headers, rows }: { caption: string; headers: string[]; rows: ReactNode[][] }) {
+  return (
+    <div className="overflow-x-auto">
+      <table className="w-full border-collapse text-left">
+        <caption className="sr-only">{caption}</caption>
+        <thead>
+          <tr className="border-b-2 border-basalt-200">
+            {headers.map((h) => (
+              <th key={h} scope="col" className="px-3 py-2 font-semibold text-basalt-800">
+                {h}
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {rows.map((row, i) => (
+            <tr key={i} className="border-b border-basalt-100">
+              {row.map((cell, j) => (
+                <td key={j} className="px-3 py-2 align-top">
+                  {cell}
+                </td>
+              ))}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

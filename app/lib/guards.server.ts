@@ -1,0 +1,79 @@
+/**
+ * Every loader and action checks access here. Someone outside a study or lab
+ * gets 404, not 403, so the existence of a study does not leak.
+ */
+import { and, eq } from "drizzle-orm";
+import { data, redirect } from "react-router";
+import { db } from "~/db/client.server";
+import { enrollments, type Role, studies, studyCoordinators, studyReviewers } from "~/db/schema";
+import { sessionStorage } from "~/lib/session.server";
+import { loadSessionUser, type SessionUser } from "~/models/user.server";
+
+export function notFound(): never {
+  throw data("Not found", { status: 404 });
+}
+
+export async function getUser(request: Request): Promise<SessionUser | null> {
+  const session = await sessionStorage.getSession(request.headers.get("Cookie"));
+  const userId = session.get("userId");
+  return userId ? loadSessionUser(userId) : null;
+}
+
+export async function requireUser(request: Request): Promise<SessionUser> {
+  const user = await getUser(request);
+  if (!user) {
+    const url = new URL(request.url);
+    throw redirect(`/login?redirectTo=${encodeURIComponent(url.pathname + url.search)}`);
+  }
+  return user;
+}
+
+export async function requireRole(request: Request, ...roles: Role[]): Promise<SessionUser> {
+  const user = await requireUser(request);
+  if (!roles.includes(user.role)) notFound();
+  return user;
+}
+
+export type StudyAccess = "admin" | "coordinator" | "reviewer" | "analyst";
+
+/** How a user may see a study, or null when the study is none of theirs. */
+export async function studyAccessFor(user: SessionUser, studyId: number) {
+  const study = await db.query.studies.findFirst({ where: eq(studies.id, studyId) });
+  if (!study) return null;
+  if (user.role === "admin") return { study, access: "admin" as const, enrollment: null };
+  const coordinates =
+    study.ownerId === user.id ||
+    (await db.query.studyCoordinators.findFirst({
+      where: and(eq(studyCoordinators.studyId, studyId), eq(studyCoordinators.userId, user.id)),
+    }));
+  if (coordinates) return { study, access: "coordinator" as const, enrollment: null };
+  const reviews = await db.query.studyReviewers.findFirst({
+    where: and(eq(studyReviewers.studyId, studyId), eq(studyReviewers.userId, user.id)),
+  });
+  if (reviews) return { study, access: "reviewer" as const, enrollment: null };
+  for (const labId of user.labIds) {
+    const enrollment = await db.query.enrollments.findFirst({
+      where: and(eq(enrollments.studyId, studyId), eq(enrollments.labId, labId)),
+    });
+    if (enrollment) return { study, access: "analyst" as const, enrollment };
+  }
+  return null;
+}
+
+/** The user and their access to the study, or 404 when their access is not among `allowed`. */
+export async function requireStudyAccess(request: Request, studyIdParam: string | undefined, allowed: StudyAccess[]) {
+  const user = await requireUser(request);
+  const studyId = Number(studyIdParam);
+  if (!Number.isSafeInteger(studyId) || studyId <= 0) notFound();
+  const found = await studyAccessFor(user, studyId);
+  if (!found || !allowed.includes(found.access)) notFound();
+  return { user, ...found };
+}
+
+/** A lab the user belongs to, or 404. */
+export async function requireLabMember(request: Request, labId: number, { contact = false } = {}) {
+  const user = await requireUser(request);
+  const ids = contact ? user.contactLabIds : user.labIds;
+  if (!ids.includes(labId)) notFound();
+  return user;
+}

@@ -1,0 +1,38 @@
+import { and, count, eq, gt, lt } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { rateLimitHits } from "~/db/schema";
+
+export type RateLimit = { bucket: string; max: number; windowMs: number };
+
+export const SIGN_IN_FAILURES: RateLimit = { bucket: "sign-in", max: 5, windowMs: 15 * 60 * 1000 };
+
+/** Hits kept in the database, so the limit holds across app instances. */
+export async function hitCount(limit: RateLimit, key: string) {
+  const since = new Date(Date.now() - limit.windowMs);
+  const [row] = await db
+    .select({ hits: count() })
+    .from(rateLimitHits)
+    .where(and(eq(rateLimitHits.bucket, limit.bucket), eq(rateLimitHits.key, key), gt(rateLimitHits.createdAt, since)));
+  return row?.hits ?? 0;
+}
+
+export async function isLimited(limit: RateLimit, key: string) {
+  return (await hitCount(limit, key)) >= limit.max;
+}
+
+export async function recordHit(limit: RateLimit, key: string) {
+  await db.insert(rateLimitHits).values({ bucket: limit.bucket, key });
+  // Old hits no longer count; drop them so the table stays small.
+  await db
+    .delete(rateLimitHits)
+    .where(and(eq(rateLimitHits.bucket, limit.bucket), lt(rateLimitHits.createdAt, new Date(Date.now() - limit.windowMs))));
+}
+
+export async function clearHits(limit: RateLimit, key: string) {
+  await db.delete(rateLimitHits).where(and(eq(rateLimitHits.bucket, limit.bucket), eq(rateLimitHits.key, key)));
+}
+
+/** The client address as the proxy in front of us reports it; `local` when there is none. */
+export function clientAddress(request: Request) {
+  return request.headers.get("x-forwarded-for")?.split(",")[0]?.trim() || "local";
+}

@@ -1,0 +1,47 @@
+import { and, asc, eq } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { labMembers, labs, users } from "~/db/schema";
+import { AccountError, createUser } from "~/models/user.server";
+
+export type LabInput = Pick<typeof labs.$inferInsert, "name" | "address" | "contactName" | "contactEmail" | "accreditationNumber">;
+
+export async function listLabs() {
+  return db.select().from(labs).orderBy(asc(labs.name));
+}
+
+export async function createLab(input: LabInput) {
+  const existing = await db.query.labs.findFirst({ where: eq(labs.name, input.name) });
+  if (existing) throw new AccountError("name", "A lab with this name already exists.");
+  const [lab] = await db.insert(labs).values(input).returning();
+  return lab!;
+}
+
+export async function updateLab(labId: number, input: LabInput) {
+  await db.update(labs).set(input).where(eq(labs.id, labId));
+}
+
+export async function listColleagues(labId: number) {
+  return db
+    .select({ id: users.id, name: users.name, email: users.email, isContact: labMembers.isContact, disabledAt: users.disabledAt })
+    .from(labMembers)
+    .innerJoin(users, eq(users.id, labMembers.userId))
+    .where(eq(labMembers.labId, labId))
+    .orderBy(asc(users.name));
+}
+
+/** A lab contact adds a colleague as an analyst of their own lab. */
+export async function addColleague(labId: number, input: { email: string; name: string; password: string }) {
+  return createUser({ ...input, role: "analyst", labId });
+}
+
+/** Removes a colleague from the lab (the contact cannot remove themselves or another contact). */
+export async function removeColleague(labId: number, userId: number, byUserId: number) {
+  const membership = await db.query.labMembers.findFirst({
+    where: and(eq(labMembers.labId, labId), eq(labMembers.userId, userId)),
+  });
+  if (!membership) throw new AccountError("colleague", "That person is not a member of your lab.");
+  if (membership.isContact || userId === byUserId) {
+    throw new AccountError("colleague", "A lab contact cannot be removed here; ask an administrator.");
+  }
+  await db.delete(labMembers).where(and(eq(labMembers.labId, labId), eq(labMembers.userId, userId)));
+}

@@ -1,0 +1,115 @@
+import { and, asc, count, eq, inArray, or } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import {
+  cells,
+  enrollments,
+  labs,
+  materials,
+  responses,
+  studies,
+  studyCoordinators,
+  studyReviewers,
+} from "~/db/schema";
+import type { SessionUser } from "~/models/user.server";
+
+export const STATE_LABEL: Record<(typeof studies.$inferSelect)["state"], string> = {
+  draft: "Draft",
+  recruiting: "Recruiting labs",
+  testing: "Testing",
+  checking: "Checking data",
+  in_review: "In committee review",
+  published: "Published",
+  cancelled: "Cancelled",
+};
+
+/** Studies the user coordinates (every study for an admin). */
+export async function listCoordinatedStudies(user: SessionUser) {
+  const coordinated = db.select({ id: studyCoordinators.studyId }).from(studyCoordinators).where(eq(studyCoordinators.userId, user.id));
+  return db
+    .select()
+    .from(studies)
+    .where(user.role === "admin" ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated)))
+    .orderBy(asc(studies.code));
+}
+
+export async function listReviewedStudies(userId: number) {
+  return db
+    .select({ id: studies.id, code: studies.code, title: studies.title, state: studies.state })
+    .from(studyReviewers)
+    .innerJoin(studies, eq(studies.id, studyReviewers.studyId))
+    .where(eq(studyReviewers.userId, userId))
+    .orderBy(asc(studies.code));
+}
+
+/** The enrollments of the user's labs, with the study each belongs to. Only their own lab. */
+export async function listLabEnrollments(labIds: number[]) {
+  if (labIds.length === 0) return [];
+  return db
+    .select({
+      enrollmentId: enrollments.id,
+      enrollmentState: enrollments.state,
+      labCode: enrollments.labCode,
+      labName: labs.name,
+      studyId: studies.id,
+      studyCode: studies.code,
+      studyTitle: studies.title,
+      studyState: studies.state,
+      resultsDue: studies.resultsDue,
+    })
+    .from(enrollments)
+    .innerJoin(studies, eq(studies.id, enrollments.studyId))
+    .innerJoin(labs, eq(labs.id, enrollments.labId))
+    .where(inArray(enrollments.labId, labIds))
+    .orderBy(asc(studies.code));
+}
+
+/** Submitted and draft cell counts of one enrollment, for its own lab's to-do list. */
+export async function enrollmentProgress(enrollmentId: number) {
+  const rows = await db
+    .select({ status: cells.status, cells: count() })
+    .from(cells)
+    .where(eq(cells.enrollmentId, enrollmentId))
+    .groupBy(cells.status);
+  return Object.fromEntries(rows.map((r) => [r.status, r.cells])) as Partial<Record<"draft" | "submitted", number>>;
+}
+
+export type CellStatus = "not_started" | "draft" | "submitted" | "amended";
+
+/** Lab × material matrix of cell status for the coordinator's overview (one query per table, no per-row queries). */
+export async function studyMatrix(studyId: number) {
+  const [studyMaterials, studyResponses, studyEnrollments, studyCells] = await Promise.all([
+    db.select().from(materials).where(eq(materials.studyId, studyId)).orderBy(asc(materials.sortOrder), asc(materials.code)),
+    db.select().from(responses).where(eq(responses.studyId, studyId)).orderBy(asc(responses.sortOrder)),
+    db
+      .select({ id: enrollments.id, labCode: enrollments.labCode, state: enrollments.state, labName: labs.name })
+      .from(enrollments)
+      .innerJoin(labs, eq(labs.id, enrollments.labId))
+      .where(eq(enrollments.studyId, studyId))
+      .orderBy(asc(enrollments.labCode)),
+    db
+      .select({ enrollmentId: cells.enrollmentId, materialId: cells.materialId, status: cells.status, amended: cells.amended })
+      .from(cells)
+      .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+      .where(and(eq(enrollments.studyId, studyId))),
+  ]);
+  const statusByKey = new Map<string, CellStatus[]>();
+  for (const c of studyCells) {
+    const key = `${c.enrollmentId}:${c.materialId}`;
+    const status: CellStatus = c.status === "submitted" ? (c.amended ? "amended" : "submitted") : "draft";
+    statusByKey.set(key, [...(statusByKey.get(key) ?? []), status]);
+  }
+  const materialStatus = (enrollmentId: number, materialId: number): CellStatus => {
+    const statuses = statusByKey.get(`${enrollmentId}:${materialId}`) ?? [];
+    if (statuses.length < studyResponses.length || statuses.length === 0) return statuses.length ? "draft" : "not_started";
+    if (statuses.every((s) => s === "submitted" || s === "amended")) return statuses.includes("amended") ? "amended" : "submitted";
+    return "draft";
+  };
+  return {
+    materials: studyMaterials,
+    responses: studyResponses,
+    rows: studyEnrollments.map((e) => ({
+      ...e,
+      statuses: studyMaterials.map((m) => materialStatus(e.id, m.id)),
+    })),
+  };
+}

@@ -1,0 +1,75 @@
+import { data, isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration, useRouteLoaderData } from "react-router";
+import type { Route } from "./+types/root";
+import { AppHeader } from "~/components/AppHeader";
+import { getUser } from "~/lib/guards.server";
+import { isForeignOrigin } from "~/lib/origin-check.server";
+import { withSecurityHeaders } from "~/lib/security-headers.server";
+import "./app.css";
+
+const guardRequests: Route.MiddlewareFunction = async ({ request }, next) => {
+  if (isForeignOrigin(request)) {
+    return withSecurityHeaders(new Response("Cross-site request refused", { status: 403 }));
+  }
+  return withSecurityHeaders((await next()) as Response);
+};
+
+export const middleware: Route.MiddlewareFunction[] = [guardRequests];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await getUser(request);
+  return data({ user: user && { name: user.name, role: user.role } });
+}
+
+export const meta: Route.MetaFunction = () => [{ title: "Ringbatch" }];
+
+export function Layout({ children }: { children: React.ReactNode }) {
+  const rootData = useRouteLoaderData<typeof loader>("root");
+  return (
+    <html lang="en">
+      <head>
+        <meta charSet="utf-8" />
+        <meta name="viewport" content="width=device-width, initial-scale=1" />
+        <Meta />
+        <Links />
+      </head>
+      <body className="min-h-screen font-sans">
+        <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 focus:rounded focus:bg-white focus:px-3 focus:py-2">
+          Skip to content
+        </a>
+        <AppHeader user={rootData?.user ?? null} />
+        <main id="main" className="mx-auto max-w-6xl px-4 py-8">
+          {children}
+        </main>
+        <ScrollRestoration />
+        <Scripts />
+      </body>
+    </html>
+  );
+}
+
+export default function App() {
+  return <Outlet />;
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  let title = "Something went wrong";
+  let message = "The page could not be shown. Try again; if it keeps happening, tell the study coordinator.";
+  if (isRouteErrorResponse(error)) {
+    if (error.status === 404) {
+      title = "Not found";
+      message = "There is nothing here, or it is not yours to see.";
+    } else {
+      title = `Error ${error.status}`;
+      message = typeof error.data === "string" ? error.data : error.statusText;
+    }
+  }
+  return (
+    <div className="max-w-xl">
+      <h1 className="text-2xl font-bold">{title}</h1>
+      <p className="mt-2 text-basalt-700">{message}</p>
+      <a href="/" className="mt-4 inline-block font-semibold text-basalt-700 underline">
+        Go to your start page
+      </a>
+    </div>
+  );
+}

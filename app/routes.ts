@@ -1,0 +1,15 @@
+import { type RouteConfig, index, route } from "@react-router/dev/routes";
+
+export default [
+  index("routes/home.tsx"),
+  route("login", "routes/login.tsx"),
+  route("logout", "routes/logout.tsx"),
+  route("account", "routes/account.tsx"),
+  route("studies", "routes/studies.tsx"),
+  route("studies/:studyId", "routes/studies.$studyId.tsx"),
+  route("lab", "routes/lab.tsx"),
+  route("review", "routes/review.tsx"),
+  route("admin/users", "routes/admin.users.tsx"),
+  route("admin/labs", "routes/admin.labs.tsx"),
+  route("healthz", "routes/healthz.ts"),
+] satisfies RouteConfig;

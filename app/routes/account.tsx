@@ -1,0 +1,153 @@
+import { data, Form, redirect, useNavigation } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/account";
+import { Button, Card, Field, Notice, PageHeader, SimpleTable } from "~/components/ui";
+import { recordAudit } from "~/lib/audit.server";
+import { type FieldErrors, parseForm } from "~/lib/forms";
+import { requireLabMember, requireUser } from "~/lib/guards.server";
+import { endAllSessions, sessionStorage } from "~/lib/session.server";
+import { emailField, idField, nameField, newPasswordField } from "~/lib/validation";
+import { addColleague, listColleagues, removeColleague } from "~/models/lab.server";
+import { AccountError, changePassword, updateName } from "~/models/user.server";
+
+export const meta: Route.MetaFunction = () => [{ title: "Account · Ringbatch" }];
+
+const profileSchema = z.object({ name: nameField });
+const passwordSchema = z
+  .object({ currentPassword: z.string().min(1, { message: "Enter your current password." }), newPassword: newPasswordField, confirmPassword: z.string() })
+  .refine((v) => v.newPassword === v.confirmPassword, { path: ["confirmPassword"], message: "The two new passwords differ." });
+const colleagueSchema = z.object({ labId: idField, email: emailField, name: nameField, password: newPasswordField });
+const removeSchema = z.object({ labId: idField, userId: idField });
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const contactLabs = await Promise.all(user.contactLabIds.map(async (labId) => ({ labId, colleagues: await listColleagues(labId) })));
+  return { user, contactLabs };
+}
+
+type ActionResult = { intent: string; errors?: FieldErrors; values?: Record<string, string>; done?: string };
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const form = await request.formData();
+  const intent = String(form.get("intent"));
+  const fail = (errors: FieldErrors, values?: Record<string, string>) =>
+    data<ActionResult>({ intent, errors, values }, { status: 400 });
+  try {
+    switch (intent) {
+      case "profile": {
+        const parsed = parseForm(profileSchema, form);
+        if (!parsed.ok) return fail(parsed.errors, parsed.values);
+        await updateName(user.id, parsed.data.name);
+        return { intent, done: "Your name is saved." } satisfies ActionResult;
+      }
+      case "password": {
+        const parsed = parseForm(passwordSchema, form);
+        if (!parsed.ok) return fail(parsed.errors);
+        await changePassword(user.id, parsed.data.currentPassword, parsed.data.newPassword);
+        await recordAudit({ actorUserId: user.id, action: "password_changed", entityType: "user", entityId: user.id });
+        return signOutEverywhere(request, user.id);
+      }
+      case "sign-out-everywhere":
+        return signOutEverywhere(request, user.id);
+      case "add-colleague": {
+        const parsed = parseForm(colleagueSchema, form);
+        if (!parsed.ok) return fail(parsed.errors, parsed.values);
+        await requireLabMember(request, parsed.data.labId, { contact: true });
+        await addColleague(parsed.data.labId, parsed.data);
+        return { intent, done: `${parsed.data.name} can now sign in as an analyst of your lab.` } satisfies ActionResult;
+      }
+      case "remove-colleague": {
+        const parsed = parseForm(removeSchema, form);
+        if (!parsed.ok) return fail(parsed.errors);
+        await requireLabMember(request, parsed.data.labId, { contact: true });
+        await removeColleague(parsed.data.labId, parsed.data.userId, user.id);
+        return { intent, done: "Colleague removed from your lab." } satisfies ActionResult;
+      }
+      default:
+        return fail({ form: "Unknown action." });
+    }
+  } catch (error) {
+    if (error instanceof AccountError) return fail({ [error.field]: error.message }, Object.fromEntries([...form].filter(([k]) => !k.toLowerCase().includes("password")).map(([k, v]) => [k, String(v)])));
+    throw error;
+  }
+}
+
+async function signOutEverywhere(request: Request, userId: number) {
+  await endAllSessions(userId);
+  const session = await sessionStorage.getSession(request.headers.get("Cookie"));
+  return redirect("/login", { headers: { "Set-Cookie": await sessionStorage.destroySession(session) } });
+}
+
+export default function Account({ loaderData, actionData }: Route.ComponentProps) {
+  const { user, contactLabs } = loaderData;
+  const navigation = useNavigation();
+  const busy = navigation.state === "submitting";
+  const result = actionData as ActionResult | undefined;
+  const errorsFor = (intent: string) => (result?.intent === intent ? (result.errors ?? {}) : {});
+  const valuesFor = (intent: string) => (result?.intent === intent ? (result.values ?? {}) : {});
+  return (
+    <>
+      <PageHeader title="Your account" subtitle={user.email} />
+      <div className="grid gap-6 md:grid-cols-2">
+        <Card title="Name">
+          <Form method="post" className="flex flex-col gap-4">
+            <input type="hidden" name="intent" value="profile" />
+            {result?.intent === "profile" && result.done && <Notice tone="success">{result.done}</Notice>}
+            <Field label="Name" name="name" defaultValue={valuesFor("profile").name ?? user.name} error={errorsFor("profile").name} required />
+            <Button type="submit" disabled={busy}>Save name</Button>
+          </Form>
+        </Card>
+        <Card title="Password">
+          <Form method="post" className="flex flex-col gap-4">
+            <input type="hidden" name="intent" value="password" />
+            <Field label="Current password" name="currentPassword" type="password" autoComplete="current-password" error={errorsFor("password").currentPassword} required />
+            <Field label="New password" name="newPassword" type="password" autoComplete="new-password" hint="At least 12 characters. You will sign in again afterwards." error={errorsFor("password").newPassword} required />
+            <Field label="New password again" name="confirmPassword" type="password" autoComplete="new-password" error={errorsFor("password").confirmPassword} required />
+            <Button type="submit" disabled={busy}>Change password</Button>
+          </Form>
+        </Card>
+        <Card title="Sessions">
+          <p className="mb-4">Signed in on another device you no longer use? End every session, this one included.</p>
+          <Form method="post">
+            <input type="hidden" name="intent" value="sign-out-everywhere" />
+            <Button type="submit" variant="secondary" disabled={busy}>Sign out of every session</Button>
+          </Form>
+        </Card>
+      </div>
+      {contactLabs.map(({ labId, colleagues }) => (
+        <Card key={labId} title="Your lab's analysts" className="mt-6">
+          {result?.intent?.endsWith("colleague") && result.done && <Notice tone="success">{result.done}</Notice>}
+          {errorsFor("remove-colleague").colleague && <Notice tone="error">{errorsFor("remove-colleague").colleague}</Notice>}
+          <SimpleTable
+            caption="Analysts of your lab"
+            headers={["Name", "E-mail", "Role", ""]}
+            rows={colleagues.map((c) => [
+              c.name,
+              c.email,
+              c.isContact ? "Lab contact" : "Analyst",
+              c.isContact ? null : (
+                <Form method="post" key="remove">
+                  <input type="hidden" name="intent" value="remove-colleague" />
+                  <input type="hidden" name="labId" value={labId} />
+                  <input type="hidden" name="userId" value={c.id} />
+                  <Button type="submit" variant="secondary" aria-label={`Remove ${c.name}`}>Remove</Button>
+                </Form>
+              ),
+            ])}
+          />
+          <Form method="post" className="mt-4 grid gap-4 md:grid-cols-3">
+            <input type="hidden" name="intent" value="add-colleague" />
+            <input type="hidden" name="labId" value={labId} />
+            <Field label="Colleague's name" name="name" defaultValue={valuesFor("add-colleague").name} error={errorsFor("add-colleague").name} required />
+            <Field label="Colleague's e-mail" name="email" type="email" defaultValue={valuesFor("add-colleague").email} error={errorsFor("add-colleague").email} required />
+            <Field label="First password" name="password" type="password" autoComplete="new-password" hint="Tell them in person; they change it on their account page." error={errorsFor("add-colleague").password} required />
+            <div className="md:col-span-3">
+              <Button type="submit" disabled={busy}>Add analyst</Button>
+            </div>
+          </Form>
+        </Card>
+      ))}
+    </>
+  );
+}

@@ -1,0 +1,43 @@
+import type { Route } from "./+types/lab";
+import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
+import { requireRole } from "~/lib/guards.server";
+import { enrollmentProgress, listLabEnrollments, STATE_LABEL } from "~/models/study.server";
+
+export const meta: Route.MetaFunction = () => [{ title: "My lab · Ringbatch" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireRole(request, "analyst");
+  const enrollmentRows = await listLabEnrollments(user.labIds);
+  const withProgress = await Promise.all(
+    enrollmentRows.map(async (e) => ({ ...e, progress: await enrollmentProgress(e.enrollmentId) })),
+  );
+  return { enrollments: withProgress };
+}
+
+export default function LabHome({ loaderData }: Route.ComponentProps) {
+  return (
+    <>
+      <PageHeader title="My lab" subtitle="Studies your lab takes part in. You see your own lab's data only." />
+      <Card>
+        {loaderData.enrollments.length === 0 ? (
+          <p>Your lab is not enrolled in any study yet.</p>
+        ) : (
+          <SimpleTable
+            caption="Your lab's studies"
+            headers={["Study", "Lab", "Your lab code", "Study state", "Results submitted", "Results due"]}
+            rows={loaderData.enrollments.map((e) => [
+              <span key="s">
+                <span className="font-semibold">{e.studyCode}</span> — {e.studyTitle}
+              </span>,
+              e.labName,
+              e.labCode ?? "—",
+              <Badge key="state">{STATE_LABEL[e.studyState]}</Badge>,
+              `${e.progress.submitted ?? 0} cells`,
+              e.resultsDue ?? "—",
+            ])}
+          />
+        )}
+      </Card>
+    </>
+  );
+}

@@ -1,0 +1,39 @@
+import { Link } from "react-router";
+import type { Route } from "./+types/studies";
+import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
+import { requireRole } from "~/lib/guards.server";
+import { listCoordinatedStudies, STATE_LABEL } from "~/models/study.server";
+
+export const meta: Route.MetaFunction = () => [{ title: "Studies · Ringbatch" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireRole(request, "coordinator", "admin");
+  return { studies: await listCoordinatedStudies(user) };
+}
+
+export default function Studies({ loaderData }: Route.ComponentProps) {
+  return (
+    <>
+      <PageHeader title="Studies" subtitle="Interlaboratory studies you coordinate." />
+      <Card>
+        {loaderData.studies.length === 0 ? (
+          <p>No studies yet.</p>
+        ) : (
+          <SimpleTable
+            caption="Studies you coordinate"
+            headers={["Code", "Title", "Test method", "State", "Results due"]}
+            rows={loaderData.studies.map((s) => [
+              <Link key="code" to={`/studies/${s.id}`} className="font-semibold text-basalt-700 underline">
+                {s.code}
+              </Link>,
+              s.title,
+              s.testMethod,
+              <Badge key="state">{STATE_LABEL[s.state]}</Badge>,
+              s.resultsDue ?? "—",
+            ])}
+          />
+        )}
+      </Card>
+    </>
+  );
+}
