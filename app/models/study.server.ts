@@ -12,15 +12,6 @@ import {
 } from "~/db/schema";
 import type { SessionUser } from "~/models/user.server";
 
-export const STATE_LABEL: Record<(typeof studies.$inferSelect)["state"], string> = {
-  draft: "Draft",
-  recruiting: "Recruiting labs",
-  testing: "Testing",
-  checking: "Checking data",
-  in_review: "In committee review",
-  published: "Published",
-  cancelled: "Cancelled",
-};
 
 /** Studies the user coordinates (every study for an admin). */
 export async function listCoordinatedStudies(user: SessionUser) {

@@ -1,7 +1,8 @@
 import type { Route } from "./+types/lab";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireRole } from "~/lib/guards.server";
-import { enrollmentProgress, listLabEnrollments, STATE_LABEL } from "~/models/study.server";
+import { enrollmentProgress, listLabEnrollments } from "~/models/study.server";
+import { STATE_LABEL } from "~/lib/study-states";
 
 export const meta: Route.MetaFunction = () => [{ title: "My lab · Ringbatch" }];
 

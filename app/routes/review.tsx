@@ -1,7 +1,8 @@
 import type { Route } from "./+types/review";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireRole } from "~/lib/guards.server";
-import { listReviewedStudies, STATE_LABEL } from "~/models/study.server";
+import { listReviewedStudies } from "~/models/study.server";
+import { STATE_LABEL } from "~/lib/study-states";
 
 export const meta: Route.MetaFunction = () => [{ title: "Reviews · Ringbatch" }];
 

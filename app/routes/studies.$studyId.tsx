@@ -1,7 +1,8 @@
 import type { Route } from "./+types/studies.$studyId";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireStudyAccess } from "~/lib/guards.server";
-import { type CellStatus, STATE_LABEL, studyMatrix } from "~/models/study.server";
+import { type CellStatus, studyMatrix } from "~/models/study.server";
+import { STATE_LABEL } from "~/lib/study-states";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.study.code ?? "Study"} · Ringbatch` }];
 

@@ -2,7 +2,8 @@ import { Link } from "react-router";
 import type { Route } from "./+types/studies";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireRole } from "~/lib/guards.server";
-import { listCoordinatedStudies, STATE_LABEL } from "~/models/study.server";
+import { listCoordinatedStudies } from "~/models/study.server";
+import { STATE_LABEL } from "~/lib/study-states";
 
 export const meta: Route.MetaFunction = () => [{ title: "Studies · Ringbatch" }];
 
