@@ -1,0 +1,110 @@
+import { eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
+import { auditEvents, labMembers, labs, users } from "~/db/schema";
+import { getUser } from "~/lib/guards.server";
+import * as account from "~/routes/account";
+import * as adminLabs from "~/routes/admin.labs";
+import * as adminUsers from "~/routes/admin.users";
+import { DEMO_PASSWORD } from "../../seed/demo-data";
+import { seedDemo } from "../../seed/seed";
+import { useFreshDatabase } from "../support/database";
+import { demoCookie } from "../support/demo";
+import { call, get, post } from "../support/routes";
+
+beforeAll(async () => {
+  await useFreshDatabase();
+  await seedDemo(db);
+});
+
+describe("account page", () => {
+  it("changes the name, keeping the value on a validation error", async () => {
+    const cookie = await demoCookie("reviewer3@ringbatch.example");
+    const bad = await call(account.action, post("/account", { intent: "profile", name: "   " }, cookie));
+    expect(bad.status).toBe(400);
+    expect(bad.data.errors.name).toBe("Enter a name.");
+    const ok = await call(account.action, post("/account", { intent: "profile", name: "Dagny O." }, cookie));
+    expect(ok.data.done).toMatch(/saved/);
+    expect((await db.query.users.findFirst({ where: eq(users.email, "reviewer3@ringbatch.example") }))!.name).toBe("Dagny O.");
+  });
+
+  it("needs the current password to change it, then ends every session", async () => {
+    const cookie = await demoCookie("reviewer3@ringbatch.example");
+    const other = await demoCookie("reviewer3@ringbatch.example");
+    const fields = { intent: "password", currentPassword: "wrong-password", newPassword: "a-new-long-password", confirmPassword: "a-new-long-password" };
+    const wrong = await call(account.action, post("/account", fields, cookie));
+    expect(wrong.status).toBe(400);
+    expect(wrong.data.errors.currentPassword).toBe("The current password is not correct.");
+    const mismatch = await call(account.action, post("/account", { ...fields, currentPassword: DEMO_PASSWORD, confirmPassword: "different-password" }, cookie));
+    expect(mismatch.data.errors.confirmPassword).toBe("The two new passwords differ.");
+    const short = await call(account.action, post("/account", { ...fields, currentPassword: DEMO_PASSWORD, newPassword: "short", confirmPassword: "short" }, cookie));
+    expect(short.data.errors.newPassword).toBe("Use at least 12 characters.");
+    expect(await getUser(get("/", other))).not.toBeNull();
+    const changed = await call(account.action, post("/account", { ...fields, currentPassword: DEMO_PASSWORD }, cookie));
+    expect(changed.status).toBe(302);
+    expect(await getUser(get("/", other))).toBeNull();
+  });
+
+  it("signs out of every session", async () => {
+    const a = await demoCookie("analyst5@ringbatch.example");
+    const b = await demoCookie("analyst5@ringbatch.example");
+    await call(account.action, post("/account", { intent: "sign-out-everywhere" }, a));
+    expect(await getUser(get("/", a))).toBeNull();
+    expect(await getUser(get("/", b))).toBeNull();
+  });
+
+  it("lets a lab contact add and remove analysts of their own lab only", async () => {
+    const contact = await demoCookie("analyst1@ringbatch.example");
+    const lab1 = await db.query.labs.findFirst({ where: eq(labs.name, "Quarrow County Materials Lab") });
+    const lab2 = await db.query.labs.findFirst({ where: eq(labs.name, "Tessel Ready-Mix QC") });
+    const colleague = { intent: "add-colleague", labId: String(lab1!.id), name: "Nell Ferris", email: "nell@quarrow.example", password: "a-first-password" };
+    const invalid = await call(account.action, post("/account", { ...colleague, email: "not-an-email" }, contact));
+    expect(invalid.data.errors.email).toMatch(/e-mail address/);
+    expect(invalid.data.values.name).toBe("Nell Ferris");
+    const added = await call(account.action, post("/account", colleague, contact));
+    expect(added.data.done).toMatch(/Nell Ferris/);
+    const nell = await db.query.users.findFirst({ where: eq(users.email, "nell@quarrow.example") });
+    expect(nell!.role).toBe("analyst");
+    const duplicate = await call(account.action, post("/account", colleague, contact));
+    expect(duplicate.data.errors.email).toBe("An account with this e-mail already exists.");
+    const foreign = await call(account.action, post("/account", { ...colleague, labId: String(lab2!.id), email: "x@y.example" }, contact));
+    expect(foreign.status).toBe(404);
+    const removed = await call(account.action, post("/account", { intent: "remove-colleague", labId: String(lab1!.id), userId: String(nell!.id) }, contact));
+    expect(removed.data.done).toMatch(/removed/);
+    expect(await db.select().from(labMembers).where(eq(labMembers.userId, nell!.id))).toHaveLength(0);
+  });
+});
+
+describe("admin pages", () => {
+  it("creates an account, with a message beside each bad field", async () => {
+    const admin = await demoCookie("admin@ringbatch.example");
+    const bad = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "x", name: "", role: "wizard", password: "short", labId: "" }, admin));
+    expect(bad.status).toBe(400);
+    expect(Object.keys(bad.data.errors).sort()).toEqual(["email", "name", "password", "role"]);
+    const noLab = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "new@lab.example", name: "New Analyst", role: "analyst", password: "long-enough-pw", labId: "" }, admin));
+    expect(noLab.data.errors.labId).toMatch(/choose one/);
+    const ok = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "coord2@ringbatch.example", name: "Second Coordinator", role: "coordinator", password: "long-enough-pw", labId: "" }, admin));
+    expect(ok.data.done).toMatch(/created/);
+  });
+
+  it("disables an account and ends its sessions", async () => {
+    const admin = await demoCookie("admin@ringbatch.example");
+    const victim = await demoCookie("analyst6@ringbatch.example");
+    const user = await db.query.users.findFirst({ where: eq(users.email, "analyst6@ringbatch.example") });
+    const outcome = await call(adminUsers.action, post("/admin/users", { intent: "disable", userId: String(user!.id), disabled: "true" }, admin));
+    expect(outcome.data.done).toMatch(/disabled/);
+    expect(await getUser(get("/", victim))).toBeNull();
+    const audit = await db.select().from(auditEvents).where(eq(auditEvents.action, "user_disabled"));
+    expect(audit).toHaveLength(1);
+  });
+
+  it("adds a lab to the directory and refuses a duplicate name", async () => {
+    const admin = await demoCookie("admin@ringbatch.example");
+    const lab = { name: "Norrow Field Lab", address: "1 Test Road", contactName: "", contactEmail: "", accreditationNumber: "" };
+    expect((await call(adminLabs.action, post("/admin/labs", lab, admin))).data.done).toMatch(/Norrow/);
+    const again = await call(adminLabs.action, post("/admin/labs", lab, admin));
+    expect(again.data.errors.name).toBe("A lab with this name already exists.");
+    const badEmail = await call(adminLabs.action, post("/admin/labs", { ...lab, name: "Other", contactEmail: "nope" }, admin));
+    expect(badEmail.data.errors.contactEmail).toMatch(/e-mail/);
+  });
+});

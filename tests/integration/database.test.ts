@@ -1,0 +1,61 @@
+import { count, sql } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { databaseConfig, db } from "~/db/client.server";
+import { auditEvents, results, studies, users } from "~/db/schema";
+import { recordAudit } from "~/lib/audit.server";
+import * as healthz from "~/routes/healthz";
+import { seedDemo } from "../../seed/seed";
+import { useFreshDatabase } from "../support/database";
+import { call, get } from "../support/routes";
+
+beforeAll(async () => {
+  await useFreshDatabase();
+});
+
+describe("database", () => {
+  it("seeds the demo once: a second run changes nothing", async () => {
+    await seedDemo(db);
+    const counts = async () => [
+      (await db.select({ n: count() }).from(users))[0]!.n,
+      (await db.select({ n: count() }).from(studies))[0]!.n,
+      (await db.select({ n: count() }).from(results))[0]!.n,
+    ];
+    const first = await counts();
+    await seedDemo(db);
+    expect(await counts()).toEqual(first);
+    // 2 staff + 8 analysts + 3 reviewers; the checking study's 8 labs × 4 materials × 2 responses × 3 replicates
+    // plus the testing study's 4 submitted labs × 2 × 2 × 3 and 2 draft labs × 1 × 2 × 3.
+    expect(first).toEqual([13, 2, 192 + 48 + 12]);
+  });
+
+  it("keeps foreign keys on and WAL for the file database", async () => {
+    expect((await db.all<{ foreign_keys: number }>(sql`PRAGMA foreign_keys`))[0]!.foreign_keys).toBe(1);
+    expect((await db.all<{ journal_mode: string }>(sql`PRAGMA journal_mode`))[0]!.journal_mode).toBe("wal");
+    await expect(db.insert(results).values({ cellId: 999999, replicate: 1, value: 3 })).rejects.toThrow();
+  });
+
+  it("refuses UPDATE and DELETE on the audit trail", async () => {
+    await recordAudit({ actorUserId: null, action: "test_event", entityType: "test" });
+    // drizzle wraps SQLite's error; the trigger's message is on the cause.
+    const refusedByTrigger = { cause: expect.objectContaining({ message: expect.stringMatching(/append-only/) }) };
+    await expect(db.update(auditEvents).set({ action: "changed" })).rejects.toMatchObject(refusedByTrigger);
+    await expect(db.delete(auditEvents)).rejects.toMatchObject(refusedByTrigger);
+    expect((await db.select().from(auditEvents)).some((e) => e.action === "test_event")).toBe(true);
+  });
+
+  it("reads a libSQL server address and token from the environment", () => {
+    expect(databaseConfig({ DATABASE_URL: "libsql://ringbatch.example.org", DATABASE_AUTH_TOKEN: "t0k" })).toEqual({
+      url: "libsql://ringbatch.example.org",
+      authToken: "t0k",
+      isLocalFile: false,
+    });
+    expect(databaseConfig({}).url).toBe("file:data/ringbatch.db");
+    expect(() => databaseConfig({ DATABASE_URL: "postgres://x" })).toThrow(/DATABASE_URL/);
+  });
+
+  it("reports health with the database reachable", async () => {
+    const outcome = await call(healthz.loader, get("/healthz"));
+    expect(outcome.status).toBe(200);
+    expect(outcome.data).toEqual({ status: "ok", database: "reachable" });
+  });
+});

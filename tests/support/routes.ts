@@ -1,0 +1,58 @@
+/**
+ * Calls a route module's loader or action the way the framework does, with a
+ * real Request, and turns whatever it returns or throws into { status, data,
+ * headers } so tests can assert on it.
+ */
+import { sessionStorage } from "~/lib/session.server";
+
+type RouteFunction = (args: never) => unknown;
+
+export type RouteOutcome = { status: number; data: any; headers: Headers };
+
+export async function call(fn: RouteFunction, request: Request, params: Record<string, string> = {}): Promise<RouteOutcome> {
+  try {
+    return toOutcome(await (fn as (args: unknown) => unknown)({ request, params, context: {} }));
+  } catch (thrown) {
+    return toOutcome(thrown);
+  }
+}
+
+async function toOutcome(value: unknown): Promise<RouteOutcome> {
+  if (value instanceof Response) {
+    return { status: value.status, data: value.headers.get("Content-Type")?.includes("json") ? await value.clone().json() : null, headers: value.headers };
+  }
+  if (value && typeof value === "object" && (value as { type?: string }).type === "DataWithResponseInit") {
+    const { data, init } = value as { data: unknown; init?: ResponseInit };
+    return { status: init?.status ?? 200, data, headers: new Headers(init?.headers) };
+  }
+  if (value instanceof Error) throw value;
+  return { status: 200, data: value, headers: new Headers() };
+}
+
+const ORIGIN = "http://ringbatch.test";
+
+export function get(path: string, cookie?: string) {
+  return new Request(ORIGIN + path, { headers: cookie ? { Cookie: cookie } : {} });
+}
+
+export function post(path: string, fields: Record<string, string>, cookie?: string) {
+  return new Request(ORIGIN + path, {
+    method: "POST",
+    headers: { "Content-Type": "application/x-www-form-urlencoded", Origin: ORIGIN, ...(cookie ? { Cookie: cookie } : {}) },
+    body: new URLSearchParams(fields),
+  });
+}
+
+/** The Cookie header a browser would send back after this Set-Cookie. */
+export function cookieFrom(headers: Headers) {
+  const setCookie = headers.get("Set-Cookie");
+  if (!setCookie) throw new Error("No Set-Cookie header");
+  return setCookie.split(";")[0]!;
+}
+
+/** A signed-in session for a user, made through the same storage as the sign-in form. */
+export async function sessionCookieFor(userId: number) {
+  const session = await sessionStorage.getSession();
+  session.set("userId", userId);
+  return cookieFrom(new Headers({ "Set-Cookie": await sessionStorage.commitSession(session) }));
+}
