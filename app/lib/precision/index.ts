@@ -1,0 +1,40 @@
+// Precision engine: pure functions, no React, router or database, shared by pages, API routes, the CLI and tests.
+export { analyzeStudy } from "./analyzeStudy";
+export { analyzeGroup, MIN_LABS, MIN_REPLICATES } from "./analyzeGroup";
+export { parseResultsCsv, RESULT_COLUMNS, type ParsedResults } from "./csv";
+export { isInputError } from "./problems";
+export { SIGNIFICANCE_LEVELS, isSignificanceLevel, assertSignificanceLevel, consistencyTails, type SignificanceLevel } from "./significance";
+export { studentTQuantile, fQuantile } from "./distributions";
+export { cellStatistics, type CellStatistics } from "./cellStatistics";
+export {
+  averageOfCellAverages,
+  standardDeviationOfCellAverages,
+  replicateWeightedMean,
+  averageReplicates,
+  mostFrequentReplicates,
+} from "./cellAverages";
+export { repeatabilityStandardDeviation, pooledRepeatabilityStandardDeviation } from "./repeatability";
+export {
+  betweenLabVariance,
+  betweenCellVariance,
+  generalBetweenLabVariance,
+  betweenLabStandardDeviation,
+  reproducibilityStandardDeviation,
+} from "./reproducibility";
+export { precisionLimit, coefficientOfVariation, c670Limits, type C670Limits } from "./limits";
+export { hStatistic, kStatistic, hCritical, kCritical } from "./consistency";
+export { cochranC, cochranCritical } from "./cochran";
+export { grubbsSingle, grubbsSingleCritical, grubbsDouble, type GrubbsSingleStatistic, type GrubbsDoubleStatistic } from "./grubbs";
+export { grubbsDoubleCritical, GRUBBS_DOUBLE_MIN_LABS, GRUBBS_DOUBLE_MAX_LABS } from "./grubbsDoubleCritical";
+export { outlierClass, type OutlierClass } from "./outlierClass";
+export {
+  levelFit,
+  predictLevelModel,
+  LEVEL_FIT_MIN_MATERIALS,
+  type LevelFitCandidate,
+  type LevelFitResult,
+  type LevelModel,
+  type LevelPoint,
+  type LevelRelation,
+} from "./levelFit";
+export type * from "./types";
