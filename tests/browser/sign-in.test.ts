@@ -1,0 +1,108 @@
+import type { Browser } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DEMO_PASSWORD } from "../../seed/demo-data";
+import { expectAccessible, launchBrowser, signInAs } from "../support/browser";
+import { type RunningServer, startServer } from "../support/server";
+
+let server: RunningServer;
+let browser: Browser;
+
+beforeAll(async () => {
+  [server, browser] = await Promise.all([startServer(), launchBrowser()]);
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await server?.stop();
+});
+
+const HOMES = [
+  { email: "admin@ringbatch.example", path: "/admin/users", heading: "Users", more: ["/admin/labs", "/studies", "/account"] },
+  { email: "coordinator@ringbatch.example", path: "/studies", heading: "Studies", more: ["/studies/1", "/account"] },
+  { email: "analyst1@ringbatch.example", path: "/lab", heading: "My lab", more: ["/account"] },
+  { email: "reviewer1@ringbatch.example", path: "/review", heading: "Reviews", more: ["/account"] },
+];
+
+describe("signing in, in the browser", () => {
+  it("shows the sign-in page accessibly", async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await page.goto(server.url);
+    expect(new URL(page.url()).pathname).toBe("/login");
+    await expectAccessible(page);
+    await context.close();
+  });
+
+  for (const home of HOMES) {
+    it(`lands ${home.email} on ${home.path}, and every page reached is accessible`, async () => {
+      const context = await browser.newContext();
+      const page = await context.newPage();
+      await signInAs(page, server.url, home.email, DEMO_PASSWORD);
+      await page.waitForURL(`${server.url}${home.path}`);
+      await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe(home.heading);
+      await expectAccessible(page);
+      for (const path of home.more) {
+        const response = await page.goto(server.url + path);
+        expect(response?.status(), path).toBe(200);
+        await expectAccessible(page);
+      }
+      await context.close();
+    });
+  }
+
+  it("shows the generic error for a wrong password, beside the form", async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInAs(page, server.url, "coordinator@ringbatch.example", "not-the-password");
+    await expect.poll(() => page.getByRole("alert").textContent()).toBe("That e-mail and password do not match an active account.");
+    expect(new URL(page.url()).pathname).toBe("/login");
+    await expectAccessible(page);
+    await context.close();
+  });
+
+  it("answers 404 when an analyst opens the coordinator's studies", async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInAs(page, server.url, "analyst2@ringbatch.example", DEMO_PASSWORD);
+    await page.waitForURL(`${server.url}/lab`);
+    const response = await page.goto(`${server.url}/studies`);
+    expect(response?.status()).toBe(404);
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Not found");
+    await context.close();
+  });
+
+  it("ends the session at sign-out: the old cookie no longer works", async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInAs(page, server.url, "coordinator@ringbatch.example", DEMO_PASSWORD);
+    await page.waitForURL(`${server.url}/studies`);
+    const [sessionCookie] = (await context.cookies()).filter((c) => c.name === "__ringbatch_session");
+    expect(sessionCookie?.httpOnly).toBe(true);
+    await page.getByRole("button", { name: "Sign out" }).click();
+    await page.waitForURL(`${server.url}/login`);
+    // Replay the old cookie, as someone who copied it would.
+    const replay = await fetch(`${server.url}/studies`, {
+      headers: { Cookie: `${sessionCookie!.name}=${sessionCookie!.value}` },
+      redirect: "manual",
+    });
+    expect(replay.status).toBe(302);
+    expect(replay.headers.get("Location")).toBe("/login?redirectTo=%2Fstudies");
+    await context.close();
+  });
+
+  it("sends the security headers and refuses a cross-site form post", async () => {
+    const page = await fetch(`${server.url}/login`);
+    expect(page.headers.get("Content-Security-Policy")).toContain("frame-ancestors 'none'");
+    expect(page.headers.get("X-Content-Type-Options")).toBe("nosniff");
+    expect(page.headers.get("Referrer-Policy")).toBe("same-origin");
+    const crossSite = await fetch(`${server.url}/login`, {
+      method: "POST",
+      headers: { Origin: "https://elsewhere.example", "Content-Type": "application/x-www-form-urlencoded" },
+      body: "email=coordinator%40ringbatch.example&password=ringbatch-demo",
+      redirect: "manual",
+    });
+    // Refused before any action runs (the framework's own origin check or ours), and no session is made.
+    expect([400, 403]).toContain(crossSite.status);
+    expect(crossSite.headers.get("Set-Cookie")).toBeNull();
+  });
+});

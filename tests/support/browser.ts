@@ -1,0 +1,34 @@
+import AxeBuilder from "@axe-core/playwright";
+import { type Browser, chromium, type Page } from "playwright-core";
+import { expect } from "vitest";
+
+/** Debian's Chromium, headless, with background networking off (this network is closed). */
+export function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
+    headless: true,
+    args: [
+      "--no-sandbox",
+      "--disable-gpu",
+      "--disable-background-networking",
+      "--disable-component-update",
+      "--disable-sync",
+      "--no-first-run",
+      "--disable-quic",
+    ],
+  });
+}
+
+export async function signInAs(page: Page, baseUrl: string, email: string, password: string) {
+  await page.goto(`${baseUrl}/login`);
+  await page.getByLabel("E-mail").fill(email);
+  await page.getByLabel("Password").fill(password);
+  await page.getByRole("button", { name: "Sign in" }).click();
+}
+
+/** No serious or critical accessibility violation (axe-core's WCAG 2 A/AA rules) on the page as shown. */
+export async function expectAccessible(page: Page) {
+  const { violations } = await new AxeBuilder({ page }).withTags(["wcag2a", "wcag2aa", "wcag21a", "wcag21aa"]).analyze();
+  const serious = violations.filter((v) => v.impact === "serious" || v.impact === "critical");
+  expect(serious.map((v) => `${v.id}: ${v.nodes.map((n) => n.target.join(" ")).join(", ")}`), `on ${page.url()}`).toEqual([]);
+}

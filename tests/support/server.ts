@@ -1,0 +1,56 @@
+/**
+ * Starts the real built server (react-router-serve on build/) against a fresh,
+ * migrated and seeded SQLite file, on a free localhost port.
+ */
+import { type ChildProcess, spawn, spawnSync } from "node:child_process";
+import { existsSync, mkdtempSync } from "node:fs";
+import { createServer } from "node:net";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+
+async function freePort() {
+  return new Promise<number>((resolve, reject) => {
+    const probe = createServer();
+    probe.once("error", reject);
+    probe.listen(0, "127.0.0.1", () => {
+      const { port } = probe.address() as { port: number };
+      probe.close(() => resolve(port));
+    });
+  });
+}
+
+export type RunningServer = { url: string; databaseUrl: string; stop: () => Promise<void> };
+
+export async function startServer(extraEnv: Record<string, string> = {}): Promise<RunningServer> {
+  if (!existsSync("build/server/index.js")) throw new Error("No build found: run `npm run build` before the browser tests.");
+  const databaseUrl = `file:${join(mkdtempSync(join(tmpdir(), "ringbatch-e2e-")), "e2e.db")}`;
+  const port = await freePort();
+  const env = { ...process.env, NODE_ENV: "production", DATABASE_URL: databaseUrl, PORT: String(port), ...extraEnv };
+  const setup = spawnSync("node_modules/.bin/tsx", ["scripts/db-setup.ts"], { env, encoding: "utf8" });
+  if (setup.status !== 0) throw new Error(`Seeding failed: ${setup.stderr}`);
+  const child: ChildProcess = spawn("node_modules/.bin/react-router-serve", ["./build/server/index.js"], { env, stdio: ["ignore", "pipe", "pipe"] });
+  let output = "";
+  child.stdout!.on("data", (chunk) => (output += chunk));
+  child.stderr!.on("data", (chunk) => (output += chunk));
+  const url = `http://localhost:${port}`;
+  const deadline = Date.now() + 20_000;
+  while (true) {
+    try {
+      if ((await fetch(`${url}/healthz`)).ok) break;
+    } catch {
+      // not listening yet
+    }
+    if (child.exitCode !== null || Date.now() > deadline) throw new Error(`Server did not start:\n${output}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  return {
+    url,
+    databaseUrl,
+    stop: () =>
+      new Promise<void>((resolve) => {
+        if (child.exitCode !== null) return resolve();
+        child.once("exit", () => resolve());
+        child.kill("SIGTERM");
+      }),
+  };
+}
