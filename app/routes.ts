@@ -11,5 +11,6 @@ export default [
   route("review", "routes/review.tsx"),
   route("admin/users", "routes/admin.users.tsx"),
   route("admin/labs", "routes/admin.labs.tsx"),
+  route("files/:fileId", "routes/files.$fileId.ts"),
   route("healthz", "routes/healthz.ts"),
 ] satisfies RouteConfig;

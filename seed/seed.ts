@@ -89,7 +89,7 @@ export async function seedDemo(db: Database) {
 
   await userId(DEMO_PEOPLE.admin.email, DEMO_PEOPLE.admin.name, "admin");
   const coordinatorId = await userId(DEMO_PEOPLE.coordinator.email, DEMO_PEOPLE.coordinator.name, "coordinator");
-  const reviewerIds = [];
+  const reviewerIds: number[] = [];
   for (const r of DEMO_PEOPLE.reviewers) reviewerIds.push(await userId(r.email, r.name, "reviewer"));
 
   const labIds: number[] = [];
