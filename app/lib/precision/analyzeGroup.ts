@@ -178,18 +178,22 @@ export function analyzeGroup(
   alpha: SignificanceLevel,
 ): { result: GroupResult; problems: Problem[] } {
   const cells: Cell[] = [];
+  const damagedLabs = new Set<string>();
+  const inputProblems = [...group.problems];
   for (const cell of group.cells.values()) {
     if (cell.values.length > 0) cells.push({ lab: cell.lab, ...cellStatistics(cell.values) });
+    if (cell.problems.length > 0) damagedLabs.add(cell.lab);
+    inputProblems.push(...cell.problems);
   }
-  const inputProblems = [...group.problems, ...[...group.cells.values()].flatMap((cell) => cell.problems)];
   const problems: Problem[] = [];
   if (cells.length < MIN_LABS) {
     problems.push(
       groupProblem(group, "too-few-labs", `precision statistics need at least ${MIN_LABS} labs with results; this group has ${cells.length}`),
     );
   }
+  // A damaged cell's shortfall is already explained by its row problems.
   for (const cell of cells) {
-    if (cell.n < MIN_REPLICATES) {
+    if (cell.n < MIN_REPLICATES && !damagedLabs.has(cell.lab)) {
       problems.push(
         groupProblem(
           group,
