@@ -22,13 +22,14 @@ async function freePort() {
 export type RunningServer = { url: string; databaseUrl: string; stop: () => Promise<void> };
 
 export async function startServer(extraEnv: Record<string, string> = {}): Promise<RunningServer> {
-  if (!existsSync("build/server/index.js")) throw new Error("No build found: run `npm run build` before the browser tests.");
+  const serverBuild = join(process.env.BUILD_DIR ?? "build", "server/index.js");
+  if (!existsSync(serverBuild)) throw new Error(`No build at ${serverBuild}: run \`npm run build\` before the browser tests.`);
   const databaseUrl = `file:${join(mkdtempSync(join(tmpdir(), "ringbatch-e2e-")), "e2e.db")}`;
   const port = await freePort();
   const env = { ...process.env, NODE_ENV: "production", DATABASE_URL: databaseUrl, PORT: String(port), ...extraEnv };
   const setup = spawnSync("node_modules/.bin/tsx", ["scripts/db-setup.ts"], { env, encoding: "utf8" });
   if (setup.status !== 0) throw new Error(`Seeding failed: ${setup.stderr}`);
-  const child: ChildProcess = spawn("node_modules/.bin/react-router-serve", ["./build/server/index.js"], { env, stdio: ["ignore", "pipe", "pipe"] });
+  const child: ChildProcess = spawn("node_modules/.bin/react-router-serve", [serverBuild], { env, stdio: ["ignore", "pipe", "pipe"] });
   let output = "";
   child.stdout!.on("data", (chunk) => (output += chunk));
   child.stderr!.on("data", (chunk) => (output += chunk));
