@@ -13,4 +13,10 @@ export default [
   route("admin/labs", "routes/admin.labs.tsx"),
   route("files/:fileId", "routes/files.$fileId.ts"),
   route("healthz", "routes/healthz.ts"),
+  route("api/v1/healthz", "routes/api.v1.healthz.ts"),
+  route("api/v1/studies", "routes/api.v1.studies.ts"),
+  route("api/v1/studies/:studyId", "routes/api.v1.studies.$studyId.ts"),
+  route("api/v1/studies/:studyId/results", "routes/api.v1.studies.$studyId.results.ts"),
+  route("api/v1/studies/:studyId/results.csv", "routes/api.v1.studies.$studyId.results-csv.ts"),
+  route("api/v1/studies/:studyId/precision", "routes/api.v1.studies.$studyId.precision.ts"),
 ] satisfies RouteConfig;

@@ -1,0 +1,93 @@
+/**
+ * Feeds a study's submitted results and the coordinator's cell decisions to
+ * the precision engine. Results are identified by blind lab codes only, so
+ * the same figures can go to coordinators and reviewers alike.
+ */
+import { and, asc, eq } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { cellDecisions, cells, enrollments, labs, materials, responses, results, studies } from "~/db/schema";
+import { analyzeStudy, type ExcludedCell, type StudyAnalysis } from "~/lib/precision";
+
+type Study = typeof studies.$inferSelect;
+
+export type StudyResultRow = {
+  cellId: number;
+  labCode: string;
+  labName: string;
+  material: string;
+  response: string;
+  replicate: number;
+  value: number;
+  testedOn: string | null;
+  operator: string;
+  status: "draft" | "submitted";
+  amended: boolean;
+};
+
+/** Every result of the study in long form, ordered by lab code, material, response and replicate. */
+export async function studyResultRows(studyId: number, { submittedOnly = false } = {}): Promise<StudyResultRow[]> {
+  const rows = await db
+    .select({
+      cellId: cells.id,
+      labCode: enrollments.labCode,
+      labName: labs.name,
+      material: materials.code,
+      response: responses.key,
+      replicate: results.replicate,
+      value: results.value,
+      testedOn: results.testedOn,
+      operator: results.operator,
+      status: cells.status,
+      amended: cells.amended,
+    })
+    .from(results)
+    .innerJoin(cells, eq(cells.id, results.cellId))
+    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+    .innerJoin(labs, eq(labs.id, enrollments.labId))
+    .innerJoin(materials, eq(materials.id, cells.materialId))
+    .innerJoin(responses, eq(responses.id, cells.responseId))
+    .where(and(eq(enrollments.studyId, studyId), submittedOnly ? eq(cells.status, "submitted") : undefined))
+    .orderBy(asc(enrollments.labCode), asc(materials.sortOrder), asc(responses.sortOrder), asc(results.replicate));
+  return rows.map((r) => ({ ...r, labCode: r.labCode ?? "—" }));
+}
+
+/** The study's excluded cells, by lab code, as the engine takes them. */
+export async function excludedCells(studyId: number): Promise<ExcludedCell[]> {
+  const rows = await db
+    .select({ lab: enrollments.labCode, material: materials.code, response: responses.key, reason: cellDecisions.reason })
+    .from(cellDecisions)
+    .innerJoin(cells, eq(cells.id, cellDecisions.cellId))
+    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+    .innerJoin(materials, eq(materials.id, cells.materialId))
+    .innerJoin(responses, eq(responses.id, cells.responseId))
+    .where(and(eq(enrollments.studyId, studyId), eq(cellDecisions.decision, "excluded")));
+  return rows.map((r) => ({ ...r, lab: r.lab ?? "—" }));
+}
+
+// Analyses are pure functions of (data version, alpha, exclusions): cache them by that key.
+// A stale entry can never be served, because any change of results or decisions bumps data_version.
+const cache = new Map<string, StudyAnalysis>();
+const CACHE_LIMIT = 50;
+
+/**
+ * The precision analysis of a study's submitted results with its decisions
+ * applied, or with `exclusions` instead (a what-if before a decision is saved).
+ */
+export async function studyAnalysis(study: Study, options: { alpha?: number; exclusions?: ExcludedCell[] } = {}) {
+  const alpha = options.alpha ?? study.significanceLevel;
+  const exclusions = options.exclusions ?? (await excludedCells(study.id));
+  const key = JSON.stringify([study.id, study.dataVersion, alpha, exclusions.map((e) => [e.lab, e.material, e.response])]);
+  const hit = cache.get(key);
+  if (hit) return hit;
+  const [rows, kinds] = await Promise.all([
+    studyResultRows(study.id, { submittedOnly: true }),
+    db.select({ key: responses.key, kind: responses.kind }).from(responses).where(eq(responses.studyId, study.id)),
+  ]);
+  const analysis = analyzeStudy(
+    rows.map((r) => ({ lab: r.labCode, material: r.material, response: r.response, replicate: r.replicate, value: r.value })),
+    { alpha, excludedCells: exclusions, responseKinds: Object.fromEntries(kinds.map((k) => [k.key, k.kind])) },
+  );
+  if (cache.size >= CACHE_LIMIT) cache.delete(cache.keys().next().value!);
+  cache.set(key, analysis);
+  return analysis;
+}
