@@ -1,13 +1,15 @@
 import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/account";
-import { Button, Card, Field, Notice, PageHeader, SimpleTable } from "~/components/ui";
+import { Button, Card, Field, Notice, PageHeader, SelectField, SimpleTable } from "~/components/ui";
 import { recordAudit } from "~/lib/audit.server";
 import { type FieldErrors, parseForm } from "~/lib/forms";
 import { requireLabMember, requireUser } from "~/lib/guards.server";
 import { endAllSessions, sessionStorage } from "~/lib/session.server";
 import { emailField, idField, nameField, newPasswordField } from "~/lib/validation";
+import { createApiToken, listApiTokens, revokeApiToken } from "~/models/api-token.server";
 import { addColleague, listColleagues, removeColleague } from "~/models/lab.server";
+import { listCoordinatedStudies, listLabEnrollments, listReviewedStudies } from "~/models/study.server";
 import { AccountError, changePassword, updateName } from "~/models/user.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Account · Ringbatch" }];
@@ -18,14 +20,34 @@ const passwordSchema = z
   .refine((v) => v.newPassword === v.confirmPassword, { path: ["confirmPassword"], message: "The two new passwords differ." });
 const colleagueSchema = z.object({ labId: idField, email: emailField, name: nameField, password: newPasswordField });
 const removeSchema = z.object({ labId: idField, userId: idField });
+// The target is "enrollment:<id>" for results:write or "study:<id>" for study:read.
+const tokenSchema = z.object({
+  tokenName: nameField,
+  target: z.string().regex(/^(enrollment|study):\d+$/, { message: "Choose what the token may reach." }),
+});
+const revokeSchema = z.object({ tokenId: idField });
+
+/** What the user's tokens may be made for: their lab's enrollments (write results) and the studies they see (read). */
+async function tokenTargets(user: Awaited<ReturnType<typeof requireUser>>) {
+  const [labStudies, studies] = await Promise.all([
+    listLabEnrollments(user.labIds),
+    user.role === "reviewer" ? listReviewedStudies(user.id) : user.role === "analyst" ? Promise.resolve([]) : listCoordinatedStudies(user),
+  ]);
+  return [
+    ...labStudies.map((e) => ({ value: `enrollment:${e.enrollmentId}`, label: `Write results: ${e.studyCode} (${e.labName})` })),
+    ...labStudies.map((e) => ({ value: `study:${e.studyId}`, label: `Read: ${e.studyCode}` })),
+    ...studies.map((s) => ({ value: `study:${s.id}`, label: `Read: ${s.code}` })),
+  ];
+}
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const contactLabs = await Promise.all(user.contactLabIds.map(async (labId) => ({ labId, colleagues: await listColleagues(labId) })));
-  return { user, contactLabs };
+  const [tokens, targets] = await Promise.all([listApiTokens(user.id), tokenTargets(user)]);
+  return { user, contactLabs, tokens, targets };
 }
 
-type ActionResult = { intent: string; errors?: FieldErrors; values?: Record<string, string>; done?: string };
+type ActionResult = { intent: string; errors?: FieldErrors; values?: Record<string, string>; done?: string; token?: string };
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
@@ -64,6 +86,24 @@ export async function action({ request }: Route.ActionArgs) {
         await removeColleague(parsed.data.labId, parsed.data.userId, user.id);
         return { intent, done: "Colleague removed from your lab." } satisfies ActionResult;
       }
+      case "create-token": {
+        const parsed = parseForm(tokenSchema, form);
+        if (!parsed.ok) return fail(parsed.errors, parsed.values);
+        const [kind, id] = parsed.data.target.split(":");
+        const { token } = await createApiToken(user, {
+          name: parsed.data.tokenName,
+          scope: kind === "enrollment" ? "results:write" : "study:read",
+          enrollmentId: kind === "enrollment" ? Number(id) : null,
+          studyId: kind === "study" ? Number(id) : null,
+        });
+        return { intent, token, done: "Token created. Copy it now: it is shown only once." } satisfies ActionResult;
+      }
+      case "revoke-token": {
+        const parsed = parseForm(revokeSchema, form);
+        if (!parsed.ok) return fail(parsed.errors);
+        await revokeApiToken(user.id, parsed.data.tokenId);
+        return { intent, done: "Token revoked: it no longer works." } satisfies ActionResult;
+      }
       default:
         return fail({ form: "Unknown action." });
     }
@@ -80,7 +120,7 @@ async function signOutEverywhere(request: Request, userId: number) {
 }
 
 export default function Account({ loaderData, actionData }: Route.ComponentProps) {
-  const { user, contactLabs } = loaderData;
+  const { user, contactLabs, tokens, targets } = loaderData;
   const navigation = useNavigation();
   const busy = navigation.state === "submitting";
   const result = actionData as ActionResult | undefined;
@@ -115,6 +155,51 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
           </Form>
         </Card>
       </div>
+      <Card title="API tokens" className="mt-6">
+        <p className="mb-4">
+          Scripts and lab information systems use a token instead of your password. A token acts as you, for one
+          study only: it either writes your lab's draft results or reads the study. See the API section of the README.
+        </p>
+        {result?.intent === "create-token" && result.token && (
+          <div className="mb-4">
+            <Notice tone="success">{result.done}</Notice>
+            <label htmlFor="new-token" className="mt-2 block font-semibold">New token</label>
+            <input id="new-token" readOnly value={result.token} className="w-full rounded-md border border-basalt-200 bg-basalt-50 px-3 py-2 font-mono text-sm" />
+          </div>
+        )}
+        {result?.intent === "revoke-token" && result.done && <Notice tone="success">{result.done}</Notice>}
+        {tokens.length > 0 && (
+          <SimpleTable
+            caption="Your API tokens"
+            headers={["Name", "Scope", "Study", "Last used", ""]}
+            rows={tokens.map((t) => [
+              t.name,
+              t.scope,
+              t.studyCode ?? "—",
+              t.revokedAt ? "Revoked" : t.lastUsedAt ? new Date(t.lastUsedAt).toISOString().slice(0, 16).replace("T", " ") : "Never",
+              t.revokedAt ? null : (
+                <Form method="post" key="revoke">
+                  <input type="hidden" name="intent" value="revoke-token" />
+                  <input type="hidden" name="tokenId" value={t.id} />
+                  <Button type="submit" variant="secondary" aria-label={`Revoke token ${t.name}`}>Revoke</Button>
+                </Form>
+              ),
+            ])}
+          />
+        )}
+        {targets.length > 0 ? (
+          <Form method="post" className="mt-4 grid gap-4 md:grid-cols-3">
+            <input type="hidden" name="intent" value="create-token" />
+            <Field label="Token name" name="tokenName" hint="Say where it is used, e.g. the lab system's name." defaultValue={valuesFor("create-token").tokenName} error={errorsFor("create-token").tokenName} required />
+            <SelectField label="May reach" name="target" options={targets} defaultValue={valuesFor("create-token").target} error={errorsFor("create-token").target} />
+            <div className="self-end">
+              <Button type="submit" disabled={busy}>Create token</Button>
+            </div>
+          </Form>
+        ) : (
+          <p>There is no study yet that a token of yours could reach.</p>
+        )}
+      </Card>
       {contactLabs.map(({ labId, colleagues }) => (
         <Card key={labId} title="Your lab's analysts" className="mt-6">
           {result?.intent?.endsWith("colleague") && result.done && <Notice tone="success">{result.done}</Notice>}

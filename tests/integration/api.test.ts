@@ -1,0 +1,160 @@
+import { eq } from "drizzle-orm";
+import Papa from "papaparse";
+import { beforeAll, describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
+import { enrollments, labs, studies, users } from "~/db/schema";
+import { loadSessionUser } from "~/models/user.server";
+import { createApiToken, revokeApiToken } from "~/models/api-token.server";
+import * as healthz from "~/routes/api.v1.healthz";
+import * as precision from "~/routes/api.v1.studies.$studyId.precision";
+import * as study from "~/routes/api.v1.studies.$studyId";
+import * as results from "~/routes/api.v1.studies.$studyId.results";
+import * as resultsCsv from "~/routes/api.v1.studies.$studyId.results-csv";
+import * as studyList from "~/routes/api.v1.studies";
+import { DEMO_LABS } from "../../seed/demo-data";
+import { seedDemo } from "../../seed/seed";
+import { useFreshDatabase } from "../support/database";
+import { demoCookie } from "../support/demo";
+import { call, get } from "../support/routes";
+
+let checkingId: number;
+let testingId: number;
+
+async function userNamed(email: string) {
+  const row = await db.query.users.findFirst({ where: eq(users.email, email) });
+  return (await loadSessionUser(row!.id))!;
+}
+
+const bearer = (path: string, token: string) => new Request(`http://ringbatch.test${path}`, { headers: { Authorization: `Bearer ${token}` } });
+
+beforeAll(async () => {
+  await useFreshDatabase();
+  await seedDemo(db);
+  checkingId = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!.id;
+  testingId = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-B") }))!.id;
+});
+
+describe("API authentication", () => {
+  it("answers 401 in the error shape without credentials or with a bad token", async () => {
+    const anonymous = await call(studyList.loader, get("/api/v1/studies"));
+    expect(anonymous.status).toBe(401);
+    expect(anonymous.data).toEqual({ error: { code: "unauthenticated", message: "Sign in or send a valid bearer token." } });
+    const bad = await call(studyList.loader, bearer("/api/v1/studies", "rbt_not-a-real-token"));
+    expect(bad.status).toBe(401);
+    expect(bad.data.error.code).toBe("unauthenticated");
+  });
+
+  it("accepts a study:read token for its own study only, and stops accepting it once revoked", async () => {
+    const reviewer = await userNamed("reviewer1@ringbatch.example");
+    const { token, row } = await createApiToken(reviewer, { name: "committee script", scope: "study:read", studyId: checkingId });
+    expect(token).toMatch(/^rbt_/);
+    expect(row.tokenHash).not.toContain(token.slice(4));
+    const listed = await call(studyList.loader, bearer("/api/v1/studies", token));
+    expect(listed.data.studies.map((s: { code: string }) => s.code)).toEqual(["FF-2026-A"]);
+    expect((await call(study.loader, bearer(`/api/v1/studies/${testingId}`, token), { studyId: String(testingId) })).status).toBe(404);
+    expect((await call(study.loader, bearer(`/api/v1/studies/${checkingId}`, token), { studyId: String(checkingId) })).status).toBe(200);
+    await revokeApiToken(reviewer.id, row.id);
+    const revoked = await call(study.loader, bearer(`/api/v1/studies/${checkingId}`, token), { studyId: String(checkingId) });
+    expect(revoked.status).toBe(401);
+  });
+
+  it("does not let a results:write token read the study", async () => {
+    const analyst = await userNamed("analyst1@ringbatch.example");
+    const enrollment = await db
+      .select({ id: enrollments.id })
+      .from(enrollments)
+      .innerJoin(labs, eq(labs.id, enrollments.labId))
+      .where(eq(labs.name, DEMO_LABS[0].name));
+    const own = enrollment.find(Boolean)!;
+    const { token } = await createApiToken(analyst, { name: "lab system", scope: "results:write", enrollmentId: own.id });
+    const outcome = await call(study.loader, bearer(`/api/v1/studies/${checkingId}`, token), { studyId: String(checkingId) });
+    expect(outcome.status).toBe(404);
+  });
+
+  it("refuses to make a token for another lab's enrollment", async () => {
+    const analyst = await userNamed("analyst1@ringbatch.example");
+    const other = await db
+      .select({ id: enrollments.id })
+      .from(enrollments)
+      .innerJoin(labs, eq(labs.id, enrollments.labId))
+      .where(eq(labs.name, DEMO_LABS[1].name));
+    await expect(createApiToken(analyst, { name: "x", scope: "results:write", enrollmentId: other[0]!.id })).rejects.toThrow(/your lab/);
+  });
+});
+
+describe("API endpoints by role", () => {
+  it("lists each role's studies", async () => {
+    const list = async (email: string) => (await call(studyList.loader, get("/api/v1/studies", await demoCookie(email)))).data.studies.map((s: { code: string }) => s.code);
+    expect(await list("admin@ringbatch.example")).toEqual(["FF-2026-A", "FF-2026-B"]);
+    expect(await list("coordinator@ringbatch.example")).toEqual(["FF-2026-A", "FF-2026-B"]);
+    expect(await list("analyst3@ringbatch.example")).toEqual(["FF-2026-A", "FF-2026-B"]);
+    expect(await list("reviewer2@ringbatch.example")).toEqual(["FF-2026-A", "FF-2026-B"]);
+  });
+
+  it("describes a study blinded by role: names for the coordinator, codes for reviewers, only its own lab for an analyst", async () => {
+    const params = { studyId: String(checkingId) };
+    const path = `/api/v1/studies/${checkingId}`;
+    const coordinator = (await call(study.loader, get(path, await demoCookie("coordinator@ringbatch.example")), params)).data;
+    expect(coordinator.labs).toHaveLength(8);
+    expect(coordinator.labs.map((l: { name: string }) => l.name)).toContain(DEMO_LABS[4].name);
+    expect(coordinator.materials.map((m: { code: string }) => m.code)).toEqual(["M1", "M2", "M3", "M4"]);
+    expect(coordinator.responses.map((r: { key: string }) => r.key)).toEqual(["holes", "surface"]);
+    const reviewer = await call(study.loader, get(path, await demoCookie("reviewer1@ringbatch.example")), params);
+    const reviewerText = JSON.stringify(reviewer.data);
+    for (const lab of DEMO_LABS) expect(reviewerText).not.toContain(lab.name);
+    expect(reviewer.data.labs).toHaveLength(8);
+    const analyst = await call(study.loader, get(path, await demoCookie("analyst1@ringbatch.example")), params);
+    expect(analyst.data.labs).toEqual([expect.objectContaining({ name: DEMO_LABS[0].name })]);
+    const analystText = JSON.stringify(analyst.data);
+    for (const lab of DEMO_LABS.slice(1)) expect(analystText).not.toContain(lab.name);
+  });
+
+  it("gives results to coordinators and reviewers (blinded) but not to analysts", async () => {
+    const params = { studyId: String(checkingId) };
+    const path = `/api/v1/studies/${checkingId}/results`;
+    const coordinator = await call(results.loader, get(path, await demoCookie("coordinator@ringbatch.example")), params);
+    // 8 labs × 4 materials × 2 responses × 3 replicates, all submitted in the demo.
+    expect(coordinator.data.results).toHaveLength(192);
+    expect(coordinator.data.results[0]).toHaveProperty("labName");
+    const reviewer = await call(results.loader, get(path, await demoCookie("reviewer3@ringbatch.example")), params);
+    expect(reviewer.data.results).toHaveLength(192);
+    expect(Object.keys(reviewer.data.results[0]).sort()).toEqual(["lab", "material", "replicate", "response", "testedOn", "value"]);
+    expect((await call(results.loader, get(path, await demoCookie("analyst1@ringbatch.example")), params)).status).toBe(404);
+  });
+
+  it("exports the results as CSV with the same rows", async () => {
+    const params = { studyId: String(checkingId) };
+    const outcome = await call(resultsCsv.loader, get(`/api/v1/studies/${checkingId}/results.csv`, await demoCookie("reviewer1@ringbatch.example")), params);
+    expect(outcome.status).toBe(200);
+    expect(outcome.headers.get("Content-Type")).toMatch(/text\/csv/);
+    expect(outcome.headers.get("Content-Disposition")).toContain("FF-2026-A-results-blinded.csv");
+  });
+
+  it("returns the precision engine's figures, flagging the demo's planted outliers", async () => {
+    const params = { studyId: String(checkingId) };
+    const outcome = await call(precision.loader, get(`/api/v1/studies/${checkingId}/precision`, await demoCookie("reviewer1@ringbatch.example")), params);
+    expect(outcome.status).toBe(200);
+    const flagged = outcome.data.groups.flatMap((g: { material: string; response: string; labs: { lab: string; flags: string[] }[] }) =>
+      g.labs.filter((l) => l.flags.length).map((l) => `${g.material}/${g.response}/${l.lab}/${l.flags.join("")}`),
+    );
+    // The seed plants exactly these two (seed/demo-data.ts): L08 high on M2's surface, L01 scattered on M3's holes.
+    expect(flagged.sort()).toEqual(["M2/surface/L08/h", "M3/holes/L01/k"]);
+    const badAlpha = await call(precision.loader, get(`/api/v1/studies/${checkingId}/precision?alpha=0.2`, await demoCookie("coordinator@ringbatch.example")), params);
+    expect(badAlpha.status).toBe(422);
+    expect((await call(precision.loader, get("/", await demoCookie("analyst2@ringbatch.example")), params)).status).toBe(404);
+  });
+
+  it("reports health", async () => {
+    expect((await call(healthz.loader, get("/api/v1/healthz"))).data.status).toBe("ok");
+  });
+});
+
+describe("CSV export safety", () => {
+  it("neutralises cells a spreadsheet would run, and leaves negative numbers alone", async () => {
+    const { resultsCsv: toCsv } = await import("~/models/study-export.server");
+    const text = toCsv([{ operator: "=cmd()", note: "+1", at: "@SUM(A1)", dash: "-x", value: -3 }]);
+    const [header, row] = Papa.parse<string[]>(text).data;
+    expect(header).toEqual(["operator", "note", "at", "dash", "value"]);
+    expect(row).toEqual(["'=cmd()", "'+1", "'@SUM(A1)", "'-x", "-3"]);
+  });
+});
