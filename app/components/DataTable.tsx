@@ -1,0 +1,148 @@
+/**
+ * A sortable, filterable table for lists. Pages describe each column by a
+ * plain value (what it sorts and filters on) and, if they want, how a cell
+ * renders; the table machinery stays inside this file.
+ */
+import {
+  type ColumnDef,
+  columnFilteringFeature,
+  createFilteredRowModel,
+  createSortedRowModel,
+  filterFn_includesString,
+  globalFilteringFeature,
+  rowSortingFeature,
+  type RowData,
+  sortFn_alphanumeric,
+  tableFeatures,
+  useTable,
+} from "@tanstack/react-table";
+import { type ReactNode, useId, useMemo } from "react";
+
+const features = tableFeatures({
+  rowSortingFeature,
+  columnFilteringFeature,
+  globalFilteringFeature,
+  sortedRowModel: createSortedRowModel(),
+  filteredRowModel: createFilteredRowModel(),
+  sortFns: { alphanumeric: sortFn_alphanumeric },
+  filterFns: { includesString: filterFn_includesString },
+});
+
+export type DataColumn<T extends RowData> = {
+  id: string;
+  header: string;
+  /** What the column sorts and filters on. */
+  value: (row: T) => string | number | null;
+  /** How the cell shows; the value as text when omitted. */
+  cell?: (row: T) => ReactNode;
+  /** Columns of buttons or links only should not sort. */
+  sortable?: boolean;
+};
+
+const ARIA_SORT = { asc: "ascending", desc: "descending" } as const;
+
+export function DataTable<T extends RowData>({
+  caption,
+  columns,
+  data,
+  filterLabel = "Filter the list",
+  empty = "Nothing to show.",
+}: {
+  caption: string;
+  columns: DataColumn<T>[];
+  data: T[];
+  filterLabel?: string;
+  empty?: string;
+}) {
+  const filterId = useId();
+  const tableColumns = useMemo(
+    () =>
+      columns.map(
+        (c): ColumnDef<typeof features, T> => ({
+          id: c.id,
+          header: c.header,
+          accessorFn: (row: T) => c.value(row),
+          cell: c.cell ? ({ row }) => c.cell!(row.original) : ({ row }) => c.value(row.original) ?? "—",
+          enableSorting: c.sortable ?? true,
+          sortFn: "alphanumeric",
+          sortUndefined: "last",
+        }),
+      ),
+    [columns],
+  );
+  const table = useTable({
+    features,
+    columns: tableColumns,
+    data,
+    globalFilterFn: "includesString",
+    getColumnCanGlobalFilter: () => true,
+  });
+  const rows = table.getRowModel().rows;
+  return (
+    <div className="flex flex-col gap-3">
+      <div className="flex max-w-sm flex-col gap-1">
+        <label htmlFor={filterId} className="text-sm font-semibold text-basalt-800">
+          {filterLabel}
+        </label>
+        <input
+          id={filterId}
+          type="search"
+          value={String(table.state.globalFilter ?? "")}
+          onChange={(e) => table.setGlobalFilter(e.target.value)}
+          className="min-h-11 rounded-md border border-basalt-200 bg-white px-3 py-2"
+        />
+      </div>
+      <div className="overflow-x-auto">
+        <table className="w-full border-collapse text-left">
+          <caption className="sr-only">{caption}</caption>
+          <thead>
+            {table.getHeaderGroups().map((group) => (
+              <tr key={group.id} className="border-b-2 border-basalt-200">
+                {group.headers.map((header) => {
+                  const sorted = header.column.getIsSorted();
+                  const label = String(header.column.columnDef.header ?? "");
+                  return (
+                    <th key={header.id} scope="col" aria-sort={sorted ? ARIA_SORT[sorted] : undefined} className="px-3 py-2 font-semibold text-basalt-800">
+                      {header.column.getCanSort() ? (
+                        <button
+                          type="button"
+                          onClick={header.column.getToggleSortingHandler()}
+                          className="inline-flex items-center gap-1 rounded font-semibold underline-offset-2 hover:underline"
+                        >
+                          {label}
+                          <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
+                          <span className="sr-only">, sort</span>
+                        </button>
+                      ) : (
+                        label
+                      )}
+                    </th>
+                  );
+                })}
+              </tr>
+            ))}
+          </thead>
+          <tbody>
+            {rows.length === 0 ? (
+              <tr>
+                <td colSpan={columns.length} className="px-3 py-3 text-basalt-700">
+                  {empty}
+                </td>
+              </tr>
+            ) : (
+              rows.map((row) => (
+                <tr key={row.id} className="border-b border-basalt-100">
+                  {row.getAllCells().map((cell) => (
+                    <td key={cell.id} className="px-3 py-2 align-top">
+                      <table.FlexRender cell={cell} />
+                    </td>
+                  ))}
+                </tr>
+              ))
+            )}
+          </tbody>
+        </table>
+      </div>
+    </div>
+  );
+}

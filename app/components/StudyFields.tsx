@@ -1,0 +1,90 @@
+/** The study's own fields, shared by the new-study form and the setup page. */
+import type { ComponentProps } from "react";
+import { Field, SelectField } from "~/components/ui";
+import type { FieldErrors } from "~/lib/forms";
+
+export function TextAreaField({ label, name, error, ...props }: ComponentProps<"textarea"> & { label: string; name: string; error?: string }) {
+  const id = `field-${name}`;
+  return (
+    <div className="flex flex-col gap-1">
+      <label htmlFor={id} className="font-semibold text-basalt-800">
+        {label}
+      </label>
+      <textarea
+        id={id}
+        name={name}
+        rows={3}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={error ? `${id}-error` : undefined}
+        className={`rounded-md border bg-white px-3 py-2 ${error ? "border-signal-700" : "border-basalt-200"}`}
+        {...props}
+      />
+      {error && (
+        <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
+          {error}
+        </p>
+      )}
+    </div>
+  );
+}
+
+export type StudyFieldValues = {
+  code: string;
+  title: string;
+  testMethod: string;
+  replicatesPerCell: string;
+  significanceLevel: string;
+  targetSurfaceRating: string;
+  enrollmentDeadline: string;
+  shipDate: string;
+  resultsDue: string;
+  notes: string;
+};
+
+export function StudyFields({ values, errors }: { values: Partial<StudyFieldValues>; errors: FieldErrors }) {
+  return (
+    <div className="grid gap-4 md:grid-cols-2">
+      <Field label="Study code" name="code" defaultValue={values.code} error={errors.code} hint="Letters, digits and hyphens, e.g. FF-2027-A" required />
+      <Field label="Title" name="title" defaultValue={values.title} error={errors.title} required />
+      <Field label="Test method" name="testMethod" defaultValue={values.testMethod} error={errors.testMethod} required />
+      <Field
+        label="Replicates per cell"
+        name="replicatesPerCell"
+        type="number"
+        inputMode="numeric"
+        min={2}
+        max={10}
+        defaultValue={values.replicatesPerCell}
+        error={errors.replicatesPerCell}
+        required
+      />
+      <Field
+        label="Significance level for consistency flags"
+        name="significanceLevel"
+        inputMode="decimal"
+        defaultValue={values.significanceLevel}
+        error={errors.significanceLevel}
+        hint="E691 uses 0.005"
+        required
+      />
+      <SelectField
+        label="Target surface rating (1–3 visual scale)"
+        name="targetSurfaceRating"
+        defaultValue={values.targetSurfaceRating}
+        error={errors.targetSurfaceRating}
+        options={[
+          { value: "", label: "None (not a float finishing study)" },
+          { value: "1", label: "1 — smoothest" },
+          { value: "2", label: "2" },
+          { value: "3", label: "3" },
+        ]}
+      />
+      <Field label="Enrollment deadline" name="enrollmentDeadline" type="date" defaultValue={values.enrollmentDeadline} error={errors.enrollmentDeadline} />
+      <Field label="Ship date" name="shipDate" type="date" defaultValue={values.shipDate} error={errors.shipDate} />
+      <Field label="Results due" name="resultsDue" type="date" defaultValue={values.resultsDue} error={errors.resultsDue} />
+      <div className="md:col-span-2">
+        <TextAreaField label="Notes" name="notes" defaultValue={values.notes} error={errors.notes} />
+      </div>
+    </div>
+  );
+}

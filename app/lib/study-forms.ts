@@ -1,0 +1,136 @@
+/**
+ * Form schemas of the coordinator's pages. The same schemas run in the action
+ * and, where a page checks as one types, in the browser.
+ */
+import { z } from "zod";
+import { RESPONSE_KINDS, STUDY_STATES } from "~/db/schema";
+import { emailField } from "~/lib/validation";
+
+const optionalText = (max: number, label: string) =>
+  z.string().trim().max(max, { message: `Keep the ${label} to ${max} characters or fewer.` });
+
+const optionalDate = z
+  .union([z.literal(""), z.iso.date({ message: "Enter a date as YYYY-MM-DD." })])
+  .transform((v) => (v === "" ? null : v));
+
+/** A number typed in a form; blank becomes null. */
+const optionalNumber = (message: string) =>
+  z
+    .string()
+    .trim()
+    .transform((v, ctx) => {
+      if (v === "") return null;
+      const n = Number(v.replace(",", "."));
+      if (!Number.isFinite(n)) {
+        ctx.addIssue({ code: "custom", message });
+        return z.NEVER;
+      }
+      return n;
+    });
+
+export const studyCodeField = z
+  .string()
+  .trim()
+  .toUpperCase()
+  .regex(/^[A-Z0-9][A-Z0-9-]{1,29}$/, { message: "Use 2–30 letters, digits and hyphens, such as FF-2027-A." });
+
+export const studyFields = z
+  .object({
+    code: studyCodeField,
+    title: z.string().trim().min(1, { message: "Enter a title." }).max(200, { message: "Keep the title to 200 characters or fewer." }),
+    testMethod: z.string().trim().min(1, { message: "Name the test method." }).max(200, { message: "Keep the test method to 200 characters or fewer." }),
+    // E691 needs at least two replicates per cell to estimate repeatability.
+    replicatesPerCell: z.coerce
+      .number({ message: "Enter a whole number of replicates." })
+      .int({ message: "Enter a whole number of replicates." })
+      .min(2, { message: "Use at least 2 replicates per cell (repeatability needs two)." })
+      .max(10, { message: "Use at most 10 replicates per cell." }),
+    significanceLevel: z.coerce
+      .number({ message: "Enter the significance level as a number such as 0.005." })
+      .min(0.0005, { message: "Use a significance level between 0.0005 and 0.1." })
+      .max(0.1, { message: "Use a significance level between 0.0005 and 0.1." }),
+    targetSurfaceRating: z
+      .union([z.literal(""), z.enum(["1", "2", "3"], { message: "Choose a rating of 1, 2 or 3." })])
+      .transform((v) => (v === "" ? null : Number(v))),
+    enrollmentDeadline: optionalDate,
+    shipDate: optionalDate,
+    resultsDue: optionalDate,
+    notes: optionalText(2000, "notes"),
+  })
+  .superRefine((v, ctx) => {
+    // ISO dates compare correctly as text.
+    if (v.enrollmentDeadline && v.shipDate && v.shipDate < v.enrollmentDeadline) {
+      ctx.addIssue({ code: "custom", path: ["shipDate"], message: "Ship after the enrollment deadline." });
+    }
+    const start = v.shipDate ?? v.enrollmentDeadline;
+    if (start && v.resultsDue && v.resultsDue <= start) {
+      ctx.addIssue({ code: "custom", path: ["resultsDue"], message: "Results are due after the materials ship." });
+    }
+  });
+
+export const STUDY_TEMPLATES = ["float_finishing", "custom"] as const;
+
+export const newStudySchema = z
+  .object({ template: z.enum(STUDY_TEMPLATES, { message: "Choose a template." }) })
+  .and(studyFields);
+
+export const responseSchema = z
+  .object({
+    key: z
+      .string()
+      .trim()
+      .regex(/^[a-z][a-z0-9_]{0,29}$/, { message: "Use a short key of lower-case letters, digits and _, starting with a letter." }),
+    name: z.string().trim().min(1, { message: "Name the response." }).max(120, { message: "Keep the name to 120 characters or fewer." }),
+    unit: optionalText(30, "unit"),
+    kind: z.enum(RESPONSE_KINDS, { message: "Choose count or continuous." }),
+    decimals: z.coerce
+      .number({ message: "Enter a whole number of decimals." })
+      .int({ message: "Enter a whole number of decimals." })
+      .min(0, { message: "Use 0 to 6 decimals." })
+      .max(6, { message: "Use 0 to 6 decimals." }),
+    plausibleMin: optionalNumber("Enter the lowest plausible value as a number, or leave it blank."),
+    plausibleMax: optionalNumber("Enter the highest plausible value as a number, or leave it blank."),
+  })
+  .superRefine((v, ctx) => {
+    if (v.kind === "count" && v.decimals !== 0) ctx.addIssue({ code: "custom", path: ["decimals"], message: "Counts have 0 decimals." });
+    if (v.plausibleMin !== null && v.plausibleMax !== null && v.plausibleMax <= v.plausibleMin) {
+      ctx.addIssue({ code: "custom", path: ["plausibleMax"], message: "The highest plausible value must be above the lowest." });
+    }
+  });
+
+export const freshTargetsSchema = z
+  .object({
+    slumpTarget: optionalNumber("Enter the slump as a number, or leave it blank."),
+    slumpUnit: z.enum(["mm", "in"], { message: "Choose mm or in." }),
+    slumpTolerance: optionalNumber("Enter the tolerance as a number, or leave it blank for the usual one."),
+    airTarget: optionalNumber("Enter the air content as a number, or leave it blank."),
+    airTolerance: optionalNumber("Enter the tolerance as a number, or leave it blank for the usual one."),
+  })
+  .superRefine((v, ctx) => {
+    const slumpMax = v.slumpUnit === "mm" ? 300 : 12;
+    if (v.slumpTarget !== null && (v.slumpTarget <= 0 || v.slumpTarget > slumpMax)) {
+      ctx.addIssue({ code: "custom", path: ["slumpTarget"], message: `Enter a slump above 0 and at most ${slumpMax} ${v.slumpUnit}.` });
+    }
+    if (v.slumpTolerance !== null && v.slumpTolerance <= 0) {
+      ctx.addIssue({ code: "custom", path: ["slumpTolerance"], message: "A tolerance is above 0." });
+    }
+    if (v.airTarget !== null && (v.airTarget < 0 || v.airTarget > 15)) {
+      ctx.addIssue({ code: "custom", path: ["airTarget"], message: "Enter an air content between 0 and 15 %." });
+    }
+    if (v.airTolerance !== null && v.airTolerance <= 0) {
+      ctx.addIssue({ code: "custom", path: ["airTolerance"], message: "A tolerance is above 0." });
+    }
+  });
+
+export const personSchema = z.object({ email: emailField });
+
+export const materialSchema = z.object({
+  code: z
+    .string()
+    .trim()
+    .toUpperCase()
+    .regex(/^[A-Z0-9][A-Z0-9-]{0,11}$/, { message: "Use up to 12 letters, digits and hyphens, such as M1." }),
+  description: optionalText(300, "description"),
+});
+
+export const transitionSchema = z.object({ to: z.enum(STUDY_STATES, { message: "Choose a state." }) });

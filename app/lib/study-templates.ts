@@ -1,0 +1,21 @@
+/** Ready test-method templates a new study can start from. */
+import { AIR_CONTENT_TOLERANCE_POINTS, slumpTolerance } from "~/lib/batching";
+
+const SLUMP_TARGET_MM = 75;
+const AIR_TARGET_PERCENT = 6;
+
+/** Float finishing test of fresh concrete: two pass counts per specimen (see the product design). */
+export const FLOAT_FINISHING_TEMPLATE = {
+  testMethod: "Float finishing test of fresh concrete",
+  replicatesPerCell: 3,
+  targetSurfaceRating: 2,
+  responses: [
+    { key: "holes", name: "Passes to close the preformed holes", unit: "passes", kind: "count", decimals: 0, plausibleMin: 1, plausibleMax: 40 },
+    { key: "surface", name: "Passes to reach the target surface", unit: "passes", kind: "count", decimals: 0, plausibleMin: 1, plausibleMax: 40 },
+  ],
+  // Tolerances as ASTM C94 gives them (reference/critical-values.md, from memory).
+  freshTargets: [
+    { property: "slump", target: SLUMP_TARGET_MM, tolerance: slumpTolerance(SLUMP_TARGET_MM, "mm") },
+    { property: "air_content", target: AIR_TARGET_PERCENT, tolerance: AIR_CONTENT_TOLERANCE_POINTS },
+  ],
+} as const;

@@ -1,0 +1,192 @@
+/**
+ * Study setup: the study itself, its responses, fresh-property targets,
+ * protocol, co-coordinators, reviewers and materials. Each change is one
+ * transaction with its audit event.
+ */
+import { and, asc, count, eq, inArray, ne } from "drizzle-orm";
+import type { z } from "zod";
+import { db } from "~/db/client.server";
+import {
+  freshPropertyTargets,
+  materials,
+  mixtureConstituents,
+  responses,
+  studies,
+  studyCoordinators,
+  studyReviewers,
+  users,
+} from "~/db/schema";
+import { recordAudit } from "~/lib/audit.server";
+import { FieldRefusal } from "~/lib/form-results";
+import { inToMm, slumpTolerance, AIR_CONTENT_TOLERANCE_POINTS } from "~/lib/batching";
+import type { freshTargetsSchema, materialSchema, newStudySchema, responseSchema, studyFields } from "~/lib/study-forms";
+import { setupEditable } from "~/lib/study-lifecycle";
+import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
+import { normaliseEmail } from "~/models/user.server";
+
+type Study = typeof studies.$inferSelect;
+type StudyInput = z.infer<typeof studyFields>;
+
+/** A refusal the page shows beside the named field. */
+export class SetupError extends FieldRefusal {}
+
+function assertSetupEditable(study: Pick<Study, "state">, field = "form") {
+  if (!setupEditable(study.state)) throw new SetupError(field, "Responses and materials are fixed once testing has started.");
+}
+
+async function assertCodeFree(code: string, exceptStudyId?: number) {
+  const taken = await db.query.studies.findFirst({
+    where: exceptStudyId ? and(eq(studies.code, code), ne(studies.id, exceptStudyId)) : eq(studies.code, code),
+  });
+  if (taken) throw new SetupError("code", "Another study already has this code.");
+}
+
+export async function createStudy(ownerId: number, input: z.infer<typeof newStudySchema>) {
+  await assertCodeFree(input.code);
+  const { template, ...fields } = input;
+  return db.transaction(async (tx) => {
+    const [study] = await tx.insert(studies).values({ ...fields, ownerId }).returning();
+    if (template === "float_finishing") {
+      await tx.insert(responses).values(FLOAT_FINISHING_TEMPLATE.responses.map((r, i) => ({ ...r, studyId: study!.id, sortOrder: i })));
+      await tx.insert(freshPropertyTargets).values(FLOAT_FINISHING_TEMPLATE.freshTargets.map((t) => ({ ...t, studyId: study!.id })));
+    }
+    await recordAudit({ actorUserId: ownerId, action: "study_created", entityType: "study", entityId: study!.id, studyId: study!.id, after: input }, tx);
+    return study!;
+  });
+}
+
+export async function updateStudy(study: Study, input: StudyInput, actorUserId: number) {
+  await assertCodeFree(input.code, study.id);
+  await db.transaction(async (tx) => {
+    await tx.update(studies).set(input).where(eq(studies.id, study.id));
+    await recordAudit({ actorUserId, action: "study_updated", entityType: "study", entityId: study.id, studyId: study.id, before: study, after: input }, tx);
+  });
+}
+
+export async function addResponse(study: Study, input: z.infer<typeof responseSchema>, actorUserId: number) {
+  assertSetupEditable(study, "key");
+  const existing = await db.select().from(responses).where(eq(responses.studyId, study.id));
+  if (existing.some((r) => r.key === input.key)) throw new SetupError("key", "This study already has a response with this key.");
+  await db.transaction(async (tx) => {
+    const [row] = await tx.insert(responses).values({ ...input, studyId: study.id, sortOrder: existing.length }).returning();
+    await recordAudit({ actorUserId, action: "response_added", entityType: "response", entityId: row!.id, studyId: study.id, after: input }, tx);
+  });
+}
+
+export async function removeResponse(study: Study, responseId: number, actorUserId: number) {
+  assertSetupEditable(study);
+  await db.transaction(async (tx) => {
+    const removed = await tx.delete(responses).where(and(eq(responses.id, responseId), eq(responses.studyId, study.id))).returning();
+    if (removed.length === 0) throw new SetupError("form", "That response is not part of this study.");
+    await recordAudit({ actorUserId, action: "response_removed", entityType: "response", entityId: responseId, studyId: study.id, before: removed[0] }, tx);
+  });
+}
+
+/**
+ * Stores the slump (in mm) and air targets; a blank tolerance takes the usual
+ * one for the target (ASTM C94, from memory — see ~/lib/batching/tolerance).
+ */
+export async function setFreshTargets(study: Study, input: z.infer<typeof freshTargetsSchema>, actorUserId: number) {
+  assertSetupEditable(study, "slumpTarget");
+  const rows: (typeof freshPropertyTargets.$inferInsert)[] = [];
+  if (input.slumpTarget !== null) {
+    const tolerance = input.slumpTolerance ?? slumpTolerance(input.slumpTarget, input.slumpUnit);
+    const toMm = (v: number) => (input.slumpUnit === "in" ? inToMm(v) : v);
+    rows.push({ studyId: study.id, property: "slump", target: toMm(input.slumpTarget), tolerance: toMm(tolerance) });
+  }
+  if (input.airTarget !== null) {
+    rows.push({ studyId: study.id, property: "air_content", target: input.airTarget, tolerance: input.airTolerance ?? AIR_CONTENT_TOLERANCE_POINTS });
+  }
+  await db.transaction(async (tx) => {
+    await tx.delete(freshPropertyTargets).where(and(eq(freshPropertyTargets.studyId, study.id), inArray(freshPropertyTargets.property, ["slump", "air_content"])));
+    if (rows.length) await tx.insert(freshPropertyTargets).values(rows);
+    await recordAudit({ actorUserId, action: "fresh_targets_set", entityType: "study", entityId: study.id, studyId: study.id, after: rows }, tx);
+  });
+}
+
+export async function setProtocol(study: Study, attachmentId: number, actorUserId: number) {
+  await db.transaction(async (tx) => {
+    await tx.update(studies).set({ protocolAttachmentId: attachmentId }).where(eq(studies.id, study.id));
+    await recordAudit(
+      { actorUserId, action: "protocol_attached", entityType: "study", entityId: study.id, studyId: study.id, before: { attachmentId: study.protocolAttachmentId }, after: { attachmentId } },
+      tx,
+    );
+  });
+}
+
+const PEOPLE = {
+  coordinator: { table: studyCoordinators, roles: ["coordinator", "admin"] as const, what: "a coordinator" },
+  reviewer: { table: studyReviewers, roles: ["reviewer"] as const, what: "a committee reviewer" },
+};
+
+/** The study's owner adds a co-coordinator or assigns a reviewer by e-mail. */
+export async function addPerson(study: Study, kind: keyof typeof PEOPLE, email: string, actorUserId: number) {
+  const { table, roles, what } = PEOPLE[kind];
+  const user = await db.query.users.findFirst({ where: eq(users.email, normaliseEmail(email)) });
+  if (!user || user.disabledAt) throw new SetupError("email", "No active account has this e-mail.");
+  if (!(roles as readonly string[]).includes(user.role)) throw new SetupError("email", `This account is not ${what}.`);
+  if (user.id === study.ownerId) throw new SetupError("email", "The owner already coordinates this study.");
+  await db.transaction(async (tx) => {
+    const added = await tx.insert(table).values({ studyId: study.id, userId: user.id }).onConflictDoNothing().returning();
+    if (added.length === 0) throw new SetupError("email", `This person is already ${what} of the study.`);
+    await recordAudit({ actorUserId, action: `${kind}_assigned`, entityType: "user", entityId: user.id, studyId: study.id }, tx);
+  });
+}
+
+export async function removePerson(study: Study, kind: keyof typeof PEOPLE, userId: number, actorUserId: number) {
+  const { table } = PEOPLE[kind];
+  await db.transaction(async (tx) => {
+    const removed = await tx.delete(table).where(and(eq(table.studyId, study.id), eq(table.userId, userId))).returning();
+    if (removed.length === 0) throw new SetupError("form", "That person is not assigned to this study.");
+    await recordAudit({ actorUserId, action: `${kind}_unassigned`, entityType: "user", entityId: userId, studyId: study.id }, tx);
+  });
+}
+
+export async function addMaterial(study: Study, input: z.infer<typeof materialSchema>, actorUserId: number) {
+  assertSetupEditable(study, "code");
+  const existing = await db.select({ code: materials.code }).from(materials).where(eq(materials.studyId, study.id));
+  if (existing.some((m) => m.code === input.code)) throw new SetupError("code", "This study already has a material with this code.");
+  return db.transaction(async (tx) => {
+    const [row] = await tx.insert(materials).values({ ...input, studyId: study.id, sortOrder: existing.length }).returning();
+    await recordAudit({ actorUserId, action: "material_added", entityType: "material", entityId: row!.id, studyId: study.id, after: input }, tx);
+    return row!;
+  });
+}
+
+export async function removeMaterial(study: Study, materialId: number, actorUserId: number) {
+  assertSetupEditable(study);
+  await db.transaction(async (tx) => {
+    const removed = await tx.delete(materials).where(and(eq(materials.id, materialId), eq(materials.studyId, study.id))).returning();
+    if (removed.length === 0) throw new SetupError("form", "That material is not part of this study.");
+    await recordAudit({ actorUserId, action: "material_removed", entityType: "material", entityId: materialId, studyId: study.id, before: removed[0] }, tx);
+  });
+}
+
+/** Everything the setup page shows. */
+export async function loadSetup(study: Study) {
+  const assigned = (table: typeof studyCoordinators | typeof studyReviewers) =>
+    db
+      .select({ id: users.id, name: users.name, email: users.email })
+      .from(table)
+      .innerJoin(users, eq(users.id, table.userId))
+      .where(eq(table.studyId, study.id))
+      .orderBy(asc(users.name));
+  const [studyResponses, targets, coordinators, reviewers, studyMaterials, owner, protocol] = await Promise.all([
+    db.select().from(responses).where(eq(responses.studyId, study.id)).orderBy(asc(responses.sortOrder)),
+    db.select().from(freshPropertyTargets).where(eq(freshPropertyTargets.studyId, study.id)),
+    assigned(studyCoordinators),
+    assigned(studyReviewers),
+    db
+      .select({ id: materials.id, code: materials.code, description: materials.description, constituents: count(mixtureConstituents.id) })
+      .from(materials)
+      .leftJoin(mixtureConstituents, eq(mixtureConstituents.materialId, materials.id))
+      .where(eq(materials.studyId, study.id))
+      .groupBy(materials.id)
+      .orderBy(asc(materials.sortOrder), asc(materials.code)),
+    db.query.users.findFirst({ where: eq(users.id, study.ownerId), columns: { id: true, name: true, email: true } }),
+    study.protocolAttachmentId
+      ? db.query.attachments.findFirst({ where: (a, { eq: is }) => is(a.id, study.protocolAttachmentId!), columns: { id: true, originalName: true } })
+      : Promise.resolve(undefined),
+  ]);
+  return { responses: studyResponses, targets, coordinators, reviewers, materials: studyMaterials, owner: owner!, protocol: protocol ?? null };
+}
