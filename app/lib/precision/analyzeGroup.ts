@@ -171,19 +171,26 @@ function groupProblem(group: GroupAccumulator, code: Problem["code"], message: s
 /**
  * One (material, response) group, after exclusions: its precision statistics,
  * or, when its input has problems or too few labs or replicates, the cell
- * statistics and the reasons. Returns the group-level problems it found.
+ * statistics and the reasons. `values` is the grouping's shared buffer the
+ * cells index into. Returns the group-level problems it found.
  */
 export function analyzeGroup(
   group: GroupAccumulator,
+  values: Float64Array,
   alpha: SignificanceLevel,
 ): { result: GroupResult; problems: Problem[] } {
   const cells: Cell[] = [];
   const damagedLabs = new Set<string>();
   const inputProblems = [...group.problems];
-  for (const cell of group.cells.values()) {
-    if (cell.values.length > 0) cells.push({ lab: cell.lab, ...cellStatistics(cell.values) });
-    if (cell.problems.length > 0) damagedLabs.add(cell.lab);
-    inputProblems.push(...cell.problems);
+  for (const cell of group.cells) {
+    if (cell.count > 0) {
+      const { n, mean, variance, sd } = cellStatistics(values, cell.start, cell.start + cell.count);
+      cells.push({ lab: cell.lab, n, mean, variance, sd });
+    }
+    if (cell.problems.length > 0) {
+      damagedLabs.add(cell.lab);
+      inputProblems.push(...cell.problems);
+    }
   }
   const problems: Problem[] = [];
   if (cells.length < MIN_LABS) {

@@ -27,8 +27,8 @@ function removeExcludedCells(
   const notFound: Problem[] = [];
   const excluded = excludedCells.map((exclusion): ExcludedCellReport => {
     const group = groupByKey.get(`${exclusion.material}\u0000${exclusion.response}`);
-    const cell = group?.cells.get(exclusion.lab);
-    if (group === undefined || cell === undefined) {
+    const index = group?.cells.findIndex((cell) => cell.lab === exclusion.lab) ?? -1;
+    if (group === undefined || index < 0) {
       notFound.push({
         code: "excluded-cell-not-found",
         message: `excluded cell lab ${exclusion.lab}, material ${exclusion.material}, response ${exclusion.response} has no results (left to exclude)`,
@@ -38,7 +38,7 @@ function removeExcludedCells(
       });
       return { ...exclusion, results: 0 };
     }
-    group.cells.delete(exclusion.lab);
+    const [cell] = group.cells.splice(index, 1);
     for (const problem of cell.problems) droppedProblems.add(problem);
     return { ...exclusion, results: cell.rowCount };
   });
@@ -80,7 +80,7 @@ export function analyzeStudy(rows: readonly ResultRow[], options: StudyOptions =
   const grouped = groupRows(rows, options.responseKinds ?? {});
   const { excluded, problems } = removeExcludedCells(grouped.groups, options.excludedCells ?? [], grouped.problems);
   const groups = grouped.groups.map((group) => {
-    const analysis = analyzeGroup(group, alpha);
+    const analysis = analyzeGroup(group, grouped.values, alpha);
     problems.push(...analysis.problems);
     return analysis.result;
   });

@@ -15,17 +15,18 @@ export interface CellStatistics {
  * Corrected two-pass: the deviations are summed after centring, and the small
  * term (Σ(x − x̄))²/n removes the rounding left in x̄. Never Σx² − (Σx)²/n,
  * which loses all digits when the values share leading digits.
+ * `start` and `end` select a range, so cells laid out in one buffer need no copies.
  */
-export function cellStatistics(values: readonly number[]): CellStatistics {
-  const n = values.length;
-  if (n === 0) throw new RangeError("a cell needs at least one result");
+export function cellStatistics(values: ArrayLike<number>, start = 0, end = values.length): CellStatistics {
+  const n = end - start;
+  if (!(n > 0)) throw new RangeError("a cell needs at least one result");
   let sum = 0;
-  for (let i = 0; i < n; i++) sum += values[i];
+  for (let i = start; i < end; i++) sum += values[i];
   const mean = sum / n;
   if (n < 2) return { n, mean, variance: null, sd: null };
   let sumDeviations = 0;
   let sumSquares = 0;
-  for (let i = 0; i < n; i++) {
+  for (let i = start; i < end; i++) {
     const deviation = values[i] - mean;
     sumDeviations += deviation;
     sumSquares += deviation * deviation;

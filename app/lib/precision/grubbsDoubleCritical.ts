@@ -1,20 +1,10 @@
 import { memoize } from "./memoize";
+import { seededUniform } from "./seededUniform";
 
 /** ISO 5725-2 tabulates the double Grubbs test from 4 to 40 labs; simulation covers the same range. */
 export const GRUBBS_DOUBLE_MIN_LABS = 4;
 export const GRUBBS_DOUBLE_MAX_LABS = 40;
 const SIMULATED_SAMPLES = 100_000;
-
-/** Small seeded generator (mulberry32) so every run gives the same critical values. */
-function seededUniform(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = Math.imul(state ^ (state >>> 15), 1 | state);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** Marsaglia's polar method: normal pairs without trigonometric calls. */
 function fillStandardNormal(target: Float64Array, uniform: () => number): void {

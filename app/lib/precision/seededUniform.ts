@@ -1,0 +1,13 @@
+/**
+ * Seeded uniform generator on [0, 1) (mulberry32): simulations and generated
+ * test data come out the same on every run.
+ */
+export function seededUniform(seed: number): () => number {
+  let state = seed >>> 0;
+  return () => {
+    state = (state + 0x6d2b79f5) >>> 0;
+    let t = Math.imul(state ^ (state >>> 15), 1 | state);
+    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
