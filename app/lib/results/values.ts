@@ -1,0 +1,76 @@
+/**
+ * Checks of one typed result value against its response. The same function
+ * runs beside the field in the browser and again on the server, so both
+ * refuse the same values with the same words.
+ */
+
+export type ResponseRule = {
+  name: string;
+  unit: string;
+  kind: "count" | "continuous";
+  decimals: number;
+  plausibleMin: number | null;
+  plausibleMax: number | null;
+};
+
+export type ValueCheck =
+  | { status: "empty" }
+  | { status: "refused"; message: string }
+  | { status: "ok"; value: number; warning?: string };
+
+// A plain decimal: no hexadecimal, no "Infinity", no thousands separators.
+const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)$/;
+
+/** A text field as a plain decimal number, or null. */
+export function parsePlainNumber(text: string): number | null {
+  const trimmed = text.trim();
+  return DECIMAL.test(trimmed) ? Number(trimmed) : null;
+}
+
+function plausibleRange(rule: ResponseRule) {
+  const unit = rule.unit ? ` ${rule.unit}` : "";
+  return `${rule.plausibleMin ?? "…"} to ${rule.plausibleMax ?? "…"}${unit}`;
+}
+
+/**
+ * Counts are whole numbers of at least 0; anything else is refused. A value
+ * outside the study's plausible range is kept with a warning, since a true
+ * but unusual reading must reach the coordinator.
+ */
+export function checkResultValue(rule: ResponseRule, input: string | number | null | undefined): ValueCheck {
+  if (input === null || input === undefined || (typeof input === "string" && input.trim() === "")) return { status: "empty" };
+  const value = typeof input === "number" ? input : parsePlainNumber(input);
+  if (value === null || !Number.isFinite(value)) return { status: "refused", message: "Enter a number, such as 12 or 4.5." };
+  if (rule.kind === "count") {
+    if (!Number.isInteger(value)) return { status: "refused", message: "A count is a whole number, such as 12." };
+    if (value < 0) return { status: "refused", message: "A count cannot be negative." };
+  }
+  const outside =
+    (rule.plausibleMin !== null && value < rule.plausibleMin) || (rule.plausibleMax !== null && value > rule.plausibleMax);
+  if (outside) return { status: "ok", value, warning: `Unusual: outside the plausible ${plausibleRange(rule)}. Check it before you submit.` };
+  if (rule.kind === "continuous" && decimalsOf(input) > rule.decimals) {
+    return { status: "ok", value, warning: `The study reports ${rule.name.toLowerCase()} to ${rule.decimals} decimal places.` };
+  }
+  return { status: "ok", value };
+}
+
+function decimalsOf(input: string | number) {
+  const text = String(input).trim();
+  const point = text.indexOf(".");
+  return point < 0 ? 0 : text.length - point - 1;
+}
+
+const ISO_DATE = /^\d{4}-\d{2}-\d{2}$/;
+
+/** A test date as YYYY-MM-DD that exists on the calendar, or a message. */
+export function checkTestDate(text: string | null | undefined, today = new Date()): { ok: true; value: string | null } | { ok: false; message: string } {
+  const trimmed = (text ?? "").trim();
+  if (trimmed === "") return { ok: true, value: null };
+  const date = new Date(`${trimmed}T00:00:00Z`);
+  if (!ISO_DATE.test(trimmed) || Number.isNaN(date.getTime()) || date.toISOString().slice(0, 10) !== trimmed) {
+    return { ok: false, message: "Enter the test date as YYYY-MM-DD." };
+  }
+  // A day of slack for time zones: a lab ahead of the server may already be on tomorrow.
+  if (date.getTime() > today.getTime() + 36 * 3600 * 1000) return { ok: false, message: "The test date is in the future." };
+  return { ok: true, value: trimmed };
+}

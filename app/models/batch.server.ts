@@ -1,0 +1,157 @@
+/**
+ * A lab's batch of one material: the day's aggregate moisture and batch
+ * volume that its batch sheet is computed from, and the fresh properties
+ * measured on it. The arithmetic itself lives in ~/lib/batching.
+ */
+import { and, asc, eq } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { batches, freshPropertyTargets, mixtureConstituents, studies } from "~/db/schema";
+import { recordAudit } from "~/lib/audit.server";
+import {
+  batchSheet,
+  type Constituent,
+  isAggregate,
+  mixtureDesignSchema,
+  suggestBatchVolume,
+} from "~/lib/batching";
+import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
+import { assertResultsEditable, type Enrollment } from "~/models/results.server";
+
+type ConstituentRow = typeof mixtureConstituents.$inferSelect;
+
+/** A stored constituent row in the shape the batching library checks; missing numbers stay missing so the check names them. */
+function asConstituent(row: ConstituentRow): Record<string, unknown> {
+  const base = { kind: row.kind, name: row.name, ...(row.lot ? { lot: row.lot } : {}) };
+  const given = (value: number | null) => value ?? undefined;
+  switch (row.kind) {
+    case "coarse_aggregate":
+    case "fine_aggregate":
+      return { ...base, ssdMassKgPerM3: given(row.ssdMassKgPerM3), relativeDensity: given(row.relativeDensity), absorptionPercent: given(row.absorptionPercent) };
+    case "admixture":
+      return { ...base, dosagePer100kgCementitious: given(row.dosageMlPer100Kg) };
+    case "fiber":
+      return { ...base, volumeFractionPercent: given(row.volumeFractionPercent), fiberDensity: given(row.fiberDensityKgPerM3) };
+    case "air":
+      return { ...base, airContentPercent: given(row.airContentPercent) };
+    default:
+      return { ...base, ssdMassKgPerM3: given(row.ssdMassKgPerM3), relativeDensity: given(row.relativeDensity) };
+  }
+}
+
+/** The material's mixture design, with each row's constituent id; `problem` when the coordinator's design is incomplete. */
+export async function loadMixtureDesign(materialId: number, materialCode: string) {
+  const rows = await db.select().from(mixtureConstituents).where(eq(mixtureConstituents.materialId, materialId)).orderBy(asc(mixtureConstituents.sortOrder), asc(mixtureConstituents.id));
+  const parsed = mixtureDesignSchema.safeParse({ name: materialCode, constituents: rows.map(asConstituent) });
+  return {
+    constituentIds: rows.map((r) => r.id),
+    design: parsed.success ? parsed.data : null,
+    problem: parsed.success ? null : `The mixture design of ${materialCode} is incomplete (${parsed.error.issues[0]?.message}); ask the coordinator.`,
+  };
+}
+
+export async function getBatch(enrollmentId: number, materialId: number) {
+  return (await db.query.batches.findFirst({ where: and(eq(batches.enrollmentId, enrollmentId), eq(batches.materialId, materialId)) })) ?? null;
+}
+
+export type BatchSheetView = ReturnType<typeof computeBatchSheet>;
+
+/**
+ * The batch sheet for the lab's inputs: the suggested volume (one specimen per
+ * replicate), and, once every aggregate has its moisture content, the sheet.
+ */
+export function computeBatchSheet(
+  design: { name: string; constituents: Constituent[] },
+  constituentIds: number[],
+  replicates: number,
+  inputs: { batchVolumeM3: number | null; moistureByConstituentId: Record<string, number> },
+) {
+  const suggestion = suggestBatchVolume({ specimens: replicates });
+  const volume = inputs.batchVolumeM3 ?? suggestion.volumeM3;
+  const moistureByIndex: Record<number, number> = {};
+  const missingMoisture: string[] = [];
+  design.constituents.forEach((c, index) => {
+    if (!isAggregate(c)) return;
+    const mc = inputs.moistureByConstituentId[String(constituentIds[index])];
+    if (mc === undefined) missingMoisture.push(c.name);
+    else moistureByIndex[index] = mc;
+  });
+  const sheet = missingMoisture.length === 0 ? batchSheet(design, { batchVolumeM3: volume, moistureContentPercent: moistureByIndex }) : null;
+  return { suggestion, batchVolumeM3: volume, missingMoisture, sheet };
+}
+
+export class BatchInputError extends Error {
+  constructor(
+    readonly field: string,
+    message: string,
+  ) {
+    super(message);
+  }
+}
+
+/** Stores the day's moisture contents (% of oven-dry mass) and batch volume; both are checked by the caller's schema. */
+export async function saveBatchInputs(enrollment: Enrollment, materialId: number, input: { batchVolumeM3: number; moistureByConstituentId: Record<string, number> }) {
+  const study = await db.query.studies.findFirst({ where: eq(studies.id, enrollment.studyId) });
+  assertResultsEditable(study!);
+  const fields = { batchVolumeM3: input.batchVolumeM3, aggregateMoisture: input.moistureByConstituentId };
+  await db
+    .insert(batches)
+    .values({ enrollmentId: enrollment.id, materialId, ...fields })
+    .onConflictDoUpdate({ target: [batches.enrollmentId, batches.materialId], set: fields });
+}
+
+export async function freshTargets(studyId: number) {
+  const rows = await db.select().from(freshPropertyTargets).where(eq(freshPropertyTargets.studyId, studyId));
+  return Object.fromEntries(rows.map((r) => [r.property, { target: r.target, tolerance: r.tolerance }])) as Partial<Record<FreshProperty, { target: number; tolerance: number }>>;
+}
+
+export type FreshInput = Partial<Record<FreshProperty, string>> & { batchedAt?: string };
+export type FreshProblems = Partial<Record<FreshProperty | "batchedAt", string>>;
+
+const DATE_TIME = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/;
+
+/**
+ * Saves the batch's fresh properties. A refused reading is left as it was
+ * stored and named in the problems; a reading out of the study's tolerance is
+ * saved (the coordinator sees the mark), never dropped.
+ */
+export async function saveFreshProperties(enrollment: Enrollment, materialId: number, input: FreshInput, user: { id: number }) {
+  const study = await db.query.studies.findFirst({ where: eq(studies.id, enrollment.studyId) });
+  assertResultsEditable(study!);
+  const targets = await freshTargets(enrollment.studyId);
+  const problems: FreshProblems = {};
+  const fields: Partial<typeof batches.$inferInsert> = {};
+  for (const property of FRESH_PROPERTY_NAMES) {
+    if (input[property] === undefined) continue;
+    const check = checkFreshReading(property, input[property], targets[property]);
+    if (check.status === "refused") problems[property] = check.message;
+    else fields[FRESH_FIELDS[property].column] = check.status === "ok" ? check.value : null;
+  }
+  if (input.batchedAt !== undefined) {
+    const text = input.batchedAt.trim();
+    if (text !== "" && !DATE_TIME.test(text)) problems.batchedAt = "Enter the date and time of batching.";
+    else fields.batchedAt = text || null;
+  }
+  const before = await getBatch(enrollment.id, materialId);
+  const changed = Object.entries(fields).some(([key, value]) => (before as Record<string, unknown> | null)?.[key] !== value && !(before === null && value === null));
+  if (changed) {
+    await db.transaction(async (tx) => {
+      await tx
+        .insert(batches)
+        .values({ enrollmentId: enrollment.id, materialId, ...fields })
+        .onConflictDoUpdate({ target: [batches.enrollmentId, batches.materialId], set: fields });
+      await recordAudit(
+        {
+          actorUserId: user.id,
+          action: "batch.fresh_properties_saved",
+          entityType: "enrollment",
+          entityId: enrollment.id,
+          studyId: enrollment.studyId,
+          before: before && Object.fromEntries(Object.keys(fields).map((k) => [k, (before as Record<string, unknown>)[k]])),
+          after: fields,
+        },
+        tx,
+      );
+    });
+  }
+  return { problems };
+}

@@ -1,0 +1,491 @@
+/**
+ * A lab's results: draft saves, import, submission and amendments. Every
+ * function takes the enrollment from the access guard, never from a form, so
+ * an analyst reaches only their own lab's cells. Each write records its audit
+ * event and bumps the study's data version in the same transaction.
+ */
+import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import {
+  amendments,
+  auditEvents,
+  batches,
+  cells,
+  enrollments,
+  labs,
+  materials,
+  queries,
+  responses,
+  results,
+  shipments,
+  studies,
+  users,
+} from "~/db/schema";
+import { recordAudit } from "~/lib/audit.server";
+import { checkResultValue, checkTestDate } from "~/lib/results/values";
+import { STATE_LABEL } from "~/lib/study-states";
+import { IMAGE_TYPES, storeUpload } from "~/lib/uploads.server";
+
+type Tx = Parameters<Parameters<typeof db.transaction>[0]>[0];
+export type Enrollment = typeof enrollments.$inferSelect;
+type Study = typeof studies.$inferSelect;
+type Actor = { id: number };
+
+/** A refusal with a message for the person, shown beside the form. */
+export class ResultsError extends Error {}
+
+/** The one place that says when results may change, so the study lifecycle can take it over. */
+export function assertResultsEditable(study: Pick<Study, "state">) {
+  if (study.state !== "testing") {
+    throw new ResultsError(`Results can be changed only while the study is in testing; it is now “${STATE_LABEL[study.state]}”.`);
+  }
+}
+
+/** One result as typed in the form, read from a CSV row or sent to the API. */
+export type ResultInputRow = {
+  /** Row number to name in problems (CSV: the spreadsheet row; form and API: position from 1). */
+  row?: number;
+  material: string;
+  response: string;
+  replicate: number | string;
+  value: string | number | null;
+  testedOn?: string | null;
+  operator?: string | null;
+};
+
+export type RowField = "material" | "response" | "replicate" | "value" | "tested_on" | "operator";
+export type RowProblem = { row: number; field: RowField; message: string };
+
+type ResolvedRow = {
+  row: number;
+  materialId: number;
+  materialCode: string;
+  responseId: number;
+  responseKey: string;
+  replicate: number;
+  value: number | null;
+  testedOn: string | null;
+  operator: string;
+};
+
+async function studyFrame(studyId: number) {
+  const [study, studyMaterials, studyResponses] = await Promise.all([
+    db.query.studies.findFirst({ where: eq(studies.id, studyId) }),
+    db.select().from(materials).where(eq(materials.studyId, studyId)).orderBy(asc(materials.sortOrder), asc(materials.code)),
+    db.select().from(responses).where(eq(responses.studyId, studyId)).orderBy(asc(responses.sortOrder)),
+  ]);
+  if (!study) throw new ResultsError("The study no longer exists.");
+  return { study, materials: studyMaterials, responses: studyResponses };
+}
+type StudyFrame = Awaited<ReturnType<typeof studyFrame>>;
+
+const cellKey = (materialId: number, responseId: number) => `${materialId}:${responseId}`;
+
+async function enrollmentCells(executor: Pick<typeof db, "select">, enrollmentId: number) {
+  const rows = await executor.select().from(cells).where(eq(cells.enrollmentId, enrollmentId));
+  return new Map(rows.map((c) => [cellKey(c.materialId, c.responseId), c]));
+}
+
+/** Checks rows against the study and the lab's cells; rows with a problem are left out of `resolved`. */
+function resolveRows(frame: StudyFrame, existingCells: Map<string, typeof cells.$inferSelect>, rows: ResultInputRow[], { valueRequired }: { valueRequired: boolean }) {
+  const problems: RowProblem[] = [];
+  const resolved: ResolvedRow[] = [];
+  const seen = new Map<string, number>();
+  const materialCodes = frame.materials.map((m) => m.code).join(", ");
+  const responseKeys = frame.responses.map((r) => r.key).join(", ");
+  rows.forEach((input, index) => {
+    const row = input.row ?? index + 1;
+    const problem = (field: RowField, message: string) => problems.push({ row, field, message });
+    const materialCode = String(input.material ?? "").trim();
+    const responseKey = String(input.response ?? "").trim();
+    const material = frame.materials.find((m) => m.code.toLowerCase() === materialCode.toLowerCase());
+    const response = frame.responses.find((r) => r.key.toLowerCase() === responseKey.toLowerCase());
+    if (!material) return problem("material", `The study has no material “${materialCode}” (it has ${materialCodes}).`);
+    if (!response) return problem("response", `The study has no response “${responseKey}” (it has ${responseKeys}).`);
+    const replicate = Number(String(input.replicate).trim());
+    if (!Number.isInteger(replicate) || replicate < 1 || replicate > frame.study.replicatesPerCell) {
+      return problem("replicate", `Replicate must be a whole number from 1 to ${frame.study.replicatesPerCell}.`);
+    }
+    const where = `${material.code} · ${response.key} · replicate ${replicate}`;
+    const earlier = seen.get(`${material.id}:${response.id}:${replicate}`);
+    if (earlier !== undefined) return problem("replicate", `${where} is already given in row ${earlier}.`);
+    seen.set(`${material.id}:${response.id}:${replicate}`, row);
+    if (existingCells.get(cellKey(material.id, response.id))?.status === "submitted") {
+      return problem("value", `${where} is already submitted; change it with an amendment (with a reason) on the result entry page.`);
+    }
+    const check = checkResultValue(response, input.value);
+    if (check.status === "refused") return problem("value", check.message);
+    if (check.status === "empty" && valueRequired) return problem("value", "The value is empty.");
+    const date = checkTestDate(input.testedOn);
+    if (!date.ok) return problem("tested_on", date.message);
+    const operator = String(input.operator ?? "").trim();
+    if (operator.length > 120) return problem("operator", "Keep the operator's name to 120 characters or fewer.");
+    resolved.push({
+      row,
+      materialId: material.id,
+      materialCode: material.code,
+      responseId: response.id,
+      responseKey: response.key,
+      replicate,
+      value: check.status === "ok" ? check.value : null,
+      testedOn: date.value,
+      operator,
+    });
+  });
+  return { problems, resolved };
+}
+
+type Change = { material: string; response: string; replicate: number; before: number | null; after: number | null };
+
+/** Writes resolved rows (an empty value clears a draft replicate); returns what actually changed. */
+async function writeRows(tx: Tx, enrollment: Enrollment, rows: ResolvedRow[]) {
+  let cellByKey = await enrollmentCells(tx, enrollment.id);
+  const missing = [...new Set(rows.filter((r) => r.value !== null).map((r) => cellKey(r.materialId, r.responseId)))].filter((k) => !cellByKey.has(k));
+  if (missing.length > 0) {
+    await tx
+      .insert(cells)
+      .values(missing.map((k) => ({ enrollmentId: enrollment.id, materialId: Number(k.split(":")[0]), responseId: Number(k.split(":")[1]) })))
+      .onConflictDoNothing();
+    cellByKey = await enrollmentCells(tx, enrollment.id);
+  }
+  const cellIds = [...cellByKey.values()].map((c) => c.id);
+  const stored = cellIds.length ? await tx.select().from(results).where(inArray(results.cellId, cellIds)) : [];
+  const storedByKey = new Map(stored.map((r) => [`${r.cellId}:${r.replicate}`, r]));
+
+  const changes: Change[] = [];
+  const touchedCells = new Set<number>();
+  for (const row of rows) {
+    const cell = cellByKey.get(cellKey(row.materialId, row.responseId));
+    if (!cell) continue; // clearing a replicate that was never stored
+    const before = storedByKey.get(`${cell.id}:${row.replicate}`);
+    if (row.value === null) {
+      if (!before) continue;
+      await tx.delete(results).where(eq(results.id, before.id));
+    } else {
+      const unchanged = before && before.value === row.value && before.testedOn === row.testedOn && before.operator === row.operator;
+      if (unchanged) continue;
+      const fields = { value: row.value, testedOn: row.testedOn, operator: row.operator, updatedAt: new Date() };
+      await tx
+        .insert(results)
+        .values({ cellId: cell.id, replicate: row.replicate, ...fields })
+        .onConflictDoUpdate({ target: [results.cellId, results.replicate], set: fields });
+    }
+    touchedCells.add(cell.id);
+    changes.push({ material: row.materialCode, response: row.responseKey, replicate: row.replicate, before: before?.value ?? null, after: row.value });
+  }
+  if (touchedCells.size > 0) {
+    await tx.update(cells).set({ version: sql`${cells.version} + 1` }).where(inArray(cells.id, [...touchedCells]));
+    await bumpDataVersion(tx, enrollment.studyId);
+  }
+  return changes;
+}
+
+function bumpDataVersion(tx: Tx, studyId: number) {
+  return tx.update(studies).set({ dataVersion: sql`${studies.dataVersion} + 1` }).where(eq(studies.id, studyId));
+}
+
+const changeTrail = (changes: Change[]) => ({
+  before: changes.map(({ before, ...where }) => ({ ...where, value: before })),
+  after: changes.map(({ after, ...where }) => ({ ...where, value: after })),
+});
+
+export type DraftSaveOutcome = { saved: number; problems: RowProblem[] };
+
+/**
+ * Saves draft results; saving the same rows twice changes nothing. Rows with
+ * a problem are refused one by one (returned with their row number), the rest
+ * are saved, so a half-typed form never blocks the fields already right.
+ */
+export async function saveDraftResults(enrollment: Enrollment, rows: ResultInputRow[], user: Actor): Promise<DraftSaveOutcome> {
+  const frame = await studyFrame(enrollment.studyId);
+  assertResultsEditable(frame.study);
+  return db.transaction(async (tx) => {
+    const { problems, resolved } = resolveRows(frame, await enrollmentCells(tx, enrollment.id), rows, { valueRequired: false });
+    const changes = await writeRows(tx, enrollment, resolved);
+    if (changes.length > 0) {
+      await recordAudit(
+        { actorUserId: user.id, action: "results.draft_saved", entityType: "enrollment", entityId: enrollment.id, studyId: enrollment.studyId, ...changeTrail(changes) },
+        tx,
+      );
+    }
+    return { saved: changes.length, problems };
+  });
+}
+
+export type ImportOutcome = { ok: true; imported: number } | { ok: false; problems: RowProblem[] };
+
+/** Checks every row first; imports all of them in one transaction, or none when any row has a problem. */
+export async function importResults(enrollment: Enrollment, rows: ResultInputRow[], user: Actor, fileName = ""): Promise<ImportOutcome> {
+  const frame = await studyFrame(enrollment.studyId);
+  assertResultsEditable(frame.study);
+  if (rows.length === 0) return { ok: false, problems: [{ row: 1, field: "value", message: "The file has no result rows." }] };
+  return db.transaction(async (tx) => {
+    const { problems, resolved } = resolveRows(frame, await enrollmentCells(tx, enrollment.id), rows, { valueRequired: true });
+    if (problems.length > 0) return { ok: false as const, problems };
+    const changes = await writeRows(tx, enrollment, resolved);
+    await recordAudit(
+      {
+        actorUserId: user.id,
+        action: "results.imported",
+        entityType: "enrollment",
+        entityId: enrollment.id,
+        studyId: enrollment.studyId,
+        ...changeTrail(changes),
+        reason: fileName ? `CSV import of ${fileName} (${rows.length} rows)` : `CSV import (${rows.length} rows)`,
+      },
+      tx,
+    );
+    return { ok: true as const, imported: rows.length };
+  });
+}
+
+/** What a lab sees on one material's result entry page: its own cells only. */
+export async function materialEntry(enrollment: Enrollment, materialId: number) {
+  const material = await db.query.materials.findFirst({ where: and(eq(materials.id, materialId), eq(materials.studyId, enrollment.studyId)) });
+  if (!material) return null;
+  const studyResponses = await db.select().from(responses).where(eq(responses.studyId, enrollment.studyId)).orderBy(asc(responses.sortOrder));
+  const materialCells = await db.select().from(cells).where(and(eq(cells.enrollmentId, enrollment.id), eq(cells.materialId, materialId)));
+  const cellIds = materialCells.map((c) => c.id);
+  const [cellResults, cellAmendments] = cellIds.length
+    ? await Promise.all([
+        db.select().from(results).where(inArray(results.cellId, cellIds)).orderBy(asc(results.replicate)),
+        db
+          .select({ id: amendments.id, cellId: amendments.cellId, replicate: amendments.replicate, oldValue: amendments.oldValue, newValue: amendments.newValue, reason: amendments.reason, byName: users.name, createdAt: amendments.createdAt })
+          .from(amendments)
+          .innerJoin(users, eq(users.id, amendments.byUserId))
+          .where(inArray(amendments.cellId, cellIds))
+          .orderBy(desc(amendments.createdAt)),
+      ])
+    : [[], []];
+  return {
+    material,
+    responses: studyResponses.map((response) => {
+      const cell = materialCells.find((c) => c.responseId === response.id) ?? null;
+      return {
+        ...response,
+        cell: cell && { id: cell.id, status: cell.status, version: cell.version, amended: cell.amended, submittedAt: cell.submittedAt },
+        results: cell ? cellResults.filter((r) => r.cellId === cell.id) : [],
+        amendments: cell ? cellAmendments.filter((a) => a.cellId === cell.id) : [],
+      };
+    }),
+  };
+}
+
+/** Submits every response of one material: each needs all its replicates, a test date and an operator. */
+export async function submitMaterial(enrollment: Enrollment, materialId: number, user: Actor): Promise<{ ok: true } | { ok: false; problems: string[] }> {
+  const frame = await studyFrame(enrollment.studyId);
+  assertResultsEditable(frame.study);
+  const material = frame.materials.find((m) => m.id === materialId);
+  if (!material) throw new ResultsError("The study has no such material.");
+  return db.transaction(async (tx) => {
+    const cellByKey = await enrollmentCells(tx, enrollment.id);
+    const problems: string[] = [];
+    const toSubmit: { cellId: number; values: number[] }[] = [];
+    for (const response of frame.responses) {
+      const cell = cellByKey.get(cellKey(material.id, response.id));
+      if (cell?.status === "submitted") continue;
+      const stored = cell ? await tx.select().from(results).where(eq(results.cellId, cell.id)).orderBy(asc(results.replicate)) : [];
+      for (let replicate = 1; replicate <= frame.study.replicatesPerCell; replicate++) {
+        const result = stored.find((r) => r.replicate === replicate);
+        if (!result) problems.push(`${response.name}, replicate ${replicate}: no value yet.`);
+        else if (!result.testedOn || !result.operator) problems.push(`${response.name}, replicate ${replicate}: enter the test date and the operator.`);
+      }
+      if (cell) toSubmit.push({ cellId: cell.id, values: stored.map((r) => r.value) });
+    }
+    if (problems.length > 0) return { ok: false as const, problems };
+    if (toSubmit.length === 0) return { ok: false as const, problems: [`${material.code} is already submitted.`] };
+    const now = new Date();
+    await tx
+      .update(cells)
+      .set({ status: "submitted", submittedAt: now, submittedBy: user.id, version: sql`${cells.version} + 1` })
+      .where(inArray(cells.id, toSubmit.map((c) => c.cellId)));
+    await bumpDataVersion(tx, enrollment.studyId);
+    await recordAudit(
+      {
+        actorUserId: user.id,
+        action: "results.submitted",
+        entityType: "enrollment",
+        entityId: enrollment.id,
+        studyId: enrollment.studyId,
+        after: { material: material.code, cells: toSubmit },
+      },
+      tx,
+    );
+    return { ok: true as const };
+  });
+}
+
+export type AmendmentInput = { responseId: number; replicate: number; value: string; reason: string; expectedVersion: number };
+export type AmendmentOutcome = { ok: true } | { ok: false; field: "value" | "reason" | "form"; message: string };
+
+/**
+ * Changes one submitted replicate. The cell's version must still be the one
+ * the analyst saw: if someone changed it meanwhile, nothing is overwritten
+ * and the analyst is told to reload.
+ */
+export async function amendResult(enrollment: Enrollment, materialId: number, input: AmendmentInput, user: Actor): Promise<AmendmentOutcome> {
+  const frame = await studyFrame(enrollment.studyId);
+  assertResultsEditable(frame.study);
+  const response = frame.responses.find((r) => r.id === input.responseId);
+  const material = frame.materials.find((m) => m.id === materialId);
+  if (!response || !material) throw new ResultsError("The study has no such material or response.");
+  const reason = input.reason.trim();
+  if (reason.length < 5) return { ok: false, field: "reason", message: "Give the reason for the change (at least 5 characters)." };
+  if (reason.length > 1000) return { ok: false, field: "reason", message: "Keep the reason to 1000 characters or fewer." };
+  const check = checkResultValue(response, input.value);
+  if (check.status === "empty") return { ok: false, field: "value", message: "Enter the corrected value." };
+  if (check.status === "refused") return { ok: false, field: "value", message: check.message };
+  return db.transaction(async (tx) => {
+    const cell = (await enrollmentCells(tx, enrollment.id)).get(cellKey(materialId, response.id));
+    if (!cell || cell.status !== "submitted") return { ok: false as const, field: "form" as const, message: "Only submitted results are amended; edit a draft directly." };
+    const before = await tx.query.results.findFirst({ where: and(eq(results.cellId, cell.id), eq(results.replicate, input.replicate)) });
+    if (!before) return { ok: false as const, field: "form" as const, message: "That replicate has no submitted value." };
+    if (before.value === check.value) return { ok: false as const, field: "value" as const, message: "The new value is the same as the submitted one." };
+    const bumped = await tx
+      .update(cells)
+      .set({ version: sql`${cells.version} + 1`, amended: true })
+      .where(and(eq(cells.id, cell.id), eq(cells.version, input.expectedVersion)))
+      .returning({ id: cells.id });
+    if (bumped.length === 0) {
+      return {
+        ok: false as const,
+        field: "form" as const,
+        message: "Someone changed this result after you opened the page. Reload to see the current value, then amend again if still needed.",
+      };
+    }
+    await tx.update(results).set({ value: check.value, updatedAt: new Date() }).where(eq(results.id, before.id));
+    await tx.insert(amendments).values({ cellId: cell.id, replicate: input.replicate, oldValue: before.value, newValue: check.value, reason, byUserId: user.id });
+    await bumpDataVersion(tx, enrollment.studyId);
+    const where = { material: material.code, response: response.key, replicate: input.replicate };
+    await recordAudit(
+      { actorUserId: user.id, action: "result.amended", entityType: "cell", entityId: cell.id, studyId: enrollment.studyId, before: { ...where, value: before.value }, after: { ...where, value: check.value }, reason },
+      tx,
+    );
+    return { ok: true as const };
+  });
+}
+
+export const PHOTO_MAX_BYTES = 10 * 1024 * 1024;
+
+/** Stores a surface photo (type judged from its bytes) and links it to every result of that replicate. */
+export async function attachReplicatePhoto(enrollment: Enrollment, materialId: number, replicate: number, file: File, user: Actor) {
+  const frame = await studyFrame(enrollment.studyId);
+  assertResultsEditable(frame.study);
+  const materialCells = await db.select().from(cells).where(and(eq(cells.enrollmentId, enrollment.id), eq(cells.materialId, materialId)));
+  if (materialCells.some((c) => c.status === "submitted")) throw new ResultsError("This material is submitted; its photos are locked with its results.");
+  const cellIds = materialCells.map((c) => c.id);
+  const replicateResults = cellIds.length
+    ? await db.select({ id: results.id }).from(results).where(and(inArray(results.cellId, cellIds), eq(results.replicate, replicate)))
+    : [];
+  if (replicateResults.length === 0) throw new ResultsError(`Enter a result of replicate ${replicate} before adding its photo.`);
+  const attachment = await storeUpload(file, { allowed: IMAGE_TYPES, maxBytes: PHOTO_MAX_BYTES, uploadedBy: user.id });
+  await db.transaction(async (tx) => {
+    await tx.update(results).set({ photoAttachmentId: attachment.id }).where(inArray(results.id, replicateResults.map((r) => r.id)));
+    const materialCode = frame.materials.find((m) => m.id === materialId)?.code;
+    await recordAudit(
+      { actorUserId: user.id, action: "result.photo_added", entityType: "enrollment", entityId: enrollment.id, studyId: enrollment.studyId, after: { material: materialCode, replicate, attachmentId: attachment.id, contentType: attachment.contentType } },
+      tx,
+    );
+  });
+  return attachment;
+}
+
+/** The coordinator's view: every lab's results of the study, with cell status and amendments. */
+export async function studyResults(studyId: number) {
+  const frame = await studyFrame(studyId);
+  const [studyEnrollments, studyCells] = await Promise.all([
+    db
+      .select({ id: enrollments.id, labCode: enrollments.labCode, labName: labs.name })
+      .from(enrollments)
+      .innerJoin(labs, eq(labs.id, enrollments.labId))
+      .where(eq(enrollments.studyId, studyId))
+      .orderBy(asc(enrollments.labCode)),
+    db.select().from(cells).innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId)).where(eq(enrollments.studyId, studyId)),
+  ]);
+  const cellIds = studyCells.map((c) => c.cells.id);
+  const [cellResults, cellAmendments] = cellIds.length
+    ? await Promise.all([
+        db.select().from(results).where(inArray(results.cellId, cellIds)).orderBy(asc(results.replicate)),
+        db
+          .select({ cellId: amendments.cellId, replicate: amendments.replicate, oldValue: amendments.oldValue, newValue: amendments.newValue, reason: amendments.reason, byName: users.name, createdAt: amendments.createdAt })
+          .from(amendments)
+          .innerJoin(users, eq(users.id, amendments.byUserId))
+          .where(inArray(amendments.cellId, cellIds))
+          .orderBy(desc(amendments.createdAt)),
+      ])
+    : [[], []];
+  const rows = studyEnrollments.flatMap((enrollment) =>
+    frame.materials.map((material) => ({
+      enrollmentId: enrollment.id,
+      labCode: enrollment.labCode,
+      labName: enrollment.labName,
+      materialCode: material.code,
+      cells: frame.responses.map((response) => {
+        const cell = studyCells.find((c) => c.cells.enrollmentId === enrollment.id && c.cells.materialId === material.id && c.cells.responseId === response.id)?.cells;
+        return {
+          responseKey: response.key,
+          status: cell ? (cell.status === "submitted" ? (cell.amended ? "amended" : "submitted") : "draft") : "not_started",
+          values: cell ? cellResults.filter((r) => r.cellId === cell.id).map((r) => ({ replicate: r.replicate, value: r.value })) : [],
+        };
+      }),
+      amendments: cellAmendments
+        .filter((a) => studyCells.some((c) => c.cells.id === a.cellId && c.cells.enrollmentId === enrollment.id && c.cells.materialId === material.id))
+        .map((a) => ({ ...a, responseKey: frame.responses.find((r) => r.id === studyCells.find((c) => c.cells.id === a.cellId)!.cells.responseId)!.key })),
+    })),
+  );
+  return { study: frame.study, materials: frame.materials, responses: frame.responses, rows };
+}
+
+export const AUDIT_PAGE_SIZE = 25;
+
+/** One page of the study's audit trail, newest first, with who did it. */
+export async function studyAuditTrail(studyId: number, page: number) {
+  const offset = (Math.max(1, page) - 1) * AUDIT_PAGE_SIZE;
+  const [events, [total]] = await Promise.all([
+    db
+      .select({ id: auditEvents.id, action: auditEvents.action, entityType: auditEvents.entityType, entityId: auditEvents.entityId, before: auditEvents.before, after: auditEvents.after, reason: auditEvents.reason, createdAt: auditEvents.createdAt, actorName: users.name })
+      .from(auditEvents)
+      .leftJoin(users, eq(users.id, auditEvents.actorUserId))
+      .where(eq(auditEvents.studyId, studyId))
+      .orderBy(desc(auditEvents.createdAt), desc(auditEvents.id))
+      .limit(AUDIT_PAGE_SIZE)
+      .offset(offset),
+    db.select({ n: sql<number>`count(*)` }).from(auditEvents).where(eq(auditEvents.studyId, studyId)),
+  ]);
+  return { events, total: total!.n, page: Math.max(1, page), pageCount: Math.max(1, Math.ceil(total!.n / AUDIT_PAGE_SIZE)) };
+}
+
+/** The lab's to-do list in one study: receipt, and per material its batch, results and open queries. */
+export async function enrollmentWorklist(enrollment: Enrollment) {
+  const frame = await studyFrame(enrollment.studyId);
+  const [shipment, labBatches, labCells, openQueries] = await Promise.all([
+    db.query.shipments.findFirst({ where: eq(shipments.enrollmentId, enrollment.id), orderBy: desc(shipments.createdAt) }),
+    db.select().from(batches).where(eq(batches.enrollmentId, enrollment.id)),
+    db.select().from(cells).where(eq(cells.enrollmentId, enrollment.id)),
+    db
+      .select({ id: queries.id, materialId: cells.materialId })
+      .from(queries)
+      .innerJoin(cells, eq(cells.id, queries.cellId))
+      .where(and(eq(cells.enrollmentId, enrollment.id), eq(queries.state, "open"))),
+  ]);
+  return {
+    study: frame.study,
+    shipment: shipment ? { status: shipment.status, receivedOn: shipment.receivedOn, condition: shipment.condition } : null,
+    materials: frame.materials.map((material) => {
+      const materialCells = labCells.filter((c) => c.materialId === material.id);
+      const batch = labBatches.find((b) => b.materialId === material.id);
+      const submitted = materialCells.filter((c) => c.status === "submitted").length;
+      const status =
+        materialCells.length === 0 ? "not_started" : submitted === frame.responses.length ? (materialCells.some((c) => c.amended) ? "amended" : "submitted") : "draft";
+      return {
+        id: material.id,
+        code: material.code,
+        description: material.description,
+        batchRecorded: Boolean(batch && (batch.batchedAt || batch.slumpMm !== null)),
+        moistureEntered: Boolean(batch?.aggregateMoisture && Object.keys(batch.aggregateMoisture).length > 0),
+        status: status as "not_started" | "draft" | "submitted" | "amended",
+        openQueries: openQueries.filter((q) => q.materialId === material.id).length,
+      };
+    }),
+  };
+}
