@@ -1,6 +1,6 @@
 // Precision engine: pure functions, no React, router or database, shared by pages, API routes, the CLI and tests.
 export { analyzeStudy } from "./analyzeStudy";
-export { analyzeGroup, MIN_LABS, MIN_REPLICATES } from "./analyzeGroup";
+export { MIN_LABS, MIN_REPLICATES } from "./analyzeGroup";
 export { parseResultsCsv, RESULT_COLUMNS, type ParsedResults } from "./csv";
 export { isInputError } from "./problems";
 export { SIGNIFICANCE_LEVELS, isSignificanceLevel, assertSignificanceLevel, consistencyTails, type SignificanceLevel } from "./significance";
