@@ -34,6 +34,10 @@ const BASE: Cells = {
 };
 // Invented: lab L05 planted about 5 units high (between-lab outlier).
 const PLANTED_BETWEEN: Cells = { ...BASE, L05: [105.2, 104.9, 105.4] };
+// Invented: lab L06 planted about 5 units low (between-lab outlier on the other side).
+const PLANTED_LOW: Cells = { ...BASE, L06: [95.1, 94.8, 95.3] };
+// Invented: labs L02 and L07 planted together about 1.5 units high (a pair for the double Grubbs test).
+const PLANTED_PAIR: Cells = { ...BASE, L02: [101.4, 101.7, 101.1], L07: [101.7, 102.0, 101.4] };
 // Invented: lab L03 planted with a spread of about 3 (within-lab outlier), same average.
 const PLANTED_WITHIN: Cells = { ...BASE, L03: [97.0, 100.4, 103.1] };
 
@@ -52,6 +56,20 @@ describe("planted outliers (invented data)", () => {
     expect(group.grubbs.high).toMatchObject({ lab: "L05", class: "outlier" });
     expect(group.grubbs.low.class).toBeNull();
     expect(group.cochran.class).toBeNull();
+  });
+
+  it("a planted low between-lab outlier is flagged on h, for that lab only", () => {
+    const group = computed(analyzeStudy(toRows(PLANTED_LOW)).groups[0]);
+    expect(flagged(group)).toEqual([{ lab: "L06", flags: ["h"] }]);
+    expect(group.labs.find((lab) => lab.lab === "L06")?.h).toBeLessThan(-group.hCritical);
+    expect(group.grubbs.low).toMatchObject({ lab: "L06", class: "outlier" });
+    expect(group.grubbs.high.class).toBeNull();
+  });
+
+  it("a planted pair of high labs is caught by the double Grubbs test, high side only", () => {
+    const group = computed(analyzeStudy(toRows(PLANTED_PAIR)).groups[0]);
+    expect(group.grubbs.doubleHigh).toMatchObject({ labs: ["L07", "L02"], class: "outlier" });
+    expect(group.grubbs.doubleLow?.class).toBeNull();
   });
 
   it("a planted within-lab outlier is flagged on k, for that lab only", () => {
