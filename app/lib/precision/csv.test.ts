@@ -30,8 +30,11 @@ describe("parseResultsCsv", () => {
     expect(problems).toMatchObject([{ code: "duplicate-column" }]);
   });
 
-  it("reports an empty file", () => {
+  it("reports an empty file and a file without results", () => {
     expect(parseResultsCsv("\n\n").problems).toMatchObject([{ code: "unreadable-csv" }]);
+    expect(parseResultsCsv("lab,material,response,replicate,value\n").problems).toMatchObject([
+      { code: "unreadable-csv", message: "the file has a header but no results" },
+    ]);
   });
 
   it("reports rows with the wrong number of fields", () => {

@@ -81,5 +81,8 @@ export function parseResultsCsv(text: string): ParsedResults {
       row,
     });
   }
+  if (rows.length === 0 && problems.length === 0) {
+    problems.push({ code: "unreadable-csv", message: "the file has a header but no results" });
+  }
   return { rows, problems };
 }
