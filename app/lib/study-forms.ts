@@ -134,3 +134,26 @@ export const materialSchema = z.object({
 });
 
 export const transitionSchema = z.object({ to: z.enum(STUDY_STATES, { message: "Choose a state." }) });
+
+const requiredDate = (what: string) => z.iso.date({ message: `Enter the ${what} date as YYYY-MM-DD.` });
+
+export const shipmentCreateSchema = z.object({
+  enrollmentId: z.coerce.number({ message: "Choose a lab." }).int().positive({ message: "Choose a lab." }),
+  contents: z.string().trim().min(1, { message: "List the materials and lots in the shipment." }).max(2000, { message: "Keep the contents to 2000 characters or fewer." }),
+  carrier: optionalText(120, "carrier"),
+  trackingNumber: optionalText(120, "tracking number"),
+});
+
+export const shipSchema = z.object({
+  shipmentId: z.coerce.number().int().positive(),
+  shippedOn: requiredDate("ship"),
+  carrier: z.string().trim().min(1, { message: "Name the carrier." }).max(120, { message: "Keep the carrier to 120 characters or fewer." }),
+  trackingNumber: optionalText(120, "tracking number"),
+});
+
+export const receiptSchema = z.object({
+  shipmentId: z.coerce.number().int().positive(),
+  receivedOn: requiredDate("receipt"),
+  condition: z.enum(["good", "damaged"], { message: "Say whether the materials arrived in good condition or damaged." }),
+  receiptNotes: optionalText(2000, "notes"),
+});

@@ -18,7 +18,7 @@ import {
 } from "~/db/schema";
 import { recordAudit } from "~/lib/audit.server";
 import { FieldRefusal } from "~/lib/form-results";
-import { inToMm, slumpTolerance, AIR_CONTENT_TOLERANCE_POINTS } from "~/lib/batching";
+import { AIR_CONTENT_TOLERANCE_POINTS, type Constituent, inToMm, slumpTolerance } from "~/lib/batching";
 import type { freshTargetsSchema, materialSchema, newStudySchema, responseSchema, studyFields } from "~/lib/study-forms";
 import { setupEditable } from "~/lib/study-lifecycle";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
@@ -189,4 +189,70 @@ export async function loadSetup(study: Study) {
       : Promise.resolve(undefined),
   ]);
   return { responses: studyResponses, targets, coordinators, reviewers, materials: studyMaterials, owner: owner!, protocol: protocol ?? null };
+}
+
+type ConstituentRow = typeof mixtureConstituents.$inferSelect;
+
+/** A stored row as the batching module's constituent (SI, per m³). */
+export function constituentFromRow(row: ConstituentRow): Constituent {
+  const base = { name: row.name, lot: row.lot || undefined };
+  switch (row.kind) {
+    case "admixture":
+      return { ...base, kind: row.kind, dosagePer100kgCementitious: row.dosageMlPer100Kg ?? 0 };
+    case "fiber":
+      return { ...base, kind: row.kind, volumeFractionPercent: row.volumeFractionPercent ?? 0, fiberDensity: row.fiberDensityKgPerM3 ?? 0 };
+    case "air":
+      return { ...base, kind: row.kind, airContentPercent: row.airContentPercent ?? 0 };
+    case "coarse_aggregate":
+    case "fine_aggregate":
+      return { ...base, kind: row.kind, ssdMassKgPerM3: row.ssdMassKgPerM3 ?? 0, relativeDensity: row.relativeDensity ?? 0, absorptionPercent: row.absorptionPercent ?? 0 };
+    default:
+      return { ...base, kind: row.kind, ssdMassKgPerM3: row.ssdMassKgPerM3 ?? 0, relativeDensity: row.relativeDensity ?? 0 };
+  }
+}
+
+function rowFromConstituent(c: Constituent, materialId: number, sortOrder: number): typeof mixtureConstituents.$inferInsert {
+  const row: typeof mixtureConstituents.$inferInsert = { materialId, sortOrder, kind: c.kind, name: c.name, lot: c.lot ?? "" };
+  switch (c.kind) {
+    case "admixture":
+      return { ...row, dosageMlPer100Kg: c.dosagePer100kgCementitious };
+    case "fiber":
+      return { ...row, volumeFractionPercent: c.volumeFractionPercent, fiberDensityKgPerM3: c.fiberDensity };
+    case "air":
+      return { ...row, airContentPercent: c.airContentPercent };
+    case "coarse_aggregate":
+    case "fine_aggregate":
+      return { ...row, ssdMassKgPerM3: c.ssdMassKgPerM3, relativeDensity: c.relativeDensity, absorptionPercent: c.absorptionPercent };
+    default:
+      return { ...row, ssdMassKgPerM3: c.ssdMassKgPerM3, relativeDensity: c.relativeDensity };
+  }
+}
+
+export async function loadMaterial(studyId: number, materialId: number) {
+  const material = await db.query.materials.findFirst({ where: and(eq(materials.id, materialId), eq(materials.studyId, studyId)) });
+  if (!material) return null;
+  const rows = await db.select().from(mixtureConstituents).where(eq(mixtureConstituents.materialId, materialId)).orderBy(asc(mixtureConstituents.sortOrder));
+  return { material, constituents: rows.map(constituentFromRow) };
+}
+
+/** Saves the material's code, description and mixture design (all rows replaced at once). */
+export async function saveMaterial(
+  study: Study,
+  material: typeof materials.$inferSelect,
+  input: z.infer<typeof materialSchema> & { constituents: Constituent[] },
+  actorUserId: number,
+) {
+  assertSetupEditable(study, "code");
+  const clash = await db.query.materials.findFirst({
+    where: and(eq(materials.studyId, study.id), eq(materials.code, input.code), ne(materials.id, material.id)),
+  });
+  if (clash) throw new SetupError("code", "This study already has a material with this code.");
+  await db.transaction(async (tx) => {
+    await tx.update(materials).set({ code: input.code, description: input.description }).where(eq(materials.id, material.id));
+    await tx.delete(mixtureConstituents).where(eq(mixtureConstituents.materialId, material.id));
+    if (input.constituents.length) {
+      await tx.insert(mixtureConstituents).values(input.constituents.map((c, i) => rowFromConstituent(c, material.id, i)));
+    }
+    await recordAudit({ actorUserId, action: "mixture_design_saved", entityType: "material", entityId: material.id, studyId: study.id, after: input }, tx);
+  });
 }

@@ -5,6 +5,7 @@ import {
   enrollments,
   labs,
   materials,
+  queries,
   responses,
   studies,
   studyCoordinators,
@@ -64,24 +65,37 @@ export async function enrollmentProgress(enrollmentId: number) {
   return Object.fromEntries(rows.map((r) => [r.status, r.cells])) as Partial<Record<"draft" | "submitted", number>>;
 }
 
-export type CellStatus = "not_started" | "draft" | "submitted" | "amended";
+export const CELL_STATUS_ORDER = ["not_started", "draft", "submitted", "amended", "queried"] as const;
+export type CellStatus = (typeof CELL_STATUS_ORDER)[number];
 
-/** Lab × material matrix of cell status for the coordinator's overview (one query per table, no per-row queries). */
-export async function studyMatrix(studyId: number) {
-  const [studyMaterials, studyResponses, studyEnrollments, studyCells] = await Promise.all([
+/**
+ * Lab × material matrix of cell status for the coordinator's overview (one
+ * query per table, no per-row queries). A lab × material pair is `queried`
+ * while any of its cells has a query not yet closed. Pass `enrollmentId` to
+ * read one lab's own row only.
+ */
+export async function studyMatrix(studyId: number, { enrollmentId }: { enrollmentId?: number } = {}) {
+  const enrollmentScope = enrollmentId === undefined ? eq(enrollments.studyId, studyId) : and(eq(enrollments.studyId, studyId), eq(enrollments.id, enrollmentId));
+  const [studyMaterials, studyResponses, studyEnrollments, studyCells, openQueries] = await Promise.all([
     db.select().from(materials).where(eq(materials.studyId, studyId)).orderBy(asc(materials.sortOrder), asc(materials.code)),
     db.select().from(responses).where(eq(responses.studyId, studyId)).orderBy(asc(responses.sortOrder)),
     db
       .select({ id: enrollments.id, labCode: enrollments.labCode, state: enrollments.state, labName: labs.name })
       .from(enrollments)
       .innerJoin(labs, eq(labs.id, enrollments.labId))
-      .where(eq(enrollments.studyId, studyId))
+      .where(and(enrollmentScope, eq(enrollments.state, "accepted")))
       .orderBy(asc(enrollments.labCode)),
     db
       .select({ enrollmentId: cells.enrollmentId, materialId: cells.materialId, status: cells.status, amended: cells.amended })
       .from(cells)
       .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
-      .where(and(eq(enrollments.studyId, studyId))),
+      .where(enrollmentScope),
+    db
+      .selectDistinct({ enrollmentId: cells.enrollmentId, materialId: cells.materialId })
+      .from(queries)
+      .innerJoin(cells, eq(cells.id, queries.cellId))
+      .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+      .where(and(enrollmentScope, inArray(queries.state, ["open", "answered"]))),
   ]);
   const statusByKey = new Map<string, CellStatus[]>();
   for (const c of studyCells) {
@@ -89,7 +103,9 @@ export async function studyMatrix(studyId: number) {
     const status: CellStatus = c.status === "submitted" ? (c.amended ? "amended" : "submitted") : "draft";
     statusByKey.set(key, [...(statusByKey.get(key) ?? []), status]);
   }
+  const queried = new Set(openQueries.map((q) => `${q.enrollmentId}:${q.materialId}`));
   const materialStatus = (enrollmentId: number, materialId: number): CellStatus => {
+    if (queried.has(`${enrollmentId}:${materialId}`)) return "queried";
     const statuses = statusByKey.get(`${enrollmentId}:${materialId}`) ?? [];
     if (statuses.length < studyResponses.length || statuses.length === 0) return statuses.length ? "draft" : "not_started";
     if (statuses.every((s) => s === "submitted" || s === "amended")) return statuses.includes("amended") ? "amended" : "submitted";
@@ -103,4 +119,15 @@ export async function studyMatrix(studyId: number) {
       statuses: studyMaterials.map((m) => materialStatus(e.id, m.id)),
     })),
   };
+}
+
+export type StudyMatrix = Awaited<ReturnType<typeof studyMatrix>>;
+
+/** How many lab × material pairs are in each status, per material. */
+export function statusCountsByMaterial(matrix: StudyMatrix) {
+  return matrix.materials.map((m, i) => {
+    const counts = Object.fromEntries(CELL_STATUS_ORDER.map((s) => [s, 0])) as Record<CellStatus, number>;
+    for (const row of matrix.rows) counts[row.statuses[i]!] += 1;
+    return { materialId: m.id, code: m.code, counts };
+  });
 }

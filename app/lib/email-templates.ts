@@ -1,0 +1,84 @@
+/**
+ * The product's messages, each built with composeEmail so every transport
+ * sends exactly the same text. Callers pass absolute links (appUrl).
+ */
+import { composeEmail } from "~/lib/email.server";
+
+type StudyRef = { code: string; title: string };
+
+export function invitationEmail(p: { to: string; contactName: string; labName: string; study: StudyRef; url: string; expiresOn: string }) {
+  return composeEmail({
+    to: p.to,
+    subject: `Invitation to interlaboratory study ${p.study.code}`,
+    greeting: `Dear ${p.contactName || "lab contact"},`,
+    paragraphs: [
+      `${p.labName} is invited to take part in ${p.study.code}, "${p.study.title}".`,
+      "Open the link to accept or decline. If you have no Ringbatch account yet, you set your password there.",
+      `The link works once and expires on ${p.expiresOn}. Do not forward it: whoever opens it acts for your lab.`,
+    ],
+    action: { label: "Answer the invitation", url: p.url },
+  });
+}
+
+export function shipmentNoticeEmail(p: {
+  to: string;
+  labName: string;
+  study: StudyRef;
+  contents: string;
+  carrier: string;
+  trackingNumber: string;
+  shippedOn: string;
+  url: string;
+}) {
+  return composeEmail({
+    to: p.to,
+    subject: `${p.study.code}: materials shipped to ${p.labName}`,
+    greeting: `Dear ${p.labName} team,`,
+    paragraphs: [
+      `The materials for ${p.study.code} left on ${p.shippedOn}${p.carrier ? ` with ${p.carrier}` : ""}${p.trackingNumber ? `, tracking number ${p.trackingNumber}` : ""}.`,
+      `Contents: ${p.contents || "as listed on the packing slip"}.`,
+      "When they arrive, confirm receipt and their condition. Bags of cement and aggregate are heavy: lift with help.",
+    ],
+    action: { label: "Confirm receipt", url: p.url },
+  });
+}
+
+export function missingResultsReminderEmail(p: { to: string; labName: string; study: StudyRef; missing: string[]; resultsDue: string | null; url: string }) {
+  return composeEmail({
+    to: p.to,
+    subject: `${p.study.code}: results still missing`,
+    greeting: `Dear ${p.labName} team,`,
+    paragraphs: [
+      `Results for ${p.study.code} are not yet submitted for: ${p.missing.join(", ")}.`,
+      p.resultsDue ? `Results are due on ${p.resultsDue}.` : "Please submit them as soon as you can.",
+    ],
+    action: { label: "Open your study tasks", url: p.url },
+  });
+}
+
+export function queryRaisedEmail(p: { to: string; labName: string; study: StudyRef; materialCode: string; responseName: string; question: string; url: string }) {
+  return composeEmail({
+    to: p.to,
+    subject: `${p.study.code}: a question about your results for ${p.materialCode}`,
+    greeting: `Dear ${p.labName} team,`,
+    paragraphs: [
+      `The coordinator has a question about your ${p.responseName} results for material ${p.materialCode}:`,
+      p.question,
+      "Nothing is excluded before you have had the chance to answer.",
+    ],
+    action: { label: "Answer the question", url: p.url },
+  });
+}
+
+export function reviewRequestedEmail(p: { to: string; reviewerName: string; study: StudyRef; statementVersion: number; url: string }) {
+  return composeEmail({
+    to: p.to,
+    subject: `${p.study.code}: precision statement version ${p.statementVersion} for review`,
+    greeting: `Dear ${p.reviewerName},`,
+    paragraphs: [
+      `The draft precision statement of ${p.study.code}, "${p.study.title}", is ready for your review.`,
+      "You see the blinded data, the consistency plots and the draft text; comment and vote approve, object (with your reason) or abstain.",
+    ],
+    action: { label: "Review the statement", url: p.url },
+  });
+}

@@ -1,0 +1,26 @@
+/**
+ * The local mailbox: while no provider key is set, messages stay in the
+ * outbox table and /dev/mailbox shows them.
+ */
+import { desc, eq } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { emailOutbox } from "~/db/schema";
+import { emailTransport } from "~/lib/email.server";
+
+export function mailboxEnabled() {
+  return emailTransport() === "fake";
+}
+
+export async function listMessages(limit = 200) {
+  return db
+    .select({ id: emailOutbox.id, to: emailOutbox.to, subject: emailOutbox.subject, createdAt: emailOutbox.createdAt })
+    .from(emailOutbox)
+    .where(eq(emailOutbox.transport, "fake"))
+    .orderBy(desc(emailOutbox.id))
+    .limit(limit);
+}
+
+export async function getMessage(id: number) {
+  const message = await db.query.emailOutbox.findFirst({ where: eq(emailOutbox.id, id) });
+  return message?.transport === "fake" ? message : null;
+}

@@ -1,0 +1,34 @@
+/** Reminds the labs whose results are not all submitted — and only those. */
+import { eq, inArray } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { enrollments, labs, type studies } from "~/db/schema";
+import { recordAudit } from "~/lib/audit.server";
+import { appUrl, sendEmail } from "~/lib/email.server";
+import { missingResultsReminderEmail } from "~/lib/email-templates";
+import { studyMatrix } from "~/models/study.server";
+
+const DONE = new Set(["submitted", "amended"]);
+
+export async function remindLabsWithMissingResults(study: typeof studies.$inferSelect, actorUserId: number, request: Request | null) {
+  const matrix = await studyMatrix(study.id);
+  const missing = matrix.rows
+    .map((row) => ({ enrollmentId: row.id, codes: matrix.materials.filter((_, i) => !DONE.has(row.statuses[i]!)).map((m) => m.code) }))
+    .filter((r) => r.codes.length > 0);
+  if (missing.length === 0) return { reminded: [] as string[] };
+  const contacts = await db
+    .select({ enrollmentId: enrollments.id, name: labs.name, email: labs.contactEmail })
+    .from(enrollments)
+    .innerJoin(labs, eq(labs.id, enrollments.labId))
+    .where(inArray(enrollments.id, missing.map((m) => m.enrollmentId)));
+  const reminded: string[] = [];
+  for (const m of missing) {
+    const lab = contacts.find((c) => c.enrollmentId === m.enrollmentId);
+    if (!lab?.email) continue;
+    await sendEmail(
+      missingResultsReminderEmail({ to: lab.email, labName: lab.name, study, missing: m.codes, resultsDue: study.resultsDue, url: appUrl(request, `/lab/studies/${study.id}`) }),
+    );
+    reminded.push(lab.name);
+  }
+  await recordAudit({ actorUserId, action: "missing_results_reminded", entityType: "study", entityId: study.id, studyId: study.id, after: { labs: reminded } });
+  return { reminded };
+}
