@@ -4,6 +4,7 @@ import { AppHeader } from "~/components/AppHeader";
 import { getUser } from "~/lib/guards.server";
 import { isForeignOrigin } from "~/lib/origin-check.server";
 import { withSecurityHeaders } from "~/lib/security-headers.server";
+import { mailboxEnabled } from "~/models/mailbox.server";
 import "./app.css";
 
 const guardRequests: Route.MiddlewareFunction = async ({ request }, next) => {
@@ -17,7 +18,7 @@ export const middleware: Route.MiddlewareFunction[] = [guardRequests];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await getUser(request);
-  return data({ user: user && { name: user.name, role: user.role } });
+  return data({ user: user && { name: user.name, role: user.role }, mailbox: mailboxEnabled() });
 }
 
 export const meta: Route.MetaFunction = () => [{ title: "Ringbatch" }];
@@ -36,7 +37,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
         <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 focus:rounded focus:bg-white focus:px-3 focus:py-2">
           Skip to content
         </a>
-        <AppHeader user={rootData?.user ?? null} />
+        <AppHeader user={rootData?.user ?? null} mailbox={rootData?.mailbox ?? false} />
         <main id="main" className="mx-auto max-w-6xl px-4 py-8">
           {children}
         </main>

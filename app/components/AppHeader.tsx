@@ -10,7 +10,10 @@ const NAV_BY_ROLE: Record<Role, { to: string; label: string }[]> = {
     { to: "/admin/labs", label: "Labs" },
     { to: "/studies", label: "Studies" },
   ],
-  coordinator: [{ to: "/studies", label: "Studies" }],
+  coordinator: [
+    { to: "/studies", label: "Studies" },
+    { to: "/studies/new", label: "New study" },
+  ],
   analyst: [{ to: "/lab", label: "My lab" }],
   reviewer: [{ to: "/review", label: "Reviews" }],
 };
@@ -22,7 +25,11 @@ const ROLE_LABEL: Record<Role, string> = {
   reviewer: "Committee reviewer",
 };
 
-export function AppHeader({ user }: { user: HeaderUser | null }) {
+/** The local mailbox, while no real mail provider is set; its messages carry sign-in links. */
+const MAILBOX_LINK = { to: "/dev/mailbox", label: "Mailbox" };
+
+export function AppHeader({ user, mailbox = false }: { user: HeaderUser | null; mailbox?: boolean }) {
+  const nav = user ? [...NAV_BY_ROLE[user.role], ...(mailbox && (user.role === "admin" || user.role === "coordinator") ? [MAILBOX_LINK] : [])] : [];
   return (
     <header className="no-print bg-basalt-800 text-white">
       <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
@@ -31,7 +38,7 @@ export function AppHeader({ user }: { user: HeaderUser | null }) {
         </a>
         {user && (
           <nav aria-label="Main" className="flex flex-1 flex-wrap gap-1">
-            {NAV_BY_ROLE[user.role].map((item) => (
+            {nav.map((item) => (
               <NavLink
                 key={item.to}
                 to={item.to}

@@ -5,15 +5,9 @@
  */
 import { and, asc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { batches, freshPropertyTargets, mixtureConstituents, studies } from "~/db/schema";
+import { batches, freshPropertyTargets, materials, mixtureConstituents, studies } from "~/db/schema";
 import { recordAudit } from "~/lib/audit.server";
-import {
-  batchSheet,
-  type Constituent,
-  isAggregate,
-  mixtureDesignSchema,
-  suggestBatchVolume,
-} from "~/lib/batching";
+import { mixtureDesignSchema } from "~/lib/batching";
 import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
 import { assertResultsEditable, type Enrollment } from "~/models/results.server";
 
@@ -49,43 +43,14 @@ export async function loadMixtureDesign(materialId: number, materialCode: string
   };
 }
 
+/** A material of the study, or undefined (a material id from another study is not found). */
+export async function findStudyMaterial(studyId: number, materialId: number) {
+  if (!Number.isSafeInteger(materialId)) return undefined;
+  return db.query.materials.findFirst({ where: and(eq(materials.id, materialId), eq(materials.studyId, studyId)) });
+}
+
 export async function getBatch(enrollmentId: number, materialId: number) {
   return (await db.query.batches.findFirst({ where: and(eq(batches.enrollmentId, enrollmentId), eq(batches.materialId, materialId)) })) ?? null;
-}
-
-export type BatchSheetView = ReturnType<typeof computeBatchSheet>;
-
-/**
- * The batch sheet for the lab's inputs: the suggested volume (one specimen per
- * replicate), and, once every aggregate has its moisture content, the sheet.
- */
-export function computeBatchSheet(
-  design: { name: string; constituents: Constituent[] },
-  constituentIds: number[],
-  replicates: number,
-  inputs: { batchVolumeM3: number | null; moistureByConstituentId: Record<string, number> },
-) {
-  const suggestion = suggestBatchVolume({ specimens: replicates });
-  const volume = inputs.batchVolumeM3 ?? suggestion.volumeM3;
-  const moistureByIndex: Record<number, number> = {};
-  const missingMoisture: string[] = [];
-  design.constituents.forEach((c, index) => {
-    if (!isAggregate(c)) return;
-    const mc = inputs.moistureByConstituentId[String(constituentIds[index])];
-    if (mc === undefined) missingMoisture.push(c.name);
-    else moistureByIndex[index] = mc;
-  });
-  const sheet = missingMoisture.length === 0 ? batchSheet(design, { batchVolumeM3: volume, moistureContentPercent: moistureByIndex }) : null;
-  return { suggestion, batchVolumeM3: volume, missingMoisture, sheet };
-}
-
-export class BatchInputError extends Error {
-  constructor(
-    readonly field: string,
-    message: string,
-  ) {
-    super(message);
-  }
 }
 
 /** Stores the day's moisture contents (% of oven-dry mass) and batch volume; both are checked by the caller's schema. */

@@ -22,7 +22,8 @@ import {
   users,
 } from "~/db/schema";
 import { recordAudit } from "~/lib/audit.server";
-import { checkResultValue, checkTestDate } from "~/lib/results/values";
+import { cellKey, type ResolvedRow, resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
+import { checkResultValue } from "~/lib/results/values";
 import { STATE_LABEL } from "~/lib/study-states";
 import { IMAGE_TYPES, storeUpload } from "~/lib/uploads.server";
 
@@ -41,32 +42,7 @@ export function assertResultsEditable(study: Pick<Study, "state">) {
   }
 }
 
-/** One result as typed in the form, read from a CSV row or sent to the API. */
-export type ResultInputRow = {
-  /** Row number to name in problems (CSV: the spreadsheet row; form and API: position from 1). */
-  row?: number;
-  material: string;
-  response: string;
-  replicate: number | string;
-  value: string | number | null;
-  testedOn?: string | null;
-  operator?: string | null;
-};
-
-export type RowField = "material" | "response" | "replicate" | "value" | "tested_on" | "operator";
-export type RowProblem = { row: number; field: RowField; message: string };
-
-type ResolvedRow = {
-  row: number;
-  materialId: number;
-  materialCode: string;
-  responseId: number;
-  responseKey: string;
-  replicate: number;
-  value: number | null;
-  testedOn: string | null;
-  operator: string;
-};
+export type { ResultInputRow, RowField, RowProblem } from "~/lib/results/rows";
 
 async function studyFrame(studyId: number) {
   const [study, studyMaterials, studyResponses] = await Promise.all([
@@ -79,60 +55,15 @@ async function studyFrame(studyId: number) {
 }
 type StudyFrame = Awaited<ReturnType<typeof studyFrame>>;
 
-const cellKey = (materialId: number, responseId: number) => `${materialId}:${responseId}`;
-
 async function enrollmentCells(executor: Pick<typeof db, "select">, enrollmentId: number) {
   const rows = await executor.select().from(cells).where(eq(cells.enrollmentId, enrollmentId));
   return new Map(rows.map((c) => [cellKey(c.materialId, c.responseId), c]));
 }
 
 /** Checks rows against the study and the lab's cells; rows with a problem are left out of `resolved`. */
-function resolveRows(frame: StudyFrame, existingCells: Map<string, typeof cells.$inferSelect>, rows: ResultInputRow[], { valueRequired }: { valueRequired: boolean }) {
-  const problems: RowProblem[] = [];
-  const resolved: ResolvedRow[] = [];
-  const seen = new Map<string, number>();
-  const materialCodes = frame.materials.map((m) => m.code).join(", ");
-  const responseKeys = frame.responses.map((r) => r.key).join(", ");
-  rows.forEach((input, index) => {
-    const row = input.row ?? index + 1;
-    const problem = (field: RowField, message: string) => problems.push({ row, field, message });
-    const materialCode = String(input.material ?? "").trim();
-    const responseKey = String(input.response ?? "").trim();
-    const material = frame.materials.find((m) => m.code.toLowerCase() === materialCode.toLowerCase());
-    const response = frame.responses.find((r) => r.key.toLowerCase() === responseKey.toLowerCase());
-    if (!material) return problem("material", `The study has no material “${materialCode}” (it has ${materialCodes}).`);
-    if (!response) return problem("response", `The study has no response “${responseKey}” (it has ${responseKeys}).`);
-    const replicate = Number(String(input.replicate).trim());
-    if (!Number.isInteger(replicate) || replicate < 1 || replicate > frame.study.replicatesPerCell) {
-      return problem("replicate", `Replicate must be a whole number from 1 to ${frame.study.replicatesPerCell}.`);
-    }
-    const where = `${material.code} · ${response.key} · replicate ${replicate}`;
-    const earlier = seen.get(`${material.id}:${response.id}:${replicate}`);
-    if (earlier !== undefined) return problem("replicate", `${where} is already given in row ${earlier}.`);
-    seen.set(`${material.id}:${response.id}:${replicate}`, row);
-    if (existingCells.get(cellKey(material.id, response.id))?.status === "submitted") {
-      return problem("value", `${where} is already submitted; change it with an amendment (with a reason) on the result entry page.`);
-    }
-    const check = checkResultValue(response, input.value);
-    if (check.status === "refused") return problem("value", check.message);
-    if (check.status === "empty" && valueRequired) return problem("value", "The value is empty.");
-    const date = checkTestDate(input.testedOn);
-    if (!date.ok) return problem("tested_on", date.message);
-    const operator = String(input.operator ?? "").trim();
-    if (operator.length > 120) return problem("operator", "Keep the operator's name to 120 characters or fewer.");
-    resolved.push({
-      row,
-      materialId: material.id,
-      materialCode: material.code,
-      responseId: response.id,
-      responseKey: response.key,
-      replicate,
-      value: check.status === "ok" ? check.value : null,
-      testedOn: date.value,
-      operator,
-    });
-  });
-  return { problems, resolved };
+function resolveRows(frame: StudyFrame, existingCells: Map<string, typeof cells.$inferSelect>, rows: ResultInputRow[], options: { valueRequired: boolean }) {
+  const submittedCells = new Set([...existingCells].filter(([, c]) => c.status === "submitted").map(([key]) => key));
+  return resolveResultRows({ replicatesPerCell: frame.study.replicatesPerCell, materials: frame.materials, responses: frame.responses, submittedCells }, rows, options);
 }
 
 type Change = { material: string; response: string; replicate: number; before: number | null; after: number | null };
@@ -241,6 +172,7 @@ export async function importResults(enrollment: Enrollment, rows: ResultInputRow
 
 /** What a lab sees on one material's result entry page: its own cells only. */
 export async function materialEntry(enrollment: Enrollment, materialId: number) {
+  if (!Number.isSafeInteger(materialId)) return null;
   const material = await db.query.materials.findFirst({ where: and(eq(materials.id, materialId), eq(materials.studyId, enrollment.studyId)) });
   if (!material) return null;
   const studyResponses = await db.select().from(responses).where(eq(responses.studyId, enrollment.studyId)).orderBy(asc(responses.sortOrder));
@@ -487,5 +419,18 @@ export async function enrollmentWorklist(enrollment: Enrollment) {
         openQueries: openQueries.filter((q) => q.materialId === material.id).length,
       };
     }),
+  };
+}
+
+/** What the import preview needs to check rows in the browser: the study's codes and rules, and which of the lab's own cells are submitted. */
+export async function importFrame(enrollment: Enrollment) {
+  const frame = await studyFrame(enrollment.studyId);
+  const labCells = await enrollmentCells(db, enrollment.id);
+  return {
+    study: frame.study,
+    replicatesPerCell: frame.study.replicatesPerCell,
+    materials: frame.materials.map((m) => ({ id: m.id, code: m.code })),
+    responses: frame.responses.map((r) => ({ id: r.id, key: r.key, name: r.name, unit: r.unit, kind: r.kind, decimals: r.decimals, plausibleMin: r.plausibleMin, plausibleMax: r.plausibleMax })),
+    submittedCells: [...labCells].filter(([, c]) => c.status === "submitted").map(([key]) => key),
   };
 }

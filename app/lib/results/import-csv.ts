@@ -1,0 +1,49 @@
+/**
+ * The lab's results file: comma-separated, a header row naming at least
+ * `material,response,replicate,value`, optionally `tested_on` and `operator`,
+ * in any order. Row numbers count records with the header as row 1, as a
+ * spreadsheet shows them, so a problem can be found in the file.
+ */
+import Papa from "papaparse";
+import type { ResultInputRow } from "./rows";
+
+export const REQUIRED_COLUMNS = ["material", "response", "replicate", "value"] as const;
+export const OPTIONAL_COLUMNS = ["tested_on", "operator"] as const;
+export const IMPORT_MAX_BYTES = 2 * 1024 * 1024;
+
+export type ParsedImport = { rows: ResultInputRow[]; fileProblems: string[] };
+
+const isBlank = (record: string[]) => record.every((field) => field.trim() === "");
+
+/** Records (as papaparse returns them) to result rows, or the problems of the file's shape. */
+export function recordsToRows(records: string[][]): ParsedImport {
+  const headerAt = records.findIndex((r) => !isBlank(r));
+  if (headerAt < 0) return { rows: [], fileProblems: ["The file is empty."] };
+  const header = records[headerAt]!.map((h) => h.trim().toLowerCase().replace(/^\uFEFF/, ""));
+  const missing = REQUIRED_COLUMNS.filter((c) => !header.includes(c));
+  if (missing.length > 0) {
+    return { rows: [], fileProblems: [`The header row has no ${missing.map((c) => `“${c}”`).join(", ")} column (needed: ${REQUIRED_COLUMNS.join(",")}; optional: ${OPTIONAL_COLUMNS.join(",")}).`] };
+  }
+  const column = (name: string) => header.indexOf(name);
+  const rows: ResultInputRow[] = [];
+  const fileProblems: string[] = [];
+  records.forEach((record, index) => {
+    if (index <= headerAt || isBlank(record)) return;
+    const row = index + 1;
+    if (record.length !== header.length) {
+      fileProblems.push(`Row ${row} has ${record.length} fields where the header has ${header.length}.`);
+      return;
+    }
+    const field = (name: string) => (column(name) < 0 ? undefined : record[column(name)]!.trim());
+    rows.push({ row, material: field("material")!, response: field("response")!, replicate: field("replicate")!, value: field("value")!, testedOn: field("tested_on") ?? null, operator: field("operator") ?? null });
+  });
+  return { rows, fileProblems };
+}
+
+/** Parses the whole text at once (the server's way). */
+export function parseImportCsv(text: string): ParsedImport {
+  const parsed = Papa.parse<string[]>(text.replace(/^\uFEFF/, ""), { delimiter: ",", skipEmptyLines: false });
+  const quoting = parsed.errors.filter((e) => e.code === "MissingQuotes" || e.code === "InvalidQuotes").map((e) => `Row ${(e.row ?? 0) + 1}: ${e.message}.`);
+  const result = recordsToRows(parsed.data);
+  return { rows: result.rows, fileProblems: [...quoting, ...result.fileProblems] };
+}

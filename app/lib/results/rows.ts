@@ -1,0 +1,95 @@
+/**
+ * Checks result rows (typed, imported or sent to the API) against a study
+ * and the lab's submitted cells. Pure, so the import preview in the browser
+ * and the server's import name the same problems for the same rows.
+ */
+import { checkResultValue, checkTestDate, type ResponseRule } from "./values";
+
+/** One result as typed in the form, read from a CSV row or sent to the API. */
+export type ResultInputRow = {
+  /** Row number to name in problems (CSV: the spreadsheet row; form and API: position from 1). */
+  row?: number;
+  material: string;
+  response: string;
+  replicate: number | string;
+  value: string | number | null;
+  testedOn?: string | null;
+  operator?: string | null;
+};
+
+export type RowField = "material" | "response" | "replicate" | "value" | "tested_on" | "operator";
+export type RowProblem = { row: number; field: RowField; message: string };
+
+export type ResolvedRow = {
+  row: number;
+  materialId: number;
+  materialCode: string;
+  responseId: number;
+  responseKey: string;
+  replicate: number;
+  value: number | null;
+  /** Set when the value is kept but unusual. */
+  warning?: string;
+  testedOn: string | null;
+  operator: string;
+};
+
+export type RowFrame = {
+  replicatesPerCell: number;
+  materials: { id: number; code: string }[];
+  responses: (ResponseRule & { id: number; key: string })[];
+  /** `materialId:responseId` of the lab's submitted cells. */
+  submittedCells: Set<string>;
+};
+
+export const cellKey = (materialId: number, responseId: number) => `${materialId}:${responseId}`;
+
+/** Each row resolved to the study's ids, or named with its problem; a row with a problem is not resolved. */
+export function resolveResultRows(frame: RowFrame, rows: ResultInputRow[], { valueRequired }: { valueRequired: boolean }) {
+  const problems: RowProblem[] = [];
+  const resolved: ResolvedRow[] = [];
+  const seen = new Map<string, number>();
+  const materialCodes = frame.materials.map((m) => m.code).join(", ");
+  const responseKeys = frame.responses.map((r) => r.key).join(", ");
+  rows.forEach((input, index) => {
+    const row = input.row ?? index + 1;
+    const problem = (field: RowField, message: string) => problems.push({ row, field, message });
+    const materialCode = String(input.material ?? "").trim();
+    const responseKey = String(input.response ?? "").trim();
+    const material = frame.materials.find((m) => m.code.toLowerCase() === materialCode.toLowerCase());
+    const response = frame.responses.find((r) => r.key.toLowerCase() === responseKey.toLowerCase());
+    if (!material) return problem("material", `The study has no material “${materialCode}” (it has ${materialCodes}).`);
+    if (!response) return problem("response", `The study has no response “${responseKey}” (it has ${responseKeys}).`);
+    const replicate = Number(String(input.replicate).trim());
+    if (!Number.isInteger(replicate) || replicate < 1 || replicate > frame.replicatesPerCell) {
+      return problem("replicate", `Replicate must be a whole number from 1 to ${frame.replicatesPerCell}.`);
+    }
+    const where = `${material.code} · ${response.key} · replicate ${replicate}`;
+    const earlier = seen.get(`${material.id}:${response.id}:${replicate}`);
+    if (earlier !== undefined) return problem("replicate", `${where} is already given in row ${earlier}.`);
+    seen.set(`${material.id}:${response.id}:${replicate}`, row);
+    if (frame.submittedCells.has(cellKey(material.id, response.id))) {
+      return problem("value", `${where} is already submitted; change it with an amendment (with a reason) on the result entry page.`);
+    }
+    const check = checkResultValue(response, input.value);
+    if (check.status === "refused") return problem("value", check.message);
+    if (check.status === "empty" && valueRequired) return problem("value", "The value is empty.");
+    const date = checkTestDate(input.testedOn);
+    if (!date.ok) return problem("tested_on", date.message);
+    const operator = String(input.operator ?? "").trim();
+    if (operator.length > 120) return problem("operator", "Keep the operator's name to 120 characters or fewer.");
+    resolved.push({
+      row,
+      materialId: material.id,
+      materialCode: material.code,
+      responseId: response.id,
+      responseKey: response.key,
+      replicate,
+      value: check.status === "ok" ? check.value : null,
+      ...(check.status === "ok" && check.warning ? { warning: check.warning } : {}),
+      testedOn: date.value,
+      operator,
+    });
+  });
+  return { problems, resolved };
+}
