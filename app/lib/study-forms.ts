@@ -50,7 +50,7 @@ export const studyFields = z
       .min(0.0005, { message: "Use a significance level between 0.0005 and 0.1." })
       .max(0.1, { message: "Use a significance level between 0.0005 and 0.1." }),
     targetSurfaceRating: z
-      .union([z.literal(""), z.enum(["1", "2", "3"], { message: "Choose a rating of 1, 2 or 3." })])
+      .enum(["", "1", "2", "3"], { message: "Choose a rating of 1, 2 or 3, or none." })
       .transform((v) => (v === "" ? null : Number(v))),
     enrollmentDeadline: optionalDate,
     shipDate: optionalDate,
