@@ -21,10 +21,11 @@ async function freePort() {
 
 export type RunningServer = { url: string; databaseUrl: string; stop: () => Promise<void> };
 
-export async function startServer(extraEnv: Record<string, string> = {}): Promise<RunningServer> {
+/** `databaseUrl` reuses a prepared database (still migrated and seeded, which is idempotent). */
+export async function startServer(extraEnv: Record<string, string> = {}, { databaseUrl }: { databaseUrl?: string } = {}): Promise<RunningServer> {
   const serverBuild = join(process.env.BUILD_DIR ?? "build", "server/index.js");
   if (!existsSync(serverBuild)) throw new Error(`No build at ${serverBuild}: run \`npm run build\` before the browser tests.`);
-  const databaseUrl = `file:${join(mkdtempSync(join(tmpdir(), "ringbatch-e2e-")), "e2e.db")}`;
+  databaseUrl ??= `file:${join(mkdtempSync(join(tmpdir(), "ringbatch-e2e-")), "e2e.db")}`;
   const port = await freePort();
   const env = { ...process.env, NODE_ENV: "production", DATABASE_URL: databaseUrl, PORT: String(port), ...extraEnv };
   const setup = spawnSync("node_modules/.bin/tsx", ["scripts/db-setup.ts"], { env, encoding: "utf8" });
