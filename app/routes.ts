@@ -35,4 +35,6 @@ export default [
   route("api/v1/studies/:studyId/results", "routes/api.v1.studies.$studyId.results.ts"),
   route("api/v1/studies/:studyId/results.csv", "routes/api.v1.studies.$studyId.results-csv.ts"),
   route("api/v1/studies/:studyId/precision", "routes/api.v1.studies.$studyId.precision.ts"),
+  route("api/v1/studies/:studyId/what-if", "routes/api.v1.studies.$studyId.what-if.ts"),
+  route("studies/:studyId/analysis", "routes/studies.$studyId.analysis.tsx"),
 ] satisfies RouteConfig;

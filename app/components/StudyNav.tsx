@@ -7,6 +7,10 @@ export function StudyNav({ studyId }: { studyId: number }) {
     { to: `/studies/${studyId}/setup`, label: "Setup", end: false },
     { to: `/studies/${studyId}/labs`, label: "Labs", end: false },
     { to: `/studies/${studyId}/shipments`, label: "Shipments", end: false },
+    { to: `/studies/${studyId}/analysis`, label: "Analysis", end: false },
+    { to: `/studies/${studyId}/queries`, label: "Queries", end: false },
+    { to: `/studies/${studyId}/statement`, label: "Statement", end: false },
+    { to: `/studies/${studyId}/report`, label: "Report", end: false },
   ];
   return (
     <nav aria-label="Study pages" className="mb-6 flex flex-wrap gap-1 border-b border-basalt-200">

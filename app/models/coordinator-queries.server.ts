@@ -1,0 +1,107 @@
+/**
+ * Queries as the coordinator raises and closes them: a question to a lab
+ * about one of its cells, quoting the statistic that prompted it, e-mailed to
+ * the lab's members and tracked open → answered → closed.
+ */
+import { and, desc, eq, inArray } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { cells, enrollments, labMembers, labs, materials, queries, responses, studies, users } from "~/db/schema";
+import { recordAudit } from "~/lib/audit.server";
+import { appUrl, composeEmail, sendEmail } from "~/lib/email.server";
+import type { CellRef } from "~/lib/review/cells";
+import { queryRefusal } from "~/lib/review/write-rules";
+import { findCellId } from "~/models/decisions.server";
+
+type Study = typeof studies.$inferSelect;
+
+export class QueryError extends Error {}
+
+export type RaiseQueryInput = CellRef & { statistic: string; question: string };
+
+/** Raises a query on a cell and e-mails every member of the lab. */
+export async function raiseQuery(study: Study, actorUserId: number, input: RaiseQueryInput, request: Request | null) {
+  const refusal = queryRefusal(study.state);
+  if (refusal) throw new QueryError(refusal);
+  const cellId = await findCellId(study.id, input);
+  if (cellId === null) throw new QueryError(`Lab ${input.lab} has no ${input.response} results for material ${input.material}.`);
+  const query = await db.transaction(async (tx) => {
+    const [row] = await tx.insert(queries).values({ cellId, raisedBy: actorUserId, statistic: input.statistic, question: input.question }).returning();
+    await recordAudit(
+      { actorUserId, action: "query.raised", entityType: "query", entityId: row!.id, studyId: study.id, after: { lab: input.lab, material: input.material, response: input.response, statistic: input.statistic } },
+      tx,
+    );
+    return row!;
+  });
+  const recipients = await db
+    .select({ email: users.email, name: users.name })
+    .from(cells)
+    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+    .innerJoin(labMembers, eq(labMembers.labId, enrollments.labId))
+    .innerJoin(users, eq(users.id, labMembers.userId))
+    .where(eq(cells.id, cellId));
+  for (const recipient of recipients) {
+    await sendEmail(
+      composeEmail({
+        to: recipient.email,
+        subject: `${study.code}: a question about your ${input.material} results`,
+        greeting: `Hello ${recipient.name},`,
+        paragraphs: [
+          `The coordinator of ${study.code} has a question about your lab's results for material ${input.material}, response ${input.response}.`,
+          input.question,
+          ...(input.statistic ? [`What prompted it: ${input.statistic}.`] : []),
+          "Nothing has been removed from the study; your answer helps decide whether the results stand.",
+        ],
+        action: { label: "Answer the query", url: appUrl(request, "/lab/queries") },
+      }),
+    );
+  }
+  return query;
+}
+
+/** Every query of the study, newest first, with the lab's code and name (coordinators only). */
+export async function listStudyQueries(studyId: number) {
+  const rows = await db
+    .select({
+      id: queries.id,
+      lab: enrollments.labCode,
+      labName: labs.name,
+      material: materials.code,
+      response: responses.key,
+      statistic: queries.statistic,
+      question: queries.question,
+      state: queries.state,
+      answer: queries.answer,
+      createdAt: queries.createdAt,
+      answeredAt: queries.answeredAt,
+      closedAt: queries.closedAt,
+    })
+    .from(queries)
+    .innerJoin(cells, eq(cells.id, queries.cellId))
+    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+    .innerJoin(labs, eq(labs.id, enrollments.labId))
+    .innerJoin(materials, eq(materials.id, cells.materialId))
+    .innerJoin(responses, eq(responses.id, cells.responseId))
+    .where(eq(enrollments.studyId, studyId))
+    .orderBy(desc(queries.createdAt), desc(queries.id));
+  const iso = (d: Date | null) => d?.toISOString() ?? null;
+  return rows.map((r) => ({ ...r, lab: r.lab ?? "—", createdAt: r.createdAt.toISOString(), answeredAt: iso(r.answeredAt), closedAt: iso(r.closedAt) }));
+}
+
+/** Closes a query of this study; a query of another study is reported as missing. */
+export async function closeQuery(study: Study, actorUserId: number, queryId: number) {
+  const refusal = queryRefusal(study.state);
+  if (refusal) throw new QueryError(refusal);
+  const [found] = await db
+    .select({ id: queries.id, state: queries.state })
+    .from(queries)
+    .innerJoin(cells, eq(cells.id, queries.cellId))
+    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+    .where(and(eq(queries.id, queryId), eq(enrollments.studyId, study.id)));
+  if (!found) return null;
+  if (found.state === "closed") throw new QueryError("This query is already closed.");
+  await db.transaction(async (tx) => {
+    await tx.update(queries).set({ state: "closed", closedAt: new Date() }).where(and(eq(queries.id, queryId), inArray(queries.state, ["open", "answered"])));
+    await recordAudit({ actorUserId, action: "query.closed", entityType: "query", entityId: queryId, studyId: study.id, before: { state: found.state }, after: { state: "closed" } }, tx);
+  });
+  return found;
+}

@@ -1,0 +1,124 @@
+/**
+ * Cell decisions: the coordinator retains or excludes a lab × material ×
+ * response cell, always with a reason. Each decision bumps the study's data
+ * version (so cached analyses are recomputed) and enters the audit trail in
+ * the same transaction.
+ */
+import { and, asc, desc, eq, sql } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { auditEvents, cellDecisions, cells, enrollments, materials, responses, results, studies, users } from "~/db/schema";
+import { recordAudit } from "~/lib/audit.server";
+import type { CellRef } from "~/lib/review/cells";
+import { decisionRefusal } from "~/lib/review/write-rules";
+
+type Study = typeof studies.$inferSelect;
+
+export class DecisionError extends Error {}
+
+/** The database id of a cell named by lab code, material code and response key, or null. */
+export async function findCellId(studyId: number, cell: CellRef) {
+  const [row] = await db
+    .select({ id: cells.id })
+    .from(cells)
+    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+    .innerJoin(materials, eq(materials.id, cells.materialId))
+    .innerJoin(responses, eq(responses.id, cells.responseId))
+    .where(and(eq(enrollments.studyId, studyId), eq(enrollments.labCode, cell.lab), eq(materials.code, cell.material), eq(responses.key, cell.response)));
+  return row?.id ?? null;
+}
+
+/** Every decision of the study, retained or excluded, with who made it. */
+export async function listCellDecisions(studyId: number) {
+  const rows = await db
+    .select({
+      cellId: cellDecisions.cellId,
+      lab: enrollments.labCode,
+      material: materials.code,
+      response: responses.key,
+      decision: cellDecisions.decision,
+      reason: cellDecisions.reason,
+      decidedBy: users.name,
+      decidedAt: cellDecisions.decidedAt,
+    })
+    .from(cellDecisions)
+    .innerJoin(cells, eq(cells.id, cellDecisions.cellId))
+    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+    .innerJoin(materials, eq(materials.id, cells.materialId))
+    .innerJoin(responses, eq(responses.id, cells.responseId))
+    .innerJoin(users, eq(users.id, cellDecisions.decidedBy))
+    .where(eq(enrollments.studyId, studyId))
+    .orderBy(asc(enrollments.labCode), asc(materials.sortOrder), asc(responses.sortOrder));
+  return rows.map((r) => ({ ...r, lab: r.lab ?? "—", decidedAt: r.decidedAt.toISOString() }));
+}
+
+export type CellDecisionInput = CellRef & { decision: "retained" | "excluded"; reason: string };
+
+/** Records (or changes) the decision on one cell. Throws DecisionError with a message for the page. */
+export async function saveCellDecision(study: Study, actorUserId: number, input: CellDecisionInput) {
+  const refusal = decisionRefusal(study.state);
+  if (refusal) throw new DecisionError(refusal);
+  const cellId = await findCellId(study.id, input);
+  if (cellId === null) throw new DecisionError(`Lab ${input.lab} has no ${input.response} results for material ${input.material}.`);
+  const [hasResults] = await db.select({ n: sql<number>`count(*)` }).from(results).where(eq(results.cellId, cellId));
+  if (!hasResults?.n) throw new DecisionError("This cell has no results to decide on.");
+  return db.transaction(async (tx) => {
+    const previous = await tx.query.cellDecisions.findFirst({ where: eq(cellDecisions.cellId, cellId) });
+    const values = { decision: input.decision, reason: input.reason, decidedBy: actorUserId, decidedAt: new Date() };
+    if (previous) await tx.update(cellDecisions).set(values).where(eq(cellDecisions.id, previous.id));
+    else await tx.insert(cellDecisions).values({ cellId, ...values });
+    await tx.update(studies).set({ dataVersion: sql`${studies.dataVersion} + 1` }).where(eq(studies.id, study.id));
+    await recordAudit(
+      {
+        actorUserId,
+        action: "cell_decision.saved",
+        entityType: "cell",
+        entityId: cellId,
+        studyId: study.id,
+        before: previous ? { decision: previous.decision, reason: previous.reason } : null,
+        after: { lab: input.lab, material: input.material, response: input.response, decision: input.decision },
+        reason: input.reason,
+      },
+      tx,
+    );
+    return cellId;
+  });
+}
+
+/** The audit trail of the study's cell decisions, newest first. */
+export async function decisionHistory(studyId: number) {
+  const rows = await db
+    .select({ id: auditEvents.id, at: auditEvents.createdAt, by: users.name, before: auditEvents.before, after: auditEvents.after, reason: auditEvents.reason })
+    .from(auditEvents)
+    .leftJoin(users, eq(users.id, auditEvents.actorUserId))
+    .where(and(eq(auditEvents.studyId, studyId), eq(auditEvents.action, "cell_decision.saved")))
+    .orderBy(desc(auditEvents.createdAt), desc(auditEvents.id));
+  return rows.map((r) => ({
+    id: r.id,
+    at: r.at.toISOString(),
+    by: r.by ?? "—",
+    after: r.after as CellRef & { decision: string },
+    before: r.before as { decision: string } | null,
+    reason: r.reason ?? "",
+  }));
+}
+
+/** The replicate values and surface photos of each submitted cell, by lab code only, to show beside a flag. */
+export async function cellEvidence(studyId: number) {
+  const rows = await db
+    .select({
+      lab: enrollments.labCode,
+      material: materials.code,
+      response: responses.key,
+      replicate: results.replicate,
+      value: results.value,
+      photoFileId: results.photoAttachmentId,
+    })
+    .from(results)
+    .innerJoin(cells, eq(cells.id, results.cellId))
+    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+    .innerJoin(materials, eq(materials.id, cells.materialId))
+    .innerJoin(responses, eq(responses.id, cells.responseId))
+    .where(and(eq(enrollments.studyId, studyId), eq(cells.status, "submitted")))
+    .orderBy(asc(enrollments.labCode), asc(materials.sortOrder), asc(responses.sortOrder), asc(results.replicate));
+  return rows.map((r) => ({ ...r, lab: r.lab ?? "—" }));
+}
