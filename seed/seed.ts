@@ -12,6 +12,7 @@ import {
   labs,
   materials,
   mixtureConstituents,
+  queries,
   responses,
   results,
   studies,
@@ -46,6 +47,8 @@ type StudySpec = {
   draftLabs: number[];
   resultSeed: number;
   plants?: typeof CHECKING_STUDY_PLANTS;
+  /** A question the coordinator has already put to one lab about one cell. */
+  openQuery?: { labIndex: number; material: string; response: string; statistic: string; question: string };
 };
 
 const STUDIES: StudySpec[] = [
@@ -73,6 +76,13 @@ const STUDIES: StudySpec[] = [
     submittedLabs: [0, 1, 2, 3],
     draftLabs: [4, 5],
     resultSeed: 7331,
+    openQuery: {
+      labIndex: 0,
+      material: "F1",
+      response: "surface",
+      statistic: "",
+      question: "Please confirm your three F1 pass counts to the target surface, and tell us whether any specimen was finished later than the others or by a different operator.",
+    },
   },
 ];
 
@@ -149,6 +159,7 @@ export async function seedDemo(db: Database) {
           .returning();
         enrollmentIds.push(enrollment!.id);
       }
+      const cellIdOf = new Map<string, number>();
       const values = demoResults(materialRows.map((m) => m.code), REPLICATES, spec.resultSeed, spec.plants);
       for (const labIndex of [...spec.submittedLabs, ...spec.draftLabs]) {
         const submitted = spec.submittedLabs.includes(labIndex);
@@ -166,6 +177,7 @@ export async function seedDemo(db: Database) {
                 submittedAt: submitted ? new Date("2026-10-20") : null,
               })
               .returning();
+            cellIdOf.set(`${labIndex}:${material.code}:${response.key}`, cell!.id);
             const cellValues = values.filter((v) => v.labIndex === labIndex && v.material === material.code && v.response === response.key);
             await tx.insert(results).values(
               cellValues.map((v) => ({
@@ -178,6 +190,10 @@ export async function seedDemo(db: Database) {
             );
           }
         }
+      }
+      if (spec.openQuery) {
+        const { labIndex, material, response, statistic, question } = spec.openQuery;
+        await tx.insert(queries).values({ cellId: cellIdOf.get(`${labIndex}:${material}:${response}`)!, raisedBy: coordinatorId, statistic, question });
       }
     });
   }

@@ -1,3 +1,4 @@
+import { Link } from "react-router";
 import type { Route } from "./+types/lab";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireRole } from "~/lib/guards.server";
@@ -18,7 +19,15 @@ export async function loader({ request }: Route.LoaderArgs) {
 export default function LabHome({ loaderData }: Route.ComponentProps) {
   return (
     <>
-      <PageHeader title="My lab" subtitle="Studies your lab takes part in. You see your own lab's data only." />
+      <PageHeader
+        title="My lab"
+        subtitle="Studies your lab takes part in. You see your own lab's data only."
+        actions={
+          <Link to="/lab/queries" className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
+            Queries to your lab
+          </Link>
+        }
+      />
       <Card>
         {loaderData.enrollments.length === 0 ? (
           <p>Your lab is not enrolled in any study yet.</p>
@@ -28,7 +37,10 @@ export default function LabHome({ loaderData }: Route.ComponentProps) {
             headers={["Study", "Lab", "Your lab code", "Study state", "Results submitted", "Results due"]}
             rows={loaderData.enrollments.map((e) => [
               <span key="s">
-                <span className="font-semibold">{e.studyCode}</span> — {e.studyTitle}
+                <Link to={`/lab/studies/${e.studyId}`} className="font-semibold text-basalt-700 underline">
+                  {e.studyCode}
+                </Link>{" "}
+                — {e.studyTitle}
               </span>,
               e.labName,
               e.labCode ?? "—",

@@ -1,0 +1,79 @@
+import { and, eq, isNotNull } from "drizzle-orm";
+import { beforeAll, describe, expect, it, vi } from "vitest";
+import { db } from "~/db/client.server";
+import { attachments, materials, results, studies } from "~/db/schema";
+import * as files from "~/routes/files.$fileId";
+import * as entry from "~/routes/lab.studies.$studyId.results.$materialId";
+import { seedDemo } from "../../seed/seed";
+import { useFreshDatabase } from "../support/database";
+import { demoCookie } from "../support/demo";
+import { call, get } from "../support/routes";
+
+// The file store reads its directory when first loaded, so point it at a scratch directory before any import.
+vi.hoisted(() => {
+  process.env.UPLOADS_DIR = require("node:fs").mkdtempSync(require("node:path").join(require("node:os").tmpdir(), "ringbatch-uploads-"));
+});
+
+let studyId: string;
+let f1: string;
+
+beforeAll(async () => {
+  await useFreshDatabase();
+  await seedDemo(db);
+  const study = await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-B") });
+  studyId = String(study!.id);
+  f1 = String((await db.query.materials.findFirst({ where: and(eq(materials.studyId, study!.id), eq(materials.code, "F1")) }))!.id);
+});
+
+// A 1 × 1 pixel PNG: the 8-byte PNG signature (89 50 4E 47 0D 0A 1A 0A, PNG specification) and its chunks.
+const PNG = Uint8Array.from(atob("iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg=="), (c) => c.charCodeAt(0));
+
+function uploadPhoto(bytes: Uint8Array, name: string, cookie: string, replicate = "1") {
+  const form = new FormData();
+  form.set("intent", "photo");
+  form.set("replicate", replicate);
+  form.set("photo", new File([bytes as BlobPart], name, { type: "image/jpeg" }));
+  return new Request(`http://ringbatch.test/lab/studies/${studyId}/results/${f1}`, { method: "POST", headers: { Origin: "http://ringbatch.test", Cookie: cookie }, body: form });
+}
+
+describe("surface photos per replicate", () => {
+  it("accepts a PNG named .jpg as a PNG, judged from its bytes, and links it to the replicate", async () => {
+    const cookie = await demoCookie("analyst5@ringbatch.example"); // lab index 4: a draft of F1
+    const outcome = await call(entry.action, uploadPhoto(PNG, "surface.jpg", cookie), { studyId, materialId: f1 });
+    expect(outcome.data).toMatchObject({ uploaded: true, replicate: 1 });
+    const attachment = (await db.select().from(attachments)).at(-1)!;
+    expect(attachment).toMatchObject({ contentType: "image/png", originalName: "surface.jpg", sizeBytes: PNG.length });
+    const linked = await db.select().from(results).where(eq(results.photoAttachmentId, attachment.id));
+    expect(linked.map((r) => r.replicate)).toEqual([1, 1]); // both responses of replicate 1
+  });
+
+  it("refuses a text file named .png beside the field", async () => {
+    const cookie = await demoCookie("analyst5@ringbatch.example");
+    const before = (await db.select().from(attachments)).length;
+    const outcome = await call(entry.action, uploadPhoto(new TextEncoder().encode("just some notes, not a picture"), "notes.png", cookie, "2"), { studyId, materialId: f1 });
+    expect(outcome.status).toBe(400);
+    expect(outcome.data).toMatchObject({ replicate: 2, error: "This file is not a JPG, PNG, WEBP file (judged from its contents, not its name)." });
+    expect((await db.select().from(attachments)).length).toBe(before);
+  });
+
+  it("serves the photo to its lab and the coordinator with safe headers, and 404 to another lab", async () => {
+    const [linked] = await db.select().from(results).where(isNotNull(results.photoAttachmentId));
+    const url = `/files/${linked!.photoAttachmentId}`;
+    const params = { fileId: String(linked!.photoAttachmentId) };
+    const own = await call(files.loader, get(url, await demoCookie("analyst5@ringbatch.example")), params);
+    expect(own.status).toBe(200);
+    expect(own.headers.get("Content-Type")).toBe("image/png");
+    expect(own.headers.get("X-Content-Type-Options")).toBe("nosniff");
+    expect(own.headers.get("Content-Disposition")).toBe('inline; filename="surface.jpg"');
+    expect((await call(files.loader, get(url, await demoCookie("coordinator@ringbatch.example")), params)).status).toBe(200);
+    expect((await call(files.loader, get(url, await demoCookie("analyst6@ringbatch.example")), params)).status).toBe(404);
+    expect((await call(files.loader, get(url, await demoCookie("analyst1@ringbatch.example")), params)).status).toBe(404);
+  });
+
+  it("asks for a result before a photo of a replicate with none", async () => {
+    const cookie = await demoCookie("analyst7@ringbatch.example"); // lab index 6: nothing entered
+    const outcome = await call(entry.action, uploadPhoto(PNG, "surface.png", cookie), { studyId, materialId: f1 });
+    expect(outcome.status).toBe(400);
+    expect(outcome.data.error).toBe("Enter a result of replicate 1 before adding its photo.");
+  });
+});
