@@ -3,9 +3,21 @@
  * decisions, figures) with draft texts in the E691 and C670 forms, sent to
  * the committee, answered, and published.
  */
-import { asc, eq } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNotNull } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { materials, responses } from "~/db/schema";
+import { enrollments, labs, materials, precisionStatements, responses, studies, studyReviewers, users, votes } from "~/db/schema";
+import { recordAudit } from "~/lib/audit.server";
+import { appUrl, composeEmail, sendEmail } from "~/lib/email.server";
+import { publicationCheck } from "~/lib/review/publication";
+import { draftingRefusal, reviewRefusal } from "~/lib/review/write-rules";
+import { c670Text, e691Text, type StatementSnapshot } from "~/lib/statement-text";
+import { studyAnalysis } from "~/models/analysis.server";
+import { transitionStudy } from "~/models/study-lifecycle.server";
+
+type Study = typeof studies.$inferSelect;
+export type Statement = Omit<typeof precisionStatements.$inferSelect, "snapshot"> & { snapshot: StatementSnapshot };
+
+export class StatementError extends Error {}
 
 /** The study's responses and materials, in their order, as the analysis pages and the snapshot name them. */
 export async function studyDesign(studyId: number) {
@@ -17,4 +29,204 @@ export async function studyDesign(studyId: number) {
     responses: responseRows.map(({ key, name, unit, decimals }) => ({ key, name, unit, decimals })),
     materials: materialRows.map(({ code, description }) => ({ code, description })),
   };
+}
+
+/** Every version of the study's statement, newest first. */
+export async function listStatements(studyId: number): Promise<Statement[]> {
+  const rows = await db.select().from(precisionStatements).where(eq(precisionStatements.studyId, studyId)).orderBy(desc(precisionStatements.version));
+  return rows.map((r) => ({ ...r, snapshot: r.snapshot as StatementSnapshot }));
+}
+
+export async function latestStatement(studyId: number) {
+  return (await listStatements(studyId))[0] ?? null;
+}
+
+/** The labs that contributed submitted results: codes for everyone, names for the coordinator's report. */
+export async function participatingLabs(studyId: number, analysis: StatementSnapshot["analysis"]) {
+  const codes = new Set([...analysis.groups.flatMap((g) => g.labs.map((l) => l.lab)), ...analysis.excluded.map((e) => e.lab)]);
+  const rows = await db
+    .select({ code: enrollments.labCode, name: labs.name })
+    .from(enrollments)
+    .innerJoin(labs, eq(labs.id, enrollments.labId))
+    .where(and(eq(enrollments.studyId, studyId), isNotNull(enrollments.labCode)))
+    .orderBy(asc(enrollments.labCode));
+  return rows.filter((r) => codes.has(r.code!)).map((r) => ({ code: r.code!, name: r.name }));
+}
+
+/** Freezes the current analysis as a new statement version with generated draft texts. */
+export async function freezeStatement(study: Study, actorUserId: number) {
+  const refusal = draftingRefusal(study.state);
+  if (refusal) throw new StatementError(refusal);
+  const [analysis, design] = await Promise.all([studyAnalysis(study), studyDesign(study.id)]);
+  if (!analysis.groups.some((g) => g.status === "computed")) throw new StatementError("No material has precision statistics yet; nothing to freeze.");
+  const labCount = (await participatingLabs(study.id, analysis)).length;
+  const snapshot: StatementSnapshot = {
+    study: { code: study.code, title: study.title, testMethod: study.testMethod },
+    dataVersion: study.dataVersion,
+    frozenAt: new Date().toISOString(),
+    labs: labCount,
+    replicates: study.replicatesPerCell,
+    materials: design.materials,
+    responses: design.responses,
+    analysis,
+  };
+  return db.transaction(async (tx) => {
+    const [last] = await tx.select({ version: precisionStatements.version }).from(precisionStatements).where(eq(precisionStatements.studyId, study.id)).orderBy(desc(precisionStatements.version)).limit(1);
+    const version = (last?.version ?? 0) + 1;
+    const [row] = await tx
+      .insert(precisionStatements)
+      .values({ studyId: study.id, version, textE691: e691Text(snapshot), textC670: c670Text(snapshot), snapshot, dataVersion: study.dataVersion, createdBy: actorUserId })
+      .returning();
+    await recordAudit({ actorUserId, action: "statement.frozen", entityType: "precision_statement", entityId: row!.id, studyId: study.id, after: { version, dataVersion: study.dataVersion } }, tx);
+    return row!;
+  });
+}
+
+async function draftOf(study: Study, statementId: number) {
+  const statement = await db.query.precisionStatements.findFirst({ where: and(eq(precisionStatements.id, statementId), eq(precisionStatements.studyId, study.id)) });
+  if (!statement) return null;
+  const latest = await latestStatement(study.id);
+  if (latest?.id !== statement.id) throw new StatementError("A newer version exists; edit that one.");
+  if (statement.state !== "draft") throw new StatementError("Only a draft can be changed; this version has gone to review.");
+  return statement;
+}
+
+/** Saves the coordinator's wording; the figures stay those of the snapshot. */
+export async function updateStatementText(study: Study, actorUserId: number, statementId: number, text: { textE691: string; textC670: string }) {
+  const refusal = draftingRefusal(study.state);
+  if (refusal) throw new StatementError(refusal);
+  const statement = await draftOf(study, statementId);
+  if (!statement) return null;
+  await db.transaction(async (tx) => {
+    await tx.update(precisionStatements).set(text).where(eq(precisionStatements.id, statementId));
+    await recordAudit({ actorUserId, action: "statement.edited", entityType: "precision_statement", entityId: statementId, studyId: study.id, after: { version: statement.version } }, tx);
+  });
+  return statement;
+}
+
+export async function studyReviewerIds(studyId: number) {
+  return (await db.select({ id: studyReviewers.userId }).from(studyReviewers).where(eq(studyReviewers.studyId, studyId))).map((r) => r.id);
+}
+
+/**
+ * Sends the latest draft to the committee: the study moves to in_review, the
+ * version to in_review, and every assigned reviewer is e-mailed. Refused when
+ * results or decisions changed after the snapshot was frozen.
+ */
+export async function sendToReview(study: Study, actorUserId: number, statementId: number, request: Request | null) {
+  const refusal = draftingRefusal(study.state);
+  if (refusal) throw new StatementError(refusal);
+  const statement = await draftOf(study, statementId);
+  if (!statement) return null;
+  if (statement.dataVersion !== study.dataVersion) {
+    throw new StatementError("Results or decisions changed after this version was frozen; freeze a new version so the numbers match the data.");
+  }
+  const reviewerIds = await studyReviewerIds(study.id);
+  if (reviewerIds.length === 0) throw new StatementError("No reviewer is assigned to this study.");
+  const moved = await transitionStudy(study, "in_review", actorUserId);
+  if (!moved.allowed) throw new StatementError(moved.problems.join(" "));
+  await db.transaction(async (tx) => {
+    await tx.update(precisionStatements).set({ state: "in_review", sentAt: new Date() }).where(eq(precisionStatements.id, statementId));
+    await recordAudit({ actorUserId, action: "statement.sent", entityType: "precision_statement", entityId: statementId, studyId: study.id, after: { version: statement.version } }, tx);
+  });
+  const reviewers = await db.select({ email: users.email, name: users.name }).from(users).where(inArray(users.id, reviewerIds));
+  for (const reviewer of reviewers) {
+    await sendEmail(
+      composeEmail({
+        to: reviewer.email,
+        subject: `${study.code}: precision statement version ${statement.version} is ready for your review`,
+        greeting: `Hello ${reviewer.name},`,
+        paragraphs: [
+          `The coordinator of ${study.code} (${study.title}) has sent version ${statement.version} of the precision statement to the committee.`,
+          "Please read the statement and the blinded analysis, then approve, object with a reason, or abstain. You may change your vote until the round closes.",
+        ],
+        action: { label: "Review the statement", url: appUrl(request, `/review/${study.id}`) },
+      }),
+    );
+  }
+  return statement;
+}
+
+/** The statement version currently before the committee, or null. */
+export async function statementInReview(studyId: number) {
+  const latest = await latestStatement(studyId);
+  return latest?.state === "in_review" ? latest : null;
+}
+
+export type ObjectionAnswer = { voteId: number; answer: "upheld" | "not_upheld"; rationale: string };
+
+/**
+ * Answers one objection. Upheld: the version is returned, the study goes back
+ * to checking, and a new version (frozen again) starts a new round. Not upheld:
+ * the rationale is kept and shown to every reviewer.
+ */
+export async function answerObjection(study: Study, actorUserId: number, input: ObjectionAnswer) {
+  const refusal = reviewRefusal(study.state);
+  if (refusal) throw new StatementError(refusal);
+  const statement = await statementInReview(study.id);
+  if (!statement) throw new StatementError("No statement is in review.");
+  const vote = await db.query.votes.findFirst({ where: and(eq(votes.id, input.voteId), eq(votes.statementId, statement.id)) });
+  if (!vote) return null;
+  if (vote.choice !== "object") throw new StatementError("Only an objection can be answered.");
+  if (vote.answer) throw new StatementError("This objection has already been answered.");
+  await db.transaction(async (tx) => {
+    await tx
+      .update(votes)
+      .set({ answer: input.answer, answerRationale: input.rationale, answeredBy: actorUserId, answeredAt: new Date() })
+      .where(eq(votes.id, vote.id));
+    if (input.answer === "upheld") await tx.update(precisionStatements).set({ state: "returned" }).where(eq(precisionStatements.id, statement.id));
+    await recordAudit(
+      { actorUserId, action: "objection.answered", entityType: "vote", entityId: vote.id, studyId: study.id, after: { answer: input.answer, version: statement.version }, reason: input.rationale },
+      tx,
+    );
+  });
+  if (input.answer === "upheld") {
+    const moved = await transitionStudy(study, "checking", actorUserId);
+    if (!moved.allowed) throw new StatementError(moved.problems.join(" "));
+  }
+  return vote;
+}
+
+/** Whether the version in review may be published, and what still stands in the way. */
+export async function publicationStatus(studyId: number) {
+  const statement = await statementInReview(studyId);
+  const reviewerIds = await studyReviewerIds(studyId);
+  if (!statement) return { statement: null, check: { allowed: false, problems: ["No statement is in review."], awaited: reviewerIds } };
+  const cast = await db.select({ reviewerId: votes.reviewerId, choice: votes.choice, answer: votes.answer }).from(votes).where(eq(votes.statementId, statement.id));
+  return { statement, check: publicationCheck(reviewerIds, cast) };
+}
+
+/** Publishes the study with the approved version; from then on every write is refused. */
+export async function publishStudy(study: Study, actorUserId: number) {
+  const refusal = reviewRefusal(study.state);
+  if (refusal) throw new StatementError(refusal);
+  const { statement, check } = await publicationStatus(study.id);
+  if (!statement || !check.allowed) throw new StatementError(check.problems.join(" "));
+  const moved = await transitionStudy(study, "published", actorUserId);
+  if (!moved.allowed) throw new StatementError(moved.problems.join(" "));
+  await db.transaction(async (tx) => {
+    await tx.update(precisionStatements).set({ state: "approved" }).where(eq(precisionStatements.id, statement.id));
+    await recordAudit({ actorUserId, action: "statement.approved", entityType: "precision_statement", entityId: statement.id, studyId: study.id, after: { version: statement.version } }, tx);
+  });
+  return statement;
+}
+
+/** Votes on a version with the reviewer's name, for the coordinator and the committee alike (reviewers are not blinded). */
+export async function votesOn(statementId: number) {
+  const rows = await db
+    .select({
+      id: votes.id,
+      reviewerId: votes.reviewerId,
+      reviewer: users.name,
+      choice: votes.choice,
+      reason: votes.reason,
+      answer: votes.answer,
+      answerRationale: votes.answerRationale,
+      updatedAt: votes.updatedAt,
+    })
+    .from(votes)
+    .innerJoin(users, eq(users.id, votes.reviewerId))
+    .where(eq(votes.statementId, statementId))
+    .orderBy(asc(users.name));
+  return rows.map((r) => ({ ...r, updatedAt: r.updatedAt.toISOString() }));
 }

@@ -1,6 +1,8 @@
+import { Link } from "react-router";
 import type { Route } from "./+types/review";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireRole } from "~/lib/guards.server";
+import { awaitedVotes } from "~/models/review.server";
 import { listReviewedStudies } from "~/models/study.server";
 import { STATE_LABEL } from "~/lib/study-states";
 
@@ -8,7 +10,8 @@ export const meta: Route.MetaFunction = () => [{ title: "Reviews · Ringbatch" }
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, "reviewer");
-  return { studies: await listReviewedStudies(user.id) };
+  const [studies, awaited] = await Promise.all([listReviewedStudies(user.id), awaitedVotes(user.id)]);
+  return { studies: studies.map((s) => ({ ...s, voteAwaited: awaited.get(s.id) ?? false })) };
 }
 
 export default function ReviewHome({ loaderData }: Route.ComponentProps) {
@@ -21,8 +24,21 @@ export default function ReviewHome({ loaderData }: Route.ComponentProps) {
         ) : (
           <SimpleTable
             caption="Studies assigned to you"
-            headers={["Code", "Title", "State"]}
-            rows={loaderData.studies.map((s) => [s.code, s.title, <Badge key="state">{STATE_LABEL[s.state]}</Badge>])}
+            headers={["Code", "Title", "State", "Your vote"]}
+            rows={loaderData.studies.map((s) => [
+              <Link key="code" to={`/review/${s.id}`} className="font-semibold text-basalt-700 underline">
+                {s.code}
+              </Link>,
+              s.title,
+              <Badge key="state">{STATE_LABEL[s.state]}</Badge>,
+              s.voteAwaited ? (
+                <Badge key="vote" tone="ochre">
+                  Awaited
+                </Badge>
+              ) : (
+                "—"
+              ),
+            ])}
           />
         )}
       </Card>

@@ -5,6 +5,7 @@ import { data } from "react-router";
 import type { Route } from "./+types/studies.$studyId.analysis";
 import { LazyCharts } from "~/components/charts/LazyCharts";
 import { PrecisionTables } from "~/components/PrecisionTables";
+import { TextAreaField } from "~/components/StatementParts";
 import { StudyNav } from "~/components/StudyNav";
 import { Badge, Button, Card, Notice, PageHeader, SimpleTable } from "~/components/ui";
 import { type FieldErrors, parseForm } from "~/lib/forms";
@@ -315,36 +316,6 @@ function CellHiddenFields({ cell }: { cell: CellRef }) {
   );
 }
 
-function TextArea({ name, label, error, defaultValue, hint }: { name: string; label: string; error?: string; defaultValue?: string; hint?: string }) {
-  const id = `field-${name}`;
-  return (
-    <div className="flex flex-col gap-1">
-      <label htmlFor={id} className="font-semibold text-basalt-800">
-        {label}
-      </label>
-      {hint && (
-        <p id={`${id}-hint`} className="text-sm text-basalt-700">
-          {hint}
-        </p>
-      )}
-      <textarea
-        id={id}
-        name={name}
-        rows={4}
-        defaultValue={defaultValue}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={[error ? `${id}-error` : null, hint ? `${id}-hint` : null].filter(Boolean).join(" ") || undefined}
-        className={`rounded-md border bg-white px-3 py-2 ${error ? "border-signal-700" : "border-basalt-200"}`}
-      />
-      {error && (
-        <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
-          {error}
-        </p>
-      )}
-    </div>
-  );
-}
-
 function AskTheLab({ loaderData, actionData, cell, statistic }: { loaderData: LoaderData; actionData: ActionData; cell: CellRef; statistic: string }) {
   const failed = errorsFor(actionData, "ask");
   const navigation = useNavigation();
@@ -363,7 +334,7 @@ function AskTheLab({ loaderData, actionData, cell, statistic }: { loaderData: Lo
         </label>
         <input id="field-statistic" name="statistic" defaultValue={failed?.values.statistic ?? statistic} className="min-h-11 rounded-md border border-basalt-200 bg-white px-3 py-2" />
       </div>
-      <TextArea name="question" label="Question to the lab" error={failed?.errors.question} defaultValue={failed?.values.question ?? suggestedQuestion(cell, statistic || "see the attached statistic")} />
+      <TextAreaField name="question" label="Question to the lab" error={failed?.errors.question} defaultValue={failed?.values.question ?? suggestedQuestion(cell, statistic || "see the attached statistic")} />
       <div>
         <Button type="submit" disabled={navigation.state === "submitting"}>
           Send the query
@@ -428,7 +399,7 @@ function DecisionForm({
           </p>
         )}
       </fieldset>
-      <TextArea
+      <TextAreaField
         name="reason"
         label="Reason"
         hint="The assignable cause the lab confirmed, or the statistical justification."
