@@ -7,7 +7,7 @@ import { and, asc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { batches, freshPropertyTargets, materials, mixtureConstituents, studies } from "~/db/schema";
 import { recordAudit } from "~/lib/audit.server";
-import { mixtureDesignSchema } from "~/lib/batching";
+import { checkTolerance, mixtureDesignSchema } from "~/lib/batching";
 import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
 import { assertResultsEditable, type Enrollment } from "~/models/results.server";
 
@@ -119,4 +119,26 @@ export async function saveFreshProperties(enrollment: Enrollment, materialId: nu
     });
   }
   return { problems };
+}
+
+/**
+ * Each lab batch of the study with its fresh properties, and which readings
+ * fall outside the study's target ± tolerance, for the coordinator's marks.
+ */
+export async function studyBatchMarks(studyId: number) {
+  const [targets, rows] = await Promise.all([
+    freshTargets(studyId),
+    db.select({ batch: batches }).from(batches).innerJoin(materials, eq(materials.id, batches.materialId)).where(eq(materials.studyId, studyId)),
+  ]);
+  return rows.map(({ batch }) => ({
+    enrollmentId: batch.enrollmentId,
+    materialId: batch.materialId,
+    readings: FRESH_PROPERTY_NAMES.flatMap((property) => {
+      const value = batch[FRESH_FIELDS[property].column];
+      if (value === null) return [];
+      const target = targets[property];
+      const outside = target ? !checkTolerance(target.target, value, target.tolerance).withinTolerance : false;
+      return [{ property, label: FRESH_FIELDS[property].label, unit: FRESH_FIELDS[property].unit, value, outside }];
+    }),
+  }));
 }

@@ -349,6 +349,7 @@ export async function studyResults(studyId: number) {
   const rows = studyEnrollments.flatMap((enrollment) =>
     frame.materials.map((material) => ({
       enrollmentId: enrollment.id,
+      materialId: material.id,
       labCode: enrollment.labCode,
       labName: enrollment.labName,
       materialCode: material.code,

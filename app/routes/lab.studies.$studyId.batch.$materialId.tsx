@@ -110,7 +110,7 @@ export default function BatchSheetPage({ loaderData, actionData }: Route.Compone
           </span>
         }
       />
-      <div className="grid gap-6">
+      <div className="grid gap-6 [&>*]:min-w-0">
         <ConcreteCaution heavy />
         {designProblem && <Notice tone="error">{designProblem}</Notice>}
         {design && computed && (

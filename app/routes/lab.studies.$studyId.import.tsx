@@ -102,7 +102,7 @@ export default function ImportResults({ loaderData, actionData }: Route.Componen
           </Link>
         }
       />
-      <div className="grid gap-6">
+      <div className="grid gap-6 [&>*]:min-w-0">
         <Card title="The file">
           <p className="mb-2">
             One row per replicate result, with a header row: <code className="rounded bg-basalt-100 px-1">{REQUIRED_COLUMNS.join(",")}</code>, and if you like{" "}

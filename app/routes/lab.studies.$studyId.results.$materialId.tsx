@@ -241,7 +241,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
           </Link>
         }
       />
-      <div className="grid gap-6">
+      <div className="grid gap-6 [&>*]:min-w-0">
         <ConcreteCaution />
         {!editable && <Notice>Results can be changed only while the study is in testing.</Notice>}
         {openQueries.length > 0 && (

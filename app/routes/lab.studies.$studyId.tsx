@@ -41,7 +41,7 @@ export default function LabStudy({ loaderData }: Route.ComponentProps) {
           </Link>
         }
       />
-      <div className="grid gap-6">
+      <div className="grid gap-6 [&>*]:min-w-0">
         <Card title="Materials received">
           <p className="mb-2">
             Shipment: {shipment ? SHIPMENT_LABEL[shipment.status] : "not yet sent"}

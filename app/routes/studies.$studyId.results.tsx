@@ -1,8 +1,9 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/studies.$studyId.results";
 import { CellStatusBadge, type CellStatusName } from "~/components/CellStatusBadge";
-import { Card, PageHeader, SimpleTable } from "~/components/ui";
+import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireStudyAccess } from "~/lib/guards.server";
+import { studyBatchMarks } from "~/models/batch.server";
 import { studyAuditTrail, studyResults } from "~/models/results.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Results · ${data?.study.code ?? "Study"} · Ringbatch` }];
@@ -10,8 +11,9 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `Results · ${da
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { study } = await requireStudyAccess(request, params.studyId, ["coordinator", "admin"]);
   const page = Math.max(1, Number(new URL(request.url).searchParams.get("page")) || 1);
-  const [table, audit] = await Promise.all([studyResults(study.id), studyAuditTrail(study.id, page)]);
-  return { study: { id: study.id, code: study.code, title: study.title }, responses: table.responses.map((r) => ({ key: r.key, name: r.name })), rows: table.rows, audit };
+  const [table, audit, marks] = await Promise.all([studyResults(study.id), studyAuditTrail(study.id, page), studyBatchMarks(study.id)]);
+  const rows = table.rows.map((row) => ({ ...row, fresh: marks.find((m) => m.enrollmentId === row.enrollmentId && m.materialId === row.materialId)?.readings ?? [] }));
+  return { study: { id: study.id, code: study.code, title: study.title }, responses: table.responses.map((r) => ({ key: r.key, name: r.name })), rows, audit };
 }
 
 const ACTION_LABEL: Record<string, string> = {
@@ -50,11 +52,11 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
   return (
     <>
       <PageHeader title={`Results — ${study.code}`} subtitle={study.title} />
-      <div className="grid gap-6">
+      <div className="grid gap-6 [&>*]:min-w-0">
         <Card title="Results by lab and material">
           <SimpleTable
             caption="Replicate results by lab, material and response, with cell status"
-            headers={["Lab code", "Lab", "Material", ...responses.map((r) => r.name)]}
+            headers={["Lab code", "Lab", "Material", ...responses.map((r) => r.name), "Fresh properties"]}
             rows={rows.map((row) => [
               row.labCode ?? "—",
               row.labName,
@@ -65,6 +67,17 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
                   <span>{cell.values.map((v) => v.value).join(", ") || "—"}</span>
                 </span>
               )),
+              row.fresh.length === 0 ? (
+                "—"
+              ) : (
+                <ul key="fresh" className="text-sm">
+                  {row.fresh.map((f) => (
+                    <li key={f.property}>
+                      {f.label} {f.value} {f.unit} {f.outside && <Badge tone="signal">Outside tolerance</Badge>}
+                    </li>
+                  ))}
+                </ul>
+              ),
             ])}
           />
         </Card>
@@ -81,7 +94,7 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
         </Card>
         <Card title="Audit trail">
           <p className="mb-2 text-basalt-700">
-            Every submission, amendment, import and answer, newest first. {audit.total} events; page {audit.page} of {audit.pageCount}.
+            Every submission, amendment, import and answer, newest first. {audit.total} {audit.total === 1 ? "event" : "events"}; page {audit.page} of {audit.pageCount}.
           </p>
           <SimpleTable
             caption="Audit trail of the study"

@@ -125,6 +125,21 @@ describe("result entry of the lab's own cells", () => {
     expect(coordinator.data.audit.events.some((e: { action: string }) => e.action === "result.amended")).toBe(true);
   });
 
+  it("keeps an out-of-tolerance slump and marks it for the coordinator", async () => {
+    const cookie = await demoCookie("analyst7@ringbatch.example");
+    const draft = JSON.stringify({ values: {}, testedOn: {}, operator: {}, fresh: { slump: "120", air_content: "6.5", unit_weight: "9999" }, batchedAt: "2026-10-12T09:30" });
+    const saved = await call(entry.action, post(`/lab/studies/${studyId}/results/${f2}`, { intent: "draft", draft }, cookie), { studyId, materialId: f2 });
+    expect(saved.data.problems).toEqual({ "fresh:unit_weight": "Unit weight must be between 500 and 4000 kg/m³." });
+    const coordinator = await call(studyResults.loader, get(`/studies/${studyId}/results`, await demoCookie("coordinator@ringbatch.example")), { studyId });
+    const enrollment = await enrollmentOf(6);
+    const row = coordinator.data.rows.find((r: { enrollmentId: number; materialCode: string }) => r.enrollmentId === enrollment.id && r.materialCode === "F2");
+    // The seeded study targets slump 75 ± 25 mm and air 6 ± 1.5 %: 120 mm is outside, 6.5 % within.
+    expect(row.fresh).toEqual([
+      { property: "slump", label: "Slump", unit: "mm", value: 120, outside: true },
+      { property: "air_content", label: "Air content", unit: "%", value: 6.5, outside: false },
+    ]);
+  });
+
   it("bumps the study's data version with every change of results", async () => {
     const before = (await db.query.studies.findFirst({ where: eq(studies.id, Number(studyId)) }))!.dataVersion;
     const cookie = await demoCookie("analyst7@ringbatch.example");
