@@ -6,9 +6,16 @@ import { desc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { emailOutbox } from "~/db/schema";
 import { emailTransport } from "~/lib/email.server";
+import { notFound, requireRole } from "~/lib/guards.server";
 
 export function mailboxEnabled() {
   return emailTransport() === "fake";
+}
+
+/** Messages carry sign-in links, so only admins and coordinators see them, and only while no real provider is set. */
+export async function requireMailbox(request: Request) {
+  await requireRole(request, "admin", "coordinator");
+  if (!mailboxEnabled()) notFound();
 }
 
 export async function listMessages(limit = 200) {

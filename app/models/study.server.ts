@@ -11,6 +11,7 @@ import {
   studyCoordinators,
   studyReviewers,
 } from "~/db/schema";
+import { CELL_STATUS_ORDER, type CellStatus } from "~/lib/cell-status";
 import type { SessionUser } from "~/models/user.server";
 
 
@@ -65,8 +66,7 @@ export async function enrollmentProgress(enrollmentId: number) {
   return Object.fromEntries(rows.map((r) => [r.status, r.cells])) as Partial<Record<"draft" | "submitted", number>>;
 }
 
-export const CELL_STATUS_ORDER = ["not_started", "draft", "submitted", "amended", "queried"] as const;
-export type CellStatus = (typeof CELL_STATUS_ORDER)[number];
+export { CELL_STATUS_ORDER, type CellStatus };
 
 /**
  * Lab × material matrix of cell status for the coordinator's overview (one

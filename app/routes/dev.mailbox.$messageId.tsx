@@ -2,8 +2,7 @@ import { Link } from "react-router";
 import type { Route } from "./+types/dev.mailbox.$messageId";
 import { Card, PageHeader } from "~/components/ui";
 import { notFound } from "~/lib/guards.server";
-import { getMessage } from "~/models/mailbox.server";
-import { requireMailbox } from "./dev.mailbox";
+import { getMessage, requireMailbox } from "~/models/mailbox.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.message.subject ?? "Message"} · Mailbox · Ringbatch` }];
 

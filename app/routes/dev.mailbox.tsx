@@ -2,16 +2,9 @@ import { Link } from "react-router";
 import type { Route } from "./+types/dev.mailbox";
 import { DataTable } from "~/components/DataTable";
 import { Card, Notice, PageHeader } from "~/components/ui";
-import { notFound, requireRole } from "~/lib/guards.server";
-import { listMessages, mailboxEnabled } from "~/models/mailbox.server";
+import { listMessages, requireMailbox } from "~/models/mailbox.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Mailbox · Ringbatch" }];
-
-/** Messages carry sign-in links, so only admins and coordinators see them, and only while no real provider is set. */
-export async function requireMailbox(request: Request) {
-  await requireRole(request, "admin", "coordinator");
-  if (!mailboxEnabled()) notFound();
-}
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireMailbox(request);

@@ -410,8 +410,8 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
           {editable && (
             <Form method="post" className="mt-4 grid gap-4 border-t border-basalt-100 pt-4 md:grid-cols-3">
               <input type="hidden" name="intent" value="material-add" />
-              <Field label="Material code" name="code" defaultValue={materialAdd.values.code} error={materialAdd.errors.code} hint="e.g. M1" />
-              <Field label="Description" name="description" defaultValue={materialAdd.values.description} error={materialAdd.errors.description} />
+              <Field label="Material code" id="field-material-code" name="code" defaultValue={materialAdd.values.code} error={materialAdd.errors.code} hint="e.g. M1" />
+              <Field label="Description" id="field-material-description" name="description" defaultValue={materialAdd.values.description} error={materialAdd.errors.description} />
               <div className="self-end">
                 <Button type="submit" disabled={busy}>
                   Add material

@@ -11,7 +11,8 @@ import { resultsEditable } from "~/lib/study-lifecycle";
 import { STATE_LABEL } from "~/lib/study-states";
 import { remindLabsWithMissingResults } from "~/models/reminder.server";
 import { listStudyShipments } from "~/models/shipment.server";
-import { CELL_STATUS_ORDER, type CellStatus, statusCountsByMaterial, studyMatrix } from "~/models/study.server";
+import { CELL_STATUS_ORDER, type CellStatus } from "~/lib/cell-status";
+import { statusCountsByMaterial, studyMatrix } from "~/models/study.server";
 import type { loader as progressLoader } from "./api.v1.studies.$studyId.progress";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.study.code ?? "Study"} · Ringbatch` }];

@@ -1,0 +1,172 @@
+import { createClient } from "@libsql/client";
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DEMO_PASSWORD } from "../../seed/demo-data";
+import { expectAccessible, launchBrowser, signInAs } from "../support/browser";
+import { type RunningServer, startServer } from "../support/server";
+
+let server: RunningServer;
+let browser: Browser;
+
+beforeAll(async () => {
+  [server, browser] = await Promise.all([startServer(), launchBrowser()]);
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await server?.stop();
+});
+
+async function signedIn(email: string, password = DEMO_PASSWORD) {
+  const context = await browser.newContext();
+  const page = await context.newPage();
+  await signInAs(page, server.url, email, password);
+  await page.waitForURL((url) => url.pathname !== "/login");
+  return page;
+}
+
+const heading = (page: Page) => page.getByRole("heading", { level: 1 }).textContent();
+
+/** The invitation link of the newest message to an address, read from the mailbox as the coordinator would. */
+async function invitationLink(coordinator: Page, to: string) {
+  await coordinator.goto(`${server.url}/dev/mailbox`);
+  await coordinator.getByRole("row", { name: new RegExp(to) }).getByRole("link").first().click();
+  await coordinator.waitForURL(/\/dev\/mailbox\/\d+$/);
+  return (await coordinator.getByRole("link", { name: /\/invite\// }).getAttribute("href"))!;
+}
+
+describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () => {
+  it("creates a study from the template, adds a material, invites a lab, ships, and sees the lab's receipt", async () => {
+    // The administrator adds a lab whose contact has no account yet.
+    const admin = await signedIn("admin@ringbatch.example");
+    await admin.goto(`${server.url}/admin/labs`);
+    await admin.getByLabel("Name", { exact: true }).fill("Marrowby Field Lab");
+    await admin.getByLabel("Contact name").fill("Lena Marrowby");
+    await admin.getByLabel("Contact e-mail").fill("lena@marrowby.example");
+    await admin.getByRole("button", { name: "Add lab" }).click();
+    await expect.poll(() => admin.getByRole("status").textContent()).toContain("Marrowby Field Lab added.");
+
+    const coordinator = await signedIn("coordinator@ringbatch.example");
+    await coordinator.getByRole("link", { name: "New study" }).click();
+    await coordinator.waitForURL(`${server.url}/studies/new`);
+    await expectAccessible(coordinator);
+    await coordinator.getByLabel("Study code").fill("FF-2027-E");
+    await coordinator.getByLabel("Title").fill("Finishability of a slag paving mix");
+    await coordinator.getByRole("button", { name: "Create study" }).click();
+    await coordinator.waitForURL(/\/studies\/\d+\/setup$/);
+    const studyId = /\/studies\/(\d+)\/setup/.exec(coordinator.url())![1];
+    await expect.poll(() => heading(coordinator)).toBe("FF-2027-E — setup");
+    await expect.poll(() => coordinator.getByRole("cell", { name: "Passes to close the preformed holes", exact: true }).count()).toBe(1);
+    await expectAccessible(coordinator);
+
+    await coordinator.getByLabel("Material code").fill("S1");
+    await coordinator.getByLabel("Description").fill("Slag paving mix");
+    await coordinator.getByRole("button", { name: "Add material" }).click();
+    await coordinator.waitForURL(/\/materials\/\d+$/);
+    const rows: [string, Record<string, string>][] = [
+      ["cement", { Name: "Portland cement", "Mass, kg/m³": "218", "Relative density": "3.15" }],
+      ["scm", { Name: "Slag cement", "Mass, kg/m³": "117", "Relative density": "2.9" }],
+      ["water", { Name: "Batch water", "Mass, kg/m³": "150", "Relative density": "1" }],
+      ["coarse_aggregate", { Name: "Crushed limestone", "Mass, kg/m³": "1100", "Relative density": "2.7", "Absorption, %": "0.8" }],
+      ["fine_aggregate", { Name: "River sand", "Mass, kg/m³": "718", "Relative density": "2.63", "Absorption, %": "1.2" }],
+      ["air", { Name: "Entrained air", "Air, % of concrete": "6" }],
+    ];
+    for (const [i, [kind, fields]] of rows.entries()) {
+      await coordinator.getByRole("button", { name: "Add constituent" }).click();
+      const row = coordinator.getByRole("group", { name: `Row ${i + 1}` });
+      await row.getByLabel("Kind").selectOption(kind);
+      for (const [label, value] of Object.entries(fields)) await row.getByLabel(label, { exact: true }).fill(value);
+    }
+    // w/cm = 150 / (218 + 117) = 0.448; slag 117 / 335 = 34.9 % (common practice definitions).
+    await expect.poll(() => coordinator.getByText("0.448").count()).toBe(1);
+    await expect.poll(() => coordinator.getByText("34.9 % of cementitious").count()).toBe(1);
+    // Switching to US customary units converts the typed masses: 218 kg/m³ = 367.5 lb/yd³ (NIST SP 811 exact factors).
+    await coordinator.getByLabel("US customary (lb/yd³, fl oz/cwt)").check();
+    await expect.poll(() => coordinator.getByRole("group", { name: "Row 1" }).getByLabel("Mass, lb/yd³").inputValue()).toBe("367.5");
+    await expect.poll(() => coordinator.getByText("0.448").count()).toBe(1);
+    await expectAccessible(coordinator);
+    await coordinator.getByRole("button", { name: "Save mixture design" }).click();
+    await expect.poll(() => coordinator.getByRole("status").first().textContent()).toContain("Mixture design saved.");
+
+    await coordinator.goto(`${server.url}/studies/${studyId}/setup`);
+    await coordinator.getByRole("button", { name: "Open recruiting" }).click();
+    await expect.poll(() => coordinator.getByText("The study is now: Recruiting labs.").count()).toBe(1);
+    await coordinator.getByRole("link", { name: "Labs", exact: true }).click();
+    await coordinator.waitForURL(`${server.url}/studies/${studyId}/labs`);
+    await expectAccessible(coordinator);
+    await coordinator.getByLabel("Filter labs").fill("Marrowby");
+    await coordinator.getByRole("button", { name: "Invite Marrowby Field Lab" }).click();
+    await expect.poll(() => coordinator.getByText("Invitation sent to the lab's contact.").count()).toBe(1);
+
+    await coordinator.goto(`${server.url}/dev/mailbox`);
+    await expectAccessible(coordinator);
+    const link = await invitationLink(coordinator, "lena@marrowby.example");
+    await expectAccessible(coordinator);
+
+    // The new contact opens the link signed out, sets a password and accepts.
+    const analystContext = await browser.newContext();
+    const analyst = await analystContext.newPage();
+    await analyst.goto(link);
+    await expect.poll(() => heading(analyst)).toBe("Invitation to FF-2027-E");
+    await expectAccessible(analyst);
+    await analyst.getByLabel("Your name").fill("Lena Marrowby");
+    await analyst.getByLabel("New password").fill("marrowby-field-2027");
+    await analyst.getByLabel("Repeat the password").fill("marrowby-field-2027");
+    await analyst.getByRole("button", { name: "Set password and accept" }).click();
+    await analyst.waitForURL(`${server.url}/lab`);
+
+    // The used link is refused.
+    const replay = await (await browser.newContext()).newPage();
+    await replay.goto(link);
+    await expect.poll(() => heading(replay)).toBe("This invitation has already been used");
+    await expectAccessible(replay);
+
+    await coordinator.goto(`${server.url}/studies/${studyId}/shipments`);
+    await expectAccessible(coordinator);
+    await coordinator.getByLabel("Carrier", { exact: true }).first().fill("Kestrel Freight");
+    await coordinator.getByRole("button", { name: "Prepare shipment" }).click();
+    await expect.poll(() => coordinator.getByText("Shipment prepared.").count()).toBe(1);
+    await coordinator.locator('input[id$="-tracking"]').fill("KF-20270215");
+    await coordinator.getByRole("button", { name: "Mark shipped" }).click();
+    await expect.poll(() => coordinator.getByText("Marked shipped; the lab has been e-mailed.").count()).toBe(1);
+
+    await analyst.goto(`${server.url}/lab/studies/${studyId}/receipt`);
+    await expectAccessible(analyst);
+    await analyst.getByLabel(/Damaged/).check();
+    await analyst.getByLabel("Notes").fill("One cement bag split open in transit.");
+    await analyst.getByRole("button", { name: "Confirm receipt" }).click();
+    await expect.poll(() => analyst.getByText("Receipt confirmed. Thank you.").count()).toBe(1);
+
+    await coordinator.goto(`${server.url}/studies/${studyId}`);
+    await expect.poll(() => coordinator.getByRole("alert").textContent()).toContain("arrived damaged");
+    await expect.poll(() => coordinator.getByRole("alert").textContent()).toContain("One cement bag split open in transit.");
+    await expect.poll(() => coordinator.getByRole("cell", { name: "Marrowby Field Lab" }).count()).toBe(1);
+    await expectAccessible(coordinator);
+  });
+
+  it("refuses an expired link and a link opened for another study", async () => {
+    const coordinator = await signedIn("coordinator@ringbatch.example");
+    await coordinator.goto(`${server.url}/studies`);
+    const studyHref = (await coordinator.getByRole("link", { name: "FF-2027-E" }).getAttribute("href"))!;
+    await coordinator.goto(`${server.url}${studyHref}/labs`);
+    await coordinator.getByRole("button", { name: "Invite Tessel Ready-Mix QC" }).click();
+    await expect.poll(() => coordinator.getByText("Invitation sent to the lab's contact.").count()).toBe(1);
+    const link = new URL(await invitationLink(coordinator, "analyst2@ringbatch.example"));
+
+    const visitor = await (await browser.newContext()).newPage();
+    const otherStudy = new URL(link);
+    otherStudy.searchParams.set("study", "1");
+    const response = await visitor.goto(otherStudy.toString());
+    expect(response?.status()).toBe(404);
+    await expect.poll(() => heading(visitor)).toBe("This invitation belongs to another study");
+    await expectAccessible(visitor);
+
+    // Age the invitation past its 14 days, straight in the server's database.
+    const database = createClient({ url: server.databaseUrl });
+    await database.execute("UPDATE invitations SET expires_at = 0 WHERE used_at IS NULL");
+    database.close();
+    const expired = await visitor.goto(link.toString());
+    expect(expired?.status()).toBe(410);
+    await expect.poll(() => heading(visitor)).toBe("This invitation has expired");
+  });
+});
