@@ -7,6 +7,7 @@ export function StudyNav({ studyId }: { studyId: number }) {
     { to: `/studies/${studyId}/setup`, label: "Setup", end: false },
     { to: `/studies/${studyId}/labs`, label: "Labs", end: false },
     { to: `/studies/${studyId}/shipments`, label: "Shipments", end: false },
+    { to: `/studies/${studyId}/results`, label: "Results", end: false },
     { to: `/studies/${studyId}/analysis`, label: "Analysis", end: false },
     { to: `/studies/${studyId}/queries`, label: "Queries", end: false },
     { to: `/studies/${studyId}/statement`, label: "Statement", end: false },

@@ -1,6 +1,7 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/studies.$studyId.results";
 import { CellStatusBadge, type CellStatusName } from "~/components/CellStatusBadge";
+import { StudyNav } from "~/components/StudyNav";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireStudyAccess } from "~/lib/guards.server";
 import { studyBatchMarks } from "~/models/batch.server";
@@ -52,6 +53,7 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
   return (
     <>
       <PageHeader title={`Results — ${study.code}`} subtitle={study.title} />
+      <StudyNav studyId={study.id} />
       <div className="grid gap-6 [&>*]:min-w-0">
         <Card title="Results by lab and material">
           <SimpleTable
