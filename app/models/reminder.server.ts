@@ -7,12 +7,10 @@ import { appUrl, sendEmail } from "~/lib/email.server";
 import { missingResultsReminderEmail } from "~/lib/email-templates";
 import { studyMatrix } from "~/models/study.server";
 
-const DONE = new Set(["submitted", "amended"]);
-
 export async function remindLabsWithMissingResults(study: typeof studies.$inferSelect, actorUserId: number, request: Request | null) {
   const matrix = await studyMatrix(study.id);
   const missing = matrix.rows
-    .map((row) => ({ enrollmentId: row.id, codes: matrix.materials.filter((_, i) => !DONE.has(row.statuses[i]!)).map((m) => m.code) }))
+    .map((row) => ({ enrollmentId: row.id, codes: matrix.materials.filter((_, i) => !row.submitted[i]).map((m) => m.code) }))
     .filter((r) => r.codes.length > 0);
   if (missing.length === 0) return { reminded: [] as string[] };
   const contacts = await db

@@ -104,8 +104,7 @@ export async function studyMatrix(studyId: number, { enrollmentId }: { enrollmen
     statusByKey.set(key, [...(statusByKey.get(key) ?? []), status]);
   }
   const queried = new Set(openQueries.map((q) => `${q.enrollmentId}:${q.materialId}`));
-  const materialStatus = (enrollmentId: number, materialId: number): CellStatus => {
-    if (queried.has(`${enrollmentId}:${materialId}`)) return "queried";
+  const resultStatus = (enrollmentId: number, materialId: number): CellStatus => {
     const statuses = statusByKey.get(`${enrollmentId}:${materialId}`) ?? [];
     if (statuses.length < studyResponses.length || statuses.length === 0) return statuses.length ? "draft" : "not_started";
     if (statuses.every((s) => s === "submitted" || s === "amended")) return statuses.includes("amended") ? "amended" : "submitted";
@@ -114,10 +113,15 @@ export async function studyMatrix(studyId: number, { enrollmentId }: { enrollmen
   return {
     materials: studyMaterials,
     responses: studyResponses,
-    rows: studyEnrollments.map((e) => ({
-      ...e,
-      statuses: studyMaterials.map((m) => materialStatus(e.id, m.id)),
-    })),
+    rows: studyEnrollments.map((e) => {
+      const results = studyMaterials.map((m) => resultStatus(e.id, m.id));
+      return {
+        ...e,
+        statuses: results.map((status, i): CellStatus => (queried.has(`${e.id}:${studyMaterials[i]!.id}`) ? "queried" : status)),
+        /** Whether every cell of the pair is submitted, whatever queries are open. */
+        submitted: results.map((status) => status === "submitted" || status === "amended"),
+      };
+    }),
   };
 }
 

@@ -14,7 +14,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     {
       study: { id: study.id, code: study.code, state: study.state, resultsDue: study.resultsDue },
       materials: matrix.materials.map((m) => ({ id: m.id, code: m.code })),
-      labs: matrix.rows.map((r) => ({ enrollmentId: r.id, labCode: r.labCode, labName: r.labName, statuses: r.statuses })),
+      labs: matrix.rows.map((r) => ({ enrollmentId: r.id, labCode: r.labCode, labName: r.labName, statuses: r.statuses, submitted: r.submitted })),
       counts: statusCountsByMaterial(matrix),
       generatedAt: new Date().toISOString(),
     },

@@ -58,8 +58,6 @@ const STATUS_VIEW: Record<CellStatus, { label: string; tone: "neutral" | "ochre"
   queried: { label: "Queried", tone: "signal" },
 };
 
-const isDone = (s: CellStatus) => s === "submitted" || s === "amended";
-
 function daysUntil(date: string, today: string) {
   return Math.round((Date.parse(date) - Date.parse(today)) / 86_400_000);
 }
@@ -94,9 +92,9 @@ export default function StudyOverview({ loaderData, actionData }: Route.Componen
   // The polled figures replace the loader's once they arrive.
   const live = progress.data;
   const materials = live?.materials ?? loaderData.matrix.materials.map((m) => ({ id: m.id, code: m.code }));
-  const rows = live?.labs ?? loaderData.matrix.rows.map((r) => ({ enrollmentId: r.id, labCode: r.labCode, labName: r.labName, statuses: r.statuses }));
+  const rows = live?.labs ?? loaderData.matrix.rows.map((r) => ({ enrollmentId: r.id, labCode: r.labCode, labName: r.labName, statuses: r.statuses, submitted: r.submitted }));
   const counts = live?.counts ?? loaderData.counts;
-  const submitted = rows.flatMap((r) => r.statuses).filter(isDone).length;
+  const submitted = rows.flatMap((r) => r.submitted).filter(Boolean).length;
   const total = rows.length * materials.length;
   const dates = [
     { label: "Enrollment deadline", date: study.enrollmentDeadline },
@@ -181,7 +179,7 @@ export default function StudyOverview({ loaderData, actionData }: Route.Componen
           <progress className="mb-4 h-3 w-full" max={total || 1} value={submitted} aria-label="Submitted lab × material results" />
           <div className="mb-6 grid gap-4 md:grid-cols-2">
             {counts.map((c) => (
-              <Bar key={c.materialId} label={`Material ${c.code}`} value={c.counts.submitted + c.counts.amended} max={rows.length} />
+              <Bar key={c.materialId} label={`Material ${c.code}`} value={rows.filter((r) => r.submitted[materials.findIndex((m) => m.id === c.materialId)]).length} max={rows.length} />
             ))}
           </div>
           <DataTable
@@ -207,8 +205,8 @@ export default function StudyOverview({ loaderData, actionData }: Route.Componen
               {
                 id: "done",
                 header: "Submitted",
-                value: (r) => r.statuses.filter(isDone).length,
-                cell: (r) => <Bar label={r.labCode ?? r.labName} value={r.statuses.filter(isDone).length} max={materials.length} />,
+                value: (r) => r.submitted.filter(Boolean).length,
+                cell: (r) => <Bar label={r.labCode ?? r.labName} value={r.submitted.filter(Boolean).length} max={materials.length} />,
               },
               ...materials.map((m, i) => ({
                 id: `m${m.id}`,

@@ -1,0 +1,198 @@
+import { and, eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
+import { cells, emailOutbox, enrollments, labs, materials, mixtureConstituents, queries, shipments, studies, users } from "~/db/schema";
+import { lbPerYd3ToKgPerM3 } from "~/lib/batching";
+import * as progressApi from "~/routes/api.v1.studies.$studyId.progress";
+import * as receipt from "~/routes/lab.studies.$studyId.receipt";
+import * as materialPage from "~/routes/studies.$studyId.materials.$materialId";
+import * as shipmentsPage from "~/routes/studies.$studyId.shipments";
+import * as overview from "~/routes/studies.$studyId";
+import { seedDemo } from "../../seed/seed";
+import { createStudyAs, postMultipart } from "../support/coordinator";
+import { useFreshDatabase } from "../support/database";
+import { demoCookie } from "../support/demo";
+import { call, get, post } from "../support/routes";
+
+let coordinator: string;
+let testing: typeof studies.$inferSelect;
+
+beforeAll(async () => {
+  await useFreshDatabase();
+  await seedDemo(db);
+  coordinator = await demoCookie("coordinator@ringbatch.example");
+  testing = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-B") }))!;
+});
+
+const params = () => ({ studyId: String(testing.id) });
+
+describe("the mixture design editor's save", () => {
+  let study: typeof studies.$inferSelect;
+  let materialId: number;
+  const design = {
+    code: "M1",
+    description: "Reference",
+    "c.0.kind": "cement", "c.0.name": "Portland cement", "c.0.lot": "C-1", "c.0.ssdMassKgPerM3": "335", "c.0.relativeDensity": "3.15",
+    "c.1.kind": "water", "c.1.name": "Batch water", "c.1.lot": "", "c.1.ssdMassKgPerM3": "150", "c.1.relativeDensity": "1",
+    "c.2.kind": "admixture", "c.2.name": "Water reducer", "c.2.lot": "", "c.2.dosagePer100kgCementitious": "300",
+  };
+  const save = (fields: Record<string, string>) =>
+    call(materialPage.action, post(`/studies/${study.id}/materials/${materialId}`, fields, coordinator), { studyId: String(study.id), materialId: String(materialId) });
+
+  beforeAll(async () => {
+    study = await createStudyAs(coordinator, { code: "FF-2027-MIX" });
+    [{ id: materialId }] = await db.insert(materials).values({ studyId: study.id, code: "M1" }).returning();
+  });
+
+  it("stores the rows in SI whichever units they were typed in", async () => {
+    expect((await save({ ...design, units: "si" })).data.done).toBe("Mixture design saved.");
+    const si = await db.select().from(mixtureConstituents).where(eq(mixtureConstituents.materialId, materialId));
+    expect(si.map((r) => [r.kind, r.ssdMassKgPerM3, r.dosageMlPer100Kg])).toEqual([
+      ["cement", 335, null],
+      ["water", 150, null],
+      ["admixture", null, 300],
+    ]);
+    await save({ ...design, units: "us", "c.0.ssdMassKgPerM3": "564", "c.2.dosagePer100kgCementitious": "4" });
+    const us = await db.select().from(mixtureConstituents).where(eq(mixtureConstituents.materialId, materialId));
+    // 1 lb/yd³ = 0.45359237 / 0.764554857984 kg/m³ (NIST SP 811 exact definitions): 564 lb/yd³ ≈ 334.61 kg/m³.
+    expect(us[0]!.ssdMassKgPerM3).toBeCloseTo(564 * (0.45359237 / 0.764554857984), 9);
+    expect(us[0]!.ssdMassKgPerM3).toBeCloseTo(lbPerYd3ToKgPerM3(564), 12);
+    // 1 US fl oz = 29.5735295625 mL and 1 cwt = 45.359237 kg (exact): 4 fl oz/cwt ≈ 260.79 mL/100 kg.
+    expect(us[2]!.dosageMlPer100Kg).toBeCloseTo((4 * 29.5735295625 * 100) / 45.359237, 9);
+  });
+
+  it.each([
+    ["c.0.ssdMassKgPerM3", { "c.0.ssdMassKgPerM3": "-5" }, "Mass must be more than 0"],
+    ["c.0.relativeDensity", { "c.0.relativeDensity": "" }, "Relative density must be a number"],
+    ["c.0.name", { "c.0.name": "" }, "Name is required"],
+    ["c.2.dosagePer100kgCementitious", { "c.2.dosagePer100kgCementitious": "9000" }, "at most 5000 mL"],
+    ["c.1.kind", { "c.1.kind": "gravel" }, "Kind must be one of"],
+    ["constituents", { "c.1.kind": "cement" }, "exactly one water row"],
+    ["code", { code: "" }, "Use up to 12 letters"],
+  ])("refuses %s beside the field and keeps the stored design", async (field, change, message) => {
+    const before = await db.select().from(mixtureConstituents).where(eq(mixtureConstituents.materialId, materialId));
+    const outcome = await save({ ...design, units: "si", ...change });
+    expect(outcome.status).toBe(400);
+    expect(outcome.data.errors[field]).toContain(message);
+    expect(outcome.data.values["c.0.name"]).toBe({ ...design, ...change }["c.0.name"]);
+    expect(await db.select().from(mixtureConstituents).where(eq(mixtureConstituents.materialId, materialId))).toEqual(before);
+  });
+
+  it("is fixed once testing starts, and hidden from people outside the study", async () => {
+    const path = `/studies/${testing.id}/materials/1`;
+    const locked = await call(materialPage.action, post(path, { ...design, units: "si" }, coordinator), { studyId: String(testing.id), materialId: "1" });
+    expect([400, 404]).toContain(locked.status);
+    const mine = (await db.query.materials.findFirst({ where: eq(materials.studyId, testing.id) }))!;
+    const lockedOwn = await call(materialPage.action, post(`/studies/${testing.id}/materials/${mine.id}`, { ...design, code: mine.code, units: "si" }, coordinator), {
+      studyId: String(testing.id),
+      materialId: String(mine.id),
+    });
+    expect(lockedOwn.data.errors.code).toBe("Responses and materials are fixed once testing has started.");
+    const outsider = await call(materialPage.loader, get(path, await demoCookie("analyst1@ringbatch.example")), { studyId: String(study.id), materialId: String(materialId) });
+    expect(outsider.status).toBe(404);
+  });
+});
+
+describe("progress and reminders", () => {
+  it("counts each lab × material status, with queried from open queries", async () => {
+    // Lab index 0 submitted F1; a query on one of its cells makes the pair queried.
+    const [cell] = await db.select().from(cells).innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId)).where(eq(enrollments.studyId, testing.id)).limit(1);
+    const coordinatorUser = (await db.query.users.findFirst({ where: eq(users.email, "coordinator@ringbatch.example") }))!;
+    await db.insert(queries).values({ cellId: cell!.cells.id, raisedBy: coordinatorUser.id, question: "Was replicate 2 from a second batch?" });
+    const outcome = await call(progressApi.loader, get(`/api/v1/studies/${testing.id}/progress`, coordinator), params());
+    expect(outcome.headers.get("Cache-Control")).toBe("no-store");
+    expect(outcome.data.labs).toHaveLength(8);
+    const [f1, f2] = outcome.data.counts;
+    // Seed: 4 labs submitted both materials, 2 hold drafts of F1 only, 2 have not started.
+    expect(f1.counts).toEqual({ not_started: 2, draft: 2, submitted: 3, amended: 0, queried: 1 });
+    expect(f2.counts).toEqual({ not_started: 4, draft: 0, submitted: 4, amended: 0, queried: 0 });
+  });
+
+  it("shows a lab only its own row, and nobody outside the study anything", async () => {
+    const own = await call(progressApi.loader, get(`/api/v1/studies/${testing.id}/progress`, await demoCookie("analyst5@ringbatch.example")), params());
+    expect(own.status).toBe(200);
+    expect(own.data.labs).toHaveLength(1);
+    expect(own.data.labs[0].labName).toBe("Brimmel Aggregates Quality Lab");
+    const total = own.data.counts.reduce((n: number, c: { counts: Record<string, number> }) => n + Object.values(c.counts).reduce((a, b) => a + b, 0), 0);
+    expect(total).toBe(2);
+    const [outsider] = await db.insert(users).values({ email: "outsider@ringbatch.example", name: "Out Sider", role: "analyst" }).returning();
+    const { sessionCookieFor } = await import("../support/routes");
+    expect((await call(progressApi.loader, get("/", await sessionCookieFor(outsider!.id)), params())).status).toBe(404);
+    expect((await call(progressApi.loader, get("/", await demoCookie("reviewer1@ringbatch.example")), params())).status).toBe(404);
+  });
+
+  it("reminds only the labs with missing results", async () => {
+    const before = (await db.select().from(emailOutbox)).length;
+    const outcome = await call(overview.action, post(`/studies/${testing.id}`, { intent: "remind" }, coordinator), params());
+    expect(outcome.data.done).toContain("Reminded 4 labs");
+    const sent = (await db.select().from(emailOutbox)).slice(before);
+    // Labs 5–8 of the seed (drafts or not started); labs 1–4 have submitted everything.
+    expect(sent.map((m) => m.to).sort()).toEqual(["analyst5@ringbatch.example", "analyst6@ringbatch.example", "analyst7@ringbatch.example", "analyst8@ringbatch.example"]);
+    expect(sent.find((m) => m.to === "analyst5@ringbatch.example")!.text).toContain("F2");
+    const checking = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!;
+    const refused = await call(overview.action, post(`/studies/${checking.id}`, { intent: "remind" }, coordinator), { studyId: String(checking.id) });
+    expect(refused.data.errors.form).toBe("Reminders go out only while the study is testing.");
+    expect((await call(overview.action, post(`/studies/${testing.id}`, { intent: "remind" }, await demoCookie("admin@ringbatch.example")), params())).status).toBe(404);
+  });
+});
+
+describe("shipments and receipt", () => {
+  let enrollmentId: number;
+  const ship = (fields: Record<string, string>, cookie = coordinator) => call(shipmentsPage.action, post(`/studies/${testing.id}/shipments`, fields, cookie), params());
+
+  beforeAll(async () => {
+    const lab = (await db.query.labs.findFirst({ where: eq(labs.contactEmail, "analyst1@ringbatch.example") }))!;
+    enrollmentId = (await db.query.enrollments.findFirst({ where: and(eq(enrollments.studyId, testing.id), eq(enrollments.labId, lab.id)) }))!.id;
+  });
+
+  it("prepares a shipment with the materials' lots, refusing bad input", async () => {
+    const page = await call(shipmentsPage.loader, get(`/studies/${testing.id}/shipments`, coordinator), params());
+    expect(page.data.defaultContents).toContain("F1: ");
+    expect(page.data.defaultContents).toContain("lot P-0601");
+    expect((await ship({ intent: "create", enrollmentId: String(enrollmentId), contents: "", carrier: "", trackingNumber: "" })).data.errors.contents).toContain("List the materials");
+    expect((await ship({ intent: "create", enrollmentId: "", contents: "F1", carrier: "", trackingNumber: "" })).data.errors.enrollmentId).toBe("Choose a lab.");
+    expect((await ship({ intent: "create", enrollmentId: "999999", contents: "F1", carrier: "", trackingNumber: "" })).data.errors.enrollmentId).toBe("Ship only to labs that have accepted.");
+    expect((await ship({ intent: "create", enrollmentId: String(enrollmentId), contents: page.data.defaultContents, carrier: "Kestrel Freight", trackingNumber: "" })).data.done).toBe("Shipment prepared.");
+    expect((await ship({ intent: "create", enrollmentId: String(enrollmentId), contents: "F1", carrier: "", trackingNumber: "" }, await demoCookie("analyst1@ringbatch.example"))).status).toBe(404);
+  });
+
+  it("marks it shipped and e-mails the lab; refuses a missing carrier or date and a second move", async () => {
+    const shipment = (await db.query.shipments.findFirst({ where: eq(shipments.enrollmentId, enrollmentId) }))!;
+    const id = String(shipment.id);
+    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "", carrier: "Kestrel Freight", trackingNumber: "" })).data.errors.shippedOn).toContain("YYYY-MM-DD");
+    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2027-02-15", carrier: "", trackingNumber: "" })).data.errors.carrier).toBe("Name the carrier.");
+    const before = (await db.select().from(emailOutbox)).length;
+    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2027-02-15", carrier: "Kestrel Freight", trackingNumber: "KF-1" })).data.done).toContain("e-mailed");
+    const [notice] = (await db.select().from(emailOutbox)).slice(before);
+    expect(notice).toMatchObject({ to: "analyst1@ringbatch.example" });
+    expect(notice!.text).toContain(`/lab/studies/${testing.id}/receipt`);
+    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2027-02-15", carrier: "Kestrel Freight", trackingNumber: "" })).data.errors.form).toContain("cannot be changed");
+    expect((await ship({ intent: "lost", shipmentId: "999999" })).data.errors.form).toBe("That shipment is not part of this study.");
+  });
+
+  it("lets the lab confirm receipt with a photo, and shows damage on the overview", async () => {
+    const shipment = (await db.query.shipments.findFirst({ where: eq(shipments.enrollmentId, enrollmentId) }))!;
+    const analyst = await demoCookie("analyst1@ringbatch.example");
+    const confirm = (fields: Record<string, string>, photo?: File, cookie = analyst) => {
+      const form = new FormData();
+      for (const [k, v] of Object.entries(fields)) form.set(k, v);
+      if (photo) form.set("photo", photo);
+      return call(receipt.action, postMultipart(`/lab/studies/${testing.id}/receipt`, form, cookie), params());
+    };
+    const fields = { shipmentId: String(shipment.id), receivedOn: "2027-02-18", condition: "damaged", receiptNotes: "" };
+    expect((await confirm(fields)).data.errors.receiptNotes).toContain("Describe the damage");
+    expect((await confirm({ ...fields, condition: "soggy" })).data.errors.condition).toContain("good condition or damaged");
+    expect((await confirm({ ...fields, receivedOn: "18/02/2027" })).data.errors.receivedOn).toContain("YYYY-MM-DD");
+    expect((await confirm({ ...fields, receiptNotes: "Wet bag" }, new File(["<svg/>"], "photo.png"))).data.errors.photo).toContain("not a JPG, PNG, WEBP file");
+    // Another lab's analyst cannot confirm this lab's shipment.
+    expect((await confirm({ ...fields, receiptNotes: "x" }, undefined, await demoCookie("analyst2@ringbatch.example"))).data.errors.form).toBe("That shipment is not for your lab.");
+    const png = new File([new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 1, 2, 3])], "bag.png");
+    expect((await confirm({ ...fields, receiptNotes: "One fiber carton crushed." }, png)).data.done).toBe("Receipt confirmed. Thank you.");
+    const stored = (await db.query.shipments.findFirst({ where: eq(shipments.id, shipment.id) }))!;
+    expect(stored).toMatchObject({ status: "received", condition: "damaged", receivedOn: "2027-02-18", receiptNotes: "One fiber carton crushed." });
+    expect(stored.photoAttachmentId).not.toBeNull();
+    const page = await call(overview.loader, get(`/studies/${testing.id}`, coordinator), params());
+    expect(page.data.shipments.damaged.map((s: { receiptNotes: string }) => s.receiptNotes)).toEqual(["One fiber carton crushed."]);
+    expect((await call(receipt.loader, get("/", await demoCookie("reviewer1@ringbatch.example")), params())).status).toBe(404);
+  });
+});
