@@ -1,0 +1,39 @@
+import { describe, expect, it } from "vitest";
+import { STUDY_STATES } from "~/db/schema";
+import { allowedNextStates, checkTransition, invitationsOpen, resultsEditable, setupEditable } from "./study-lifecycle";
+
+describe("study lifecycle rules", () => {
+  it("follows draft → recruiting → testing → checking → in_review → published, with cancel before published", () => {
+    expect(allowedNextStates("draft")).toContain("recruiting");
+    expect(allowedNextStates("recruiting")).toContain("testing");
+    expect(allowedNextStates("testing")).toContain("checking");
+    expect(allowedNextStates("checking")).toContain("in_review");
+    expect(allowedNextStates("in_review")).toContain("published");
+    for (const state of STUDY_STATES.filter((s) => s !== "published" && s !== "cancelled")) expect(allowedNextStates(state)).toContain("cancelled");
+    expect(allowedNextStates("published")).toEqual([]);
+    expect(allowedNextStates("cancelled")).toEqual([]);
+  });
+
+  it("refuses testing without materials or with fewer than 3 accepted labs", () => {
+    expect(checkTransition("recruiting", "testing", { materials: 0, acceptedLabs: 8 }).problems).toEqual(["Add at least one material before testing starts."]);
+    expect(checkTransition("recruiting", "testing", { materials: 2, acceptedLabs: 2 }).allowed).toBe(false);
+    expect(checkTransition("recruiting", "testing", { materials: 2, acceptedLabs: 3 }).allowed).toBe(true);
+  });
+
+  // E691 asks for at least 6 laboratories for a precision statement (from memory).
+  it("warns below 6 labs and not at 6", () => {
+    expect(checkTransition("recruiting", "testing", { materials: 1, acceptedLabs: 5 }).warnings).toHaveLength(1);
+    expect(checkTransition("recruiting", "testing", { materials: 1, acceptedLabs: 6 }).warnings).toEqual([]);
+  });
+
+  it("refuses skipping a state", () => {
+    expect(checkTransition("draft", "published", { materials: 1, acceptedLabs: 8 }).allowed).toBe(false);
+    expect(checkTransition("draft", "testing", { materials: 1, acceptedLabs: 8 }).allowed).toBe(false);
+  });
+
+  it("allows results only while testing, setup only before, invitations while recruiting", () => {
+    expect(STUDY_STATES.filter(resultsEditable)).toEqual(["testing"]);
+    expect(STUDY_STATES.filter(setupEditable)).toEqual(["draft", "recruiting"]);
+    expect(STUDY_STATES.filter(invitationsOpen)).toEqual(["recruiting"]);
+  });
+});
