@@ -35,6 +35,7 @@ export default [
   route("api/v1/studies/:studyId/results", "routes/api.v1.studies.$studyId.results.ts"),
   route("api/v1/studies/:studyId/results.csv", "routes/api.v1.studies.$studyId.results-csv.ts"),
   route("api/v1/studies/:studyId/precision", "routes/api.v1.studies.$studyId.precision.ts"),
+  route("api/v1/enrollments/:enrollmentId/results", "routes/api.v1.enrollments.$enrollmentId.results.ts"),
   route("studies/:studyId/queries", "routes/studies.$studyId.queries.tsx"),
   route("studies/:studyId/statement", "routes/studies.$studyId.statement.tsx"),
   route("studies/:studyId/report", "routes/studies.$studyId.report.tsx"),

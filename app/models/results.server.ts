@@ -143,9 +143,13 @@ export async function saveDraftResults(enrollment: Enrollment, rows: ResultInput
   });
 }
 
-export type ImportOutcome = { ok: true; imported: number } | { ok: false; problems: RowProblem[] };
+export type ImportOutcome = { ok: true; imported: number; changed: number } | { ok: false; problems: RowProblem[] };
 
-/** Checks every row first; imports all of them in one transaction, or none when any row has a problem. */
+/**
+ * Checks every row first; imports all of them in one transaction, or none when
+ * any row has a problem. Importing the same rows again changes nothing, and
+ * records nothing.
+ */
 export async function importResults(enrollment: Enrollment, rows: ResultInputRow[], user: Actor, fileName = ""): Promise<ImportOutcome> {
   const frame = await studyFrame(enrollment.studyId);
   assertResultsEditable(frame.study);
@@ -154,6 +158,7 @@ export async function importResults(enrollment: Enrollment, rows: ResultInputRow
     const { problems, resolved } = resolveRows(frame, await enrollmentCells(tx, enrollment.id), rows, { valueRequired: true });
     if (problems.length > 0) return { ok: false as const, problems };
     const changes = await writeRows(tx, enrollment, resolved);
+    if (changes.length === 0) return { ok: true as const, imported: rows.length, changed: 0 };
     await recordAudit(
       {
         actorUserId: user.id,
@@ -166,7 +171,7 @@ export async function importResults(enrollment: Enrollment, rows: ResultInputRow
       },
       tx,
     );
-    return { ok: true as const, imported: rows.length };
+    return { ok: true as const, imported: rows.length, changed: changes.length };
   });
 }
 

@@ -32,7 +32,7 @@ describe("the lab's results file", () => {
     expect(problems).toEqual([
       { row: 3, field: "replicate", message: "F1 · holes · replicate 1 is already given in row 2." },
       { row: 4, field: "replicate", message: "Replicate must be a whole number from 1 to 3." },
-      { row: 5, field: "value", message: "F2 · holes · replicate 1 is already submitted; change it with an amendment (with a reason) on the result entry page." },
+      { row: 5, field: "value", message: "F2 · holes · replicate 1 is already submitted; change it with an amendment (with a reason) on the result entry page.", submitted: true },
       { row: 6, field: "value", message: "The value is empty." },
     ]);
   });

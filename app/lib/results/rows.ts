@@ -18,7 +18,8 @@ export type ResultInputRow = {
 };
 
 export type RowField = "material" | "response" | "replicate" | "value" | "tested_on" | "operator";
-export type RowProblem = { row: number; field: RowField; message: string };
+/** `submitted`: the row targets a submitted cell, which only an amendment may change (a state conflict, not bad input). */
+export type RowProblem = { row: number; field: RowField; message: string; submitted?: true };
 
 export type ResolvedRow = {
   row: number;
@@ -53,7 +54,7 @@ export function resolveResultRows(frame: RowFrame, rows: ResultInputRow[], { val
   const responseKeys = frame.responses.map((r) => r.key).join(", ");
   rows.forEach((input, index) => {
     const row = input.row ?? index + 1;
-    const problem = (field: RowField, message: string) => problems.push({ row, field, message });
+    const problem = (field: RowField, message: string, extra: { submitted?: true } = {}) => problems.push({ row, field, message, ...extra });
     const materialCode = String(input.material ?? "").trim();
     const responseKey = String(input.response ?? "").trim();
     const material = frame.materials.find((m) => m.code.toLowerCase() === materialCode.toLowerCase());
@@ -69,7 +70,7 @@ export function resolveResultRows(frame: RowFrame, rows: ResultInputRow[], { val
     if (earlier !== undefined) return problem("replicate", `${where} is already given in row ${earlier}.`);
     seen.set(`${material.id}:${response.id}:${replicate}`, row);
     if (frame.submittedCells.has(cellKey(material.id, response.id))) {
-      return problem("value", `${where} is already submitted; change it with an amendment (with a reason) on the result entry page.`);
+      return problem("value", `${where} is already submitted; change it with an amendment (with a reason) on the result entry page.`, { submitted: true });
     }
     const check = checkResultValue(response, input.value);
     if (check.status === "refused") return problem("value", check.message);
