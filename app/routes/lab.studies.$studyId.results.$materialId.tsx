@@ -44,6 +44,15 @@ const draftSchema = z.object({
   batchedAt: z.string().max(20),
 });
 
+/** The draft field's JSON, or undefined when it is not JSON (the schema then refuses it). */
+function parseJsonField(value: FormDataEntryValue | null) {
+  try {
+    return JSON.parse(String(value ?? "{}"));
+  } catch {
+    return undefined;
+  }
+}
+
 async function loadEntry(request: Request, params: Route.LoaderArgs["params"]) {
   const access = await requireStudyAccess(request, params.studyId, ["analyst"]);
   const enrollment = access.enrollment!;
@@ -144,7 +153,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const intent = form.get("intent");
   try {
     if (intent === "draft" || intent === "submit") {
-      const parsed = draftSchema.safeParse(JSON.parse(String(form.get("draft") ?? "{}")));
+      const parsed = draftSchema.safeParse(parseJsonField(form.get("draft")));
       if (!parsed.success) return data({ intent, error: "The form could not be read; reload the page." }, { status: 400 });
       const problems = await saveDraft(enrollment, entry, parsed.data, study.replicatesPerCell, user);
       if (intent === "draft") {
