@@ -1,0 +1,139 @@
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DEMO_LABS, DEMO_PASSWORD } from "../../seed/demo-data";
+import { expectAccessible, launchBrowser, signInAs } from "../support/browser";
+import { type RunningServer, startServer } from "../support/server";
+
+let server: RunningServer;
+let browser: Browser;
+const STUDY = 1; // FF-2026-A, the seeded study in checking
+
+beforeAll(async () => {
+  [server, browser] = await Promise.all([startServer(), launchBrowser()]);
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await server?.stop();
+});
+
+async function as(email: string) {
+  const page = await (await browser.newContext()).newPage();
+  await signInAs(page, server.url, email, DEMO_PASSWORD);
+  await page.waitForURL((url) => url.pathname !== "/login");
+  return page;
+}
+
+async function visit(page: Page, path: string) {
+  const response = await page.goto(server.url + path);
+  expect(response?.status(), path).toBe(200);
+  await expectAccessible(page);
+}
+
+const flaggedRow = (page: Page, lab: string, material: string, response: string) =>
+  page.getByRole("table", { name: "Cells flagged by the consistency statistics or the outlier tests" }).getByRole("row").filter({ hasText: lab }).filter({ hasText: material }).filter({ hasText: response });
+
+describe("from the checking study to a published statement, in the browser", () => {
+  it("runs the whole investigation and review", { timeout: 180_000 }, async () => {
+    const coordinator = await as("coordinator@ringbatch.example");
+    await visit(coordinator, `/studies/${STUDY}/analysis`);
+    // Both planted outliers, each on its own statistic.
+    await expect.poll(() => flaggedRow(coordinator, "L08", "M2", "surface").textContent()).toMatch(/h = /);
+    await expect.poll(() => flaggedRow(coordinator, "L01", "M3", "holes").textContent()).toMatch(/k = /);
+    // The charts load lazily once hydrated.
+    await coordinator.locator('[role="img"][aria-label^="h plot"]').first().waitFor();
+    await expectAccessible(coordinator);
+
+    // Ask the lab about L08's M2 surface cell.
+    await flaggedRow(coordinator, "L08", "M2", "surface").getByRole("link", { name: /Investigate/ }).click();
+    await coordinator.getByRole("heading", { name: /Investigate lab L08/ }).waitFor();
+    await expectAccessible(coordinator);
+    expect(await coordinator.getByLabel("Statistic quoted").inputValue()).toMatch(/^h = /);
+    await coordinator.getByRole("button", { name: "Send the query" }).click();
+    await coordinator.getByText("Query sent to lab L08.").waitFor();
+
+    // The lab's analyst answers on the lab's query page.
+    const analyst = await as("analyst5@ringbatch.example");
+    await visit(analyst, "/lab/queries");
+    await analyst.getByLabel("Your answer").fill("Our operator counted the surface passes twice on M2; the worksheet shows it.");
+    await analyst.getByRole("button", { name: "Send answer" }).click();
+    await analyst.getByText("Answer sent to the coordinator.").waitFor();
+
+    // The coordinator sees the answer, previews the exclusion, and saves it with a reason.
+    await coordinator.goto(`${server.url}/studies/${STUDY}/analysis?cell=L08:M2:surface#investigate`);
+    await coordinator.getByText("Our operator counted the surface passes twice").waitFor();
+    const sRBefore = await coordinator.getByRole("table", { name: "Precision statistics of Passes to reach the target surface by material" }).getByRole("row").filter({ hasText: "M2" }).textContent();
+    await coordinator.getByLabel("Exclude the cell").check();
+    const preview = coordinator.getByRole("table", { name: "Figures of this material and response before and after the decision" });
+    await expect.poll(() => preview.getByRole("row").filter({ hasText: "Labs p" }).textContent()).toMatch(/87/);
+    await expectAccessible(coordinator);
+    await coordinator.getByLabel("Reason").fill("The lab confirmed a counting error (assignable cause).");
+    await coordinator.getByRole("button", { name: "Save decision" }).click();
+    await coordinator.getByText(/Cell L08:M2:surface excluded/).waitFor();
+    const m2Surface = coordinator.getByRole("table", { name: "Precision statistics of Passes to reach the target surface by material" }).getByRole("row").filter({ hasText: "M2" });
+    await expect.poll(() => m2Surface.textContent()).not.toBe(sRBefore);
+    await expect.poll(() => m2Surface.textContent()).toMatch(/^M27/);
+
+    await visit(coordinator, `/studies/${STUDY}/queries`);
+    await coordinator.getByRole("button", { name: /Close the query to lab L08/ }).click();
+    await coordinator.getByText("Query closed.").waitFor();
+
+    // Freeze and send.
+    await visit(coordinator, `/studies/${STUDY}/statement`);
+    await coordinator.getByRole("button", { name: "Freeze the first version" }).click();
+    await coordinator.getByText(/Version 1 frozen/).waitFor();
+    expect(await coordinator.getByLabel("Statement text, E691 form (r and R)").inputValue()).toContain("lab L08, material M2, surface");
+    await expectAccessible(coordinator);
+    await coordinator.getByRole("button", { name: "Send version 1 to the committee" }).click();
+    await coordinator.getByText(/Sent to the committee/).waitFor();
+
+    // Reviewer 1 objects; reviewers never see a lab's name.
+    const reviewer1 = await as("reviewer1@ringbatch.example");
+    await visit(reviewer1, "/review");
+    await reviewer1.getByRole("link", { name: "FF-2026-A" }).click();
+    await reviewer1.getByRole("heading", { name: /Review — FF-2026-A/ }).waitFor();
+    await reviewer1.locator('[role="img"][aria-label^="k plot"]').first().waitFor();
+    await expectAccessible(reviewer1);
+    const html = await reviewer1.content();
+    for (const lab of DEMO_LABS) expect(html).not.toContain(lab.name);
+    await reviewer1.getByLabel("Object (give the reason)").check();
+    await reviewer1.getByRole("button", { name: "Record my vote" }).click();
+    await reviewer1.getByText(/An objection needs its reason/).waitFor();
+    await reviewer1.getByRole("textbox", { name: "Reason" }).fill("Excluding L08 on M2 needs the lab's worksheet on file.");
+    await reviewer1.getByRole("button", { name: "Record my vote" }).click();
+    await reviewer1.getByText(/Your vote is recorded/).waitFor();
+
+    // The coordinator answers not upheld.
+    await visit(coordinator, `/studies/${STUDY}/statement`);
+    await coordinator.getByLabel("Not upheld").check();
+    await coordinator.getByLabel("Rationale (shown to every reviewer)").fill("The worksheet is attached to the query answer and kept with the study.");
+    await coordinator.getByRole("button", { name: "Record the answer" }).click();
+    await coordinator.getByText(/Answer recorded/).waitFor();
+
+    // Every reviewer approves; the others see the answer first, then the objector changes their vote.
+    for (const email of ["reviewer2@ringbatch.example", "reviewer3@ringbatch.example", "reviewer1@ringbatch.example"]) {
+      const reviewer = email === "reviewer1@ringbatch.example" ? reviewer1 : await as(email);
+      await reviewer.goto(`${server.url}/review/${STUDY}`);
+      if (email !== "reviewer1@ringbatch.example") await reviewer.getByText(/not upheld/).first().waitFor();
+      await reviewer.getByLabel("Approve").check();
+      await reviewer.getByRole("button", { name: "Record my vote" }).click();
+      await reviewer.getByText(/Your vote is recorded/).waitFor();
+    }
+
+    // Publish; afterwards the pages offer no writes and a forged write is refused.
+    await visit(coordinator, `/studies/${STUDY}/statement`);
+    await coordinator.getByRole("button", { name: "Publish the study" }).click();
+    await coordinator.getByText(/Published. The study is now read-only./).waitFor();
+    await visit(coordinator, `/studies/${STUDY}/analysis?cell=L01:M3:holes`);
+    await coordinator.getByText("This study is published; it is read-only.").first().waitFor();
+    expect(await coordinator.getByRole("button", { name: "Save decision" }).count()).toBe(0);
+    const forged = await coordinator.evaluate(async (url) => {
+      const body = new URLSearchParams({ intent: "decide", lab: "L01", material: "M3", response: "holes", decision: "excluded", reason: "Trying after publication." });
+      const res = await fetch(`${url}.data`, { method: "POST", body, headers: { "Content-Type": "application/x-www-form-urlencoded" } });
+      return res.status;
+    }, `${server.url}/studies/${STUDY}/analysis`);
+    expect(forged).toBe(409);
+    await visit(coordinator, `/studies/${STUDY}/report`);
+    await coordinator.getByRole("table", { name: "Labs that contributed results" }).getByText(DEMO_LABS[0].name).waitFor();
+  });
+});
