@@ -38,15 +38,17 @@ export async function seedPersonas() {
   await db.insert(enrollments).values({ studyId: otherStudy!.id, labId: otherLab!.id, labCode: "L01", state: "accepted" });
 
   const idOf = async (email: string) => (await db.query.users.findFirst({ where: eq(users.email, email) }))!.id;
-  const cookies: Record<Persona, string | undefined> = {
-    anonymous: undefined,
-    admin: await sessionCookieFor(await idOf("admin@ringbatch.example")),
-    coordinator: await sessionCookieFor(await idOf("coordinator@ringbatch.example")),
-    otherCoordinator: await sessionCookieFor(otherCoordinator!.id),
-    analyst: await sessionCookieFor(await idOf("analyst1@ringbatch.example")),
-    otherAnalyst: await sessionCookieFor(otherAnalyst!.id),
-    reviewer: await sessionCookieFor(await idOf("reviewer1@ringbatch.example")),
-    otherReviewer: await sessionCookieFor(otherReviewer!.id),
+  const userIds: Record<Persona, number | null> = {
+    anonymous: null,
+    admin: await idOf("admin@ringbatch.example"),
+    coordinator: await idOf("coordinator@ringbatch.example"),
+    otherCoordinator: otherCoordinator!.id,
+    analyst: await idOf("analyst1@ringbatch.example"),
+    otherAnalyst: otherAnalyst!.id,
+    reviewer: await idOf("reviewer1@ringbatch.example"),
+    otherReviewer: otherReviewer!.id,
   };
-  return { cookies, otherStudyId: otherStudy!.id };
+  /** A new signed-in session for each request, since some routes (sign-out) end the one they get. */
+  const cookieFor = async (persona: Persona) => (userIds[persona] ? sessionCookieFor(userIds[persona]!) : undefined);
+  return { cookieFor, otherStudyId: otherStudy!.id };
 }

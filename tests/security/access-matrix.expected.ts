@@ -1,0 +1,61 @@
+/**
+ * Who may reach what: the expected status of every route for each persona,
+ * in the order anonymous, admin, the study's coordinator, another study's
+ * coordinator, an analyst of an enrolled lab, an analyst of another lab, the
+ * study's reviewer, another study's reviewer (product design, "Roles and what
+ * each may touch"). GET calls the loader; POST calls the action with an empty
+ * form, so 400 means "allowed in, and the input was checked". Out of scope is
+ * 404 (never 403); signed-out pages redirect to sign-in (302), the API says 401.
+ */
+import type { Persona } from "./personas";
+
+export type Method = "GET" | "POST";
+
+const row = (...statuses: number[]): Record<Persona, number> => {
+  const [anonymous, admin, coordinator, otherCoordinator, analyst, otherAnalyst, reviewer, otherReviewer] = statuses as [number, number, number, number, number, number, number, number];
+  return { anonymous, admin, coordinator, otherCoordinator, analyst, otherAnalyst, reviewer, otherReviewer };
+};
+
+export const EXPECTED: Record<string, Partial<Record<Method, Record<Persona, number>>>> = {
+  "": { GET: row(302, 302, 302, 302, 302, 302, 302, 302) },
+  "login": { GET: row(200, 302, 302, 302, 302, 302, 302, 302), POST: row(400, 400, 400, 400, 400, 400, 400, 400) },
+  "logout": { GET: row(302, 302, 302, 302, 302, 302, 302, 302), POST: row(302, 302, 302, 302, 302, 302, 302, 302) },
+  "account": { GET: row(302, 200, 200, 200, 200, 200, 200, 200), POST: row(302, 400, 400, 400, 400, 400, 400, 400) },
+  "studies": { GET: row(302, 200, 200, 200, 404, 404, 404, 404) },
+  "studies/new": { GET: row(302, 404, 200, 200, 404, 404, 404, 404), POST: row(302, 404, 400, 400, 404, 404, 404, 404) },
+  "studies/:studyId": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
+  "studies/:studyId/setup": { GET: row(302, 200, 200, 404, 404, 404, 200, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
+  "studies/:studyId/results": { GET: row(302, 200, 200, 404, 404, 404, 404, 404) },
+  "studies/:studyId/materials/:materialId": { GET: row(302, 200, 200, 404, 404, 404, 200, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
+  "studies/:studyId/labs": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
+  "studies/:studyId/shipments": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
+  "lab/studies/:studyId/receipt": { GET: row(302, 404, 404, 404, 200, 404, 404, 404), POST: row(302, 404, 404, 404, 400, 404, 404, 404) },
+  "api/v1/studies/:studyId/progress": { GET: row(302, 200, 200, 404, 200, 404, 404, 404) },
+  "invite/:token": { GET: row(404, 404, 404, 404, 404, 404, 404, 404), POST: row(404, 404, 404, 404, 404, 404, 404, 404) },
+  "dev/mailbox": { GET: row(302, 200, 200, 200, 404, 404, 404, 404) },
+  "dev/mailbox/:messageId": { GET: row(302, 200, 200, 200, 404, 404, 404, 404) },
+  "lab": { GET: row(302, 404, 404, 404, 200, 200, 404, 404) },
+  "lab/studies/:studyId": { GET: row(302, 404, 404, 404, 200, 404, 404, 404) },
+  "lab/studies/:studyId/results/:materialId": { GET: row(302, 404, 404, 404, 200, 404, 404, 404), POST: row(302, 404, 404, 404, 400, 404, 404, 404) },
+  "lab/studies/:studyId/batch/:materialId": { GET: row(302, 404, 404, 404, 200, 404, 404, 404), POST: row(302, 404, 404, 404, 400, 404, 404, 404) },
+  "lab/studies/:studyId/import": { GET: row(302, 404, 404, 404, 200, 404, 404, 404), POST: row(302, 404, 404, 404, 400, 404, 404, 404) },
+  "lab/queries": { GET: row(302, 404, 404, 404, 200, 200, 404, 404), POST: row(302, 404, 404, 404, 400, 400, 404, 404) },
+  "review": { GET: row(302, 404, 404, 404, 404, 404, 200, 200) },
+  "admin/users": { GET: row(302, 200, 404, 404, 404, 404, 404, 404), POST: row(302, 400, 404, 404, 404, 404, 404, 404) },
+  "admin/labs": { GET: row(302, 200, 404, 404, 404, 404, 404, 404), POST: row(302, 400, 404, 404, 404, 404, 404, 404) },
+  "files/:fileId": { GET: row(302, 200, 200, 404, 200, 404, 200, 404) },
+  "healthz": { GET: row(200, 200, 200, 200, 200, 200, 200, 200) },
+  "api/v1/healthz": { GET: row(200, 200, 200, 200, 200, 200, 200, 200) },
+  "api/v1/studies": { GET: row(401, 200, 200, 200, 200, 200, 200, 200) },
+  "api/v1/studies/:studyId": { GET: row(401, 200, 200, 404, 200, 404, 200, 404) },
+  "api/v1/studies/:studyId/results": { GET: row(401, 200, 200, 404, 404, 404, 200, 404) },
+  "api/v1/studies/:studyId/results.csv": { GET: row(401, 200, 200, 404, 404, 404, 200, 404) },
+  "api/v1/studies/:studyId/precision": { GET: row(401, 200, 200, 404, 404, 404, 200, 404) },
+  "api/v1/enrollments/:enrollmentId/results": { POST: row(401, 404, 404, 404, 400, 404, 404, 404) },
+  "studies/:studyId/queries": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
+  "studies/:studyId/statement": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
+  "studies/:studyId/report": { GET: row(302, 200, 200, 404, 404, 404, 200, 404) },
+  "review/:studyId": { GET: row(302, 404, 404, 404, 404, 404, 200, 404), POST: row(302, 404, 404, 404, 404, 404, 400, 404) },
+  "api/v1/studies/:studyId/what-if": { GET: row(401, 200, 200, 404, 404, 404, 404, 404) },
+  "studies/:studyId/analysis": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
+};

@@ -1,0 +1,129 @@
+/**
+ * Walks every route in app/routes.ts — pages, actions and API — as each kind
+ * of person, and compares the status with the expected matrix beside this
+ * test (access-matrix.expected.ts). A route without an entry fails the test,
+ * so a new route cannot ship without someone deciding who may reach it.
+ * On the way, every answer an analyst or a reviewer gets is checked for what
+ * they must never see: another lab's data or code, or any lab's name.
+ */
+import { and, eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
+import { cells, enrollments, labs, materials, results, studies } from "~/db/schema";
+import { composeEmail, sendEmail } from "~/lib/email.server";
+import { storeUpload } from "~/lib/uploads.server";
+import routeConfig from "~/routes";
+import { DEMO_LABS } from "../../seed/demo-data";
+import { useFreshDatabase } from "../support/database";
+import { call, type RouteOutcome } from "../support/routes";
+import { EXPECTED, type Method } from "./access-matrix.expected";
+import { recordFigure } from "./figures";
+import { type Persona, PERSONAS, seedPersonas } from "./personas";
+
+type RouteEntry = { path?: string; file: string; index?: boolean };
+
+const ORIGIN = "http://ringbatch.test";
+const PNG = Uint8Array.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 0]);
+
+let cookieFor: (persona: Persona) => Promise<string | undefined>;
+let params: Record<string, string>;
+let ownLabCode: string;
+/** Codes other labs hold in the study and the analyst's own lab holds in none. */
+let otherLabCodes: string[];
+
+beforeAll(async () => {
+  await useFreshDatabase();
+  ({ cookieFor } = await seedPersonas());
+  const study = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-B") }))!;
+  const material = (await db.query.materials.findFirst({ where: and(eq(materials.studyId, study.id), eq(materials.code, "F1")) }))!;
+  const studyEnrollments = await db
+    .select({ id: enrollments.id, code: enrollments.labCode, labName: labs.name, labId: labs.id })
+    .from(enrollments)
+    .innerJoin(labs, eq(labs.id, enrollments.labId))
+    .where(eq(enrollments.studyId, study.id));
+  const own = studyEnrollments.find((e) => e.labName === DEMO_LABS[0].name)!;
+  ownLabCode = own.code!;
+  const ownCodes = (await db.select({ code: enrollments.labCode }).from(enrollments).where(eq(enrollments.labId, own.labId))).map((e) => e.code);
+  otherLabCodes = studyEnrollments.filter((e) => e.id !== own.id && !ownCodes.includes(e.code)).map((e) => e.code!);
+  // A surface photo on one of the analyst's own results, for /files/:fileId.
+  const analyst = (await db.query.users.findFirst({ where: (u, { eq }) => eq(u.email, "analyst1@ringbatch.example") }))!;
+  const photo = await storeUpload(new File([PNG], "surface.png"), { allowed: ["image/png"], maxBytes: 1024, uploadedBy: analyst.id });
+  const [cell] = await db.select().from(cells).where(and(eq(cells.enrollmentId, own.id), eq(cells.materialId, material.id)));
+  await db.update(results).set({ photoAttachmentId: photo.id }).where(eq(results.cellId, cell!.id));
+  const message = await sendEmail(composeEmail({ to: "someone@ringbatch.example", subject: "Test", greeting: "Hello", paragraphs: ["Body"] }));
+  params = {
+    studyId: String(study.id),
+    materialId: String(material.id),
+    enrollmentId: String(own.id),
+    fileId: String(photo.id),
+    messageId: String(message.id),
+    token: "not-a-real-invitation-token",
+  };
+});
+
+function concretePath(pattern: string) {
+  return "/" + pattern.replace(/:(\w+)/g, (_, name: string) => {
+    if (!(name in params)) throw new Error(`No test value for route parameter :${name}`);
+    return params[name]!;
+  });
+}
+
+function routeParams(pattern: string) {
+  return Object.fromEntries([...pattern.matchAll(/:(\w+)/g)].map(([, name]) => [name!, params[name!]!]));
+}
+
+async function request(method: Method, path: string, persona: Persona) {
+  const headers: Record<string, string> = {};
+  const cookie = await cookieFor(persona);
+  if (cookie) headers.Cookie = cookie;
+  if (method === "GET") return new Request(ORIGIN + path, { headers });
+  // An empty form from the same site: enough to reach the guard and the input check.
+  headers["Content-Type"] = "application/x-www-form-urlencoded";
+  headers.Origin = ORIGIN;
+  return new Request(ORIGIN + path, { method: "POST", headers, body: "" });
+}
+
+async function bodyText(outcome: RouteOutcome) {
+  return JSON.stringify(outcome.data ?? "");
+}
+
+const routes = (routeConfig as RouteEntry[]).map((r) => ({ pattern: r.index ? "" : r.path!, file: r.file }));
+
+describe("access-control matrix", () => {
+  it("has an expected row for every route, and no row for a route that is gone", () => {
+    const patterns = routes.map((r) => r.pattern).sort();
+    expect(Object.keys(EXPECTED).sort()).toEqual(patterns);
+  });
+
+  it("answers every route, method and persona as the matrix says", async () => {
+    const observed: Record<string, Partial<Record<Method, Partial<Record<Persona, number>>>>> = {};
+    const leaks: string[] = [];
+    let checked = 0;
+    for (const route of routes) {
+      const module = await import(`../../app/${route.file}`);
+      const path = concretePath(route.pattern);
+      for (const method of ["GET", "POST"] as const) {
+        const handler = method === "GET" ? module.loader : module.action;
+        if (!handler) continue;
+        for (const persona of PERSONAS) {
+          const outcome = await call(handler, await request(method, path, persona), routeParams(route.pattern));
+          ((observed[route.pattern] ??= {})[method] ??= {})[persona] = outcome.status;
+          checked++;
+          if (outcome.status !== 200) continue;
+          const text = await bodyText(outcome);
+          if (persona === "analyst") {
+            for (const lab of DEMO_LABS.slice(1)) if (text.includes(lab.name)) leaks.push(`${method} ${path}: analyst sees lab name ${lab.name}`);
+            for (const code of otherLabCodes) if (new RegExp(`\\b${code}\\b`).test(text)) leaks.push(`${method} ${path}: analyst sees lab code ${code}`);
+          }
+          if (persona === "reviewer" || persona === "otherReviewer") {
+            for (const lab of DEMO_LABS) if (text.includes(lab.name)) leaks.push(`${method} ${path}: reviewer sees lab name ${lab.name}`);
+          }
+        }
+      }
+    }
+    recordFigure("access-matrix", "routesTimesRoles", checked);
+    expect(leaks).toEqual([]);
+    expect(observed).toEqual(EXPECTED);
+    expect(ownLabCode).toMatch(/^L\d\d$/);
+  });
+});
