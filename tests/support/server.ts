@@ -23,7 +23,7 @@ export type RunningServer = { url: string; databaseUrl: string; stop: () => Prom
 
 /** `databaseUrl` reuses a prepared database (still migrated and seeded, which is idempotent). */
 export async function startServer(extraEnv: Record<string, string> = {}, { databaseUrl }: { databaseUrl?: string } = {}): Promise<RunningServer> {
-  const serverBuild = join(process.env.BUILD_DIR ?? "build", "server/index.js");
+  const serverBuild = join(extraEnv.BUILD_DIR ?? process.env.BUILD_DIR ?? "build", "server/index.js");
   if (!existsSync(serverBuild)) throw new Error(`No build at ${serverBuild}: run \`npm run build\` before the browser tests.`);
   databaseUrl ??= `file:${join(mkdtempSync(join(tmpdir(), "ringbatch-e2e-")), "e2e.db")}`;
   const port = await freePort();
