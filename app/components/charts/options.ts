@@ -74,8 +74,13 @@ export function consistencyOption(analysis: StudyAnalysis, response: string, sta
   const points = labPoints(analysis, response);
   const critical = (g: GroupResult) =>
     g.status !== "computed" ? [] : statistic === "h" ? [g.hCritical, -g.hCritical] : [g.kCritical];
+  // The axis always reaches past the critical values, so their lines are drawn even when no bar comes near them.
+  const reach = Math.max(...points.map((p) => Math.abs(p.lab[statistic] ?? 0)), ...points.flatMap((p) => critical(p.group).map(Math.abs)), 1);
+  const bound = Math.ceil(reach * 1.1 * 2) / 2;
+  const axes = perLabAxes(points, statistic);
   return {
-    ...perLabAxes(points, statistic),
+    ...axes,
+    yAxis: { ...axes.yAxis, min: statistic === "h" ? -bound : 0, max: bound },
     series: [
       {
         type: "bar",
