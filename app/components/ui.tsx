@@ -142,7 +142,7 @@ export function Badge({ children, tone = "neutral" }: { children: ReactNode; ton
 /** A plain table with accessible headers; pages pass header labels and rows. */
 export function SimpleTable({ caption, headers, rows }: { caption: string; headers: string[]; rows: ReactNode[][] }) {
   return (
-    <div className="overflow-x-auto">
+    <div className="relative overflow-x-auto">
       <table className="w-full border-collapse text-left">
         <caption className="sr-only">{caption}</caption>
         <thead>

@@ -110,7 +110,12 @@ async function readLimited(request: Request) {
     }
     chunks.push(value);
   }
-  return new TextDecoder("utf-8", { fatal: false }).decode(Buffer.concat(chunks));
+  try {
+    return new TextDecoder("utf-8", { fatal: true }).decode(Buffer.concat(chunks));
+  } catch {
+    // Replacing bad bytes would store wrong characters without a word.
+    throw new ApiError(400, "malformed_json", "The request body is not UTF-8 text.");
+  }
 }
 
 /**
@@ -121,7 +126,14 @@ async function readLimited(request: Request) {
 export const API_RATE_LIMIT = { max: 600, windowMs: 60_000 };
 const windows = new Map<string, { start: number; count: number }>();
 
+/** `API_RATE_LIMIT_PER_MINUTE` overrides the limit (read on every request, so an operator or a test can change it). */
+export function apiRateLimitMax(env: NodeJS.ProcessEnv = process.env) {
+  const configured = Number(env.API_RATE_LIMIT_PER_MINUTE);
+  return Number.isSafeInteger(configured) && configured > 0 ? configured : API_RATE_LIMIT.max;
+}
+
 function enforceRateLimit(key: string) {
+  const max = apiRateLimitMax();
   const now = Date.now();
   const current = windows.get(key);
   if (!current || now - current.start >= API_RATE_LIMIT.windowMs) {
@@ -130,8 +142,8 @@ function enforceRateLimit(key: string) {
     return;
   }
   current.count += 1;
-  if (current.count > API_RATE_LIMIT.max) {
-    throw new ApiError(429, "rate_limited", `More than ${API_RATE_LIMIT.max} requests in a minute; wait and try again.`, {
+  if (current.count > max) {
+    throw new ApiError(429, "rate_limited", `More than ${max} requests in a minute; wait and try again.`, {
       retryAfterSeconds: Math.ceil((current.start + API_RATE_LIMIT.windowMs - now) / 1000),
     });
   }

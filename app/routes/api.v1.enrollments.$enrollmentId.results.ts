@@ -6,10 +6,11 @@ import { enrollments } from "~/db/schema";
 import { ApiError, apiHandler, notYours, readJsonBody, requireApiCaller } from "~/lib/api.server";
 import { importResults, ResultsError } from "~/models/results.server";
 
-const resultsBody = z.object({
+// Strict: a field the API does not know (a typo, `__proto__`) is refused rather than dropped.
+const resultsBody = z.strictObject({
   results: z
     .array(
-      z.object({
+      z.strictObject({
         material: z.string().min(1).max(40),
         response: z.string().min(1).max(40),
         replicate: z.number().int(),

@@ -19,6 +19,20 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 type ImportReply = { imported?: number; fileError?: string; fileProblems?: string[]; problems?: RowProblem[] };
 
+const SAVE_AS_UTF8 = "Save it from the spreadsheet as “CSV UTF-8” and choose it again.";
+
+/** The file's text, if it is UTF-8 (or plain ASCII) text; anything else would be read as the wrong characters. */
+function decodeCsvText(bytes: Uint8Array): { ok: true; text: string } | { ok: false; message: string } {
+  const utf16 = (bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff);
+  if (utf16) return { ok: false, message: `The file is UTF-16 text. ${SAVE_AS_UTF8}` };
+  if (bytes.includes(0)) return { ok: false, message: "This is not a CSV text file." };
+  try {
+    return { ok: true, text: new TextDecoder("utf-8", { fatal: true }).decode(bytes) };
+  } catch {
+    return { ok: false, message: `The file is not UTF-8 text (perhaps Latin-1 or another code page). ${SAVE_AS_UTF8}` };
+  }
+}
+
 const TOO_LARGE = `The file is larger than ${IMPORT_MAX_BYTES / 1024 / 1024} MB; split it into smaller files.`;
 
 export async function action({ request, params }: Route.ActionArgs): Promise<ImportReply | ReturnType<typeof data<ImportReply>>> {
@@ -31,10 +45,11 @@ export async function action({ request, params }: Route.ActionArgs): Promise<Imp
     throw error;
   }
   const file = form.get("file");
-  if (!(file instanceof File) || file.size === 0) return data({ fileError: "Choose a CSV file." }, { status: 400 });
-  const text = await file.text();
-  if (text.includes("\u0000")) return data({ fileError: "This is not a CSV text file." }, { status: 400 });
-  const parsed = parseImportCsv(text);
+  if (!(file instanceof File) || (file.size === 0 && file.name === "")) return data({ fileError: "Choose a CSV file." }, { status: 400 });
+  if (file.size === 0) return data({ fileError: "The file is empty." }, { status: 400 });
+  const text = decodeCsvText(new Uint8Array(await file.arrayBuffer()));
+  if (!text.ok) return data({ fileError: text.message }, { status: 400 });
+  const parsed = parseImportCsv(text.text);
   if (parsed.fileProblems.length > 0) return data({ fileProblems: parsed.fileProblems }, { status: 400 });
   try {
     const outcome = await importResults(enrollment!, parsed.rows, user, file.name);

@@ -319,7 +319,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
           {locked ? (
             <SubmittedResults responses={responses} replicates={replicates} values={loaderData.submittedValues} reply={reply} editable={editable} photos={photos} />
           ) : (
-            <div className="overflow-x-auto">
+            <div className="relative overflow-x-auto">
               <table className="w-full border-collapse text-left">
                 <caption className="sr-only">Replicate results of {material.code}</caption>
                 <thead>

@@ -5,7 +5,7 @@
  * spreadsheet shows them, so a problem can be found in the file.
  */
 import Papa from "papaparse";
-import type { ResultInputRow } from "./rows";
+import { type ResultInputRow, shorten } from "./rows";
 
 export const REQUIRED_COLUMNS = ["material", "response", "replicate", "value"] as const;
 export const OPTIONAL_COLUMNS = ["tested_on", "operator"] as const;
@@ -24,6 +24,8 @@ export function recordsToRows(records: string[][]): ParsedImport {
   if (missing.length > 0) {
     return { rows: [], fileProblems: [`The header row has no ${missing.map((c) => `“${c}”`).join(", ")} column (needed: ${REQUIRED_COLUMNS.join(",")}; optional: ${OPTIONAL_COLUMNS.join(",")}).`] };
   }
+  const headerProblem = checkHeaderNames(header);
+  if (headerProblem) return { rows: [], fileProblems: [headerProblem] };
   const column = (name: string) => header.indexOf(name);
   const rows: ResultInputRow[] = [];
   const fileProblems: string[] = [];
@@ -34,10 +36,28 @@ export function recordsToRows(records: string[][]): ParsedImport {
       fileProblems.push(`Row ${row} has ${record.length} fields where the header has ${header.length}.`);
       return;
     }
+    // Spreadsheets often add unnamed empty columns; a value under one would be lost without a word.
+    const unnamed = record.findIndex((field, i) => header[i] === "" && field.trim() !== "");
+    if (unnamed >= 0) {
+      fileProblems.push(`Row ${row} has a value in column ${unnamed + 1}, which has no name in the header row.`);
+      return;
+    }
     const field = (name: string) => (column(name) < 0 ? undefined : record[column(name)]!.trim());
     rows.push({ row, material: field("material")!, response: field("response")!, replicate: field("replicate")!, value: field("value")!, testedOn: field("tested_on") ?? null, operator: field("operator") ?? null });
   });
   return { rows, fileProblems };
+}
+
+const KNOWN_COLUMNS: readonly string[] = [...REQUIRED_COLUMNS, ...OPTIONAL_COLUMNS];
+
+/** A column named twice is ambiguous, and one the import does not read would be dropped silently: both are refused. */
+function checkHeaderNames(header: string[]) {
+  const twice = header.find((name, i) => name !== "" && header.indexOf(name) !== i);
+  if (twice) return `The header row names the “${twice}” column twice.`;
+  const unknown = [...new Set(header.filter((name) => name !== "" && !KNOWN_COLUMNS.includes(name)))];
+  if (unknown.length === 0) return null;
+  const shown = unknown.slice(0, 5).map((name) => `“${shorten(name)}”`).join(", ");
+  return `The header row has ${unknown.length === 1 ? "a column" : `${unknown.length} columns`} the import does not read: ${shown}${unknown.length > 5 ? ", …" : ""} (it reads ${KNOWN_COLUMNS.join(",")}). Remove ${unknown.length === 1 ? "it" : "them"} or rename.`;
 }
 
 /** Parses the whole text at once (the server's way). */

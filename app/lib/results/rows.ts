@@ -45,6 +45,16 @@ export type RowFrame = {
 
 export const cellKey = (materialId: number, responseId: number) => `${materialId}:${responseId}`;
 
+/** Text of the input quoted back in a message, cut short so a huge cell does not make a huge message. */
+export function shorten(text: string, max = 40) {
+  return text.length > max ? `${text.slice(0, max)}…` : text;
+}
+
+// A replicate typed in a file is plain digits: "0x2", "1e0" or "+1" are not replicate numbers.
+const REPLICATE_DIGITS = /^\d{1,6}$/;
+// A spreadsheet runs a cell that starts with one of these as a formula (OWASP "CSV injection").
+const FORMULA_START = /^[=+\-@]/;
+
 /** Each row resolved to the study's ids, or named with its problem; a row with a problem is not resolved. */
 export function resolveResultRows(frame: RowFrame, rows: ResultInputRow[], { valueRequired }: { valueRequired: boolean }) {
   const problems: RowProblem[] = [];
@@ -59,9 +69,10 @@ export function resolveResultRows(frame: RowFrame, rows: ResultInputRow[], { val
     const responseKey = String(input.response ?? "").trim();
     const material = frame.materials.find((m) => m.code.toLowerCase() === materialCode.toLowerCase());
     const response = frame.responses.find((r) => r.key.toLowerCase() === responseKey.toLowerCase());
-    if (!material) return problem("material", `The study has no material “${materialCode}” (it has ${materialCodes}).`);
-    if (!response) return problem("response", `The study has no response “${responseKey}” (it has ${responseKeys}).`);
-    const replicate = Number(String(input.replicate).trim());
+    if (!material) return problem("material", `The study has no material “${shorten(materialCode)}” (it has ${materialCodes}).`);
+    if (!response) return problem("response", `The study has no response “${shorten(responseKey)}” (it has ${responseKeys}).`);
+    const replicateText = String(input.replicate).trim();
+    const replicate = typeof input.replicate === "number" || REPLICATE_DIGITS.test(replicateText) ? Number(replicateText) : Number.NaN;
     if (!Number.isInteger(replicate) || replicate < 1 || replicate > frame.replicatesPerCell) {
       return problem("replicate", `Replicate must be a whole number from 1 to ${frame.replicatesPerCell}.`);
     }
@@ -79,6 +90,7 @@ export function resolveResultRows(frame: RowFrame, rows: ResultInputRow[], { val
     if (!date.ok) return problem("tested_on", date.message);
     const operator = String(input.operator ?? "").trim();
     if (operator.length > 120) return problem("operator", "Keep the operator's name to 120 characters or fewer.");
+    if (FORMULA_START.test(operator)) return problem("operator", "An operator's name cannot start with =, +, - or @ (a spreadsheet would run it as a formula).");
     resolved.push({
       row,
       materialId: material.id,
