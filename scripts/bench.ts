@@ -132,7 +132,11 @@ try {
   await server.stop();
 }
 
-/** Gzipped JavaScript each route loads up front (entry, root, route module and their imports), from the build's route manifest. */
+/**
+ * Gzipped JavaScript each route loads up front (entry, root, route module and
+ * their imports), from the build's route manifest, and whether the page can
+ * load the charting library (statically, or through a lazy import of its chunk).
+ */
 function javascriptPerPage() {
   const assets = join(BUILD_DIR, "client");
   const manifestFile = readdirSync(join(assets, "assets")).find((f) => /^manifest-.*\.js$/.test(f))!;
@@ -141,21 +145,21 @@ function javascriptPerPage() {
     entry: { module: string; imports: string[] };
     routes: Record<string, { module: string; imports?: string[] }>;
   };
-  const sizeOf = new Map<string, { gzip: number; charts: boolean }>();
-  const measure = (file: string) => {
-    if (!sizeOf.has(file)) {
-      const content = readFileSync(join(assets, file));
-      // echarts' renderer registers under this name; no other bundled code carries it.
-      sizeOf.set(file, { gzip: gzipSync(content).length, charts: content.includes("zrender") });
-    }
-    return sizeOf.get(file)!;
-  };
+  const content = (file: string) => readFileSync(join(assets, file));
+  // echarts' renderer library is bundled into the chart chunk; no other code carries its name.
+  const chartChunks = readdirSync(join(assets, "assets"))
+    .filter((f) => f.endsWith(".js") && content(`assets/${f}`).includes("zrender"))
+    .map((f) => `assets/${f}`);
+  const lazyChartLoaders = readdirSync(join(assets, "assets"))
+    .filter((f) => f.endsWith(".js") && chartChunks.some((chunk) => content(`assets/${f}`).includes(chunk.slice("assets/".length))))
+    .map((f) => f);
   const root = manifest.routes.root!;
   return Object.entries(manifest.routes)
     .filter(([id]) => id !== "root")
     .map(([id, route]) => {
-      const files = new Set([manifest.entry.module, ...manifest.entry.imports, root.module, ...(root.imports ?? []), route.module, ...(route.imports ?? [])]);
-      const measured = [...files].map(measure);
-      return { route: id, gzipBytes: measured.reduce((sum, m) => sum + m.gzip, 0), charts: measured.some((m) => m.charts) };
+      const files = [...new Set([manifest.entry.module, ...manifest.entry.imports, root.module, ...(root.imports ?? []), route.module, ...(route.imports ?? [])])];
+      const gzipBytes = files.reduce((sum, file) => sum + gzipSync(content(file.replace(/^\//, ""))).length, 0);
+      const charts = files.some((file) => chartChunks.includes(file.replace(/^\//, "")) || lazyChartLoaders.some((loader) => file.endsWith(loader)));
+      return { route: id, gzipBytes, charts };
     });
 }

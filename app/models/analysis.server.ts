@@ -64,30 +64,45 @@ export async function excludedCells(studyId: number): Promise<ExcludedCell[]> {
   return rows.map((r) => ({ ...r, lab: r.lab ?? "—" }));
 }
 
-// Analyses are pure functions of (data version, alpha, exclusions): cache them by that key.
-// A stale entry can never be served, because any change of results or decisions bumps data_version.
-const cache = new Map<string, StudyAnalysis>();
+// Analyses are pure functions of (data version, alpha, exclusions): cache them by that key, with
+// their JSON. A stale entry can never be served: any change of results or decisions bumps data_version,
+// so the saved decisions need no lookup on a hit.
+type CachedAnalysis = { analysis: StudyAnalysis; json?: string };
+const cache = new Map<string, CachedAnalysis>();
 const CACHE_LIMIT = 50;
 
-/**
- * The precision analysis of a study's submitted results with its decisions
- * applied, or with `exclusions` instead (a what-if before a decision is saved).
- */
-export async function studyAnalysis(study: Study, options: { alpha?: number; exclusions?: ExcludedCell[] } = {}) {
+async function cachedAnalysis(study: Study, options: { alpha?: number; exclusions?: ExcludedCell[] }) {
   const alpha = options.alpha ?? study.significanceLevel;
-  const exclusions = options.exclusions ?? (await excludedCells(study.id));
-  const key = JSON.stringify([study.id, study.dataVersion, alpha, exclusions.map((e) => [e.lab, e.material, e.response])]);
+  const whatIf = options.exclusions?.map((e) => [e.lab, e.material, e.response]) ?? "saved";
+  const key = JSON.stringify([study.id, study.dataVersion, alpha, whatIf]);
   const hit = cache.get(key);
   if (hit) return hit;
-  const [rows, kinds] = await Promise.all([
+  const [rows, kinds, exclusions] = await Promise.all([
     studyResultRows(study.id, { submittedOnly: true }),
     db.select({ key: responses.key, kind: responses.kind }).from(responses).where(eq(responses.studyId, study.id)),
+    options.exclusions ?? excludedCells(study.id),
   ]);
   const analysis = analyzeStudy(
     rows.map((r) => ({ lab: r.labCode, material: r.material, response: r.response, replicate: r.replicate, value: r.value })),
     { alpha, excludedCells: exclusions, responseKinds: Object.fromEntries(kinds.map((k) => [k.key, k.kind])) },
   );
   if (cache.size >= CACHE_LIMIT) cache.delete(cache.keys().next().value!);
-  cache.set(key, analysis);
-  return analysis;
+  const entry: CachedAnalysis = { analysis };
+  cache.set(key, entry);
+  return entry;
+}
+
+/**
+ * The precision analysis of a study's submitted results with its decisions
+ * applied, or with `exclusions` instead (a what-if before a decision is saved).
+ */
+export async function studyAnalysis(study: Study, options: { alpha?: number; exclusions?: ExcludedCell[] } = {}) {
+  return (await cachedAnalysis(study, options)).analysis;
+}
+
+/** The same analysis as JSON text, serialised once per cache entry (the API sends it as is). */
+export async function studyAnalysisJson(study: Study, options: { alpha?: number; exclusions?: ExcludedCell[] } = {}) {
+  const entry = await cachedAnalysis(study, options);
+  entry.json ??= JSON.stringify(entry.analysis);
+  return entry.json;
 }

@@ -103,7 +103,8 @@ export async function decisionHistory(studyId: number) {
 }
 
 /** The replicate values and surface photos of each submitted cell, by lab code only, to show beside a flag. */
-export async function cellEvidence(studyId: number) {
+/** The submitted results (and their surface photos) of one lab × material × response cell. */
+export async function cellEvidence(studyId: number, cell: { lab: string; material: string; response: string }) {
   const rows = await db
     .select({
       lab: enrollments.labCode,
@@ -118,7 +119,15 @@ export async function cellEvidence(studyId: number) {
     .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
     .innerJoin(materials, eq(materials.id, cells.materialId))
     .innerJoin(responses, eq(responses.id, cells.responseId))
-    .where(and(eq(enrollments.studyId, studyId), eq(cells.status, "submitted")))
-    .orderBy(asc(enrollments.labCode), asc(materials.sortOrder), asc(responses.sortOrder), asc(results.replicate));
+    .where(
+      and(
+        eq(enrollments.studyId, studyId),
+        eq(cells.status, "submitted"),
+        eq(enrollments.labCode, cell.lab),
+        eq(materials.code, cell.material),
+        eq(responses.key, cell.response),
+      ),
+    )
+    .orderBy(asc(results.replicate));
   return rows.map((r) => ({ ...r, lab: r.lab ?? "—" }));
 }

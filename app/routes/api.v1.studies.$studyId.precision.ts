@@ -1,7 +1,7 @@
 import type { Route } from "./+types/api.v1.studies.$studyId.precision";
 import { ApiError, apiHandler, requireApiStudyAccess } from "~/lib/api.server";
 import { isSignificanceLevel } from "~/lib/precision";
-import { studyAnalysis } from "~/models/analysis.server";
+import { studyAnalysisJson } from "~/models/analysis.server";
 
 /**
  * GET /api/v1/studies/:studyId/precision[?alpha=0.01] — the precision engine's
@@ -16,6 +16,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     if (alpha !== undefined && !isSignificanceLevel(alpha)) {
       throw new ApiError(422, "invalid_alpha", "alpha must be 0.005, 0.01 or 0.05.");
     }
-    return Response.json(await studyAnalysis(study, { alpha }));
+    return new Response(await studyAnalysisJson(study, { alpha }), { headers: { "Content-Type": "application/json" } });
   });
 }

@@ -33,15 +33,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const url = new URL(request.url);
   const alphaParam = Number(url.searchParams.get("alpha"));
   const alpha = isSignificanceLevel(alphaParam) ? alphaParam : study.significanceLevel;
+  const cell = selectedCell(url);
   const [analysis, design, decisions, history, queries, evidence] = await Promise.all([
     studyAnalysis(study, { alpha }),
     studyDesign(study.id),
     listCellDecisions(study.id),
     decisionHistory(study.id),
     listStudyQueries(study.id),
-    cellEvidence(study.id),
+    cell ? cellEvidence(study.id, cell) : [],
   ]);
-  const cell = selectedCell(url);
   return {
     study: { id: study.id, code: study.code, title: study.title, state: study.state, dataVersion: study.dataVersion },
     alpha,
@@ -52,7 +52,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     queries: queries.map(({ labName: _labName, ...q }) => q),
     flagged: flaggedCells(analysis),
     cell,
-    cellEvidence: cell ? evidence.filter((e) => sameCell(e, cell)) : [],
+    cellEvidence: evidence,
     decisionRefusal: decisionRefusal(study.state),
     queryRefusal: queryRefusal(study.state),
   };
