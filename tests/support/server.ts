@@ -31,9 +31,11 @@ export async function startServer(extraEnv: Record<string, string> = {}, { datab
   const setup = spawnSync("node_modules/.bin/tsx", ["scripts/db-setup.ts"], { env, encoding: "utf8" });
   if (setup.status !== 0) throw new Error(`Seeding failed: ${setup.stderr}`);
   const child: ChildProcess = spawn("node_modules/.bin/react-router-serve", [serverBuild], { env, stdio: ["ignore", "pipe", "pipe"] });
+  // Keep the tail of the server's log for error messages; the server logs every request.
   let output = "";
-  child.stdout!.on("data", (chunk) => (output += chunk));
-  child.stderr!.on("data", (chunk) => (output += chunk));
+  const keep = (chunk: Buffer) => (output = (output + chunk).slice(-20_000));
+  child.stdout!.on("data", keep);
+  child.stderr!.on("data", keep);
   const url = `http://localhost:${port}`;
   const deadline = Date.now() + 20_000;
   while (true) {
