@@ -147,7 +147,7 @@ export const FLOAT_FINISHING_RESPONSES = [
 ];
 
 /** Small deterministic generator (mulberry32) so the demo is the same on every machine. */
-function generator(seed: number) {
+export function generator(seed: number) {
   let state = seed >>> 0;
   return () => {
     state = (state + 0x6d2b79f5) >>> 0;
