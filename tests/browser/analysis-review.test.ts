@@ -1,31 +1,21 @@
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { DEMO_LABS, DEMO_PASSWORD } from "../../seed/demo-data";
-import { expectAccessible, launchBrowser, signInAs } from "../support/browser";
-import { type RunningServer, startServer } from "../support/server";
+import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
 
-let server: RunningServer;
-let browser: Browser;
+const running = useServerAndBrowser();
 const STUDY = 1; // FF-2026-A, the seeded study in checking
 
-beforeAll(async () => {
-  [server, browser] = await Promise.all([startServer(), launchBrowser()]);
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
 
 async function as(email: string) {
-  const page = await (await browser.newContext()).newPage();
-  await signInAs(page, server.url, email, DEMO_PASSWORD);
+  const page = await (await running.browser.newContext()).newPage();
+  await signInAs(page, running.server.url, email, DEMO_PASSWORD);
   await page.waitForURL((url) => url.pathname !== "/login");
   return page;
 }
 
 async function visit(page: Page, path: string) {
-  const response = await page.goto(server.url + path);
+  const response = await page.goto(running.server.url + path);
   expect(response?.status(), path).toBe(200);
   await expectAccessible(page);
 }
@@ -60,7 +50,7 @@ describe("from the checking study to a published statement, in the browser", () 
     await analyst.getByText("Answer sent to the coordinator.").waitFor();
 
     // The coordinator sees the answer, previews the exclusion, and saves it with a reason.
-    await coordinator.goto(`${server.url}/studies/${STUDY}/analysis?cell=L08:M2:surface#investigate`);
+    await coordinator.goto(`${running.server.url}/studies/${STUDY}/analysis?cell=L08:M2:surface#investigate`);
     await coordinator.getByText("Our operator counted the surface passes twice").waitFor();
     const sRBefore = await coordinator.getByRole("table", { name: "Precision statistics of Passes to reach the target surface by material" }).getByRole("row").filter({ hasText: "M2" }).textContent();
     await coordinator.getByLabel("Exclude the cell").check();
@@ -113,7 +103,7 @@ describe("from the checking study to a published statement, in the browser", () 
     // Every reviewer approves; the others see the answer first, then the objector changes their vote.
     for (const email of ["reviewer2@ringbatch.example", "reviewer3@ringbatch.example", "reviewer1@ringbatch.example"]) {
       const reviewer = email === "reviewer1@ringbatch.example" ? reviewer1 : await as(email);
-      await reviewer.goto(`${server.url}/review/${STUDY}`);
+      await reviewer.goto(`${running.server.url}/review/${STUDY}`);
       if (email !== "reviewer1@ringbatch.example") await reviewer.getByText(/not upheld/).first().waitFor();
       await reviewer.getByLabel("Approve").check();
       await reviewer.getByRole("button", { name: "Record my vote" }).click();
@@ -131,7 +121,7 @@ describe("from the checking study to a published statement, in the browser", () 
       const body = new URLSearchParams({ intent: "decide", lab: "L01", material: "M3", response: "holes", decision: "excluded", reason: "Trying after publication." });
       const res = await fetch(`${url}.data`, { method: "POST", body, headers: { "Content-Type": "application/x-www-form-urlencoded" } });
       return res.status;
-    }, `${server.url}/studies/${STUDY}/analysis`);
+    }, `${running.server.url}/studies/${STUDY}/analysis`);
     expect(forged).toBe(409);
     await visit(coordinator, `/studies/${STUDY}/report`);
     await coordinator.getByRole("table", { name: "Labs that contributed results" }).getByText(DEMO_LABS[0].name).waitFor();

@@ -1,26 +1,15 @@
 import { createClient } from "@libsql/client";
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { DEMO_PASSWORD } from "../../seed/demo-data";
-import { expectAccessible, launchBrowser, signInAs } from "../support/browser";
-import { type RunningServer, startServer } from "../support/server";
+import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
 
-let server: RunningServer;
-let browser: Browser;
-
-beforeAll(async () => {
-  [server, browser] = await Promise.all([startServer(), launchBrowser()]);
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const running = useServerAndBrowser();
 
 async function signedIn(email: string, password = DEMO_PASSWORD) {
-  const context = await browser.newContext();
+  const context = await running.browser.newContext();
   const page = await context.newPage();
-  await signInAs(page, server.url, email, password);
+  await signInAs(page, running.server.url, email, password);
   await page.waitForURL((url) => url.pathname !== "/login");
   return page;
 }
@@ -29,7 +18,7 @@ const heading = (page: Page) => page.getByRole("heading", { level: 1 }).textCont
 
 /** The invitation link of the newest message to an address, read from the mailbox as the coordinator would. */
 async function invitationLink(coordinator: Page, to: string) {
-  await coordinator.goto(`${server.url}/dev/mailbox`);
+  await coordinator.goto(`${running.server.url}/dev/mailbox`);
   await coordinator.getByRole("row", { name: new RegExp(to) }).getByRole("link").first().click();
   await coordinator.waitForURL(/\/dev\/mailbox\/\d+$/);
   return (await coordinator.getByRole("link", { name: /\/invite\// }).getAttribute("href"))!;
@@ -39,7 +28,7 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
   it("creates a study from the template, adds a material, invites a lab, ships, and sees the lab's receipt", async () => {
     // The administrator adds a lab whose contact has no account yet.
     const admin = await signedIn("admin@ringbatch.example");
-    await admin.goto(`${server.url}/admin/labs`);
+    await admin.goto(`${running.server.url}/admin/labs`);
     await admin.getByLabel("Name", { exact: true }).fill("Marrowby Field Lab");
     await admin.getByLabel("Contact name").fill("Lena Marrowby");
     await admin.getByLabel("Contact e-mail").fill("lena@marrowby.example");
@@ -48,7 +37,7 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
 
     const coordinator = await signedIn("coordinator@ringbatch.example");
     await coordinator.getByRole("link", { name: "New study" }).click();
-    await coordinator.waitForURL(`${server.url}/studies/new`);
+    await coordinator.waitForURL(`${running.server.url}/studies/new`);
     await expectAccessible(coordinator);
     await coordinator.getByLabel("Study code").fill("FF-2027-E");
     await coordinator.getByLabel("Title").fill("Finishability of a slag paving mix");
@@ -88,23 +77,23 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
     await coordinator.getByRole("button", { name: "Save mixture design" }).click();
     await expect.poll(() => coordinator.getByRole("status").first().textContent()).toContain("Mixture design saved.");
 
-    await coordinator.goto(`${server.url}/studies/${studyId}/setup`);
+    await coordinator.goto(`${running.server.url}/studies/${studyId}/setup`);
     await coordinator.getByRole("button", { name: "Open recruiting" }).click();
     await expect.poll(() => coordinator.getByText("The study is now: Recruiting labs.").count()).toBe(1);
     await coordinator.getByRole("link", { name: "Labs", exact: true }).click();
-    await coordinator.waitForURL(`${server.url}/studies/${studyId}/labs`);
+    await coordinator.waitForURL(`${running.server.url}/studies/${studyId}/labs`);
     await expectAccessible(coordinator);
     await coordinator.getByLabel("Filter labs").fill("Marrowby");
     await coordinator.getByRole("button", { name: "Invite Marrowby Field Lab" }).click();
     await expect.poll(() => coordinator.getByText("Invitation sent to the lab's contact.").count()).toBe(1);
 
-    await coordinator.goto(`${server.url}/dev/mailbox`);
+    await coordinator.goto(`${running.server.url}/dev/mailbox`);
     await expectAccessible(coordinator);
     const link = await invitationLink(coordinator, "lena@marrowby.example");
     await expectAccessible(coordinator);
 
     // The new contact opens the link signed out, sets a password and accepts.
-    const analystContext = await browser.newContext();
+    const analystContext = await running.browser.newContext();
     const analyst = await analystContext.newPage();
     await analyst.goto(link);
     await expect.poll(() => heading(analyst)).toBe("Invitation to FF-2027-E");
@@ -113,15 +102,15 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
     await analyst.getByLabel("New password").fill("marrowby-field-2027");
     await analyst.getByLabel("Repeat the password").fill("marrowby-field-2027");
     await analyst.getByRole("button", { name: "Set password and accept" }).click();
-    await analyst.waitForURL(`${server.url}/lab`);
+    await analyst.waitForURL(`${running.server.url}/lab`);
 
     // The used link is refused.
-    const replay = await (await browser.newContext()).newPage();
+    const replay = await (await running.browser.newContext()).newPage();
     await replay.goto(link);
     await expect.poll(() => heading(replay)).toBe("This invitation has already been used");
     await expectAccessible(replay);
 
-    await coordinator.goto(`${server.url}/studies/${studyId}/shipments`);
+    await coordinator.goto(`${running.server.url}/studies/${studyId}/shipments`);
     await expectAccessible(coordinator);
     await coordinator.getByLabel("Carrier", { exact: true }).first().fill("Kestrel Freight");
     await coordinator.getByRole("button", { name: "Prepare shipment" }).click();
@@ -130,14 +119,14 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
     await coordinator.getByRole("button", { name: "Mark shipped" }).click();
     await expect.poll(() => coordinator.getByText("Marked shipped; the lab has been e-mailed.").count()).toBe(1);
 
-    await analyst.goto(`${server.url}/lab/studies/${studyId}/receipt`);
+    await analyst.goto(`${running.server.url}/lab/studies/${studyId}/receipt`);
     await expectAccessible(analyst);
     await analyst.getByLabel(/Damaged/).check();
     await analyst.getByLabel("Notes").fill("One cement bag split open in transit.");
     await analyst.getByRole("button", { name: "Confirm receipt" }).click();
     await expect.poll(() => analyst.getByText("Receipt confirmed. Thank you.").count()).toBe(1);
 
-    await coordinator.goto(`${server.url}/studies/${studyId}`);
+    await coordinator.goto(`${running.server.url}/studies/${studyId}`);
     await expect.poll(() => coordinator.getByRole("alert").textContent()).toContain("arrived damaged");
     await expect.poll(() => coordinator.getByRole("alert").textContent()).toContain("One cement bag split open in transit.");
     await expect.poll(() => coordinator.getByRole("cell", { name: "Marrowby Field Lab" }).count()).toBe(1);
@@ -146,14 +135,14 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
 
   it("refuses an expired link and a link opened for another study", async () => {
     const coordinator = await signedIn("coordinator@ringbatch.example");
-    await coordinator.goto(`${server.url}/studies`);
+    await coordinator.goto(`${running.server.url}/studies`);
     const studyHref = (await coordinator.getByRole("link", { name: "FF-2027-E" }).getAttribute("href"))!;
-    await coordinator.goto(`${server.url}${studyHref}/labs`);
+    await coordinator.goto(`${running.server.url}${studyHref}/labs`);
     await coordinator.getByRole("button", { name: "Invite Tessel Ready-Mix QC" }).click();
     await expect.poll(() => coordinator.getByText("Invitation sent to the lab's contact.").count()).toBe(1);
     const link = new URL(await invitationLink(coordinator, "analyst2@ringbatch.example"));
 
-    const visitor = await (await browser.newContext()).newPage();
+    const visitor = await (await running.browser.newContext()).newPage();
     const otherStudy = new URL(link);
     otherStudy.searchParams.set("study", "1");
     const response = await visitor.goto(otherStudy.toString());
@@ -162,7 +151,7 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
     await expectAccessible(visitor);
 
     // Age the invitation past its 14 days, straight in the server's database.
-    const database = createClient({ url: server.databaseUrl });
+    const database = createClient({ url: running.server.databaseUrl });
     await database.execute("UPDATE invitations SET expires_at = 0 WHERE used_at IS NULL");
     database.close();
     const expired = await visitor.goto(link.toString());

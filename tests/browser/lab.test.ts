@@ -1,29 +1,18 @@
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { DEMO_PASSWORD } from "../../seed/demo-data";
-import { expectAccessible, launchBrowser, signInAs } from "../support/browser";
-import { type RunningServer, startServer } from "../support/server";
+import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
 
-let server: RunningServer;
-let browser: Browser;
-
-beforeAll(async () => {
-  [server, browser] = await Promise.all([startServer(), launchBrowser()]);
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const running = useServerAndBrowser();
 
 const saveState = (page: Page) => page.getByTestId("save-state").textContent();
 
 describe("an analyst's day in the lab, in the browser", () => {
   it("batches F1, records and submits its results, amends one, and the coordinator sees the amendment", async () => {
-    const context = await browser.newContext();
+    const context = await running.browser.newContext();
     const page = await context.newPage();
-    await signInAs(page, server.url, "analyst5@ringbatch.example", DEMO_PASSWORD); // lab index 4: a draft of F1 in FF-2026-B
-    await page.waitForURL(`${server.url}/lab`);
+    await signInAs(page, running.server.url, "analyst5@ringbatch.example", DEMO_PASSWORD); // lab index 4: a draft of F1 in FF-2026-B
+    await page.waitForURL(`${running.server.url}/lab`);
     await expectAccessible(page);
 
     await page.getByRole("link", { name: "FF-2026-B" }).click();
@@ -85,12 +74,12 @@ describe("an analyst's day in the lab, in the browser", () => {
     await expectAccessible(page);
     await context.close();
 
-    const coordinatorContext = await browser.newContext();
+    const coordinatorContext = await running.browser.newContext();
     const coordinator = await coordinatorContext.newPage();
-    await signInAs(coordinator, server.url, "coordinator@ringbatch.example", DEMO_PASSWORD);
-    await coordinator.waitForURL(`${server.url}/studies`);
+    await signInAs(coordinator, running.server.url, "coordinator@ringbatch.example", DEMO_PASSWORD);
+    await coordinator.waitForURL(`${running.server.url}/studies`);
     const studyPath = new URL(studyUrl).pathname.replace("/lab", "");
-    await coordinator.goto(`${server.url}${studyPath}/results`);
+    await coordinator.goto(`${running.server.url}${studyPath}/results`);
     const trail = coordinator.getByRole("table", { name: "Audit trail of the study" });
     await expect.poll(() => trail.textContent()).toContain("Result amended");
     expect(await trail.textContent()).toContain("Recount from the video of specimen 1");
@@ -100,17 +89,17 @@ describe("an analyst's day in the lab, in the browser", () => {
   });
 
   it("shows the import and queries pages accessibly", async () => {
-    const context = await browser.newContext();
+    const context = await running.browser.newContext();
     const page = await context.newPage();
-    await signInAs(page, server.url, "analyst1@ringbatch.example", DEMO_PASSWORD);
-    await page.waitForURL(`${server.url}/lab`);
+    await signInAs(page, running.server.url, "analyst1@ringbatch.example", DEMO_PASSWORD);
+    await page.waitForURL(`${running.server.url}/lab`);
     await page.getByRole("link", { name: "Queries to your lab" }).click();
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Queries");
     await expectAccessible(page);
     await page.getByLabel("Your answer").fill("Same operator, all within ten minutes; the counts stand.");
     await page.getByRole("button", { name: "Send answer" }).click();
     await expect.poll(() => page.getByText("Answer sent to the coordinator.").count()).toBe(1);
-    await page.goto(`${server.url}/lab`);
+    await page.goto(`${running.server.url}/lab`);
     await page.getByRole("link", { name: "FF-2026-B" }).click();
     await page.getByRole("link", { name: "Import results from CSV" }).click();
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Import results from CSV");

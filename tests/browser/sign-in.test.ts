@@ -1,20 +1,8 @@
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import { DEMO_PASSWORD } from "../../seed/demo-data";
-import { expectAccessible, launchBrowser, signInAs } from "../support/browser";
-import { type RunningServer, startServer } from "../support/server";
+import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
 
-let server: RunningServer;
-let browser: Browser;
-
-beforeAll(async () => {
-  [server, browser] = await Promise.all([startServer(), launchBrowser()]);
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const running = useServerAndBrowser();
 
 const HOMES = [
   { email: "admin@ringbatch.example", path: "/admin/users", heading: "Users", more: ["/admin/labs", "/studies", "/account"] },
@@ -25,9 +13,9 @@ const HOMES = [
 
 describe("signing in, in the browser", () => {
   it("shows the sign-in page accessibly", async () => {
-    const context = await browser.newContext();
+    const context = await running.browser.newContext();
     const page = await context.newPage();
-    await page.goto(server.url);
+    await page.goto(running.server.url);
     expect(new URL(page.url()).pathname).toBe("/login");
     await expectAccessible(page);
     await context.close();
@@ -35,14 +23,14 @@ describe("signing in, in the browser", () => {
 
   for (const home of HOMES) {
     it(`lands ${home.email} on ${home.path}, and every page reached is accessible`, async () => {
-      const context = await browser.newContext();
+      const context = await running.browser.newContext();
       const page = await context.newPage();
-      await signInAs(page, server.url, home.email, DEMO_PASSWORD);
-      await page.waitForURL(`${server.url}${home.path}`);
+      await signInAs(page, running.server.url, home.email, DEMO_PASSWORD);
+      await page.waitForURL(`${running.server.url}${home.path}`);
       await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe(home.heading);
       await expectAccessible(page);
       for (const path of home.more) {
-        const response = await page.goto(server.url + path);
+        const response = await page.goto(running.server.url + path);
         expect(response?.status(), path).toBe(200);
         await expectAccessible(page);
       }
@@ -51,9 +39,9 @@ describe("signing in, in the browser", () => {
   }
 
   it("shows the generic error for a wrong password, beside the form", async () => {
-    const context = await browser.newContext();
+    const context = await running.browser.newContext();
     const page = await context.newPage();
-    await signInAs(page, server.url, "coordinator@ringbatch.example", "not-the-password");
+    await signInAs(page, running.server.url, "coordinator@ringbatch.example", "not-the-password");
     await expect.poll(() => page.getByRole("alert").textContent()).toBe("That e-mail and password do not match an active account.");
     expect(new URL(page.url()).pathname).toBe("/login");
     await expectAccessible(page);
@@ -61,27 +49,27 @@ describe("signing in, in the browser", () => {
   });
 
   it("answers 404 when an analyst opens the coordinator's studies", async () => {
-    const context = await browser.newContext();
+    const context = await running.browser.newContext();
     const page = await context.newPage();
-    await signInAs(page, server.url, "analyst2@ringbatch.example", DEMO_PASSWORD);
-    await page.waitForURL(`${server.url}/lab`);
-    const response = await page.goto(`${server.url}/studies`);
+    await signInAs(page, running.server.url, "analyst2@ringbatch.example", DEMO_PASSWORD);
+    await page.waitForURL(`${running.server.url}/lab`);
+    const response = await page.goto(`${running.server.url}/studies`);
     expect(response?.status()).toBe(404);
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Not found");
     await context.close();
   });
 
   it("ends the session at sign-out: the old cookie no longer works", async () => {
-    const context = await browser.newContext();
+    const context = await running.browser.newContext();
     const page = await context.newPage();
-    await signInAs(page, server.url, "coordinator@ringbatch.example", DEMO_PASSWORD);
-    await page.waitForURL(`${server.url}/studies`);
+    await signInAs(page, running.server.url, "coordinator@ringbatch.example", DEMO_PASSWORD);
+    await page.waitForURL(`${running.server.url}/studies`);
     const [sessionCookie] = (await context.cookies()).filter((c) => c.name === "__ringbatch_session");
     expect(sessionCookie?.httpOnly).toBe(true);
     await page.getByRole("button", { name: "Sign out" }).click();
-    await page.waitForURL(`${server.url}/login`);
+    await page.waitForURL(`${running.server.url}/login`);
     // Replay the old cookie, as someone who copied it would.
-    const replay = await fetch(`${server.url}/studies`, {
+    const replay = await fetch(`${running.server.url}/studies`, {
       headers: { Cookie: `${sessionCookie!.name}=${sessionCookie!.value}` },
       redirect: "manual",
     });
@@ -91,11 +79,11 @@ describe("signing in, in the browser", () => {
   });
 
   it("sends the security headers and refuses a cross-site form post", async () => {
-    const page = await fetch(`${server.url}/login`);
+    const page = await fetch(`${running.server.url}/login`);
     expect(page.headers.get("Content-Security-Policy")).toContain("frame-ancestors 'none'");
     expect(page.headers.get("X-Content-Type-Options")).toBe("nosniff");
     expect(page.headers.get("Referrer-Policy")).toBe("same-origin");
-    const crossSite = await fetch(`${server.url}/login`, {
+    const crossSite = await fetch(`${running.server.url}/login`, {
       method: "POST",
       headers: { Origin: "https://elsewhere.example", "Content-Type": "application/x-www-form-urlencoded" },
       body: "email=coordinator%40ringbatch.example&password=ringbatch-demo",

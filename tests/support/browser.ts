@@ -1,6 +1,7 @@
 import AxeBuilder from "@axe-core/playwright";
 import { type Browser, chromium, type Page } from "playwright-core";
-import { expect } from "vitest";
+import { afterAll, beforeAll, expect } from "vitest";
+import { type RunningServer, startServer } from "./server";
 
 /** Debian's Chromium, headless, with background networking off (this network is closed). */
 export function launchBrowser(): Promise<Browser> {
@@ -31,4 +32,17 @@ export async function expectAccessible(page: Page) {
   const { violations } = await new AxeBuilder({ page }).withTags(["wcag2a", "wcag2aa", "wcag21a", "wcag21aa"]).analyze();
   const serious = violations.filter((v) => v.impact === "serious" || v.impact === "critical");
   expect(serious.map((v) => `${v.id}: ${v.nodes.map((n) => n.target.join(" ")).join(", ")}`), `on ${page.url()}`).toEqual([]);
+}
+
+/** Starts the built server (fresh demo database) and a browser for one test file, and closes both after it. */
+export function useServerAndBrowser() {
+  const running = {} as { server: RunningServer; browser: Browser };
+  beforeAll(async () => {
+    [running.server, running.browser] = await Promise.all([startServer(), launchBrowser()]);
+  });
+  afterAll(async () => {
+    await running.browser?.close();
+    await running.server?.stop();
+  });
+  return running;
 }
