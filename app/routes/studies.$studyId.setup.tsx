@@ -233,23 +233,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
                 value: (r) => (r.plausibleMin ?? r.plausibleMax) == null ? null : `${r.plausibleMin ?? "…"} to ${r.plausibleMax ?? "…"}`,
               },
               ...(editable
-                ? [
-                    {
-                      id: "remove",
-                      header: "Remove",
-                      sortable: false,
-                      value: () => null,
-                      cell: (r: (typeof setup.responses)[number]) => (
-                        <Form method="post">
-                          <input type="hidden" name="intent" value="response-remove" />
-                          <input type="hidden" name="id" value={r.id} />
-                          <Button type="submit" variant="secondary" aria-label={`Remove response ${r.name}`} disabled={busy}>
-                            Remove
-                          </Button>
-                        </Form>
-                      ),
-                    },
-                  ]
+                ? [removeColumn<(typeof setup.responses)[number]>("response-remove", (r) => `Remove response ${r.name}`, busy)]
                 : []),
             ]}
           />
@@ -387,23 +371,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
               { id: "description", header: "Description", value: (m) => m.description || null },
               { id: "constituents", header: "Mixture design rows", value: (m) => m.constituents },
               ...(editable
-                ? [
-                    {
-                      id: "remove",
-                      header: "Remove",
-                      sortable: false,
-                      value: () => null,
-                      cell: (m: (typeof setup.materials)[number]) => (
-                        <Form method="post">
-                          <input type="hidden" name="intent" value="material-remove" />
-                          <input type="hidden" name="id" value={m.id} />
-                          <Button type="submit" variant="secondary" aria-label={`Remove material ${m.code}`} disabled={busy}>
-                            Remove
-                          </Button>
-                        </Form>
-                      ),
-                    },
-                  ]
+                ? [removeColumn<(typeof setup.materials)[number]>("material-remove", (m) => `Remove material ${m.code}`, busy)]
                 : []),
             ]}
           />
@@ -481,4 +449,23 @@ function PeopleCard({
       )}
     </Card>
   );
+}
+
+/** A table column with one "Remove" button per row, posting `intent` and the row's id. */
+function removeColumn<Row extends { id: number }>(intent: string, label: (row: Row) => string, busy: boolean) {
+  return {
+    id: "remove",
+    header: "Remove",
+    sortable: false,
+    value: () => null,
+    cell: (row: Row) => (
+      <Form method="post">
+        <input type="hidden" name="intent" value={intent} />
+        <input type="hidden" name="id" value={row.id} />
+        <Button type="submit" variant="secondary" aria-label={label(row)} disabled={busy}>
+          Remove
+        </Button>
+      </Form>
+    ),
+  };
 }
