@@ -23,6 +23,7 @@ import {
 } from "~/db/schema";
 import { recordAudit } from "~/lib/audit.server";
 import { cellKey, type ResolvedRow, resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
+import { cellStatusOf } from "~/lib/cell-status";
 import { checkResultValue } from "~/lib/results/values";
 import { STATE_LABEL } from "~/lib/study-states";
 import { IMAGE_TYPES, storeUpload } from "~/lib/uploads.server";
@@ -362,7 +363,7 @@ export async function studyResults(studyId: number) {
         const cell = studyCells.find((c) => c.cells.enrollmentId === enrollment.id && c.cells.materialId === material.id && c.cells.responseId === response.id)?.cells;
         return {
           responseKey: response.key,
-          status: cell ? (cell.status === "submitted" ? (cell.amended ? "amended" : "submitted") : "draft") : "not_started",
+          status: cellStatusOf(cell),
           values: cell ? cellResults.filter((r) => r.cellId === cell.id).map((r) => ({ replicate: r.replicate, value: r.value })) : [],
         };
       }),

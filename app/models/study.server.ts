@@ -11,7 +11,7 @@ import {
   studyCoordinators,
   studyReviewers,
 } from "~/db/schema";
-import { CELL_STATUS_ORDER, type CellStatus } from "~/lib/cell-status";
+import { CELL_STATUS_ORDER, type CellStatus, cellStatusOf } from "~/lib/cell-status";
 import type { SessionUser } from "~/models/user.server";
 
 
@@ -100,7 +100,7 @@ export async function studyMatrix(studyId: number, { enrollmentId }: { enrollmen
   const statusByKey = new Map<string, CellStatus[]>();
   for (const c of studyCells) {
     const key = `${c.enrollmentId}:${c.materialId}`;
-    const status: CellStatus = c.status === "submitted" ? (c.amended ? "amended" : "submitted") : "draft";
+    const status = cellStatusOf(c);
     statusByKey.set(key, [...(statusByKey.get(key) ?? []), status]);
   }
   const queried = new Set(openQueries.map((q) => `${q.enrollmentId}:${q.materialId}`));

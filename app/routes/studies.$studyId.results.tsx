@@ -1,6 +1,6 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/studies.$studyId.results";
-import { CellStatusBadge, type CellStatusName } from "~/components/CellStatusBadge";
+import { CellStatusBadge } from "~/components/CellStatusBadge";
 import { StudyNav } from "~/components/StudyNav";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireStudyAccess } from "~/lib/guards.server";
@@ -65,7 +65,7 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
               row.materialCode,
               ...row.cells.map((cell) => (
                 <span key={cell.responseKey} className="flex flex-wrap items-center gap-2">
-                  <CellStatusBadge status={cell.status as CellStatusName} />
+                  <CellStatusBadge status={cell.status} />
                   <span>{cell.values.map((v) => v.value).join(", ") || "—"}</span>
                 </span>
               )),

@@ -1,6 +1,7 @@
 import { useEffect } from "react";
 import { Form, Link, useFetcher, useNavigation } from "react-router";
 import type { Route } from "./+types/studies.$studyId";
+import { CELL_STATUS_VIEW, CellStatusBadge } from "~/components/CellStatusBadge";
 import { DataTable } from "~/components/DataTable";
 import { StudyNav } from "~/components/StudyNav";
 import { Badge, Button, Card, Notice, PageHeader } from "~/components/ui";
@@ -50,13 +51,6 @@ export async function action({ request, params }: Route.ActionArgs) {
   } satisfies ActionResult;
 }
 
-const STATUS_VIEW: Record<CellStatus, { label: string; tone: "neutral" | "ochre" | "leaf" | "signal" }> = {
-  not_started: { label: "Not started", tone: "neutral" },
-  draft: { label: "Draft", tone: "ochre" },
-  submitted: { label: "Submitted", tone: "leaf" },
-  amended: { label: "Amended", tone: "leaf" },
-  queried: { label: "Queried", tone: "signal" },
-};
 
 function daysUntil(date: string, today: string) {
   return Math.round((Date.parse(date) - Date.parse(today)) / 86_400_000);
@@ -188,7 +182,7 @@ export default function StudyOverview({ loaderData, actionData }: Route.Componen
             data={counts}
             columns={[
               { id: "code", header: "Material", value: (c) => c.code },
-              ...CELL_STATUS_ORDER.map((s) => ({ id: s, header: STATUS_VIEW[s].label, value: (c: (typeof counts)[number]) => c.counts[s] })),
+              ...CELL_STATUS_ORDER.map((s) => ({ id: s, header: CELL_STATUS_VIEW[s].label, value: (c: (typeof counts)[number]) => c.counts[s] })),
             ]}
           />
         </Card>
@@ -211,8 +205,8 @@ export default function StudyOverview({ loaderData, actionData }: Route.Componen
               ...materials.map((m, i) => ({
                 id: `m${m.id}`,
                 header: m.code,
-                value: (r: (typeof rows)[number]) => STATUS_VIEW[r.statuses[i]!].label,
-                cell: (r: (typeof rows)[number]) => <Badge tone={STATUS_VIEW[r.statuses[i]!].tone}>{STATUS_VIEW[r.statuses[i]!].label}</Badge>,
+                value: (r: (typeof rows)[number]) => CELL_STATUS_VIEW[r.statuses[i]!].label,
+                cell: (r: (typeof rows)[number]) => <CellStatusBadge status={r.statuses[i]!} />,
               })),
             ]}
           />
