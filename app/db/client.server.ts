@@ -1,6 +1,7 @@
+import { AsyncLocalStorage } from "node:async_hooks";
 import { mkdirSync } from "node:fs";
 import { dirname, resolve } from "node:path";
-import { createClient, type Client } from "@libsql/client";
+import { createClient, type Client, type InStatement } from "@libsql/client";
 import { drizzle, type LibSQLDatabase } from "drizzle-orm/libsql";
 import { migrate } from "drizzle-orm/libsql/migrator";
 import * as schema from "./schema";
@@ -26,8 +27,47 @@ export function databaseConfig(env: NodeJS.ProcessEnv = process.env) {
 function openClient(): Client {
   const { url, authToken, isLocalFile } = databaseConfig();
   if (isLocalFile) mkdirSync(dirname(resolve(url.slice("file:".length))), { recursive: true });
-  // `timeout` is SQLite's busy timeout for local files, so concurrent writers wait instead of failing.
-  return createClient({ url, authToken, timeout: 5000 });
+  // `timeout` is SQLite's busy timeout for local files, so writers of other processes wait instead of failing.
+  const client = createClient({ url, authToken, timeout: 5000 });
+  return isLocalFile ? queueLocalWrites(client) : client;
+}
+
+/*
+ * One writer at a time in this process. The local driver runs each statement
+ * synchronously, so a statement waiting for SQLite's write lock blocks the
+ * event loop: the transaction holding the lock can never finish, and the
+ * waiter fails with SQLITE_BUSY when the busy timeout runs out. Writes and
+ * transactions therefore queue here; reads pass (WAL readers never wait).
+ */
+let writeQueue: Promise<unknown> = Promise.resolve();
+const inTransaction = new AsyncLocalStorage<true>();
+
+function queued<T>(run: () => Promise<T>): Promise<T> {
+  // Statements of a transaction this async context holds run at once: queuing them would wait for itself.
+  if (inTransaction.getStore()) return run();
+  const result = writeQueue.then(run);
+  writeQueue = result.catch(() => undefined);
+  return result;
+}
+
+const isRead = (statement: InStatement) => /^\s*select\b/i.test(typeof statement === "string" ? statement : statement.sql);
+
+function queueLocalWrites(client: Client): Client {
+  return new Proxy(client, {
+    get(target, property) {
+      const value = Reflect.get(target, property);
+      if (typeof value !== "function") return value;
+      const call = (args: unknown[]) => value.apply(target, args);
+      if (property === "execute") return (...args: [InStatement, ...unknown[]]) => (isRead(args[0]) ? call(args) : queued(() => call(args)));
+      if (property === "batch" || property === "migrate" || property === "executeMultiple") return (...args: unknown[]) => queued(() => call(args));
+      return value.bind(target);
+    },
+  });
+}
+
+/** drizzle's transaction, queued behind other writers, with its statements marked as the queue holder's. */
+function queuedTransaction(real: Database): Database["transaction"] {
+  return (run, config) => queued(() => inTransaction.run(true, () => real.transaction(run, config)));
 }
 
 // One client per process, kept on globalThis so the dev server's module reloads reuse it.
@@ -45,6 +85,7 @@ function connection() {
 export const db: Database = new Proxy({} as Database, {
   get(_target, property) {
     const real = connection().db;
+    if (property === "transaction") return queuedTransaction(real);
     const value = Reflect.get(real, property);
     return typeof value === "function" ? value.bind(real) : value;
   },

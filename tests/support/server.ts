@@ -19,7 +19,15 @@ async function freePort() {
   });
 }
 
-export type RunningServer = { url: string; databaseUrl: string; stop: () => Promise<void> };
+export type RunningServer = {
+  url: string;
+  databaseUrl: string;
+  stop: () => Promise<void>;
+  /** Ends the process at once (SIGKILL), as a crash or a power cut would: no shutdown code runs. */
+  kill: () => Promise<void>;
+  /** The tail of the server's log. */
+  output: () => string;
+};
 
 /** `databaseUrl` reuses a prepared database (still migrated and seeded, which is idempotent). */
 export async function startServer(extraEnv: Record<string, string> = {}, { databaseUrl }: { databaseUrl?: string } = {}): Promise<RunningServer> {
@@ -47,14 +55,11 @@ export async function startServer(extraEnv: Record<string, string> = {}, { datab
     if (child.exitCode !== null || Date.now() > deadline) throw new Error(`Server did not start:\n${output}`);
     await new Promise((r) => setTimeout(r, 100));
   }
-  return {
-    url,
-    databaseUrl,
-    stop: () =>
-      new Promise<void>((resolve) => {
-        if (child.exitCode !== null) return resolve();
-        child.once("exit", () => resolve());
-        child.kill("SIGTERM");
-      }),
-  };
+  const end = (signal: NodeJS.Signals) =>
+    new Promise<void>((resolve) => {
+      if (child.exitCode !== null || child.signalCode !== null) return resolve();
+      child.once("exit", () => resolve());
+      child.kill(signal);
+    });
+  return { url, databaseUrl, stop: () => end("SIGTERM"), kill: () => end("SIGKILL"), output: () => output };
 }
