@@ -16,6 +16,7 @@ export default [
   route("lab/studies/:studyId/receipt", "routes/lab.studies.$studyId.receipt.tsx"),
   route("api/v1/studies/:studyId/progress", "routes/api.v1.studies.$studyId.progress.ts"),
   route("invite/:token", "routes/invite.$token.tsx"),
+  route("welcome/:token", "routes/welcome.$token.tsx"),
   route("dev/mailbox", "routes/dev.mailbox.tsx"),
   route("dev/mailbox/:messageId", "routes/dev.mailbox.$messageId.tsx"),
   route("lab", "routes/lab.tsx"),

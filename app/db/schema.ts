@@ -59,6 +59,22 @@ export const labMembers = sqliteTable(
   (t) => [primaryKey({ columns: [t.labId, t.userId] }), index("lab_members_user").on(t.userId)],
 );
 
+/** A link that lets a new account set its first password (a lab contact's colleague). Only the hash is kept. */
+export const passwordTokens = sqliteTable(
+  "password_tokens",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    userId: integer("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    tokenHash: text("token_hash").notNull().unique(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    usedAt: integer("used_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("password_tokens_user").on(t.userId)],
+);
+
 export const STUDY_STATES = [
   "draft",
   "recruiting",

@@ -51,13 +51,18 @@ export async function signIn(request: Request, redirectTo: string | null) {
   const userId = await authenticator.authenticate("password", request);
   const user = await loadSessionUser(userId);
   if (!user) throw new SignInError(SIGN_IN_FAILED, 401);
-  // A fresh session id at every sign-in (no fixation): never reuse the cookie that came in.
+  return redirectSignedIn(userId, safeRedirect(redirectTo) ?? HOME_BY_ROLE[user.role]);
+}
+
+/**
+ * Starts a brand-new session for the user and redirects: a fresh session id
+ * at every sign-in (no fixation), never the cookie that came in.
+ */
+export async function redirectSignedIn(userId: number, to: string) {
   const session = await sessionStorage.getSession();
   session.set("userId", userId);
   await recordAudit({ actorUserId: userId, action: "sign_in", entityType: "user", entityId: userId });
-  return redirect(safeRedirect(redirectTo) ?? HOME_BY_ROLE[user.role], {
-    headers: { "Set-Cookie": await sessionStorage.commitSession(session) },
-  });
+  return redirect(to, { headers: { "Set-Cookie": await sessionStorage.commitSession(session) } });
 }
 
 export async function signOut(request: Request) {

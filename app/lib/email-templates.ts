@@ -82,3 +82,17 @@ export function reviewRequestedEmail(p: { to: string; reviewerName: string; stud
     action: { label: "Review the statement", url: p.url },
   });
 }
+
+export function colleagueWelcomeEmail(p: { to: string; name: string; labName: string; addedBy: string; url: string; expiresOn: string }) {
+  return composeEmail({
+    to: p.to,
+    subject: `Your Ringbatch account for ${p.labName}`,
+    greeting: `Dear ${p.name},`,
+    paragraphs: [
+      `${p.addedBy} added you as an analyst of ${p.labName} in Ringbatch, where your lab records its results for interlaboratory studies.`,
+      "Open the link to set your password. You will see your own lab's studies only.",
+      `The link works once and expires on ${p.expiresOn}.`,
+    ],
+    action: { label: "Set your password", url: p.url },
+  });
+}

@@ -6,6 +6,9 @@ export type RateLimit = { bucket: string; max: number; windowMs: number };
 
 export const SIGN_IN_FAILURES: RateLimit = { bucket: "sign-in", max: 5, windowMs: 15 * 60 * 1000 };
 
+/** Unknown invitation and first-password links per address: guessing tokens is slowed down. */
+export const LINK_MISSES: RateLimit = { bucket: "link", max: 20, windowMs: 15 * 60 * 1000 };
+
 /** Hits kept in the database, so the limit holds across app instances. */
 export async function hitCount(limit: RateLimit, key: string) {
   const since = new Date(Date.now() - limit.windowMs);

@@ -1,7 +1,7 @@
 import { and, asc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { labMembers, labs, users } from "~/db/schema";
-import { AccountError, createUser } from "~/models/user.server";
+import { AccountError } from "~/models/user.server";
 
 export type LabInput = Pick<typeof labs.$inferInsert, "name" | "address" | "contactName" | "contactEmail" | "accreditationNumber">;
 
@@ -27,11 +27,6 @@ export async function listColleagues(labId: number) {
     .innerJoin(users, eq(users.id, labMembers.userId))
     .where(eq(labMembers.labId, labId))
     .orderBy(asc(users.name));
-}
-
-/** A lab contact adds a colleague as an analyst of their own lab. */
-export async function addColleague(labId: number, input: { email: string; name: string; password: string }) {
-  return createUser({ ...input, role: "analyst", labId });
 }
 
 /** Removes a colleague from the lab (the contact cannot remove themselves or another contact). */

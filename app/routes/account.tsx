@@ -8,9 +8,10 @@ import { requireLabMember, requireUser } from "~/lib/guards.server";
 import { endAllSessions, sessionStorage } from "~/lib/session.server";
 import { emailField, idField, nameField, newPasswordField } from "~/lib/validation";
 import { createApiToken, listApiTokens, revokeApiToken } from "~/models/api-token.server";
-import { addColleague, listColleagues, removeColleague } from "~/models/lab.server";
+import { listColleagues, removeColleague } from "~/models/lab.server";
 import { listCoordinatedStudies, listLabEnrollments, listReviewedStudies } from "~/models/study.server";
 import { AccountError, changePassword, updateName } from "~/models/user.server";
+import { inviteColleague } from "~/models/welcome.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Account · Ringbatch" }];
 
@@ -18,7 +19,7 @@ const profileSchema = z.object({ name: nameField });
 const passwordSchema = z
   .object({ currentPassword: z.string().min(1, { message: "Enter your current password." }), newPassword: newPasswordField, confirmPassword: z.string() })
   .refine((v) => v.newPassword === v.confirmPassword, { path: ["confirmPassword"], message: "The two new passwords differ." });
-const colleagueSchema = z.object({ labId: idField, email: emailField, name: nameField, password: newPasswordField });
+const colleagueSchema = z.object({ labId: idField, email: emailField, name: nameField });
 const removeSchema = z.object({ labId: idField, userId: idField });
 // The target is "enrollment:<id>" for results:write or "study:<id>" for study:read.
 const tokenSchema = z.object({
@@ -76,8 +77,8 @@ export async function action({ request }: Route.ActionArgs) {
         const parsed = parseForm(colleagueSchema, form);
         if (!parsed.ok) return fail(parsed.errors, parsed.values);
         await requireLabMember(request, parsed.data.labId, { contact: true });
-        await addColleague(parsed.data.labId, parsed.data);
-        return { intent, done: `${parsed.data.name} can now sign in as an analyst of your lab.` } satisfies ActionResult;
+        await inviteColleague(parsed.data.labId, parsed.data, user, request);
+        return { intent, done: `${parsed.data.name} is now an analyst of your lab and gets an e-mail with a link to set a password.` } satisfies ActionResult;
       }
       case "remove-colleague": {
         const parsed = parseForm(removeSchema, form);
@@ -221,14 +222,13 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
               ),
             ])}
           />
-          <Form method="post" className="mt-4 grid gap-4 md:grid-cols-3">
+          <Form method="post" className="mt-4 grid gap-4 md:grid-cols-2">
             <input type="hidden" name="intent" value="add-colleague" />
             <input type="hidden" name="labId" value={labId} />
             <Field label="Colleague's name" name="name" defaultValue={valuesFor("add-colleague").name} error={errorsFor("add-colleague").name} required />
             <Field label="Colleague's e-mail" name="email" type="email" defaultValue={valuesFor("add-colleague").email} error={errorsFor("add-colleague").email} required />
-            <Field label="First password" name="password" type="password" autoComplete="new-password" hint="Tell them in person; they change it on their account page." error={errorsFor("add-colleague").password} required />
-            <div className="md:col-span-3">
-              <Button type="submit" disabled={busy}>Add analyst</Button>
+            <div className="md:col-span-2">
+              <Button type="submit" disabled={busy}>Add analyst and send the e-mail</Button>
             </div>
           </Form>
         </Card>

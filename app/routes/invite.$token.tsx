@@ -2,18 +2,15 @@ import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/invite.$token";
 import { Button, Card, Field, Notice } from "~/components/ui";
-import { recordAudit } from "~/lib/audit.server";
+import { redirectSignedIn } from "~/lib/auth.server";
 import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
 import { getUser } from "~/lib/guards.server";
-import { clientAddress, isLimited, type RateLimit, recordHit } from "~/lib/rate-limit.server";
-import { sessionStorage } from "~/lib/session.server";
+import { clientAddress, isLimited, LINK_MISSES, recordHit } from "~/lib/rate-limit.server";
 import { nameField, newPasswordField } from "~/lib/validation";
 import { acceptInvitation, declineInvitation, type InvitationLookup, lookupInvitation } from "~/models/invitation.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Invitation · Ringbatch" }];
 
-/** Guessing tokens is slowed down per address. */
-const INVITATION_MISSES: RateLimit = { bucket: "invitation", max: 20, windowMs: 15 * 60 * 1000 };
 
 const REFUSAL: Record<Exclude<InvitationLookup["status"], "valid">, { title: string; message: string; status: number }> = {
   unknown: { title: "This invitation link is not valid", message: "Check that the whole link was copied from the e-mail, or ask the study coordinator for a new invitation.", status: 404 },
@@ -24,9 +21,9 @@ const REFUSAL: Record<Exclude<InvitationLookup["status"], "valid">, { title: str
 
 async function lookup(request: Request, token: string | undefined) {
   const key = clientAddress(request);
-  if (await isLimited(INVITATION_MISSES, key)) throw data({ title: "Too many attempts", message: "Wait 15 minutes, then open the link again." }, { status: 429 });
+  if (await isLimited(LINK_MISSES, key)) throw data({ title: "Too many attempts", message: "Wait 15 minutes, then open the link again." }, { status: 429 });
   const found = await lookupInvitation(token ?? "", new URL(request.url).searchParams.get("study"));
-  if (found.status === "unknown" || found.status === "other_study") await recordHit(INVITATION_MISSES, key);
+  if (found.status === "unknown" || found.status === "other_study") await recordHit(LINK_MISSES, key);
   return found;
 }
 
@@ -72,10 +69,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
   return handleForm("accept", newAccountSchema, form, async ({ name, password }) => {
     const { userId } = await acceptInvitation(found, { name, password });
-    const session = await sessionStorage.getSession();
-    session.set("userId", userId);
-    await recordAudit({ actorUserId: userId, action: "sign_in", entityType: "user", entityId: userId });
-    return redirect("/lab", { headers: { "Set-Cookie": await sessionStorage.commitSession(session) } });
+    return redirectSignedIn(userId, "/lab");
   });
 }
 

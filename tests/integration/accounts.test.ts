@@ -1,16 +1,17 @@
 import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { auditEvents, labMembers, labs, users } from "~/db/schema";
+import { auditEvents, emailOutbox, labMembers, labs, users } from "~/db/schema";
 import { getUser } from "~/lib/guards.server";
 import * as account from "~/routes/account";
 import * as adminLabs from "~/routes/admin.labs";
 import * as adminUsers from "~/routes/admin.users";
+import * as welcome from "~/routes/welcome.$token";
 import { DEMO_PASSWORD } from "../../seed/demo-data";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
-import { call, get, post } from "../support/routes";
+import { call, cookieFrom, get, post } from "../support/routes";
 
 beforeAll(async () => {
   await useFreshDatabase();
@@ -53,22 +54,39 @@ describe("account page", () => {
     expect(await getUser(get("/", b))).toBeNull();
   });
 
-  it("lets a lab contact add and remove analysts of their own lab only", async () => {
+  it("lets a lab contact add analysts of their own lab, who set their password from an e-mailed link", async () => {
     const contact = await demoCookie("analyst1@ringbatch.example");
     const lab1 = await db.query.labs.findFirst({ where: eq(labs.name, "Quarrow County Materials Lab") });
     const lab2 = await db.query.labs.findFirst({ where: eq(labs.name, "Tessel Ready-Mix QC") });
-    const colleague = { intent: "add-colleague", labId: String(lab1!.id), name: "Nell Ferris", email: "nell@quarrow.example", password: "a-first-password" };
+    const colleague = { intent: "add-colleague", labId: String(lab1!.id), name: "Nell Ferris", email: "nell@quarrow.example" };
     const invalid = await call(account.action, post("/account", { ...colleague, email: "not-an-email" }, contact));
     expect(invalid.data.errors.email).toMatch(/e-mail address/);
     expect(invalid.data.values.name).toBe("Nell Ferris");
     const added = await call(account.action, post("/account", colleague, contact));
-    expect(added.data.done).toMatch(/Nell Ferris/);
+    expect(added.data.done).toMatch(/Nell Ferris.*e-mail/);
     const nell = await db.query.users.findFirst({ where: eq(users.email, "nell@quarrow.example") });
     expect(nell!.role).toBe("analyst");
+    expect(nell!.passwordHash).toBeNull();
     const duplicate = await call(account.action, post("/account", colleague, contact));
     expect(duplicate.data.errors.email).toBe("An account with this e-mail already exists.");
     const foreign = await call(account.action, post("/account", { ...colleague, labId: String(lab2!.id), email: "x@y.example" }, contact));
     expect(foreign.status).toBe(404);
+
+    // The e-mail carries the only copy of the link.
+    const [mail] = await db.select().from(emailOutbox).where(eq(emailOutbox.to, "nell@quarrow.example"));
+    const path = new URL(mail!.text.match(/https?:\/\/\S+\/welcome\/\S+/)![0]).pathname;
+    const token = path.split("/").pop()!;
+    expect((await call(welcome.loader, get(path), { token })).data.account).toEqual({ name: "Nell Ferris", email: "nell@quarrow.example" });
+    const short = await call(welcome.action, post(path, { password: "short", confirm: "short" }), { token });
+    expect(short.data.errors.password).toBe("Use at least 12 characters.");
+    const set = await call(welcome.action, post(path, { password: "nells-own-password", confirm: "nells-own-password" }), { token });
+    expect(set.status).toBe(302);
+    expect(set.headers.get("Location")).toBe("/lab");
+    expect((await getUser(get("/lab", cookieFrom(set.headers))))!.email).toBe("nell@quarrow.example");
+    const again = await call(welcome.loader, get(path), { token });
+    expect(again.status).toBe(410);
+    expect((await call(welcome.loader, get("/welcome/nonsense"), { token: "nonsense" })).status).toBe(404);
+
     const removed = await call(account.action, post("/account", { intent: "remove-colleague", labId: String(lab1!.id), userId: String(nell!.id) }, contact));
     expect(removed.data.done).toMatch(/removed/);
     expect(await db.select().from(labMembers).where(eq(labMembers.userId, nell!.id))).toHaveLength(0);
