@@ -5,6 +5,7 @@ import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
 import { type EntryContext, ServerRouter } from "react-router";
 import { migrateDatabase } from "~/db/client.server";
+import { applySecurityHeaders } from "~/lib/security-headers.server";
 
 // Migrations from drizzle/ are applied when the server starts, before the first request.
 await migrateDatabase();
@@ -17,6 +18,8 @@ export default function handleRequest(
   responseHeaders: Headers,
   routerContext: EntryContext,
 ) {
+  // Also for pages no route matches (the 404 page), which the root middleware never sees.
+  applySecurityHeaders(responseHeaders);
   if (request.method.toUpperCase() === "HEAD") {
     return new Response(null, { status: responseStatusCode, headers: responseHeaders });
   }

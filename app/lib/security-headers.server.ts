@@ -22,9 +22,14 @@ export const SECURITY_HEADERS: Record<string, string> = {
   "X-Frame-Options": "DENY",
 };
 
-export function withSecurityHeaders(response: Response) {
+/** Adds each security header the response does not set itself. */
+export function applySecurityHeaders(headers: Headers) {
   for (const [name, value] of Object.entries(SECURITY_HEADERS)) {
-    if (!response.headers.has(name)) response.headers.set(name, value);
+    if (!headers.has(name)) headers.set(name, value);
   }
+}
+
+export function withSecurityHeaders(response: Response) {
+  applySecurityHeaders(response.headers);
   return response;
 }

@@ -1,0 +1,227 @@
+/**
+ * What the built server sends and refuses in production: security headers on
+ * pages, resource routes, the API and file downloads; the session cookie's
+ * flags; cross-site form posts refused with nothing written; 429 from the
+ * sign-in, invitation and API rate limits; and uploads that must not be
+ * stored (SVG, oversize) or must be stored under a hash (a name with a path).
+ * Photo types judged from bytes are covered by tests/integration/lab-photos.test.ts.
+ */
+import { mkdtempSync, readdirSync, readFileSync, statSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { and, count, eq } from "drizzle-orm";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { databaseFingerprint } from "~/db/backup.server";
+import { db } from "~/db/client.server";
+import { attachments, materials } from "~/db/schema";
+import { DEMO_PASSWORD } from "../../seed/demo-data";
+import { type RunningServer, startServer } from "../support/server";
+import { demoStudyId, enrollmentOf, prepareDatabaseFile, signInOverHttp } from "./support";
+
+const API_LIMIT = 5;
+const FOREIGN = "https://elsewhere.example";
+// The PNG signature (PNG specification, section 5.2) and a few bytes: a PNG as far as type sniffing goes.
+const PNG = Uint8Array.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 0x0d, 0x49, 0x48, 0x44, 0x52]);
+
+let server: RunningServer;
+let uploadsDir: string;
+let studyId: number;
+let f1: number;
+const cookies: Record<string, string> = {};
+
+beforeAll(async () => {
+  uploadsDir = mkdtempSync(join(tmpdir(), "ringbatch-uploads-"));
+  const { databaseUrl } = await prepareDatabaseFile(async () => ({}));
+  server = await startServer({ API_RATE_LIMIT_PER_MINUTE: String(API_LIMIT), UPLOADS_DIR: uploadsDir }, { databaseUrl });
+  studyId = await demoStudyId("FF-2026-B");
+  f1 = (await db.query.materials.findFirst({ where: and(eq(materials.studyId, studyId), eq(materials.code, "F1")) }))!.id;
+  for (const who of ["analyst5", "analyst7", "coordinator", "reviewer2"]) cookies[who] = await signInOverHttp(server.url, `${who}@ringbatch.example`, DEMO_PASSWORD);
+});
+
+afterAll(() => server?.stop());
+
+const get = (path: string, cookie?: string) => fetch(server.url + path, { headers: cookie ? { Cookie: cookie } : {}, redirect: "manual" });
+
+function postForm(path: string, body: URLSearchParams | FormData, { cookie, origin = server.url, forwardedFor }: { cookie?: string; origin?: string; forwardedFor?: string } = {}) {
+  const headers: Record<string, string> = { Origin: origin };
+  if (cookie) headers.Cookie = cookie;
+  if (forwardedFor) headers["X-Forwarded-For"] = forwardedFor;
+  return fetch(server.url + path, { method: "POST", headers, body, redirect: "manual" });
+}
+
+function uploadPhoto(bytes: Uint8Array, name: string, type: string) {
+  const form = new FormData();
+  form.set("intent", "photo");
+  form.set("replicate", "1");
+  form.set("photo", new File([bytes as BlobPart], name, { type }));
+  return postForm(`/lab/studies/${studyId}/results/${f1}.data`, form, { cookie: cookies.analyst5 });
+}
+
+const attachmentCount = async () => (await db.select({ n: count() }).from(attachments))[0]!.n;
+
+/** Every file under the uploads directory, relative to it. */
+function storedFiles(dir = uploadsDir, prefix = ""): string[] {
+  return readdirSync(dir).flatMap((name) => (statSync(join(dir, name)).isDirectory() ? storedFiles(join(dir, name), `${prefix}${name}/`) : [`${prefix}${name}`]));
+}
+
+function expectSecurityHeaders(response: Response) {
+  const where = `${response.url} (${response.status})`;
+  expect(response.headers.get("Content-Security-Policy"), where).toMatch(/frame-ancestors 'none'/);
+  expect(response.headers.get("Content-Security-Policy"), where).toMatch(/default-src 'self'/);
+  expect(response.headers.get("X-Content-Type-Options"), where).toBe("nosniff");
+  expect(response.headers.get("Referrer-Policy"), where).toMatch(/^(no-referrer|same-origin|strict-origin|strict-origin-when-cross-origin)$/);
+}
+
+describe("security headers", () => {
+  it("come with pages, error pages, resource routes and the API", async () => {
+    const responses = await Promise.all([
+      get("/login"),
+      get("/no-such-page"),
+      get(`/lab/studies/${studyId}`, cookies.analyst5),
+      get("/healthz"),
+      get("/api/v1/healthz"),
+      get("/api/v1/studies", cookies.coordinator),
+      get("/api/v1/studies"),
+    ]);
+    expect(responses.map((r) => r.status)).toEqual([200, 404, 200, 200, 200, 200, 401]);
+    for (const response of responses) expectSecurityHeaders(response);
+  });
+
+  it("come with a file download, which is also served under its stored type", async () => {
+    const upload = await uploadPhoto(PNG, "surface.png", "image/png");
+    expect(upload.status).toBe(200);
+    const attachment = (await db.select().from(attachments)).at(-1)!;
+    const download = await get(`/files/${attachment.id}`, cookies.analyst5);
+    expect(download.status).toBe(200);
+    expect(download.headers.get("Content-Type")).toBe("image/png");
+    expectSecurityHeaders(download);
+  });
+});
+
+describe("the session cookie in production", () => {
+  it("is httpOnly, SameSite=Lax and Secure", async () => {
+    const response = await postForm("/login", new URLSearchParams({ email: "analyst6@ringbatch.example", password: DEMO_PASSWORD }));
+    expect(response.status).toBe(302);
+    const setCookie = response.headers.get("Set-Cookie")!;
+    expect(setCookie).toMatch(/^__ringbatch_session=/);
+    expect(setCookie).toMatch(/;\s*HttpOnly/i);
+    expect(setCookie).toMatch(/;\s*SameSite=Lax/i);
+    expect(setCookie).toMatch(/;\s*Secure/i);
+  });
+});
+
+describe("cross-site form posts", () => {
+  // Page actions are refused by React Router's own origin check (400) before any middleware runs;
+  // resource routes and the API by the root middleware's (403). Either way nothing runs.
+  it("are refused with a 4xx on every action tried, and nothing is written", async () => {
+    const before = await databaseFingerprint(db);
+    const draft = JSON.stringify({ values: { "holes:1": "33" }, testedOn: {}, operator: {}, fresh: {}, batchedAt: "" });
+    const csv = new FormData();
+    csv.set("file", new File(["material,response,replicate,value\nF2,holes,1,9\n"], "results.csv", { type: "text/csv" }));
+    const attempts = await Promise.all([
+      postForm("/login", new URLSearchParams({ email: "analyst8@ringbatch.example", password: DEMO_PASSWORD }), { origin: FOREIGN }),
+      postForm(`/lab/studies/${studyId}/results/${f1}`, new URLSearchParams({ intent: "draft", draft }), { cookie: cookies.analyst5, origin: FOREIGN }),
+      postForm(`/lab/studies/${studyId}/results/${f1}.data`, new URLSearchParams({ intent: "draft", draft }), { cookie: cookies.analyst5, origin: "null" }),
+      postForm(`/lab/studies/${studyId}/import`, csv, { cookie: cookies.analyst7, origin: FOREIGN }),
+      postForm("/studies/new", new URLSearchParams({ code: "XS-1", title: "Cross-site", testMethod: "Slump", replicatesPerCell: "2" }), { cookie: cookies.coordinator, origin: FOREIGN }),
+      postForm("/logout", new URLSearchParams(), { cookie: cookies.analyst7, origin: FOREIGN }),
+      fetch(`${server.url}/api/v1/enrollments/${(await enrollmentOf(studyId, "analyst7@ringbatch.example")).id}/results`, {
+        method: "POST",
+        headers: { Origin: FOREIGN, Cookie: cookies.analyst7, "Content-Type": "application/json" },
+        body: JSON.stringify({ results: [{ material: "F2", response: "holes", replicate: 1, value: 9 }] }),
+      }),
+    ]);
+    expect(attempts.map((a) => a.status)).toEqual([400, 400, 400, 400, 400, 403, 403]);
+    expect(await Promise.all(attempts.slice(5).map((a) => a.text()))).toEqual(["Cross-site request refused", "Cross-site request refused"]);
+    expect(await databaseFingerprint(db)).toEqual(before);
+    // The same draft from the app's own origin is saved: the origin alone made the difference.
+    const own = await postForm(`/lab/studies/${studyId}/results/${f1}.data`, new URLSearchParams({ intent: "draft", draft }), { cookie: cookies.analyst5 });
+    expect(own.status).toBe(200);
+    expect((await databaseFingerprint(db)).resultsDigest).not.toBe(before.resultsDigest);
+  });
+});
+
+describe("rate limits", () => {
+  it("answer 429 on sign-in after 5 failures from one address, while another address still signs in", async () => {
+    const attempt = (password: string, forwardedFor: string) => postForm("/login", new URLSearchParams({ email: "reviewer3@ringbatch.example", password }), { forwardedFor });
+    for (let i = 0; i < 5; i++) expect((await attempt("wrong-password", "198.51.100.7")).status).toBe(401);
+    const limited = await attempt(DEMO_PASSWORD, "198.51.100.7");
+    expect(limited.status).toBe(429);
+    expect(await limited.text()).toContain("Too many failed sign-ins. Wait 15 minutes, then try again.");
+    expect((await attempt(DEMO_PASSWORD, "198.51.100.8")).status).toBe(302);
+  });
+
+  it("answer 429 on invitation links after 20 unknown tokens from one address", async () => {
+    const open = (token: string, forwardedFor: string) => fetch(`${server.url}/invite/${token}`, { headers: { "X-Forwarded-For": forwardedFor } });
+    for (let i = 0; i < 20; i++) expect((await open(`guess-${i}`, "203.0.113.9")).status).toBe(404);
+    const limited = await open("guess-20", "203.0.113.9");
+    expect(limited.status).toBe(429);
+    expect(await limited.text()).toContain("Too many attempts");
+    expect((await open("guess-21", "203.0.113.10")).status).toBe(404);
+  });
+
+  it(`answer 429 on the API after ${API_LIMIT} requests a minute from one caller (API_RATE_LIMIT_PER_MINUTE)`, async () => {
+    const statuses = [];
+    for (let i = 0; i <= API_LIMIT; i++) statuses.push((await get("/api/v1/studies", cookies.reviewer2)).status);
+    expect(statuses).toEqual([...Array.from({ length: API_LIMIT }, () => 200), 429]);
+    const limited = await get("/api/v1/studies", cookies.reviewer2);
+    expect(limited.status).toBe(429);
+    expect(await limited.json()).toMatchObject({ error: { code: "rate_limited", message: `More than ${API_LIMIT} requests in a minute; wait and try again.` } });
+    expectSecurityHeaders(limited);
+  });
+});
+
+describe("uploads", () => {
+  it("refuse an SVG, whatever its name or declared type, and store nothing", async () => {
+    const svg = new TextEncoder().encode('<svg xmlns="http://www.w3.org/2000/svg" onload="alert(1)"><rect width="1" height="1"/></svg>');
+    const filesBefore = storedFiles();
+    const rowsBefore = await attachmentCount();
+    for (const [name, type] of [["surface.svg", "image/svg+xml"], ["surface.png", "image/png"], ["surface.jpg", "image/jpeg"]]) {
+      const response = await uploadPhoto(svg, name!, type!);
+      expect(response.status).toBe(400);
+      expect(await response.text()).toContain("This file is not a JPG, PNG, WEBP file (judged from its contents, not its name).");
+    }
+    expect(await attachmentCount()).toBe(rowsBefore);
+    expect(storedFiles()).toEqual(filesBefore);
+  });
+
+  it("refuse a photo over 10 MB and store nothing", async () => {
+    const rowsBefore = await attachmentCount();
+    const filesBefore = storedFiles();
+    const big = new Uint8Array(10 * 1024 * 1024 + 1);
+    big.set(PNG);
+    const response = await uploadPhoto(big, "big.png", "image/png");
+    expect(response.status).toBe(400);
+    expect(await response.text()).toContain("The photo is larger than 10 MB.");
+    expect(await attachmentCount()).toBe(rowsBefore);
+    expect(storedFiles()).toEqual(filesBefore);
+  });
+
+  it("store a file named with a path under its content hash, keeping only the base name for the download", async () => {
+    // (The multipart parser reads a backslash in a quoted file name as an escape, so a Windows path arrives without its separators.)
+    const names = [
+      ["../../x.png", "x.png", "x.png"],
+      ["/etc/passwd.png", "passwd.png", "passwd.png"],
+      ["..\\..\\evil.png", "....evil.png", "....evil.png"],
+      ["C:\\temp\\surface.png", "C:tempsurface.png", "C_tempsurface.png"],
+    ];
+    for (const [name, baseName, downloadName] of names) {
+      const bytes = Uint8Array.from([...PNG, ...new TextEncoder().encode(name!)]); // distinct contents, so each is stored anew
+      const response = await uploadPhoto(bytes, name!, "image/png");
+      expect(response.status, name).toBe(200);
+      const attachment = (await db.select().from(attachments)).at(-1)!;
+      expect(attachment.originalName).toBe(baseName);
+      expect(attachment.sha256).toMatch(/^[0-9a-f]{64}$/);
+      const download = await get(`/files/${attachment.id}`, cookies.analyst5);
+      expect(download.headers.get("Content-Disposition")).toBe(`inline; filename="${downloadName}"`);
+      expect(new Uint8Array(await download.arrayBuffer())).toEqual(bytes);
+    }
+    // On disk: only hash-named files under the uploads directory, and no uploaded name in them.
+    const files = storedFiles();
+    expect(files.length).toBeGreaterThan(0);
+    for (const file of files) {
+      expect(file).toMatch(/^[0-9a-f]{2}\/[0-9a-f]+\.(dat|meta\.json)$/);
+      if (file.endsWith(".meta.json")) expect(readFileSync(join(uploadsDir, file), "utf8")).not.toMatch(/\.\.|x\.png|evil|passwd/);
+    }
+  });
+});
