@@ -121,7 +121,7 @@ export default function ImportResults({ loaderData, actionData }: Route.Componen
         <Card title="The file">
           <p className="mb-2">
             One row per replicate result, with a header row: <code className="rounded bg-basalt-100 px-1">{REQUIRED_COLUMNS.join(",")}</code>, and if you like{" "}
-            <code className="rounded bg-basalt-100 px-1">{OPTIONAL_COLUMNS.join(",")}</code> (test date as YYYY-MM-DD). At most 2 MB. Materials:{" "}
+            <code className="rounded bg-basalt-100 px-1">{OPTIONAL_COLUMNS.join(",")}</code> (test date as YYYY-MM-DD); no other columns. Save it as CSV UTF-8, at most 2 MB. Materials:{" "}
             {frame.materials.map((m) => m.code).join(", ")}; responses: {frame.responses.map((r) => r.key).join(", ")}; replicates 1 to {frame.replicatesPerCell}.
           </p>
           <p className="mb-4 text-basalt-700">All rows are imported together, or none: a file with a problem in any row changes nothing. Results already submitted are changed only by amendments.</p>

@@ -16,7 +16,7 @@ import { createTestingStudy, fullResultsCsv, prepareDatabaseFile, randomSource, 
 const MATERIALS = 250;
 const REPLICATES = 10;
 /** Kill moments as fractions of one uninterrupted import's duration. */
-const KILL_AT = [0, 0.1, 0.25, 0.4, 0.55, 0.7, 0.85, 1, 1.3];
+const KILL_AT = [0, 0.15, 0.3, 0.45, 0.55, 0.65, 0.72, 0.8, 0.87, 0.94, 1, 1.3];
 
 let study: TestingStudy;
 let databaseUrl: string;

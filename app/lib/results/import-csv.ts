@@ -57,7 +57,7 @@ function checkHeaderNames(header: string[]) {
   const unknown = [...new Set(header.filter((name) => name !== "" && !KNOWN_COLUMNS.includes(name)))];
   if (unknown.length === 0) return null;
   const shown = unknown.slice(0, 5).map((name) => `“${shorten(name)}”`).join(", ");
-  return `The header row has ${unknown.length === 1 ? "a column" : `${unknown.length} columns`} the import does not read: ${shown}${unknown.length > 5 ? ", …" : ""} (it reads ${KNOWN_COLUMNS.join(",")}). Remove ${unknown.length === 1 ? "it" : "them"} or rename.`;
+  return `The header row has ${unknown.length === 1 ? "a column" : `${unknown.length} columns`} the import does not read: ${shown}${unknown.length > 5 ? ", …" : ""} (it reads ${KNOWN_COLUMNS.join(",")}). Remove or rename ${unknown.length === 1 ? "it" : "them"}.`;
 }
 
 /** Parses the whole text at once (the server's way). */
