@@ -3,7 +3,7 @@ import { Authenticator } from "remix-auth";
 import { FormStrategy } from "remix-auth-form";
 import { z } from "zod";
 import { recordAudit } from "~/lib/audit.server";
-import { clearHits, clientAddress, isLimited, recordHit, SIGN_IN_FAILURES } from "~/lib/rate-limit.server";
+import { ACCOUNT_SIGN_IN_FAILURES, clearHits, clientAddress, isLimited, recordHit, SIGN_IN_FAILURES } from "~/lib/rate-limit.server";
 import { sessionStorage } from "~/lib/session.server";
 import { HOME_BY_ROLE, loadSessionUser, normaliseEmail, verifyLogin } from "~/models/user.server";
 
@@ -33,10 +33,14 @@ authenticator.use(
     const email = normaliseEmail(parsed.data.email);
     // Failures count per account and address, so one attacker cannot lock a colleague out from elsewhere.
     const key = `${email}|${clientAddress(request)}`;
-    if (await isLimited(SIGN_IN_FAILURES, key)) throw new SignInError(SIGN_IN_LIMITED, 429);
+    // The address comes from a header a client can set; the account-wide cap holds whatever it says.
+    if ((await isLimited(SIGN_IN_FAILURES, key)) || (await isLimited(ACCOUNT_SIGN_IN_FAILURES, email))) {
+      throw new SignInError(SIGN_IN_LIMITED, 429);
+    }
     const userId = await verifyLogin(email, parsed.data.password);
     if (userId === null) {
       await recordHit(SIGN_IN_FAILURES, key);
+      await recordHit(ACCOUNT_SIGN_IN_FAILURES, email);
       await recordAudit({ actorUserId: null, action: "sign_in_failed", entityType: "user", after: { email } });
       throw new SignInError(SIGN_IN_FAILED, 401);
     }

@@ -6,6 +6,9 @@ export type RateLimit = { bucket: string; max: number; windowMs: number };
 
 export const SIGN_IN_FAILURES: RateLimit = { bucket: "sign-in", max: 5, windowMs: 15 * 60 * 1000 };
 
+/** Failed sign-ins of one account from all addresses together. */
+export const ACCOUNT_SIGN_IN_FAILURES: RateLimit = { bucket: "sign-in-account", max: 30, windowMs: 15 * 60 * 1000 };
+
 /** Unknown invitation and first-password links per address: guessing tokens is slowed down. */
 export const LINK_MISSES: RateLimit = { bucket: "link", max: 20, windowMs: 15 * 60 * 1000 };
 

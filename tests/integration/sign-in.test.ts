@@ -74,6 +74,14 @@ describe("sign-in", () => {
     expect((await signIn("analyst3@ringbatch.example", DEMO_PASSWORD, { "X-Forwarded-For": "198.51.100.4" })).status).toBe(302);
   });
 
+  it("caps failed sign-ins of one account at 30 in 15 minutes, however many addresses they come from", async () => {
+    for (let i = 0; i < 30; i++) {
+      expect((await signIn("analyst4@ringbatch.example", "guess-" + i, { "X-Forwarded-For": `2001:db8::${i + 1}` })).status).toBe(401);
+    }
+    const limited = await signIn("analyst4@ringbatch.example", DEMO_PASSWORD, { "X-Forwarded-For": "2001:db8::ffff" });
+    expect(limited.status).toBe(429);
+  });
+
   it("ends the session on the server at sign-out, so the old cookie stops working", async () => {
     const outcome = await signIn("analyst2@ringbatch.example", DEMO_PASSWORD);
     const cookie = cookieFrom(outcome.headers);
