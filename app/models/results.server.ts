@@ -328,19 +328,36 @@ export async function attachReplicatePhoto(enrollment: Enrollment, materialId: n
   return attachment;
 }
 
-/** The coordinator's view: every lab's results of the study, with cell status and amendments. */
-export async function studyResults(studyId: number) {
+export const RESULTS_LABS_PER_PAGE = 10;
+
+function groupBy<T, K>(items: T[], keyOf: (item: T) => K) {
+  const groups = new Map<K, T[]>();
+  for (const item of items) {
+    const key = keyOf(item);
+    const group = groups.get(key);
+    if (group) group.push(item);
+    else groups.set(key, [item]);
+  }
+  return groups;
+}
+
+/**
+ * The coordinator's view: the study's results by lab and material, with cell
+ * status and amendments, ten labs a page so the page stays light as a study grows.
+ */
+export async function studyResults(studyId: number, labsPage = 1) {
   const frame = await studyFrame(studyId);
-  const [studyEnrollments, studyCells] = await Promise.all([
-    db
-      .select({ id: enrollments.id, labCode: enrollments.labCode, labName: labs.name })
-      .from(enrollments)
-      .innerJoin(labs, eq(labs.id, enrollments.labId))
-      .where(eq(enrollments.studyId, studyId))
-      .orderBy(asc(enrollments.labCode)),
-    db.select().from(cells).innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId)).where(eq(enrollments.studyId, studyId)),
-  ]);
-  const cellIds = studyCells.map((c) => c.cells.id);
+  const allEnrollments = await db
+    .select({ id: enrollments.id, labCode: enrollments.labCode, labName: labs.name })
+    .from(enrollments)
+    .innerJoin(labs, eq(labs.id, enrollments.labId))
+    .where(eq(enrollments.studyId, studyId))
+    .orderBy(asc(enrollments.labCode));
+  const pageCount = Math.max(1, Math.ceil(allEnrollments.length / RESULTS_LABS_PER_PAGE));
+  const page = Math.min(Math.max(1, labsPage), pageCount);
+  const pageEnrollments = allEnrollments.slice((page - 1) * RESULTS_LABS_PER_PAGE, page * RESULTS_LABS_PER_PAGE);
+  const studyCells = pageEnrollments.length ? await db.select().from(cells).where(inArray(cells.enrollmentId, pageEnrollments.map((e) => e.id))) : [];
+  const cellIds = studyCells.map((c) => c.id);
   const [cellResults, cellAmendments] = cellIds.length
     ? await Promise.all([
         db.select().from(results).where(inArray(results.cellId, cellIds)).orderBy(asc(results.replicate)),
@@ -352,27 +369,28 @@ export async function studyResults(studyId: number) {
           .orderBy(desc(amendments.createdAt)),
       ])
     : [[], []];
-  const rows = studyEnrollments.flatMap((enrollment) =>
-    frame.materials.map((material) => ({
-      enrollmentId: enrollment.id,
-      materialId: material.id,
-      labCode: enrollment.labCode,
-      labName: enrollment.labName,
-      materialCode: material.code,
-      cells: frame.responses.map((response) => {
-        const cell = studyCells.find((c) => c.cells.enrollmentId === enrollment.id && c.cells.materialId === material.id && c.cells.responseId === response.id)?.cells;
-        return {
+  const cellByKey = new Map(studyCells.map((c) => [`${c.enrollmentId}:${c.materialId}:${c.responseId}`, c]));
+  const resultsByCell = groupBy(cellResults, (r) => r.cellId);
+  const amendmentsByCell = groupBy(cellAmendments, (a) => a.cellId);
+  const rows = pageEnrollments.flatMap((enrollment) =>
+    frame.materials.map((material) => {
+      const materialCells = frame.responses.map((response) => ({ response, cell: cellByKey.get(`${enrollment.id}:${material.id}:${response.id}`) }));
+      return {
+        enrollmentId: enrollment.id,
+        materialId: material.id,
+        labCode: enrollment.labCode,
+        labName: enrollment.labName,
+        materialCode: material.code,
+        cells: materialCells.map(({ response, cell }) => ({
           responseKey: response.key,
           status: cellStatusOf(cell),
-          values: cell ? cellResults.filter((r) => r.cellId === cell.id).map((r) => ({ replicate: r.replicate, value: r.value })) : [],
-        };
-      }),
-      amendments: cellAmendments
-        .filter((a) => studyCells.some((c) => c.cells.id === a.cellId && c.cells.enrollmentId === enrollment.id && c.cells.materialId === material.id))
-        .map((a) => ({ ...a, responseKey: frame.responses.find((r) => r.id === studyCells.find((c) => c.cells.id === a.cellId)!.cells.responseId)!.key })),
-    })),
+          values: cell ? (resultsByCell.get(cell.id) ?? []).map((r) => ({ replicate: r.replicate, value: r.value })) : [],
+        })),
+        amendments: materialCells.flatMap(({ response, cell }) => (cell ? (amendmentsByCell.get(cell.id) ?? []) : []).map((a) => ({ ...a, responseKey: response.key }))),
+      };
+    }),
   );
-  return { study: frame.study, materials: frame.materials, responses: frame.responses, rows };
+  return { study: frame.study, materials: frame.materials, responses: frame.responses, rows, labsPage: page, labsPageCount: pageCount };
 }
 
 export const AUDIT_PAGE_SIZE = 25;

@@ -11,10 +11,19 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `Results · ${da
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { study } = await requireStudyAccess(request, params.studyId, ["coordinator", "admin"]);
-  const page = Math.max(1, Number(new URL(request.url).searchParams.get("page")) || 1);
-  const [table, audit, marks] = await Promise.all([studyResults(study.id), studyAuditTrail(study.id, page), studyBatchMarks(study.id)]);
-  const rows = table.rows.map((row) => ({ ...row, fresh: marks.find((m) => m.enrollmentId === row.enrollmentId && m.materialId === row.materialId)?.readings ?? [] }));
-  return { study: { id: study.id, code: study.code, title: study.title }, responses: table.responses.map((r) => ({ key: r.key, name: r.name })), rows, audit };
+  const search = new URL(request.url).searchParams;
+  const pageParam = (name: string) => Math.max(1, Number(search.get(name)) || 1);
+  const [table, audit, marks] = await Promise.all([studyResults(study.id, pageParam("labs")), studyAuditTrail(study.id, pageParam("page")), studyBatchMarks(study.id)]);
+  const marksByCell = new Map(marks.map((m) => [`${m.enrollmentId}:${m.materialId}`, m.readings]));
+  const rows = table.rows.map((row) => ({ ...row, fresh: marksByCell.get(`${row.enrollmentId}:${row.materialId}`) ?? [] }));
+  return {
+    study: { id: study.id, code: study.code, title: study.title },
+    responses: table.responses.map((r) => ({ key: r.key, name: r.name })),
+    rows,
+    labsPage: table.labsPage,
+    labsPageCount: table.labsPageCount,
+    audit,
+  };
 }
 
 const ACTION_LABEL: Record<string, string> = {
@@ -26,6 +35,9 @@ const ACTION_LABEL: Record<string, string> = {
   "batch.fresh_properties_saved": "Fresh properties saved",
   "query.answered": "Query answered",
 };
+
+/** A link to one page of the results table and one page of the audit trail. */
+const pageLink = (labs: number, page: number) => `?${new URLSearchParams({ labs: String(labs), page: String(page) })}`;
 
 const when = (date: Date | string | number) => `${new Date(date).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" })} UTC`;
 
@@ -48,7 +60,7 @@ function describeValues(value: unknown): string {
 }
 
 export default function StudyResults({ loaderData }: Route.ComponentProps) {
-  const { study, responses, rows, audit } = loaderData;
+  const { study, responses, rows, labsPage, labsPageCount, audit } = loaderData;
   const amendmentRows = rows.flatMap((r) => r.amendments.map((a) => ({ ...a, labCode: r.labCode, materialCode: r.materialCode })));
   return (
     <>
@@ -82,6 +94,23 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
               ),
             ])}
           />
+          {labsPageCount > 1 && (
+            <nav aria-label="Results pages" className="mt-3 flex gap-4">
+              <span>
+                Labs page {labsPage} of {labsPageCount}
+              </span>
+              {labsPage > 1 && (
+                <Link to={pageLink(labsPage - 1, audit.page)} className="font-semibold text-basalt-700 underline">
+                  Previous labs
+                </Link>
+              )}
+              {labsPage < labsPageCount && (
+                <Link to={pageLink(labsPage + 1, audit.page)} className="font-semibold text-basalt-700 underline">
+                  Next labs
+                </Link>
+              )}
+            </nav>
+          )}
         </Card>
         <Card title="Amendments">
           {amendmentRows.length === 0 ? (
@@ -105,12 +134,12 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
           />
           <nav aria-label="Audit trail pages" className="mt-3 flex gap-4">
             {audit.page > 1 && (
-              <Link to={`?page=${audit.page - 1}`} className="font-semibold text-basalt-700 underline">
+              <Link to={pageLink(labsPage, audit.page - 1)} className="font-semibold text-basalt-700 underline">
                 Newer events
               </Link>
             )}
             {audit.page < audit.pageCount && (
-              <Link to={`?page=${audit.page + 1}`} className="font-semibold text-basalt-700 underline">
+              <Link to={pageLink(labsPage, audit.page + 1)} className="font-semibold text-basalt-700 underline">
                 Older events
               </Link>
             )}
