@@ -56,14 +56,15 @@ export async function listLabEnrollments(labIds: number[]) {
     .orderBy(asc(studies.code));
 }
 
-/** Submitted and draft cell counts of one enrollment, for its own lab's to-do list. */
-export async function enrollmentProgress(enrollmentId: number) {
+/** Submitted cell counts of the given enrollments (one query), for their own lab's to-do list. */
+export async function submittedCellCounts(enrollmentIds: number[]) {
+  if (enrollmentIds.length === 0) return new Map<number, number>();
   const rows = await db
-    .select({ status: cells.status, cells: count() })
+    .select({ enrollmentId: cells.enrollmentId, cells: count() })
     .from(cells)
-    .where(eq(cells.enrollmentId, enrollmentId))
-    .groupBy(cells.status);
-  return Object.fromEntries(rows.map((r) => [r.status, r.cells])) as Partial<Record<"draft" | "submitted", number>>;
+    .where(and(inArray(cells.enrollmentId, enrollmentIds), eq(cells.status, "submitted")))
+    .groupBy(cells.enrollmentId);
+  return new Map(rows.map((r) => [r.enrollmentId, r.cells]));
 }
 
 export { CELL_STATUS_ORDER, type CellStatus };

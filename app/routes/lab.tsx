@@ -2,7 +2,7 @@ import { Link } from "react-router";
 import type { Route } from "./+types/lab";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireRole } from "~/lib/guards.server";
-import { enrollmentProgress, listLabEnrollments } from "~/models/study.server";
+import { listLabEnrollments, submittedCellCounts } from "~/models/study.server";
 import { STATE_LABEL } from "~/lib/study-states";
 
 export const meta: Route.MetaFunction = () => [{ title: "My lab · Ringbatch" }];
@@ -10,10 +10,8 @@ export const meta: Route.MetaFunction = () => [{ title: "My lab · Ringbatch" }]
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, "analyst");
   const enrollmentRows = await listLabEnrollments(user.labIds);
-  const withProgress = await Promise.all(
-    enrollmentRows.map(async (e) => ({ ...e, progress: await enrollmentProgress(e.enrollmentId) })),
-  );
-  return { enrollments: withProgress };
+  const submitted = await submittedCellCounts(enrollmentRows.map((e) => e.enrollmentId));
+  return { enrollments: enrollmentRows.map((e) => ({ ...e, submittedCells: submitted.get(e.enrollmentId) ?? 0 })) };
 }
 
 export default function LabHome({ loaderData }: Route.ComponentProps) {
@@ -45,7 +43,7 @@ export default function LabHome({ loaderData }: Route.ComponentProps) {
               e.labName,
               e.labCode ?? "—",
               <Badge key="state">{STATE_LABEL[e.studyState]}</Badge>,
-              `${e.progress.submitted ?? 0} cells`,
+              `${e.submittedCells} cells`,
               e.resultsDue ?? "—",
             ])}
           />
