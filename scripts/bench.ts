@@ -95,6 +95,8 @@ try {
   const load = (url: string, headers: Record<string, string> = {}) =>
     autocannon({ url, connections: 10, duration: 8, headers }) as Promise<autocannon.Result>;
   const appLoad = await load(precisionUrl, { Cookie: coordinator });
+  // The same server's lightest route: what the HTTP stack itself allows, whatever a route does.
+  const healthLoad = await load(`${server.url}/healthz`);
   const bareLoad = await load(`http://127.0.0.1:${barePort}/`);
   bare.close();
 
@@ -120,6 +122,7 @@ try {
     "≥ 0.5",
     ratio >= 0.5,
   );
+  console.log(`   for scale: GET /healthz on the same server ${healthLoad.requests.average.toFixed(0)} req/s (one trivial query, the server stack's ceiling)`);
   line("4. result entry autosave round trip, 200", `p50 ${ms(autosave.p50)}, p95 ${ms(autosave.p95)}`, "p95 ≤ 50 ms", autosave.p95 <= 50);
   for (const page of javascriptPerPage()) {
     const goal = page.route.includes("results.$materialId") ? "≤ 150 kB" : "";
