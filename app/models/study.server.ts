@@ -136,3 +136,17 @@ export function statusCountsByMaterial(matrix: StudyMatrix) {
     return { materialId: m.id, code: m.code, counts };
   });
 }
+
+/** The progress figures the overview polls: every lab for the coordinator, one lab's own row for an analyst. */
+export async function studyProgress(study: Pick<typeof studies.$inferSelect, "id" | "code" | "state" | "resultsDue">, onlyEnrollmentId?: number) {
+  const matrix = await studyMatrix(study.id, onlyEnrollmentId ? { enrollmentId: onlyEnrollmentId } : {});
+  return {
+    study: { id: study.id, code: study.code, state: study.state, resultsDue: study.resultsDue },
+    materials: matrix.materials.map((m) => ({ id: m.id, code: m.code })),
+    labs: matrix.rows.map((r) => ({ enrollmentId: r.id, labCode: r.labCode, labName: r.labName, statuses: r.statuses, submitted: r.submitted })),
+    counts: statusCountsByMaterial(matrix),
+    generatedAt: new Date().toISOString(),
+  };
+}
+
+export type StudyProgress = Awaited<ReturnType<typeof studyProgress>>;

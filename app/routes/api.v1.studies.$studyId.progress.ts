@@ -1,23 +1,16 @@
-import { data } from "react-router";
 import type { Route } from "./+types/api.v1.studies.$studyId.progress";
-import { requireStudyAccess } from "~/lib/guards.server";
-import { statusCountsByMaterial, studyMatrix } from "~/models/study.server";
+import { apiHandler, requireApiStudyAccess } from "~/lib/api.server";
+import { studyProgress } from "~/models/study.server";
 
 /**
- * Cell status per lab × material and counts per material. A lab reads its own
- * row only; coordinators and admins read every lab. The overview polls this.
+ * GET /api/v1/studies/:studyId/progress — cell status per lab × material and
+ * counts per material. A lab reads its own row only; coordinators and admins
+ * read every lab. The overview polls this.
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { study, access, enrollment } = await requireStudyAccess(request, params.studyId, ["coordinator", "admin", "analyst"]);
-  const matrix = await studyMatrix(study.id, access === "analyst" ? { enrollmentId: enrollment!.id } : {});
-  return data(
-    {
-      study: { id: study.id, code: study.code, state: study.state, resultsDue: study.resultsDue },
-      materials: matrix.materials.map((m) => ({ id: m.id, code: m.code })),
-      labs: matrix.rows.map((r) => ({ enrollmentId: r.id, labCode: r.labCode, labName: r.labName, statuses: r.statuses, submitted: r.submitted })),
-      counts: statusCountsByMaterial(matrix),
-      generatedAt: new Date().toISOString(),
-    },
-    { headers: { "Cache-Control": "no-store" } },
-  );
+  return apiHandler(async () => {
+    const { study, access, enrollment } = await requireApiStudyAccess(request, params.studyId, ["coordinator", "admin", "analyst"]);
+    const progress = await studyProgress(study, access === "analyst" ? enrollment!.id : undefined);
+    return Response.json(progress, { headers: { "Cache-Control": "no-store" } });
+  });
 }

@@ -13,8 +13,7 @@ import { STATE_LABEL } from "~/lib/study-states";
 import { remindLabsWithMissingResults } from "~/models/reminder.server";
 import { listStudyShipments } from "~/models/shipment.server";
 import { CELL_STATUS_ORDER, type CellStatus } from "~/lib/cell-status";
-import { statusCountsByMaterial, studyMatrix } from "~/models/study.server";
-import type { loader as progressLoader } from "./api.v1.studies.$studyId.progress";
+import { type StudyProgress, statusCountsByMaterial, studyMatrix } from "~/models/study.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.study.code ?? "Study"} · Ringbatch` }];
 
@@ -72,7 +71,7 @@ function Bar({ label, value, max }: { label: string; value: number; max: number 
 
 export default function StudyOverview({ loaderData, actionData }: Route.ComponentProps) {
   const { study, shipments, canRemind, today } = loaderData;
-  const progress = useFetcher<typeof progressLoader>();
+  const progress = useFetcher<StudyProgress>();
   const busy = useNavigation().state === "submitting";
   const result = actionData as ActionResult | undefined;
 

@@ -7,6 +7,7 @@ import { loadSessionUser } from "~/models/user.server";
 import { createApiToken, revokeApiToken } from "~/models/api-token.server";
 import * as healthz from "~/routes/api.v1.healthz";
 import * as precision from "~/routes/api.v1.studies.$studyId.precision";
+import * as progress from "~/routes/api.v1.studies.$studyId.progress";
 import * as study from "~/routes/api.v1.studies.$studyId";
 import * as results from "~/routes/api.v1.studies.$studyId.results";
 import * as resultsCsv from "~/routes/api.v1.studies.$studyId.results-csv";
@@ -142,6 +143,20 @@ describe("API endpoints by role", () => {
     const badAlpha = await call(precision.loader, get(`/api/v1/studies/${checkingId}/precision?alpha=0.2`, await demoCookie("coordinator@ringbatch.example")), params);
     expect(badAlpha.status).toBe(422);
     expect((await call(precision.loader, get("/", await demoCookie("analyst2@ringbatch.example")), params)).status).toBe(404);
+  });
+
+  it("gives progress to the coordinator (every lab) and to an analyst's study:read token (its own lab only)", async () => {
+    const params = { studyId: String(testingId) };
+    const path = `/api/v1/studies/${testingId}/progress`;
+    const coordinator = await call(progress.loader, get(path, await demoCookie("coordinator@ringbatch.example")), params);
+    expect(coordinator.data.labs).toHaveLength(8);
+    const analyst = await userNamed("analyst2@ringbatch.example");
+    const { token } = await createApiToken(analyst, { name: "dashboard", scope: "study:read", studyId: testingId });
+    const own = await call(progress.loader, bearer(path, token), params);
+    expect(own.status).toBe(200);
+    expect(own.data.labs.map((l: { labName: string }) => l.labName)).toEqual([DEMO_LABS[1].name]);
+    expect((await call(progress.loader, get(path), params)).status).toBe(401);
+    expect((await call(progress.loader, get(path, await demoCookie("reviewer1@ringbatch.example")), params)).status).toBe(404);
   });
 
   it("reports health", async () => {
