@@ -1,0 +1,61 @@
+import { eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
+import { studies } from "~/db/schema";
+import * as analysisPage from "~/routes/studies.$studyId.analysis";
+import * as reviewPage from "~/routes/review.$studyId";
+import * as statementPage from "~/routes/studies.$studyId.statement";
+import { seedDemo } from "../../seed/seed";
+import { useFreshDatabase } from "../support/database";
+import { demoCookie } from "../support/demo";
+import { call, get, post } from "../support/routes";
+
+let studyId: string;
+let coordinator: string;
+const reviewers: string[] = [];
+
+beforeAll(async () => {
+  await useFreshDatabase();
+  await seedDemo(db);
+  studyId = String((await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!.id);
+  coordinator = await demoCookie("coordinator@ringbatch.example");
+  for (const n of [1, 2, 3]) reviewers.push(await demoCookie(`reviewer${n}@ringbatch.example`));
+});
+
+const coordinatorDoes = (fields: Record<string, string>) => call(statementPage.action, post(`/studies/${studyId}/statement`, fields, coordinator), { studyId });
+const reviewerDoes = (i: number, fields: Record<string, string>) => call(reviewPage.action, post(`/review/${studyId}`, fields, reviewers[i]), { studyId });
+const statementNow = async () => (await call(statementPage.loader, get(`/studies/${studyId}/statement`, coordinator), { studyId })).data;
+const studyState = async () => (await db.query.studies.findFirst({ where: eq(studies.id, Number(studyId)) }))!.state;
+const decide = (fields: Record<string, string>) => call(analysisPage.action, post(`/studies/${studyId}/analysis`, { intent: "decide", ...fields }, coordinator), { studyId });
+
+describe("an objection upheld", () => {
+  it("returns the version, sends the study back to checking, and a new version starts a new round", async () => {
+    await coordinatorDoes({ intent: "freeze" });
+    const first = (await statementNow()).latest;
+    expect((await coordinatorDoes({ intent: "send", statementId: String(first.id) })).status).toBe(200);
+    await reviewerDoes(0, { intent: "vote", choice: "object", reason: "L08 on M2 is far off: ask the lab before publishing." });
+    await reviewerDoes(1, { intent: "vote", choice: "approve", reason: "" });
+    const objection = (await statementNow()).votes.find((v: { choice: string }) => v.choice === "object");
+
+    const answered = await coordinatorDoes({ intent: "answer", voteId: String(objection.id), answer: "upheld", rationale: "Agreed: the lab will be asked and the statement revised." });
+    expect(answered.status).toBe(200);
+    expect(await studyState()).toBe("checking");
+    expect((await statementNow()).latest).toMatchObject({ version: 1, state: "returned" });
+
+    // Back in checking the coordinator may decide again, then freezes and sends a second version.
+    expect((await decide({ lab: "L08", material: "M2", response: "surface", decision: "excluded", reason: "The lab found its float was not the specified one." })).status).toBe(200);
+    await coordinatorDoes({ intent: "freeze" });
+    const second = (await statementNow()).latest;
+    expect(second).toMatchObject({ version: 2, state: "draft" });
+    expect(second.textE691).toContain("L08");
+    expect((await coordinatorDoes({ intent: "send", statementId: String(second.id) })).status).toBe(200);
+    expect(await studyState()).toBe("in_review");
+
+    // The first round's votes do not carry over: publication waits for votes on version 2.
+    const blocked = await coordinatorDoes({ intent: "publish" });
+    expect(blocked.status).toBe(409);
+    for (const i of [0, 1, 2]) expect((await reviewerDoes(i, { intent: "vote", choice: "approve", reason: "" })).status).toBe(200);
+    expect((await coordinatorDoes({ intent: "publish" })).status).toBe(200);
+    expect(await studyState()).toBe("published");
+  });
+});
