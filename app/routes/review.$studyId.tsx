@@ -10,7 +10,8 @@ import { requireStudyAccess } from "~/lib/guards.server";
 import { reviewRefusal } from "~/lib/review/write-rules";
 import { STATE_LABEL } from "~/lib/study-states";
 import { addComment, castVote, commentsOn, ReviewError } from "~/models/review.server";
-import { listStatements, votesOn } from "~/models/statement.server";
+import { studyAnalysis } from "~/models/analysis.server";
+import { listStatements, studyDesign, votesOn } from "~/models/statement.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Review · ${data?.study.code ?? "Study"} · Ringbatch` }];
 
@@ -20,7 +21,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const statement = (await listStatements(study.id)).find((s) => s.sentAt !== null) ?? null;
   const [roundVotes, comments] = statement ? await Promise.all([votesOn(statement.id), commentsOn(statement.id)]) : [[], []];
   const own = roundVotes.find((v) => v.reviewerId === user.id) ?? null;
+  // Before a version is sent, the committee can follow the blinded figures as they stand.
+  const current = statement ? null : { analysis: await studyAnalysis(study), responses: (await studyDesign(study.id)).responses };
   return {
+    current,
     study: { id: study.id, code: study.code, title: study.title, testMethod: study.testMethod, state: study.state },
     statement: statement && {
       version: statement.version,
@@ -79,7 +83,7 @@ const CHOICES = [
 ] as const;
 
 export default function ReviewStudy({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, statement, votes, own, comments, refusal } = loaderData;
+  const { study, statement, current, votes, own, comments, refusal } = loaderData;
   const outcome = actionData as Outcome | undefined;
   const failed = outcome && !outcome.ok ? outcome : null;
   return (
@@ -97,9 +101,24 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
         {outcome?.ok && <Notice tone="success">{outcome.message}</Notice>}
         {failed?.errors?.form && <Notice tone="error">{failed.errors.form}</Notice>}
         {!statement ? (
-          <Card>
-            <p>The coordinator has not sent a statement to the committee yet.</p>
-          </Card>
+          <>
+            <Card title="No statement yet">
+              <p>
+                The coordinator has not sent a statement to the committee yet. Below are the figures as they stand now, from the submitted
+                results and the coordinator's decisions so far; they may still change before a version is frozen and sent to you.
+              </p>
+            </Card>
+            {current && (
+              <>
+                <Card title="Current consistency and precision charts">
+                  <LazyCharts analysis={current.analysis} responses={current.responses} />
+                </Card>
+                <Card title="Current figures">
+                  <PrecisionTables analysis={current.analysis} responses={current.responses} headingLevel={3} />
+                </Card>
+              </>
+            )}
+          </>
         ) : (
           <>
             <Card title={`Statement version ${statement.version}`}>

@@ -5,6 +5,7 @@ import { studies } from "~/db/schema";
 import * as analysisPage from "~/routes/studies.$studyId.analysis";
 import * as reviewPage from "~/routes/review.$studyId";
 import * as statementPage from "~/routes/studies.$studyId.statement";
+import { DEMO_LABS } from "../../seed/demo-data";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
@@ -27,6 +28,17 @@ const reviewerDoes = (i: number, fields: Record<string, string>) => call(reviewP
 const statementNow = async () => (await call(statementPage.loader, get(`/studies/${studyId}/statement`, coordinator), { studyId })).data;
 const studyState = async () => (await db.query.studies.findFirst({ where: eq(studies.id, Number(studyId)) }))!.state;
 const decide = (fields: Record<string, string>) => call(analysisPage.action, post(`/studies/${studyId}/analysis`, { intent: "decide", ...fields }, coordinator), { studyId });
+
+describe("the committee before a statement is sent", () => {
+  it("sees the current blinded figures, with the planted outlier flagged and no lab named", async () => {
+    const page = await call(reviewPage.loader, get(`/review/${studyId}`, reviewers[0]), { studyId });
+    expect(page.data.statement).toBeNull();
+    const m2surface = page.data.current.analysis.groups.find((g: { material: string; response: string }) => g.material === "M2" && g.response === "surface");
+    expect(m2surface.labs.find((l: { lab: string }) => l.lab === "L08").flags).toEqual(["h"]);
+    const text = JSON.stringify(page.data);
+    for (const lab of DEMO_LABS) expect(text).not.toContain(lab.name);
+  });
+});
 
 describe("an objection upheld", () => {
   it("returns the version, sends the study back to checking, and a new version starts a new round", async () => {
