@@ -1,32 +1,6 @@
 /** The study's own fields, shared by the new-study form and the setup page. */
-import type { ComponentProps } from "react";
-import { Field, SelectField } from "~/components/ui";
+import { Field, SelectField, TextAreaField } from "~/components/ui";
 import type { FieldErrors } from "~/lib/forms";
-
-export function TextAreaField({ label, name, error, ...props }: ComponentProps<"textarea"> & { label: string; name: string; error?: string }) {
-  const id = `field-${name}`;
-  return (
-    <div className="flex flex-col gap-1">
-      <label htmlFor={id} className="font-semibold text-basalt-800">
-        {label}
-      </label>
-      <textarea
-        id={id}
-        name={name}
-        rows={3}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={error ? `${id}-error` : undefined}
-        className={`rounded-md border bg-white px-3 py-2 ${error ? "border-signal-700" : "border-basalt-200"}`}
-        {...props}
-      />
-      {error && (
-        <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
-          {error}
-        </p>
-      )}
-    </div>
-  );
-}
 
 export type StudyFieldValues = {
   code: string;

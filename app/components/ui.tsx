@@ -13,6 +13,16 @@ export function PageHeader({ title, subtitle, actions }: { title: string; subtit
   );
 }
 
+/** A page that only says something: a refused link, a finished step. */
+export function MessagePage({ title, message }: { title: string; message: ReactNode }) {
+  return (
+    <div className="mx-auto max-w-xl">
+      <h1 className="mb-2 text-2xl font-bold">{title}</h1>
+      <p className="text-basalt-700">{message}</p>
+    </div>
+  );
+}
+
 export function Card({ title, children, className = "" }: { title?: string; children: ReactNode; className?: string }) {
   return (
     <section className={`rounded-lg border border-basalt-100 bg-white p-5 shadow-sm ${className}`}>
@@ -69,6 +79,45 @@ export function Field({
           {hint}
         </p>
       )}
+      {error && (
+        <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
+          {error}
+        </p>
+      )}
+    </div>
+  );
+}
+
+/** A labelled multi-line input, with its hint and its error message beside it. */
+export function TextAreaField({
+  label,
+  name,
+  error,
+  hint,
+  rows = 4,
+  ...textarea
+}: ComponentProps<"textarea"> & { label: string; name: string; error?: string; hint?: string }) {
+  const id = `field-${name}`;
+  const describedBy = [error ? `${id}-error` : null, hint ? `${id}-hint` : null].filter(Boolean).join(" ") || undefined;
+  return (
+    <div className="flex flex-col gap-1">
+      <label htmlFor={id} className="font-semibold text-basalt-800">
+        {label}
+      </label>
+      {hint && (
+        <p id={`${id}-hint`} className="text-sm text-basalt-700">
+          {hint}
+        </p>
+      )}
+      <textarea
+        id={id}
+        name={name}
+        rows={rows}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={describedBy}
+        className={`rounded-md border bg-white px-3 py-2 ${error ? "border-signal-700" : "border-basalt-200"}`}
+        {...textarea}
+      />
       {error && (
         <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
           {error}

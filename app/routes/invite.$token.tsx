@@ -1,7 +1,7 @@
 import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/invite.$token";
-import { Button, Card, Field, Notice } from "~/components/ui";
+import { Button, Card, Field, MessagePage, Notice } from "~/components/ui";
 import { redirectSignedIn } from "~/lib/auth.server";
 import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
 import { getUser } from "~/lib/guards.server";
@@ -78,21 +78,9 @@ export default function Invitation({ loaderData, actionData }: Route.ComponentPr
   const result = actionData as ActionResult | undefined;
   const accept = formState(result, "accept");
   const busy = useNavigation().state === "submitting";
-  if (refusal) {
-    return (
-      <div className="mx-auto max-w-xl">
-        <h1 className="mb-2 text-2xl font-bold">{refusal.title}</h1>
-        <p className="text-basalt-700">{refusal.message}</p>
-      </div>
-    );
-  }
+  if (refusal) return <MessagePage title={refusal.title} message={refusal.message} />;
   if (result?.intent === "decline" && result.done) {
-    return (
-      <div className="mx-auto max-w-xl">
-        <h1 className="mb-2 text-2xl font-bold">Invitation declined</h1>
-        <p className="text-basalt-700">Thank you for letting us know. The link no longer works.</p>
-      </div>
-    );
+    return <MessagePage title="Invitation declined" message="Thank you for letting us know. The link no longer works." />;
   }
   const inv = invitation!;
   return (

@@ -1,7 +1,6 @@
 import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/lab.studies.$studyId.receipt";
-import { TextAreaField } from "~/components/StudyFields";
-import { Badge, Button, Card, Field, Notice, PageHeader } from "~/components/ui";
+import { Badge, Button, Card, Field, Notice, PageHeader, TextAreaField } from "~/components/ui";
 import { type ActionResult, FieldRefusal, formState, handleForm, refused } from "~/lib/form-results";
 import { requireStudyAccess } from "~/lib/guards.server";
 import { receiptSchema } from "~/lib/study-forms";

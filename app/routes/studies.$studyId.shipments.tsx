@@ -1,10 +1,9 @@
 import { Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/studies.$studyId.shipments";
-import { TextAreaField } from "~/components/StudyFields";
 import { DataTable } from "~/components/DataTable";
 import { StudyNav } from "~/components/StudyNav";
-import { Badge, Button, Card, Field, Notice, PageHeader, SelectField } from "~/components/ui";
+import { Badge, Button, Card, Field, Notice, PageHeader, SelectField, TextAreaField } from "~/components/ui";
 import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
 import { requireStudyAccess } from "~/lib/guards.server";
 import { shipmentCreateSchema, shipSchema } from "~/lib/study-forms";

@@ -1,7 +1,7 @@
 import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/welcome.$token";
-import { Button, Card, Field, Notice } from "~/components/ui";
+import { Button, Card, Field, MessagePage, Notice } from "~/components/ui";
 import { redirectSignedIn } from "~/lib/auth.server";
 import { type ActionResult, FieldRefusal, formState, handleForm, refused } from "~/lib/form-results";
 import { clientAddress, isLimited, LINK_MISSES, recordHit } from "~/lib/rate-limit.server";
@@ -50,14 +50,7 @@ export default function Welcome({ loaderData, actionData }: Route.ComponentProps
   const { refusal, account } = loaderData;
   const state = formState(actionData as ActionResult | undefined, "password");
   const busy = useNavigation().state === "submitting";
-  if (refusal) {
-    return (
-      <div className="mx-auto max-w-xl">
-        <h1 className="mb-2 text-2xl font-bold">{refusal.title}</h1>
-        <p className="text-basalt-700">{refusal.message}</p>
-      </div>
-    );
-  }
+  if (refusal) return <MessagePage title={refusal.title} message={refusal.message} />;
   return (
     <div className="mx-auto flex max-w-md flex-col gap-4">
       <h1 className="text-2xl font-bold">Welcome, {account!.name}</h1>
