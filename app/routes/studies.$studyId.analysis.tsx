@@ -115,7 +115,7 @@ type ActionData = Route.ComponentProps["actionData"];
 const cellHref = (alpha: number, cell: CellRef) => `?alpha=${alpha}&cell=${encodeURIComponent(cellKey(cell))}#investigate`;
 
 export default function Analysis({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, analysis, responses, alpha, flagged, decisions, cell } = loaderData;
+  const { study, analysis, responses, alpha, decisions, cell } = loaderData;
   const excludedKeys = new Set(decisions.filter((d) => d.decision === "excluded").map(cellKey));
   return (
     <>

@@ -12,7 +12,7 @@ import { resultsEditable } from "~/lib/study-lifecycle";
 import { STATE_LABEL } from "~/lib/study-states";
 import { remindLabsWithMissingResults } from "~/models/reminder.server";
 import { listStudyShipments } from "~/models/shipment.server";
-import { CELL_STATUS_ORDER, type CellStatus } from "~/lib/cell-status";
+import { CELL_STATUS_ORDER } from "~/lib/cell-status";
 import { type StudyProgress, statusCountsByMaterial, studyMatrix } from "~/models/study.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.study.code ?? "Study"} · Ringbatch` }];
