@@ -16,10 +16,6 @@ export async function createLab(input: LabInput) {
   return lab!;
 }
 
-export async function updateLab(labId: number, input: LabInput) {
-  await db.update(labs).set(input).where(eq(labs.id, labId));
-}
-
 export async function listColleagues(labId: number) {
   return db
     .select({ id: users.id, name: users.name, email: users.email, isContact: labMembers.isContact, disabledAt: users.disabledAt })

@@ -23,7 +23,6 @@ export const FRESH_FIELDS = {
 } as const;
 
 export type FreshProperty = keyof typeof FRESH_FIELDS;
-export type FreshColumn = (typeof FRESH_FIELDS)[FreshProperty]["column"];
 export const FRESH_PROPERTY_NAMES = Object.keys(FRESH_FIELDS) as FreshProperty[];
 
 export type FreshReadingCheck =
