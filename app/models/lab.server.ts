@@ -16,6 +16,15 @@ export async function createLab(input: LabInput) {
   return lab!;
 }
 
+/** Changes a lab's directory entry; the name stays unique. */
+export async function updateLab(labId: number, input: LabInput) {
+  if (!(await db.query.labs.findFirst({ where: eq(labs.id, labId) }))) throw new AccountError("form", "That lab no longer exists.");
+  const sameName = await db.query.labs.findFirst({ where: eq(labs.name, input.name) });
+  if (sameName && sameName.id !== labId) throw new AccountError("name", "A lab with this name already exists.");
+  const [lab] = await db.update(labs).set(input).where(eq(labs.id, labId)).returning();
+  return lab!;
+}
+
 export async function listColleagues(labId: number) {
   return db
     .select({ id: users.id, name: users.name, email: users.email, isContact: labMembers.isContact, disabledAt: users.disabledAt })

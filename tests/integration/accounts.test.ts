@@ -125,4 +125,19 @@ describe("admin pages", () => {
     const badEmail = await call(adminLabs.action, post("/admin/labs", { ...lab, name: "Other", contactEmail: "nope" }, admin));
     expect(badEmail.data.errors.contactEmail).toMatch(/e-mail/);
   });
+
+  it("edits a lab's entry, so a lab without a contact e-mail can be invited", async () => {
+    const admin = await demoCookie("admin@ringbatch.example");
+    const norrow = (await db.query.labs.findFirst({ where: eq(labs.name, "Norrow Field Lab") }))!;
+    const page = await call(adminLabs.loader, get(`/admin/labs?edit=${norrow.id}`, admin));
+    expect(page.data.editing.name).toBe("Norrow Field Lab");
+    const entry = { labId: String(norrow.id), name: "Norrow Field Lab", address: "1 Test Road", contactName: "Ada Quill", contactEmail: "ada@norrow.example", accreditationNumber: "QA-0001" };
+    const saved = await call(adminLabs.action, post("/admin/labs", entry, admin));
+    expect(saved.data.done).toBe("Norrow Field Lab saved.");
+    expect((await db.query.labs.findFirst({ where: eq(labs.id, norrow.id) }))!.contactEmail).toBe("ada@norrow.example");
+    const taken = await call(adminLabs.action, post("/admin/labs", { ...entry, name: "Tessel Ready-Mix QC" }, admin));
+    expect(taken.data.errors.name).toBe("A lab with this name already exists.");
+    const gone = await call(adminLabs.action, post("/admin/labs", { ...entry, labId: "999999" }, admin));
+    expect(gone.data.errors.form).toBe("That lab no longer exists.");
+  });
 });
