@@ -9,13 +9,23 @@ export const meta: Route.MetaFunction = () => [{ title: "Studies · Ringbatch" }
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, "coordinator", "admin");
-  return { studies: await listCoordinatedStudies(user) };
+  return { studies: await listCoordinatedStudies(user), canCreate: user.role === "coordinator" };
 }
 
 export default function Studies({ loaderData }: Route.ComponentProps) {
   return (
     <>
-      <PageHeader title="Studies" subtitle="Interlaboratory studies you coordinate." />
+      <PageHeader
+        title="Studies"
+        subtitle="Interlaboratory studies you coordinate."
+        actions={
+          loaderData.canCreate && (
+            <Link to="/studies/new" className="inline-flex min-h-11 items-center rounded-md bg-basalt-700 px-4 py-2 font-semibold text-white hover:bg-basalt-800">
+              New study
+            </Link>
+          )
+        }
+      />
       <Card>
         {loaderData.studies.length === 0 ? (
           <p>No studies yet.</p>
