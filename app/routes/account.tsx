@@ -189,7 +189,7 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
           />
         )}
         {targets.length > 0 ? (
-          {/* A new key after each created token empties the form for the next one. */}
+          // A new key after each created token empties the form for the next one.
           <Form method="post" className="mt-4 grid gap-4 md:grid-cols-3" key={result?.token ?? "token-form"}>
             <input type="hidden" name="intent" value="create-token" />
             <Field label="Token name" name="tokenName" hint="Say where it is used, e.g. the lab system's name." defaultValue={valuesFor("create-token").tokenName} error={errorsFor("create-token").tokenName} required />
