@@ -15,6 +15,7 @@ import {
   queries,
   responses,
   results,
+  shipments,
   studies,
   studyReviewers,
   type StudyState,
@@ -47,6 +48,9 @@ type StudySpec = {
   draftLabs: number[];
   resultSeed: number;
   plants?: typeof CHECKING_STUDY_PLANTS;
+  /** Labs whose materials are still on the way (the rest received them, one of them damaged when `damagedLab` is set). */
+  inTransitLabs: number[];
+  damagedLab?: { labIndex: number; notes: string };
   /** A question the coordinator has already put to one lab about one cell. */
   openQuery?: { labIndex: number; material: string; response: string; statistic: string; question: string };
 };
@@ -64,6 +68,8 @@ const STUDIES: StudySpec[] = [
     draftLabs: [],
     resultSeed: CHECKING_STUDY_SEED,
     plants: CHECKING_STUDY_PLANTS,
+    inTransitLabs: [],
+    damagedLab: { labIndex: 5, notes: "One bag of natural sand torn in transit; the lab batched from the spare bag of the same lot." },
   },
   {
     code: "FF-2026-B",
@@ -76,6 +82,7 @@ const STUDIES: StudySpec[] = [
     submittedLabs: [0, 1, 2, 3],
     draftLabs: [4, 5],
     resultSeed: 7331,
+    inTransitLabs: [6, 7],
     openQuery: {
       labIndex: 0,
       material: "F1",
@@ -151,7 +158,7 @@ export async function seedDemo(db: Database) {
         await tx.insert(mixtureConstituents).values(m.constituents.map((c, j) => ({ ...c, materialId: material!.id, sortOrder: j })));
         materialRows.push(material!);
       }
-      const enrollmentIds = [];
+      const enrollmentIds: number[] = [];
       for (const [i, labId] of labIds.entries()) {
         const [enrollment] = await tx
           .insert(enrollments)
@@ -159,6 +166,24 @@ export async function seedDemo(db: Database) {
           .returning();
         enrollmentIds.push(enrollment!.id);
       }
+      const contents = spec.materials.map((m) => `${m.code}: ${m.constituents.filter((c) => c.lot).map((c) => `${c.name} lot ${c.lot}`).join(", ")}`).join("\n");
+      await tx.insert(shipments).values(
+        enrollmentIds.map((enrollmentId, labIndex) => {
+          const inTransit = spec.inTransitLabs.includes(labIndex);
+          const damaged = spec.damagedLab?.labIndex === labIndex;
+          return {
+            enrollmentId,
+            contents,
+            carrier: "Brellwick Freight",
+            trackingNumber: `BW-${spec.code.slice(-1)}${String(4101 + labIndex)}`,
+            shippedOn: inTransit ? "2026-11-24" : "2026-09-01",
+            status: inTransit ? ("shipped" as const) : ("received" as const),
+            receivedOn: inTransit ? null : "2026-09-04",
+            condition: inTransit ? null : damaged ? ("damaged" as const) : ("good" as const),
+            receiptNotes: damaged ? spec.damagedLab!.notes : "",
+          };
+        }),
+      );
       const cellIdOf = new Map<string, number>();
       const values = demoResults(materialRows.map((m) => m.code), REPLICATES, spec.resultSeed, spec.plants);
       for (const labIndex of [...spec.submittedLabs, ...spec.draftLabs]) {

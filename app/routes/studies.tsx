@@ -9,7 +9,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Studies · Ringbatch" }
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, "coordinator", "admin");
-  return { studies: await listCoordinatedStudies(user), canCreate: user.role === "coordinator" };
+  return { studies: await listCoordinatedStudies(user), everyStudy: user.role === "admin" };
 }
 
 export default function Studies({ loaderData }: Route.ComponentProps) {
@@ -17,14 +17,7 @@ export default function Studies({ loaderData }: Route.ComponentProps) {
     <>
       <PageHeader
         title="Studies"
-        subtitle="Interlaboratory studies you coordinate."
-        actions={
-          loaderData.canCreate && (
-            <Link to="/studies/new" className="inline-flex min-h-11 items-center rounded-md bg-basalt-700 px-4 py-2 font-semibold text-white hover:bg-basalt-800">
-              New study
-            </Link>
-          )
-        }
+        subtitle={loaderData.everyStudy ? "Every interlaboratory study, read-only for administrators." : "Interlaboratory studies you coordinate. Start one with New study in the menu above."}
       />
       <Card>
         {loaderData.studies.length === 0 ? (

@@ -1,4 +1,4 @@
-import { and, eq } from "drizzle-orm";
+import { and, desc, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { cells, emailOutbox, enrollments, labs, materials, mixtureConstituents, queries, shipments, studies, users } from "~/db/schema";
@@ -157,7 +157,7 @@ describe("shipments and receipt", () => {
   });
 
   it("marks it shipped and e-mails the lab; refuses a missing carrier or date and a second move", async () => {
-    const shipment = (await db.query.shipments.findFirst({ where: eq(shipments.enrollmentId, enrollmentId) }))!;
+    const shipment = (await db.query.shipments.findFirst({ where: eq(shipments.enrollmentId, enrollmentId), orderBy: desc(shipments.id) }))!;
     const id = String(shipment.id);
     expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "", carrier: "Kestrel Freight", trackingNumber: "" })).data.errors.shippedOn).toContain("YYYY-MM-DD");
     expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2027-02-15", carrier: "", trackingNumber: "" })).data.errors.carrier).toBe("Name the carrier.");
@@ -171,7 +171,7 @@ describe("shipments and receipt", () => {
   });
 
   it("lets the lab confirm receipt with a photo, and shows damage on the overview", async () => {
-    const shipment = (await db.query.shipments.findFirst({ where: eq(shipments.enrollmentId, enrollmentId) }))!;
+    const shipment = (await db.query.shipments.findFirst({ where: eq(shipments.enrollmentId, enrollmentId), orderBy: desc(shipments.id) }))!;
     const analyst = await demoCookie("analyst1@ringbatch.example");
     const confirm = (fields: Record<string, string>, photo?: File, cookie = analyst) => {
       const form = new FormData();
