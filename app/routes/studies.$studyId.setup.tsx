@@ -10,6 +10,7 @@ import { mmToIn } from "~/lib/batching";
 import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
 import { notFound, requireStudyAccess } from "~/lib/guards.server";
 import { freshTargetsSchema, materialSchema, personSchema, responseSchema, studyFields, transitionSchema } from "~/lib/study-forms";
+import { useSchemaCheck } from "~/lib/use-schema-check";
 import { allowedNextStates, setupEditable } from "~/lib/study-lifecycle";
 import { STATE_LABEL } from "~/lib/study-states";
 import { readUploadForm } from "~/lib/upload-form.server";
@@ -144,6 +145,9 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
   const transition = resultOf(actionData, "transition");
   const details = resultOf(actionData, "study");
   const responseAdd = resultOf(actionData, "response-add");
+  // The same schemas as the action, checked in the browser before posting.
+  const detailsCheck = useSchemaCheck(studyFields, details.errors);
+  const responseCheck = useSchemaCheck(responseSchema, responseAdd.errors);
   const targets = resultOf(actionData, "targets");
   const protocol = resultOf(actionData, "protocol");
   const materialAdd = resultOf(actionData, "material-add");
@@ -196,9 +200,9 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
 
         <Card title="Study details">
           {canEdit ? (
-            <Form method="post" className="flex flex-col gap-4">
+            <Form method="post" className="flex flex-col gap-4" onSubmit={detailsCheck.onSubmit} noValidate>
               <input type="hidden" name="intent" value="study" />
-              <StudyFields values={studyValues} errors={details.errors} />
+              <StudyFields values={studyValues} errors={detailsCheck.errors} />
               <div>
                 <Button type="submit" disabled={busy}>
                   Save details
@@ -239,24 +243,24 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
           />
           {errorsOf("response-remove").form && <Notice tone="error">{errorsOf("response-remove").form}</Notice>}
           {editable && (
-            <Form method="post" className="mt-4 grid gap-4 border-t border-basalt-100 pt-4 md:grid-cols-3">
+            <Form method="post" className="mt-4 grid gap-4 border-t border-basalt-100 pt-4 md:grid-cols-3" onSubmit={responseCheck.onSubmit} noValidate>
               <input type="hidden" name="intent" value="response-add" />
-              <Field label="Key" name="key" defaultValue={responseAdd.values.key} error={responseAdd.errors.key} hint="e.g. holes" />
-              <Field label="Response name" name="name" defaultValue={responseAdd.values.name} error={responseAdd.errors.name} />
-              <Field label="Unit" name="unit" defaultValue={responseAdd.values.unit} error={responseAdd.errors.unit} />
+              <Field label="Key" name="key" defaultValue={responseAdd.values.key} error={responseCheck.errors.key} hint="e.g. holes" />
+              <Field label="Response name" name="name" defaultValue={responseAdd.values.name} error={responseCheck.errors.name} />
+              <Field label="Unit" name="unit" defaultValue={responseAdd.values.unit} error={responseCheck.errors.unit} />
               <SelectField
                 label="Kind"
                 name="kind"
                 defaultValue={responseAdd.values.kind ?? "count"}
-                error={responseAdd.errors.kind}
+                error={responseCheck.errors.kind}
                 options={[
                   { value: "count", label: "Count" },
                   { value: "continuous", label: "Continuous" },
                 ]}
               />
-              <Field label="Decimals" name="decimals" inputMode="numeric" defaultValue={responseAdd.values.decimals ?? "0"} error={responseAdd.errors.decimals} />
-              <Field label="Lowest plausible value" name="plausibleMin" inputMode="decimal" defaultValue={responseAdd.values.plausibleMin} error={responseAdd.errors.plausibleMin} />
-              <Field label="Highest plausible value" name="plausibleMax" inputMode="decimal" defaultValue={responseAdd.values.plausibleMax} error={responseAdd.errors.plausibleMax} />
+              <Field label="Decimals" name="decimals" inputMode="numeric" defaultValue={responseAdd.values.decimals ?? "0"} error={responseCheck.errors.decimals} />
+              <Field label="Lowest plausible value" name="plausibleMin" inputMode="decimal" defaultValue={responseAdd.values.plausibleMin} error={responseCheck.errors.plausibleMin} />
+              <Field label="Highest plausible value" name="plausibleMax" inputMode="decimal" defaultValue={responseAdd.values.plausibleMax} error={responseCheck.errors.plausibleMax} />
               <div className="self-end">
                 <Button type="submit" disabled={busy}>
                   Add response

@@ -5,6 +5,7 @@ import { Button, Card, PageHeader } from "~/components/ui";
 import { type ActionResult, formState, handleForm } from "~/lib/form-results";
 import { requireRole } from "~/lib/guards.server";
 import { newStudySchema } from "~/lib/study-forms";
+import { useSchemaCheck } from "~/lib/use-schema-check";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import { createStudy } from "~/models/study-setup.server";
 
@@ -32,14 +33,15 @@ const TEMPLATE_DEFAULTS = {
 };
 
 export default function NewStudy({ actionData }: Route.ComponentProps) {
-  const { errors, values: typed } = formState(actionData as ActionResult | undefined, "create");
+  const { errors: serverErrors, values: typed } = formState(actionData as ActionResult | undefined, "create");
+  const { errors, onSubmit } = useSchemaCheck(newStudySchema, serverErrors);
   const values = { ...TEMPLATE_DEFAULTS, ...typed };
   const busy = useNavigation().state === "submitting";
   return (
     <>
       <PageHeader title="New study" subtitle="Start from the float finishing template or set up any other test method." />
       <Card>
-        <Form method="post" className="flex flex-col gap-6">
+        <Form method="post" className="flex flex-col gap-6" onSubmit={onSubmit} noValidate>
           <fieldset className="flex flex-col gap-2">
             <legend className="mb-1 font-semibold text-basalt-800">Start from</legend>
             <label className="flex items-start gap-2">
