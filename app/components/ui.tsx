@@ -51,29 +51,14 @@ export function Button({
   );
 }
 
-/** A labelled input with its error message right below it. */
-export function Field({
-  label,
-  name,
-  error,
-  hint,
-  ...input
-}: ComponentProps<"input"> & { label: string; name: string; error?: string; hint?: string }) {
-  const id = input.id ?? `field-${name}`;
-  const describedBy = [error ? `${id}-error` : null, hint ? `${id}-hint` : null].filter(Boolean).join(" ") || undefined;
+/** What every form control shares: its label above, then its hint and its error message below. */
+function FieldFrame({ id, label, hint, error, children }: { id: string; label: string; hint?: string; error?: string; children: ReactNode }) {
   return (
     <div className="flex flex-col gap-1">
       <label htmlFor={id} className="font-semibold text-basalt-800">
         {label}
       </label>
-      <input
-        id={id}
-        name={name}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={describedBy}
-        className={`min-h-11 rounded-md border bg-white px-3 py-2 text-basalt-900 ${error ? "border-signal-700" : "border-basalt-200"}`}
-        {...input}
-      />
+      {children}
       {hint && (
         <p id={`${id}-hint`} className="text-sm text-basalt-700">
           {hint}
@@ -88,7 +73,35 @@ export function Field({
   );
 }
 
-/** A labelled multi-line input, with its hint and its error message beside it. */
+/** The attributes that tie a control to its frame's hint and error. */
+function controlProps(id: string, name: string, error?: string, hint?: string) {
+  const describedBy = [error ? `${id}-error` : null, hint ? `${id}-hint` : null].filter(Boolean).join(" ") || undefined;
+  return { id, name, "aria-invalid": error ? true : undefined, "aria-describedby": describedBy };
+}
+
+const borderFor = (error?: string) => (error ? "border-signal-700" : "border-basalt-200");
+
+/** A labelled input with its hint and its error message right below it. */
+export function Field({
+  label,
+  name,
+  error,
+  hint,
+  ...input
+}: ComponentProps<"input"> & { label: string; name: string; error?: string; hint?: string }) {
+  const id = input.id ?? `field-${name}`;
+  return (
+    <FieldFrame id={id} label={label} hint={hint} error={error}>
+      <input
+        {...controlProps(id, name, error, hint)}
+        className={`min-h-11 rounded-md border bg-white px-3 py-2 text-basalt-900 ${borderFor(error)}`}
+        {...input}
+      />
+    </FieldFrame>
+  );
+}
+
+/** A labelled multi-line input, with its hint and its error message below it. */
 export function TextAreaField({
   label,
   name,
@@ -98,32 +111,10 @@ export function TextAreaField({
   ...textarea
 }: ComponentProps<"textarea"> & { label: string; name: string; error?: string; hint?: string }) {
   const id = `field-${name}`;
-  const describedBy = [error ? `${id}-error` : null, hint ? `${id}-hint` : null].filter(Boolean).join(" ") || undefined;
   return (
-    <div className="flex flex-col gap-1">
-      <label htmlFor={id} className="font-semibold text-basalt-800">
-        {label}
-      </label>
-      {hint && (
-        <p id={`${id}-hint`} className="text-sm text-basalt-700">
-          {hint}
-        </p>
-      )}
-      <textarea
-        id={id}
-        name={name}
-        rows={rows}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={describedBy}
-        className={`rounded-md border bg-white px-3 py-2 ${error ? "border-signal-700" : "border-basalt-200"}`}
-        {...textarea}
-      />
-      {error && (
-        <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
-          {error}
-        </p>
-      )}
-    </div>
+    <FieldFrame id={id} label={label} hint={hint} error={error}>
+      <textarea {...controlProps(id, name, error, hint)} rows={rows} className={`rounded-md border bg-white px-3 py-2 ${borderFor(error)}`} {...textarea} />
+    </FieldFrame>
   );
 }
 
@@ -136,30 +127,15 @@ export function SelectField({
 }: ComponentProps<"select"> & { label: string; name: string; error?: string; options: { value: string; label: string }[] }) {
   const id = select.id ?? `field-${name}`;
   return (
-    <div className="flex flex-col gap-1">
-      <label htmlFor={id} className="font-semibold text-basalt-800">
-        {label}
-      </label>
-      <select
-        id={id}
-        name={name}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={error ? `${id}-error` : undefined}
-        className="min-h-11 rounded-md border border-basalt-200 bg-white px-3 py-2"
-        {...select}
-      >
+    <FieldFrame id={id} label={label} error={error}>
+      <select {...controlProps(id, name, error)} className={`min-h-11 rounded-md border bg-white px-3 py-2 ${borderFor(error)}`} {...select}>
         {options.map((o) => (
           <option key={o.value} value={o.value}>
             {o.label}
           </option>
         ))}
       </select>
-      {error && (
-        <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
-          {error}
-        </p>
-      )}
-    </div>
+    </FieldFrame>
   );
 }
 
