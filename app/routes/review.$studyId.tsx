@@ -1,10 +1,11 @@
-import { data, Form } from "react-router";
+import { Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/review.$studyId";
 import { LazyCharts } from "~/components/charts/LazyCharts";
 import { PrecisionTables } from "~/components/PrecisionTables";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/StatementParts";
 import { Badge, Button, Card, Notice, PageHeader, TextAreaField } from "~/components/ui";
+import { type ActionResult, refused } from "~/lib/form-results";
 import { type FieldErrors, parseForm } from "~/lib/forms";
 import { requireStudyAccess } from "~/lib/guards.server";
 import { reviewRefusal } from "~/lib/review/write-rules";
@@ -49,25 +50,23 @@ const voteSchema = z
 
 const commentSchema = z.object({ body: z.string().trim().min(2, "Write the comment.").max(4000, "Keep the comment under 4000 characters.") });
 
-type Outcome = { intent: string; ok: boolean; message?: string; errors?: FieldErrors; values?: Record<string, string> };
-
 export async function action({ request, params }: Route.ActionArgs) {
   const { study, user } = await requireStudyAccess(request, params.studyId, ["reviewer"]);
   const form = await request.formData();
   const intent = String(form.get("intent") ?? "");
-  const fail = (errors: FieldErrors, values: Record<string, string>, status = 400) => data<Outcome>({ intent, ok: false, errors, values }, { status });
+  const fail = (errors: FieldErrors, values: Record<string, string>, status = 400) => refused(intent, errors, values, status);
   try {
     if (intent === "vote") {
       const parsed = parseForm(voteSchema, form);
       if (!parsed.ok) return fail(parsed.errors, parsed.values);
       await castVote(study, user.id, { choice: parsed.data.choice, reason: parsed.data.reason || null });
-      return { intent, ok: true, message: "Your vote is recorded. You may change it until the round closes." } satisfies Outcome;
+      return { intent, done: "Your vote is recorded. You may change it until the round closes." } satisfies ActionResult;
     }
     if (intent === "comment") {
       const parsed = parseForm(commentSchema, form);
       if (!parsed.ok) return fail(parsed.errors, parsed.values);
       await addComment(study, user.id, parsed.data.body);
-      return { intent, ok: true, message: "Comment added." } satisfies Outcome;
+      return { intent, done: "Comment added." } satisfies ActionResult;
     }
     return fail({ form: "Unknown action." }, {});
   } catch (error) {
@@ -84,8 +83,8 @@ const CHOICES = [
 
 export default function ReviewStudy({ loaderData, actionData }: Route.ComponentProps) {
   const { study, statement, current, votes, own, comments, refusal } = loaderData;
-  const outcome = actionData as Outcome | undefined;
-  const failed = outcome && !outcome.ok ? outcome : null;
+  const outcome = actionData as ActionResult | undefined;
+  const failed = outcome?.errors ? outcome : null;
   return (
     <>
       <PageHeader
@@ -98,7 +97,7 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
       />
       <div className="flex flex-col gap-6">
         <StatementCaution />
-        {outcome?.ok && <Notice tone="success">{outcome.message}</Notice>}
+        {outcome?.done && <Notice tone="success">{outcome.done}</Notice>}
         {failed?.errors?.form && <Notice tone="error">{failed.errors.form}</Notice>}
         {!statement ? (
           <>

@@ -1,10 +1,11 @@
-import { data, Form } from "react-router";
+import { Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/studies.$studyId.statement";
 import { PrecisionSummaryTable } from "~/components/PrecisionTables";
 import { StudyNav } from "~/components/StudyNav";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/StatementParts";
 import { Badge, Button, Card, Notice, PageHeader, SimpleTable, TextAreaField } from "~/components/ui";
+import { type ActionResult, refused } from "~/lib/form-results";
 import { type FieldErrors, parseForm } from "~/lib/forms";
 import { notFound, requireStudyAccess } from "~/lib/guards.server";
 import { draftingRefusal, reviewRefusal } from "~/lib/review/write-rules";
@@ -52,30 +53,28 @@ const answerSchema = z.object({
   rationale: z.string().trim().min(10, "Give the rationale the committee will read (at least 10 characters).").max(4000, "Keep the rationale under 4000 characters."),
 });
 
-type Outcome = { intent: string; ok: boolean; message?: string; errors?: FieldErrors; values?: Record<string, string> };
-
 export async function action({ request, params }: Route.ActionArgs) {
   const { study, user } = await requireStudyAccess(request, params.studyId, ["coordinator"]);
   const form = await request.formData();
   const intent = String(form.get("intent") ?? "");
-  const fail = (errors: FieldErrors, values: Record<string, string>, status = 400) => data<Outcome>({ intent, ok: false, errors, values }, { status });
+  const fail = (errors: FieldErrors, values: Record<string, string>, status = 400) => refused(intent, errors, values, status);
   try {
     switch (intent) {
       case "freeze": {
         const row = await freezeStatement(study, user.id);
-        return { intent, ok: true, message: `Version ${row.version} frozen at data version ${row.dataVersion}.` } satisfies Outcome;
+        return { intent, done: `Version ${row.version} frozen at data version ${row.dataVersion}.` } satisfies ActionResult;
       }
       case "save-text": {
         const parsed = parseForm(textSchema, form);
         if (!parsed.ok) return fail(parsed.errors, parsed.values);
         if (!(await updateStatementText(study, user.id, parsed.data.statementId, parsed.data))) notFound();
-        return { intent, ok: true, message: "Text saved." } satisfies Outcome;
+        return { intent, done: "Text saved." } satisfies ActionResult;
       }
       case "send": {
         const parsed = parseForm(sendSchema, form);
         if (!parsed.ok) return fail(parsed.errors, parsed.values);
         if (!(await sendToReview(study, user.id, parsed.data.statementId, request))) notFound();
-        return { intent, ok: true, message: "Sent to the committee; every reviewer has been e-mailed." } satisfies Outcome;
+        return { intent, done: "Sent to the committee; every reviewer has been e-mailed." } satisfies ActionResult;
       }
       case "answer": {
         const parsed = parseForm(answerSchema, form);
@@ -83,13 +82,12 @@ export async function action({ request, params }: Route.ActionArgs) {
         if (!(await answerObjection(study, user.id, parsed.data))) notFound();
         return {
           intent,
-          ok: true,
-          message: parsed.data.answer === "upheld" ? "Objection upheld: the statement is back in drafting; freeze a new version for a new round." : "Answer recorded; every reviewer sees it.",
-        } satisfies Outcome;
+          done: parsed.data.answer === "upheld" ? "Objection upheld: the statement is back in drafting; freeze a new version for a new round." : "Answer recorded; every reviewer sees it.",
+        } satisfies ActionResult;
       }
       case "publish": {
         await publishStudy(study, user.id);
-        return { intent, ok: true, message: "Published. The study is now read-only." } satisfies Outcome;
+        return { intent, done: "Published. The study is now read-only." } satisfies ActionResult;
       }
       default:
         return fail({ form: "Unknown action." }, {});
@@ -105,8 +103,8 @@ const CHOICE_LABEL = { approve: "Approve", object: "Object", abstain: "Abstain" 
 
 export default function StatementPage({ loaderData, actionData }: Route.ComponentProps) {
   const { study, latest, earlier, votes, publication } = loaderData;
-  const outcome = actionData as Outcome | undefined;
-  const failed = outcome && !outcome.ok ? outcome : null;
+  const outcome = actionData as ActionResult | undefined;
+  const failed = outcome?.errors ? outcome : null;
   const stale = latest && latest.dataVersion !== study.dataVersion;
   return (
     <>
@@ -121,7 +119,7 @@ export default function StatementPage({ loaderData, actionData }: Route.Componen
       <StudyNav studyId={study.id} />
       <div className="flex flex-col gap-6">
         <StatementCaution />
-        {outcome?.ok && <Notice tone="success">{outcome.message}</Notice>}
+        {outcome?.done && <Notice tone="success">{outcome.done}</Notice>}
         {failed?.errors?.form && <Notice tone="error">{failed.errors.form}</Notice>}
         {!loaderData.draftingRefusal && (
           <Card title="Freeze the analysis">
@@ -199,7 +197,7 @@ export default function StatementPage({ loaderData, actionData }: Route.Componen
 
 type LoaderData = Route.ComponentProps["loaderData"];
 
-function Round({ loaderData, failed, votes, publication }: { loaderData: LoaderData; failed: Outcome | null; votes: LoaderData["votes"]; publication: LoaderData["publication"] }) {
+function Round({ loaderData, failed, votes, publication }: { loaderData: LoaderData; failed: ActionResult | null; votes: LoaderData["votes"]; publication: LoaderData["publication"] }) {
   const canAnswer = !loaderData.reviewRefusal && loaderData.latest?.state === "in_review";
   return (
     <Card title="Committee round">

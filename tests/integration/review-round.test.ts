@@ -1,38 +1,20 @@
-import { eq } from "drizzle-orm";
-import { beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { emailOutbox, studies } from "~/db/schema";
+import { emailOutbox } from "~/db/schema";
 import * as precision from "~/routes/api.v1.studies.$studyId.precision";
 import * as resultsJson from "~/routes/api.v1.studies.$studyId.results";
 import * as analysisPage from "~/routes/studies.$studyId.analysis";
 import * as reportPage from "~/routes/studies.$studyId.report";
 import * as reviewList from "~/routes/review";
 import * as reviewPage from "~/routes/review.$studyId";
-import * as statementPage from "~/routes/studies.$studyId.statement";
 import { DEMO_LABS } from "../../seed/demo-data";
-import { seedDemo } from "../../seed/seed";
-import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
 import { call, get, post } from "../support/routes";
+import { useReviewRound } from "../support/review";
 
-let studyId: string;
-let coordinator: string;
-const reviewers: string[] = [];
-
-beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
-  studyId = String((await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!.id);
-  coordinator = await demoCookie("coordinator@ringbatch.example");
-  for (const n of [1, 2, 3]) reviewers.push(await demoCookie(`reviewer${n}@ringbatch.example`));
-});
-
-const statementPath = () => `/studies/${studyId}/statement`;
-const reviewPath = () => `/review/${studyId}`;
-const coordinatorDoes = (fields: Record<string, string>) => call(statementPage.action, post(statementPath(), fields, coordinator), { studyId });
-const reviewerDoes = (i: number, fields: Record<string, string>) => call(reviewPage.action, post(reviewPath(), fields, reviewers[i]), { studyId });
-const statementNow = async () => (await call(statementPage.loader, get(statementPath(), coordinator), { studyId })).data;
-const studyState = async () => (await db.query.studies.findFirst({ where: eq(studies.id, Number(studyId)) }))!.state;
+const round = useReviewRound();
+const { coordinatorDoes, reviewerDoes, statementNow, studyState } = round;
+const reviewPath = () => `/review/${round.studyId}`;
 
 function expectNoLabName(value: unknown, where: string) {
   const text = JSON.stringify(value);
@@ -41,7 +23,7 @@ function expectNoLabName(value: unknown, where: string) {
 
 describe("a review round from freezing to publication", () => {
   it("freezes a version with generated texts tied to the data version", async () => {
-    await call(analysisPage.action, post(`/studies/${studyId}/analysis`, { intent: "decide", lab: "L01", material: "M3", response: "holes", decision: "excluded", reason: "Lab found a mis-set float angle on replicate 3." }, coordinator), { studyId });
+    await call(analysisPage.action, post(`/studies/${round.studyId}/analysis`, { intent: "decide", lab: "L01", material: "M3", response: "holes", decision: "excluded", reason: "Lab found a mis-set float angle on replicate 3." }, round.coordinator), { studyId: round.studyId });
     const frozen = await coordinatorDoes({ intent: "freeze" });
     expect(frozen.status).toBe(200);
     const { latest, study } = await statementNow();
@@ -52,12 +34,12 @@ describe("a review round from freezing to publication", () => {
     expect(latest.textC670).toContain("d2s");
   });
 
-  it("keeps the figures when the coordinator edits the text, and checks the text's length", async () => {
+  it("keeps the figures when the round.coordinator edits the text, and checks the text's length", async () => {
     const { latest } = await statementNow();
     const tooShort = await coordinatorDoes({ intent: "save-text", statementId: String(latest.id), textE691: "short", textC670: latest.textC670 });
     expect(tooShort.status).toBe(400);
     expect(tooShort.data.errors.textE691).toMatch(/20 characters/);
-    const edited = `${latest.textE691}\n\nEdited by the coordinator.`;
+    const edited = `${latest.textE691}\n\nEdited by the round.coordinator.`;
     expect((await coordinatorDoes({ intent: "save-text", statementId: String(latest.id), textE691: edited, textC670: latest.textC670 })).status).toBe(200);
     const after = (await statementNow()).latest;
     expect(after.textE691).toBe(edited);
@@ -65,14 +47,14 @@ describe("a review round from freezing to publication", () => {
   });
 
   it("refuses to send a version whose data changed after freezing", async () => {
-    await call(analysisPage.action, post(`/studies/${studyId}/analysis`, { intent: "decide", lab: "L08", material: "M2", response: "surface", decision: "retained", reason: "The lab confirmed the counts are right." }, coordinator), { studyId });
+    await call(analysisPage.action, post(`/studies/${round.studyId}/analysis`, { intent: "decide", lab: "L08", material: "M2", response: "surface", decision: "retained", reason: "The lab confirmed the counts are right." }, round.coordinator), { studyId: round.studyId });
     const { latest } = await statementNow();
     const refused = await coordinatorDoes({ intent: "send", statementId: String(latest.id) });
     expect(refused.status).toBe(409);
     expect(refused.data.errors.form).toMatch(/freeze a new version/);
   });
 
-  it("sends the new version: study in review, reviewers e-mailed, no more decisions", async () => {
+  it("sends the new version: study in review, round.reviewers e-mailed, no more decisions", async () => {
     await coordinatorDoes({ intent: "freeze" });
     const { latest } = await statementNow();
     expect(latest.version).toBe(2);
@@ -81,10 +63,10 @@ describe("a review round from freezing to publication", () => {
     expect(await studyState()).toBe("in_review");
     const mail = (await db.select().from(emailOutbox)).slice(before);
     expect(mail.map((m) => m.to).sort()).toEqual(["reviewer1@ringbatch.example", "reviewer2@ringbatch.example", "reviewer3@ringbatch.example"]);
-    const decision = await call(analysisPage.action, post(`/studies/${studyId}/analysis`, { intent: "decide", lab: "L08", material: "M2", response: "surface", decision: "excluded", reason: "Too late to change anything now." }, coordinator), { studyId });
+    const decision = await call(analysisPage.action, post(`/studies/${round.studyId}/analysis`, { intent: "decide", lab: "L08", material: "M2", response: "surface", decision: "excluded", reason: "Too late to change anything now." }, round.coordinator), { studyId: round.studyId });
     expect(decision.status).toBe(409);
-    const list = await call(reviewList.loader, get("/review", reviewers[0]));
-    expect(list.data.studies.find((s: any) => s.id === Number(studyId)).voteAwaited).toBe(true);
+    const list = await call(reviewList.loader, get("/review", round.reviewers[0]));
+    expect(list.data.studies.find((s: any) => s.id === Number(round.studyId)).voteAwaited).toBe(true);
   });
 
   it("requires a reason for an objection and a choice for any vote", async () => {
@@ -97,7 +79,7 @@ describe("a review round from freezing to publication", () => {
     expect(emptyComment.data.errors.body).toBeDefined();
   });
 
-  it("lets a reviewer object; the coordinator answers not upheld, and every reviewer sees the rationale", async () => {
+  it("lets a reviewer object; the round.coordinator answers not upheld, and every reviewer sees the rationale", async () => {
     expect((await reviewerDoes(0, { intent: "comment", body: "Why is M3 holes left out for L01?" })).status).toBe(200);
     expect((await reviewerDoes(0, { intent: "vote", choice: "object", reason: "The exclusion of L01 on M3 needs a better reason." })).status).toBe(200);
     const blocked = await coordinatorDoes({ intent: "publish" });
@@ -110,7 +92,7 @@ describe("a review round from freezing to publication", () => {
     expect(noRationale.data.errors.rationale).toBeDefined();
     const rationale = "The lab documented the float angle fault in its answer; the exclusion has an assignable cause.";
     expect((await coordinatorDoes({ intent: "answer", voteId: String(objection.id), answer: "not_upheld", rationale })).status).toBe(200);
-    const seenByOther = (await call(reviewPage.loader, get(reviewPath(), reviewers[1]), { studyId })).data;
+    const seenByOther = (await call(reviewPage.loader, get(reviewPath(), round.reviewers[1]), { studyId: round.studyId })).data;
     expect(seenByOther.votes[0]).toMatchObject({ answer: "not_upheld", answerRationale: rationale });
     expect(seenByOther.comments[0].body).toContain("Why is M3");
   });
@@ -127,36 +109,36 @@ describe("a review round from freezing to publication", () => {
     expect((await coordinatorDoes({ intent: "freeze" })).data.errors.form).toMatch(/published/);
     expect((await reviewerDoes(0, { intent: "vote", choice: "object", reason: "Changing my mind after the fact." })).status).toBe(409);
     expect((await reviewerDoes(0, { intent: "comment", body: "A late comment." })).status).toBe(409);
-    const decision = await call(analysisPage.action, post(`/studies/${studyId}/analysis`, { intent: "decide", lab: "L08", material: "M2", response: "surface", decision: "excluded", reason: "After publication this must refuse." }, coordinator), { studyId });
+    const decision = await call(analysisPage.action, post(`/studies/${round.studyId}/analysis`, { intent: "decide", lab: "L08", material: "M2", response: "surface", decision: "excluded", reason: "After publication this must refuse." }, round.coordinator), { studyId: round.studyId });
     expect(decision.data.errors.form).toMatch(/published/);
-    const ask = await call(analysisPage.action, post(`/studies/${studyId}/analysis`, { intent: "ask", lab: "L08", material: "M2", response: "surface", statistic: "", question: "After publication this must refuse." }, coordinator), { studyId });
+    const ask = await call(analysisPage.action, post(`/studies/${round.studyId}/analysis`, { intent: "ask", lab: "L08", material: "M2", response: "surface", statistic: "", question: "After publication this must refuse." }, round.coordinator), { studyId: round.studyId });
     expect(ask.data.errors.form).toMatch(/published/);
   });
 });
 
 describe("blinding: a reviewer never sees a lab's name", () => {
   it("holds for the review page, the report, the list and the JSON a reviewer can fetch", async () => {
-    const reviewer = reviewers[0]!;
+    const reviewer = round.reviewers[0]!;
     const sources = {
-      review: await call(reviewPage.loader, get(reviewPath(), reviewer), { studyId }),
-      report: await call(reportPage.loader, get(`/studies/${studyId}/report`, reviewer), { studyId }),
+      review: await call(reviewPage.loader, get(reviewPath(), reviewer), { studyId: round.studyId }),
+      report: await call(reportPage.loader, get(`/studies/${round.studyId}/report`, reviewer), { studyId: round.studyId }),
       list: await call(reviewList.loader, get("/review", reviewer)),
-      precision: await call(precision.loader, get(`/api/v1/studies/${studyId}/precision`, reviewer), { studyId }),
-      results: await call(resultsJson.loader, get(`/api/v1/studies/${studyId}/results`, reviewer), { studyId }),
+      precision: await call(precision.loader, get(`/api/v1/studies/${round.studyId}/precision`, reviewer), { studyId: round.studyId }),
+      results: await call(resultsJson.loader, get(`/api/v1/studies/${round.studyId}/results`, reviewer), { studyId: round.studyId }),
     };
     for (const [where, outcome] of Object.entries(sources)) {
       expect(outcome.status, where).toBe(200);
       expectNoLabName(outcome.data, where);
     }
     expect(sources.report.data.labs.length).toBe(8);
-    // The coordinator's report does name them, so the check above is not vacuous.
-    const named = await call(reportPage.loader, get(`/studies/${studyId}/report`, coordinator), { studyId });
+    // The round.coordinator's report does name them, so the check above is not vacuous.
+    const named = await call(reportPage.loader, get(`/studies/${round.studyId}/report`, round.coordinator), { studyId: round.studyId });
     expect(JSON.stringify(named.data)).toContain(DEMO_LABS[0].name);
   });
 
-  it("keeps the review page from anyone but the study's reviewers", async () => {
-    for (const cookie of [coordinator, await demoCookie("analyst1@ringbatch.example")]) {
-      expect((await call(reviewPage.loader, get(reviewPath(), cookie), { studyId })).status).toBe(404);
+  it("keeps the review page from anyone but the study's round.reviewers", async () => {
+    for (const cookie of [round.coordinator, await demoCookie("analyst1@ringbatch.example")]) {
+      expect((await call(reviewPage.loader, get(reviewPath(), cookie), { studyId: round.studyId })).status).toBe(404);
     }
   });
 });

@@ -1,37 +1,17 @@
-import { eq } from "drizzle-orm";
-import { beforeAll, describe, expect, it } from "vitest";
-import { db } from "~/db/client.server";
-import { studies } from "~/db/schema";
+import { describe, expect, it } from "vitest";
 import * as analysisPage from "~/routes/studies.$studyId.analysis";
 import * as reviewPage from "~/routes/review.$studyId";
-import * as statementPage from "~/routes/studies.$studyId.statement";
 import { DEMO_LABS } from "../../seed/demo-data";
-import { seedDemo } from "../../seed/seed";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
 import { call, get, post } from "../support/routes";
+import { useReviewRound } from "../support/review";
 
-let studyId: string;
-let coordinator: string;
-const reviewers: string[] = [];
-
-beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
-  studyId = String((await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!.id);
-  coordinator = await demoCookie("coordinator@ringbatch.example");
-  for (const n of [1, 2, 3]) reviewers.push(await demoCookie(`reviewer${n}@ringbatch.example`));
-});
-
-const coordinatorDoes = (fields: Record<string, string>) => call(statementPage.action, post(`/studies/${studyId}/statement`, fields, coordinator), { studyId });
-const reviewerDoes = (i: number, fields: Record<string, string>) => call(reviewPage.action, post(`/review/${studyId}`, fields, reviewers[i]), { studyId });
-const statementNow = async () => (await call(statementPage.loader, get(`/studies/${studyId}/statement`, coordinator), { studyId })).data;
-const studyState = async () => (await db.query.studies.findFirst({ where: eq(studies.id, Number(studyId)) }))!.state;
-const decide = (fields: Record<string, string>) => call(analysisPage.action, post(`/studies/${studyId}/analysis`, { intent: "decide", ...fields }, coordinator), { studyId });
+const round = useReviewRound();
+const { coordinatorDoes, reviewerDoes, statementNow, studyState } = round;
+const decide = (fields: Record<string, string>) => call(analysisPage.action, post(`/studies/${round.studyId}/analysis`, { intent: "decide", ...fields }, round.coordinator), { studyId: round.studyId });
 
 describe("the committee before a statement is sent", () => {
   it("sees the current blinded figures, with the planted outlier flagged and no lab named", async () => {
-    const page = await call(reviewPage.loader, get(`/review/${studyId}`, reviewers[0]), { studyId });
+    const page = await call(reviewPage.loader, get(`/review/${round.studyId}`, round.reviewers[0]), { studyId: round.studyId });
     expect(page.data.statement).toBeNull();
     const m2surface = page.data.current.analysis.groups.find((g: { material: string; response: string }) => g.material === "M2" && g.response === "surface");
     expect(m2surface.labs.find((l: { lab: string }) => l.lab === "L08").flags).toEqual(["h"]);
@@ -54,7 +34,7 @@ describe("an objection upheld", () => {
     expect(await studyState()).toBe("checking");
     expect((await statementNow()).latest).toMatchObject({ version: 1, state: "returned" });
 
-    // Back in checking the coordinator may decide again, then freezes and sends a second version.
+    // Back in checking the round.coordinator may decide again, then freezes and sends a second version.
     expect((await decide({ lab: "L08", material: "M2", response: "surface", decision: "excluded", reason: "The lab found its float was not the specified one." })).status).toBe(200);
     await coordinatorDoes({ intent: "freeze" });
     const second = (await statementNow()).latest;

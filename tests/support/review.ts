@@ -1,0 +1,34 @@
+/**
+ * The review tests' common ground: a fresh demo, the checking study
+ * FF-2026-A, signed-in coordinator and reviewers, and the calls they make.
+ */
+import { eq } from "drizzle-orm";
+import { beforeAll } from "vitest";
+import { db } from "~/db/client.server";
+import { studies } from "~/db/schema";
+import * as reviewPage from "~/routes/review.$studyId";
+import * as statementPage from "~/routes/studies.$studyId.statement";
+import { seedDemo } from "../../seed/seed";
+import { useFreshDatabase } from "./database";
+import { demoCookie } from "./demo";
+import { call, get, post } from "./routes";
+
+export function useReviewRound() {
+  const round = {
+    studyId: "",
+    coordinator: "",
+    reviewers: [] as string[],
+    coordinatorDoes: (fields: Record<string, string>) => call(statementPage.action, post(`/studies/${round.studyId}/statement`, fields, round.coordinator), { studyId: round.studyId }),
+    reviewerDoes: (i: number, fields: Record<string, string>) => call(reviewPage.action, post(`/review/${round.studyId}`, fields, round.reviewers[i]), { studyId: round.studyId }),
+    statementNow: async () => (await call(statementPage.loader, get(`/studies/${round.studyId}/statement`, round.coordinator), { studyId: round.studyId })).data,
+    studyState: async () => (await db.query.studies.findFirst({ where: eq(studies.id, Number(round.studyId)) }))!.state,
+  };
+  beforeAll(async () => {
+    await useFreshDatabase();
+    await seedDemo(db);
+    round.studyId = String((await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!.id);
+    round.coordinator = await demoCookie("coordinator@ringbatch.example");
+    for (const n of [1, 2, 3]) round.reviewers.push(await demoCookie(`reviewer${n}@ringbatch.example`));
+  });
+  return round;
+}
