@@ -54,7 +54,8 @@ const databaseUrl = process.env.DATABASE_URL;
 closeDatabase();
 if (!ownEnrollment) throw new Error("demo enrollment missing");
 
-const server = await startServer({ BUILD_DIR }, { databaseUrl });
+// The per-caller API limit (600 a minute) would turn most of the load into 429s: lift it for the run.
+const server = await startServer({ BUILD_DIR, API_RATE_LIMIT_PER_MINUTE: "100000000" }, { databaseUrl });
 try {
   const signIn = async (email: string) => {
     const response = await fetch(`${server.url}/login`, {
@@ -95,7 +96,7 @@ try {
   const load = (url: string, headers: Record<string, string> = {}) =>
     autocannon({ url, connections: 10, duration: 8, headers }) as Promise<autocannon.Result>;
   const appLoad = await load(precisionUrl, { Cookie: coordinator });
-  // The same server's lightest route: what the HTTP stack itself allows, whatever a route does.
+  // The same server's lightest route, which goes the whole React Router way: what a route read costs without the repeat-read memory.
   const healthLoad = await load(`${server.url}/healthz`);
   const bareLoad = await load(`http://127.0.0.1:${barePort}/`);
   bare.close();
@@ -116,13 +117,15 @@ try {
   line("1. engine / summing pass (1,000,000 values)", `${ms(engine.analysisMs)} / ${ms(engine.sumMs)} = ${engine.ratio.toFixed(1)} ×`, "≤ 20 ×", engine.ratio <= 20);
   line("2. analysis page loader, 200 requests", `p50 ${ms(analysis.p50)}, p95 ${ms(analysis.p95)}`, "p95 ≤ 50 ms", analysis.p95 <= 50);
   const ratio = appLoad.requests.average / bareLoad.requests.average;
+  const refused = appLoad.non2xx + appLoad.errors + appLoad.timeouts;
   line(
     "3. GET …/precision throughput (autocannon)",
     `${appLoad.requests.average.toFixed(0)} vs bare ${bareLoad.requests.average.toFixed(0)} req/s = ${ratio.toFixed(2)}`,
-    "≥ 0.5",
-    ratio >= 0.5,
+    "≥ 0.5, all 200",
+    ratio >= 0.5 && refused === 0,
   );
-  console.log(`   for scale: GET /healthz on the same server ${healthLoad.requests.average.toFixed(0)} req/s (one trivial query, the server stack's ceiling)`);
+  console.log(`   ${appLoad["2xx"]} answers 200, ${refused} not (non-2xx, errors, timeouts)`);
+  console.log(`   for scale: GET /healthz on the same server ${healthLoad.requests.average.toFixed(0)} req/s (one trivial query through React Router: the ceiling of a route without the repeat-read memory)`);
   line("4. result entry autosave round trip, 200", `p50 ${ms(autosave.p50)}, p95 ${ms(autosave.p95)}`, "p95 ≤ 50 ms", autosave.p95 <= 50);
   for (const page of javascriptPerPage()) {
     const goal = page.route.includes("results.$materialId") ? "≤ 150 kB" : "";

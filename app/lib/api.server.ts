@@ -21,9 +21,12 @@ export class ApiError extends Error {
 
 export const notYours = () => new ApiError(404, "not_found", "Not found.");
 
+export const errorBody = (error: ApiError) => ({
+  error: { code: error.code, message: error.message, ...(error.details === undefined ? {} : { details: error.details }) },
+});
+
 export function errorResponse(error: ApiError, headers?: HeadersInit) {
-  const body = { error: { code: error.code, message: error.message, ...(error.details === undefined ? {} : { details: error.details }) } };
-  return Response.json(body, { status: error.status, headers });
+  return Response.json(errorBody(error), { status: error.status, headers });
 }
 
 /** Turns anything a handler throws into the API's error shape. */
@@ -48,6 +51,8 @@ export async function apiHandler(run: () => Promise<Response>): Promise<Response
 
 export type ApiCaller = { user: SessionUser; token: ApiToken | null };
 
+export const rateLimitKey = (caller: ApiCaller) => (caller.token ? `token:${caller.token.id}` : `user:${caller.user.id}`);
+
 /** The calling user, from `Authorization: Bearer …` or else the session cookie; 401 when neither is valid. */
 export async function requireApiCaller(request: Request): Promise<ApiCaller> {
   const authorization = request.headers.get("Authorization");
@@ -63,7 +68,7 @@ export async function requireApiCaller(request: Request): Promise<ApiCaller> {
     if (!user) throw new ApiError(401, "unauthenticated", "Sign in or send a valid bearer token.");
     caller = { user, token: null };
   }
-  enforceRateLimit(caller.token ? `token:${caller.token.id}` : `user:${caller.user.id}`);
+  enforceRateLimit(rateLimitKey(caller));
   return caller;
 }
 
@@ -132,7 +137,8 @@ export function apiRateLimitMax(env: NodeJS.ProcessEnv = process.env) {
   return Number.isSafeInteger(configured) && configured > 0 ? configured : API_RATE_LIMIT.max;
 }
 
-function enforceRateLimit(key: string) {
+/** Counts a request of the caller's; a 429 ApiError above the limit. */
+export function enforceRateLimit(key: string) {
   const max = apiRateLimitMax();
   const now = Date.now();
   const current = windows.get(key);

@@ -67,14 +67,18 @@ export async function excludedCells(studyId: number): Promise<ExcludedCell[]> {
 // Analyses are pure functions of (data version, alpha, exclusions): cache them by that key, with
 // their JSON. A stale entry can never be served: any change of results or decisions bumps data_version,
 // so the saved decisions need no lookup on a hit.
-type CachedAnalysis = { analysis: StudyAnalysis; json?: string };
+type CachedAnalysis = { analysis: StudyAnalysis; json?: string; bytes?: Buffer };
 const cache = new Map<string, CachedAnalysis>();
 const CACHE_LIMIT = 50;
 
+function cacheKey(study: Study, options: { alpha?: number; exclusions?: ExcludedCell[] }) {
+  const whatIf = options.exclusions?.map((e) => [e.lab, e.material, e.response]) ?? "saved";
+  return JSON.stringify([study.id, study.dataVersion, options.alpha ?? study.significanceLevel, whatIf]);
+}
+
 async function cachedAnalysis(study: Study, options: { alpha?: number; exclusions?: ExcludedCell[] }) {
   const alpha = options.alpha ?? study.significanceLevel;
-  const whatIf = options.exclusions?.map((e) => [e.lab, e.material, e.response]) ?? "saved";
-  const key = JSON.stringify([study.id, study.dataVersion, alpha, whatIf]);
+  const key = cacheKey(study, options);
   const hit = cache.get(key);
   if (hit) return hit;
   const [rows, kinds, exclusions] = await Promise.all([
@@ -105,4 +109,11 @@ export async function studyAnalysisJson(study: Study, options: { alpha?: number;
   const entry = await cachedAnalysis(study, options);
   entry.json ??= JSON.stringify(entry.analysis);
   return entry.json;
+}
+
+/** The saved-decisions analysis as UTF-8 JSON bytes if it is already cached with its JSON, else undefined. */
+export function cachedAnalysisBytes(study: Study, alpha?: number) {
+  const entry = cache.get(cacheKey(study, { alpha }));
+  if (entry?.json === undefined) return undefined;
+  return (entry.bytes ??= Buffer.from(entry.json));
 }

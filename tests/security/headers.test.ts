@@ -87,6 +87,14 @@ describe("security headers", () => {
     for (const response of responses) expectSecurityHeaders(response);
   });
 
+  it("come with static files", async () => {
+    const page = await (await get("/login")).text();
+    const script = /src="(\/assets\/[^"]+\.js)"/.exec(page) ?? /href="(\/assets\/[^"]+\.css)"/.exec(page);
+    const response = await get(script![1]!);
+    expect(response.status).toBe(200);
+    expectSecurityHeaders(response);
+  });
+
   it("come with a file download, which is also served under its stored type", async () => {
     const upload = await uploadPhoto(PNG, "surface.png", "image/png");
     expect(upload.status).toBe(200);
@@ -95,6 +103,21 @@ describe("security headers", () => {
     expect(download.status).toBe(200);
     expect(download.headers.get("Content-Type")).toBe("image/png");
     expectSecurityHeaders(download);
+  });
+});
+
+describe("repeat API precision reads, answered from the server's memory", () => {
+  it("give the route's answer again, byte for byte with its headers, until the caller signs out", async () => {
+    const checkingId = await demoStudyId("FF-2026-A");
+    const cookie = await signInOverHttp(server.url, "reviewer3@ringbatch.example", DEMO_PASSWORD);
+    const first = await get(`/api/v1/studies/${checkingId}/precision`, cookie);
+    const repeat = await get(`/api/v1/studies/${checkingId}/precision`, cookie);
+    expect([first.status, repeat.status]).toEqual([200, 200]);
+    expect(repeat.headers.get("Content-Type")).toBe(first.headers.get("Content-Type"));
+    expectSecurityHeaders(repeat);
+    expect(Buffer.from(await repeat.arrayBuffer()).equals(Buffer.from(await first.arrayBuffer()))).toBe(true);
+    expect((await postForm("/logout", new URLSearchParams(), { cookie })).status).toBe(302);
+    expect((await get(`/api/v1/studies/${checkingId}/precision`, cookie)).status).toBe(401);
   });
 });
 

@@ -1,5 +1,5 @@
 /**
- * Starts the real built server (react-router-serve on build/) against a fresh,
+ * Starts the real built server (`node server.js` on build/) against a fresh,
  * migrated and seeded SQLite file, on a free localhost port.
  */
 import { type ChildProcess, spawn, spawnSync } from "node:child_process";
@@ -31,14 +31,15 @@ export type RunningServer = {
 
 /** `databaseUrl` reuses a prepared database (still migrated and seeded, which is idempotent). */
 export async function startServer(extraEnv: Record<string, string> = {}, { databaseUrl }: { databaseUrl?: string } = {}): Promise<RunningServer> {
-  const serverBuild = join(extraEnv.BUILD_DIR ?? process.env.BUILD_DIR ?? "build", "server/index.js");
+  const buildDirectory = extraEnv.BUILD_DIR ?? process.env.BUILD_DIR ?? "build";
+  const serverBuild = join(buildDirectory, "server/index.js");
   if (!existsSync(serverBuild)) throw new Error(`No build at ${serverBuild}: run \`npm run build\` before the browser tests.`);
   databaseUrl ??= `file:${join(mkdtempSync(join(tmpdir(), "ringbatch-e2e-")), "e2e.db")}`;
   const port = await freePort();
-  const env = { ...process.env, NODE_ENV: "production", DATABASE_URL: databaseUrl, PORT: String(port), ...extraEnv };
+  const env = { ...process.env, NODE_ENV: "production", DATABASE_URL: databaseUrl, PORT: String(port), ...extraEnv, BUILD_DIR: buildDirectory };
   const setup = spawnSync("node_modules/.bin/tsx", ["scripts/db-setup.ts"], { env, encoding: "utf8" });
   if (setup.status !== 0) throw new Error(`Seeding failed: ${setup.stderr}`);
-  const child: ChildProcess = spawn("node_modules/.bin/react-router-serve", [serverBuild], { env, stdio: ["ignore", "pipe", "pipe"] });
+  const child: ChildProcess = spawn(process.execPath, ["server.js"], { env, stdio: ["ignore", "pipe", "pipe"] });
   // Keep the tail of the server's log for error messages; the server logs every request.
   let output = "";
   const keep = (chunk: Buffer) => (output = (output + chunk).slice(-20_000));

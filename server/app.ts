@@ -1,0 +1,43 @@
+/**
+ * The production server's request handling, built by Vite with the app (so it
+ * shares the app's modules and their caches): repeat API precision reads
+ * answered from memory, then static files, then React Router.
+ */
+import type { IncomingMessage, ServerResponse } from "node:http";
+import { fileURLToPath } from "node:url";
+import { createRequestHandler } from "@react-router/express";
+import compression from "compression";
+import express from "express";
+import morgan from "morgan";
+import { answerRepeatPrecisionRead } from "~/lib/api-repeat-reads.server";
+import { SECURITY_HEADERS } from "~/lib/security-headers.server";
+
+const clientFiles = fileURLToPath(new URL("../client", import.meta.url));
+const logRequest = morgan("tiny");
+
+const app = express();
+app.disable("x-powered-by");
+app.use(compression());
+// Static files carry the security headers too (React Router's responses get them from the root middleware).
+const setHeaders = (response: ServerResponse) => {
+  for (const [name, value] of Object.entries(SECURITY_HEADERS)) response.setHeader(name, value);
+};
+app.use("/assets", express.static(`${clientFiles}/assets`, { immutable: true, maxAge: "1y", setHeaders }));
+app.use(express.static(clientFiles, { maxAge: "1h", setHeaders }));
+app.use(createRequestHandler({ build: () => import("virtual:react-router/server-build") }));
+
+export async function handleRequest(request: IncomingMessage, response: ServerResponse) {
+  logRequest(request, response, () => undefined);
+  try {
+    const answer = await answerRepeatPrecisionRead(request.method, request.url, request.headers);
+    if (answer) {
+      response.writeHead(answer.status, answer.headers);
+      response.end(answer.body);
+      return;
+    }
+  } catch (error) {
+    // The full route answers instead, and reports the error in its own shape.
+    console.error(error);
+  }
+  app(request, response);
+}
