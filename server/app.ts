@@ -1,7 +1,8 @@
 /**
  * The production server's request handling, built by Vite with the app (so it
  * shares the app's modules and their caches): repeat API precision reads
- * answered from memory, then static files, then React Router.
+ * answered from memory, then the client's address, static files and React
+ * Router through express.
  */
 import type { IncomingMessage, ServerResponse } from "node:http";
 import { fileURLToPath } from "node:url";
@@ -15,8 +16,21 @@ import { SECURITY_HEADERS } from "~/lib/security-headers.server";
 const clientFiles = fileURLToPath(new URL("../client", import.meta.url));
 const logRequest = morgan("tiny");
 
+/** Express's "trust proxy" from TRUST_PROXY: unset trusts no proxy, a number counts hops, anything else names addresses or subnets. */
+function trustedProxies(value = process.env.TRUST_PROXY) {
+  if (!value || value === "false") return false;
+  if (value === "true") return true;
+  return /^\d+$/.test(value) ? Number(value) : value;
+}
+
 const app = express();
 app.disable("x-powered-by");
+app.set("trust proxy", trustedProxies());
+// The rate limits key on X-Forwarded-For: replace whatever the client sent with the address express trusts.
+app.use((request, _response, next) => {
+  request.headers["x-forwarded-for"] = request.ip;
+  next();
+});
 app.use(compression());
 // Static files carry the security headers too (React Router's responses get them from the root middleware).
 const setHeaders = (response: ServerResponse) => {

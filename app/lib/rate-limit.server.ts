@@ -38,7 +38,11 @@ export async function clearHits(limit: RateLimit, key: string) {
   await db.delete(rateLimitHits).where(and(eq(rateLimitHits.bucket, limit.bucket), eq(rateLimitHits.key, key)));
 }
 
-/** The client address as the proxy in front of us reports it; `local` when there is none. */
+/**
+ * The client's address. The production server (server/app.ts) sets
+ * X-Forwarded-For to it, from the connection or, behind a trusted proxy
+ * (TRUST_PROXY), from the proxy's report; `local` when there is none.
+ */
 export function clientAddress(request: Request) {
   return request.headers.get("x-forwarded-for")?.split(",")[0]?.trim() || "local";
 }

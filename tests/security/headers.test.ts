@@ -32,7 +32,8 @@ const cookies: Record<string, string> = {};
 beforeAll(async () => {
   uploadsDir = mkdtempSync(join(tmpdir(), "ringbatch-uploads-"));
   const { databaseUrl } = await prepareDatabaseFile(async () => ({}));
-  server = await startServer({ API_RATE_LIMIT_PER_MINUTE: String(API_LIMIT), UPLOADS_DIR: uploadsDir }, { databaseUrl });
+  // The test plays the proxy in front of the server, on the loopback interface, reporting client addresses.
+  server = await startServer({ API_RATE_LIMIT_PER_MINUTE: String(API_LIMIT), UPLOADS_DIR: uploadsDir, TRUST_PROXY: "loopback" }, { databaseUrl });
   studyId = await demoStudyId("FF-2026-B");
   f1 = (await db.query.materials.findFirst({ where: and(eq(materials.studyId, studyId), eq(materials.code, "F1")) }))!.id;
   for (const who of ["analyst5", "analyst7", "coordinator", "reviewer2"]) cookies[who] = await signInOverHttp(server.url, `${who}@ringbatch.example`, DEMO_PASSWORD);
@@ -172,6 +173,23 @@ describe("rate limits", () => {
     expect(limited.status).toBe(429);
     expect(await limited.text()).toContain("Too many failed sign-ins. Wait 15 minutes, then try again.");
     expect((await attempt(DEMO_PASSWORD, "198.51.100.8")).status).toBe(302);
+  });
+
+  it("key on the connection's address when no proxy is trusted, whatever X-Forwarded-For a client sends", async () => {
+    const direct = await startServer();
+    try {
+      const attempt = (password: string, forwardedFor: string) =>
+        fetch(`${direct.url}/login`, {
+          method: "POST",
+          headers: { Origin: direct.url, "X-Forwarded-For": forwardedFor },
+          body: new URLSearchParams({ email: "reviewer2@ringbatch.example", password }),
+          redirect: "manual",
+        });
+      for (let i = 0; i < 5; i++) expect((await attempt("wrong-password", `198.51.100.${20 + i}`)).status).toBe(401);
+      expect((await attempt(DEMO_PASSWORD, "198.51.100.99")).status).toBe(429);
+    } finally {
+      await direct.stop();
+    }
   });
 
   it("answer 429 on invitation links after 20 unknown tokens from one address", async () => {
