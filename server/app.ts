@@ -10,6 +10,7 @@ import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express from "express";
 import morgan from "morgan";
+import onHeaders from "on-headers";
 import { answerRepeatPrecisionRead } from "~/lib/api-repeat-reads.server";
 import { SECURITY_HEADERS } from "~/lib/security-headers.server";
 
@@ -32,12 +33,16 @@ app.use((request, _response, next) => {
   next();
 });
 app.use(compression());
-// Static files carry the security headers too (React Router's responses get them from the root middleware).
-const setHeaders = (response: ServerResponse) => {
-  for (const [name, value] of Object.entries(SECURITY_HEADERS)) response.setHeader(name, value);
-};
-app.use("/assets", express.static(`${clientFiles}/assets`, { immutable: true, maxAge: "1y", setHeaders }));
-app.use(express.static(clientFiles, { maxAge: "1h", setHeaders }));
+// Every answer carries the security headers, also static files and React Router's own refusals,
+// which the root middleware never sees; an answer that sets one keeps its own.
+app.use((_request, response, next) => {
+  onHeaders(response, function addSecurityHeaders() {
+    for (const [name, value] of Object.entries(SECURITY_HEADERS)) if (!this.hasHeader(name)) this.setHeader(name, value);
+  });
+  next();
+});
+app.use("/assets", express.static(`${clientFiles}/assets`, { immutable: true, maxAge: "1y" }));
+app.use(express.static(clientFiles, { maxAge: "1h" }));
 app.use(createRequestHandler({ build: () => import("virtual:react-router/server-build") }));
 
 export async function handleRequest(request: IncomingMessage, response: ServerResponse) {

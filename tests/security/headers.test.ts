@@ -136,7 +136,8 @@ describe("the session cookie in production", () => {
 
 describe("cross-site form posts", () => {
   // Page actions are refused by React Router's own origin check (400) before any middleware runs;
-  // resource routes and the API by the root middleware's (403). Either way nothing runs.
+  // resource routes and the API by the root middleware's (403). Either way nothing runs, and the
+  // refusal carries the security headers (the server adds them to every answer).
   it("are refused with a 4xx on every action tried, and nothing is written", async () => {
     const before = await databaseFingerprint(db);
     const draft = JSON.stringify({ values: { "holes:1": "33" }, testedOn: {}, operator: {}, fresh: {}, batchedAt: "" });
@@ -156,6 +157,7 @@ describe("cross-site form posts", () => {
       }),
     ]);
     expect(attempts.map((a) => a.status)).toEqual([400, 400, 400, 400, 400, 403, 403]);
+    for (const attempt of attempts) expectSecurityHeaders(attempt);
     expect(await Promise.all(attempts.slice(5).map((a) => a.text()))).toEqual(["Cross-site request refused", "Cross-site request refused"]);
     expect(await databaseFingerprint(db)).toEqual(before);
     // The same draft from the app's own origin is saved: the origin alone made the difference.
