@@ -7,6 +7,8 @@ import { migrate } from "drizzle-orm/libsql/migrator";
 import * as schema from "./schema";
 
 export type Database = LibSQLDatabase<typeof schema>;
+/** The handle a `db.transaction` callback gets. */
+export type Transaction = Parameters<Parameters<Database["transaction"]>[0]>[0];
 
 const DEFAULT_URL = "file:data/ringbatch.db";
 

@@ -5,7 +5,7 @@
  * event and bumps the study's data version in the same transaction.
  */
 import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
-import { db } from "~/db/client.server";
+import { db, type Transaction } from "~/db/client.server";
 import {
   amendments,
   auditEvents,
@@ -28,7 +28,6 @@ import { checkResultValue } from "~/lib/results/values";
 import { STATE_LABEL } from "~/lib/study-states";
 import { IMAGE_TYPES, storeUpload } from "~/lib/uploads.server";
 
-type Tx = Parameters<Parameters<typeof db.transaction>[0]>[0];
 export type Enrollment = typeof enrollments.$inferSelect;
 type Study = typeof studies.$inferSelect;
 type Actor = { id: number };
@@ -70,7 +69,7 @@ function resolveRows(frame: StudyFrame, existingCells: Map<string, typeof cells.
 type Change = { material: string; response: string; replicate: number; before: number | null; after: number | null };
 
 /** Writes resolved rows (an empty value clears a draft replicate); returns what actually changed. */
-async function writeRows(tx: Tx, enrollment: Enrollment, rows: ResolvedRow[]) {
+async function writeRows(tx: Transaction, enrollment: Enrollment, rows: ResolvedRow[]) {
   let cellByKey = await enrollmentCells(tx, enrollment.id);
   const missing = [...new Set(rows.filter((r) => r.value !== null).map((r) => cellKey(r.materialId, r.responseId)))].filter((k) => !cellByKey.has(k));
   if (missing.length > 0) {
@@ -112,7 +111,7 @@ async function writeRows(tx: Tx, enrollment: Enrollment, rows: ResolvedRow[]) {
   return changes;
 }
 
-function bumpDataVersion(tx: Tx, studyId: number) {
+function bumpDataVersion(tx: Transaction, studyId: number) {
   return tx.update(studies).set({ dataVersion: sql`${studies.dataVersion} + 1` }).where(eq(studies.id, studyId));
 }
 

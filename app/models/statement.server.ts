@@ -4,7 +4,7 @@
  * the committee, answered, and published.
  */
 import { and, asc, desc, eq, inArray, isNotNull } from "drizzle-orm";
-import { db } from "~/db/client.server";
+import { db, type Transaction } from "~/db/client.server";
 import { enrollments, labs, materials, precisionStatements, responses, studies, studyReviewers, users, votes } from "~/db/schema";
 import { recordAudit } from "~/lib/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/lib/email.server";
@@ -123,12 +123,13 @@ export async function sendToReview(study: Study, actorUserId: number, statementI
   }
   const reviewerIds = await studyReviewerIds(study.id);
   if (reviewerIds.length === 0) throw new StatementError("No reviewer is assigned to this study.");
-  const moved = await transitionStudy(study, "in_review", actorUserId);
-  if (!moved.allowed) throw new StatementError(moved.problems.join(" "));
-  await db.transaction(async (tx) => {
-    await tx.update(precisionStatements).set({ state: "in_review", sentAt: new Date() }).where(eq(precisionStatements.id, statementId));
-    await recordAudit({ actorUserId, action: "statement.sent", entityType: "precision_statement", entityId: statementId, studyId: study.id, after: { version: statement.version } }, tx);
+  const moved = await transitionStudy(study, "in_review", actorUserId, {
+    alongside: async (tx) => {
+      await tx.update(precisionStatements).set({ state: "in_review", sentAt: new Date() }).where(eq(precisionStatements.id, statementId));
+      await recordAudit({ actorUserId, action: "statement.sent", entityType: "precision_statement", entityId: statementId, studyId: study.id, after: { version: statement.version } }, tx);
+    },
   });
+  if (!moved.allowed) throw new StatementError(moved.problems.join(" "));
   const reviewers = await db.select({ email: users.email, name: users.name }).from(users).where(inArray(users.id, reviewerIds));
   for (const reviewer of reviewers) {
     await sendEmail(
@@ -169,7 +170,7 @@ export async function answerObjection(study: Study, actorUserId: number, input: 
   if (!vote) return null;
   if (vote.choice !== "object") throw new StatementError("Only an objection can be answered.");
   if (vote.answer) throw new StatementError("This objection has already been answered.");
-  await db.transaction(async (tx) => {
+  const recordAnswer = async (tx: Transaction) => {
     await tx
       .update(votes)
       .set({ answer: input.answer, answerRationale: input.rationale, answeredBy: actorUserId, answeredAt: new Date() })
@@ -179,10 +180,13 @@ export async function answerObjection(study: Study, actorUserId: number, input: 
       { actorUserId, action: "objection.answered", entityType: "vote", entityId: vote.id, studyId: study.id, after: { answer: input.answer, version: statement.version }, reason: input.rationale },
       tx,
     );
-  });
+  };
   if (input.answer === "upheld") {
-    const moved = await transitionStudy(study, "checking", actorUserId);
+    // The version is returned and the study goes back to checking together, or neither happens.
+    const moved = await transitionStudy(study, "checking", actorUserId, { alongside: recordAnswer });
     if (!moved.allowed) throw new StatementError(moved.problems.join(" "));
+  } else {
+    await db.transaction(recordAnswer);
   }
   return vote;
 }
@@ -202,12 +206,13 @@ export async function publishStudy(study: Study, actorUserId: number) {
   if (refusal) throw new StatementError(refusal);
   const { statement, check } = await publicationStatus(study.id);
   if (!statement || !check.allowed) throw new StatementError(check.problems.join(" "));
-  const moved = await transitionStudy(study, "published", actorUserId);
-  if (!moved.allowed) throw new StatementError(moved.problems.join(" "));
-  await db.transaction(async (tx) => {
-    await tx.update(precisionStatements).set({ state: "approved" }).where(eq(precisionStatements.id, statement.id));
-    await recordAudit({ actorUserId, action: "statement.approved", entityType: "precision_statement", entityId: statement.id, studyId: study.id, after: { version: statement.version } }, tx);
+  const moved = await transitionStudy(study, "published", actorUserId, {
+    alongside: async (tx) => {
+      await tx.update(precisionStatements).set({ state: "approved" }).where(eq(precisionStatements.id, statement.id));
+      await recordAudit({ actorUserId, action: "statement.approved", entityType: "precision_statement", entityId: statement.id, studyId: study.id, after: { version: statement.version } }, tx);
+    },
   });
+  if (!moved.allowed) throw new StatementError(moved.problems.join(" "));
   return statement;
 }
 

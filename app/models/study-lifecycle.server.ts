@@ -4,7 +4,7 @@
  * committee review) add their own guards through `extraGuards`.
  */
 import { and, count, eq } from "drizzle-orm";
-import { db } from "~/db/client.server";
+import { db, type Transaction } from "~/db/client.server";
 import { enrollments, materials, studies, type StudyState } from "~/db/schema";
 import { recordAudit } from "~/lib/audit.server";
 import { checkTransition, resultsEditable, type TransitionCheck } from "~/lib/study-lifecycle";
@@ -46,8 +46,15 @@ export async function previewTransition(study: Study, to: StudyState, extraGuard
 /**
  * Applies a move if the rules allow it. The update is conditional on the state
  * read, so two people moving the study at once cannot both succeed.
+ * `alongside` writes what goes with the move (a statement's state, say) in the
+ * same transaction, so the two never disagree.
  */
-export async function transitionStudy(study: Study, to: StudyState, actorUserId: number, extraGuards: TransitionGuard[] = []) {
+export async function transitionStudy(
+  study: Study,
+  to: StudyState,
+  actorUserId: number,
+  { extraGuards = [], alongside }: { extraGuards?: TransitionGuard[]; alongside?: (tx: Transaction) => Promise<void> } = {},
+) {
   const check = await previewTransition(study, to, extraGuards);
   if (!check.allowed) return check;
   const moved = await db.transaction(async (tx) => {
@@ -61,6 +68,7 @@ export async function transitionStudy(study: Study, to: StudyState, actorUserId:
       { actorUserId, action: "study_state_changed", entityType: "study", entityId: study.id, studyId: study.id, before: { state: study.state }, after: { state: to } },
       tx,
     );
+    await alongside?.(tx);
     return true;
   });
   if (!moved) return { allowed: false, problems: ["Someone else changed the study's state meanwhile; reload and try again."], warnings: [] };
