@@ -5,7 +5,7 @@ import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/lab.studies.$studyId.import";
 import { Button, Card, Notice, PageHeader, SimpleTable } from "~/components/ui";
 import { requireStudyAccess } from "~/lib/guards.server";
-import { IMPORT_MAX_BYTES, OPTIONAL_COLUMNS, parseImportCsv, recordsToRows, REQUIRED_COLUMNS } from "~/lib/results/import-csv";
+import { decodeCsvText, IMPORT_MAX_BYTES, OPTIONAL_COLUMNS, parseImportCsv, recordsToRows, REQUIRED_COLUMNS } from "~/lib/results/import-csv";
 import { resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { importFrame, importResults, ResultsError } from "~/models/results.server";
 
@@ -18,20 +18,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 type ImportReply = { imported?: number; fileError?: string; fileProblems?: string[]; problems?: RowProblem[] };
-
-const SAVE_AS_UTF8 = "Save it from the spreadsheet as “CSV UTF-8” and choose it again.";
-
-/** The file's text, if it is UTF-8 (or plain ASCII) text; anything else would be read as the wrong characters. */
-function decodeCsvText(bytes: Uint8Array): { ok: true; text: string } | { ok: false; message: string } {
-  const utf16 = (bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff);
-  if (utf16) return { ok: false, message: `The file is UTF-16 text. ${SAVE_AS_UTF8}` };
-  if (bytes.includes(0)) return { ok: false, message: "This is not a CSV text file." };
-  try {
-    return { ok: true, text: new TextDecoder("utf-8", { fatal: true }).decode(bytes) };
-  } catch {
-    return { ok: false, message: `The file is not UTF-8 text (perhaps Latin-1 or another code page). ${SAVE_AS_UTF8}` };
-  }
-}
 
 const TOO_LARGE = `The file is larger than ${IMPORT_MAX_BYTES / 1024 / 1024} MB; split it into smaller files.`;
 
@@ -76,12 +62,18 @@ export default function ImportResults({ loaderData, actionData }: Route.Componen
     return { problems, byRow: new Map(problems.map((p) => [p.row, p.message])) };
   }, [parsed, frame]);
 
-  const readFile = (file: File | undefined) => {
+  const readFile = async (file: File | undefined) => {
     setParsed(null);
     setFileError(null);
     if (!file) return;
     if (file.size > IMPORT_MAX_BYTES) {
       setFileError(TOO_LARGE);
+      return;
+    }
+    // The same check of the encoding as on submit, so a Latin-1 export is caught before the preview.
+    const decoded = decodeCsvText(new Uint8Array(await file.arrayBuffer()));
+    if (!decoded.ok) {
+      setFileError(decoded.message);
       return;
     }
     const records: string[][] = [];

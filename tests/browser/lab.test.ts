@@ -107,6 +107,10 @@ describe("an analyst's day in the lab, in the browser", () => {
     await expect.poll(() => page.getByRole("table", { name: "Rows of the file, those with problems first" }).textContent()).toContain("already submitted");
     expect(await page.getByRole("table", { name: "Rows of the file, those with problems first" }).textContent()).toContain("The study has no material “F7”");
     await expectAccessible(page);
+    // A spreadsheet's Latin-1 export ("Müller" as one byte 0xFC) is refused before any preview, beside the file field.
+    await page.getByLabel("Results file (CSV)").setInputFiles({ name: "latin1.csv", mimeType: "text/csv", buffer: Buffer.from("material,response,replicate,value,operator\nF2,holes,1,9,Müller\n", "latin1") });
+    await expect.poll(() => page.locator("#import-file-error").textContent()).toContain("not UTF-8 text");
+    expect(await page.getByRole("table", { name: "Rows of the file, those with problems first" }).count()).toBe(0);
     await context.close();
   });
 });

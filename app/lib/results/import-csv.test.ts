@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { parseImportCsv } from "./import-csv";
+import { decodeCsvText, parseImportCsv } from "./import-csv";
 import { resolveResultRows } from "./rows";
 
 const frame = {
@@ -35,5 +35,20 @@ describe("the lab's results file", () => {
       { row: 5, field: "value", message: "F2 · holes · replicate 1 is already submitted; change it with an amendment (with a reason) on the result entry page.", submitted: true },
       { row: 6, field: "value", message: "The value is empty." },
     ]);
+  });
+});
+
+describe("the results file's encoding", () => {
+  // Byte values from the Unicode standard's UTF-8 and UTF-16 encoding forms and ISO 8859-1 (common practice: spreadsheets export either).
+  it("reads UTF-8, with or without a byte order mark", () => {
+    expect(decodeCsvText(Uint8Array.from([0x4d, 0xc3, 0xbc, 0x6c]))).toEqual({ ok: true, text: "Mül" });
+    expect(decodeCsvText(Uint8Array.from([0xef, 0xbb, 0xbf, 0x61]))).toEqual({ ok: true, text: "a" });
+  });
+
+  it("refuses Latin-1, UTF-16 and binary files with a way out", () => {
+    const latin1 = decodeCsvText(Uint8Array.from([0x4d, 0xfc, 0x6c]));
+    expect(latin1).toMatchObject({ ok: false, message: expect.stringMatching(/not UTF-8 text.*CSV UTF-8/) });
+    expect(decodeCsvText(Uint8Array.from([0xff, 0xfe, 0x61, 0x00]))).toMatchObject({ ok: false, message: expect.stringMatching(/UTF-16/) });
+    expect(decodeCsvText(Uint8Array.from([0x61, 0x00, 0x62]))).toMatchObject({ ok: false, message: "This is not a CSV text file." });
   });
 });

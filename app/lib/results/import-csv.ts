@@ -11,6 +11,24 @@ export const REQUIRED_COLUMNS = ["material", "response", "replicate", "value"] a
 export const OPTIONAL_COLUMNS = ["tested_on", "operator"] as const;
 export const IMPORT_MAX_BYTES = 2 * 1024 * 1024;
 
+const SAVE_AS_UTF8 = "Save it from the spreadsheet as “CSV UTF-8” and choose it again.";
+
+/**
+ * The file's text, if it is UTF-8 (or plain ASCII) text; anything else would
+ * be read as the wrong characters. The same check runs in the browser's
+ * preview and on submit.
+ */
+export function decodeCsvText(bytes: Uint8Array): { ok: true; text: string } | { ok: false; message: string } {
+  const utf16 = (bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff);
+  if (utf16) return { ok: false, message: `The file is UTF-16 text. ${SAVE_AS_UTF8}` };
+  if (bytes.includes(0)) return { ok: false, message: "This is not a CSV text file." };
+  try {
+    return { ok: true, text: new TextDecoder("utf-8", { fatal: true }).decode(bytes) };
+  } catch {
+    return { ok: false, message: `The file is not UTF-8 text (perhaps Latin-1 or another code page). ${SAVE_AS_UTF8}` };
+  }
+}
+
 export type ParsedImport = { rows: ResultInputRow[]; fileProblems: string[] };
 
 const isBlank = (record: string[]) => record.every((field) => field.trim() === "");
