@@ -14,14 +14,14 @@ import {
   text,
   uniqueIndex,
 } from "drizzle-orm/sqlite-core";
+import { ROLES, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES } from "./values";
+
+export * from "./values";
 
 const createdAt = () =>
   integer("created_at", { mode: "timestamp_ms" })
     .notNull()
     .default(sql`(unixepoch('subsec') * 1000)`);
-
-export const ROLES = ["admin", "coordinator", "analyst", "reviewer"] as const;
-export type Role = (typeof ROLES)[number];
 
 export const users = sqliteTable("users", {
   id: integer("id").primaryKey({ autoIncrement: true }),
@@ -75,17 +75,6 @@ export const passwordTokens = sqliteTable(
   (t) => [index("password_tokens_user").on(t.userId)],
 );
 
-export const STUDY_STATES = [
-  "draft",
-  "recruiting",
-  "testing",
-  "checking",
-  "in_review",
-  "published",
-  "cancelled",
-] as const;
-export type StudyState = (typeof STUDY_STATES)[number];
-
 export const studies = sqliteTable("studies", {
   id: integer("id").primaryKey({ autoIncrement: true }),
   code: text("code").notNull().unique(),
@@ -136,8 +125,6 @@ export const studyReviewers = sqliteTable(
   (t) => [primaryKey({ columns: [t.studyId, t.userId] }), index("study_reviewers_user").on(t.userId)],
 );
 
-export const RESPONSE_KINDS = ["count", "continuous"] as const;
-
 export const responses = sqliteTable(
   "responses",
   {
@@ -157,14 +144,6 @@ export const responses = sqliteTable(
   },
   (t) => [uniqueIndex("responses_study_key").on(t.studyId, t.key)],
 );
-
-export const FRESH_PROPERTIES = [
-  "slump",
-  "air_content",
-  "unit_weight",
-  "concrete_temperature",
-  "ambient_temperature",
-] as const;
 
 export const freshPropertyTargets = sqliteTable(
   "fresh_property_targets",
@@ -194,17 +173,6 @@ export const materials = sqliteTable(
   (t) => [uniqueIndex("materials_study_code").on(t.studyId, t.code)],
 );
 
-export const CONSTITUENT_KINDS = [
-  "cement",
-  "scm",
-  "water",
-  "coarse_aggregate",
-  "fine_aggregate",
-  "admixture",
-  "fiber",
-  "air",
-] as const;
-
 /** One row of a material's mixture design, per 1 m³ on an SSD basis. */
 export const mixtureConstituents = sqliteTable(
   "mixture_constituents",
@@ -229,8 +197,6 @@ export const mixtureConstituents = sqliteTable(
   },
   (t) => [index("mixture_constituents_material").on(t.materialId)],
 );
-
-export const ENROLLMENT_STATES = ["invited", "accepted", "declined", "withdrawn"] as const;
 
 export const enrollments = sqliteTable(
   "enrollments",
@@ -271,8 +237,6 @@ export const invitations = sqliteTable(
     createdAt: createdAt(),
   },
 );
-
-export const SHIPMENT_STATUSES = ["preparing", "shipped", "received", "lost"] as const;
 
 export const shipments = sqliteTable(
   "shipments",
@@ -319,8 +283,6 @@ export const batches = sqliteTable(
   },
   (t) => [uniqueIndex("batches_enrollment_material").on(t.enrollmentId, t.materialId)],
 );
-
-export const CELL_STATUSES = ["draft", "submitted"] as const;
 
 /** One lab × one material × one response. */
 export const cells = sqliteTable(
@@ -407,8 +369,6 @@ export const auditEvents = sqliteTable(
   (t) => [index("audit_events_study").on(t.studyId, t.createdAt)],
 );
 
-export const QUERY_STATES = ["open", "answered", "closed"] as const;
-
 export const queries = sqliteTable(
   "queries",
   {
@@ -449,8 +409,6 @@ export const cellDecisions = sqliteTable(
   },
 );
 
-export const STATEMENT_STATES = ["draft", "in_review", "approved", "returned"] as const;
-
 export const precisionStatements = sqliteTable(
   "precision_statements",
   {
@@ -475,8 +433,6 @@ export const precisionStatements = sqliteTable(
   },
   (t) => [uniqueIndex("precision_statements_study_version").on(t.studyId, t.version)],
 );
-
-export const VOTE_CHOICES = ["approve", "object", "abstain"] as const;
 
 export const votes = sqliteTable(
   "votes",
@@ -554,8 +510,6 @@ export const sessions = sqliteTable(
   },
   (t) => [index("sessions_user").on(t.userId)],
 );
-
-export const API_SCOPES = ["results:write", "study:read"] as const;
 
 export const apiTokens = sqliteTable(
   "api_tokens",

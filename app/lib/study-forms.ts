@@ -3,7 +3,7 @@
  * and, where a page checks as one types, in the browser.
  */
 import { z } from "zod";
-import { RESPONSE_KINDS, STUDY_STATES } from "~/db/schema";
+import { RESPONSE_KINDS, STUDY_STATES } from "~/db/values";
 import { emailField } from "~/lib/validation";
 
 const optionalText = (max: number, label: string) =>

@@ -2,7 +2,7 @@ import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/admin.users";
 import { Badge, Button, Card, Field, Notice, PageHeader, SelectField, SimpleTable } from "~/components/ui";
-import { ROLES } from "~/db/schema";
+import { ROLES } from "~/db/values";
 import { recordAudit } from "~/lib/audit.server";
 import { type FieldErrors, parseForm } from "~/lib/forms";
 import { requireRole } from "~/lib/guards.server";

@@ -3,7 +3,7 @@ import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/studies.$studyId.materials.$materialId";
 import { StudyNav } from "~/components/StudyNav";
 import { Button, Card, Field, Notice, PageHeader } from "~/components/ui";
-import { CONSTITUENT_KINDS } from "~/db/schema";
+import { CONSTITUENT_KINDS } from "~/db/values";
 import { checkMixtureDesign, kgPerM3ToLbPerYd3, M3_PER_FT3, M3_PER_YD3, type ConstituentKind } from "~/lib/batching";
 import { type ActionResult, formState, refused } from "~/lib/form-results";
 import { parseForm } from "~/lib/forms";

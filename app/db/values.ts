@@ -1,0 +1,54 @@
+/**
+ * The value lists of the schema's enumerated columns, in a module of their own
+ * so browser code (forms, select options) can use them without the schema and
+ * the database library. `schema.ts` re-exports them.
+ */
+
+export const ROLES = ["admin", "coordinator", "analyst", "reviewer"] as const;
+export type Role = (typeof ROLES)[number];
+
+export const STUDY_STATES = [
+  "draft",
+  "recruiting",
+  "testing",
+  "checking",
+  "in_review",
+  "published",
+  "cancelled",
+] as const;
+export type StudyState = (typeof STUDY_STATES)[number];
+
+export const RESPONSE_KINDS = ["count", "continuous"] as const;
+
+export const FRESH_PROPERTIES = [
+  "slump",
+  "air_content",
+  "unit_weight",
+  "concrete_temperature",
+  "ambient_temperature",
+] as const;
+
+export const CONSTITUENT_KINDS = [
+  "cement",
+  "scm",
+  "water",
+  "coarse_aggregate",
+  "fine_aggregate",
+  "admixture",
+  "fiber",
+  "air",
+] as const;
+
+export const ENROLLMENT_STATES = ["invited", "accepted", "declined", "withdrawn"] as const;
+
+export const SHIPMENT_STATUSES = ["preparing", "shipped", "received", "lost"] as const;
+
+export const CELL_STATUSES = ["draft", "submitted"] as const;
+
+export const QUERY_STATES = ["open", "answered", "closed"] as const;
+
+export const STATEMENT_STATES = ["draft", "in_review", "approved", "returned"] as const;
+
+export const VOTE_CHOICES = ["approve", "object", "abstain"] as const;
+
+export const API_SCOPES = ["results:write", "study:read"] as const;
