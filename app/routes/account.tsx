@@ -4,6 +4,7 @@ import type { Route } from "./+types/account";
 import { Button, Card, Field, Notice, PageHeader, SelectField, SimpleTable } from "~/components/ui";
 import { recordAudit } from "~/lib/audit.server";
 import { type FieldErrors, parseForm } from "~/lib/forms";
+import { useSchemaCheck } from "~/lib/use-schema-check";
 import { requireLabMember, requireUser } from "~/lib/guards.server";
 import { endAllSessions, sessionStorage } from "~/lib/session.server";
 import { emailField, idField, nameField, newPasswordField } from "~/lib/validation";
@@ -127,24 +128,29 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
   const result = actionData as ActionResult | undefined;
   const errorsFor = (intent: string) => (result?.intent === intent ? (result.errors ?? {}) : {});
   const valuesFor = (intent: string) => (result?.intent === intent ? (result.values ?? {}) : {});
+  // The same schemas as the action, checked before posting.
+  const profileCheck = useSchemaCheck(profileSchema, errorsFor("profile"));
+  const passwordCheck = useSchemaCheck(passwordSchema, errorsFor("password"));
+  const tokenCheck = useSchemaCheck(tokenSchema, errorsFor("create-token"));
+  const colleagueCheck = useSchemaCheck(colleagueSchema, errorsFor("add-colleague"));
   return (
     <>
       <PageHeader title="Your account" subtitle={user.email} />
       <div className="grid gap-6 md:grid-cols-2">
         <Card title="Name">
-          <Form method="post" className="flex flex-col gap-4">
+          <Form method="post" className="flex flex-col gap-4" onSubmit={profileCheck.onSubmit} noValidate>
             <input type="hidden" name="intent" value="profile" />
             {result?.intent === "profile" && result.done && <Notice tone="success">{result.done}</Notice>}
-            <Field label="Name" name="name" defaultValue={valuesFor("profile").name ?? user.name} error={errorsFor("profile").name} required />
+            <Field label="Name" name="name" defaultValue={valuesFor("profile").name ?? user.name} error={profileCheck.errors.name} required />
             <Button type="submit" disabled={busy}>Save name</Button>
           </Form>
         </Card>
         <Card title="Password">
-          <Form method="post" className="flex flex-col gap-4">
+          <Form method="post" className="flex flex-col gap-4" onSubmit={passwordCheck.onSubmit} noValidate>
             <input type="hidden" name="intent" value="password" />
-            <Field label="Current password" name="currentPassword" type="password" autoComplete="current-password" error={errorsFor("password").currentPassword} required />
-            <Field label="New password" name="newPassword" type="password" autoComplete="new-password" hint="At least 12 characters. You will sign in again afterwards." error={errorsFor("password").newPassword} required />
-            <Field label="New password again" name="confirmPassword" type="password" autoComplete="new-password" error={errorsFor("password").confirmPassword} required />
+            <Field label="Current password" name="currentPassword" type="password" autoComplete="current-password" error={passwordCheck.errors.currentPassword} required />
+            <Field label="New password" name="newPassword" type="password" autoComplete="new-password" hint="At least 12 characters. You will sign in again afterwards." error={passwordCheck.errors.newPassword} required />
+            <Field label="New password again" name="confirmPassword" type="password" autoComplete="new-password" error={passwordCheck.errors.confirmPassword} required />
             <Button type="submit" disabled={busy}>Change password</Button>
           </Form>
         </Card>
@@ -190,10 +196,10 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
         )}
         {targets.length > 0 ? (
           // A new key after each created token empties the form for the next one.
-          <Form method="post" className="mt-4 grid gap-4 md:grid-cols-3" key={result?.token ?? "token-form"}>
+          <Form method="post" className="mt-4 grid gap-4 md:grid-cols-3" key={result?.token ?? "token-form"} onSubmit={tokenCheck.onSubmit} noValidate>
             <input type="hidden" name="intent" value="create-token" />
-            <Field label="Token name" name="tokenName" hint="Say where it is used, e.g. the lab system's name." defaultValue={valuesFor("create-token").tokenName} error={errorsFor("create-token").tokenName} required />
-            <SelectField label="May reach" name="target" options={targets} defaultValue={valuesFor("create-token").target} error={errorsFor("create-token").target} />
+            <Field label="Token name" name="tokenName" hint="Say where it is used, e.g. the lab system's name." defaultValue={valuesFor("create-token").tokenName} error={tokenCheck.errors.tokenName} required />
+            <SelectField label="May reach" name="target" options={targets} defaultValue={valuesFor("create-token").target} error={tokenCheck.errors.target} />
             <div className="self-end">
               <Button type="submit" disabled={busy}>Create token</Button>
             </div>
@@ -223,11 +229,11 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
               ),
             ])}
           />
-          <Form method="post" className="mt-4 grid gap-4 md:grid-cols-2">
+          <Form method="post" className="mt-4 grid gap-4 md:grid-cols-2" onSubmit={colleagueCheck.onSubmit} noValidate>
             <input type="hidden" name="intent" value="add-colleague" />
             <input type="hidden" name="labId" value={labId} />
-            <Field label="Colleague's name" name="name" defaultValue={valuesFor("add-colleague").name} error={errorsFor("add-colleague").name} required />
-            <Field label="Colleague's e-mail" name="email" type="email" defaultValue={valuesFor("add-colleague").email} error={errorsFor("add-colleague").email} required />
+            <Field label="Colleague's name" name="name" defaultValue={valuesFor("add-colleague").name} error={colleagueCheck.errors.name} required />
+            <Field label="Colleague's e-mail" name="email" type="email" defaultValue={valuesFor("add-colleague").email} error={colleagueCheck.errors.email} required />
             <div className="md:col-span-2">
               <Button type="submit" disabled={busy}>Add analyst and send the e-mail</Button>
             </div>

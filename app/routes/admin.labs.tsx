@@ -4,6 +4,7 @@ import type { Route } from "./+types/admin.labs";
 import { Button, Card, Field, Notice, PageHeader, SimpleTable } from "~/components/ui";
 import { recordAudit } from "~/lib/audit.server";
 import { type FieldErrors, parseForm } from "~/lib/forms";
+import { useSchemaCheck } from "~/lib/use-schema-check";
 import { requireRole } from "~/lib/guards.server";
 import { emailField, idField, nameField } from "~/lib/validation";
 import { createLab, listLabs, updateLab } from "~/models/lab.server";
@@ -54,7 +55,7 @@ export async function action({ request }: Route.ActionArgs) {
 export default function AdminLabs({ loaderData, actionData }: Route.ComponentProps) {
   const { editing } = loaderData;
   const result = actionData as ActionResult | undefined;
-  const errors = result?.errors ?? {};
+  const { errors, onSubmit } = useSchemaCheck(labSchema, result?.errors ?? {});
   // After a save the form shows what was saved; on an error, what was typed.
   const values: Record<string, string> = result?.values ?? (editing ? labValues(editing) : {});
   const busy = useNavigation().state === "submitting";
@@ -64,7 +65,7 @@ export default function AdminLabs({ loaderData, actionData }: Route.ComponentPro
       {result?.done && <Notice tone="success">{result.done}</Notice>}
       {errors.form && <Notice tone="error">{errors.form}</Notice>}
       <Card title={editing ? `Edit ${editing.name}` : "New lab"} className="my-6">
-        <Form method="post" className="grid gap-4 md:grid-cols-2" key={editing?.id ?? "new"}>
+        <Form method="post" className="grid gap-4 md:grid-cols-2" key={editing?.id ?? "new"} onSubmit={onSubmit} noValidate>
           {editing && <input type="hidden" name="labId" value={editing.id} />}
           <Field label="Name" name="name" defaultValue={values.name} error={errors.name} required />
           <Field label="Address" name="address" defaultValue={values.address} error={errors.address} />

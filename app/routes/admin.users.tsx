@@ -5,6 +5,7 @@ import { Badge, Button, Card, Field, Notice, PageHeader, SelectField, SimpleTabl
 import { ROLES } from "~/db/values";
 import { recordAudit } from "~/lib/audit.server";
 import { type FieldErrors, parseForm } from "~/lib/forms";
+import { useSchemaCheck } from "~/lib/use-schema-check";
 import { requireRole } from "~/lib/guards.server";
 import { endAllSessions } from "~/lib/session.server";
 import { emailField, idField, nameField, newPasswordField } from "~/lib/validation";
@@ -83,7 +84,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
   const { users, labs } = loaderData;
   const result = actionData as ActionResult | undefined;
   const busy = useNavigation().state === "submitting";
-  const createErrors = result?.intent === "create" ? (result.errors ?? {}) : {};
+  const { errors: createErrors, onSubmit: checkCreate } = useSchemaCheck(createSchema, result?.intent === "create" ? (result.errors ?? {}) : {});
   const createValues = result?.intent === "create" ? (result.values ?? {}) : {};
   const labOptions = [{ value: "", label: "No lab" }, ...labs.map((l) => ({ value: String(l.id), label: l.name }))];
   return (
@@ -92,7 +93,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
       {result?.done && <Notice tone="success">{result.done}</Notice>}
       {result?.errors?.form && <Notice tone="error">{result.errors.form}</Notice>}
       <Card title="New account" className="my-6">
-        <Form method="post" className="grid gap-4 md:grid-cols-3">
+        <Form method="post" className="grid gap-4 md:grid-cols-3" onSubmit={checkCreate} noValidate>
           <input type="hidden" name="intent" value="create" />
           <Field label="E-mail" name="email" type="email" defaultValue={createValues.email} error={createErrors.email} required />
           <Field label="Name" name="name" defaultValue={createValues.name} error={createErrors.name} required />

@@ -4,6 +4,7 @@ import { Badge, Button, Card, Field, Notice, PageHeader, TextAreaField } from "~
 import { type ActionResult, FieldRefusal, formState, handleForm, refused } from "~/lib/form-results";
 import { requireStudyAccess } from "~/lib/guards.server";
 import { receiptSchema } from "~/lib/study-forms";
+import { useSchemaCheck } from "~/lib/use-schema-check";
 import { readUploadForm } from "~/lib/upload-form.server";
 import { IMAGE_TYPES, storeUpload, UploadError } from "~/lib/uploads.server";
 import { confirmReceipt, listEnrollmentShipments } from "~/models/shipment.server";
@@ -44,6 +45,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 export default function Receipt({ loaderData, actionData }: Route.ComponentProps) {
   const { study, labCode, shipments, today } = loaderData;
   const result = formState(actionData as ActionResult | undefined, "receipt");
+  const { errors, onSubmit } = useSchemaCheck(receiptSchema, result.errors);
   const busy = useNavigation().state === "submitting";
   return (
     <>
@@ -65,9 +67,9 @@ export default function Receipt({ loaderData, actionData }: Route.ComponentProps
               </p>
             )}
             {s.status === "shipped" && (
-              <Form method="post" encType="multipart/form-data" className="grid gap-4 md:grid-cols-2">
+              <Form method="post" encType="multipart/form-data" className="grid gap-4 md:grid-cols-2" onSubmit={onSubmit} noValidate>
                 <input type="hidden" name="shipmentId" value={s.id} />
-                <Field label="Received on" name="receivedOn" type="date" defaultValue={result.values.receivedOn ?? today} error={result.errors.receivedOn} />
+                <Field label="Received on" name="receivedOn" type="date" defaultValue={result.values.receivedOn ?? today} error={errors.receivedOn} />
                 <fieldset className="flex flex-col gap-1">
                   <legend className="font-semibold text-basalt-800">Condition</legend>
                   {(["good", "damaged"] as const).map((c) => (
@@ -76,10 +78,10 @@ export default function Receipt({ loaderData, actionData }: Route.ComponentProps
                       {c === "good" ? "Good: everything arrived intact" : "Damaged: something is broken, wet or missing"}
                     </label>
                   ))}
-                  {result.errors.condition && <p className="text-sm font-semibold text-signal-700">{result.errors.condition}</p>}
+                  {errors.condition && <p className="text-sm font-semibold text-signal-700">{errors.condition}</p>}
                 </fieldset>
                 <div className="md:col-span-2">
-                  <TextAreaField label="Notes" name="receiptNotes" defaultValue={result.values.receiptNotes} error={result.errors.receiptNotes} />
+                  <TextAreaField label="Notes" name="receiptNotes" defaultValue={result.values.receiptNotes} error={errors.receiptNotes} />
                 </div>
                 <Field label="Photo (JPEG, PNG or WebP, optional)" name="photo" type="file" accept="image/jpeg,image/png,image/webp" error={result.errors.photo} />
                 <div className="self-end">

@@ -8,6 +8,7 @@ import { type ActionResult, formState, handleForm, refused } from "~/lib/form-re
 import { requireStudyAccess } from "~/lib/guards.server";
 import { shipmentCreateSchema, shipSchema } from "~/lib/study-forms";
 import { STATE_LABEL } from "~/lib/study-states";
+import { useSchemaCheck } from "~/lib/use-schema-check";
 import { listStudyEnrollments } from "~/models/invitation.server";
 import { createShipment, defaultContents, listStudyShipments, markLost, markShipped } from "~/models/shipment.server";
 
@@ -62,6 +63,7 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
   const { study, labs, shipments, canEdit, today } = loaderData;
   const result = actionData as ActionResult | undefined;
   const create = formState(result, "create");
+  const createCheck = useSchemaCheck(shipmentCreateSchema, create.errors);
   const ship = formState(result, "ship");
   const busy = useNavigation().state === "submitting";
   const rowError = (id: number) => (result && result.intent !== "create" && result.values?.shipmentId === String(id) ? result.errors : undefined);
@@ -77,14 +79,14 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
             {labs.length === 0 ? (
               <p>No lab has accepted yet.</p>
             ) : (
-              <Form method="post" className="grid gap-4 md:grid-cols-2">
+              <Form method="post" className="grid gap-4 md:grid-cols-2" onSubmit={createCheck.onSubmit} noValidate>
                 <input type="hidden" name="intent" value="create" />
-                <SelectField label="Lab" name="enrollmentId" options={labs} defaultValue={create.values.enrollmentId} error={create.errors.enrollmentId} />
-                <Field label="Carrier" name="carrier" defaultValue={create.values.carrier} error={create.errors.carrier} />
+                <SelectField label="Lab" name="enrollmentId" options={labs} defaultValue={create.values.enrollmentId} error={createCheck.errors.enrollmentId} />
+                <Field label="Carrier" name="carrier" defaultValue={create.values.carrier} error={createCheck.errors.carrier} />
                 <div className="md:col-span-2">
-                  <TextAreaField label="Materials and lots" name="contents" defaultValue={create.values.contents ?? loaderData.defaultContents} error={create.errors.contents} />
+                  <TextAreaField label="Materials and lots" name="contents" defaultValue={create.values.contents ?? loaderData.defaultContents} error={createCheck.errors.contents} />
                 </div>
-                <Field label="Tracking number" name="trackingNumber" defaultValue={create.values.trackingNumber} error={create.errors.trackingNumber} />
+                <Field label="Tracking number" name="trackingNumber" defaultValue={create.values.trackingNumber} error={createCheck.errors.trackingNumber} />
                 <div className="self-end">
                   <Button type="submit" disabled={busy}>
                     Prepare shipment

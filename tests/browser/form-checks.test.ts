@@ -39,4 +39,36 @@ describe("forms check their input in the browser with the server's schema", () =
     await expect.poll(() => page.getByText(/Use a short key of lower-case letters/).count()).toBe(1);
     expect(counter.posts).toBe(1);
   });
+
+  it("checks the account's password form and the admin's forms the same way", async () => {
+    const page = await (await running.browser.newContext()).newPage();
+    await signInAs(page, running.server.url, "admin@ringbatch.example", DEMO_PASSWORD);
+    await page.waitForURL(`${running.server.url}/admin/users`);
+    const counter = countPosts(page);
+
+    await page.getByLabel("E-mail").fill("new.analyst@ringbatch.example");
+    await page.getByLabel("Name", { exact: true }).fill("New Analyst");
+    await page.getByLabel("First password").fill("short");
+    await page.getByRole("button", { name: "Create account" }).click();
+    await expect.poll(() => page.locator("[aria-invalid=true]").count()).toBe(1);
+    expect(await page.getByLabel("First password").getAttribute("aria-invalid")).toBe("true");
+    expect(counter.posts).toBe(0);
+    await expectAccessible(page);
+
+    await page.goto(`${running.server.url}/admin/labs`);
+    await page.getByLabel("Name", { exact: true }).fill("Harbour Materials Lab");
+    await page.getByLabel("Contact e-mail").fill("not an address");
+    await page.getByRole("button", { name: "Add lab" }).click();
+    await expect.poll(() => page.getByLabel("Contact e-mail").getAttribute("aria-invalid")).toBe("true");
+    expect(counter.posts).toBe(0);
+
+    await page.goto(`${running.server.url}/account`);
+    await page.getByLabel("Current password").fill(DEMO_PASSWORD);
+    await page.getByLabel("New password", { exact: true }).fill("a-long-enough-password");
+    await page.getByLabel("New password again").fill("a-different-password");
+    await page.getByRole("button", { name: "Change password" }).click();
+    await expect.poll(() => page.getByText("The two new passwords differ.").count()).toBe(1);
+    expect(counter.posts).toBe(0);
+    await expectAccessible(page);
+  });
 });
