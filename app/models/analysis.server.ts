@@ -3,7 +3,7 @@
  * the precision engine. Results are identified by blind lab codes only, so
  * the same figures can go to coordinators and reviewers alike.
  */
-import { and, asc, eq } from "drizzle-orm";
+import { and, asc, eq, ne } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { cellDecisions, cells, enrollments, labs, materials, responses, results, studies } from "~/db/schema";
 import { analyzeStudy, type ExcludedCell, type StudyAnalysis } from "~/lib/precision";
@@ -24,8 +24,12 @@ export type StudyResultRow = {
   amended: boolean;
 };
 
-/** Every result of the study in long form, ordered by lab code, material, response and replicate. */
-export async function studyResultRows(studyId: number, { submittedOnly = false } = {}): Promise<StudyResultRow[]> {
+/**
+ * Every result of the study in long form, ordered by lab code, material,
+ * response and replicate; `withoutWithdrawn` leaves out labs withdrawn from
+ * the study (their results are kept, but no longer analysed).
+ */
+export async function studyResultRows(studyId: number, { submittedOnly = false, withoutWithdrawn = false } = {}): Promise<StudyResultRow[]> {
   const rows = await db
     .select({
       cellId: cells.id,
@@ -46,7 +50,13 @@ export async function studyResultRows(studyId: number, { submittedOnly = false }
     .innerJoin(labs, eq(labs.id, enrollments.labId))
     .innerJoin(materials, eq(materials.id, cells.materialId))
     .innerJoin(responses, eq(responses.id, cells.responseId))
-    .where(and(eq(enrollments.studyId, studyId), submittedOnly ? eq(cells.status, "submitted") : undefined))
+    .where(
+      and(
+        eq(enrollments.studyId, studyId),
+        submittedOnly ? eq(cells.status, "submitted") : undefined,
+        withoutWithdrawn ? ne(enrollments.state, "withdrawn") : undefined,
+      ),
+    )
     .orderBy(asc(enrollments.labCode), asc(materials.sortOrder), asc(responses.sortOrder), asc(results.replicate));
   return rows.map((r) => ({ ...r, labCode: r.labCode ?? "—" }));
 }
@@ -82,7 +92,7 @@ async function cachedAnalysis(study: Study, options: { alpha?: number; exclusion
   const hit = cache.get(key);
   if (hit) return hit;
   const [rows, kinds, exclusions] = await Promise.all([
-    studyResultRows(study.id, { submittedOnly: true }),
+    studyResultRows(study.id, { submittedOnly: true, withoutWithdrawn: true }),
     db.select({ key: responses.key, kind: responses.kind }).from(responses).where(eq(responses.studyId, study.id)),
     options.exclusions ?? excludedCells(study.id),
   ]);

@@ -56,7 +56,7 @@ export async function getBatch(enrollmentId: number, materialId: number) {
 /** Stores the day's moisture contents (% of oven-dry mass) and batch volume; both are checked by the caller's schema. */
 export async function saveBatchInputs(enrollment: Enrollment, materialId: number, input: { batchVolumeM3: number; moistureByConstituentId: Record<string, number> }) {
   const study = await db.query.studies.findFirst({ where: eq(studies.id, enrollment.studyId) });
-  assertResultsEditable(study!);
+  assertResultsEditable(study!, enrollment);
   const fields = { batchVolumeM3: input.batchVolumeM3, aggregateMoisture: input.moistureByConstituentId };
   await db
     .insert(batches)
@@ -81,7 +81,7 @@ const DATE_TIME = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/;
  */
 export async function saveFreshProperties(enrollment: Enrollment, materialId: number, input: FreshInput, user: { id: number }) {
   const study = await db.query.studies.findFirst({ where: eq(studies.id, enrollment.studyId) });
-  assertResultsEditable(study!);
+  assertResultsEditable(study!, enrollment);
   const targets = await freshTargets(enrollment.studyId);
   const problems: FreshProblems = {};
   const fields: Partial<typeof batches.$inferInsert> = {};

@@ -4,7 +4,7 @@
  * days, and only for the study its link names.
  */
 import { createHash, randomBytes } from "node:crypto";
-import { and, eq, isNull } from "drizzle-orm";
+import { and, eq, isNull, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { enrollments, invitations, labMembers, labs, studies, users } from "~/db/schema";
 import { recordAudit } from "~/lib/audit.server";
@@ -138,6 +138,31 @@ export async function declineInvitation(found: Valid, actorUserId: number | null
     if (!(await claim(tx, found.invitation.id))) throw new InvitationError("form", "This invitation has already been used.");
     await tx.update(enrollments).set({ state: "declined", respondedAt: new Date() }).where(eq(enrollments.id, found.enrollment.id));
     await recordAudit({ actorUserId, action: "invitation_declined", entityType: "enrollment", entityId: found.enrollment.id, studyId: found.study.id }, tx);
+  });
+}
+
+/** Study states in which a lab may be withdrawn: before the statement is frozen for review. */
+export const WITHDRAWAL_STATES: readonly Study["state"][] = ["recruiting", "testing", "checking"];
+
+/**
+ * Withdraws an invited or enrolled lab with the coordinator's reason. Its
+ * pending invitation stops working, it can no longer change results, and its
+ * results (kept, for the record) leave the analysis: the study's data version
+ * moves on in the same transaction.
+ */
+export async function withdrawEnrollment(study: Study, enrollmentId: number, reason: string, actorUserId: number) {
+  if (!WITHDRAWAL_STATES.includes(study.state)) throw new InvitationError("reason", "A lab can be withdrawn only while the study is recruiting, testing or being checked.");
+  await db.transaction(async (tx) => {
+    const enrollment = await tx.query.enrollments.findFirst({ where: and(eq(enrollments.id, enrollmentId), eq(enrollments.studyId, study.id)) });
+    if (!enrollment) throw new InvitationError("reason", "This lab is not in the study.");
+    if (enrollment.state !== "invited" && enrollment.state !== "accepted") throw new InvitationError("reason", "Only an invited or enrolled lab can be withdrawn.");
+    await tx.update(enrollments).set({ state: "withdrawn", respondedAt: new Date() }).where(eq(enrollments.id, enrollmentId));
+    await tx.update(invitations).set({ expiresAt: new Date() }).where(and(eq(invitations.enrollmentId, enrollmentId), isNull(invitations.usedAt)));
+    await tx.update(studies).set({ dataVersion: sql`${studies.dataVersion} + 1` }).where(eq(studies.id, study.id));
+    await recordAudit(
+      { actorUserId, action: "lab_withdrawn", entityType: "enrollment", entityId: enrollmentId, studyId: study.id, before: { state: enrollment.state }, after: { state: "withdrawn" }, reason },
+      tx,
+    );
   });
 }
 

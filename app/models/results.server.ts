@@ -35,11 +35,13 @@ type Actor = { id: number };
 /** A refusal with a message for the person, shown beside the form. */
 export class ResultsError extends Error {}
 
-/** The one place that says when results may change, so the study lifecycle can take it over. */
-export function assertResultsEditable(study: Pick<Study, "state">) {
+/** The one place that says when a lab's results may change: the study in testing, and the lab still in it. */
+export function assertResultsEditable(study: Pick<Study, "state">, enrollment: Pick<Enrollment, "state">) {
   if (study.state !== "testing") {
     throw new ResultsError(`Results can be changed only while the study is in testing; it is now “${STATE_LABEL[study.state]}”.`);
   }
+  if (enrollment.state === "withdrawn") throw new ResultsError("Your lab was withdrawn from this study; its results can no longer change.");
+  if (enrollment.state !== "accepted") throw new ResultsError("Your lab has not accepted this study.");
 }
 
 export type { ResultInputRow, RowField, RowProblem } from "~/lib/results/rows";
@@ -129,7 +131,7 @@ export type DraftSaveOutcome = { saved: number; problems: RowProblem[] };
  */
 export async function saveDraftResults(enrollment: Enrollment, rows: ResultInputRow[], user: Actor): Promise<DraftSaveOutcome> {
   const frame = await studyFrame(enrollment.studyId);
-  assertResultsEditable(frame.study);
+  assertResultsEditable(frame.study, enrollment);
   return db.transaction(async (tx) => {
     const { problems, resolved } = resolveRows(frame, await enrollmentCells(tx, enrollment.id), rows, { valueRequired: false });
     const changes = await writeRows(tx, enrollment, resolved);
@@ -152,7 +154,7 @@ export type ImportOutcome = { ok: true; imported: number; changed: number } | { 
  */
 export async function importResults(enrollment: Enrollment, rows: ResultInputRow[], user: Actor, fileName = ""): Promise<ImportOutcome> {
   const frame = await studyFrame(enrollment.studyId);
-  assertResultsEditable(frame.study);
+  assertResultsEditable(frame.study, enrollment);
   if (rows.length === 0) return { ok: false, problems: [{ row: 1, field: "value", message: "The file has no result rows." }] };
   return db.transaction(async (tx) => {
     const { problems, resolved } = resolveRows(frame, await enrollmentCells(tx, enrollment.id), rows, { valueRequired: true });
@@ -211,7 +213,7 @@ export async function materialEntry(enrollment: Enrollment, materialId: number) 
 /** Submits every response of one material: each needs all its replicates, a test date and an operator. */
 export async function submitMaterial(enrollment: Enrollment, materialId: number, user: Actor): Promise<{ ok: true } | { ok: false; problems: string[] }> {
   const frame = await studyFrame(enrollment.studyId);
-  assertResultsEditable(frame.study);
+  assertResultsEditable(frame.study, enrollment);
   const material = frame.materials.find((m) => m.id === materialId);
   if (!material) throw new ResultsError("The study has no such material.");
   return db.transaction(async (tx) => {
@@ -262,7 +264,7 @@ export type AmendmentOutcome = { ok: true } | { ok: false; field: "value" | "rea
  */
 export async function amendResult(enrollment: Enrollment, materialId: number, input: AmendmentInput, user: Actor): Promise<AmendmentOutcome> {
   const frame = await studyFrame(enrollment.studyId);
-  assertResultsEditable(frame.study);
+  assertResultsEditable(frame.study, enrollment);
   const response = frame.responses.find((r) => r.id === input.responseId);
   const material = frame.materials.find((m) => m.id === materialId);
   if (!response || !material) throw new ResultsError("The study has no such material or response.");
@@ -307,7 +309,7 @@ export const PHOTO_MAX_BYTES = 10 * 1024 * 1024;
 /** Stores a surface photo (type judged from its bytes) and links it to every result of that replicate. */
 export async function attachReplicatePhoto(enrollment: Enrollment, materialId: number, replicate: number, file: File, user: Actor) {
   const frame = await studyFrame(enrollment.studyId);
-  assertResultsEditable(frame.study);
+  assertResultsEditable(frame.study, enrollment);
   const materialCells = await db.select().from(cells).where(and(eq(cells.enrollmentId, enrollment.id), eq(cells.materialId, materialId)));
   if (materialCells.some((c) => c.status === "submitted")) throw new ResultsError("This material is submitted; its photos are locked with its results.");
   const cellIds = materialCells.map((c) => c.id);

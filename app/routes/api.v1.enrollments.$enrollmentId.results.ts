@@ -36,7 +36,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const enrollment = Number.isSafeInteger(enrollmentId) ? await db.query.enrollments.findFirst({ where: eq(enrollments.id, enrollmentId) }) : undefined;
     if (!enrollment || !user.labIds.includes(enrollment.labId)) throw notYours();
     if (token && (token.scope !== "results:write" || token.enrollmentId !== enrollment.id)) throw notYours();
-    if (enrollment.state !== "accepted") throw new ApiError(409, "not_enrolled", "Your lab has not accepted this study.");
+    if (enrollment.state !== "accepted") throw new ApiError(409, "not_enrolled", enrollment.state === "withdrawn" ? "Your lab was withdrawn from this study." : "Your lab has not accepted this study.");
     const parsed = resultsBody.safeParse(await readJsonBody(request));
     if (!parsed.success) {
       throw new ApiError(422, "invalid_results", "The results are not in the expected form.", parsed.error.issues.map((i) => ({ path: i.path.join("."), message: i.message })));

@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/lab.studies.$studyId";
 import { CellStatusBadge } from "~/components/CellStatusBadge";
-import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
+import { Badge, Card, Notice, PageHeader, SimpleTable } from "~/components/ui";
 import { requireStudyAccess } from "~/lib/guards.server";
 import { STATE_LABEL } from "~/lib/study-states";
 import { enrollmentWorklist } from "~/models/results.server";
@@ -15,6 +15,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return {
     study: { id: study.id, code: study.code, title: study.title, state: study.state, resultsDue: study.resultsDue, testMethod: study.testMethod },
     labCode: enrollment!.labCode,
+    withdrawn: enrollment!.state === "withdrawn",
     shipment: worklist.shipment,
     materials: worklist.materials,
   };
@@ -23,7 +24,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 const SHIPMENT_LABEL = { preparing: "Being prepared", shipped: "On its way", received: "Received", lost: "Lost in transit" } as const;
 
 export default function LabStudy({ loaderData }: Route.ComponentProps) {
-  const { study, labCode, shipment, materials } = loaderData;
+  const { study, labCode, withdrawn, shipment, materials } = loaderData;
   const base = `/lab/studies/${study.id}`;
   return (
     <>
@@ -42,6 +43,12 @@ export default function LabStudy({ loaderData }: Route.ComponentProps) {
         }
       />
       <div className="grid gap-6 [&>*]:min-w-0">
+        {withdrawn && (
+          <Notice>
+            The coordinator has withdrawn your lab from this study. Your results are kept as they are, but they can no longer change and are not part of
+            the analysis.
+          </Notice>
+        )}
         <Card title="Materials received">
           <p className="mb-2">
             Shipment: {shipment ? SHIPMENT_LABEL[shipment.status] : "not yet sent"}

@@ -42,7 +42,10 @@ export default function LabHome({ loaderData }: Route.ComponentProps) {
               </span>,
               e.labName,
               e.labCode ?? "—",
-              <Badge key="state">{STATE_LABEL[e.studyState]}</Badge>,
+              <span key="state" className="flex flex-wrap gap-1">
+                <Badge>{STATE_LABEL[e.studyState]}</Badge>
+                {e.enrollmentState === "withdrawn" && <Badge tone="signal">Your lab withdrawn</Badge>}
+              </span>,
               `${e.submittedCells} cells`,
               e.resultsDue ?? "—",
             ])}

@@ -3,13 +3,14 @@ import { z } from "zod";
 import type { Route } from "./+types/studies.$studyId.labs";
 import { DataTable } from "~/components/DataTable";
 import { StudyNav } from "~/components/StudyNav";
-import { Badge, Button, Card, Notice, PageHeader } from "~/components/ui";
-import { type ActionResult, formState, handleForm } from "~/lib/form-results";
+import { Badge, Button, Card, Notice, PageHeader, SelectField, TextAreaField } from "~/components/ui";
+import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
 import { requireStudyAccess } from "~/lib/guards.server";
 import { invitationsOpen, RECOMMENDED_MIN_LABS } from "~/lib/study-lifecycle";
 import { STATE_LABEL } from "~/lib/study-states";
+import { useSchemaCheck } from "~/lib/use-schema-check";
 import { idField } from "~/lib/validation";
-import { inviteLab, listStudyEnrollments } from "~/models/invitation.server";
+import { inviteLab, listStudyEnrollments, WITHDRAWAL_STATES, withdrawEnrollment } from "~/models/invitation.server";
 import { listLabs } from "~/models/lab.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Labs ${data?.study.code ?? ""} · Ringbatch` }];
@@ -20,17 +21,40 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const byLab = new Map(enrolled.map((e) => [e.labId, e]));
   const rows = directory.map((lab) => {
     const e = byLab.get(lab.id);
-    return { ...lab, enrollmentState: e?.state ?? null, labCode: e?.labCode ?? null, invitedAt: e?.invitedAt?.toISOString().slice(0, 10) ?? null };
+    return { ...lab, enrollmentId: e?.id ?? null, enrollmentState: e?.state ?? null, labCode: e?.labCode ?? null, invitedAt: e?.invitedAt?.toISOString().slice(0, 10) ?? null };
   });
-  return { study, rows, accepted: enrolled.filter((e) => e.state === "accepted").length, canInvite: access === "coordinator" && invitationsOpen(study.state) };
+  return {
+    study,
+    rows,
+    accepted: enrolled.filter((e) => e.state === "accepted").length,
+    canInvite: access === "coordinator" && invitationsOpen(study.state),
+    canWithdraw: access === "coordinator" && WITHDRAWAL_STATES.includes(study.state),
+  };
 }
+
+const withdrawSchema = z.object({
+  enrollmentId: z.coerce.number({ message: "Choose a lab." }).int().positive({ message: "Choose a lab." }),
+  reason: z.string().trim().min(1, { message: "Give the reason for withdrawing the lab." }).max(500, { message: "Keep the reason to 500 characters or fewer." }),
+});
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { study, user } = await requireStudyAccess(request, params.studyId, ["coordinator"]);
-  return handleForm("invite", z.object({ labId: idField }), await request.formData(), async ({ labId }) => {
-    await inviteLab(study, labId, user.id, request);
-    return { done: "Invitation sent to the lab's contact." };
-  });
+  const form = await request.formData();
+  const intent = String(form.get("intent") ?? "");
+  switch (intent) {
+    case "invite":
+      return handleForm(intent, z.object({ labId: idField }), form, async ({ labId }) => {
+        await inviteLab(study, labId, user.id, request);
+        return { done: "Invitation sent to the lab's contact." };
+      });
+    case "withdraw":
+      return handleForm(intent, withdrawSchema, form, async ({ enrollmentId, reason }) => {
+        await withdrawEnrollment(study, enrollmentId, reason, user.id);
+        return { done: "The lab is withdrawn: it can no longer change results, and its results have left the analysis." };
+      });
+    default:
+      return refused(intent, { form: "Unknown action." });
+  }
 }
 
 const ENROLLMENT_VIEW = {
@@ -41,15 +65,21 @@ const ENROLLMENT_VIEW = {
 } as const;
 
 export default function StudyLabs({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, rows, accepted, canInvite } = loaderData;
-  const result = formState(actionData as ActionResult | undefined, "invite");
+  const { study, rows, accepted, canInvite, canWithdraw } = loaderData;
+  const reply = actionData as ActionResult | undefined;
+  const result = formState(reply, "invite");
+  const withdrawal = formState(reply, "withdraw");
+  const withdrawalCheck = useSchemaCheck(withdrawSchema, withdrawal.errors);
+  const withdrawable = rows
+    .filter((l) => l.enrollmentState === "invited" || l.enrollmentState === "accepted")
+    .map((l) => ({ value: String(l.enrollmentId), label: `${l.name}${l.labCode ? ` (${l.labCode})` : ""}` }));
   const busy = useNavigation().state === "submitting";
   return (
     <>
       <PageHeader title={`${study.code} — labs`} subtitle={<>{study.title} · <Badge>{STATE_LABEL[study.state]}</Badge></>} />
       <StudyNav studyId={study.id} />
       <div className="flex flex-col gap-4">
-        {result.done && <Notice tone="success">{result.done}</Notice>}
+        {(result.done ?? withdrawal.done) && <Notice tone="success">{result.done ?? withdrawal.done}</Notice>}
         {result.errors.labId && <Notice tone="error">{result.errors.labId}</Notice>}
         {!canInvite && study.state === "draft" && <Notice>Open recruiting on the setup page to invite labs.</Notice>}
         <p>
@@ -95,6 +125,7 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
                       cell: (l: (typeof rows)[number]) =>
                         l.enrollmentState === "accepted" ? null : (
                           <Form method="post">
+                            <input type="hidden" name="intent" value="invite" />
                             <input type="hidden" name="labId" value={l.id} />
                             <Button type="submit" variant="secondary" disabled={busy || !l.contactEmail} aria-label={`${l.enrollmentState ? "Invite again" : "Invite"} ${l.name}`}>
                               {l.enrollmentState ? "Invite again" : "Invite"}
@@ -107,6 +138,30 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
             ]}
           />
         </Card>
+        {canWithdraw && withdrawable.length > 0 && (
+          <Card title="Withdraw a lab">
+            <p className="mb-4">
+              A withdrawn lab can no longer change its results, and its results leave the analysis; they stay on record with your reason. While the study
+              is recruiting, the lab can be invited again.
+            </p>
+            <Form method="post" className="grid gap-4 md:grid-cols-2" onSubmit={withdrawalCheck.onSubmit} noValidate>
+              <input type="hidden" name="intent" value="withdraw" />
+              <SelectField
+                label="Lab"
+                name="enrollmentId"
+                options={[{ value: "", label: "Choose a lab" }, ...withdrawable]}
+                defaultValue={withdrawal.values.enrollmentId ?? ""}
+                error={withdrawalCheck.errors.enrollmentId}
+              />
+              <TextAreaField label="Reason" name="reason" rows={2} defaultValue={withdrawal.values.reason} error={withdrawalCheck.errors.reason} />
+              <div>
+                <Button type="submit" variant="secondary" disabled={busy}>
+                  Withdraw the lab
+                </Button>
+              </div>
+            </Form>
+          </Card>
+        )}
       </div>
     </>
   );

@@ -1,7 +1,7 @@
 import { createClient } from "@libsql/client";
 import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
-import { DEMO_PASSWORD } from "../../seed/demo-data";
+import { DEMO_LABS, DEMO_PASSWORD } from "../../seed/demo-data";
 import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
 
 const running = useServerAndBrowser();
@@ -13,6 +13,9 @@ async function signedIn(email: string, password = DEMO_PASSWORD) {
   await page.waitForURL((url) => url.pathname !== "/login");
   return page;
 }
+
+// Lab index 5 of the demo (analyst6's lab), which has drafts on F1 of the study in testing.
+const LAB_SIX = DEMO_LABS[5].name;
 
 const heading = (page: Page) => page.getByRole("heading", { level: 1 }).textContent();
 
@@ -157,5 +160,27 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
     const expired = await visitor.goto(link.toString());
     expect(expired?.status()).toBe(410);
     await expect.poll(() => heading(visitor)).toBe("This invitation has expired");
+  });
+
+  it("withdraws a lab from the study in testing with a reason, and the lab is told", async () => {
+    const coordinator = await signedIn("coordinator@ringbatch.example");
+    await coordinator.getByRole("link", { name: "FF-2026-B" }).click();
+    await coordinator.waitForURL(/\/studies\/\d+$/);
+    await coordinator.goto(`${coordinator.url()}/labs`);
+    await coordinator.getByLabel("Lab", { exact: true }).selectOption({ label: `${LAB_SIX} (L07)` });
+    await coordinator.getByRole("button", { name: "Withdraw the lab" }).click();
+    // Checked in the browser first: no reason, no post, the message beside the field.
+    await expect.poll(() => coordinator.getByText("Give the reason for withdrawing the lab.").count()).toBe(1);
+    await coordinator.getByLabel("Reason").fill("Its mixer broke down; it cannot batch before the results are due");
+    await coordinator.getByRole("button", { name: "Withdraw the lab" }).click();
+    await expect.poll(() => coordinator.getByRole("status").first().textContent()).toContain("The lab is withdrawn");
+    await expect.poll(() => coordinator.getByRole("row", { name: new RegExp(LAB_SIX) }).textContent()).toContain("Withdrawn");
+    expect(await coordinator.getByText(/labs? ha(ve|s) accepted/).textContent()).toBe("7 labs have accepted.");
+    await expectAccessible(coordinator);
+
+    const analyst = await signedIn("analyst6@ringbatch.example");
+    await analyst.getByRole("link", { name: "FF-2026-B" }).click();
+    await expect.poll(() => analyst.getByText("The coordinator has withdrawn your lab from this study.").count()).toBe(1);
+    await expectAccessible(analyst);
   });
 });

@@ -29,7 +29,7 @@ beforeAll(async () => {
 });
 
 const inviteLab = (s: typeof study, labId: number, cookie = coordinator) =>
-  call(labsPage.action, post(`/studies/${s.id}/labs`, { labId: String(labId) }, cookie), { studyId: String(s.id) });
+  call(labsPage.action, post(`/studies/${s.id}/labs`, { intent: "invite", labId: String(labId) }, cookie), { studyId: String(s.id) });
 
 /** The link of the newest message to an address, as the recipient would click it. */
 async function latestLink(to: string) {
