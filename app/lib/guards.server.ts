@@ -2,9 +2,9 @@
  * Every loader and action checks access here. Someone outside a study or lab
  * gets 404, not 403, so the existence of a study does not leak.
  */
-import { and, eq, sql } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import { data, redirect } from "react-router";
-import { db } from "~/db/client.server";
+import { db, readInteger } from "~/db/client.server";
 import { enrollments, type Role, studies, studyCoordinators, studyReviewers } from "~/db/schema";
 import { sessionStorage } from "~/lib/session.server";
 import { loadSessionUser, type SessionUser } from "~/models/user.server";
@@ -17,9 +17,8 @@ export function notFound(): never {
  * The access version (schema.ts): it changes with anything these guards read,
  * so a decision remembered at one version holds while the version is the same.
  */
-export async function currentAccessVersion(): Promise<number | null> {
-  const row = await db.get<{ version: number } | undefined>(sql`select version from access_version where id = 1`);
-  return row?.version ?? null;
+export function currentAccessVersion(): Promise<number | null> {
+  return readInteger("select version from access_version where id = 1");
 }
 
 export async function getUser(request: Request): Promise<SessionUser | null> {
