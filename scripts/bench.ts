@@ -4,9 +4,8 @@
  * prints one line per figure, each with its goal. It prints what it measured
  * and asserts nothing.
  */
-import { spawnSync } from "node:child_process";
-import { mkdtempSync, readdirSync, readFileSync } from "node:fs";
-import { createServer } from "node:http";
+import { spawn, spawnSync } from "node:child_process";
+import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { gzipSync } from "node:zlib";
@@ -84,22 +83,20 @@ try {
   // 2. The analysis page's loader (its data request), on the large study.
   const analysis = await timeRequests(200, () => fetch(`${server.url}/studies/${large.id}/analysis.data`, { headers: { Cookie: coordinator } }));
 
-  // 3. The precision endpoint against a bare node:http server returning the same bytes.
+  // 3. The precision endpoint against a bare node:http server returning the same bytes, each server in its own process.
   const precisionUrl = `${server.url}/api/v1/studies/${large.id}/precision`;
   const body = Buffer.from(await (await fetch(precisionUrl, { headers: { Cookie: coordinator } })).arrayBuffer());
-  const bare = createServer((_req, res) => {
-    res.writeHead(200, { "Content-Type": "application/json", "Content-Length": body.length });
-    res.end(body);
-  });
-  await new Promise<void>((resolve) => bare.listen(0, "127.0.0.1", resolve));
-  const barePort = (bare.address() as { port: number }).port;
+  const bodyFile = join(mkdtempSync(join(tmpdir(), "ringbatch-bench-bare-")), "precision.json");
+  writeFileSync(bodyFile, body);
+  const bare = spawn(process.execPath, ["scripts/bench-bare-server.mjs", bodyFile], { stdio: ["ignore", "pipe", "inherit"] });
+  const barePort = Number(await new Promise<string>((resolve) => bare.stdout!.once("data", (chunk: Buffer) => resolve(chunk.toString().trim()))));
   const load = (url: string, headers: Record<string, string> = {}) =>
     autocannon({ url, connections: 10, duration: 8, headers }) as Promise<autocannon.Result>;
   const appLoad = await load(precisionUrl, { Cookie: coordinator });
   // The same server's lightest route, which goes the whole React Router way: what a route read costs without the repeat-read memory.
   const healthLoad = await load(`${server.url}/healthz`);
   const bareLoad = await load(`http://127.0.0.1:${barePort}/`);
-  bare.close();
+  bare.kill();
 
   // 4. The result entry's autosave: a draft save through the page's action, as the fetcher sends it.
   const draft = { values: { "holes:1": "9", "holes:2": "10", "surface:1": "15" } as Record<string, string>, testedOn: {}, operator: {}, fresh: {}, batchedAt: "" };
