@@ -61,6 +61,16 @@ export async function studyResultRows(studyId: number, { submittedOnly = false, 
   return rows.map((r) => ({ ...r, labCode: r.labCode ?? "—" }));
 }
 
+/** Lab codes of the labs withdrawn from the study, whose results the analysis leaves out. */
+export async function withdrawnLabCodes(studyId: number) {
+  const rows = await db
+    .select({ code: enrollments.labCode })
+    .from(enrollments)
+    .where(and(eq(enrollments.studyId, studyId), eq(enrollments.state, "withdrawn")))
+    .orderBy(asc(enrollments.labCode));
+  return rows.flatMap((r) => (r.code ? [r.code] : []));
+}
+
 /** The study's excluded cells, by lab code, as the engine takes them. */
 export async function excludedCells(studyId: number): Promise<ExcludedCell[]> {
   const rows = await db

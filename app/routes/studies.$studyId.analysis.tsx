@@ -15,7 +15,7 @@ import { flaggedCells, flagStatistic, suggestedQuestion } from "~/lib/review/fla
 import { ALPHA_LABEL, figureDecimals, formatFigure } from "~/lib/review/format";
 import { decisionRefusal, queryRefusal } from "~/lib/review/write-rules";
 import { STATE_LABEL } from "~/lib/study-states";
-import { studyAnalysis } from "~/models/analysis.server";
+import { studyAnalysis, withdrawnLabCodes } from "~/models/analysis.server";
 import { QueryError, listStudyQueries, raiseQuery } from "~/models/coordinator-queries.server";
 import { DecisionError, cellEvidence, decisionHistory, listCellDecisions, saveCellDecision } from "~/models/decisions.server";
 import { studyDesign } from "~/models/statement.server";
@@ -33,8 +33,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const alphaParam = Number(url.searchParams.get("alpha"));
   const alpha = isSignificanceLevel(alphaParam) ? alphaParam : study.significanceLevel;
   const cell = selectedCell(url);
-  const [analysis, design, decisions, history, queries, evidence] = await Promise.all([
+  const [analysis, withdrawn, design, decisions, history, queries, evidence] = await Promise.all([
     studyAnalysis(study, { alpha }),
+    withdrawnLabCodes(study.id),
     studyDesign(study.id),
     listCellDecisions(study.id),
     decisionHistory(study.id),
@@ -45,6 +46,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     study: { id: study.id, code: study.code, title: study.title, state: study.state, dataVersion: study.dataVersion },
     alpha,
     analysis,
+    withdrawn,
     ...design,
     decisions,
     history,
@@ -136,6 +138,12 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
           committee's judgement; they do not replace it.
         </Notice>
         {actionData?.ok && <Notice tone="success">{actionData.message}</Notice>}
+        {loaderData.withdrawn.length > 0 && (
+          <Notice>
+            Not in the analysis: {loaderData.withdrawn.join(", ")}, withdrawn from the study. Their results stay on the results page and in the audit
+            trail.
+          </Notice>
+        )}
         <Card title="Significance level">
           <Form method="get" className="flex flex-wrap items-end gap-4">
             <fieldset className="flex flex-wrap gap-4">

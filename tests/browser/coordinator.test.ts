@@ -177,6 +177,8 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
     await expect.poll(() => coordinator.getByRole("row", { name: new RegExp(LAB_SIX) }).textContent()).toContain("Withdrawn");
     expect(await coordinator.getByText(/labs? ha(ve|s) accepted/).textContent()).toBe("7 labs have accepted.");
     await expectAccessible(coordinator);
+    await coordinator.getByRole("link", { name: "Analysis" }).click();
+    await expect.poll(() => coordinator.getByText(/Not in the analysis: L07, withdrawn from the study/).count()).toBe(1);
 
     const analyst = await signedIn("analyst6@ringbatch.example");
     await analyst.getByRole("link", { name: "FF-2026-B" }).click();

@@ -11,6 +11,7 @@ import { studyAnalysis } from "~/models/analysis.server";
 import { InvitationError, withdrawEnrollment } from "~/models/invitation.server";
 import * as labStudy from "~/routes/lab.studies.$studyId";
 import * as entry from "~/routes/lab.studies.$studyId.results.$materialId";
+import * as analysisPage from "~/routes/studies.$studyId.analysis";
 import * as labsPage from "~/routes/studies.$studyId.labs";
 import { DEMO_LABS } from "../../seed/demo-data";
 import { seedDemo } from "../../seed/seed";
@@ -55,6 +56,9 @@ describe("withdrawing a lab", () => {
     expect((await db.query.enrollments.findFirst({ where: eq(enrollments.id, enrollment.id) }))!.state).toBe("withdrawn");
     expect((await loadStudy()).dataVersion).toBe(before.dataVersion + 1);
     expect((await codesInAnalysis()).has(enrollment.labCode!)).toBe(false);
+    // The analysis page says which lab is left out, and why.
+    const page = await call(analysisPage.loader, get(`/studies/${study.id}/analysis`, coordinator), { studyId: String(study.id) });
+    expect(page.data.withdrawn).toEqual([enrollment.labCode]);
     const [event] = await db.select().from(auditEvents).where(and(eq(auditEvents.action, "lab_withdrawn"), eq(auditEvents.entityId, String(enrollment.id))));
     expect(event!.reason).toBe("Tested at 35 °C ambient against the protocol's 23 °C");
     // The coordinator's lab page no longer offers the withdrawal for it.
