@@ -349,7 +349,7 @@ function groupBy<T, K>(items: T[], keyOf: (item: T) => K) {
 export async function studyResults(studyId: number, labsPage = 1) {
   const frame = await studyFrame(studyId);
   const allEnrollments = await db
-    .select({ id: enrollments.id, labCode: enrollments.labCode, labName: labs.name })
+    .select({ id: enrollments.id, labCode: enrollments.labCode, labName: labs.name, state: enrollments.state })
     .from(enrollments)
     .innerJoin(labs, eq(labs.id, enrollments.labId))
     .where(eq(enrollments.studyId, studyId))
@@ -381,6 +381,7 @@ export async function studyResults(studyId: number, labsPage = 1) {
         materialId: material.id,
         labCode: enrollment.labCode,
         labName: enrollment.labName,
+        withdrawn: enrollment.state === "withdrawn",
         materialCode: material.code,
         cells: materialCells.map(({ response, cell }) => ({
           responseKey: response.key,

@@ -73,7 +73,13 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
             headers={["Lab code", "Lab", "Material", ...responses.map((r) => r.name), "Fresh properties"]}
             rows={rows.map((row) => [
               row.labCode ?? "—",
-              row.labName,
+              row.withdrawn ? (
+                <span key="lab" className="flex flex-wrap items-center gap-2">
+                  {row.labName} <Badge>Withdrawn</Badge>
+                </span>
+              ) : (
+                row.labName
+              ),
               row.materialCode,
               ...row.cells.map((cell) => (
                 <span key={cell.responseKey} className="flex flex-wrap items-center gap-2">

@@ -13,6 +13,7 @@ import * as labStudy from "~/routes/lab.studies.$studyId";
 import * as entry from "~/routes/lab.studies.$studyId.results.$materialId";
 import * as analysisPage from "~/routes/studies.$studyId.analysis";
 import * as labsPage from "~/routes/studies.$studyId.labs";
+import * as resultsPage from "~/routes/studies.$studyId.results";
 import { DEMO_LABS } from "../../seed/demo-data";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
@@ -59,6 +60,12 @@ describe("withdrawing a lab", () => {
     // The analysis page says which lab is left out, and why.
     const page = await call(analysisPage.loader, get(`/studies/${study.id}/analysis`, coordinator), { studyId: String(study.id) });
     expect(page.data.withdrawn).toEqual([enrollment.labCode]);
+    // The results stay on the results page, marked.
+    const results = await call(resultsPage.loader, get(`/studies/${study.id}/results`, coordinator), { studyId: String(study.id) });
+    const rows = results.data.rows.filter((r: { labCode: string }) => r.labCode === enrollment.labCode);
+    expect(rows.length).toBeGreaterThan(0);
+    expect(rows.every((r: { withdrawn: boolean; cells: { values: unknown[] }[] }) => r.withdrawn)).toBe(true);
+    expect(rows.some((r: { cells: { values: unknown[] }[] }) => r.cells.some((c) => c.values.length > 0))).toBe(true);
     const [event] = await db.select().from(auditEvents).where(and(eq(auditEvents.action, "lab_withdrawn"), eq(auditEvents.entityId, String(enrollment.id))));
     expect(event!.reason).toBe("Tested at 35 °C ambient against the protocol's 23 °C");
     // The coordinator's lab page no longer offers the withdrawal for it.
