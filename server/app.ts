@@ -12,7 +12,7 @@ import express from "express";
 import morgan from "morgan";
 import onHeaders from "on-headers";
 import { answerRepeatPrecisionRead } from "~/lib/api-repeat-reads.server";
-import { SECURITY_HEADERS } from "~/lib/security-headers.server";
+import { applySecurityHeaders } from "~/lib/security-headers.server";
 
 const clientFiles = fileURLToPath(new URL("../client", import.meta.url));
 const logRequest = morgan("tiny");
@@ -36,9 +36,7 @@ app.use(compression());
 // Every answer carries the security headers, also static files and React Router's own refusals,
 // which the root middleware never sees; an answer that sets one keeps its own.
 app.use((_request, response, next) => {
-  onHeaders(response, function addSecurityHeaders() {
-    for (const [name, value] of Object.entries(SECURITY_HEADERS)) if (!this.hasHeader(name)) this.setHeader(name, value);
-  });
+  onHeaders(response, () => applySecurityHeaders({ has: (name) => response.hasHeader(name), set: (name, value) => void response.setHeader(name, value) }));
   next();
 });
 app.use("/assets", express.static(`${clientFiles}/assets`, { immutable: true, maxAge: "1y" }));

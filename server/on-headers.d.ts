@@ -2,5 +2,5 @@
 declare module "on-headers" {
   import type { ServerResponse } from "node:http";
 
-  export default function onHeaders(response: ServerResponse, listener: (this: ServerResponse) => void): void;
+  export default function onHeaders(response: ServerResponse, listener: () => void): void;
 }

@@ -74,13 +74,13 @@ function queuedTransaction(real: Database): Database["transaction"] {
 }
 
 // One client per process, kept on globalThis so the dev server's module reloads reuse it.
-type Connection = { client: Client; db: Database; readings?: { connection: InstanceType<typeof Libsql>; statements: Map<string, Libsql.Statement<[]>> } };
+type Connection = { client: Client; db: Database; config: ReturnType<typeof databaseConfig>; readings?: { connection: InstanceType<typeof Libsql>; statements: Map<string, Libsql.Statement<[]>> } };
 const globalStore = globalThis as typeof globalThis & { __ringbatchDb?: Connection };
 
 function connection() {
   globalStore.__ringbatchDb ??= (() => {
     const client = openClient();
-    return { client, db: drizzle(client, { schema }) };
+    return { client, db: drizzle(client, { schema }), config: databaseConfig() };
   })();
   return globalStore.__ringbatchDb;
 }
@@ -93,7 +93,7 @@ function connection() {
  */
 export async function readInteger(query: string): Promise<number | null> {
   const open = connection();
-  const { url, isLocalFile } = databaseConfig();
+  const { url, isLocalFile } = open.config;
   if (!isLocalFile) {
     const value = (await open.client.execute(query)).rows[0]?.[0];
     return value === undefined || value === null ? null : Number(value);

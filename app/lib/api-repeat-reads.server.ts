@@ -28,7 +28,7 @@ export const PRECISION_READERS: StudyAccess[] = ["admin", "coordinator", "review
 
 export const PRECISION_CONTENT_TYPE = "application/json; charset=utf-8";
 
-export const PRECISION_PATH = /^\/api\/v1\/studies\/(\d{1,15})\/precision$/;
+const PRECISION_PATH = /^\/api\/v1\/studies\/(\d{1,15})\/precision$/;
 
 /** The `alpha` query parameter: absent (the study's own level) or one of the engine's levels. */
 export function precisionAlpha(searchParams: URLSearchParams): number | undefined {
@@ -90,16 +90,16 @@ export async function answerRepeatPrecisionRead(method: string | undefined, url:
   }
   const body = cachedAnalysisBytes(reader.study, alpha);
   if (!body) return null;
-  const answer = (status: number, contentType: string, bytes: Buffer): DirectAnswer => ({
+  const answer = (status: number, bytes: Buffer): DirectAnswer => ({
     status,
-    headers: { ...SECURITY_HEADERS, "Content-Type": contentType, "Content-Length": bytes.length },
+    headers: { ...SECURITY_HEADERS, "Content-Type": PRECISION_CONTENT_TYPE, "Content-Length": bytes.length },
     body: bytes,
   });
   try {
     enforceRateLimit(reader.rateKey);
   } catch (error) {
     if (!(error instanceof ApiError)) throw error;
-    return answer(error.status, PRECISION_CONTENT_TYPE, Buffer.from(JSON.stringify(errorBody(error))));
+    return answer(error.status, Buffer.from(JSON.stringify(errorBody(error))));
   }
-  return answer(200, PRECISION_CONTENT_TYPE, body);
+  return answer(200, body);
 }

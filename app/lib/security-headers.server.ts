@@ -22,8 +22,8 @@ export const SECURITY_HEADERS: Record<string, string> = {
   "X-Frame-Options": "DENY",
 };
 
-/** Adds each security header the response does not set itself. */
-export function applySecurityHeaders(headers: Headers) {
+/** Adds each security header the response does not set itself (to a Headers, or anything that can `has` and `set`). */
+export function applySecurityHeaders(headers: Pick<Headers, "has" | "set">) {
   for (const [name, value] of Object.entries(SECURITY_HEADERS)) {
     if (!headers.has(name)) headers.set(name, value);
   }

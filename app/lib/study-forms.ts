@@ -137,8 +137,11 @@ export const transitionSchema = z.object({ to: z.enum(STUDY_STATES, { message: "
 
 const requiredDate = (what: string) => z.iso.date({ message: `Enter the ${what} date as YYYY-MM-DD.` });
 
+/** One of the study's labs, chosen from a list of its enrollments. */
+const enrollmentChoice = z.coerce.number({ message: "Choose a lab." }).int().positive({ message: "Choose a lab." });
+
 export const shipmentCreateSchema = z.object({
-  enrollmentId: z.coerce.number({ message: "Choose a lab." }).int().positive({ message: "Choose a lab." }),
+  enrollmentId: enrollmentChoice,
   contents: z.string().trim().min(1, { message: "List the materials and lots in the shipment." }).max(2000, { message: "Keep the contents to 2000 characters or fewer." }),
   carrier: optionalText(120, "carrier"),
   trackingNumber: optionalText(120, "tracking number"),
@@ -156,4 +159,9 @@ export const receiptSchema = z.object({
   receivedOn: requiredDate("receipt"),
   condition: z.enum(["good", "damaged"], { message: "Say whether the materials arrived in good condition or damaged." }),
   receiptNotes: optionalText(2000, "notes"),
+});
+
+export const withdrawalSchema = z.object({
+  enrollmentId: enrollmentChoice,
+  reason: z.string().trim().min(1, { message: "Give the reason for withdrawing the lab." }).max(500, { message: "Keep the reason to 500 characters or fewer." }),
 });

@@ -3,8 +3,8 @@
  * the precision engine. Results are identified by blind lab codes only, so
  * the same figures can go to coordinators and reviewers alike.
  */
-import { and, asc, eq, ne } from "drizzle-orm";
-import { db } from "~/db/client.server";
+import { and, asc, eq, ne, sql } from "drizzle-orm";
+import { db, type Transaction } from "~/db/client.server";
 import { cellDecisions, cells, enrollments, labs, materials, responses, results, studies } from "~/db/schema";
 import { analyzeStudy, type ExcludedCell, type StudyAnalysis } from "~/lib/precision";
 
@@ -82,6 +82,14 @@ export async function excludedCells(studyId: number): Promise<ExcludedCell[]> {
     .innerJoin(responses, eq(responses.id, cells.responseId))
     .where(and(eq(enrollments.studyId, studyId), eq(cellDecisions.decision, "excluded")));
   return rows.map((r) => ({ ...r, lab: r.lab ?? "—" }));
+}
+
+/**
+ * Moves the study's data version on, inside the transaction of a write that
+ * changes what the analysis reads (results, cell decisions, a withdrawn lab).
+ */
+export function bumpDataVersion(tx: Transaction, studyId: number) {
+  return tx.update(studies).set({ dataVersion: sql`${studies.dataVersion} + 1` }).where(eq(studies.id, studyId));
 }
 
 // Analyses are pure functions of (data version, alpha, exclusions): cache them by that key, with

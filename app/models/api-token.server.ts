@@ -78,7 +78,7 @@ export async function activeApiToken(token: string) {
   const row = await db.query.apiTokens.findFirst({ where: eq(apiTokens.tokenHash, hashToken(token)) });
   if (!row || row.revokedAt) return null;
   const now = new Date();
-  if (!row.lastUsedAt || now.getTime() - row.lastUsedAt.getTime() > LAST_USE_RESOLUTION_MS) {
+  if (now.getTime() > lastUseRecordedUntil(row)) {
     await db
       .update(apiTokens)
       .set({ lastUsedAt: now })

@@ -10,6 +10,7 @@ import { auditEvents, cellDecisions, cells, enrollments, materials, responses, r
 import { recordAudit } from "~/lib/audit.server";
 import type { CellRef } from "~/lib/review/cells";
 import { decisionRefusal } from "~/lib/review/write-rules";
+import { bumpDataVersion } from "~/models/analysis.server";
 
 type Study = typeof studies.$inferSelect;
 
@@ -66,7 +67,7 @@ export async function saveCellDecision(study: Study, actorUserId: number, input:
     const values = { decision: input.decision, reason: input.reason, decidedBy: actorUserId, decidedAt: new Date() };
     if (previous) await tx.update(cellDecisions).set(values).where(eq(cellDecisions.id, previous.id));
     else await tx.insert(cellDecisions).values({ cellId, ...values });
-    await tx.update(studies).set({ dataVersion: sql`${studies.dataVersion} + 1` }).where(eq(studies.id, study.id));
+    await bumpDataVersion(tx, study.id);
     await recordAudit(
       {
         actorUserId,

@@ -4,8 +4,8 @@
  * days, and only for the study its link names.
  */
 import { createHash, randomBytes } from "node:crypto";
-import { and, eq, isNull, sql } from "drizzle-orm";
-import { db } from "~/db/client.server";
+import { and, eq, isNull } from "drizzle-orm";
+import { db, type Transaction } from "~/db/client.server";
 import { enrollments, invitations, labMembers, labs, studies, users } from "~/db/schema";
 import { recordAudit } from "~/lib/audit.server";
 import { appUrl, sendEmail } from "~/lib/email.server";
@@ -13,6 +13,7 @@ import { invitationEmail } from "~/lib/email-templates";
 import { FieldRefusal } from "~/lib/form-results";
 import { drawLabCode } from "~/lib/lab-codes.server";
 import { invitationsOpen } from "~/lib/study-lifecycle";
+import { bumpDataVersion } from "~/models/analysis.server";
 import type { SessionUser } from "~/models/user.server";
 import { hashPassword, normaliseEmail } from "~/models/user.server";
 
@@ -91,7 +92,7 @@ export async function lookupInvitation(token: string, studyIdParam: string | nul
 type Valid = Extract<InvitationLookup, { status: "valid" }>;
 
 /** Marks the token used; false when someone used it first (single use even under a race). */
-async function claim(tx: Parameters<Parameters<typeof db.transaction>[0]>[0], invitationId: number) {
+async function claim(tx: Transaction, invitationId: number) {
   const claimed = await tx
     .update(invitations)
     .set({ usedAt: new Date() })
@@ -158,7 +159,7 @@ export async function withdrawEnrollment(study: Study, enrollmentId: number, rea
     if (enrollment.state !== "invited" && enrollment.state !== "accepted") throw new InvitationError("reason", "Only an invited or enrolled lab can be withdrawn.");
     await tx.update(enrollments).set({ state: "withdrawn", respondedAt: new Date() }).where(eq(enrollments.id, enrollmentId));
     await tx.update(invitations).set({ expiresAt: new Date() }).where(and(eq(invitations.enrollmentId, enrollmentId), isNull(invitations.usedAt)));
-    await tx.update(studies).set({ dataVersion: sql`${studies.dataVersion} + 1` }).where(eq(studies.id, study.id));
+    await bumpDataVersion(tx, study.id);
     await recordAudit(
       { actorUserId, action: "lab_withdrawn", entityType: "enrollment", entityId: enrollmentId, studyId: study.id, before: { state: enrollment.state }, after: { state: "withdrawn" }, reason },
       tx,

@@ -27,6 +27,7 @@ import { cellStatusOf } from "~/lib/cell-status";
 import { checkResultValue } from "~/lib/results/values";
 import { STATE_LABEL } from "~/lib/study-states";
 import { IMAGE_TYPES, storeUpload } from "~/lib/uploads.server";
+import { bumpDataVersion } from "~/models/analysis.server";
 
 export type Enrollment = typeof enrollments.$inferSelect;
 type Study = typeof studies.$inferSelect;
@@ -111,10 +112,6 @@ async function writeRows(tx: Transaction, enrollment: Enrollment, rows: Resolved
     await bumpDataVersion(tx, enrollment.studyId);
   }
   return changes;
-}
-
-function bumpDataVersion(tx: Transaction, studyId: number) {
-  return tx.update(studies).set({ dataVersion: sql`${studies.dataVersion} + 1` }).where(eq(studies.id, studyId));
 }
 
 const changeTrail = (changes: Change[]) => ({

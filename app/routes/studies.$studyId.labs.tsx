@@ -7,6 +7,7 @@ import { Badge, Button, Card, Notice, PageHeader, SelectField, TextAreaField } f
 import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
 import { requireStudyAccess } from "~/lib/guards.server";
 import { invitationsOpen, RECOMMENDED_MIN_LABS } from "~/lib/study-lifecycle";
+import { withdrawalSchema } from "~/lib/study-forms";
 import { STATE_LABEL } from "~/lib/study-states";
 import { useSchemaCheck } from "~/lib/use-schema-check";
 import { idField } from "~/lib/validation";
@@ -32,11 +33,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-const withdrawSchema = z.object({
-  enrollmentId: z.coerce.number({ message: "Choose a lab." }).int().positive({ message: "Choose a lab." }),
-  reason: z.string().trim().min(1, { message: "Give the reason for withdrawing the lab." }).max(500, { message: "Keep the reason to 500 characters or fewer." }),
-});
-
 export async function action({ request, params }: Route.ActionArgs) {
   const { study, user } = await requireStudyAccess(request, params.studyId, ["coordinator"]);
   const form = await request.formData();
@@ -48,7 +44,7 @@ export async function action({ request, params }: Route.ActionArgs) {
         return { done: "Invitation sent to the lab's contact." };
       });
     case "withdraw":
-      return handleForm(intent, withdrawSchema, form, async ({ enrollmentId, reason }) => {
+      return handleForm(intent, withdrawalSchema, form, async ({ enrollmentId, reason }) => {
         await withdrawEnrollment(study, enrollmentId, reason, user.id);
         return { done: "The lab is withdrawn: it can no longer change results, and its results have left the analysis." };
       });
@@ -69,7 +65,7 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
   const reply = actionData as ActionResult | undefined;
   const result = formState(reply, "invite");
   const withdrawal = formState(reply, "withdraw");
-  const withdrawalCheck = useSchemaCheck(withdrawSchema, withdrawal.errors);
+  const withdrawalCheck = useSchemaCheck(withdrawalSchema, withdrawal.errors);
   const withdrawable = rows
     .filter((l) => l.enrollmentState === "invited" || l.enrollmentState === "accepted")
     .map((l) => ({ value: String(l.enrollmentId), label: `${l.name}${l.labCode ? ` (${l.labCode})` : ""}` }));
