@@ -5,7 +5,7 @@ import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
 import { type EntryContext, ServerRouter } from "react-router";
 import { migrateDatabase } from "~/db/client.server";
-import { applySecurityHeaders } from "~/lib/security-headers.server";
+import { applySecurityHeaders } from "~/server/security-headers.server";
 
 // Migrations from drizzle/ are applied when the server starts, before the first request.
 await migrateDatabase();

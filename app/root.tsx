@@ -1,9 +1,9 @@
 import { data, isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
-import { AppHeader } from "~/components/AppHeader";
-import { getUser } from "~/lib/guards.server";
-import { isForeignOrigin } from "~/lib/origin-check.server";
-import { withSecurityHeaders } from "~/lib/security-headers.server";
+import { AppHeader } from "~/components/app-header";
+import { getUser } from "~/server/guards.server";
+import { isForeignOrigin } from "~/server/origin-check.server";
+import { withSecurityHeaders } from "~/server/security-headers.server";
 import { mailboxEnabled } from "~/models/mailbox.server";
 import "./app.css";
 

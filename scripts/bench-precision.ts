@@ -3,7 +3,7 @@
 // sums the same values. Prints what it measured; it asserts nothing.
 import { pathToFileURL } from "node:url";
 import { analyzeStudy, type ResultRow } from "../app/lib/precision/index";
-import { seededUniform } from "../app/lib/precision/seededUniform";
+import { seededUniform } from "../app/lib/precision/seeded-uniform";
 
 const LABS = 1_000;
 const MATERIALS = 50;

@@ -11,8 +11,8 @@ import compression from "compression";
 import express from "express";
 import morgan from "morgan";
 import onHeaders from "on-headers";
-import { answerRepeatPrecisionRead } from "~/lib/api-repeat-reads.server";
-import { applySecurityHeaders } from "~/lib/security-headers.server";
+import { answerRepeatPrecisionRead } from "~/server/api-repeat-reads.server";
+import { applySecurityHeaders } from "~/server/security-headers.server";
 
 const clientFiles = fileURLToPath(new URL("../client", import.meta.url));
 const logRequest = morgan("tiny");

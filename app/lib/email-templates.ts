@@ -2,7 +2,7 @@
  * The product's messages, each built with composeEmail so every transport
  * sends exactly the same text. Callers pass absolute links (appUrl).
  */
-import { composeEmail } from "~/lib/email.server";
+import { composeEmail } from "~/server/email.server";
 
 type StudyRef = { code: string; title: string };
 

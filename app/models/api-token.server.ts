@@ -2,7 +2,7 @@ import { createHash, randomBytes } from "node:crypto";
 import { and, desc, eq, isNull, lt, or } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { apiTokens, enrollments, studies } from "~/db/schema";
-import { studyAccessFor } from "~/lib/guards.server";
+import { studyAccessFor } from "~/server/guards.server";
 import { AccountError, type SessionUser } from "~/models/user.server";
 
 const TOKEN_PREFIX = "rbt_";

@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { attachments, cells, enrollments, results, shipments, studies } from "~/db/schema";
-import { type StudyAccess, studyAccessFor } from "~/lib/guards.server";
+import { type StudyAccess, studyAccessFor } from "~/server/guards.server";
 import type { SessionUser } from "~/models/user.server";
 
 /**

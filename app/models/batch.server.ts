@@ -6,7 +6,7 @@
 import { and, asc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { batches, freshPropertyTargets, materials, mixtureConstituents, studies } from "~/db/schema";
-import { recordAudit } from "~/lib/audit.server";
+import { recordAudit } from "~/server/audit.server";
 import { checkTolerance, mixtureDesignSchema } from "~/lib/batching";
 import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
 import { assertResultsEditable, type Enrollment } from "~/models/results.server";

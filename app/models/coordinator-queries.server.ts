@@ -6,8 +6,8 @@
 import { and, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { cells, enrollments, labMembers, labs, materials, queries, responses, studies, users } from "~/db/schema";
-import { recordAudit } from "~/lib/audit.server";
-import { appUrl, composeEmail, sendEmail } from "~/lib/email.server";
+import { recordAudit } from "~/server/audit.server";
+import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import type { CellRef } from "~/lib/review/cells";
 import { queryRefusal } from "~/lib/review/write-rules";
 import { findCellId } from "~/models/decisions.server";

@@ -7,7 +7,7 @@
 import { and, asc, desc, eq, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { auditEvents, cellDecisions, cells, enrollments, materials, responses, results, studies, users } from "~/db/schema";
-import { recordAudit } from "~/lib/audit.server";
+import { recordAudit } from "~/server/audit.server";
 import type { CellRef } from "~/lib/review/cells";
 import { decisionRefusal } from "~/lib/review/write-rules";
 import { bumpDataVersion } from "~/models/analysis.server";

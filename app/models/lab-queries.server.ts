@@ -5,8 +5,8 @@
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { cells, enrollments, materials, queries, responses, studies, studyCoordinators, users } from "~/db/schema";
-import { recordAudit } from "~/lib/audit.server";
-import { appUrl, composeEmail, sendEmail } from "~/lib/email.server";
+import { recordAudit } from "~/server/audit.server";
+import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import type { Enrollment } from "~/models/results.server";
 
 const queryView = {

@@ -5,8 +5,8 @@
 import { desc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { emailOutbox } from "~/db/schema";
-import { emailTransport } from "~/lib/email.server";
-import { notFound, requireRole } from "~/lib/guards.server";
+import { emailTransport } from "~/server/email.server";
+import { notFound, requireRole } from "~/server/guards.server";
 
 export function mailboxEnabled() {
   return emailTransport() === "fake";

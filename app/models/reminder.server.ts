@@ -2,8 +2,8 @@
 import { eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { enrollments, labs, type studies } from "~/db/schema";
-import { recordAudit } from "~/lib/audit.server";
-import { appUrl, sendEmail } from "~/lib/email.server";
+import { recordAudit } from "~/server/audit.server";
+import { appUrl, sendEmail } from "~/server/email.server";
 import { missingResultsReminderEmail } from "~/lib/email-templates";
 import { studyMatrix } from "~/models/study.server";
 

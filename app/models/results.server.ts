@@ -21,12 +21,12 @@ import {
   studies,
   users,
 } from "~/db/schema";
-import { recordAudit } from "~/lib/audit.server";
+import { recordAudit } from "~/server/audit.server";
 import { cellKey, type ResolvedRow, resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { cellStatusOf } from "~/lib/cell-status";
 import { checkResultValue } from "~/lib/results/values";
 import { STATE_LABEL } from "~/lib/study-states";
-import { IMAGE_TYPES, storeUpload } from "~/lib/uploads.server";
+import { IMAGE_TYPES, storeUpload } from "~/server/uploads.server";
 import { bumpDataVersion } from "~/models/analysis.server";
 
 export type Enrollment = typeof enrollments.$inferSelect;

@@ -6,7 +6,7 @@
 import { and, asc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { precisionStatements, reviewComments, studies, studyReviewers, users, votes } from "~/db/schema";
-import { recordAudit } from "~/lib/audit.server";
+import { recordAudit } from "~/server/audit.server";
 import type { VoteChoice } from "~/lib/review/publication";
 import { reviewRefusal } from "~/lib/review/write-rules";
 import { statementInReview } from "~/models/statement.server";

@@ -6,8 +6,8 @@
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { enrollments, labs, materials, mixtureConstituents, shipments, studies } from "~/db/schema";
-import { recordAudit } from "~/lib/audit.server";
-import { appUrl, sendEmail } from "~/lib/email.server";
+import { recordAudit } from "~/server/audit.server";
+import { appUrl, sendEmail } from "~/server/email.server";
 import { shipmentNoticeEmail } from "~/lib/email-templates";
 import { FieldRefusal } from "~/lib/form-results";
 

@@ -6,8 +6,8 @@
 import { and, asc, desc, eq, inArray, isNotNull } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
 import { enrollments, labs, materials, precisionStatements, responses, studies, studyReviewers, users, votes } from "~/db/schema";
-import { recordAudit } from "~/lib/audit.server";
-import { appUrl, composeEmail, sendEmail } from "~/lib/email.server";
+import { recordAudit } from "~/server/audit.server";
+import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import { publicationCheck } from "~/lib/review/publication";
 import { draftingRefusal, reviewRefusal } from "~/lib/review/write-rules";
 import { c670Text, e691Text, type StatementSnapshot } from "~/lib/statement-text";

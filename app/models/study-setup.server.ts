@@ -16,7 +16,7 @@ import {
   studyReviewers,
   users,
 } from "~/db/schema";
-import { recordAudit } from "~/lib/audit.server";
+import { recordAudit } from "~/server/audit.server";
 import { FieldRefusal } from "~/lib/form-results";
 import { AIR_CONTENT_TOLERANCE_POINTS, type Constituent, inToMm, slumpTolerance } from "~/lib/batching";
 import type { freshTargetsSchema, materialSchema, newStudySchema, responseSchema, studyFields } from "~/lib/study-forms";

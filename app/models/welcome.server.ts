@@ -7,8 +7,8 @@ import { createHash, randomBytes } from "node:crypto";
 import { and, eq, isNull } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { labs, passwordTokens, users } from "~/db/schema";
-import { recordAudit } from "~/lib/audit.server";
-import { appUrl, sendEmail } from "~/lib/email.server";
+import { recordAudit } from "~/server/audit.server";
+import { appUrl, sendEmail } from "~/server/email.server";
 import { colleagueWelcomeEmail } from "~/lib/email-templates";
 import { createUser, hashPassword, type SessionUser } from "~/models/user.server";
 

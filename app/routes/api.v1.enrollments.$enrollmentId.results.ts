@@ -3,7 +3,7 @@ import { z } from "zod";
 import type { Route } from "./+types/api.v1.enrollments.$enrollmentId.results";
 import { db } from "~/db/client.server";
 import { enrollments } from "~/db/schema";
-import { ApiError, apiHandler, notYours, readJsonBody, requireApiCaller } from "~/lib/api.server";
+import { ApiError, apiHandler, notYours, readJsonBody, requireApiCaller } from "~/server/api.server";
 import { importResults, ResultsError } from "~/models/results.server";
 
 // Strict: a field the API does not know (a typo, `__proto__`) is refused rather than dropped.

@@ -1,7 +1,7 @@
 import type { Route } from "./+types/api.v1.studies.$studyId.precision";
-import { PRECISION_CONTENT_TYPE, PRECISION_READERS, precisionAlpha, rememberPrecisionReader } from "~/lib/api-repeat-reads.server";
-import { apiHandler, requireApiStudyAccess } from "~/lib/api.server";
-import { currentAccessVersion } from "~/lib/guards.server";
+import { PRECISION_CONTENT_TYPE, PRECISION_READERS, precisionAlpha, rememberPrecisionReader } from "~/server/api-repeat-reads.server";
+import { apiHandler, requireApiStudyAccess } from "~/server/api.server";
+import { currentAccessVersion } from "~/server/guards.server";
 import { studyAnalysisJson } from "~/models/analysis.server";
 
 /**

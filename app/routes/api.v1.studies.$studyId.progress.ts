@@ -1,5 +1,5 @@
 import type { Route } from "./+types/api.v1.studies.$studyId.progress";
-import { apiHandler, requireApiStudyAccess } from "~/lib/api.server";
+import { apiHandler, requireApiStudyAccess } from "~/server/api.server";
 import { studyProgress } from "~/models/study.server";
 
 /**

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/api.v1.studies.$studyId.results-csv";
-import { apiHandler, requireApiStudyAccess } from "~/lib/api.server";
+import { apiHandler, requireApiStudyAccess } from "~/server/api.server";
 import { exportedResults, resultsCsv } from "~/models/study-export.server";
 
 /** GET /api/v1/studies/:studyId/results.csv — the same rows as the JSON, as a download. */

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/api.v1.studies.$studyId.results";
-import { apiHandler, requireApiStudyAccess } from "~/lib/api.server";
+import { apiHandler, requireApiStudyAccess } from "~/server/api.server";
 import { exportedResults } from "~/models/study-export.server";
 
 /** GET /api/v1/studies/:studyId/results — coordinators (with lab names) and reviewers (lab codes only). */

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/api.v1.studies.$studyId";
-import { apiHandler, requireApiStudyAccess } from "~/lib/api.server";
+import { apiHandler, requireApiStudyAccess } from "~/server/api.server";
 import { studyDescription } from "~/models/study-export.server";
 
 /** GET /api/v1/studies/:studyId — setup, responses, materials and labs, blinded as the caller's role requires. */

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/api.v1.studies.$studyId.what-if";
-import { ApiError, apiHandler, requireApiStudyAccess } from "~/lib/api.server";
+import { ApiError, apiHandler, requireApiStudyAccess } from "~/server/api.server";
 import { isSignificanceLevel } from "~/lib/precision";
 import { parseCellList } from "~/lib/review/cells";
 import { studyAnalysis } from "~/models/analysis.server";

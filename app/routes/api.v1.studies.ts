@@ -2,7 +2,7 @@ import { and, asc, eq, inArray, or } from "drizzle-orm";
 import type { Route } from "./+types/api.v1.studies";
 import { db } from "~/db/client.server";
 import { enrollments, studies, studyCoordinators, studyReviewers } from "~/db/schema";
-import { apiHandler, requireApiCaller } from "~/lib/api.server";
+import { apiHandler, requireApiCaller } from "~/server/api.server";
 
 /** GET /api/v1/studies — the studies the caller may see (a token: the one study it was made for). */
 export async function loader({ request }: Route.LoaderArgs) {

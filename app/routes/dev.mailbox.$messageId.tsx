@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/dev.mailbox.$messageId";
 import { Card, PageHeader } from "~/components/ui";
-import { notFound } from "~/lib/guards.server";
+import { notFound } from "~/server/guards.server";
 import { getMessage, requireMailbox } from "~/models/mailbox.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.message.subject ?? "Message"} · Mailbox · Ringbatch` }];

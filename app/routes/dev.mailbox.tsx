@@ -1,6 +1,6 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/dev.mailbox";
-import { DataTable } from "~/components/DataTable";
+import { DataTable } from "~/components/data-table";
 import { Card, Notice, PageHeader } from "~/components/ui";
 import { listMessages, requireMailbox } from "~/models/mailbox.server";
 

@@ -1,6 +1,6 @@
 import type { Route } from "./+types/files.$fileId";
-import { notFound, requireUser } from "~/lib/guards.server";
-import { attachmentResponse } from "~/lib/uploads.server";
+import { notFound, requireUser } from "~/server/guards.server";
+import { attachmentResponse } from "~/server/uploads.server";
 import { readableAttachment } from "~/models/attachment.server";
 
 /** Authorised download of an uploaded file; anyone not allowed gets 404. */

@@ -1,6 +1,6 @@
 import { redirect } from "react-router";
 import type { Route } from "./+types/home";
-import { getUser } from "~/lib/guards.server";
+import { getUser } from "~/server/guards.server";
 import { HOME_BY_ROLE } from "~/models/user.server";
 
 export async function loader({ request }: Route.LoaderArgs) {

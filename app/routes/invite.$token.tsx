@@ -2,10 +2,10 @@ import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/invite.$token";
 import { Button, Card, Field, MessagePage, Notice } from "~/components/ui";
-import { redirectSignedIn } from "~/lib/auth.server";
+import { redirectSignedIn } from "~/server/auth.server";
 import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
-import { getUser } from "~/lib/guards.server";
-import { clientAddress, isLimited, LINK_MISSES, recordHit } from "~/lib/rate-limit.server";
+import { getUser } from "~/server/guards.server";
+import { clientAddress, isLimited, LINK_MISSES, recordHit } from "~/server/rate-limit.server";
 import { nameField, newPasswordField } from "~/lib/validation";
 import { acceptInvitation, declineInvitation, type InvitationLookup, lookupInvitation } from "~/models/invitation.server";
 

@@ -3,7 +3,7 @@ import { z } from "zod";
 import type { Route } from "./+types/lab.queries";
 import { Badge, Button, Card, Notice, PageHeader } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
-import { notFound, requireRole } from "~/lib/guards.server";
+import { notFound, requireRole } from "~/server/guards.server";
 import { answerQuery, listLabQueries, QueryAnswerError } from "~/models/lab-queries.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Queries · My lab · Ringbatch" }];

@@ -1,11 +1,11 @@
 import { useState } from "react";
 import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/lab.studies.$studyId.batch.$materialId";
-import { ConcreteCaution } from "~/components/Cautions";
+import { ConcreteCaution } from "~/components/cautions";
 import { Button, Card, Field, Notice, PageHeader, SimpleTable } from "~/components/ui";
 import { type BatchSheetView, computeBatchSheet } from "~/lib/batch-sheet";
 import { isAggregate, KG_PER_LB, m3ToFt3 } from "~/lib/batching";
-import { notFound, requireStudyAccess } from "~/lib/guards.server";
+import { notFound, requireStudyAccess } from "~/server/guards.server";
 import { parsePlainNumber } from "~/lib/results/values";
 import { findStudyMaterial, getBatch, loadMixtureDesign, saveBatchInputs } from "~/models/batch.server";
 import { ResultsError } from "~/models/results.server";

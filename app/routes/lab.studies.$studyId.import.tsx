@@ -4,7 +4,7 @@ import { useMemo, useState } from "react";
 import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/lab.studies.$studyId.import";
 import { Button, Card, Notice, PageHeader, SimpleTable } from "~/components/ui";
-import { requireStudyAccess } from "~/lib/guards.server";
+import { requireStudyAccess } from "~/server/guards.server";
 import { decodeCsvText, IMPORT_MAX_BYTES, OPTIONAL_COLUMNS, parseImportCsv, recordsToRows, REQUIRED_COLUMNS } from "~/lib/results/import-csv";
 import { resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { importFrame, importResults, ResultsError } from "~/models/results.server";

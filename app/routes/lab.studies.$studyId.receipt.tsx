@@ -2,11 +2,11 @@ import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/lab.studies.$studyId.receipt";
 import { Badge, Button, Card, Field, Notice, PageHeader, TextAreaField } from "~/components/ui";
 import { type ActionResult, FieldRefusal, formState, handleForm, refused } from "~/lib/form-results";
-import { requireStudyAccess } from "~/lib/guards.server";
+import { requireStudyAccess } from "~/server/guards.server";
 import { receiptSchema } from "~/lib/study-forms";
 import { useSchemaCheck } from "~/lib/use-schema-check";
-import { readUploadForm } from "~/lib/upload-form.server";
-import { IMAGE_TYPES, storeUpload, UploadError } from "~/lib/uploads.server";
+import { readUploadForm } from "~/server/upload-form.server";
+import { IMAGE_TYPES, storeUpload, UploadError } from "~/server/uploads.server";
 import { confirmReceipt, listEnrollmentShipments } from "~/models/shipment.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Receipt ${data?.study.code ?? ""} · Ringbatch` }];

@@ -1,8 +1,8 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/lab.studies.$studyId";
-import { CellStatusBadge } from "~/components/CellStatusBadge";
+import { CellStatusBadge } from "~/components/cell-status-badge";
 import { Badge, Card, Notice, PageHeader, SimpleTable } from "~/components/ui";
-import { requireStudyAccess } from "~/lib/guards.server";
+import { requireStudyAccess } from "~/server/guards.server";
 import { STATE_LABEL } from "~/lib/study-states";
 import { enrollmentWorklist } from "~/models/results.server";
 

@@ -1,8 +1,8 @@
 import { data, Form, redirect, useNavigation, useSearchParams } from "react-router";
 import type { Route } from "./+types/login";
 import { Button, Card, Field, Notice } from "~/components/ui";
-import { SignInError, signIn } from "~/lib/auth.server";
-import { getUser } from "~/lib/guards.server";
+import { SignInError, signIn } from "~/server/auth.server";
+import { getUser } from "~/server/guards.server";
 import { HOME_BY_ROLE } from "~/models/user.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Ringbatch" }];

@@ -1,6 +1,6 @@
 import { redirect } from "react-router";
 import type { Route } from "./+types/logout";
-import { signOut } from "~/lib/auth.server";
+import { signOut } from "~/server/auth.server";
 
 export async function action({ request }: Route.ActionArgs) {
   return signOut(request);

@@ -1,13 +1,13 @@
 import { Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/review.$studyId";
-import { LazyCharts } from "~/components/charts/LazyCharts";
-import { PrecisionTables } from "~/components/PrecisionTables";
-import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/StatementParts";
+import { LazyCharts } from "~/components/charts/lazy-charts";
+import { PrecisionTables } from "~/components/precision-tables";
+import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
 import { Badge, Button, Card, Notice, PageHeader, TextAreaField } from "~/components/ui";
 import { type ActionResult, refused } from "~/lib/form-results";
 import { type FieldErrors, parseForm } from "~/lib/forms";
-import { requireStudyAccess } from "~/lib/guards.server";
+import { requireStudyAccess } from "~/server/guards.server";
 import { reviewRefusal } from "~/lib/review/write-rules";
 import { STATE_LABEL } from "~/lib/study-states";
 import { addComment, castVote, commentsOn, ReviewError } from "~/models/review.server";

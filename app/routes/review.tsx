@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/review";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
-import { requireRole } from "~/lib/guards.server";
+import { requireRole } from "~/server/guards.server";
 import { awaitedVotes } from "~/models/review.server";
 import { listReviewedStudies } from "~/models/study.server";
 import { STATE_LABEL } from "~/lib/study-states";

@@ -1,11 +1,11 @@
 import { Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/studies.$studyId.labs";
-import { DataTable } from "~/components/DataTable";
-import { StudyNav } from "~/components/StudyNav";
+import { DataTable } from "~/components/data-table";
+import { StudyNav } from "~/components/study-nav";
 import { Badge, Button, Card, Notice, PageHeader, SelectField, TextAreaField } from "~/components/ui";
 import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
-import { requireStudyAccess } from "~/lib/guards.server";
+import { requireStudyAccess } from "~/server/guards.server";
 import { invitationsOpen, RECOMMENDED_MIN_LABS } from "~/lib/study-lifecycle";
 import { withdrawalSchema } from "~/lib/study-forms";
 import { STATE_LABEL } from "~/lib/study-states";

@@ -1,13 +1,13 @@
 import { useMemo, useState } from "react";
 import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/studies.$studyId.materials.$materialId";
-import { StudyNav } from "~/components/StudyNav";
+import { StudyNav } from "~/components/study-nav";
 import { Button, Card, Field, Notice, PageHeader } from "~/components/ui";
 import { CONSTITUENT_KINDS } from "~/db/values";
 import { checkMixtureDesign, kgPerM3ToLbPerYd3, M3_PER_FT3, M3_PER_YD3, type ConstituentKind } from "~/lib/batching";
 import { type ActionResult, formState, refused } from "~/lib/form-results";
 import { parseForm } from "~/lib/forms";
-import { notFound, requireStudyAccess } from "~/lib/guards.server";
+import { notFound, requireStudyAccess } from "~/server/guards.server";
 import {
   convertRows,
   type EditorRow,

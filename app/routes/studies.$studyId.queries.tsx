@@ -1,11 +1,11 @@
 import { data, Form, Link } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/studies.$studyId.queries";
-import { DataTable } from "~/components/DataTable";
-import { StudyNav } from "~/components/StudyNav";
+import { DataTable } from "~/components/data-table";
+import { StudyNav } from "~/components/study-nav";
 import { Badge, Button, Card, Notice, PageHeader } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
-import { notFound, requireStudyAccess } from "~/lib/guards.server";
+import { notFound, requireStudyAccess } from "~/server/guards.server";
 import { cellKey } from "~/lib/review/cells";
 import { queryRefusal } from "~/lib/review/write-rules";
 import { closeQuery, listStudyQueries, QueryError } from "~/models/coordinator-queries.server";

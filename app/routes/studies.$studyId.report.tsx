@@ -1,10 +1,10 @@
 import type { Route } from "./+types/studies.$studyId.report";
-import { LazyCharts } from "~/components/charts/LazyCharts";
-import { PrecisionTables } from "~/components/PrecisionTables";
-import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/StatementParts";
-import { StudyNav } from "~/components/StudyNav";
+import { LazyCharts } from "~/components/charts/lazy-charts";
+import { PrecisionTables } from "~/components/precision-tables";
+import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
+import { StudyNav } from "~/components/study-nav";
 import { Badge, Card, SimpleTable } from "~/components/ui";
-import { requireStudyAccess } from "~/lib/guards.server";
+import { requireStudyAccess } from "~/server/guards.server";
 import { ALPHA_LABEL } from "~/lib/review/format";
 import { STATE_LABEL } from "~/lib/study-states";
 import { listStatements, participatingLabs } from "~/models/statement.server";

@@ -1,9 +1,9 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/studies.$studyId.results";
-import { CellStatusBadge } from "~/components/CellStatusBadge";
-import { StudyNav } from "~/components/StudyNav";
+import { CellStatusBadge } from "~/components/cell-status-badge";
+import { StudyNav } from "~/components/study-nav";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
-import { requireStudyAccess } from "~/lib/guards.server";
+import { requireStudyAccess } from "~/server/guards.server";
 import { studyBatchMarks } from "~/models/batch.server";
 import { studyAuditTrail, studyResults } from "~/models/results.server";
 

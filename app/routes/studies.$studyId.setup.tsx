@@ -1,20 +1,20 @@
 import { Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/studies.$studyId.setup";
-import { DataTable } from "~/components/DataTable";
-import { StudyFields } from "~/components/StudyFields";
-import { StudyNav } from "~/components/StudyNav";
+import { DataTable } from "~/components/data-table";
+import { StudyFields } from "~/components/study-fields";
+import { StudyNav } from "~/components/study-nav";
 import { Badge, Button, Card, Field, Notice, PageHeader, SelectField } from "~/components/ui";
 import type { StudyState } from "~/db/schema";
 import { mmToIn } from "~/lib/batching";
 import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
-import { notFound, requireStudyAccess } from "~/lib/guards.server";
+import { notFound, requireStudyAccess } from "~/server/guards.server";
 import { freshTargetsSchema, materialSchema, personSchema, responseSchema, studyFields, transitionSchema } from "~/lib/study-forms";
 import { useSchemaCheck } from "~/lib/use-schema-check";
 import { allowedNextStates, setupEditable } from "~/lib/study-lifecycle";
 import { STATE_LABEL } from "~/lib/study-states";
-import { readUploadForm } from "~/lib/upload-form.server";
-import { PDF_TYPES, storeUpload, UploadError } from "~/lib/uploads.server";
+import { readUploadForm } from "~/server/upload-form.server";
+import { PDF_TYPES, storeUpload, UploadError } from "~/server/uploads.server";
 import { idField } from "~/lib/validation";
 import { previewTransition, transitionStudy } from "~/models/study-lifecycle.server";
 import {

@@ -1,13 +1,13 @@
 import { Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/studies.$studyId.statement";
-import { PrecisionSummaryTable } from "~/components/PrecisionTables";
-import { StudyNav } from "~/components/StudyNav";
-import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/StatementParts";
+import { PrecisionSummaryTable } from "~/components/precision-tables";
+import { StudyNav } from "~/components/study-nav";
+import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
 import { Badge, Button, Card, Notice, PageHeader, SimpleTable, TextAreaField } from "~/components/ui";
 import { type ActionResult, refused } from "~/lib/form-results";
 import { type FieldErrors, parseForm } from "~/lib/forms";
-import { notFound, requireStudyAccess } from "~/lib/guards.server";
+import { notFound, requireStudyAccess } from "~/server/guards.server";
 import { draftingRefusal, reviewRefusal } from "~/lib/review/write-rules";
 import { STATE_LABEL } from "~/lib/study-states";
 import {

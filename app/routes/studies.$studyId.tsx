@@ -1,13 +1,13 @@
 import { useEffect } from "react";
 import { Form, Link, useFetcher, useNavigation } from "react-router";
 import type { Route } from "./+types/studies.$studyId";
-import { CELL_STATUS_VIEW, CellStatusBadge } from "~/components/CellStatusBadge";
-import { DataTable } from "~/components/DataTable";
-import { StudyNav } from "~/components/StudyNav";
+import { CELL_STATUS_VIEW, CellStatusBadge } from "~/components/cell-status-badge";
+import { DataTable } from "~/components/data-table";
+import { StudyNav } from "~/components/study-nav";
 import { Badge, Button, Card, Notice, PageHeader } from "~/components/ui";
 import type { ActionResult } from "~/lib/form-results";
 import { refused } from "~/lib/form-results";
-import { requireStudyAccess } from "~/lib/guards.server";
+import { requireStudyAccess } from "~/server/guards.server";
 import { resultsEditable } from "~/lib/study-lifecycle";
 import { STATE_LABEL } from "~/lib/study-states";
 import { remindLabsWithMissingResults } from "~/models/reminder.server";

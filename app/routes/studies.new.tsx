@@ -1,9 +1,9 @@
 import { Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/studies.new";
-import { StudyFields } from "~/components/StudyFields";
+import { StudyFields } from "~/components/study-fields";
 import { Button, Card, PageHeader } from "~/components/ui";
 import { type ActionResult, formState, handleForm } from "~/lib/form-results";
-import { requireRole } from "~/lib/guards.server";
+import { requireRole } from "~/server/guards.server";
 import { newStudySchema } from "~/lib/study-forms";
 import { useSchemaCheck } from "~/lib/use-schema-check";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";

@@ -2,9 +2,9 @@ import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/welcome.$token";
 import { Button, Card, Field, MessagePage, Notice } from "~/components/ui";
-import { redirectSignedIn } from "~/lib/auth.server";
+import { redirectSignedIn } from "~/server/auth.server";
 import { type ActionResult, FieldRefusal, formState, handleForm, refused } from "~/lib/form-results";
-import { clientAddress, isLimited, LINK_MISSES, recordHit } from "~/lib/rate-limit.server";
+import { clientAddress, isLimited, LINK_MISSES, recordHit } from "~/server/rate-limit.server";
 import { newPasswordField } from "~/lib/validation";
 import { lookupWelcome, setFirstPassword, type WelcomeLookup } from "~/models/welcome.server";
 

@@ -2,7 +2,7 @@ import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { auditEvents, emailOutbox, labMembers, labs, users } from "~/db/schema";
-import { getUser } from "~/lib/guards.server";
+import { getUser } from "~/server/guards.server";
 import * as account from "~/routes/account";
 import * as adminLabs from "~/routes/admin.labs";
 import * as adminUsers from "~/routes/admin.users";

@@ -3,7 +3,7 @@ import { and, desc, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { emailOutbox, enrollments, invitations, labs, studies, users } from "~/db/schema";
-import { drawLabCode } from "~/lib/lab-codes.server";
+import { drawLabCode } from "~/server/lab-codes.server";
 import * as mailbox from "~/routes/dev.mailbox";
 import * as mailboxMessage from "~/routes/dev.mailbox.$messageId";
 import * as invite from "~/routes/invite.$token";

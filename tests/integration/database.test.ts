@@ -2,7 +2,7 @@ import { count, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { databaseConfig, db } from "~/db/client.server";
 import { auditEvents, results, studies, users } from "~/db/schema";
-import { recordAudit } from "~/lib/audit.server";
+import { recordAudit } from "~/server/audit.server";
 import * as healthz from "~/routes/healthz";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";

@@ -3,7 +3,7 @@ import { eq } from "drizzle-orm";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { emailOutbox } from "~/db/schema";
-import { sendEmail } from "~/lib/email.server";
+import { sendEmail } from "~/server/email.server";
 import { invitationEmail, missingResultsReminderEmail, queryRaisedEmail, reviewRequestedEmail, shipmentNoticeEmail } from "~/lib/email-templates";
 import { listMessages, mailboxEnabled } from "~/models/mailbox.server";
 import { useFreshDatabase } from "../support/database";

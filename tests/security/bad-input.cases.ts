@@ -6,7 +6,7 @@
  * The valid bases alone are imported by the suite as a control, so a refusal
  * is always the defect's doing.
  */
-import { MAX_BODY_BYTES } from "~/lib/api.server";
+import { MAX_BODY_BYTES } from "~/server/api.server";
 import { IMPORT_MAX_BYTES } from "~/lib/results/import-csv";
 import type { Random } from "./support";
 

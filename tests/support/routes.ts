@@ -3,7 +3,7 @@
  * real Request, and turns whatever it returns or throws into { status, data,
  * headers } so tests can assert on it.
  */
-import { sessionStorage } from "~/lib/session.server";
+import { sessionStorage } from "~/server/session.server";
 
 type RouteFunction = (args: never) => unknown;
 

@@ -44,8 +44,8 @@ export {
   DEFAULT_WASTE_FRACTION,
   FLOAT_FINISHING_SPECIMEN_M3,
   suggestBatchVolume,
-} from "./batchVolume";
-export type { BatchVolumeInput, BatchVolumeStep, BatchVolumeSuggestion } from "./batchVolume";
+} from "./batch-volume";
+export type { BatchVolumeInput, BatchVolumeStep, BatchVolumeSuggestion } from "./batch-volume";
 export {
   AIR_CONTENT_TOLERANCE_POINTS,
   checkAirContent,

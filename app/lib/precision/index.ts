@@ -1,18 +1,18 @@
 // Precision engine: pure functions, no React, router or database, shared by pages, API routes, the CLI and tests.
-export { analyzeStudy } from "./analyzeStudy";
-export { MIN_LABS, MIN_REPLICATES } from "./analyzeGroup";
+export { analyzeStudy } from "./analyze-study";
+export { MIN_LABS, MIN_REPLICATES } from "./analyze-group";
 export { parseResultsCsv, RESULT_COLUMNS, type ParsedResults } from "./csv";
 export { isInputError } from "./problems";
 export { SIGNIFICANCE_LEVELS, isSignificanceLevel, assertSignificanceLevel, consistencyTails, type SignificanceLevel } from "./significance";
 export { studentTQuantile, fQuantile } from "./distributions";
-export { cellStatistics, type CellStatistics } from "./cellStatistics";
+export { cellStatistics, type CellStatistics } from "./cell-statistics";
 export {
   averageOfCellAverages,
   standardDeviationOfCellAverages,
   replicateWeightedMean,
   averageReplicates,
   mostFrequentReplicates,
-} from "./cellAverages";
+} from "./cell-averages";
 export { repeatabilityStandardDeviation, pooledRepeatabilityStandardDeviation } from "./repeatability";
 export {
   betweenLabVariance,
@@ -25,8 +25,8 @@ export { precisionLimit, coefficientOfVariation, c670Limits, type C670Limits } f
 export { hStatistic, kStatistic, hCritical, kCritical } from "./consistency";
 export { cochranC, cochranCritical } from "./cochran";
 export { grubbsSingle, grubbsSingleCritical, grubbsDouble, type GrubbsSingleStatistic, type GrubbsDoubleStatistic } from "./grubbs";
-export { grubbsDoubleCritical, GRUBBS_DOUBLE_MIN_LABS, GRUBBS_DOUBLE_MAX_LABS } from "./grubbsDoubleCritical";
-export { outlierClass, type OutlierClass } from "./outlierClass";
+export { grubbsDoubleCritical, GRUBBS_DOUBLE_MIN_LABS, GRUBBS_DOUBLE_MAX_LABS } from "./grubbs-double-critical";
+export { outlierClass, type OutlierClass } from "./outlier-class";
 export {
   levelFit,
   predictLevelModel,
@@ -36,5 +36,5 @@ export {
   type LevelModel,
   type LevelPoint,
   type LevelRelation,
-} from "./levelFit";
+} from "./level-fit";
 export type * from "./types";

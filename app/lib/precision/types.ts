@@ -1,5 +1,5 @@
-import type { LevelFitResult, LevelPoint } from "./levelFit";
-import type { OutlierClass } from "./outlierClass";
+import type { LevelFitResult, LevelPoint } from "./level-fit";
+import type { OutlierClass } from "./outlier-class";
 import type { SignificanceLevel } from "./significance";
 
 export type ResponseKind = "count" | "continuous";

@@ -6,7 +6,7 @@ import {
   mostFrequentReplicates,
   replicateWeightedMean,
   standardDeviationOfCellAverages,
-} from "./cellAverages";
+} from "./cell-averages";
 
 describe("cell averages", () => {
   const means = [10.2, 9.8, 10.5, 10.1];

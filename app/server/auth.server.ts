@@ -2,9 +2,9 @@ import { redirect } from "react-router";
 import { Authenticator } from "remix-auth";
 import { FormStrategy } from "remix-auth-form";
 import { z } from "zod";
-import { recordAudit } from "~/lib/audit.server";
-import { ACCOUNT_SIGN_IN_FAILURES, clearHits, clientAddress, isLimited, recordHit, SIGN_IN_FAILURES } from "~/lib/rate-limit.server";
-import { sessionStorage } from "~/lib/session.server";
+import { recordAudit } from "~/server/audit.server";
+import { ACCOUNT_SIGN_IN_FAILURES, clearHits, clientAddress, isLimited, recordHit, SIGN_IN_FAILURES } from "~/server/rate-limit.server";
+import { sessionStorage } from "~/server/session.server";
 import { HOME_BY_ROLE, loadSessionUser, normaliseEmail, verifyLogin } from "~/models/user.server";
 
 export const SIGN_IN_FAILED = "That e-mail and password do not match an active account.";

@@ -1,6 +1,6 @@
 import { mean, sampleStandardDeviation } from "simple-statistics";
 import { describe, expect, it } from "vitest";
-import { cellStatistics } from "./cellStatistics";
+import { cellStatistics } from "./cell-statistics";
 
 describe("cellStatistics", () => {
   it("agrees with simple-statistics' mean and sample standard deviation", () => {

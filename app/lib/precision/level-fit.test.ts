@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { levelFit, predictLevelModel } from "./levelFit";
+import { levelFit, predictLevelModel } from "./level-fit";
 
 const levels = [5, 12, 30, 60, 110];
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { grubbsDoubleCritical } from "./grubbsDoubleCritical";
+import { grubbsDoubleCritical } from "./grubbs-double-critical";
 
 // ISO 5725-2 table of the double Grubbs test (lower critical values), from memory: p, 1 %, 5 %.
 // Not in the shared reference list; the tolerance covers both the simulation's spread

@@ -15,11 +15,11 @@
 import { createHash } from "node:crypto";
 import type { IncomingHttpHeaders } from "node:http";
 import type { studies } from "~/db/schema";
-import { type ApiCaller, ApiError, enforceRateLimit, errorBody, rateLimitKey } from "~/lib/api.server";
-import { currentAccessVersion, type StudyAccess } from "~/lib/guards.server";
+import { type ApiCaller, ApiError, enforceRateLimit, errorBody, rateLimitKey } from "~/server/api.server";
+import { currentAccessVersion, type StudyAccess } from "~/server/guards.server";
 import { isSignificanceLevel } from "~/lib/precision";
-import { SECURITY_HEADERS } from "~/lib/security-headers.server";
-import { sessionEndsAt } from "~/lib/session.server";
+import { SECURITY_HEADERS } from "~/server/security-headers.server";
+import { sessionEndsAt } from "~/server/session.server";
 import { cachedAnalysisBytes } from "~/models/analysis.server";
 import { lastUseRecordedUntil } from "~/models/api-token.server";
 

@@ -1,6 +1,6 @@
 import { Form, NavLink } from "react-router";
 import type { Role } from "~/db/schema";
-import { Wordmark } from "./Wordmark";
+import { Wordmark } from "./wordmark";
 
 type HeaderUser = { name: string; role: Role };
 

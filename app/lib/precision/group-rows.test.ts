@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { groupRows, type CellAccumulator, type GroupedRows } from "./groupRows";
+import { groupRows, type CellAccumulator, type GroupedRows } from "./group-rows";
 import type { ResultRow } from "./types";
 
 const row = (lab: string, material: string, replicate: number, value: number): ResultRow => ({

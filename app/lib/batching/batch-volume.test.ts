@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { FLOAT_FINISHING_SPECIMEN_M3, suggestBatchVolume } from "./batchVolume";
+import { FLOAT_FINISHING_SPECIMEN_M3, suggestBatchVolume } from "./batch-volume";
 import { M3_PER_FT3, MM_PER_IN } from "./units";
 
 describe("float finishing specimen", () => {

@@ -4,7 +4,7 @@
  * error shape — `{ "error": { "code", "message", "details"? } }` — for every
  * failure. Nothing from inside (a stack trace, a SQL message) ever leaves.
  */
-import { type StudyAccess, getUser, studyAccessFor } from "~/lib/guards.server";
+import { type StudyAccess, getUser, studyAccessFor } from "~/server/guards.server";
 import { activeApiToken, type ApiToken } from "~/models/api-token.server";
 import { loadSessionUser, type SessionUser } from "~/models/user.server";
 

@@ -1,9 +1,9 @@
 import { readFileSync } from "node:fs";
 import Papa from "papaparse";
 import { describe, expect, it } from "vitest";
-import { analyzeStudy } from "./analyzeStudy";
-import { standardDeviationOfCellAverages } from "./cellAverages";
-import { cellStatistics } from "./cellStatistics";
+import { analyzeStudy } from "./analyze-study";
+import { standardDeviationOfCellAverages } from "./cell-averages";
+import { cellStatistics } from "./cell-statistics";
 import { pooledRepeatabilityStandardDeviation, repeatabilityStandardDeviation } from "./repeatability";
 import { betweenCellVariance, betweenLabVariance, generalBetweenLabVariance } from "./reproducibility";
 import type { ComputedGroup, ResultRow } from "./types";

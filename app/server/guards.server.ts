@@ -6,7 +6,7 @@ import { and, eq } from "drizzle-orm";
 import { data, redirect } from "react-router";
 import { db, readInteger } from "~/db/client.server";
 import { enrollments, type Role, studies, studyCoordinators, studyReviewers } from "~/db/schema";
-import { sessionStorage } from "~/lib/session.server";
+import { sessionStorage } from "~/server/session.server";
 import { loadSessionUser, type SessionUser } from "~/models/user.server";
 
 export function notFound(): never {

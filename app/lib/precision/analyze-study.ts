@@ -1,6 +1,6 @@
-import { analyzeGroup } from "./analyzeGroup";
-import { groupRows, type GroupAccumulator } from "./groupRows";
-import { levelFit } from "./levelFit";
+import { analyzeGroup } from "./analyze-group";
+import { groupRows, type GroupAccumulator } from "./group-rows";
+import { levelFit } from "./level-fit";
 import { assertSignificanceLevel } from "./significance";
 import type {
   ComputedGroup,

@@ -4,15 +4,15 @@ import {
   mostFrequentReplicates,
   replicateWeightedMean,
   standardDeviationOfCellAverages,
-} from "./cellAverages";
-import { cellStatistics, type CellStatistics } from "./cellStatistics";
+} from "./cell-averages";
+import { cellStatistics, type CellStatistics } from "./cell-statistics";
 import { cochranC, cochranCritical } from "./cochran";
 import { hCritical, hStatistic, kCritical, kStatistic } from "./consistency";
 import { grubbsDouble, grubbsSingle, grubbsSingleCritical } from "./grubbs";
-import { GRUBBS_DOUBLE_MAX_LABS, GRUBBS_DOUBLE_MIN_LABS, grubbsDoubleCritical } from "./grubbsDoubleCritical";
-import type { GroupAccumulator } from "./groupRows";
+import { GRUBBS_DOUBLE_MAX_LABS, GRUBBS_DOUBLE_MIN_LABS, grubbsDoubleCritical } from "./grubbs-double-critical";
+import type { GroupAccumulator } from "./group-rows";
 import { c670Limits, coefficientOfVariation, precisionLimit } from "./limits";
-import { outlierClass } from "./outlierClass";
+import { outlierClass } from "./outlier-class";
 import { pooledRepeatabilityStandardDeviation, repeatabilityStandardDeviation } from "./repeatability";
 import {
   betweenCellVariance,

@@ -6,7 +6,7 @@
  * by colour alone. Labs appear by code only.
  */
 import { type ReactNode, useMemo } from "react";
-import { type DataColumn, DataTable } from "~/components/DataTable";
+import { type DataColumn, DataTable } from "~/components/data-table";
 import { Badge, SimpleTable } from "~/components/ui";
 import type { GroupResult, LabResult, StudyAnalysis } from "~/lib/precision";
 import { labClasses } from "~/lib/review/flags";

@@ -4,13 +4,13 @@
  * loaded lazily, in the browser only, after hydration.
  */
 import { lazy, type ReactNode, Suspense, useEffect, useState } from "react";
-import type { ResponseInfo } from "~/components/PrecisionTables";
+import type { ResponseInfo } from "~/components/precision-tables";
 import { SimpleTable } from "~/components/ui";
 import type { StudyAnalysis } from "~/lib/precision";
 import { figureDecimals, formatFigure } from "~/lib/review/format";
 import { cellAveragesOption, type ChartOption, consistencyOption, labPoints, levelOption } from "./options";
 
-const EChart = lazy(() => import("./EChart"));
+const EChart = lazy(() => import("./e-chart"));
 
 function useHydrated() {
   const [hydrated, setHydrated] = useState(false);

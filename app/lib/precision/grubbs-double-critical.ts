@@ -1,5 +1,5 @@
 import { memoize } from "./memoize";
-import { seededUniform } from "./seededUniform";
+import { seededUniform } from "./seeded-uniform";
 
 /** ISO 5725-2 tabulates the double Grubbs test from 4 to 40 labs; simulation covers the same range. */
 export const GRUBBS_DOUBLE_MIN_LABS = 4;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { analyzeStudy } from "./analyzeStudy";
+import { analyzeStudy } from "./analyze-study";
 import { hCritical, kCritical } from "./consistency";
 import type { ComputedGroup, GroupResult, ResultRow, UncomputedGroup } from "./types";
 

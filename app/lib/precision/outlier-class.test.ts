@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { outlierClass } from "./outlierClass";
+import { outlierClass } from "./outlier-class";
 
 describe("outlierClass", () => {
   it("ISO 5725-2: straggler beyond the 5 % value, outlier beyond the 1 % value (large values suspect)", () => {

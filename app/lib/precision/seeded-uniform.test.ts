@@ -1,6 +1,6 @@
 import { mean, variance } from "simple-statistics";
 import { describe, expect, it } from "vitest";
-import { seededUniform } from "./seededUniform";
+import { seededUniform } from "./seeded-uniform";
 
 describe("seededUniform", () => {
   it("repeats for a seed and differs between seeds", () => {
