@@ -1,46 +1,75 @@
-import { type RouteConfig, index, route } from "@react-router/dev/routes";
+import { type RouteConfig, index, prefix, route } from "@react-router/dev/routes";
 
+/**
+ * The route table, grouped by who uses it. A study's pages sit under a parent
+ * route whose middleware checks access once and hands the study to its
+ * children; the parent draws the header and the tabs.
+ */
 export default [
   index("routes/home.tsx"),
-  route("login", "routes/login.tsx"),
-  route("logout", "routes/logout.tsx"),
+
+  // Signing in, invitations, the account
+  route("login", "routes/auth/login.tsx"),
+  route("logout", "routes/auth/logout.tsx"),
+  route("invite/:token", "routes/auth/invite.tsx"),
+  route("welcome/:token", "routes/auth/welcome.tsx"),
   route("account", "routes/account.tsx"),
-  route("studies", "routes/studies.tsx"),
-  route("studies/new", "routes/studies.new.tsx"),
-  route("studies/:studyId", "routes/studies.$studyId.tsx"),
-  route("studies/:studyId/setup", "routes/studies.$studyId.setup.tsx"),
-  route("studies/:studyId/results", "routes/studies.$studyId.results.tsx"),
-  route("studies/:studyId/materials/:materialId", "routes/studies.$studyId.materials.$materialId.tsx"),
-  route("studies/:studyId/labs", "routes/studies.$studyId.labs.tsx"),
-  route("studies/:studyId/shipments", "routes/studies.$studyId.shipments.tsx"),
-  route("lab/studies/:studyId/receipt", "routes/lab.studies.$studyId.receipt.tsx"),
-  route("api/v1/studies/:studyId/progress", "routes/api.v1.studies.$studyId.progress.ts"),
-  route("invite/:token", "routes/invite.$token.tsx"),
-  route("welcome/:token", "routes/welcome.$token.tsx"),
-  route("dev/mailbox", "routes/dev.mailbox.tsx"),
-  route("dev/mailbox/:messageId", "routes/dev.mailbox.$messageId.tsx"),
-  route("lab", "routes/lab.tsx"),
-  route("lab/studies/:studyId", "routes/lab.studies.$studyId.tsx"),
-  route("lab/studies/:studyId/results/:materialId", "routes/lab.studies.$studyId.results.$materialId.tsx"),
-  route("lab/studies/:studyId/batch/:materialId", "routes/lab.studies.$studyId.batch.$materialId.tsx"),
-  route("lab/studies/:studyId/import", "routes/lab.studies.$studyId.import.tsx"),
-  route("lab/queries", "routes/lab.queries.tsx"),
-  route("review", "routes/review.tsx"),
-  route("admin/users", "routes/admin.users.tsx"),
-  route("admin/labs", "routes/admin.labs.tsx"),
-  route("files/:fileId", "routes/files.$fileId.ts"),
+
+  // Coordinator (admins read)
+  ...prefix("studies", [
+    index("routes/studies/index.tsx"),
+    route("new", "routes/studies/new.tsx"),
+    route(":studyId", "routes/studies/study/layout.tsx", [
+      index("routes/studies/study/overview.tsx"),
+      route("setup", "routes/studies/study/setup.tsx"),
+      route("labs", "routes/studies/study/labs.tsx"),
+      route("shipments", "routes/studies/study/shipments.tsx"),
+      route("results", "routes/studies/study/results.tsx"),
+      route("materials/:materialId", "routes/studies/study/material.tsx"),
+      route("analysis", "routes/studies/study/analysis.tsx"),
+      route("queries", "routes/studies/study/queries.tsx"),
+      route("statement", "routes/studies/study/statement.tsx"),
+      route("report", "routes/studies/study/report.tsx"),
+    ]),
+  ]),
+
+  // Lab analysts
+  ...prefix("lab", [
+    index("routes/lab/index.tsx"),
+    route("queries", "routes/lab/queries.tsx"),
+    route("studies/:studyId", "routes/lab/study/layout.tsx", [
+      index("routes/lab/study/tasks.tsx"),
+      route("receipt", "routes/lab/study/receipt.tsx"),
+      route("batch/:materialId", "routes/lab/study/batch-sheet.tsx"),
+      route("results/:materialId", "routes/lab/study/result-entry.tsx"),
+      route("import", "routes/lab/study/import.tsx"),
+    ]),
+  ]),
+
+  // Committee reviewers
+  ...prefix("review", [
+    index("routes/review/index.tsx"),
+    route(":studyId", "routes/review/study/layout.tsx", [index("routes/review/study/ballot.tsx")]),
+  ]),
+
+  // Administration
+  ...prefix("admin", [route("users", "routes/admin/users.tsx"), route("labs", "routes/admin/labs.tsx")]),
+
+  // Local stand-in for the e-mail provider
+  ...prefix("dev/mailbox", [index("routes/dev/mailbox.tsx"), route(":messageId", "routes/dev/mailbox-message.tsx")]),
+
+  // Resource routes: files, health, and the JSON API
+  route("files/:fileId", "routes/files.ts"),
   route("healthz", "routes/healthz.ts"),
-  route("api/v1/healthz", "routes/api.v1.healthz.ts"),
-  route("api/v1/studies", "routes/api.v1.studies.ts"),
-  route("api/v1/studies/:studyId", "routes/api.v1.studies.$studyId.ts"),
-  route("api/v1/studies/:studyId/results", "routes/api.v1.studies.$studyId.results.ts"),
-  route("api/v1/studies/:studyId/results.csv", "routes/api.v1.studies.$studyId.results-csv.ts"),
-  route("api/v1/studies/:studyId/precision", "routes/api.v1.studies.$studyId.precision.ts"),
-  route("api/v1/enrollments/:enrollmentId/results", "routes/api.v1.enrollments.$enrollmentId.results.ts"),
-  route("studies/:studyId/queries", "routes/studies.$studyId.queries.tsx"),
-  route("studies/:studyId/statement", "routes/studies.$studyId.statement.tsx"),
-  route("studies/:studyId/report", "routes/studies.$studyId.report.tsx"),
-  route("review/:studyId", "routes/review.$studyId.tsx"),
-  route("api/v1/studies/:studyId/what-if", "routes/api.v1.studies.$studyId.what-if.ts"),
-  route("studies/:studyId/analysis", "routes/studies.$studyId.analysis.tsx"),
+  ...prefix("api/v1", [
+    route("healthz", "routes/api/v1/healthz.ts"),
+    route("studies", "routes/api/v1/studies.ts"),
+    route("studies/:studyId", "routes/api/v1/study.ts"),
+    route("studies/:studyId/results", "routes/api/v1/study-results.ts"),
+    route("studies/:studyId/results.csv", "routes/api/v1/study-results-csv.ts"),
+    route("studies/:studyId/precision", "routes/api/v1/study-precision.ts"),
+    route("studies/:studyId/progress", "routes/api/v1/study-progress.ts"),
+    route("studies/:studyId/what-if", "routes/api/v1/study-what-if.ts"),
+    route("enrollments/:enrollmentId/results", "routes/api/v1/enrollment-results.ts"),
+  ]),
 ] satisfies RouteConfig;

@@ -15,7 +15,7 @@ import { SECURITY_HEADERS } from "~/server/security-headers.server";
 import { endAllSessions } from "~/server/session.server";
 import { createApiToken, revokeApiToken } from "~/models/api-token.server";
 import { loadSessionUser } from "~/models/user.server";
-import * as precision from "~/routes/api.v1.studies.$studyId.precision";
+import * as precision from "~/routes/api/v1/study-precision";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";

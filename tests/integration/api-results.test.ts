@@ -4,7 +4,7 @@ import { db } from "~/db/client.server";
 import { auditEvents, cells, enrollments, labs, results, studies } from "~/db/schema";
 import { createApiToken, revokeApiToken } from "~/models/api-token.server";
 import { loadSessionUser } from "~/models/user.server";
-import * as post from "~/routes/api.v1.enrollments.$enrollmentId.results";
+import * as post from "~/routes/api/v1/enrollment-results";
 import { DEMO_LABS } from "../../seed/demo-data";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";

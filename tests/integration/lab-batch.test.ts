@@ -2,7 +2,7 @@ import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { materials, mixtureConstituents, studies } from "~/db/schema";
-import * as batchPage from "~/routes/lab.studies.$studyId.batch.$materialId";
+import * as batchPage from "~/routes/lab/study/batch-sheet";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";

@@ -2,7 +2,7 @@ import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { auditEvents, cells, enrollments, labs, materials, results, studies } from "~/db/schema";
-import * as importPage from "~/routes/lab.studies.$studyId.import";
+import * as importPage from "~/routes/lab/study/import";
 import { DEMO_LABS } from "../../seed/demo-data";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";

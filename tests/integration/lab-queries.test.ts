@@ -2,7 +2,7 @@ import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { auditEvents, emailOutbox, queries } from "~/db/schema";
-import * as labQueries from "~/routes/lab.queries";
+import * as labQueries from "~/routes/lab/queries";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";

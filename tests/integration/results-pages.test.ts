@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import * as resultsPage from "~/routes/studies.$studyId.results";
+import * as resultsPage from "~/routes/studies/study/results";
 import { LARGE_STUDY, seedLargeStudy } from "../../seed/large-study";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";

@@ -1,12 +1,12 @@
 import { describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { emailOutbox } from "~/db/schema";
-import * as precision from "~/routes/api.v1.studies.$studyId.precision";
-import * as resultsJson from "~/routes/api.v1.studies.$studyId.results";
-import * as analysisPage from "~/routes/studies.$studyId.analysis";
-import * as reportPage from "~/routes/studies.$studyId.report";
-import * as reviewList from "~/routes/review";
-import * as reviewPage from "~/routes/review.$studyId";
+import * as precision from "~/routes/api/v1/study-precision";
+import * as resultsJson from "~/routes/api/v1/study-results";
+import * as analysisPage from "~/routes/studies/study/analysis";
+import * as reportPage from "~/routes/studies/study/report";
+import * as reviewList from "~/routes/review/index";
+import * as reviewPage from "~/routes/review/study/ballot";
 import { DEMO_LABS } from "../../seed/demo-data";
 import { demoCookie } from "../support/demo";
 import { call, get, post } from "../support/routes";

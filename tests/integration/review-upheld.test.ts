@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import * as analysisPage from "~/routes/studies.$studyId.analysis";
-import * as reviewPage from "~/routes/review.$studyId";
+import * as analysisPage from "~/routes/studies/study/analysis";
+import * as reviewPage from "~/routes/review/study/ballot";
 import { DEMO_LABS } from "../../seed/demo-data";
 import { call, get, post } from "../support/routes";
 import { useReviewRound } from "../support/review";

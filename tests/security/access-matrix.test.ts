@@ -20,7 +20,7 @@ import { EXPECTED, type Method } from "./access-matrix.expected";
 import { recordFigure } from "./figures";
 import { type Persona, PERSONAS, seedPersonas } from "./personas";
 
-type RouteEntry = { path?: string; file: string; index?: boolean };
+type RouteEntry = { path?: string; file: string; index?: boolean; children?: RouteEntry[] };
 
 const ORIGIN = "http://ringbatch.test";
 const PNG = Uint8Array.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 0]);
@@ -92,7 +92,15 @@ async function bodyText(outcome: RouteOutcome) {
   return JSON.stringify(outcome.data ?? "");
 }
 
-const routes = (routeConfig as RouteEntry[]).map((r) => ({ pattern: r.index ? "" : r.path!, file: r.file }));
+/** Every route of the nested table by its whole URL pattern; a parent route (its loader) is marked "[layout]". */
+function flatten(entries: RouteEntry[], base = ""): { pattern: string; file: string }[] {
+  return entries.flatMap((r) => {
+    const pattern = [base, r.path ?? ""].filter(Boolean).join("/");
+    if (!r.children) return [{ pattern, file: r.file }];
+    return [{ pattern: `${pattern} [layout]`, file: r.file }, ...flatten(r.children, pattern)];
+  });
+}
+const routes = flatten(routeConfig as RouteEntry[]);
 
 describe("access-control matrix", () => {
   it("has an expected row for every route, and no row for a route that is gone", () => {

@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { enrollments, labs, studies } from "~/db/schema";
-import * as newStudy from "~/routes/studies.new";
+import * as newStudy from "~/routes/studies/new";
 import { call, post } from "./routes";
 
 const ORIGIN = "http://ringbatch.test";

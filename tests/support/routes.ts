@@ -3,15 +3,39 @@
  * real Request, and turns whatever it returns or throws into { status, data,
  * headers } so tests can assert on it.
  */
+import path from "node:path";
+import { RouterContextProvider } from "react-router";
+import routeConfig from "~/routes";
 import { sessionStorage } from "~/server/session.server";
 
 type RouteFunction = (args: never) => unknown;
+type Middleware = (args: unknown, next: () => Promise<unknown>) => unknown;
 
 export type RouteOutcome = { status: number; data: any; headers: Headers };
 
+type ConfigEntry = { file: string; children?: ConfigEntry[] };
+type RouteModule = { loader?: unknown; action?: unknown; middleware?: Middleware[] };
+const load = (entry: ConfigEntry): Promise<RouteModule> => import(path.resolve("app", entry.file));
+
+/** The route module that exports `fn` and those above it, outermost first, as the route table nests them. */
+async function chainOf(fn: RouteFunction, entries: ConfigEntry[], above: RouteModule[] = []): Promise<RouteModule[] | null> {
+  for (const entry of entries) {
+    const module = await load(entry);
+    if (module.loader === fn || module.action === fn) return [...above, module];
+    const found = entry.children && (await chainOf(fn, entry.children, [...above, module]));
+    if (found) return found;
+  }
+  return null;
+}
+
 export async function call(fn: RouteFunction, request: Request, params: Record<string, string> = {}): Promise<RouteOutcome> {
   try {
-    return toOutcome(await (fn as (args: unknown) => unknown)({ request, params, context: {} }));
+    const context = new RouterContextProvider();
+    // Middleware runs first, the parents' before the route's own, as in the framework: it checks access and fills the context.
+    for (const module of (await chainOf(fn, routeConfig as ConfigEntry[])) ?? []) {
+      for (const run of module.middleware ?? []) await run({ request, params, context }, async () => undefined);
+    }
+    return toOutcome(await (fn as (args: unknown) => unknown)({ request, params, context }));
   } catch (thrown) {
     return toOutcome(thrown);
   }

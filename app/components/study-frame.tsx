@@ -1,0 +1,64 @@
+import type { ReactNode } from "react";
+import { NavLink, Outlet, useMatches } from "react-router";
+import { Badge } from "~/components/ui";
+import type { StudyState } from "~/db/values";
+import { STATE_LABEL } from "~/lib/study-states";
+
+/** What a study's child route tells the frame around it: the page's name in the title. */
+export type StudyPageHandle = { pageTitle: string };
+
+export type StudyTab = { to: string; label: string; end?: boolean };
+
+/** The name of the deepest page that gives one, for the heading "Results — FF-2026-A". */
+function usePageTitle() {
+  const matches = useMatches();
+  for (let i = matches.length - 1; i >= 0; i--) {
+    const handle = matches[i]!.handle as Partial<StudyPageHandle> | undefined;
+    if (handle?.pageTitle) return handle.pageTitle;
+  }
+  return null;
+}
+
+/** The header and tabs a study's parent route draws once around whichever child page is open. */
+export function StudyFrame({
+  study,
+  tabs,
+  detail,
+}: {
+  study: { code: string; title: string; state: StudyState };
+  tabs: StudyTab[];
+  detail?: ReactNode;
+}) {
+  const pageTitle = usePageTitle();
+  return (
+    <>
+      <div className="mb-4">
+        <h1 className="text-2xl font-bold text-basalt-900">
+          {pageTitle ? `${pageTitle} — ` : ""}
+          <span className="whitespace-nowrap">{study.code}</span>
+        </h1>
+        <p className="mt-1 text-basalt-700">
+          {study.title} · <Badge>{STATE_LABEL[study.state]}</Badge>
+          {detail}
+        </p>
+      </div>
+      {tabs.length > 1 && (
+        <nav aria-label="Study pages" className="mb-6 flex gap-1 overflow-x-auto border-b border-basalt-200 whitespace-nowrap">
+          {tabs.map((tab) => (
+            <NavLink
+              key={tab.to}
+              to={tab.to}
+              end={tab.end}
+              className={({ isActive }) =>
+                `-mb-px rounded-t border-b-2 px-3 py-2 font-semibold ${isActive ? "border-basalt-700 text-basalt-900" : "border-transparent text-basalt-700 hover:border-basalt-200"}`
+              }
+            >
+              {tab.label}
+            </NavLink>
+          ))}
+        </nav>
+      )}
+      <Outlet />
+    </>
+  );
+}

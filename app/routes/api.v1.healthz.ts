@@ -1,2 +1,0 @@
-// GET /api/v1/healthz — the same check as /healthz, for scripts that only know the API's base URL.
-export { loader } from "./healthz";

@@ -1,0 +1,601 @@
+import { MaxFileSizeExceededError, parseFormData } from "@remix-run/form-data-parser";
+import { useEffect } from "react";
+import { data, Form, isRouteErrorResponse, Link, type ShouldRevalidateFunctionArgs, useFetcher } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/result-entry";
+import { CellStatusBadge } from "~/components/cell-status-badge";
+import { ConcreteCaution } from "~/components/cautions";
+import { Badge, Button, Card, Field, Notice, PageHeader } from "~/components/ui";
+import { notFound } from "~/server/guards.server";
+import { requireStudy } from "~/server/study-context.server";
+import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
+import { SAVE_STATE_TEXT, useAutosavedDraft } from "~/lib/results/use-autosaved-draft";
+import { checkResultValue, checkTestDate } from "~/lib/results/values";
+import { UploadError } from "~/server/uploads.server";
+import { freshTargets, getBatch, saveFreshProperties } from "~/models/batch.server";
+import { openQueriesOfMaterial } from "~/models/lab-queries.server";
+import {
+  amendResult,
+  attachReplicatePhoto,
+  type Enrollment,
+  materialEntry,
+  PHOTO_MAX_BYTES,
+  ResultsError,
+  type ResultInputRow,
+  saveDraftResults,
+  submitMaterial,
+} from "~/models/results.server";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `Results ${data?.material.code ?? ""} · Ringbatch` }];
+
+/** What the form holds: values keyed `response:replicate`, per-replicate date and operator, and the batch's fresh properties. */
+type EntryDraft = {
+  values: Record<string, string>;
+  testedOn: Record<string, string>;
+  operator: Record<string, string>;
+  fresh: Partial<Record<FreshProperty, string>>;
+  batchedAt: string;
+};
+
+const draftSchema = z.object({
+  values: z.record(z.string(), z.string().max(40)),
+  testedOn: z.record(z.string(), z.string().max(20)),
+  operator: z.record(z.string(), z.string().max(200)),
+  fresh: z.partialRecord(z.enum(FRESH_PROPERTY_NAMES as [FreshProperty, ...FreshProperty[]]), z.string().max(20)),
+  batchedAt: z.string().max(20),
+});
+
+/** The draft field's JSON, or undefined when it is not JSON (the schema then refuses it). */
+function parseJsonField(value: FormDataEntryValue | null) {
+  try {
+    return JSON.parse(String(value ?? "{}"));
+  } catch {
+    return undefined;
+  }
+}
+
+async function loadEntry(context: Route.LoaderArgs["context"], params: Route.LoaderArgs["params"]) {
+  const access = requireStudy(context, ["analyst"]);
+  const enrollment = access.enrollment!;
+  const entry = await materialEntry(enrollment, Number(params.materialId));
+  if (!entry) notFound();
+  return { ...access, enrollment, entry };
+}
+
+type Entry = NonNullable<Awaited<ReturnType<typeof materialEntry>>>;
+type Batch = Awaited<ReturnType<typeof getBatch>>;
+
+const text = (n: number | null | undefined) => (n === null || n === undefined ? "" : String(n));
+
+/** The draft as stored on the server, in the form's shape. */
+function serverDraft(entry: Entry, batch: Batch, replicates: number): EntryDraft {
+  const draft: EntryDraft = { values: {}, testedOn: {}, operator: {}, fresh: {}, batchedAt: batch?.batchedAt ?? "" };
+  for (const response of entry.responses) {
+    for (const r of response.results) {
+      draft.values[`${response.key}:${r.replicate}`] = text(r.value);
+      if (r.testedOn) draft.testedOn[r.replicate] ??= r.testedOn;
+      if (r.operator) draft.operator[r.replicate] ??= r.operator;
+    }
+  }
+  for (let replicate = 1; replicate <= replicates; replicate++) {
+    draft.testedOn[replicate] ??= "";
+    draft.operator[replicate] ??= "";
+  }
+  for (const property of FRESH_PROPERTY_NAMES) draft.fresh[property] = text(batch?.[FRESH_FIELDS[property].column]);
+  return draft;
+}
+
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const { study, enrollment, entry } = await loadEntry(context, params);
+  const [batch, targets, openQueries] = await Promise.all([
+    getBatch(enrollment.id, entry.material.id),
+    freshTargets(study.id),
+    openQueriesOfMaterial(enrollment, entry.material.id),
+  ]);
+  const photos: Record<number, number> = {};
+  for (const response of entry.responses) for (const r of response.results) if (r.photoAttachmentId) photos[r.replicate] = r.photoAttachmentId;
+  return {
+    study: { id: study.id, code: study.code, state: study.state, replicatesPerCell: study.replicatesPerCell },
+    editable: study.state === "testing",
+    enrollmentId: enrollment.id,
+    labCode: enrollment.labCode,
+    material: { id: entry.material.id, code: entry.material.code, description: entry.material.description },
+    responses: entry.responses.map(({ results: _results, ...response }) => response),
+    submittedValues: Object.fromEntries(entry.responses.flatMap((r) => r.results.map((x) => [`${r.key}:${x.replicate}`, x.value]))),
+    draft: serverDraft(entry, batch, study.replicatesPerCell),
+    targets,
+    photos,
+    openQueries,
+  };
+}
+
+/** Turns the form's draft into result rows; `fieldOf` maps each row number back to the field that shows its problem. */
+function draftRows(entry: Entry, draft: EntryDraft, replicates: number) {
+  const rows: ResultInputRow[] = [];
+  const fieldOf = new Map<number, { value: string; replicate: number }>();
+  for (const response of entry.responses) {
+    if (response.cell?.status === "submitted") continue;
+    for (let replicate = 1; replicate <= replicates; replicate++) {
+      const key = `${response.key}:${replicate}`;
+      const row = rows.length + 1;
+      rows.push({ row, material: entry.material.code, response: response.key, replicate, value: draft.values[key] ?? "", testedOn: draft.testedOn[replicate], operator: draft.operator[replicate] });
+      fieldOf.set(row, { value: key, replicate });
+    }
+  }
+  return { rows, fieldOf };
+}
+
+async function saveDraft(enrollment: Enrollment, entry: Entry, draft: EntryDraft, replicates: number, user: { id: number }) {
+  const { rows, fieldOf } = draftRows(entry, draft, replicates);
+  const outcome = await saveDraftResults(enrollment, rows, user);
+  const problems: Record<string, string> = {};
+  for (const p of outcome.problems) {
+    const field = fieldOf.get(p.row)!;
+    const key = p.field === "tested_on" ? `testedOn:${field.replicate}` : p.field === "operator" ? `operator:${field.replicate}` : field.value;
+    problems[key] ??= p.message;
+  }
+  const locked = entry.responses.every((r) => r.cell?.status === "submitted");
+  if (!locked) {
+    const fresh = await saveFreshProperties(enrollment, entry.material.id, { ...draft.fresh, batchedAt: draft.batchedAt }, user);
+    for (const [property, message] of Object.entries(fresh.problems)) problems[`fresh:${property}`] = message;
+  }
+  return problems;
+}
+
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, study, enrollment, entry } = await loadEntry(context, params);
+  let form: FormData;
+  try {
+    form = await parseFormData(request, { maxFileSize: PHOTO_MAX_BYTES, maxFiles: 1 });
+  } catch (error) {
+    if (error instanceof MaxFileSizeExceededError) return data({ intent: "photo", error: "The photo is larger than 10 MB." }, { status: 400 });
+    throw error;
+  }
+  const intent = form.get("intent");
+  try {
+    if (intent === "draft" || intent === "submit") {
+      const parsed = draftSchema.safeParse(parseJsonField(form.get("draft")));
+      if (!parsed.success) return data({ intent, error: "The form could not be read; reload the page." }, { status: 400 });
+      const problems = await saveDraft(enrollment, entry, parsed.data, study.replicatesPerCell, user);
+      if (intent === "draft") {
+        const fresh = await materialEntry(enrollment, entry.material.id);
+        const stamp = JSON.stringify(serverDraft(fresh!, await getBatch(enrollment.id, entry.material.id), study.replicatesPerCell));
+        return { intent, problems, stamp };
+      }
+      if (Object.keys(problems).length > 0) return data({ intent, problems, submitProblems: ["Correct the marked fields first."] }, { status: 400 });
+      const submitted = await submitMaterial(enrollment, entry.material.id, user);
+      if (!submitted.ok) return data({ intent, submitProblems: submitted.problems }, { status: 400 });
+      return { intent, submitted: true };
+    }
+    if (intent === "amend") {
+      const fields = z
+        .object({ responseId: z.coerce.number().int(), replicate: z.coerce.number().int(), version: z.coerce.number().int(), value: z.string(), reason: z.string() })
+        .safeParse(Object.fromEntries(form));
+      if (!fields.success) return data({ intent, error: "The amendment could not be read; reload the page." }, { status: 400 });
+      const { responseId, replicate, version, value, reason } = fields.data;
+      const outcome = await amendResult(enrollment, entry.material.id, { responseId, replicate, value, reason, expectedVersion: version }, user);
+      const target = `${responseId}:${replicate}`;
+      return outcome.ok ? { intent, target, amended: true } : data({ intent, target, field: outcome.field, error: outcome.message }, { status: outcome.field === "form" ? 409 : 400 });
+    }
+    if (intent === "photo") {
+      const replicate = Number(form.get("replicate"));
+      const file = form.get("photo");
+      if (!(file instanceof File) || file.size === 0) return data({ intent, replicate, error: "Choose a photo to upload." }, { status: 400 });
+      await attachReplicatePhoto(enrollment, entry.material.id, replicate, file, user);
+      return { intent, replicate, uploaded: true };
+    }
+  } catch (error) {
+    if (error instanceof ResultsError || error instanceof UploadError) return data({ intent, replicate: Number(form.get("replicate")), error: error.message }, { status: 400 });
+    throw error;
+  }
+  return data({ intent, error: "Unknown action." }, { status: 400 });
+}
+
+/** A request that never reached the server answers `offline` instead of replacing the page with an error, so nothing typed is lost. */
+export async function clientAction({ serverAction }: Route.ClientActionArgs) {
+  try {
+    return await serverAction();
+  } catch (error) {
+    if (isRouteErrorResponse(error)) throw error;
+    return { intent: "offline", offline: true as const };
+  }
+}
+
+// A draft save changes nothing else the page shows, so the page is not reloaded after one.
+export function shouldRevalidate({ formData, defaultShouldRevalidate }: ShouldRevalidateFunctionArgs) {
+  return formData?.get("intent") === "draft" ? false : defaultShouldRevalidate;
+}
+
+type ActionReply = {
+  intent?: string;
+  error?: string;
+  field?: string;
+  target?: string;
+  replicate?: number;
+  problems?: Record<string, string>;
+  submitProblems?: string[];
+  submitted?: boolean;
+  amended?: boolean;
+  uploaded?: boolean;
+};
+
+export default function ResultEntry({ loaderData, actionData }: Route.ComponentProps) {
+  const { study, material, responses, targets, photos, openQueries, editable } = loaderData;
+  const reply = actionData as ActionReply | undefined;
+  const replicates = Array.from({ length: study.replicatesPerCell }, (_, i) => i + 1);
+  const locked = responses.every((r) => r.cell?.status === "submitted");
+  const storageKey = `ringbatch:results-draft:${loaderData.enrollmentId}:${material.id}`;
+  const { draft, update, saveState, problems: savedProblems, forget, flush } = useAutosavedDraft({ storageKey, serverDraft: loaderData.draft, intent: "draft" });
+  const problems = { ...savedProblems, ...(reply?.problems ?? {}) };
+
+  useEffect(() => {
+    if (locked) forget();
+  }, [locked, forget]);
+
+  const setValue = (key: string, value: string) => update({ ...draft, values: { ...draft.values, [key]: value } });
+  const setReplicateField = (field: "testedOn" | "operator", replicate: number, value: string) =>
+    update({ ...draft, [field]: { ...draft[field], [replicate]: value } });
+
+  return (
+    <>
+      <PageHeader
+        title={`Results of ${material.code}`}
+        subtitle={
+          <>
+            {study.code} · your lab code {loaderData.labCode ?? "—"} · {material.description}
+          </>
+        }
+        actions={
+          <Link to={`/lab/studies/${study.id}`} className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
+            Back to the study
+          </Link>
+        }
+      />
+      <div className="grid gap-6 [&>*]:min-w-0">
+        <ConcreteCaution />
+        {!editable && <Notice>Results can be changed only while the study is in testing.</Notice>}
+        {openQueries.length > 0 && (
+          <Notice tone="caution">
+            The coordinator asks about this material:
+            <ul className="ml-5 list-disc">
+              {openQueries.map((q) => (
+                <li key={q.id}>
+                  {q.responseName}: {q.question}
+                </li>
+              ))}
+            </ul>
+            <Link to="/lab/queries" className="font-semibold underline">
+              Answer in your queries
+            </Link>
+          </Notice>
+        )}
+        {!locked && editable && (
+          <p role="status" aria-live="polite" className="sticky top-0 z-10 rounded-md bg-white px-3 py-2 font-semibold text-basalt-800 shadow-sm" data-testid="save-state">
+            {SAVE_STATE_TEXT[saveState]}
+          </p>
+        )}
+
+        <Card title="Fresh properties of the batch">
+          <p className="mb-3 text-basalt-700">Out-of-tolerance readings are kept and marked for the coordinator; never discard the batch's results for them here.</p>
+          <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
+            {FRESH_PROPERTY_NAMES.map((property) => {
+              const field = FRESH_FIELDS[property];
+              const check = checkFreshReading(property, draft.fresh[property], targets[property]);
+              const target = targets[property];
+              const error = check.status === "refused" ? check.message : problems[`fresh:${property}`];
+              return (
+                <div key={property}>
+                  <Field
+                    label={`${field.label} (${field.unit})`}
+                    name={`fresh-${property}`}
+                    inputMode="decimal"
+                    value={draft.fresh[property] ?? ""}
+                    disabled={locked || !editable}
+                    onChange={(e) => update({ ...draft, fresh: { ...draft.fresh, [property]: e.target.value } })}
+                    hint={target ? `Target ${target.target} ± ${target.tolerance} ${field.unit}` : undefined}
+                    error={error}
+                  />
+                  {check.status === "ok" && check.tolerance && !check.tolerance.withinTolerance && (
+                    <p className="mt-1">
+                      <Badge tone="signal">Outside tolerance</Badge> <span className="text-sm">kept and marked for the coordinator</span>
+                    </p>
+                  )}
+                  {check.status === "ok" && check.warning && <p className="mt-1 text-sm text-ochre-800">{check.warning}</p>}
+                </div>
+              );
+            })}
+            <Field
+              label="Time of batching"
+              name="batchedAt"
+              type="datetime-local"
+              value={draft.batchedAt}
+              disabled={locked || !editable}
+              onChange={(e) => update({ ...draft, batchedAt: e.target.value })}
+              error={problems["fresh:batchedAt"]}
+            />
+          </div>
+        </Card>
+
+        <Card title={locked ? "Submitted results" : "Results per replicate"}>
+          {locked ? (
+            <SubmittedResults responses={responses} replicates={replicates} values={loaderData.submittedValues} reply={reply} editable={editable} photos={photos} />
+          ) : (
+            <div className="relative overflow-x-auto">
+              <table className="w-full border-collapse text-left">
+                <caption className="sr-only">Replicate results of {material.code}</caption>
+                <thead>
+                  <tr className="border-b-2 border-basalt-200">
+                    <th scope="col" className="px-2 py-2">
+                      Replicate
+                    </th>
+                    {responses.map((r) => (
+                      <th key={r.id} scope="col" className="px-2 py-2">
+                        {r.name} {r.unit && <span className="font-normal">({r.unit})</span>}
+                      </th>
+                    ))}
+                    <th scope="col" className="px-2 py-2">
+                      Test date
+                    </th>
+                    <th scope="col" className="px-2 py-2">
+                      Operator
+                    </th>
+                    <th scope="col" className="px-2 py-2">
+                      Surface photo
+                    </th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {replicates.map((replicate) => {
+                    const date = checkTestDate(draft.testedOn[replicate]);
+                    return (
+                      <tr key={replicate} className="border-b border-basalt-100 align-top">
+                        <th scope="row" className="px-2 py-2">
+                          {replicate}
+                        </th>
+                        {responses.map((response) => {
+                          const key = `${response.key}:${replicate}`;
+                          const check = checkResultValue(response, draft.values[key]);
+                          return (
+                            <td key={response.id} className="px-2 py-2">
+                              <CellInput
+                                id={`value-${key}`}
+                                label={`${response.name}, replicate ${replicate}`}
+                                value={draft.values[key] ?? ""}
+                                inputMode={response.kind === "count" ? "numeric" : "decimal"}
+                                disabled={!editable}
+                                onChange={(v) => setValue(key, v)}
+                                error={check.status === "refused" ? check.message : problems[key]}
+                                warning={check.status === "ok" ? check.warning : undefined}
+                              />
+                            </td>
+                          );
+                        })}
+                        <td className="px-2 py-2">
+                          <CellInput
+                            id={`testedOn-${replicate}`}
+                            label={`Test date, replicate ${replicate}`}
+                            type="date"
+                            value={draft.testedOn[replicate] ?? ""}
+                            disabled={!editable}
+                            onChange={(v) => setReplicateField("testedOn", replicate, v)}
+                            error={date.ok ? problems[`testedOn:${replicate}`] : date.message}
+                          />
+                        </td>
+                        <td className="px-2 py-2">
+                          <CellInput
+                            id={`operator-${replicate}`}
+                            label={`Operator, replicate ${replicate}`}
+                            value={draft.operator[replicate] ?? ""}
+                            disabled={!editable}
+                            onChange={(v) => setReplicateField("operator", replicate, v)}
+                            error={problems[`operator:${replicate}`]}
+                          />
+                        </td>
+                        <td className="px-2 py-2">
+                          <PhotoCell replicate={replicate} photoId={photos[replicate]} editable={editable} />
+                        </td>
+                      </tr>
+                    );
+                  })}
+                </tbody>
+              </table>
+            </div>
+          )}
+        </Card>
+
+        {!locked && editable && (
+          <Card title={`Submit ${material.code}`}>
+            <p className="mb-3">
+              Submitting locks every result of {material.code}. After that a change is an amendment with a reason, which the coordinator sees.
+            </p>
+            {reply?.submitProblems && (
+              <Notice tone="error">
+                <p className="font-semibold">Not submitted yet:</p>
+                <ul className="ml-5 list-disc">
+                  {reply.submitProblems.map((p) => (
+                    <li key={p}>{p}</li>
+                  ))}
+                </ul>
+              </Notice>
+            )}
+            <Form method="post" className="mt-3" onSubmit={() => flush()}>
+              <input type="hidden" name="intent" value="submit" />
+              <input type="hidden" name="draft" value={JSON.stringify(draft)} />
+              <Button type="submit">Submit {material.code}</Button>
+            </Form>
+          </Card>
+        )}
+        {reply?.submitted && <Notice tone="success">{material.code} is submitted. Thank you.</Notice>}
+        <AmendmentHistory responses={responses} />
+      </div>
+    </>
+  );
+}
+
+function CellInput({
+  id,
+  label,
+  error,
+  warning,
+  onChange,
+  ...input
+}: { id: string; label: string; error?: string; warning?: string; onChange: (value: string) => void } & Omit<React.ComponentProps<"input">, "onChange" | "id">) {
+  const describedBy = error ? `${id}-error` : warning ? `${id}-warning` : undefined;
+  return (
+    <div className="flex min-w-28 flex-col gap-1">
+      <label htmlFor={id} className="sr-only">
+        {label}
+      </label>
+      <input
+        id={id}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={describedBy}
+        className={`min-h-11 rounded-md border bg-white px-2 py-1 ${error ? "border-signal-700" : "border-basalt-200"}`}
+        onChange={(e) => onChange(e.target.value)}
+        {...input}
+      />
+      {error && (
+        <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
+          {error}
+        </p>
+      )}
+      {!error && warning && (
+        <p id={`${id}-warning`} className="text-sm text-ochre-800">
+          {warning}
+        </p>
+      )}
+    </div>
+  );
+}
+
+function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoId?: number; editable: boolean }) {
+  const fetcher = useFetcher<ActionReply>();
+  const error = fetcher.data?.intent === "photo" && fetcher.data.replicate === replicate ? fetcher.data.error : undefined;
+  const id = `photo-${replicate}`;
+  return (
+    <div className="flex flex-col gap-1">
+      {photoId && (
+        <a href={`/files/${photoId}`} className="font-semibold text-basalt-700 underline" target="_blank" rel="noreferrer">
+          View photo<span className="sr-only"> of replicate {replicate}</span>
+        </a>
+      )}
+      {editable && (
+        <fetcher.Form method="post" encType="multipart/form-data" className="flex flex-col gap-1">
+          <input type="hidden" name="intent" value="photo" />
+          <input type="hidden" name="replicate" value={replicate} />
+          <label htmlFor={id} className="sr-only">
+            Surface photo of replicate {replicate} (JPEG, PNG or WebP, at most 10 MB)
+          </label>
+          <input id={id} name="photo" type="file" accept="image/jpeg,image/png,image/webp" className="max-w-48 text-sm" aria-describedby={error ? `${id}-error` : undefined} />
+          <Button type="submit" variant="secondary" className="min-h-9 px-2 py-1 text-sm" disabled={fetcher.state !== "idle"}>
+            {fetcher.state !== "idle" ? "Uploading…" : "Upload"}
+            <span className="sr-only"> photo of replicate {replicate}</span>
+          </Button>
+          {error && (
+            <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
+              {error}
+            </p>
+          )}
+        </fetcher.Form>
+      )}
+    </div>
+  );
+}
+
+type ResponseView = Route.ComponentProps["loaderData"]["responses"][number];
+
+function SubmittedResults({
+  responses,
+  replicates,
+  values,
+  reply,
+  editable,
+  photos,
+}: {
+  responses: ResponseView[];
+  replicates: number[];
+  values: Record<string, number>;
+  reply?: ActionReply;
+  editable: boolean;
+  photos: Record<number, number>;
+}) {
+  return (
+    <div className="grid gap-4">
+      {responses.map((response) => (
+        <section key={response.id} aria-labelledby={`response-${response.id}`}>
+          <h3 id={`response-${response.id}`} className="mb-2 font-semibold">
+            {response.name} {response.cell && <CellStatusBadge status={response.cell.amended ? "amended" : "submitted"} />}
+          </h3>
+          <ul className="grid gap-2">
+            {replicates.map((replicate) => {
+              const target = `${response.id}:${replicate}`;
+              const mine = reply?.intent === "amend" && reply.target === target ? reply : undefined;
+              return (
+                <li key={replicate} className="flex flex-wrap items-start gap-3">
+                  <span className="min-w-40">
+                    Replicate {replicate}: <span className="font-semibold">{values[`${response.key}:${replicate}`] ?? "—"}</span> {response.unit}
+                    {photos[replicate] && (
+                      <>
+                        {" "}
+                        · <a href={`/files/${photos[replicate]}`} className="text-basalt-700 underline">photo</a>
+                      </>
+                    )}
+                  </span>
+                  {editable && (
+                    <details className="flex-1" open={Boolean(mine?.error)}>
+                      <summary className="cursor-pointer font-semibold text-basalt-700 underline">
+                        Amend<span className="sr-only"> {response.name}, replicate {replicate}</span>
+                      </summary>
+                      <Form method="post" className="mt-2 grid max-w-xl gap-2">
+                        <input type="hidden" name="intent" value="amend" />
+                        <input type="hidden" name="responseId" value={response.id} />
+                        <input type="hidden" name="replicate" value={replicate} />
+                        <input type="hidden" name="version" value={response.cell?.version ?? 0} />
+                        {mine?.field === "form" && <Notice tone="error">{mine.error}</Notice>}
+                        <Field
+                          label={`Corrected value, ${response.name.toLowerCase()}, replicate ${replicate}`}
+                          name="value"
+                          id={`amend-value-${target}`}
+                          inputMode="decimal"
+                          required
+                          error={mine?.field === "value" ? mine.error : undefined}
+                        />
+                        <Field
+                          label="Reason for the change"
+                          name="reason"
+                          id={`amend-reason-${target}`}
+                          required
+                          minLength={5}
+                          hint="The coordinator sees the reason, the old and the new value."
+                          error={mine?.field === "reason" ? mine.error : undefined}
+                        />
+                        <Button type="submit">Record amendment</Button>
+                      </Form>
+                    </details>
+                  )}
+                </li>
+              );
+            })}
+          </ul>
+        </section>
+      ))}
+    </div>
+  );
+}
+
+function AmendmentHistory({ responses }: { responses: ResponseView[] }) {
+  const rows = responses.flatMap((r) => r.amendments.map((a) => ({ ...a, responseName: r.name })));
+  if (rows.length === 0) return null;
+  return (
+    <Card title="Amendments">
+      <ul className="grid gap-2" aria-label="Amendments of this material">
+        {rows.map((a) => (
+          <li key={a.id}>
+            {a.responseName}, replicate {a.replicate}: {a.oldValue ?? "—"} → <span className="font-semibold">{a.newValue}</span> · “{a.reason}” · {a.byName},{" "}
+            {new Date(a.createdAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" })} UTC
+          </li>
+        ))}
+      </ul>
+    </Card>
+  );
+}

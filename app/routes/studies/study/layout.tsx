@@ -1,0 +1,31 @@
+import type { Route } from "./+types/layout";
+import { StudyFrame, type StudyTab } from "~/components/study-frame";
+import { requireStudy, studyAccessMiddleware } from "~/server/study-context.server";
+
+// Coordinators work here; admins read; reviewers read the setup, materials and report.
+export const middleware: Route.MiddlewareFunction[] = [studyAccessMiddleware(["coordinator", "admin", "reviewer"])];
+
+export async function loader({ context }: Route.LoaderArgs) {
+  const { study, access } = requireStudy(context, ["coordinator", "admin", "reviewer"]);
+  return { study: { id: study.id, code: study.code, title: study.title, state: study.state }, access };
+}
+
+const COORDINATOR_TABS: [path: string, label: string][] = [
+  ["", "Overview"],
+  ["/setup", "Setup"],
+  ["/labs", "Labs"],
+  ["/shipments", "Shipments"],
+  ["/results", "Results"],
+  ["/analysis", "Analysis"],
+  ["/queries", "Queries"],
+  ["/statement", "Statement"],
+  ["/report", "Report"],
+];
+const REVIEWER_TABS = COORDINATOR_TABS.filter(([path]) => path === "/setup" || path === "/report");
+
+export default function StudyLayout({ loaderData }: Route.ComponentProps) {
+  const { study, access } = loaderData;
+  const base = `/studies/${study.id}`;
+  const tabs: StudyTab[] = (access === "reviewer" ? REVIEWER_TABS : COORDINATOR_TABS).map(([path, label]) => ({ to: base + path, label, end: path === "" }));
+  return <StudyFrame study={study} tabs={tabs} />;
+}

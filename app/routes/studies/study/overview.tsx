@@ -1,0 +1,214 @@
+import { useEffect } from "react";
+import { Form, Link, useFetcher, useNavigation } from "react-router";
+import type { Route } from "./+types/overview";
+import { CELL_STATUS_VIEW, CellStatusBadge } from "~/components/cell-status-badge";
+import { DataTable } from "~/components/data-table";
+import { Badge, Button, Card, Notice, PageHeader } from "~/components/ui";
+import type { ActionResult } from "~/lib/form-results";
+import { refused } from "~/lib/form-results";
+import { requireStudy } from "~/server/study-context.server";
+import { resultsEditable } from "~/lib/study-lifecycle";
+import { STATE_LABEL } from "~/lib/study-states";
+import { remindLabsWithMissingResults } from "~/models/reminder.server";
+import { listStudyShipments } from "~/models/shipment.server";
+import { CELL_STATUS_ORDER } from "~/lib/cell-status";
+import { type StudyProgress, statusCountsByMaterial, studyMatrix } from "~/models/study.server";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.study.code ?? "Study"} · Ringbatch` }];
+
+/** How often the open page refreshes its progress. */
+const POLL_MS = 15_000;
+
+export async function loader({ context }: Route.LoaderArgs) {
+  const { study, access } = requireStudy(context, ["coordinator", "admin"]);
+  const [matrix, shipments] = await Promise.all([studyMatrix(study.id), listStudyShipments(study.id)]);
+  return {
+    study,
+    matrix,
+    counts: statusCountsByMaterial(matrix),
+    shipments: {
+      damaged: shipments.filter((s) => s.condition === "damaged"),
+      lost: shipments.filter((s) => s.status === "lost"),
+      shipped: shipments.filter((s) => s.status === "shipped").length,
+      received: shipments.filter((s) => s.status === "received").length,
+    },
+    canRemind: access === "coordinator" && resultsEditable(study.state),
+    today: new Date().toISOString().slice(0, 10),
+  };
+}
+
+export async function action({ request, context }: Route.ActionArgs) {
+  const { study, user } = requireStudy(context, ["coordinator"]);
+  const form = await request.formData();
+  if (form.get("intent") !== "remind") return refused("remind", { form: "Unknown action." });
+  if (!resultsEditable(study.state)) return refused("remind", { form: "Reminders go out only while the study is testing." });
+  const { reminded } = await remindLabsWithMissingResults(study, user.id, request);
+  return {
+    intent: "remind",
+    done: reminded.length ? `Reminded ${reminded.length} ${reminded.length === 1 ? "lab" : "labs"}: ${reminded.join(", ")}.` : "Every lab has submitted; nobody to remind.",
+  } satisfies ActionResult;
+}
+
+
+function daysUntil(date: string, today: string) {
+  return Math.round((Date.parse(date) - Date.parse(today)) / 86_400_000);
+}
+
+function Bar({ label, value, max }: { label: string; value: number; max: number }) {
+  return (
+    <div className="flex flex-col gap-1">
+      <div className="flex justify-between text-sm">
+        <span className="font-semibold">{label}</span>
+        <span>
+          {value} of {max}
+        </span>
+      </div>
+      <progress className="h-3 w-full" max={max || 1} value={value} aria-label={`${label}: ${value} of ${max} submitted`} />
+    </div>
+  );
+}
+
+export default function StudyOverview({ loaderData, actionData }: Route.ComponentProps) {
+  const { study, shipments, canRemind, today } = loaderData;
+  const progress = useFetcher<StudyProgress>();
+  const busy = useNavigation().state === "submitting";
+  const result = actionData as ActionResult | undefined;
+
+  useEffect(() => {
+    const timer = setInterval(() => {
+      if (document.visibilityState === "visible" && progress.state === "idle") progress.load(`/api/v1/studies/${study.id}/progress`);
+    }, POLL_MS);
+    return () => clearInterval(timer);
+  }, [study.id, progress]);
+
+  // The polled figures replace the loader's once they arrive.
+  const live = progress.data;
+  const materials = live?.materials ?? loaderData.matrix.materials.map((m) => ({ id: m.id, code: m.code }));
+  const rows = live?.labs ?? loaderData.matrix.rows.map((r) => ({ enrollmentId: r.id, labCode: r.labCode, labName: r.labName, statuses: r.statuses, submitted: r.submitted }));
+  const counts = live?.counts ?? loaderData.counts;
+  const submitted = rows.flatMap((r) => r.submitted).filter(Boolean).length;
+  const total = rows.length * materials.length;
+  const dates = [
+    { label: "Enrollment deadline", date: study.enrollmentDeadline },
+    { label: "Ship date", date: study.shipDate },
+    { label: "Results due", date: study.resultsDue },
+  ];
+
+  return (
+    <>
+      <PageHeader
+        title={`${study.code} — ${study.title}`}
+        subtitle={
+          <>
+            {study.testMethod} · <Badge>{STATE_LABEL[study.state]}</Badge> · {study.replicatesPerCell} replicates per cell
+          </>
+        }
+      />
+      <div className="flex flex-col gap-6">
+        {result?.done && <Notice tone="success">{result.done}</Notice>}
+        {result?.errors?.form && <Notice tone="error">{result.errors.form}</Notice>}
+        {shipments.damaged.map((s) => (
+          <Notice key={s.id} tone="error">
+            Shipment to {s.labCode ?? s.labName} ({s.labName}) arrived damaged on {s.receivedOn}: {s.receiptNotes}{" "}
+            <Link to={`/studies/${study.id}/shipments`} className="font-semibold underline">
+              See shipments
+            </Link>
+          </Notice>
+        ))}
+        {shipments.lost.map((s) => (
+          <Notice key={s.id} tone="caution">
+            Shipment to {s.labCode ?? s.labName} ({s.labName}) is marked lost in transit.
+          </Notice>
+        ))}
+
+        <div className="grid gap-6 md:grid-cols-3">
+          <Card title="Dates">
+            <dl className="flex flex-col gap-2">
+              {dates.map((d) => (
+                <div key={d.label}>
+                  <dt className="font-semibold">{d.label}</dt>
+                  <dd>
+                    {d.date ? (
+                      <>
+                        {d.date}{" "}
+                        <span className="text-sm text-basalt-700">
+                          ({daysUntil(d.date, today) >= 0 ? `in ${daysUntil(d.date, today)} days` : `${-daysUntil(d.date, today)} days ago`})
+                        </span>
+                      </>
+                    ) : (
+                      "not set"
+                    )}
+                  </dd>
+                </div>
+              ))}
+            </dl>
+          </Card>
+          <Card title="Shipments">
+            <p>
+              {shipments.shipped} on the way · {shipments.received} received · {shipments.damaged.length} damaged · {shipments.lost.length} lost
+            </p>
+          </Card>
+          <Card title="Reminders">
+            {canRemind ? (
+              <Form method="post" className="flex flex-col gap-2">
+                <input type="hidden" name="intent" value="remind" />
+                <p className="text-sm">E-mails only the labs with results not yet submitted, listing what is missing.</p>
+                <Button type="submit" disabled={busy}>
+                  Remind labs with missing results
+                </Button>
+              </Form>
+            ) : (
+              <p>Reminders go out while the study is testing.</p>
+            )}
+          </Card>
+        </div>
+
+        <Card title="Progress">
+          <p className="mb-2" aria-live="polite">
+            {submitted} of {total} lab × material results submitted
+          </p>
+          <progress className="mb-4 h-3 w-full" max={total || 1} value={submitted} aria-label="Submitted lab × material results" />
+          <div className="mb-6 grid gap-4 md:grid-cols-2">
+            {counts.map((c) => (
+              <Bar key={c.materialId} label={`Material ${c.code}`} value={rows.filter((r) => r.submitted[materials.findIndex((m) => m.id === c.materialId)]).length} max={rows.length} />
+            ))}
+          </div>
+          <DataTable
+            caption="Lab × material pairs in each status, per material"
+            filterLabel="Filter materials"
+            data={counts}
+            columns={[
+              { id: "code", header: "Material", value: (c) => c.code },
+              ...CELL_STATUS_ORDER.map((s) => ({ id: s, header: CELL_STATUS_VIEW[s].label, value: (c: (typeof counts)[number]) => c.counts[s] })),
+            ]}
+          />
+        </Card>
+
+        <Card title="Cell status by lab and material">
+          <DataTable
+            caption="Cell status by lab and material"
+            filterLabel="Filter labs"
+            empty="No lab has accepted yet."
+            data={rows}
+            columns={[
+              { id: "code", header: "Lab code", value: (r) => r.labCode },
+              { id: "lab", header: "Lab", value: (r) => r.labName },
+              {
+                id: "done",
+                header: "Submitted",
+                value: (r) => r.submitted.filter(Boolean).length,
+                cell: (r) => <Bar label={r.labCode ?? r.labName} value={r.submitted.filter(Boolean).length} max={materials.length} />,
+              },
+              ...materials.map((m, i) => ({
+                id: `m${m.id}`,
+                header: m.code,
+                value: (r: (typeof rows)[number]) => CELL_STATUS_VIEW[r.statuses[i]!].label,
+                cell: (r: (typeof rows)[number]) => <CellStatusBadge status={r.statuses[i]!} />,
+              })),
+            ]}
+          />
+        </Card>
+      </div>
+    </>
+  );
+}
