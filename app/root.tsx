@@ -5,6 +5,8 @@ import { getUser } from "~/server/guards.server";
 import { isForeignOrigin } from "~/server/origin-check.server";
 import { withSecurityHeaders } from "~/server/security-headers.server";
 import { mailboxEnabled } from "~/models/mailbox.server";
+import { takeToast } from "~/server/toast.server";
+import { Notice } from "~/components/ui";
 import "./app.css";
 
 const guardRequests: Route.MiddlewareFunction = async ({ request }, next) => {
@@ -17,8 +19,8 @@ const guardRequests: Route.MiddlewareFunction = async ({ request }, next) => {
 export const middleware: Route.MiddlewareFunction[] = [guardRequests];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await getUser(request);
-  return data({ user: user && { name: user.name, role: user.role }, mailbox: mailboxEnabled() });
+  const [user, { toast, headers }] = await Promise.all([getUser(request), takeToast(request)]);
+  return data({ user: user && { name: user.name, role: user.role }, mailbox: mailboxEnabled(), toast }, { headers });
 }
 
 export const meta: Route.MetaFunction = () => [{ title: "Ringbatch" }];
@@ -39,6 +41,11 @@ export function Layout({ children }: { children: React.ReactNode }) {
         </a>
         <AppHeader user={rootData?.user ?? null} mailbox={rootData?.mailbox ?? false} />
         <main id="main" className="mx-auto max-w-6xl px-4 py-8">
+          {rootData?.toast && (
+            <div className="mb-4">
+              <Notice tone={rootData.toast.tone}>{rootData.toast.message}</Notice>
+            </div>
+          )}
           {children}
         </main>
         <ScrollRestoration />

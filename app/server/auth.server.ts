@@ -1,7 +1,7 @@
 import { redirect } from "react-router";
 import { Authenticator } from "remix-auth";
 import { FormStrategy } from "remix-auth-form";
-import { z } from "zod";
+import { signInSchema } from "~/lib/account-forms";
 import { recordAudit } from "~/server/audit.server";
 import { ACCOUNT_SIGN_IN_FAILURES, clearHits, clientAddress, isLimited, recordHit, SIGN_IN_FAILURES } from "~/server/rate-limit.server";
 import { sessionStorage } from "~/server/session.server";
@@ -19,16 +19,11 @@ export class SignInError extends Error {
   }
 }
 
-const credentialsSchema = z.object({
-  email: z.string().trim().min(1).max(254),
-  password: z.string().min(1).max(1024),
-});
-
 const authenticator = new Authenticator<number>();
 
 authenticator.use(
   new FormStrategy(async ({ form, request }) => {
-    const parsed = credentialsSchema.safeParse(Object.fromEntries(form));
+    const parsed = signInSchema.safeParse(Object.fromEntries(form));
     if (!parsed.success) throw new SignInError(SIGN_IN_FAILED, 400);
     const email = normaliseEmail(parsed.data.email);
     // Failures count per account and address, so one attacker cannot lock a colleague out from elsewhere.

@@ -6,6 +6,9 @@ import { sessions } from "~/db/schema";
 
 const SESSION_LIFETIME_SECONDS = 60 * 60 * 12;
 
+/** Signing secrets for the app's cookies; the first signs, all verify (rotation). */
+export const sessionSecrets = (process.env.SESSION_SECRET ?? "ringbatch-local-session-secret").split(",");
+
 const sessionCookie = createCookie("__ringbatch_session", {
   httpOnly: true,
   sameSite: "lax",
@@ -13,7 +16,7 @@ const sessionCookie = createCookie("__ringbatch_session", {
   secure: process.env.NODE_ENV === "production",
   maxAge: SESSION_LIFETIME_SECONDS,
   // The cookie only carries a random id; signing makes a forged id fail before any lookup.
-  secrets: (process.env.SESSION_SECRET ?? "ringbatch-local-session-secret").split(","),
+  secrets: sessionSecrets,
 });
 
 function expiryFrom(expires: Date | undefined) {

@@ -1,9 +1,14 @@
+import { getFormProps } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, redirect, useNavigation, useSearchParams } from "react-router";
 import type { Route } from "./+types/login";
-import { Button, Card, Field, Notice } from "~/components/ui";
-import { SignInError, signIn } from "~/server/auth.server";
-import { getUser } from "~/server/guards.server";
+import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
+import { Button, Card, Field } from "~/components/ui";
+import { signInSchema } from "~/lib/account-forms";
 import { HOME_BY_ROLE } from "~/models/user.server";
+import { SignInError, signIn } from "~/server/auth.server";
+import { refuse } from "~/server/form-reply.server";
+import { getUser } from "~/server/guards.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Ringbatch" }];
 
@@ -14,12 +19,15 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
+  // The sign-in strategy reads the body itself; the form is checked on a copy first.
+  const submission = parseWithZod(await request.clone().formData(), { schema: signInSchema });
+  if (submission.status !== "success") return refuse(submission);
   const redirectTo = new URL(request.url).searchParams.get("redirectTo");
   try {
     return await signIn(request, redirectTo);
   } catch (error) {
-    if (error instanceof SignInError) return data({ error: error.message }, { status: error.status });
-    throw error;
+    if (!(error instanceof SignInError)) throw error;
+    return data({ result: submission.reply({ formErrors: [error.message], hideFields: ["password"] }) }, { status: error.status });
   }
 }
 
@@ -27,6 +35,7 @@ export default function Login({ actionData }: Route.ComponentProps) {
   const navigation = useNavigation();
   const [searchParams] = useSearchParams();
   const redirectTo = searchParams.get("redirectTo");
+  const [form, fields] = useSchemaForm(signInSchema, { reply: actionData, id: "sign-in" });
   return (
     <div className="mx-auto max-w-md">
       <h1 className="mb-2 text-2xl font-bold">Sign in</h1>
@@ -35,10 +44,15 @@ export default function Login({ actionData }: Route.ComponentProps) {
         reviewers each sign in to their own pages.
       </p>
       <Card>
-        <Form method="post" action={redirectTo ? `/login?redirectTo=${encodeURIComponent(redirectTo)}` : "/login"} className="flex flex-col gap-4">
-          {actionData?.error && <Notice tone="error">{actionData.error}</Notice>}
-          <Field label="E-mail" name="email" type="email" autoComplete="username" required />
-          <Field label="Password" name="password" type="password" autoComplete="current-password" required />
+        <Form
+          method="post"
+          action={redirectTo ? `/login?redirectTo=${encodeURIComponent(redirectTo)}` : "/login"}
+          className="flex flex-col gap-4"
+          {...getFormProps(form)}
+        >
+          <FormErrors errors={form.errors} />
+          <Field label="E-mail" type="email" autoComplete="username" {...fieldProps(fields.email)} />
+          <Field label="Password" type="password" autoComplete="current-password" {...fieldProps(fields.password)} />
           <Button type="submit" disabled={navigation.state === "submitting"}>
             {navigation.state === "submitting" ? "Signing in…" : "Sign in"}
           </Button>

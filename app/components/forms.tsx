@@ -1,0 +1,53 @@
+/**
+ * Forms with Conform: each form is checked in the browser with the same zod
+ * schema its action parses, errors appear beside their fields, and what was
+ * typed stays after a refusal.
+ */
+import { type DefaultValue, type FieldMetadata, type SubmissionResult, useForm } from "@conform-to/react";
+import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
+import type { z } from "zod";
+import { Notice } from "~/components/ui";
+
+/** What an action returns when it refuses a form (see `refuse` in form-reply.server). */
+export type FormReply = { result?: SubmissionResult<string[]> } | undefined | null;
+
+/**
+ * One form of a page. Where a page has several forms, `intent` picks which of
+ * them the action's last answer belongs to.
+ */
+export function useSchemaForm<Schema extends z.ZodType<Record<string, unknown>, Record<string, unknown>>>(
+  schema: Schema,
+  { reply, intent, id, defaultValue }: { reply?: FormReply | unknown; intent?: string; id?: string; defaultValue?: DefaultValue<z.input<Schema>> } = {},
+) {
+  const result = (reply as FormReply)?.result;
+  const mine = intent === undefined || result?.initialValue?.intent === intent;
+  return useForm<z.input<Schema>, z.output<Schema>, string[]>({
+    id: id ?? intent,
+    lastResult: mine ? result : undefined,
+    defaultValue,
+    constraint: getZodConstraint(schema),
+    shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
+    onValidate: ({ formData }) => parseWithZod(formData, { schema }),
+  });
+}
+
+/** The props a Field, TextAreaField or SelectField takes from a Conform field. */
+export function fieldProps(meta: FieldMetadata<unknown>) {
+  return {
+    id: meta.id,
+    name: meta.name,
+    defaultValue: (meta.initialValue as string | undefined) ?? undefined,
+    error: meta.errors?.[0],
+    required: meta.required,
+    ...(meta.minLength !== undefined && { minLength: meta.minLength }),
+    ...(meta.maxLength !== undefined && { maxLength: meta.maxLength }),
+    ...(meta.min !== undefined && { min: meta.min }),
+    ...(meta.max !== undefined && { max: meta.max }),
+  };
+}
+
+/** Errors of the form as a whole (not of one field). */
+export function FormErrors({ errors }: { errors?: string[] }) {
+  return errors?.length ? <Notice tone="error">{errors.join(" ")}</Notice> : null;
+}
