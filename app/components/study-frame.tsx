@@ -2,7 +2,7 @@ import type { ReactNode } from "react";
 import { NavLink, Outlet, useMatches } from "react-router";
 import { Badge } from "~/components/ui";
 import type { StudyState } from "~/db/values";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 
 /** What a study's child route tells the frame around it: the page's name in the title. */
 export type StudyPageHandle = { pageTitle: string };

@@ -25,7 +25,7 @@ import { recordAudit } from "~/server/audit.server";
 import { cellKey, type ResolvedRow, resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { cellStatusOf } from "~/lib/cell-status";
 import { checkResultValue } from "~/lib/results/values";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 import { IMAGE_TYPES, storeUpload } from "~/server/uploads.server";
 import { bumpDataVersion } from "~/models/analysis.server";
 

@@ -4,7 +4,7 @@ import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireRole } from "~/server/guards.server";
 import { awaitedVotes } from "~/models/review.server";
 import { listReviewedStudies } from "~/models/study.server";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 
 export const meta: Route.MetaFunction = () => [{ title: "Reviews · Ringbatch" }];
 

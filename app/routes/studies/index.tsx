@@ -3,7 +3,7 @@ import type { Route } from "./+types/index";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireRole } from "~/server/guards.server";
 import { listCoordinatedStudies } from "~/models/study.server";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 
 export const meta: Route.MetaFunction = () => [{ title: "Studies · Ringbatch" }];
 

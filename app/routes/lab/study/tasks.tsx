@@ -3,7 +3,7 @@ import type { Route } from "./+types/tasks";
 import { CellStatusBadge } from "~/components/cell-status-badge";
 import { Badge, Card, Notice, PageHeader, SimpleTable } from "~/components/ui";
 import { requireStudy } from "~/server/study-context.server";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 import { enrollmentWorklist } from "~/models/results.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.study.code ?? "Study"} · My lab · Ringbatch` }];

@@ -9,7 +9,7 @@ import { type ActionResult, refused } from "~/lib/form-results";
 import { type FieldErrors, parseForm } from "~/lib/forms";
 import { requireStudy } from "~/server/study-context.server";
 import { reviewRefusal } from "~/lib/review/write-rules";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 import { addComment, castVote, commentsOn, ReviewError } from "~/models/review.server";
 import { studyAnalysis } from "~/models/analysis.server";
 import { listStatements, studyDesign, votesOn } from "~/models/statement.server";

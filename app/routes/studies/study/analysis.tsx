@@ -13,7 +13,7 @@ import { type CellRef, cellKey, parseCellList, sameCell } from "~/lib/review/cel
 import { flaggedCells, flagStatistic, suggestedQuestion } from "~/lib/review/flags";
 import { ALPHA_LABEL, figureDecimals, formatFigure } from "~/lib/review/format";
 import { decisionRefusal, queryRefusal } from "~/lib/review/write-rules";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 import { studyAnalysis, withdrawnLabCodes } from "~/models/analysis.server";
 import { QueryError, listStudyQueries, raiseQuery } from "~/models/coordinator-queries.server";
 import { DecisionError, cellEvidence, decisionHistory, listCellDecisions, saveCellDecision } from "~/models/decisions.server";

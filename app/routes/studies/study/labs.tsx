@@ -7,7 +7,7 @@ import { type ActionResult, formState, handleForm, refused } from "~/lib/form-re
 import { requireStudy } from "~/server/study-context.server";
 import { invitationsOpen, RECOMMENDED_MIN_LABS } from "~/lib/study-lifecycle";
 import { withdrawalSchema } from "~/lib/study-forms";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 import { useSchemaCheck } from "~/lib/use-schema-check";
 import { idField } from "~/lib/validation";
 import { inviteLab, listStudyEnrollments, WITHDRAWAL_STATES, withdrawEnrollment } from "~/models/invitation.server";

@@ -1,14 +1,15 @@
 import { useEffect } from "react";
 import { Form, Link, useFetcher, useNavigation } from "react-router";
 import type { Route } from "./+types/overview";
-import { CELL_STATUS_VIEW, CellStatusBadge } from "~/components/cell-status-badge";
+import { CellStatusBadge } from "~/components/cell-status-badge";
+import { CELL_STATUS } from "~/lib/state-labels";
 import { DataTable } from "~/components/data-table";
 import { Badge, Button, Card, Notice, PageHeader } from "~/components/ui";
 import type { ActionResult } from "~/lib/form-results";
 import { refused } from "~/lib/form-results";
 import { requireStudy } from "~/server/study-context.server";
 import { resultsEditable } from "~/lib/study-lifecycle";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 import { remindLabsWithMissingResults } from "~/models/reminder.server";
 import { listStudyShipments } from "~/models/shipment.server";
 import { CELL_STATUS_ORDER } from "~/lib/cell-status";
@@ -179,7 +180,7 @@ export default function StudyOverview({ loaderData, actionData }: Route.Componen
             data={counts}
             columns={[
               { id: "code", header: "Material", value: (c) => c.code },
-              ...CELL_STATUS_ORDER.map((s) => ({ id: s, header: CELL_STATUS_VIEW[s].label, value: (c: (typeof counts)[number]) => c.counts[s] })),
+              ...CELL_STATUS_ORDER.map((s) => ({ id: s, header: CELL_STATUS[s].label, value: (c: (typeof counts)[number]) => c.counts[s] })),
             ]}
           />
         </Card>
@@ -202,7 +203,7 @@ export default function StudyOverview({ loaderData, actionData }: Route.Componen
               ...materials.map((m, i) => ({
                 id: `m${m.id}`,
                 header: m.code,
-                value: (r: (typeof rows)[number]) => CELL_STATUS_VIEW[r.statuses[i]!].label,
+                value: (r: (typeof rows)[number]) => CELL_STATUS[r.statuses[i]!].label,
                 cell: (r: (typeof rows)[number]) => <CellStatusBadge status={r.statuses[i]!} />,
               })),
             ]}

@@ -5,7 +5,7 @@ import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/st
 import { Badge, Card, SimpleTable } from "~/components/ui";
 import { requireStudy } from "~/server/study-context.server";
 import { ALPHA_LABEL } from "~/lib/review/format";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 import { listStatements, participatingLabs } from "~/models/statement.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Report · ${data?.study.code ?? "Study"} · Ringbatch` }];

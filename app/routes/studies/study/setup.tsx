@@ -12,7 +12,7 @@ import { requireStudy } from "~/server/study-context.server";
 import { freshTargetsSchema, materialSchema, personSchema, responseSchema, studyFields, transitionSchema } from "~/lib/study-forms";
 import { useSchemaCheck } from "~/lib/use-schema-check";
 import { allowedNextStates, setupEditable } from "~/lib/study-lifecycle";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 import { readUploadForm } from "~/server/upload-form.server";
 import { PDF_TYPES, storeUpload, UploadError } from "~/server/uploads.server";
 import { idField } from "~/lib/validation";

@@ -6,7 +6,7 @@ import { Badge, Button, Card, Field, Notice, PageHeader, SelectField, TextAreaFi
 import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
 import { requireStudy } from "~/server/study-context.server";
 import { shipmentCreateSchema, shipSchema } from "~/lib/study-forms";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 import { useSchemaCheck } from "~/lib/use-schema-check";
 import { listStudyEnrollments } from "~/models/invitation.server";
 import { createShipment, defaultContents, listStudyShipments, markLost, markShipped } from "~/models/shipment.server";

@@ -9,7 +9,7 @@ import { type FieldErrors, parseForm } from "~/lib/forms";
 import { notFound } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
 import { draftingRefusal, reviewRefusal } from "~/lib/review/write-rules";
-import { STATE_LABEL } from "~/lib/study-states";
+import { STATE_LABEL } from "~/lib/state-labels";
 import {
   answerObjection,
   freezeStatement,

@@ -1,0 +1,25 @@
+import { describe, expect, it } from "vitest";
+import { formatDate, formatDateTime, todayIso } from "./format";
+
+// ISO 8601 calendar dates (YYYY-MM-DD) and 24-hour times: the reference is the standard's own notation.
+describe("dates on screen", () => {
+  it("writes a date as ISO 8601 in UTC, whatever the input form", () => {
+    expect(formatDate(new Date("2026-09-04T23:30:00Z"))).toBe("2026-09-04");
+    expect(formatDate("2026-09-04")).toBe("2026-09-04");
+    expect(formatDate(Date.UTC(2026, 0, 5, 1, 2))).toBe("2026-01-05");
+  });
+
+  it("writes a time in UTC with the zone named", () => {
+    expect(formatDateTime(new Date("2026-09-04T14:05:59Z"))).toBe("2026-09-04 14:05 UTC");
+    expect(formatDateTime("2026-12-31T00:00:00Z")).toBe("2026-12-31 00:00 UTC");
+  });
+
+  it("shows a dash for nothing or an unreadable value", () => {
+    expect(formatDate(null)).toBe("—");
+    expect(formatDateTime("not a date")).toBe("—");
+  });
+
+  it("knows today's UTC date", () => {
+    expect(todayIso(new Date("2026-02-28T23:59:59Z"))).toBe("2026-02-28");
+  });
+});

@@ -1,0 +1,31 @@
+/**
+ * Dates and times on every page read the same way: ISO dates (2026-09-04),
+ * and times in UTC with the zone said (2026-09-04 14:05 UTC), so a lab in any
+ * time zone and a committee reading later see the same record.
+ */
+const dateParts = new Intl.DateTimeFormat("en-CA", { timeZone: "UTC", year: "numeric", month: "2-digit", day: "2-digit" });
+const timeParts = new Intl.DateTimeFormat("en-GB", { timeZone: "UTC", hour: "2-digit", minute: "2-digit", hourCycle: "h23" });
+
+type When = Date | string | number;
+
+const toDate = (when: When) => (when instanceof Date ? when : new Date(when));
+
+/** 2026-09-04 (a stored ISO date string passes through unchanged). */
+export function formatDate(when: When | null | undefined): string {
+  if (when === null || when === undefined || when === "") return "—";
+  if (typeof when === "string" && /^\d{4}-\d{2}-\d{2}$/.test(when)) return when;
+  const date = toDate(when);
+  return Number.isNaN(date.getTime()) ? "—" : dateParts.format(date);
+}
+
+/** 2026-09-04 14:05 UTC */
+export function formatDateTime(when: When | null | undefined): string {
+  if (when === null || when === undefined || when === "") return "—";
+  const date = toDate(when);
+  return Number.isNaN(date.getTime()) ? "—" : `${dateParts.format(date)} ${timeParts.format(date)} UTC`;
+}
+
+/** Today's date in UTC, as the date inputs and the date rules compare it. */
+export function todayIso(now: Date = new Date()): string {
+  return dateParts.format(now);
+}
