@@ -14,7 +14,7 @@ import {
   text,
   uniqueIndex,
 } from "drizzle-orm/sqlite-core";
-import { ROLES, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES } from "./values";
+import { ROLES, STUDY_KINDS, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES } from "./values";
 
 export * from "./values";
 
@@ -79,6 +79,7 @@ export const studies = sqliteTable("studies", {
   id: integer("id").primaryKey({ autoIncrement: true }),
   code: text("code").notNull().unique(),
   title: text("title").notNull(),
+  kind: text("kind", { enum: STUDY_KINDS }).notNull().default("precision"),
   testMethod: text("test_method").notNull(),
   notes: text("notes").notNull().default(""),
   state: text("state", { enum: STUDY_STATES }).notNull().default("draft"),

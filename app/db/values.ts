@@ -18,6 +18,10 @@ export const STUDY_STATES = [
 ] as const;
 export type StudyState = (typeof STUDY_STATES)[number];
 
+/** What a study is for: a precision study (E691 / ISO 5725-2), a proficiency round, or a single-lab ruggedness screening. */
+export const STUDY_KINDS = ["precision", "proficiency", "ruggedness"] as const;
+export type StudyKind = (typeof STUDY_KINDS)[number];
+
 export const RESPONSE_KINDS = ["count", "continuous"] as const;
 
 export const FRESH_PROPERTIES = [

@@ -1,0 +1,1 @@
+ALTER TABLE `studies` ADD `kind` text DEFAULT 'precision' NOT NULL;
