@@ -3,17 +3,15 @@ import type { Route } from "./+types/root";
 import { AppHeader } from "~/components/app-header";
 import { getUser } from "~/server/guards.server";
 import { isForeignOrigin } from "~/server/origin-check.server";
-import { withSecurityHeaders } from "~/server/security-headers.server";
 import { mailboxEnabled } from "~/models/mailbox.server";
 import { takeToast } from "~/server/toast.server";
 import { Notice } from "~/components/ui";
 import "./app.css";
 
+// The security headers are set by the express layer (server/app.ts), on every answer.
 const guardRequests: Route.MiddlewareFunction = async ({ request }, next) => {
-  if (isForeignOrigin(request)) {
-    return withSecurityHeaders(new Response("Cross-site request refused", { status: 403 }));
-  }
-  return withSecurityHeaders((await next()) as Response);
+  if (isForeignOrigin(request)) return new Response("Cross-site request refused", { status: 403 });
+  return next();
 };
 
 export const middleware: Route.MiddlewareFunction[] = [guardRequests];

@@ -70,7 +70,7 @@ export async function revokeApiToken(userId: number, tokenId: number) {
 const LAST_USE_RESOLUTION_MS = 60_000;
 
 /** Until when a use of the token needs no new last-use record (epoch ms). */
-export const lastUseRecordedUntil = (token: ApiToken) => (token.lastUsedAt?.getTime() ?? 0) + LAST_USE_RESOLUTION_MS;
+const lastUseRecordedUntil = (token: ApiToken) => (token.lastUsedAt?.getTime() ?? 0) + LAST_USE_RESOLUTION_MS;
 
 /** The live token behind a bearer string, recording its use (at most once a minute, to spare writes). */
 export async function activeApiToken(token: string) {
