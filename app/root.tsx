@@ -21,6 +21,14 @@ export async function loader({ request }: Route.LoaderArgs) {
   return data({ user: user && { name: user.name, role: user.role }, mailbox: mailboxEnabled(), toast }, { headers });
 }
 
+// The browser's icons and manifest, from public/ (drawn by scripts/make-icons.ts from the mark).
+export const links: Route.LinksFunction = () => [
+  { rel: "icon", href: "/favicon.svg", type: "image/svg+xml" },
+  { rel: "icon", href: "/favicon.png", type: "image/png", sizes: "32x32" },
+  { rel: "apple-touch-icon", href: "/apple-touch-icon.png" },
+  { rel: "manifest", href: "/site.webmanifest" },
+];
+
 export const meta: Route.MetaFunction = () => [{ title: "Ringbatch" }];
 
 export function Layout({ children }: { children: React.ReactNode }) {
