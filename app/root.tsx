@@ -1,3 +1,4 @@
+import "~/lib/zod-without-eval";
 import { data, isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
 import { AppHeader } from "~/components/app-header";
