@@ -119,6 +119,7 @@ describe("the Content-Security-Policy", () => {
       const scriptSrc = scriptSources(response.headers.get("Content-Security-Policy")!);
       expect(scriptSrc).not.toContain("'unsafe-inline'");
       expect(scriptSrc).not.toContain("'unsafe-eval'");
+      expect(response.headers.get("Content-Security-Policy")).not.toContain("'unsafe-inline'");
       const nonce = /'nonce-([A-Za-z0-9+/=]+)'/.exec(scriptSrc)![1]!;
       // At least 128 bits (CSP Level 3, §7.1: "at least 128 bits long"), base64: 24 characters.
       expect(Buffer.from(nonce, "base64").length).toBeGreaterThanOrEqual(16);
