@@ -96,7 +96,7 @@ describe("signing in, in the browser", () => {
     await page.waitForURL(`${running.server.url}/studies`);
     // The analysis page draws its charts with echarts.
     await page.goto(`${running.server.url}/studies/1/analysis`);
-    await expect.poll(() => page.locator("figure svg path").count()).toBeGreaterThan(0);
+    await expect.poll(() => page.locator("figure svg path").count(), { timeout: 20_000 }).toBeGreaterThan(0);
     // A tab followed without a new document load: the page's scripts ran and React took it over.
     const loadsBefore = documents.length;
     await page.getByRole("link", { name: "Results", exact: true }).first().click();
