@@ -100,6 +100,9 @@ export function callerView(caller: ApiCaller & { access?: StudyAccess }) {
   return [caller.access ?? caller.user.role, caller.token ? [caller.token.scope, caller.token.studyId, caller.token.enrollmentId] : "session"];
 }
 
+/** Private: answers differ per caller; no-cache: a stored answer is used only after the server confirms it. */
+const READ_CACHE_CONTROL = "private, no-cache";
+
 // Ties entity tags to this process's code: after a deployment the same data may be presented differently.
 const DEPLOYMENT_SALT = randomBytes(9).toString("base64url");
 
@@ -140,9 +143,6 @@ export async function conditionalRead(
   if (ifNoneMatchHits(ifNoneMatch, etag)) return notModified(etag);
   return new Response(body, { headers: { ...headers, "Content-Type": contentType, ETag: etag, "Cache-Control": READ_CACHE_CONTROL } });
 }
-
-/** Private: answers differ per caller; no-cache: a stored answer is used only after the server confirms it. */
-const READ_CACHE_CONTROL = "private, no-cache";
 
 export const JSON_TYPE = "application/json; charset=utf-8";
 
