@@ -5,6 +5,7 @@
  * the same server module (server/app.ts) through it, so headers, limits and
  * the request path are the same in development as in production.
  */
+import { readdirSync } from "node:fs";
 import { createServer } from "node:http";
 import { resolve } from "node:path";
 import { pathToFileURL } from "node:url";
@@ -15,7 +16,9 @@ const production = process.env.NODE_ENV === "production";
 const port = Number(process.env.PORT ?? (production ? 3000 : 5173));
 const app = express();
 app.disable("x-powered-by");
-app.use(morgan("tiny"));
+// A line per request costs a write to stdout on every answer; in production a proxy in front usually
+// keeps the access log, so the app writes one only when REQUEST_LOG is set.
+if (!production || process.env.REQUEST_LOG) app.use(morgan("tiny"));
 
 let vite;
 if (production) {
@@ -23,7 +26,11 @@ if (production) {
   const { frontDoor, requestHandler } = await import(pathToFileURL(`${buildDirectory}/server/index.js`).href);
   app.use(frontDoor);
   app.use("/assets", express.static(`${buildDirectory}/client/assets`, { immutable: true, maxAge: "1y" }));
-  app.use(express.static(`${buildDirectory}/client`, { maxAge: "1h" }));
+  // The public files (icons, manifest) are known when the server starts; asking the file system about
+  // every other path, as express.static would, costs a stat per page and API request.
+  const publicFiles = new Set(readdirSync(`${buildDirectory}/client`).map((name) => `/${name}`));
+  const servePublic = express.static(`${buildDirectory}/client`, { maxAge: "1h" });
+  app.use((request, response, next) => (publicFiles.has(request.path) ? servePublic(request, response, next) : next()));
   app.use(requestHandler);
 } else {
   vite = await (await import("vite")).createServer({ server: { middlewareMode: true } });

@@ -7,6 +7,7 @@
  * client's address, compression, and the security headers with this
  * answer's script nonce. `requestHandler` is React Router.
  */
+import { constants as zlibConstants } from "node:zlib";
 import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express from "express";
@@ -21,6 +22,19 @@ function trustedProxies(value = process.env.TRUST_PROXY) {
   return /^\d+$/.test(value) ? Number(value) : value;
 }
 
+/**
+ * Compression pays on pages, route data and large answers, not on a health
+ * check or a small API answer. An answer with a Content-Length is left to the
+ * threshold (1 kB); one streamed without it (how React Router sends every
+ * answer) is compressed only when it is a document or route data, which are
+ * seldom small. Without this, every streamed answer went through zlib.
+ */
+function worthCompressing(request: express.Request, response: express.Response) {
+  if (!compression.filter(request, response)) return false;
+  if (response.hasHeader("Content-Length")) return true;
+  return /^text\/(html|x-script)/.test(String(response.getHeader("Content-Type") ?? ""));
+}
+
 export const frontDoor = express();
 frontDoor.disable("x-powered-by");
 frontDoor.set("trust proxy", trustedProxies());
@@ -29,7 +43,9 @@ frontDoor.use((request, _response, next) => {
   request.headers["x-forwarded-for"] = request.ip;
   next();
 });
-frontDoor.use(compression());
+// The fastest level: pages stream in many small chunks, each flushed through zlib as it comes, where a
+// higher level costs far more time than it saves bytes.
+frontDoor.use(compression({ filter: worthCompressing, level: zlibConstants.Z_BEST_SPEED }));
 // Every answer carries the security headers: pages, the API, static and public files, and React Router's
 // own refusals alike. An answer that sets one of them itself keeps its own.
 frontDoor.use((_request, response, next) => {

@@ -141,7 +141,8 @@ export async function conditionalRead(
   const { body, contentType, headers } = await produce();
   etag ??= tagOf([contentType, headers ?? null, digest(body)]);
   if (ifNoneMatchHits(ifNoneMatch, etag)) return notModified(etag);
-  return new Response(body, { headers: { ...headers, "Content-Type": contentType, ETag: etag, "Cache-Control": READ_CACHE_CONTROL } });
+  // The length lets the server leave small answers uncompressed and compress large ones.
+  return new Response(body, { headers: { ...headers, "Content-Type": contentType, "Content-Length": String(Buffer.byteLength(body)), ETag: etag, "Cache-Control": READ_CACHE_CONTROL } });
 }
 
 export const JSON_TYPE = "application/json; charset=utf-8";

@@ -13,10 +13,20 @@ export function notFound(): never {
   throw data("Not found", { status: 404 });
 }
 
-export async function getUser(request: Request): Promise<SessionUser | null> {
-  const session = await sessionStorage.getSession(request.headers.get("Cookie"));
-  const userId = session.get("userId");
-  return userId ? loadSessionUser(userId) : null;
+// The root loader and the page's own loader both ask for the user of one request; read the session once.
+// (After an action, React Router runs the loaders with a new Request, so a change the action made is seen.)
+const userOfRequest = new WeakMap<Request, Promise<SessionUser | null>>();
+
+export function getUser(request: Request): Promise<SessionUser | null> {
+  let user = userOfRequest.get(request);
+  if (!user) {
+    user = sessionStorage.getSession(request.headers.get("Cookie")).then((session) => {
+      const userId = session.get("userId");
+      return userId ? loadSessionUser(userId) : null;
+    });
+    userOfRequest.set(request, user);
+  }
+  return user;
 }
 
 export async function requireUser(request: Request): Promise<SessionUser> {
