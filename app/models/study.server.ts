@@ -1,4 +1,4 @@
-import { and, asc, count, eq, inArray, or } from "drizzle-orm";
+import { and, asc, count, desc, eq, inArray, or } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import {
   cells,
@@ -13,16 +13,27 @@ import {
 } from "~/db/schema";
 import { CELL_STATUS_ORDER, type CellStatus, cellStatusOf } from "~/lib/cell-status";
 import type { SessionUser } from "~/models/user.server";
+import { readPage } from "~/lib/paging";
 
+
+function coordinatedBy(user: SessionUser) {
+  const coordinated = db.select({ id: studyCoordinators.studyId }).from(studyCoordinators).where(eq(studyCoordinators.userId, user.id));
+  return user.role === "admin" ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated));
+}
 
 /** Studies the user coordinates (every study for an admin). */
 export async function listCoordinatedStudies(user: SessionUser) {
-  const coordinated = db.select({ id: studyCoordinators.studyId }).from(studyCoordinators).where(eq(studyCoordinators.userId, user.id));
-  return db
-    .select()
-    .from(studies)
-    .where(user.role === "admin" ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated)))
-    .orderBy(asc(studies.code));
+  return db.select().from(studies).where(coordinatedBy(user)).orderBy(asc(studies.code));
+}
+
+/** One page of the studies the user coordinates, newest first. */
+export async function coordinatedStudiesPage(user: SessionUser, page: number) {
+  const where = coordinatedBy(user);
+  return readPage(
+    page,
+    async () => (await db.select({ total: count() }).from(studies).where(where))[0]!.total,
+    (limit, offset) => db.select().from(studies).where(where).orderBy(desc(studies.createdAt), desc(studies.id)).limit(limit).offset(offset),
+  );
 }
 
 export async function listReviewedStudies(userId: number) {
@@ -34,26 +45,47 @@ export async function listReviewedStudies(userId: number) {
     .orderBy(asc(studies.code));
 }
 
+const labEnrollmentColumns = {
+  enrollmentId: enrollments.id,
+  enrollmentState: enrollments.state,
+  labCode: enrollments.labCode,
+  labName: labs.name,
+  studyId: studies.id,
+  studyCode: studies.code,
+  studyTitle: studies.title,
+  studyState: studies.state,
+  resultsDue: studies.resultsDue,
+};
+
 /** The enrollments of the user's labs, with the study each belongs to. Only their own lab. */
 export async function listLabEnrollments(labIds: number[]) {
   if (labIds.length === 0) return [];
   return db
-    .select({
-      enrollmentId: enrollments.id,
-      enrollmentState: enrollments.state,
-      labCode: enrollments.labCode,
-      labName: labs.name,
-      studyId: studies.id,
-      studyCode: studies.code,
-      studyTitle: studies.title,
-      studyState: studies.state,
-      resultsDue: studies.resultsDue,
-    })
+    .select(labEnrollmentColumns)
     .from(enrollments)
     .innerJoin(studies, eq(studies.id, enrollments.studyId))
     .innerJoin(labs, eq(labs.id, enrollments.labId))
     .where(inArray(enrollments.labId, labIds))
     .orderBy(asc(studies.code));
+}
+
+/** One page of the user's labs' enrollments, newest study first. */
+export async function labEnrollmentsPage(labIds: number[], page: number) {
+  const where = inArray(enrollments.labId, labIds);
+  return readPage(
+    page,
+    async () => (labIds.length ? (await db.select({ total: count() }).from(enrollments).where(where))[0]!.total : 0),
+    (limit, offset) =>
+      db
+        .select(labEnrollmentColumns)
+        .from(enrollments)
+        .innerJoin(studies, eq(studies.id, enrollments.studyId))
+        .innerJoin(labs, eq(labs.id, enrollments.labId))
+        .where(where)
+        .orderBy(desc(studies.createdAt), desc(studies.id), asc(labs.name))
+        .limit(limit)
+        .offset(offset),
+  );
 }
 
 /** Submitted cell counts of the given enrollments (one query), for their own lab's to-do list. */

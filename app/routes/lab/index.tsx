@@ -2,16 +2,18 @@ import { Link } from "react-router";
 import type { Route } from "./+types/index";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireRole } from "~/server/guards.server";
-import { listLabEnrollments, submittedCellCounts } from "~/models/study.server";
+import { labEnrollmentsPage, submittedCellCounts } from "~/models/study.server";
+import { requestedPage } from "~/lib/paging";
+import { Pager } from "~/components/pager";
 import { STATE_LABEL } from "~/lib/state-labels";
 
 export const meta: Route.MetaFunction = () => [{ title: "My lab · Ringbatch" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, "analyst");
-  const enrollmentRows = await listLabEnrollments(user.labIds);
-  const submitted = await submittedCellCounts(enrollmentRows.map((e) => e.enrollmentId));
-  return { enrollments: enrollmentRows.map((e) => ({ ...e, submittedCells: submitted.get(e.enrollmentId) ?? 0 })) };
+  const { rows, ...page } = await labEnrollmentsPage(user.labIds, requestedPage(new URL(request.url).searchParams));
+  const submitted = await submittedCellCounts(rows.map((e) => e.enrollmentId));
+  return { enrollments: rows.map((e) => ({ ...e, submittedCells: submitted.get(e.enrollmentId) ?? 0 })), page };
 }
 
 export default function LabHome({ loaderData }: Route.ComponentProps) {
@@ -51,6 +53,7 @@ export default function LabHome({ loaderData }: Route.ComponentProps) {
             ])}
           />
         )}
+        <Pager page={loaderData.page.page} pageCount={loaderData.page.pageCount} label="Your lab's study pages" />
       </Card>
     </>
   );

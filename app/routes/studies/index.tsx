@@ -2,14 +2,17 @@ import { Link } from "react-router";
 import type { Route } from "./+types/index";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireRole } from "~/server/guards.server";
-import { listCoordinatedStudies } from "~/models/study.server";
+import { coordinatedStudiesPage } from "~/models/study.server";
+import { requestedPage } from "~/lib/paging";
+import { Pager } from "~/components/pager";
 import { STATE_LABEL } from "~/lib/state-labels";
 
 export const meta: Route.MetaFunction = () => [{ title: "Studies · Ringbatch" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, "coordinator", "admin");
-  return { studies: await listCoordinatedStudies(user), everyStudy: user.role === "admin" };
+  const { rows, ...page } = await coordinatedStudiesPage(user, requestedPage(new URL(request.url).searchParams));
+  return { studies: rows, page, everyStudy: user.role === "admin" };
 }
 
 export default function Studies({ loaderData }: Route.ComponentProps) {
@@ -37,6 +40,7 @@ export default function Studies({ loaderData }: Route.ComponentProps) {
             ])}
           />
         )}
+        <Pager page={loaderData.page.page} pageCount={loaderData.page.pageCount} label="Study list pages" />
       </Card>
     </>
   );

@@ -1,10 +1,14 @@
-import { and, asc, eq, inArray, or } from "drizzle-orm";
+import { and, asc, count, eq, inArray, or } from "drizzle-orm";
 import type { Route } from "./+types/studies";
 import { db } from "~/db/client.server";
 import { enrollments, studies, studyCoordinators, studyReviewers } from "~/db/schema";
+import { readPage, requestedPage } from "~/lib/paging";
 import { apiHandler, callerView, conditionalRead, JSON_TYPE, requireApiCaller } from "~/server/api.server";
 
-/** GET /api/v1/studies — the studies the caller may see (a token: the one study it was made for). */
+/** Studies per page of the API's list: `?page=2` asks for the next; the answer says how many pages there are. */
+const API_PAGE_SIZE = 100;
+
+/** GET /api/v1/studies — the studies the caller may see (a token: the one study it was made for), by code, a page at a time. */
 export async function loader({ request }: Route.LoaderArgs) {
   return apiHandler(async () => {
     const caller = await requireApiCaller(request);
@@ -21,12 +25,14 @@ export async function loader({ request }: Route.LoaderArgs) {
           );
     // The list has no version of its own: its tag is a digest of what it lists.
     return conditionalRead(request, callerView(caller), null, async () => {
-      const rows = await db
-        .select(columns)
-        .from(studies)
-        .where(and(visible, token ? eq(studies.id, token.studyId ?? -1) : undefined))
-        .orderBy(asc(studies.code));
-      return { body: JSON.stringify({ studies: rows }), contentType: JSON_TYPE };
+      const where = and(visible, token ? eq(studies.id, token.studyId ?? -1) : undefined);
+      const { rows, ...page } = await readPage(
+        requestedPage(new URL(request.url).searchParams),
+        async () => (await db.select({ total: count() }).from(studies).where(where))[0]!.total,
+        (limit, offset) => db.select(columns).from(studies).where(where).orderBy(asc(studies.code)).limit(limit).offset(offset),
+        API_PAGE_SIZE,
+      );
+      return { body: JSON.stringify({ studies: rows, page }), contentType: JSON_TYPE };
     });
   });
 }
