@@ -13,6 +13,7 @@ import compression from "compression";
 import express from "express";
 import onHeaders from "on-headers";
 import { RouterContextProvider } from "react-router";
+import * as build from "virtual:react-router/server-build";
 import { applySecurityHeaders, cspNonceContext, newCspNonce } from "~/server/security-headers.server";
 
 /** Express's "trust proxy" from TRUST_PROXY: unset trusts no proxy, a number counts hops, anything else names addresses or subnets. */
@@ -55,8 +56,11 @@ frontDoor.use((_request, response, next) => {
   next();
 });
 
+// The build itself, not a function returning it: React Router derives its route tree and request handler
+// again on every request from a build function. Development still sees edits, since Vite loads this
+// module afresh after a route changes (server.js asks for it per request).
 export const requestHandler = createRequestHandler({
-  build: () => import("virtual:react-router/server-build"),
+  build,
   getLoadContext(_request, response) {
     const context = new RouterContextProvider();
     context.set(cspNonceContext, response.locals.cspNonce);
