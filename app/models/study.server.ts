@@ -177,7 +177,6 @@ export async function studyProgress(study: Pick<typeof studies.$inferSelect, "id
     materials: matrix.materials.map((m) => ({ id: m.id, code: m.code })),
     labs: matrix.rows.map((r) => ({ enrollmentId: r.id, labCode: r.labCode, labName: r.labName, statuses: r.statuses, submitted: r.submitted })),
     counts: statusCountsByMaterial(matrix),
-    generatedAt: new Date().toISOString(),
   };
 }
 
