@@ -1,24 +1,10 @@
 import AxeBuilder from "@axe-core/playwright";
-import { type Browser, chromium, type Page } from "playwright-core";
+import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, expect } from "vitest";
+import { launchBrowser } from "./chromium";
 import { type RunningServer, startServer } from "./server";
 
-/** Debian's Chromium, headless, with background networking off (this network is closed). */
-export function launchBrowser(): Promise<Browser> {
-  return chromium.launch({
-    executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
-    headless: true,
-    args: [
-      "--no-sandbox",
-      "--disable-gpu",
-      "--disable-background-networking",
-      "--disable-component-update",
-      "--disable-sync",
-      "--no-first-run",
-      "--disable-quic",
-    ],
-  });
-}
+export { launchBrowser };
 
 export async function signInAs(page: Page, baseUrl: string, email: string, password: string) {
   await page.goto(`${baseUrl}/login`);
