@@ -1,11 +1,11 @@
-import jStat from "jstat";
 import { describe, expect, it } from "vitest";
+import { standardNormalQuantile } from "~/lib/normal-distribution";
 import { seededUniform } from "~/lib/precision/seeded-uniform";
 import { betweenLabCriticalDifference, withinLabCriticalDifference } from "./critical-difference";
 
 function normalSampler(seed: number) {
   const uniform = seededUniform(seed);
-  return (sd: number) => jStat.normal.inv(Math.min(Math.max(uniform(), 1e-12), 1 - 1e-12), 0, sd);
+  return (sd: number) => sd * standardNormalQuantile(Math.min(Math.max(uniform(), 1e-12), 1 - 1e-12));
 }
 const average = (values: number[]) => values.reduce((a, b) => a + b, 0) / values.length;
 

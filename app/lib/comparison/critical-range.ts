@@ -1,4 +1,4 @@
-import jStat from "jstat";
+import { standardNormalCdf, standardNormalDensity } from "~/lib/normal-distribution";
 
 /** P(range of n standard normal values ≤ w) = n ∫ φ(z) [Φ(z + w) − Φ(z)]^(n−1) dz, by Simpson's rule on [−8, 8]. */
 function normalRangeProbability(w: number, n: number): number {
@@ -9,7 +9,7 @@ function normalRangeProbability(w: number, n: number): number {
   for (let i = 0; i <= steps; i++) {
     const z = from + i * width;
     const weight = i === 0 || i === steps ? 1 : i % 2 === 1 ? 4 : 2;
-    sum += weight * jStat.normal.pdf(z, 0, 1) * (jStat.normal.cdf(z + w, 0, 1) - jStat.normal.cdf(z, 0, 1)) ** (n - 1);
+    sum += weight * standardNormalDensity(z) * (standardNormalCdf(z + w) - standardNormalCdf(z)) ** (n - 1);
   }
   return (n * sum * width) / 3;
 }

@@ -1,4 +1,4 @@
-import jStat from "jstat";
+import { standardNormalQuantile } from "~/lib/normal-distribution";
 
 export interface HalfNormalPoint {
   label: string;
@@ -20,5 +20,5 @@ export function halfNormalPoints(effects: readonly { label: string; effect: numb
   return [...effects]
     .map((e) => ({ ...e, absoluteEffect: Math.abs(e.effect) }))
     .sort((a, b) => a.absoluteEffect - b.absoluteEffect)
-    .map((e, i) => ({ ...e, quantile: jStat.normal.inv(0.5 + (0.5 * (i + 0.5)) / m, 0, 1) }));
+    .map((e, i) => ({ ...e, quantile: standardNormalQuantile(0.5 + (0.5 * (i + 0.5)) / m) }));
 }
