@@ -62,7 +62,7 @@ export default [
   ...prefix("ruggedness", [
     index("routes/ruggedness/index.tsx"),
     route("new", "routes/ruggedness/new.tsx"),
-    route(":studyId", "routes/ruggedness/study/layout.tsx", [
+    route(":ruggednessStudyId", "routes/ruggedness/study/layout.tsx", [
       index("routes/ruggedness/study/factors.tsx"),
       route("design", "routes/ruggedness/study/design.tsx"),
       route("results", "routes/ruggedness/study/results.tsx"),

@@ -138,7 +138,7 @@ async function seedPublishedStudy(db: Database) {
 }
 
 async function seedComparison(db: Database, studyId: number) {
-  const userId = await idOf(db, DEMO_PEOPLE.analysts[1]!.email);
+  const userId = await idOf(db, DEMO_PEOPLE.analysts[0]!.email);
   if (await db.query.comparisons.findFirst({ where: eq(comparisons.userId, userId) })) return;
   const statement = (await db.query.precisionStatements.findFirst({ where: eq(precisionStatements.studyId, studyId) }))!;
   const snapshot = statement.snapshot as StatementSnapshot;

@@ -116,12 +116,13 @@ export async function ruggednessResultsByResponse(studyId: number, runs: number)
   return { byResponse, rows };
 }
 
-export type ResultEntry = { run: number; replicate: number; responseKey: string; value: number | undefined };
+export type ResultEntry = { run: number; replicate: number; responseKey: string; value: number };
 
-/** Writes the results form in one transaction: a value is stored or changed, a cleared field removes its result. */
+/** Stores or changes the given results in one transaction; results not given stay as they are. A refusal with no field (key "") belongs to the whole form. */
 export async function saveRuggednessResults(study: Study, actorUserId: number, entries: ResultEntry[]) {
   const setup = await ruggednessSetup(study.id);
-  if (!setup.plan) throw new FieldRefusal("form", "Lay out the design before entering results.");
+  if (!setup.plan) throw new FieldRefusal("", "Lay out the design before entering results.");
+  if (entries.length === 0) throw new FieldRefusal("", "Enter at least one result.");
   const responseIds = new Map(setup.responses.map((r) => [r.key, r.id]));
   const now = new Date();
   let stored = 0;
@@ -129,11 +130,6 @@ export async function saveRuggednessResults(study: Study, actorUserId: number, e
     for (const entry of entries) {
       const responseId = responseIds.get(entry.responseKey);
       if (!responseId || entry.run < 1 || entry.run > setup.plan!.runs || entry.replicate > setup.plan!.replicates) continue;
-      const where = and(eq(ruggednessResults.studyId, study.id), eq(ruggednessResults.run, entry.run), eq(ruggednessResults.responseId, responseId), eq(ruggednessResults.replicate, entry.replicate));
-      if (entry.value === undefined) {
-        await tx.delete(ruggednessResults).where(where);
-        continue;
-      }
       stored++;
       await tx
         .insert(ruggednessResults)

@@ -1,10 +1,9 @@
 import type { Route } from "./+types/layout";
 import { StudyFrame, type StudyTab } from "~/components/study-frame";
-import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
-import { studyAccessMiddleware } from "~/server/study-context.server";
+import { requireRuggednessStudy, ruggednessAccessMiddleware } from "~/server/ruggedness-context.server";
 
 // A ruggedness study is its coordinator's own work in one lab; admins read it.
-export const middleware: Route.MiddlewareFunction[] = [studyAccessMiddleware(["coordinator", "admin"])];
+export const middleware: Route.MiddlewareFunction[] = [ruggednessAccessMiddleware(["coordinator", "admin"])];
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireRuggednessStudy(context, ["coordinator", "admin"]);

@@ -37,7 +37,10 @@ export async function action({ request, context }: Route.ActionArgs) {
   const entries: ResultEntry[] = [];
   for (let run = 1; run <= runs; run++)
     for (let replicate = 1; replicate <= replicates; replicate++)
-      for (const r of setup.responses) entries.push({ run, replicate, responseKey: r.key, value: submission.value[resultFieldName(run, replicate, r.key)] });
+      for (const r of setup.responses) {
+        const value = submission.value[resultFieldName(run, replicate, r.key)];
+        if (value !== undefined) entries.push({ run, replicate, responseKey: r.key, value });
+      }
   const saved = await withRefusals(submission, () => saveRuggednessResults(study, user.id, entries));
   if (!saved.ok) return saved.reply;
   return redirectWithToast(`/ruggedness/${study.id}/results`, `Results saved (${saved.value} in all).`);
@@ -79,7 +82,7 @@ function ResultsForm({
       <ConcreteCaution heavy />
       {!canEdit && <Notice tone="info">Admins read this page; the study's coordinator enters the results.</Notice>}
       <Card title="Results by run, in the order performed">
-        <p className="mb-3 text-basalt-700">Leave a box empty until the run is done; emptying a box removes its result.</p>
+        <p className="mb-3 text-basalt-700">Leave a box empty until the run is done; a box left empty changes nothing already saved.</p>
         <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
           <FormErrors errors={form.errors} />
           <fieldset disabled={!canEdit} className="flex flex-col gap-3">
