@@ -172,7 +172,7 @@ async function seedRuggednessStudy(db: Database) {
   if (await db.query.studies.findFirst({ where: eq(studies.code, RUGGEDNESS_STUDY_CODE) })) return;
   const coordinatorId = await idOf(db, DEMO_PEOPLE.coordinator.email);
   const design = plackettBurmanDesign(8);
-  const noise = generator(1169);
+  const noise = generator(1170);
   // Later floating stiffens the surface: +1.5 passes per half-range on the holes, +2 on the surface; the rest is scatter.
   const passes = (row: readonly number[], base: number, effect: number) => Math.max(1, Math.round(base + effect * row[1]! + (noise() - 0.5) * 1.6));
   await db.transaction(async (tx) => {
