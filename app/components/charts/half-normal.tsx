@@ -16,10 +16,12 @@ export function halfNormalOption(points: readonly HalfNormalPoint[], significant
       {
         type: "scatter",
         symbolSize: 12,
-        data: points.map((p) => ({
+        data: points.map((p, i) => ({
           value: [p.quantile, p.absoluteEffect],
           name: p.label,
           itemStyle: { color: significant.has(p.label) ? CHART_COLOURS.flagged : CHART_COLOURS.bar },
+          // the largest effects sit at the right edge: their names go to the left of the point
+          label: { position: i >= points.length / 2 ? "left" : "right" },
         })),
         label: { show: true, position: "right", formatter: "{b}", color: CHART_COLOURS.ink, fontSize: 11 },
       },

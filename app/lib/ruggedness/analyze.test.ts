@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { seededUniform } from "~/lib/precision/seeded-uniform";
 import { analyzeRuggedness, type RuggednessFactor } from "./analyze";
+import { settingText } from "./conclusions";
 import { plackettBurmanDesign } from "./designs";
 
 const FACTORS: RuggednessFactor[] = [
@@ -28,7 +29,7 @@ describe("analyzeRuggedness", () => {
     expect(analysis.columns.filter((c) => c.test?.significant).map((c) => c.column)).toEqual([2]);
     expect(analysis.columns[1]!.effect).toBeCloseTo(3, 0);
     expect(analysis.columns[1]!.conclusion).toMatch(/^Time to start floating matters: going from 10 min to 20 min/);
-    expect(analysis.columns[0]!.conclusion).toMatch(/^Hold float angle within the tested range \(5 ° to 10 °\)/);
+    expect(analysis.columns[0]!.conclusion).toMatch(/^Hold float angle within the tested range \(5° to 10°\)/);
     expect(analysis.halfNormal.at(-1)!.label).toBe("Time to start floating");
   });
 
@@ -52,5 +53,13 @@ describe("analyzeRuggedness", () => {
     results[2] = [];
     results[6] = [];
     expect(analyzeRuggedness(8, FACTORS, results, RESPONSE)).toEqual({ status: "incomplete", missingRuns: [3, 7] });
+  });
+});
+
+describe("settingText", () => {
+  it("writes degrees and percent against the number, other units after a space", () => {
+    expect(settingText("10", "°")).toBe("10°");
+    expect(settingText("20", "min")).toBe("20 min");
+    expect(settingText("Operator A", "")).toBe("Operator A");
   });
 });

@@ -8,7 +8,11 @@ export interface FactorSettings {
 }
 
 const signed = (x: number) => `${x > 0 ? "+" : x < 0 ? "−" : ""}${Math.abs(x).toFixed(2)}`;
-const setting = (value: string, unit: string) => (unit ? `${value} ${unit}` : value);
+/** A setting with its unit, as the trade writes it: "20 min", "10°", "Operator A". */
+export function settingText(value: string, unit: string): string {
+  if (!unit) return value;
+  return /^[°%′″]/.test(unit) ? `${value}${unit}` : `${value} ${unit}`;
+}
 
 /**
  * The plain conclusion for one factor (ASTM E1169, interpretation of results):
@@ -17,8 +21,8 @@ const setting = (value: string, unit: string) => (unit ? `${value} ${unit}` : va
  * without a test (single results, no dummy column) the half-normal plot decides.
  */
 export function factorConclusion(factor: FactorSettings, effect: number, test: EffectTest | null, response: { name: string; unit: string }): string {
-  const range = `${setting(factor.low, factor.unit)} to ${setting(factor.high, factor.unit)}`;
-  const change = `going from ${setting(factor.low, factor.unit)} to ${setting(factor.high, factor.unit)} changed ${response.name.toLowerCase()} by ${signed(effect)} ${response.unit}`;
+  const range = `${settingText(factor.low, factor.unit)} to ${settingText(factor.high, factor.unit)}`;
+  const change = `going from ${settingText(factor.low, factor.unit)} to ${settingText(factor.high, factor.unit)} changed ${response.name.toLowerCase()} by ${signed(effect)} ${response.unit}`;
   if (!test) {
     return `${factor.name}: ${change}. With single results and no dummy column this effect cannot be tested; judge it on the half-normal plot.`;
   }

@@ -4,5 +4,5 @@ export { randomRunOrder } from "./run-order";
 export { runAverages, columnEffects } from "./effects";
 export { replicateScatter, dummyColumnScatter, testEffect, type EffectScatter, type EffectTest } from "./significance";
 export { halfNormalPoints, type HalfNormalPoint } from "./half-normal";
-export { factorConclusion, type FactorSettings } from "./conclusions";
+export { factorConclusion, settingText, type FactorSettings } from "./conclusions";
 export { analyzeRuggedness, type RuggednessAnalysis, type RuggednessFactor, type ColumnResult } from "./analyze";

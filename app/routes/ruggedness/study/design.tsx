@@ -3,7 +3,7 @@ import type { Route } from "./+types/design";
 import { ConcreteCaution } from "~/components/cautions";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Card, SimpleTable } from "~/components/ui";
-import { plackettBurmanDesign } from "~/lib/ruggedness";
+import { plackettBurmanDesign, settingText } from "~/lib/ruggedness";
 import { ruggednessSetup } from "~/models/ruggedness.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
 
@@ -32,7 +32,7 @@ export default function DesignPage({ loaderData }: Route.ComponentProps) {
   const settingOf = (column: number, level: number) => {
     const f = factors.find((x) => x.column === column);
     if (!f) return level > 0 ? "+" : "−";
-    return `${level > 0 ? f.high : f.low}${f.unit ? ` ${f.unit}` : ""}`;
+    return settingText(level > 0 ? f.high : f.low, f.unit);
   };
   const columns = design[0]!.length;
   return (
