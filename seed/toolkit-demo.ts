@@ -142,8 +142,8 @@ async function seedComparison(db: Database, studyId: number) {
   if (await db.query.comparisons.findFirst({ where: eq(comparisons.userId, userId) })) return;
   const statement = (await db.query.precisionStatements.findFirst({ where: eq(precisionStatements.studyId, studyId) }))!;
   const snapshot = statement.snapshot as StatementSnapshot;
-  const reference = { label: "Plant mix 4000 (current sand)", values: [13, 14, 13] };
-  const trial = { label: "Plant mix 4000 with blended sand", values: [17, 18, 18] };
+  const reference = { label: "Plant mix 4000 (current sand)", values: [12, 13, 12] };
+  const trial = { label: "Plant mix 4000 with blended sand", values: [15, 16, 16] };
   const comparison = compareMixtures(snapshot.analysis, "surface", "same-lab", reference, trial)!;
   await db.insert(comparisons).values({
     userId,

@@ -69,3 +69,15 @@ describe("mixture comparison", () => {
     expect((await call(sheet.loader, get(`/compare/${id}`, await demoCookie("analyst1@ringbatch.example")), { comparisonId: String(id) })).status).toBe(404);
   });
 });
+
+describe("a kept comparison", () => {
+  it("cannot be changed in the database, whoever writes", async () => {
+    const [kept] = await db.select().from(comparisons).limit(1);
+    const refusal = await db.update(comparisons).set({ trialLabel: "changed" }).where(eq(comparisons.id, kept!.id)).then(
+      () => null,
+      (error: Error) => `${error.message} ${(error.cause as Error | undefined)?.message ?? ""}`,
+    );
+    expect(refusal).toContain("comparisons are kept as made");
+    expect((await db.query.comparisons.findFirst({ where: eq(comparisons.id, kept!.id) }))!.trialLabel).toBe(kept!.trialLabel);
+  });
+});
