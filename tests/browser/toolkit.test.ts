@@ -1,5 +1,6 @@
 import { createHash } from "node:crypto";
 import { describe, expect, it } from "vitest";
+import { plackettBurmanDesign } from "~/lib/ruggedness";
 import { DEMO_PASSWORD } from "../../seed/demo-data";
 import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
 
@@ -79,6 +80,54 @@ describe("ruggedness study, in the browser", () => {
 
     await page.getByRole("link", { name: "Conclusions" }).click();
     await expect.poll(() => page.getByTestId("ruggedness-summary").textContent()).toMatch(/^Time after placement when floating starts matters/);
+    await expectAccessible(page);
+    await context.close();
+  });
+});
+
+describe("a new ruggedness study, in the browser", () => {
+  it("goes from factors to a laid-out design, refuses a bad result beside its box, takes the results and concludes", async () => {
+    const context = await running.browser.newContext();
+    const page = await context.newPage();
+    await signInAs(page, running.server.url, "coordinator@ringbatch.example", DEMO_PASSWORD);
+    await page.waitForURL(`${running.server.url}/studies`);
+    await page.goto(`${running.server.url}/ruggedness/new`);
+    await page.getByLabel("Code").fill("RG-2027-9");
+    await page.getByLabel("Title").fill("Screening of the float test before round 3");
+    await page.getByRole("button", { name: "Create the study" }).click();
+    await page.waitForURL(/\/ruggedness\/\d+$/);
+    await page.getByLabel("Results per run").selectOption("1");
+    const factors = [
+      ["Float angle", "°", "5", "10"],
+      ["Hole depth", "mm", "45", "55"],
+      ["Operator", "", "A", "B"],
+    ];
+    for (const [i, [name, unit, low, high]] of factors.entries()) {
+      await page.getByLabel(`Factor ${i + 1} name`).fill(name!);
+      await page.getByLabel(`Factor ${i + 1} unit`).fill(unit!);
+      await page.getByLabel(`Factor ${i + 1} low`).fill(low!);
+      await page.getByLabel(`Factor ${i + 1} high`).fill(high!);
+    }
+    await page.getByRole("button", { name: "Save and lay out the design" }).click();
+    await page.waitForURL(/\/design$/);
+    await expect.poll(() => page.getByText("Plackett–Burman design of 8 runs for 3 factors, with 4 dummy columns").isVisible()).toBe(true);
+
+    await page.getByRole("link", { name: "Results", exact: true }).click();
+    await page.waitForURL(/\/results$/);
+    await page.locator('input[name="r1_1_holes"]').fill("7.5");
+    await page.getByRole("button", { name: "Save the results" }).click();
+    await expect.poll(() => page.getByText("A pass count is a whole number.").isVisible()).toBe(true);
+    // Float angle (column 1) moves both pass counts by 3; the rest is a small run-to-run wobble.
+    const design = plackettBurmanDesign(8);
+    for (let run = 1; run <= 8; run++) {
+      const base = 3 * (design[run - 1]![0]! > 0 ? 1 : 0) + (run % 3 === 0 ? 1 : 0);
+      await page.locator(`input[name="r${run}_1_holes"]`).fill(String(8 + base));
+      await page.locator(`input[name="r${run}_1_surface"]`).fill(String(14 + base));
+    }
+    await page.getByRole("button", { name: "Save the results" }).click();
+    await expect.poll(() => page.getByText("Results saved (16 in all).").isVisible()).toBe(true);
+    await page.getByRole("link", { name: "Conclusions" }).click();
+    await expect.poll(() => page.getByTestId("ruggedness-summary").textContent()).toMatch(/^Float angle matters/);
     await expectAccessible(page);
     await context.close();
   });
