@@ -28,7 +28,7 @@ export class BundleUnavailable extends Error {}
 const sha256 = (data: Buffer | string) => createHash("sha256").update(data).digest("hex");
 
 /** The command that recomputes the figures with Ringbatch's own engine, for the bundle unpacked in `bundle/`. */
-export function recomputeCommand(alpha: number, countResponses: readonly string[]) {
+function recomputeCommand(alpha: number, countResponses: readonly string[]) {
   const counts = countResponses.map((key) => ` --count ${key}`).join("");
   return `npm run -s precision -- bundle/results.csv --alpha ${alpha}${counts} --decisions bundle/decisions.csv`;
 }

@@ -25,7 +25,7 @@ export async function publishedStatements() {
     const s = snapshot as StatementSnapshot;
     const responses = s.responses
       .map((r) => {
-        const means = s.analysis.groups.filter((g) => g.status === "computed" && g.response === r.key).map((g) => (g.status === "computed" ? g.mean : 0));
+        const means = s.analysis.groups.flatMap((g) => (g.status === "computed" && g.response === r.key ? [g.mean] : []));
         return { key: r.key, name: r.name, unit: r.unit, levels: means.length ? ([Math.min(...means), Math.max(...means)] as const) : null };
       })
       .filter((r) => r.levels !== null);
@@ -107,8 +107,6 @@ function present({ snapshot, ...row }: Awaited<ReturnType<typeof historyRows>>[n
     outcome: row.outcome as ComparisonOutcome,
   };
 }
-
-export type ComparisonRecord = ReturnType<typeof present>;
 
 /** The person's own comparisons, newest first. */
 export async function listComparisons(userId: number) {

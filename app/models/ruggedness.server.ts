@@ -75,8 +75,6 @@ export async function ruggednessSetup(studyId: number) {
   };
 }
 
-export type RuggednessSetup = Awaited<ReturnType<typeof ruggednessSetup>>;
-
 /**
  * Replaces the factors and lays out the design: the smallest Plackett–Burman
  * design that takes them (8 runs up to 7 factors, 12 up to 11), factors in its

@@ -7,6 +7,7 @@ import * as effects from "~/routes/ruggedness/study/effects";
 import * as factors from "~/routes/ruggedness/study/factors";
 import * as newStudy from "~/routes/ruggedness/new";
 import * as results from "~/routes/ruggedness/study/results";
+import * as precisionStudy from "~/routes/studies/study/layout";
 import { RUGGEDNESS_STUDY_CODE } from "../../seed/toolkit-demo";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
@@ -37,6 +38,12 @@ describe("the demo ruggedness study", () => {
     }
     const summary = await call(conclusions.loader, get(`/ruggedness/${demoStudyId}/conclusions`, coordinator), at(demoStudyId));
     expect(summary.data.responses[0].analysis.columns[0].conclusion).toMatch(/^Hold float angle within the tested range/);
+  });
+
+  it("opened from the coordinator's list of studies, leads to its own pages", async () => {
+    const outcome = await call(precisionStudy.loader, get(`/studies/${demoStudyId}`, coordinator), { studyId: String(demoStudyId) });
+    expect(outcome.status).toBe(302);
+    expect(outcome.headers.get("Location")).toBe(`/ruggedness/${demoStudyId}`);
   });
 });
 
