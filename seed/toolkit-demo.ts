@@ -18,6 +18,7 @@ import {
   precisionStatements,
   responses,
   results,
+  shipments,
   ruggednessFactors,
   ruggednessPlans,
   ruggednessResults,
@@ -110,6 +111,16 @@ async function seedPublishedStudy(db: Database) {
         .insert(enrollments)
         .values({ studyId, labId, labCode: PUBLISHED_LAB_CODES[labIndex], state: "accepted", invitedAt: new Date("2025-07-21"), respondedAt: new Date("2025-07-29") })
         .returning();
+      await tx.insert(shipments).values({
+        enrollmentId: enrollment!.id,
+        contents: PUBLISHED_MATERIALS.map((m) => `${m.code}: ${m.constituents.filter((c) => c.lot).map((c) => `${c.name} lot ${c.lot}`).join(", ")}`).join("\n"),
+        carrier: "Brellwick Freight",
+        trackingNumber: `BW-D${4101 + labIndex}`,
+        shippedOn: "2025-09-02",
+        receivedOn: "2025-09-05",
+        status: "received",
+        condition: "good",
+      });
       for (const [code, materialId] of materialIds) {
         for (const response of responseRows) {
           const [cell] = await tx
