@@ -56,6 +56,14 @@ describe("a new ruggedness study", () => {
     expect(outcome.data.result.error.code).toEqual(["Another study already has this code."]);
   });
 
+  it("for another test method needs its name and its response, each asked for beside its field", async () => {
+    const outcome = await call(newStudy.action, post("/ruggedness/new", { code: "RG-SLUMP-1", title: "Slump screening", template: "custom" }, coordinator));
+    expect(outcome.status).toBe(400);
+    expect(outcome.data.result.error).toMatchObject({ testMethod: ["Name the test method."], responseName: ["Name the response the test measures."] });
+    const created = await call(newStudy.action, post("/ruggedness/new", { code: "RG-SLUMP-1", title: "Slump screening", template: "custom", testMethod: "Slump of fresh concrete", responseName: "Slump", responseUnit: "mm" }, coordinator));
+    expect(created.status).toBe(302);
+  });
+
   it("is created with the float test's responses", async () => {
     const outcome = await call(newStudy.action, post("/ruggedness/new", { code: "RG-TEST-1", title: "Screening", template: "float_finishing" }, coordinator));
     expect(outcome.status).toBe(302);
