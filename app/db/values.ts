@@ -56,3 +56,6 @@ export const STATEMENT_STATES = ["draft", "in_review", "approved", "returned"] a
 export const VOTE_CHOICES = ["approve", "object", "abstain"] as const;
 
 export const API_SCOPES = ["results:write", "study:read"] as const;
+
+/** Where the two mixtures of a comparison were tested: in one lab (σ_r) or in two labs (σ_R and σ_r). */
+export const COMPARISON_SETTINGS = ["same-lab", "two-labs"] as const;

@@ -24,8 +24,9 @@ describe("database", () => {
     await seedDemo(db);
     expect(await counts()).toEqual(first);
     // 2 staff + 8 analysts + 3 reviewers; the checking study's 8 labs × 4 materials × 2 responses × 3 replicates
-    // plus the testing study's 4 submitted labs × 2 × 2 × 3 and 2 draft labs × 1 × 2 × 3.
-    expect(first).toEqual([13, 2, 192 + 48 + 12]);
+    // plus the testing study's 4 submitted labs × 2 × 2 × 3 and 2 draft labs × 1 × 2 × 3, plus the published
+    // study's 8 labs × 3 materials × 2 responses × 3 replicates; the ruggedness study keeps its results apart.
+    expect(first).toEqual([13, 4, 192 + 48 + 12 + 144]);
   });
 
   it("keeps foreign keys on and WAL for the file database", async () => {

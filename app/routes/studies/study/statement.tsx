@@ -3,6 +3,7 @@ import { z } from "zod";
 import type { Route } from "./+types/statement";
 import { PrecisionSummaryTable } from "~/components/precision-tables";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
+import { StatementBundle } from "~/components/statement-bundle";
 import { Badge, Button, Card, Notice, PageHeader, SimpleTable, TextAreaField } from "~/components/ui";
 import { type ActionResult, refused } from "~/lib/form-results";
 import { type FieldErrors, parseForm } from "~/lib/forms";
@@ -118,6 +119,7 @@ export default function StatementPage({ loaderData, actionData }: Route.Componen
       />
       <div className="flex flex-col gap-6">
         <StatementCaution />
+        {study.state === "published" && <StatementBundle studyId={study.id} />}
         {outcome?.done && <Notice tone="success">{outcome.done}</Notice>}
         {failed?.errors?.form && <Notice tone="error">{failed.errors.form}</Notice>}
         {!loaderData.draftingRefusal && (
