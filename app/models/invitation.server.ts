@@ -6,11 +6,11 @@
 import { createHash, randomBytes } from "node:crypto";
 import { and, eq, isNull } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
-import { enrollments, invitations, labMembers, labs, studies, users } from "~/db/schema";
+import { enrollments, invitations, labMembers, labs, studies, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, sendEmail } from "~/server/email.server";
 import { invitationEmail } from "~/lib/email-templates";
-import { FieldRefusal } from "~/lib/form-results";
+import { FieldRefusal } from "~/lib/field-refusal";
 import { drawLabCode } from "~/server/lab-codes.server";
 import { invitationsOpen } from "~/lib/study-lifecycle";
 import { bumpDataVersion } from "~/models/analysis.server";
@@ -19,7 +19,6 @@ import { hashPassword, normaliseEmail } from "~/models/user.server";
 
 export const INVITATION_LIFETIME_MS = 14 * 24 * 60 * 60 * 1000;
 
-type Study = typeof studies.$inferSelect;
 
 export class InvitationError extends FieldRefusal {}
 

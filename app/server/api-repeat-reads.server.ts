@@ -14,7 +14,7 @@
  */
 import { createHash } from "node:crypto";
 import type { IncomingHttpHeaders } from "node:http";
-import type { studies } from "~/db/schema";
+import type { Study } from "~/db/schema";
 import { type ApiCaller, ApiError, enforceRateLimit, errorBody, rateLimitKey } from "~/server/api.server";
 import { currentAccessVersion, type StudyAccess } from "~/server/guards.server";
 import { isSignificanceLevel } from "~/lib/precision";
@@ -39,7 +39,6 @@ export function precisionAlpha(searchParams: URLSearchParams): number | undefine
   return alpha;
 }
 
-type Study = typeof studies.$inferSelect;
 type RememberedReader = { accessVersion: number; validUntil: number; study: Study; rateKey: string };
 
 const remembered = new Map<string, RememberedReader>();
