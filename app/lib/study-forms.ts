@@ -141,6 +141,9 @@ export const materialSchema = z.object({
   description: optionalText(300, "description"),
 });
 
+/** The material page's own fields; its mixture design rows are checked by `parseDesignRows` (`~/lib/mixture-form`). */
+export const materialEditorSchema = materialSchema.extend({ units: z.enum(["si", "us"], { message: "Choose SI or US customary units." }).default("si") });
+
 export const transitionSchema = z.object({ to: z.enum(STUDY_STATES, { message: "Choose a state." }) });
 
 const requiredDate = (what: string) => z.iso.date({ message: `Enter the ${what} date as YYYY-MM-DD.` });
