@@ -1,12 +1,19 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/results";
 import { CellStatusBadge } from "~/components/cell-status-badge";
-import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
+import { StateBadge } from "~/components/state-badge";
+import type { StudyPageHandle } from "~/components/study-frame";
+import { Badge, Card, SimpleTable } from "~/components/ui";
+import { formatDateTime } from "~/lib/format";
+import { ENROLLMENT_STATE } from "~/lib/state-labels";
+import { studyPageMeta } from "~/lib/study-page-meta";
 import { requireStudy } from "~/server/study-context.server";
 import { studyBatchMarks } from "~/models/batch.server";
 import { studyAuditTrail, studyResults } from "~/models/results.server";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Results · ${data?.study.code ?? "Study"} · Ringbatch` }];
+export const handle: StudyPageHandle = { pageTitle: "Results" };
+
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ request, context }: Route.LoaderArgs) {
   const { study } = requireStudy(context, ["coordinator", "admin"]);
@@ -38,8 +45,6 @@ const ACTION_LABEL: Record<string, string> = {
 /** A link to one page of the results table and one page of the audit trail. */
 const pageLink = (labs: number, page: number) => `?${new URLSearchParams({ labs: String(labs), page: String(page) })}`;
 
-const when = (date: Date | string | number) => `${new Date(date).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" })} UTC`;
-
 /** A short readable form of an audit event's before/after values. */
 function describeValues(value: unknown): string {
   if (value === null || value === undefined) return "—";
@@ -59,12 +64,10 @@ function describeValues(value: unknown): string {
 }
 
 export default function StudyResults({ loaderData }: Route.ComponentProps) {
-  const { study, responses, rows, labsPage, labsPageCount, audit } = loaderData;
+  const { responses, rows, labsPage, labsPageCount, audit } = loaderData;
   const amendmentRows = rows.flatMap((r) => r.amendments.map((a) => ({ ...a, labCode: r.labCode, materialCode: r.materialCode })));
   return (
-    <>
-      <PageHeader title={`Results — ${study.code}`} subtitle={study.title} />
-      <div className="grid gap-6 [&>*]:min-w-0">
+    <div className="grid gap-6 [&>*]:min-w-0">
         <Card title="Results by lab and material">
           <SimpleTable
             caption="Replicate results by lab, material and response, with cell status"
@@ -73,7 +76,7 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
               row.labCode ?? "—",
               row.withdrawn ? (
                 <span key="lab" className="flex flex-wrap items-center gap-2">
-                  {row.labName} <Badge>Withdrawn</Badge>
+                  {row.labName} <StateBadge view={ENROLLMENT_STATE.withdrawn} />
                 </span>
               ) : (
                 row.labName
@@ -123,7 +126,7 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
             <SimpleTable
               caption="Amendments of submitted results"
               headers={["When", "Lab code", "Cell", "Old → new", "Reason", "By"]}
-              rows={amendmentRows.map((a) => [when(a.createdAt), a.labCode ?? "—", `${a.materialCode} ${a.responseKey} #${a.replicate}`, `${a.oldValue ?? "—"} → ${a.newValue}`, a.reason, a.byName])}
+              rows={amendmentRows.map((a) => [formatDateTime(a.createdAt), a.labCode ?? "—", `${a.materialCode} ${a.responseKey} #${a.replicate}`, `${a.oldValue ?? "—"} → ${a.newValue}`, a.reason, a.byName])}
             />
           )}
         </Card>
@@ -134,7 +137,7 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
           <SimpleTable
             caption="Audit trail of the study"
             headers={["When", "Who", "What", "Before", "After", "Reason"]}
-            rows={audit.events.map((e) => [when(e.createdAt), e.actorName ?? "—", ACTION_LABEL[e.action] ?? e.action, describeValues(e.before), describeValues(e.after), e.reason ?? "—"])}
+            rows={audit.events.map((e) => [formatDateTime(e.createdAt), e.actorName ?? "—", ACTION_LABEL[e.action] ?? e.action, describeValues(e.before), describeValues(e.after), e.reason ?? "—"])}
           />
           <nav aria-label="Audit trail pages" className="mt-3 flex gap-4">
             {audit.page > 1 && (
@@ -149,7 +152,6 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
             )}
           </nav>
         </Card>
-      </div>
-    </>
+    </div>
   );
 }
