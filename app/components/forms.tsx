@@ -71,3 +71,12 @@ export function refusalOf(reply: FormReply | unknown, intent: string): string[] 
   if (result?.initialValue?.intent !== intent) return [];
   return Object.values(result.error ?? {}).flatMap((messages) => messages ?? []);
 }
+
+/**
+ * The action's last answer when it is about one row of a page with a form per
+ * row (its typed `name` is `value`), so only that row's form shows it.
+ */
+export function replyAbout(reply: FormReply | unknown, name: string, value: string | number): FormReply | undefined {
+  const typed = (reply as FormReply)?.result?.initialValue;
+  return typed?.[name] === String(value) ? (reply as FormReply) : undefined;
+}

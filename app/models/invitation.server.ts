@@ -16,6 +16,7 @@ import { invitationsOpen } from "~/lib/study-lifecycle";
 import { bumpDataVersion } from "~/models/analysis.server";
 import type { SessionUser } from "~/models/user.server";
 import { hashPassword, normaliseEmail } from "~/models/user.server";
+import { formatDate } from "~/lib/format";
 
 export const INVITATION_LIFETIME_MS = 14 * 24 * 60 * 60 * 1000;
 
@@ -56,7 +57,7 @@ export async function inviteLab(study: Study, labId: number, actorUserId: number
       labName: lab.name,
       study,
       url: appUrl(request, invitationPath(token, study.id)),
-      expiresOn: expiresAt.toISOString().slice(0, 10),
+      expiresOn: formatDate(expiresAt),
     }),
   );
   return { token };

@@ -3,7 +3,7 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { useMemo, useState } from "react";
 import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/material";
-import { fieldProps, type FormReply, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, Field, Notice } from "~/components/ui";
 import { CONSTITUENT_KINDS } from "~/db/values";
@@ -77,9 +77,10 @@ export default function MaterialPage({ loaderData, actionData }: Route.Component
     id: "mixture-design",
     defaultValue: { code: material.code, description: material.description, units: "si" },
   });
-  const returned = (actionData as FormReply)?.result?.initialValue;
+  // After a refused save without scripts, the page starts from what was typed.
+  const returned = form.initialValue as Record<string, unknown> | undefined;
   const [units, setUnits] = useState<UnitSystem>(returned?.units === "us" ? "us" : "si");
-  const [rows, setRows] = useState<EditorRow[]>(() => (returned ? rowsFromTyped(returned) : rowsFromDesign(constituents, "si")));
+  const [rows, setRows] = useState<EditorRow[]>(() => (returned?.c ? rowsFromTyped(returned) : rowsFromDesign(constituents, "si")));
   const busy = useNavigation().state === "submitting";
   // The same parse the action runs: live errors and checks as the coordinator types.
   const live = useMemo(() => parseDesignRows(material.code, rows, units), [material.code, rows, units]);

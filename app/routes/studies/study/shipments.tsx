@@ -3,7 +3,7 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/shipments";
 import { DataTable } from "~/components/data-table";
-import { type FormReply, fieldProps, FormErrors, formWideErrors, refusalOf, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, refusalOf, replyAbout, useSchemaForm } from "~/components/forms";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Badge, Button, Card, Field, Notice, SelectField, TextAreaField } from "~/components/ui";
@@ -137,7 +137,7 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
                             <Button type="submit" variant="secondary" disabled={busy}>
                               Mark lost
                             </Button>
-                            <FormErrors errors={lastAnswerIsFor(actionData, s.id) ? refusalOf(actionData, "lost") : []} />
+                            <FormErrors errors={refusalOf(replyAbout(actionData, "shipmentId", s.id), "lost")} />
                           </Form>
                         ) : null,
                     },
@@ -148,11 +148,6 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
         </Card>
     </div>
   );
-}
-
-/** Whether the action's last answer is about this shipment's row. */
-function lastAnswerIsFor(reply: unknown, shipmentId: number) {
-  return (reply as FormReply)?.result?.initialValue?.shipmentId === String(shipmentId);
 }
 
 type FormArgs = { reply: unknown; busy: boolean };
@@ -183,7 +178,7 @@ type Shipment = Route.ComponentProps["loaderData"]["shipments"][number];
 /** One row's "mark shipped" form; the action's answer belongs to it only when it names this shipment. */
 function ShipForm({ shipment, today, reply, busy }: FormArgs & { shipment: Shipment; today: string }) {
   const [form, fields] = useSchemaForm(shipmentForms.ship, {
-    reply: lastAnswerIsFor(reply, shipment.id) ? reply : undefined,
+    reply: replyAbout(reply, "shipmentId", shipment.id),
     intent: "ship",
     id: `ship-${shipment.id}`,
     defaultValue: { shippedOn: today, carrier: shipment.carrier, trackingNumber: shipment.trackingNumber },

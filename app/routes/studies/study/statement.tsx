@@ -3,7 +3,7 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/statement";
-import { type FormReply, fieldProps, FormErrors, formWideErrors, refusalOf, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, refusalOf, replyAbout, useSchemaForm } from "~/components/forms";
 import { PrecisionSummaryTable } from "~/components/precision-tables";
 import { StateBadge } from "~/components/state-badge";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
@@ -212,8 +212,7 @@ type Vote = LoaderData["votes"][number];
 
 /** The coordinator's answer to one objection; the action's answer belongs to it only when it names this vote. */
 function AnswerForm({ vote, reply }: { vote: Vote; reply: unknown }) {
-  const mine = (reply as FormReply)?.result?.initialValue?.voteId === String(vote.id);
-  const [form, fields] = useSchemaForm(statementForms.answer, { reply: mine ? reply : undefined, intent: "answer", id: `answer-${vote.id}` });
+  const [form, fields] = useSchemaForm(statementForms.answer, { reply: replyAbout(reply, "voteId", vote.id), intent: "answer", id: `answer-${vote.id}` });
   const answerError = fields.answer.errors?.[0];
   return (
     <Form method="post" className="mt-3 flex flex-col gap-3" {...getFormProps(form)}>
