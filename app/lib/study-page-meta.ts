@@ -5,8 +5,6 @@
 type MetaMatch = { data?: unknown } | undefined;
 
 export function studyPageMeta(pageTitle: string, matches: readonly MetaMatch[]) {
-  const code = matches
-    .map((match) => (match?.data as { study?: { code?: string } } | undefined)?.study?.code)
-    .findLast((found) => found !== undefined);
+  const code = matches.map((match) => (match?.data as { study?: { code?: string } } | undefined)?.study?.code).findLast((found) => found !== undefined);
   return [{ title: `${pageTitle} — ${code ?? "Study"} · Ringbatch` }];
 }

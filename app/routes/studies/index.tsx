@@ -19,7 +19,11 @@ export default function Studies({ loaderData }: Route.ComponentProps) {
     <>
       <PageHeader
         title="Studies"
-        subtitle={loaderData.everyStudy ? "Every interlaboratory study, read-only for administrators." : "Interlaboratory studies you coordinate. Start one with New study in the menu above."}
+        subtitle={
+          loaderData.everyStudy
+            ? "Every interlaboratory study, read-only for administrators."
+            : "Interlaboratory studies you coordinate. Start one with New study in the menu above."
+        }
       />
       <Card>
         {loaderData.studies.length === 0 ? (

@@ -53,8 +53,8 @@ export default function NewStudy({ actionData }: Route.ComponentProps) {
               <span>
                 <span className="font-semibold">Float finishing test of fresh concrete</span>
                 <span className="block text-sm text-basalt-700">
-                  Two count responses (passes to close the preformed holes, passes to reach the target surface), target surface rating,
-                  slump {FLOAT_FINISHING_TEMPLATE.freshTargets[0].target} ± {FLOAT_FINISHING_TEMPLATE.freshTargets[0].tolerance} mm and air{" "}
+                  Two count responses (passes to close the preformed holes, passes to reach the target surface), target surface rating, slump{" "}
+                  {FLOAT_FINISHING_TEMPLATE.freshTargets[0].target} ± {FLOAT_FINISHING_TEMPLATE.freshTargets[0].tolerance} mm and air{" "}
                   {FLOAT_FINISHING_TEMPLATE.freshTargets[1].target} ± {FLOAT_FINISHING_TEMPLATE.freshTargets[1].tolerance} % targets.
                 </span>
               </span>

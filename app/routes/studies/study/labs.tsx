@@ -28,7 +28,13 @@ export async function loader({ context }: Route.LoaderArgs) {
   const byLab = new Map(enrolled.map((e) => [e.labId, e]));
   const rows = directory.map((lab) => {
     const e = byLab.get(lab.id);
-    return { ...lab, enrollmentId: e?.id ?? null, enrollmentState: e?.state ?? null, labCode: e?.labCode ?? null, invitedAt: e?.invitedAt ? formatDate(e.invitedAt) : null };
+    return {
+      ...lab,
+      enrollmentId: e?.id ?? null,
+      enrollmentState: e?.state ?? null,
+      labCode: e?.labCode ?? null,
+      invitedAt: e?.invitedAt ? formatDate(e.invitedAt) : null,
+    };
   });
   return {
     study,
@@ -65,72 +71,77 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
   const busy = useNavigation().state === "submitting";
   return (
     <div className="flex flex-col gap-4">
-        <FormErrors errors={inviteRefusal} />
-        {!canInvite && study.state === "draft" && <Notice>Open recruiting on the setup page to invite labs.</Notice>}
-        <p>
-          {accepted} {accepted === 1 ? "lab has" : "labs have"} accepted.
-          {accepted < RECOMMENDED_MIN_LABS && ` A precision statement usually needs at least ${RECOMMENDED_MIN_LABS} labs.`}
-        </p>
-        <Card title="Lab directory">
-          <DataTable
-            caption="Labs of the directory and their enrollment in this study"
-            filterLabel="Filter labs"
-            data={rows}
-            columns={[
-              { id: "name", header: "Lab", value: (l) => l.name },
-              { id: "address", header: "Address", value: (l) => l.address || null },
-              {
-                id: "contact",
-                header: "Contact",
-                value: (l) => `${l.contactName} ${l.contactEmail}`.trim() || null,
-                cell: (l) => (
-                  <>
-                    {l.contactName || "—"}
-                    {l.contactEmail && <span className="block text-sm text-basalt-700">{l.contactEmail}</span>}
-                  </>
-                ),
-              },
-              { id: "accreditation", header: "Accreditation", value: (l) => l.accreditationNumber || null },
-              {
-                id: "state",
-                header: "Enrollment",
-                value: (l) => (l.enrollmentState ? ENROLLMENT_STATE[l.enrollmentState].label : "Not invited"),
-                cell: (l) => (l.enrollmentState ? <StateBadge view={ENROLLMENT_STATE[l.enrollmentState]} /> : "Not invited"),
-              },
-              { id: "code", header: "Lab code", value: (l) => l.labCode },
-              { id: "invited", header: "Invited on", value: (l) => l.invitedAt },
-              ...(canInvite
-                ? [
-                    {
-                      id: "invite",
-                      header: "Invitation",
-                      sortable: false,
-                      value: () => null,
-                      cell: (l: (typeof rows)[number]) =>
-                        l.enrollmentState === "accepted" ? null : (
-                          <Form method="post">
-                            <input type="hidden" name="intent" value="invite" />
-                            <input type="hidden" name="labId" value={l.id} />
-                            <Button type="submit" variant="secondary" disabled={busy || !l.contactEmail} aria-label={`${l.enrollmentState ? "Invite again" : "Invite"} ${l.name}`}>
-                              {l.enrollmentState ? "Invite again" : "Invite"}
-                            </Button>
-                          </Form>
-                        ),
-                    },
-                  ]
-                : []),
-            ]}
-          />
+      <FormErrors errors={inviteRefusal} />
+      {!canInvite && study.state === "draft" && <Notice>Open recruiting on the setup page to invite labs.</Notice>}
+      <p>
+        {accepted} {accepted === 1 ? "lab has" : "labs have"} accepted.
+        {accepted < RECOMMENDED_MIN_LABS && ` A precision statement usually needs at least ${RECOMMENDED_MIN_LABS} labs.`}
+      </p>
+      <Card title="Lab directory">
+        <DataTable
+          caption="Labs of the directory and their enrollment in this study"
+          filterLabel="Filter labs"
+          data={rows}
+          columns={[
+            { id: "name", header: "Lab", value: (l) => l.name },
+            { id: "address", header: "Address", value: (l) => l.address || null },
+            {
+              id: "contact",
+              header: "Contact",
+              value: (l) => `${l.contactName} ${l.contactEmail}`.trim() || null,
+              cell: (l) => (
+                <>
+                  {l.contactName || "—"}
+                  {l.contactEmail && <span className="block text-sm text-basalt-700">{l.contactEmail}</span>}
+                </>
+              ),
+            },
+            { id: "accreditation", header: "Accreditation", value: (l) => l.accreditationNumber || null },
+            {
+              id: "state",
+              header: "Enrollment",
+              value: (l) => (l.enrollmentState ? ENROLLMENT_STATE[l.enrollmentState].label : "Not invited"),
+              cell: (l) => (l.enrollmentState ? <StateBadge view={ENROLLMENT_STATE[l.enrollmentState]} /> : "Not invited"),
+            },
+            { id: "code", header: "Lab code", value: (l) => l.labCode },
+            { id: "invited", header: "Invited on", value: (l) => l.invitedAt },
+            ...(canInvite
+              ? [
+                  {
+                    id: "invite",
+                    header: "Invitation",
+                    sortable: false,
+                    value: () => null,
+                    cell: (l: (typeof rows)[number]) =>
+                      l.enrollmentState === "accepted" ? null : (
+                        <Form method="post">
+                          <input type="hidden" name="intent" value="invite" />
+                          <input type="hidden" name="labId" value={l.id} />
+                          <Button
+                            type="submit"
+                            variant="secondary"
+                            disabled={busy || !l.contactEmail}
+                            aria-label={`${l.enrollmentState ? "Invite again" : "Invite"} ${l.name}`}
+                          >
+                            {l.enrollmentState ? "Invite again" : "Invite"}
+                          </Button>
+                        </Form>
+                      ),
+                  },
+                ]
+              : []),
+          ]}
+        />
+      </Card>
+      {canWithdraw && withdrawable.length > 0 && (
+        <Card title="Withdraw a lab">
+          <p className="mb-4">
+            A withdrawn lab can no longer change its results, and its results leave the analysis; they stay on record with your reason. While the study is
+            recruiting, the lab can be invited again.
+          </p>
+          <WithdrawalForm labs={withdrawable} reply={actionData} busy={busy} />
         </Card>
-        {canWithdraw && withdrawable.length > 0 && (
-          <Card title="Withdraw a lab">
-            <p className="mb-4">
-              A withdrawn lab can no longer change its results, and its results leave the analysis; they stay on record with your reason. While the study
-              is recruiting, the lab can be invited again.
-            </p>
-            <WithdrawalForm labs={withdrawable} reply={actionData} busy={busy} />
-          </Card>
-        )}
+      )}
     </div>
   );
 }

@@ -96,154 +96,150 @@ export default function MaterialPage({ loaderData, actionData }: Route.Component
 
   return (
     <div className="flex flex-col gap-6">
-        <p className="text-basalt-700">
-          Material {material.code}: mixture design per 1 m³ (or per 1 yd³ in US customary units), SSD basis.{" "}
-          <Link to={`/studies/${study.id}/setup`} className="font-semibold text-basalt-700 underline">
-            Back to setup
-          </Link>
-        </p>
-        <Notice tone="caution">
-          Fresh concrete is caustic: wear gloves and eye protection and keep it off the skin. Batches are heavy: lift with help. Local codes,
-          specifications and licensed engineers govern the mixture; these checks support, not replace, their judgement.
-        </Notice>
-        <Form method="post" className="flex flex-col gap-6" {...getFormProps(form)}>
-          <FormErrors errors={formWideErrors(form)} />
-          <Card title="Material">
-            <div className="grid gap-4 md:grid-cols-2">
-              <Field label="Material code" {...fieldProps(fields.code)} disabled={!canEdit} />
-              <Field label="Description" {...fieldProps(fields.description)} disabled={!canEdit} />
-            </div>
-          </Card>
-          <Card title="Constituents">
-            <fieldset className="mb-4 flex flex-wrap gap-4">
-              <legend className="mb-1 font-semibold text-basalt-800">Units</legend>
-              <input type="hidden" name="units" value={units} />
-              {(["si", "us"] as const).map((u) => (
-                <label key={u} className="flex items-center gap-2">
-                  <input type="radio" name="unitChoice" checked={units === u} onChange={() => switchUnits(u)} />
-                  {u === "si" ? "SI (kg/m³, mL/100 kg)" : "US customary (lb/yd³, fl oz/cwt)"}
-                </label>
-              ))}
-            </fieldset>
-            {errors.constituents && <Notice tone="error">{errors.constituents}</Notice>}
-            <ol className="flex flex-col gap-4">
-              {rows.map((row, i) => (
-                <li key={i} className="rounded-md border border-basalt-100 p-3">
-                  <fieldset className="grid gap-3 md:grid-cols-4">
-                    <legend className="font-semibold text-basalt-800">Row {i + 1}</legend>
-                    <div className="flex flex-col gap-1">
-                      <label htmlFor={`row-${i}-kind`} className="font-semibold text-basalt-800">
-                        Kind
-                      </label>
-                      <select
-                        id={`row-${i}-kind`}
-                        name={inputName(i, "kind")}
-                        value={row.kind}
-                        disabled={!canEdit}
-                        onChange={(e) => update(i, { kind: e.target.value as ConstituentKind })}
-                        className="min-h-11 rounded-md border border-basalt-200 bg-white px-3 py-2"
-                      >
-                        {CONSTITUENT_KINDS.map((k) => (
-                          <option key={k} value={k}>
-                            {KIND_LABEL[k]}
-                          </option>
-                        ))}
-                      </select>
-                    </div>
-                    <Field
-                      label="Name"
-                      id={`row-${i}-name`}
-                      name={inputName(i, "name")}
-                      value={row.name}
+      <p className="text-basalt-700">
+        Material {material.code}: mixture design per 1 m³ (or per 1 yd³ in US customary units), SSD basis.{" "}
+        <Link to={`/studies/${study.id}/setup`} className="font-semibold text-basalt-700 underline">
+          Back to setup
+        </Link>
+      </p>
+      <Notice tone="caution">
+        Fresh concrete is caustic: wear gloves and eye protection and keep it off the skin. Batches are heavy: lift with help. Local codes, specifications and
+        licensed engineers govern the mixture; these checks support, not replace, their judgement.
+      </Notice>
+      <Form method="post" className="flex flex-col gap-6" {...getFormProps(form)}>
+        <FormErrors errors={formWideErrors(form)} />
+        <Card title="Material">
+          <div className="grid gap-4 md:grid-cols-2">
+            <Field label="Material code" {...fieldProps(fields.code)} disabled={!canEdit} />
+            <Field label="Description" {...fieldProps(fields.description)} disabled={!canEdit} />
+          </div>
+        </Card>
+        <Card title="Constituents">
+          <fieldset className="mb-4 flex flex-wrap gap-4">
+            <legend className="mb-1 font-semibold text-basalt-800">Units</legend>
+            <input type="hidden" name="units" value={units} />
+            {(["si", "us"] as const).map((u) => (
+              <label key={u} className="flex items-center gap-2">
+                <input type="radio" name="unitChoice" checked={units === u} onChange={() => switchUnits(u)} />
+                {u === "si" ? "SI (kg/m³, mL/100 kg)" : "US customary (lb/yd³, fl oz/cwt)"}
+              </label>
+            ))}
+          </fieldset>
+          {errors.constituents && <Notice tone="error">{errors.constituents}</Notice>}
+          <ol className="flex flex-col gap-4">
+            {rows.map((row, i) => (
+              <li key={i} className="rounded-md border border-basalt-100 p-3">
+                <fieldset className="grid gap-3 md:grid-cols-4">
+                  <legend className="font-semibold text-basalt-800">Row {i + 1}</legend>
+                  <div className="flex flex-col gap-1">
+                    <label htmlFor={`row-${i}-kind`} className="font-semibold text-basalt-800">
+                      Kind
+                    </label>
+                    <select
+                      id={`row-${i}-kind`}
+                      name={inputName(i, "kind")}
+                      value={row.kind}
                       disabled={!canEdit}
-                      onChange={(e) => update(i, { name: e.target.value })}
-                      error={errors[inputName(i, "name")]}
-                    />
+                      onChange={(e) => update(i, { kind: e.target.value as ConstituentKind })}
+                      className="min-h-11 rounded-md border border-basalt-200 bg-white px-3 py-2"
+                    >
+                      {CONSTITUENT_KINDS.map((k) => (
+                        <option key={k} value={k}>
+                          {KIND_LABEL[k]}
+                        </option>
+                      ))}
+                    </select>
+                  </div>
+                  <Field
+                    label="Name"
+                    id={`row-${i}-name`}
+                    name={inputName(i, "name")}
+                    value={row.name}
+                    disabled={!canEdit}
+                    onChange={(e) => update(i, { name: e.target.value })}
+                    error={errors[inputName(i, "name")]}
+                  />
+                  <Field
+                    label="Lot"
+                    id={`row-${i}-lot`}
+                    name={inputName(i, "lot")}
+                    value={row.lot}
+                    disabled={!canEdit}
+                    onChange={(e) => update(i, { lot: e.target.value })}
+                    error={errors[inputName(i, "lot")]}
+                  />
+                  {FIELDS_BY_KIND[row.kind].map((field) => (
                     <Field
-                      label="Lot"
-                      id={`row-${i}-lot`}
-                      name={inputName(i, "lot")}
-                      value={row.lot}
+                      key={field}
+                      label={FIELD_UNITS[field].label[units]}
+                      id={`row-${i}-${field}`}
+                      name={inputName(i, field)}
+                      inputMode="decimal"
+                      value={row[field] ?? ""}
                       disabled={!canEdit}
-                      onChange={(e) => update(i, { lot: e.target.value })}
-                      error={errors[inputName(i, "lot")]}
+                      onChange={(e) => update(i, { [field]: e.target.value })}
+                      error={errors[inputName(i, field)]}
                     />
-                    {FIELDS_BY_KIND[row.kind].map((field) => (
-                      <Field
-                        key={field}
-                        label={FIELD_UNITS[field].label[units]}
-                        id={`row-${i}-${field}`}
-                        name={inputName(i, field)}
-                        inputMode="decimal"
-                        value={row[field] ?? ""}
-                        disabled={!canEdit}
-                        onChange={(e) => update(i, { [field]: e.target.value })}
-                        error={errors[inputName(i, field)]}
-                      />
-                    ))}
-                    {check && (
-                      <p className="self-end text-sm text-basalt-700">
-                        Absolute volume {check.absoluteVolume.rows[i]!.volumeM3.toFixed(4)} m³
-                      </p>
-                    )}
-                  </fieldset>
-                  {canEdit && (
-                    <Button type="button" variant="secondary" className="mt-2" onClick={() => setRows((rs) => rs.filter((_, j) => j !== i))}>
-                      Remove row {i + 1}
-                    </Button>
-                  )}
-                </li>
-              ))}
-            </ol>
-            {canEdit && (
-              <Button type="button" variant="secondary" className="mt-4" onClick={() => setRows((rs) => [...rs, NEW_ROW])}>
-                Add constituent
-              </Button>
-            )}
-          </Card>
-          <Card title="Checks">
-            {check ? (
-              <div aria-live="polite" className="flex flex-col gap-3">
-                <dl className="grid gap-3 md:grid-cols-4">
-                  <div>
-                    <dt className="font-semibold">Absolute volume</dt>
-                    <dd>
-                      {check.absoluteVolume.totalM3.toFixed(3)} m³ per m³ ({(check.absoluteVolume.totalM3 * (M3_PER_YD3 / M3_PER_FT3)).toFixed(2)} ft³ per yd³)
-                    </dd>
-                  </div>
-                  <div>
-                    <dt className="font-semibold">w/cm</dt>
-                    <dd>{fixed(check.waterCementitiousRatio, 3)}</dd>
-                  </div>
-                  <div>
-                    <dt className="font-semibold">SCM replacement</dt>
-                    <dd>{fixed(check.scmReplacementPercent, 1)} % of cementitious</dd>
-                  </div>
-                  <div>
-                    <dt className="font-semibold">Cementitious</dt>
-                    <dd>
-                      {check.totalCementitiousKgPerM3.toFixed(0)} kg/m³ ({kgPerM3ToLbPerYd3(check.totalCementitiousKgPerM3).toFixed(0)} lb/yd³)
-                    </dd>
-                  </div>
-                </dl>
-                {check.warnings.map((w) => (
-                  <Notice key={w.code} tone="caution">
-                    {w.message}
-                  </Notice>
-                ))}
-              </div>
-            ) : (
-              <p aria-live="polite">Correct the marked fields to see the absolute volume, w/cm and SCM replacement.</p>
-            )}
-          </Card>
+                  ))}
+                  {check && <p className="self-end text-sm text-basalt-700">Absolute volume {check.absoluteVolume.rows[i]!.volumeM3.toFixed(4)} m³</p>}
+                </fieldset>
+                {canEdit && (
+                  <Button type="button" variant="secondary" className="mt-2" onClick={() => setRows((rs) => rs.filter((_, j) => j !== i))}>
+                    Remove row {i + 1}
+                  </Button>
+                )}
+              </li>
+            ))}
+          </ol>
           {canEdit && (
-            <div>
-              <Button type="submit" disabled={busy}>
-                Save mixture design
-              </Button>
-            </div>
+            <Button type="button" variant="secondary" className="mt-4" onClick={() => setRows((rs) => [...rs, NEW_ROW])}>
+              Add constituent
+            </Button>
           )}
-        </Form>
+        </Card>
+        <Card title="Checks">
+          {check ? (
+            <div aria-live="polite" className="flex flex-col gap-3">
+              <dl className="grid gap-3 md:grid-cols-4">
+                <div>
+                  <dt className="font-semibold">Absolute volume</dt>
+                  <dd>
+                    {check.absoluteVolume.totalM3.toFixed(3)} m³ per m³ ({(check.absoluteVolume.totalM3 * (M3_PER_YD3 / M3_PER_FT3)).toFixed(2)} ft³ per yd³)
+                  </dd>
+                </div>
+                <div>
+                  <dt className="font-semibold">w/cm</dt>
+                  <dd>{fixed(check.waterCementitiousRatio, 3)}</dd>
+                </div>
+                <div>
+                  <dt className="font-semibold">SCM replacement</dt>
+                  <dd>{fixed(check.scmReplacementPercent, 1)} % of cementitious</dd>
+                </div>
+                <div>
+                  <dt className="font-semibold">Cementitious</dt>
+                  <dd>
+                    {check.totalCementitiousKgPerM3.toFixed(0)} kg/m³ ({kgPerM3ToLbPerYd3(check.totalCementitiousKgPerM3).toFixed(0)} lb/yd³)
+                  </dd>
+                </div>
+              </dl>
+              {check.warnings.map((w) => (
+                <Notice key={w.code} tone="caution">
+                  {w.message}
+                </Notice>
+              ))}
+            </div>
+          ) : (
+            <p aria-live="polite">Correct the marked fields to see the absolute volume, w/cm and SCM replacement.</p>
+          )}
+        </Card>
+        {canEdit && (
+          <div>
+            <Button type="submit" disabled={busy}>
+              Save mixture design
+            </Button>
+          </div>
+        )}
+      </Form>
     </div>
   );
 }

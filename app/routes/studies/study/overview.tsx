@@ -99,7 +99,9 @@ export default function StudyOverview({ loaderData, actionData }: Route.Componen
   // The polled figures replace the loader's once they arrive.
   const live = progress.data;
   const materials = live?.materials ?? loaderData.matrix.materials.map((m) => ({ id: m.id, code: m.code }));
-  const rows = live?.labs ?? loaderData.matrix.rows.map((r) => ({ enrollmentId: r.id, labCode: r.labCode, labName: r.labName, statuses: r.statuses, submitted: r.submitted }));
+  const rows =
+    live?.labs ??
+    loaderData.matrix.rows.map((r) => ({ enrollmentId: r.id, labCode: r.labCode, labName: r.labName, statuses: r.statuses, submitted: r.submitted }));
   const counts = live?.counts ?? loaderData.counts;
   const submitted = rows.flatMap((r) => r.submitted).filter(Boolean).length;
   const total = rows.length * materials.length;
@@ -111,111 +113,116 @@ export default function StudyOverview({ loaderData, actionData }: Route.Componen
 
   return (
     <div className="flex flex-col gap-6">
-        <p className="text-basalt-700">
-          {study.testMethod} · {study.replicatesPerCell} replicates per cell
-        </p>
-        <FormErrors errors={formWideErrors(remindForm)} />
-        {shipments.damaged.map((s) => (
-          <Notice key={s.id} tone="error">
-            Shipment to {s.labCode ?? s.labName} ({s.labName}) arrived damaged on {formatDate(s.receivedOn)}: {s.receiptNotes}{" "}
-            <Link to={`/studies/${study.id}/shipments`} className="font-semibold underline">
-              See shipments
-            </Link>
-          </Notice>
-        ))}
-        {shipments.lost.map((s) => (
-          <Notice key={s.id} tone="caution">
-            Shipment to {s.labCode ?? s.labName} ({s.labName}) is marked lost in transit.
-          </Notice>
-        ))}
+      <p className="text-basalt-700">
+        {study.testMethod} · {study.replicatesPerCell} replicates per cell
+      </p>
+      <FormErrors errors={formWideErrors(remindForm)} />
+      {shipments.damaged.map((s) => (
+        <Notice key={s.id} tone="error">
+          Shipment to {s.labCode ?? s.labName} ({s.labName}) arrived damaged on {formatDate(s.receivedOn)}: {s.receiptNotes}{" "}
+          <Link to={`/studies/${study.id}/shipments`} className="font-semibold underline">
+            See shipments
+          </Link>
+        </Notice>
+      ))}
+      {shipments.lost.map((s) => (
+        <Notice key={s.id} tone="caution">
+          Shipment to {s.labCode ?? s.labName} ({s.labName}) is marked lost in transit.
+        </Notice>
+      ))}
 
-        <div className="grid gap-6 md:grid-cols-3">
-          <Card title="Dates">
-            <dl className="flex flex-col gap-2">
-              {dates.map((d) => (
-                <div key={d.label}>
-                  <dt className="font-semibold">{d.label}</dt>
-                  <dd>
-                    {d.date ? (
-                      <>
-                        {formatDate(d.date)}{" "}
-                        <span className="text-sm text-basalt-700">
-                          ({daysUntil(d.date, today) >= 0 ? `in ${daysUntil(d.date, today)} days` : `${-daysUntil(d.date, today)} days ago`})
-                        </span>
-                      </>
-                    ) : (
-                      "not set"
-                    )}
-                  </dd>
-                </div>
-              ))}
-            </dl>
-          </Card>
-          <Card title="Shipments">
-            <p>
-              {shipments.shipped} on the way · {shipments.received} received · {shipments.damaged.length} damaged · {shipments.lost.length} lost
-            </p>
-          </Card>
-          <Card title="Reminders">
-            {canRemind ? (
-              <Form method="post" className="flex flex-col gap-2" {...getFormProps(remindForm)}>
-                <input type="hidden" name="intent" value="remind" />
-                <p className="text-sm">E-mails only the labs with results not yet submitted, listing what is missing.</p>
-                <Button type="submit" disabled={busy}>
-                  Remind labs with missing results
-                </Button>
-              </Form>
-            ) : (
-              <p>Reminders go out while the study is testing.</p>
-            )}
-          </Card>
-        </div>
-
-        <Card title="Progress">
-          <p className="mb-2" aria-live="polite">
-            {submitted} of {total} lab × material results submitted
-          </p>
-          <progress className="mb-4 h-3 w-full" max={total || 1} value={submitted} aria-label="Submitted lab × material results" />
-          <div className="mb-6 grid gap-4 md:grid-cols-2">
-            {counts.map((c) => (
-              <Bar key={c.materialId} label={`Material ${c.code}`} value={rows.filter((r) => r.submitted[materials.findIndex((m) => m.id === c.materialId)]).length} max={rows.length} />
+      <div className="grid gap-6 md:grid-cols-3">
+        <Card title="Dates">
+          <dl className="flex flex-col gap-2">
+            {dates.map((d) => (
+              <div key={d.label}>
+                <dt className="font-semibold">{d.label}</dt>
+                <dd>
+                  {d.date ? (
+                    <>
+                      {formatDate(d.date)}{" "}
+                      <span className="text-sm text-basalt-700">
+                        ({daysUntil(d.date, today) >= 0 ? `in ${daysUntil(d.date, today)} days` : `${-daysUntil(d.date, today)} days ago`})
+                      </span>
+                    </>
+                  ) : (
+                    "not set"
+                  )}
+                </dd>
+              </div>
             ))}
-          </div>
-          <DataTable
-            caption="Lab × material pairs in each status, per material"
-            filterLabel="Filter materials"
-            data={counts}
-            columns={[
-              { id: "code", header: "Material", value: (c) => c.code },
-              ...CELL_STATUS_ORDER.map((s) => ({ id: s, header: CELL_STATUS[s].label, value: (c: (typeof counts)[number]) => c.counts[s] })),
-            ]}
-          />
+          </dl>
         </Card>
+        <Card title="Shipments">
+          <p>
+            {shipments.shipped} on the way · {shipments.received} received · {shipments.damaged.length} damaged · {shipments.lost.length} lost
+          </p>
+        </Card>
+        <Card title="Reminders">
+          {canRemind ? (
+            <Form method="post" className="flex flex-col gap-2" {...getFormProps(remindForm)}>
+              <input type="hidden" name="intent" value="remind" />
+              <p className="text-sm">E-mails only the labs with results not yet submitted, listing what is missing.</p>
+              <Button type="submit" disabled={busy}>
+                Remind labs with missing results
+              </Button>
+            </Form>
+          ) : (
+            <p>Reminders go out while the study is testing.</p>
+          )}
+        </Card>
+      </div>
 
-        <Card title="Cell status by lab and material">
-          <DataTable
-            caption="Cell status by lab and material"
-            filterLabel="Filter labs"
-            empty="No lab has accepted yet."
-            data={rows}
-            columns={[
-              { id: "code", header: "Lab code", value: (r) => r.labCode },
-              { id: "lab", header: "Lab", value: (r) => r.labName },
-              {
-                id: "done",
-                header: "Submitted",
-                value: (r) => r.submitted.filter(Boolean).length,
-                cell: (r) => <Bar label={r.labCode ?? r.labName} value={r.submitted.filter(Boolean).length} max={materials.length} />,
-              },
-              ...materials.map((m, i) => ({
-                id: `m${m.id}`,
-                header: m.code,
-                value: (r: (typeof rows)[number]) => CELL_STATUS[r.statuses[i]!].label,
-                cell: (r: (typeof rows)[number]) => <CellStatusBadge status={r.statuses[i]!} />,
-              })),
-            ]}
-          />
-        </Card>
+      <Card title="Progress">
+        <p className="mb-2" aria-live="polite">
+          {submitted} of {total} lab × material results submitted
+        </p>
+        <progress className="mb-4 h-3 w-full" max={total || 1} value={submitted} aria-label="Submitted lab × material results" />
+        <div className="mb-6 grid gap-4 md:grid-cols-2">
+          {counts.map((c) => (
+            <Bar
+              key={c.materialId}
+              label={`Material ${c.code}`}
+              value={rows.filter((r) => r.submitted[materials.findIndex((m) => m.id === c.materialId)]).length}
+              max={rows.length}
+            />
+          ))}
+        </div>
+        <DataTable
+          caption="Lab × material pairs in each status, per material"
+          filterLabel="Filter materials"
+          data={counts}
+          columns={[
+            { id: "code", header: "Material", value: (c) => c.code },
+            ...CELL_STATUS_ORDER.map((s) => ({ id: s, header: CELL_STATUS[s].label, value: (c: (typeof counts)[number]) => c.counts[s] })),
+          ]}
+        />
+      </Card>
+
+      <Card title="Cell status by lab and material">
+        <DataTable
+          caption="Cell status by lab and material"
+          filterLabel="Filter labs"
+          empty="No lab has accepted yet."
+          data={rows}
+          columns={[
+            { id: "code", header: "Lab code", value: (r) => r.labCode },
+            { id: "lab", header: "Lab", value: (r) => r.labName },
+            {
+              id: "done",
+              header: "Submitted",
+              value: (r) => r.submitted.filter(Boolean).length,
+              cell: (r) => <Bar label={r.labCode ?? r.labName} value={r.submitted.filter(Boolean).length} max={materials.length} />,
+            },
+            ...materials.map((m, i) => ({
+              id: `m${m.id}`,
+              header: m.code,
+              value: (r: (typeof rows)[number]) => CELL_STATUS[r.statuses[i]!].label,
+              cell: (r: (typeof rows)[number]) => <CellStatusBadge status={r.statuses[i]!} />,
+            })),
+          ]}
+        />
+      </Card>
     </div>
   );
 }

@@ -47,52 +47,56 @@ export default function Queries({ loaderData, actionData }: Route.ComponentProps
   type Query = (typeof queries)[number];
   return (
     <div className="flex flex-col gap-4">
-        <p className="text-basalt-700">Questions to labs about their cells: open until the lab answers, closed once you have what you need.</p>
-        <FormErrors errors={refusalOf(actionData, "close")} />
-        <Card>
-          <DataTable<Query>
-            caption="Queries of the study, newest first"
-            filterLabel="Filter queries"
-            empty="No query yet. Raise one from a flagged cell on the analysis page."
-            data={queries}
-            columns={[
-              { id: "state", header: "State", value: (q) => QUERY_STATE[q.state].label, cell: (q) => <StateBadge view={QUERY_STATE[q.state]} /> },
-              { id: "lab", header: "Lab", value: (q) => q.lab, cell: (q) => `${q.lab} · ${q.labName}` },
-              {
-                id: "cell",
-                header: "Cell",
-                value: (q) => `${q.material} ${q.response}`,
-                cell: (q) => (
-                  <Link to={`/studies/${study.id}/analysis?cell=${encodeURIComponent(cellKey(q))}#investigate`} className="text-basalt-700 underline">
-                    {q.material} · {q.response}
-                  </Link>
+      <p className="text-basalt-700">Questions to labs about their cells: open until the lab answers, closed once you have what you need.</p>
+      <FormErrors errors={refusalOf(actionData, "close")} />
+      <Card>
+        <DataTable<Query>
+          caption="Queries of the study, newest first"
+          filterLabel="Filter queries"
+          empty="No query yet. Raise one from a flagged cell on the analysis page."
+          data={queries}
+          columns={[
+            { id: "state", header: "State", value: (q) => QUERY_STATE[q.state].label, cell: (q) => <StateBadge view={QUERY_STATE[q.state]} /> },
+            { id: "lab", header: "Lab", value: (q) => q.lab, cell: (q) => `${q.lab} · ${q.labName}` },
+            {
+              id: "cell",
+              header: "Cell",
+              value: (q) => `${q.material} ${q.response}`,
+              cell: (q) => (
+                <Link to={`/studies/${study.id}/analysis?cell=${encodeURIComponent(cellKey(q))}#investigate`} className="text-basalt-700 underline">
+                  {q.material} · {q.response}
+                </Link>
+              ),
+            },
+            { id: "statistic", header: "Statistic", value: (q) => q.statistic || null },
+            { id: "question", header: "Question", value: (q) => q.question },
+            { id: "answer", header: "Lab's answer", value: (q) => q.answer, cell: (q) => q.answer ?? <span className="text-basalt-700">awaited</span> },
+            { id: "raised", header: "Raised", value: (q) => formatDate(q.createdAt) },
+            {
+              id: "close",
+              header: "Action",
+              sortable: false,
+              value: () => null,
+              cell: (q) =>
+                q.state !== "closed" && !refusal ? (
+                  <Form method="post">
+                    <input type="hidden" name="intent" value="close" />
+                    <input type="hidden" name="queryId" value={q.id} />
+                    <Button type="submit" variant="secondary">
+                      Close
+                      <span className="sr-only">
+                        {" "}
+                        the query to lab {q.lab} on {q.material}
+                      </span>
+                    </Button>
+                  </Form>
+                ) : (
+                  formatDate(q.closedAt)
                 ),
-              },
-              { id: "statistic", header: "Statistic", value: (q) => q.statistic || null },
-              { id: "question", header: "Question", value: (q) => q.question },
-              { id: "answer", header: "Lab's answer", value: (q) => q.answer, cell: (q) => q.answer ?? <span className="text-basalt-700">awaited</span> },
-              { id: "raised", header: "Raised", value: (q) => formatDate(q.createdAt) },
-              {
-                id: "close",
-                header: "Action",
-                sortable: false,
-                value: () => null,
-                cell: (q) =>
-                  q.state !== "closed" && !refusal ? (
-                    <Form method="post">
-                      <input type="hidden" name="intent" value="close" />
-                      <input type="hidden" name="queryId" value={q.id} />
-                      <Button type="submit" variant="secondary">
-                        Close<span className="sr-only"> the query to lab {q.lab} on {q.material}</span>
-                      </Button>
-                    </Form>
-                  ) : (
-                    formatDate(q.closedAt)
-                  ),
-              },
-            ]}
-          />
-        </Card>
+            },
+          ]}
+        />
+      </Card>
     </div>
   );
 }

@@ -19,13 +19,20 @@ export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pa
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireStudy(context, ["coordinator", "admin", "reviewer"]);
   const statements = await listStatements(study.id);
-  const statement = statements.find((s) => s.state === "approved") ?? statements.find((s) => s.sentAt !== null) ?? (access === "reviewer" ? null : statements[0]) ?? null;
+  const statement =
+    statements.find((s) => s.state === "approved") ?? statements.find((s) => s.sentAt !== null) ?? (access === "reviewer" ? null : statements[0]) ?? null;
   const labs = statement ? await participatingLabs(study.id, statement.snapshot.analysis) : [];
   const named = access !== "reviewer";
   return {
     study: { id: study.id, code: study.code, title: study.title, testMethod: study.testMethod, state: study.state },
     named,
-    statement: statement && { version: statement.version, state: statement.state, textE691: statement.textE691, textC670: statement.textC670, snapshot: statement.snapshot },
+    statement: statement && {
+      version: statement.version,
+      state: statement.state,
+      textE691: statement.textE691,
+      textC670: statement.textC670,
+      snapshot: statement.snapshot,
+    },
     labs: labs.map((l) => (named ? l : { code: l.code, name: null })),
   };
 }
@@ -37,7 +44,11 @@ export default function Report({ loaderData }: Route.ComponentProps) {
       <header>
         <p className="text-basalt-700">Precision report of {study.testMethod}.</p>
         <p className="mt-2 print:hidden">
-          <button type="button" onClick={() => window.print()} className="min-h-11 rounded-md border border-basalt-500 bg-white px-4 font-semibold text-basalt-800">
+          <button
+            type="button"
+            onClick={() => window.print()}
+            className="min-h-11 rounded-md border border-basalt-500 bg-white px-4 font-semibold text-basalt-800"
+          >
             Print the report
           </button>
         </p>
@@ -51,9 +62,9 @@ export default function Report({ loaderData }: Route.ComponentProps) {
         <>
           <Card title={`Statement, version ${statement.version}`}>
             <p className="mb-3">
-              <StateBadge view={STATEMENT_STATE[statement.state]} />{" "}
-              {statement.snapshot.labs} labs, {statement.snapshot.materials.length} materials, {statement.snapshot.replicates} replicates per cell; consistency
-              checked at the {ALPHA_LABEL[statement.snapshot.analysis.alpha]} level; data version {statement.snapshot.dataVersion}.
+              <StateBadge view={STATEMENT_STATE[statement.state]} /> {statement.snapshot.labs} labs, {statement.snapshot.materials.length} materials,{" "}
+              {statement.snapshot.replicates} replicates per cell; consistency checked at the {ALPHA_LABEL[statement.snapshot.analysis.alpha]} level; data
+              version {statement.snapshot.dataVersion}.
             </p>
             <StatementTexts textE691={statement.textE691} textC670={statement.textC670} />
           </Card>
@@ -65,7 +76,11 @@ export default function Report({ loaderData }: Route.ComponentProps) {
             />
           </Card>
           <Card title="Materials">
-            <SimpleTable caption="Materials of the study" headers={["Code", "Description"]} rows={statement.snapshot.materials.map((m) => [m.code, m.description])} />
+            <SimpleTable
+              caption="Materials of the study"
+              headers={["Code", "Description"]}
+              rows={statement.snapshot.materials.map((m) => [m.code, m.description])}
+            />
           </Card>
           <Card title="Cells left out">
             <ExcludedCells excluded={statement.snapshot.analysis.excluded} />

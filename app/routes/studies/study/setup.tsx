@@ -165,8 +165,8 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
       {moves.length > 0 && (
         <Card title="Study state">
           <p className="mb-3">
-            Now: <StateBadge view={STUDY_STATE[study.state]} />. Results can be entered only while the study is testing; responses and materials are
-            fixed once testing starts.
+            Now: <StateBadge view={STUDY_STATE[study.state]} />. Results can be entered only while the study is testing; responses and materials are fixed once
+            testing starts.
           </p>
           {transitionRefusal.length > 0 && <Notice tone="error">{transitionRefusal.join(" ")}</Notice>}
           <div className="mt-3 flex flex-wrap gap-4">
@@ -239,8 +239,8 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
 
       <Card title="Fresh-property targets">
         <p className="mb-3">
-          Slump: {slump ? `${slump.target} ± ${slump.tolerance} mm (${round(mmToIn(slump.target), 2)} ± ${round(mmToIn(slump.tolerance), 2)} in)` : "no target"}. Air
-          content: {air ? `${air.target} ± ${air.tolerance} %` : "no target"}.
+          Slump: {slump ? `${slump.target} ± ${slump.tolerance} mm (${round(mmToIn(slump.target), 2)} ± ${round(mmToIn(slump.tolerance), 2)} in)` : "no target"}
+          . Air content: {air ? `${air.target} ± ${air.tolerance} %` : "no target"}.
         </p>
         {editable && <TargetsForm reply={actionData} busy={busy} slump={slump} air={air} />}
       </Card>
@@ -400,7 +400,12 @@ function TargetsForm({ reply, busy, slump, air }: FormArgs & { slump: Target; ai
       />
       <Field label="Slump tolerance ±" inputMode="decimal" hint="Blank: the usual tolerance for the target (ASTM C94)" {...fieldProps(fields.slumpTolerance)} />
       <Field label="Air content target, %" inputMode="decimal" {...fieldProps(fields.airTarget)} />
-      <Field label="Air content tolerance ±, percentage points" inputMode="decimal" hint="Blank: ± 1.5 points (ASTM C94)" {...fieldProps(fields.airTolerance)} />
+      <Field
+        label="Air content tolerance ±, percentage points"
+        inputMode="decimal"
+        hint="Blank: ± 1.5 points (ASTM C94)"
+        {...fieldProps(fields.airTolerance)}
+      />
       <div className="self-end">
         <Button type="submit" disabled={busy}>
           Save targets

@@ -65,87 +65,86 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
   const busy = useNavigation().state === "submitting";
   return (
     <div className="flex flex-col gap-6">
-        <Notice tone="caution">Bags of cement and aggregate are heavy: pack and lift them with help, and mark the weight on each box.</Notice>
-        {canEdit && (
-          <Card title="Prepare a shipment">
-            {labs.length === 0 ? (
-              <p>No lab has accepted yet.</p>
-            ) : (
-              <PrepareForm labs={labs} defaultContents={loaderData.defaultContents} reply={actionData} busy={busy} />
-            )}
-          </Card>
-        )}
-        <Card title="Shipments">
-          <DataTable
-            caption="Shipments of the study"
-            filterLabel="Filter shipments"
-            empty="No shipments yet."
-            data={shipments}
-            columns={[
-              { id: "lab", header: "Lab", value: (s) => `${s.labCode ?? ""} ${s.labName}`.trim() },
-              {
-                id: "status",
-                header: "Status",
-                value: (s) => SHIPMENT_STATE[s.status].label,
-                cell: (s) => (
+      <Notice tone="caution">Bags of cement and aggregate are heavy: pack and lift them with help, and mark the weight on each box.</Notice>
+      {canEdit && (
+        <Card title="Prepare a shipment">
+          {labs.length === 0 ? (
+            <p>No lab has accepted yet.</p>
+          ) : (
+            <PrepareForm labs={labs} defaultContents={loaderData.defaultContents} reply={actionData} busy={busy} />
+          )}
+        </Card>
+      )}
+      <Card title="Shipments">
+        <DataTable
+          caption="Shipments of the study"
+          filterLabel="Filter shipments"
+          empty="No shipments yet."
+          data={shipments}
+          columns={[
+            { id: "lab", header: "Lab", value: (s) => `${s.labCode ?? ""} ${s.labName}`.trim() },
+            {
+              id: "status",
+              header: "Status",
+              value: (s) => SHIPMENT_STATE[s.status].label,
+              cell: (s) => (
+                <>
+                  <StateBadge view={SHIPMENT_STATE[s.status]} />
+                  {s.condition === "damaged" && (
+                    <span className="mt-1 block">
+                      <Badge tone="signal">Damaged</Badge>
+                    </span>
+                  )}
+                </>
+              ),
+            },
+            { id: "contents", header: "Contents", value: (s) => s.contents },
+            { id: "carrier", header: "Carrier and tracking", value: (s) => [s.carrier, s.trackingNumber].filter(Boolean).join(" · ") || null },
+            { id: "shipped", header: "Shipped", value: (s) => s.shippedOn, cell: (s) => formatDate(s.shippedOn) },
+            {
+              id: "received",
+              header: "Received",
+              value: (s) => s.receivedOn,
+              cell: (s) =>
+                s.receivedOn ? (
                   <>
-                    <StateBadge view={SHIPMENT_STATE[s.status]} />
-                    {s.condition === "damaged" && (
-                      <span className="mt-1 block">
-                        <Badge tone="signal">Damaged</Badge>
-                      </span>
+                    {formatDate(s.receivedOn)} ({s.condition}){s.receiptNotes && <span className="block text-sm">{s.receiptNotes}</span>}
+                    {s.photoAttachmentId && (
+                      <a href={`/files/${s.photoAttachmentId}`} className="block text-sm font-semibold text-basalt-700 underline">
+                        Photo
+                      </a>
                     )}
                   </>
+                ) : (
+                  "—"
                 ),
-              },
-              { id: "contents", header: "Contents", value: (s) => s.contents },
-              { id: "carrier", header: "Carrier and tracking", value: (s) => [s.carrier, s.trackingNumber].filter(Boolean).join(" · ") || null },
-              { id: "shipped", header: "Shipped", value: (s) => s.shippedOn, cell: (s) => formatDate(s.shippedOn) },
-              {
-                id: "received",
-                header: "Received",
-                value: (s) => s.receivedOn,
-                cell: (s) =>
-                  s.receivedOn ? (
-                    <>
-                      {formatDate(s.receivedOn)} ({s.condition})
-                      {s.receiptNotes && <span className="block text-sm">{s.receiptNotes}</span>}
-                      {s.photoAttachmentId && (
-                        <a href={`/files/${s.photoAttachmentId}`} className="block text-sm font-semibold text-basalt-700 underline">
-                          Photo
-                        </a>
-                      )}
-                    </>
-                  ) : (
-                    "—"
-                  ),
-              },
-              ...(canEdit
-                ? [
-                    {
-                      id: "actions",
-                      header: "Next step",
-                      sortable: false,
-                      value: () => null,
-                      cell: (s: (typeof shipments)[number]) =>
-                        s.status === "preparing" ? (
-                          <ShipForm shipment={s} today={today} reply={actionData} busy={busy} />
-                        ) : s.status === "shipped" ? (
-                          <Form method="post">
-                            <input type="hidden" name="intent" value="lost" />
-                            <input type="hidden" name="shipmentId" value={s.id} />
-                            <Button type="submit" variant="secondary" disabled={busy}>
-                              Mark lost
-                            </Button>
-                            <FormErrors errors={refusalOf(replyAbout(actionData, "shipmentId", s.id), "lost")} />
-                          </Form>
-                        ) : null,
-                    },
-                  ]
-                : []),
-            ]}
-          />
-        </Card>
+            },
+            ...(canEdit
+              ? [
+                  {
+                    id: "actions",
+                    header: "Next step",
+                    sortable: false,
+                    value: () => null,
+                    cell: (s: (typeof shipments)[number]) =>
+                      s.status === "preparing" ? (
+                        <ShipForm shipment={s} today={today} reply={actionData} busy={busy} />
+                      ) : s.status === "shipped" ? (
+                        <Form method="post">
+                          <input type="hidden" name="intent" value="lost" />
+                          <input type="hidden" name="shipmentId" value={s.id} />
+                          <Button type="submit" variant="secondary" disabled={busy}>
+                            Mark lost
+                          </Button>
+                          <FormErrors errors={refusalOf(replyAbout(actionData, "shipmentId", s.id), "lost")} />
+                        </Form>
+                      ) : null,
+                  },
+                ]
+              : []),
+          ]}
+        />
+      </Card>
     </div>
   );
 }

@@ -147,7 +147,7 @@ export default function StatementPage({ loaderData, actionData }: Route.Componen
                 <Notice tone="caution">Results or decisions changed after this version was frozen (data version now {study.dataVersion}). Freeze a new version before sending.</Notice>
               )}
               {latest.state === "draft" && !loaderData.draftingRefusal ? (
-                <TextForm statement={latest} reply={actionData} />
+                <TextForm key={latest.id} statement={latest} reply={actionData} />
               ) : (
                 <StatementTexts textE691={latest.textE691} textC670={latest.textC670} />
               )}
