@@ -82,6 +82,13 @@ export async function action({ request, context }: Route.ActionArgs) {
   if (submission.status !== "success") return refuse(submission);
   const form = submission.value;
   if (OWNER_ONLY.has(form.intent) && study.ownerId !== user.id) notFound();
+  const transitionFromSetup = async (to: StudyState) => {
+    if (!MOVES_FROM_SETUP.includes(to)) throw new TransitionRefusal("The committee review moves the study into review and publication.");
+    const check = await transitionStudy(study, to, user.id);
+    if (!check.allowed) throw new TransitionRefusal(check.problems.join(" "));
+    const message = [`The study is now: ${STATE_LABEL[to]}.`, ...check.warnings].join(" ");
+    return { message, tone: check.warnings.length > 0 ? ("info" as const) : ("success" as const) };
+  };
   // Each change either confirms with a message or is refused beside its field.
   const change = async (): Promise<{ message: string; to?: string; tone?: "success" | "info" }> => {
     switch (form.intent) {
@@ -122,13 +129,6 @@ export async function action({ request, context }: Route.ActionArgs) {
       case "transition":
         return transitionFromSetup(form.to);
     }
-  };
-  const transitionFromSetup = async (to: StudyState) => {
-    if (!MOVES_FROM_SETUP.includes(to)) throw new TransitionRefusal("The committee review moves the study into review and publication.");
-    const check = await transitionStudy(study, to, user.id);
-    if (!check.allowed) throw new TransitionRefusal(check.problems.join(" "));
-    const message = [`The study is now: ${STATE_LABEL[to]}.`, ...check.warnings].join(" ");
-    return { message, tone: check.warnings.length > 0 ? ("info" as const) : ("success" as const) };
   };
   const outcome = await withRefusals(submission, change);
   if (!outcome.ok) return outcome.reply;
