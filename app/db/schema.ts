@@ -100,6 +100,9 @@ export const studies = sqliteTable("studies", {
   createdAt: createdAt(),
 });
 
+/** A study's row, as every model and page reads it. */
+export type Study = typeof studies.$inferSelect;
+
 export const studyCoordinators = sqliteTable(
   "study_coordinators",
   {
