@@ -15,7 +15,11 @@ const PASSWORDS_DIFFER = { path: ["confirm"], message: "The two passwords differ
 
 export const firstPasswordSchema = z.object(passwordTwice).refine(samePassword, PASSWORDS_DIFFER);
 
-export const invitationAccountSchema = z.object({ name: nameField, ...passwordTwice }).refine(samePassword, PASSWORDS_DIFFER);
+// An invitation is accepted (with a new account's name and password when the invited address has none) or declined.
+export const acceptInvitationSchema = z.object({ intent: z.literal("accept") });
+export const declineInvitationSchema = z.object({ intent: z.literal("decline") });
+export const invitationAnswerSchema = z.discriminatedUnion("intent", [acceptInvitationSchema, declineInvitationSchema]);
+export const invitationAccountSchema = z.object({ intent: z.literal("accept"), name: nameField, ...passwordTwice }).refine(samePassword, PASSWORDS_DIFFER);
 
 // The account page: one form per intent, told apart by the hidden `intent` field.
 export const profileSchema = z.object({ intent: z.literal("profile"), name: nameField });
