@@ -18,7 +18,7 @@ export async function createLab(input: LabInput) {
 
 /** Changes a lab's directory entry; the name stays unique. */
 export async function updateLab(labId: number, input: LabInput) {
-  if (!(await db.query.labs.findFirst({ where: eq(labs.id, labId) }))) throw new AccountError("", "That lab no longer exists.");
+  if (!(await db.query.labs.findFirst({ where: eq(labs.id, labId) }))) throw new AccountError("form", "That lab no longer exists.");
   const sameName = await db.query.labs.findFirst({ where: eq(labs.name, input.name) });
   if (sameName && sameName.id !== labId) throw new AccountError("name", "A lab with this name already exists.");
   const [lab] = await db.update(labs).set(input).where(eq(labs.id, labId)).returning();
@@ -39,9 +39,9 @@ export async function removeColleague(labId: number, userId: number, byUserId: n
   const membership = await db.query.labMembers.findFirst({
     where: and(eq(labMembers.labId, labId), eq(labMembers.userId, userId)),
   });
-  if (!membership) throw new AccountError("", "That person is not a member of your lab.");
+  if (!membership) throw new AccountError("form", "That person is not a member of your lab.");
   if (membership.isContact || userId === byUserId) {
-    throw new AccountError("", "A lab contact cannot be removed here; ask an administrator.");
+    throw new AccountError("form", "A lab contact cannot be removed here; ask an administrator.");
   }
   await db.delete(labMembers).where(and(eq(labMembers.labId, labId), eq(labMembers.userId, userId)));
 }

@@ -2,7 +2,7 @@ import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/account";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { Button, Card, Field, Notice, PageHeader, SelectField, SimpleTable } from "~/components/ui";
 import {
   accountSchema,
@@ -131,7 +131,7 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
         <Card title="Name">
           <Form method="post" className="flex flex-col gap-4" {...getFormProps(profileForm)}>
             <input type="hidden" name="intent" value="profile" />
-            <FormErrors errors={profileForm.errors} />
+            <FormErrors errors={formWideErrors(profileForm)} />
             <Field label="Name" {...fieldProps(profileFields.name)} />
             <Button type="submit" disabled={busy}>Save name</Button>
           </Form>
@@ -139,7 +139,7 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
         <Card title="Password">
           <Form method="post" className="flex flex-col gap-4" {...getFormProps(passwordForm)}>
             <input type="hidden" name="intent" value="password" />
-            <FormErrors errors={passwordForm.errors} />
+            <FormErrors errors={formWideErrors(passwordForm)} />
             <Field label="Current password" type="password" autoComplete="current-password" {...fieldProps(passwordFields.currentPassword)} />
             <Field
               label="New password"
@@ -188,7 +188,7 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
         {targets.length > 0 ? (
           <Form method="post" className="mt-4 grid gap-4 md:grid-cols-3" {...getFormProps(tokenForm)}>
             <input type="hidden" name="intent" value="create-token" />
-            <FormErrors errors={tokenForm.errors} />
+            <FormErrors errors={formWideErrors(tokenForm)} />
             <Field label="Token name" hint="Say where it is used, e.g. the lab system's name." {...fieldProps(tokenFields.tokenName)} />
             <SelectField label="May reach" options={targets} {...fieldProps(tokenFields.target)} />
             <div className="self-end">
@@ -221,7 +221,7 @@ function RevokeTokenForm({ token, actionData }: { token: { id: number; name: str
     <Form method="post" {...getFormProps(form)}>
       <input type="hidden" name="intent" value="revoke-token" />
       <input type="hidden" name="tokenId" value={token.id} />
-      <FormErrors errors={form.errors} />
+      <FormErrors errors={formWideErrors(form)} />
       <Button type="submit" variant="secondary" aria-label={`Revoke token ${token.name}`}>Revoke</Button>
     </Form>
   );
@@ -237,7 +237,7 @@ function RemoveColleagueForm({ labId, colleague, actionData }: { labId: number; 
       <input type="hidden" name="intent" value="remove-colleague" />
       <input type="hidden" name="labId" value={labId} />
       <input type="hidden" name="userId" value={colleague.id} />
-      <FormErrors errors={form.errors} />
+      <FormErrors errors={formWideErrors(form)} />
       <Button type="submit" variant="secondary" aria-label={`Remove ${colleague.name}`}>Remove</Button>
     </Form>
   );
@@ -273,7 +273,7 @@ function ColleaguesCard({
       <Form method="post" className="mt-4 grid gap-4 md:grid-cols-2" {...getFormProps(form)}>
         <input type="hidden" name="intent" value="add-colleague" />
         <input type="hidden" name="labId" value={labId} />
-        <FormErrors errors={form.errors} />
+        <FormErrors errors={formWideErrors(form)} />
         <Field label="Colleague's name" {...fieldProps(fields.name)} />
         <Field label="Colleague's e-mail" type="email" {...fieldProps(fields.email)} />
         <div className="md:col-span-2">

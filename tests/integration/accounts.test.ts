@@ -11,7 +11,8 @@ import { DEMO_PASSWORD } from "../../seed/demo-data";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
-import { call, cookieFrom, errorsOf, get, post, toastOf, typedValuesOf } from "../support/routes";
+import { call, cookieFrom, get, post } from "../support/routes";
+import { errorsOf, toastOf, valuesOf } from "../support/replies";
 
 beforeAll(async () => {
   await useFreshDatabase();
@@ -61,7 +62,7 @@ describe("account page", () => {
     const colleague = { intent: "add-colleague", labId: String(lab1!.id), name: "Nell Ferris", email: "nell@quarrow.example" };
     const invalid = await call(account.action, post("/account", { ...colleague, email: "not-an-email" }, contact));
     expect(errorsOf(invalid).email).toMatch(/e-mail address/);
-    expect(typedValuesOf(invalid).name).toBe("Nell Ferris");
+    expect(valuesOf(invalid).name).toBe("Nell Ferris");
     const added = await call(account.action, post("/account", colleague, contact));
     expect(await toastOf(added)).toMatch(/Nell Ferris.*e-mail/);
     const nell = await db.query.users.findFirst({ where: eq(users.email, "nell@quarrow.example") });
@@ -138,6 +139,6 @@ describe("admin pages", () => {
     const taken = await call(adminLabs.action, post("/admin/labs", { ...entry, name: "Tessel Ready-Mix QC" }, admin));
     expect(errorsOf(taken).name).toBe("A lab with this name already exists.");
     const gone = await call(adminLabs.action, post("/admin/labs", { ...entry, labId: "999999" }, admin));
-    expect(errorsOf(gone)[""]).toBe("That lab no longer exists.");
+    expect(errorsOf(gone).form).toBe("That lab no longer exists.");
   });
 });

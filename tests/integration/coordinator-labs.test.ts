@@ -12,7 +12,8 @@ import { seedDemo } from "../../seed/seed";
 import { createStudyAs } from "../support/coordinator";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
-import { call, cookieFrom, errorsOf, get, post } from "../support/routes";
+import { call, cookieFrom, get, post } from "../support/routes";
+import { errorsOf } from "../support/replies";
 
 let coordinator: string;
 let study: typeof studies.$inferSelect;

@@ -9,7 +9,8 @@ import * as reviewList from "~/routes/review/index";
 import * as reviewPage from "~/routes/review/study/ballot";
 import { DEMO_LABS } from "../../seed/demo-data";
 import { demoCookie } from "../support/demo";
-import { call, errorsOf, get, post } from "../support/routes";
+import { call, get, post } from "../support/routes";
+import { errorsOf } from "../support/replies";
 import { useReviewRound } from "../support/review";
 
 const round = useReviewRound();

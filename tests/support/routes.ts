@@ -7,7 +7,6 @@ import path from "node:path";
 import { RouterContextProvider } from "react-router";
 import routeConfig from "~/routes";
 import { sessionStorage } from "~/server/session.server";
-import { takeToast } from "~/server/toast.server";
 
 type RouteFunction = (args: never) => unknown;
 type Middleware = (args: unknown, next: () => Promise<unknown>) => unknown;
@@ -80,21 +79,4 @@ export async function sessionCookieFor(userId: number) {
   const session = await sessionStorage.getSession();
   session.set("userId", userId);
   return cookieFrom(new Headers({ "Set-Cookie": await sessionStorage.commitSession(session) }));
-}
-
-/** The first error of each field of a refused form ("" for the form as a whole), from the action's Conform reply. */
-export function errorsOf(outcome: RouteOutcome): Record<string, string> {
-  const error = (outcome.data?.result?.error ?? {}) as Record<string, string[] | null>;
-  return Object.fromEntries(Object.entries(error).flatMap(([field, messages]) => (messages?.length ? [[field, messages[0]!]] : [])));
-}
-
-/** The values a refused form is shown again with. */
-export function typedValuesOf(outcome: RouteOutcome): Record<string, unknown> {
-  return outcome.data?.result?.initialValue ?? {};
-}
-
-/** The flash message a redirect carries, as the next page shows it. */
-export async function toastOf(outcome: RouteOutcome) {
-  const { toast } = await takeToast(get("/", cookieFrom(outcome.headers)));
-  return toast?.message ?? null;
 }

@@ -2,7 +2,7 @@ import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/labs";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { Button, Card, Field, PageHeader, SimpleTable } from "~/components/ui";
 import { labSchema } from "~/lib/account-forms";
 import { createLab, listLabs, updateLab } from "~/models/lab.server";
@@ -46,7 +46,7 @@ export default function AdminLabs({ loaderData, actionData }: Route.ComponentPro
       <Card title={editing ? `Edit ${editing.name}` : "New lab"} className="my-6">
         <Form method="post" className="grid gap-4 md:grid-cols-2" key={editing?.id ?? "new"} {...getFormProps(form)}>
           {editing && <input type="hidden" name="labId" value={editing.id} />}
-          <FormErrors errors={form.errors} />
+          <FormErrors errors={formWideErrors(form)} />
           <Field label="Name" {...fieldProps(fields.name)} />
           <Field label="Address" {...fieldProps(fields.address)} />
           <Field label="Contact name" {...fieldProps(fields.contactName)} />

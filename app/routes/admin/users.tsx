@@ -2,7 +2,7 @@ import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, useNavigation } from "react-router";
 import type { Route } from "./+types/users";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { Badge, Button, Card, Field, PageHeader, SelectField, SimpleTable } from "~/components/ui";
 import { ROLES } from "~/db/values";
 import { FieldRefusal } from "~/lib/field-refusal";
@@ -50,7 +50,7 @@ export async function action({ request }: Route.ActionArgs) {
       return redirectWithToast("/admin/users", "Account updated.");
     }
     case "disable": {
-      if (input.userId === admin.id) return refusal({ "": ["You cannot disable your own account."] });
+      if (input.userId === admin.id) return refusal({ form: ["You cannot disable your own account."] });
       const disabled = input.disabled === "true";
       await setDisabled(input.userId, disabled);
       if (disabled) await endAllSessions(input.userId);
@@ -82,7 +82,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
       <Card title="New account" className="my-6">
         <Form method="post" className="grid gap-4 md:grid-cols-3" {...getFormProps(form)}>
           <input type="hidden" name="intent" value="create" />
-          <FormErrors errors={form.errors} />
+          <FormErrors errors={formWideErrors(form)} />
           <Field label="E-mail" type="email" {...fieldProps(fields.email)} />
           <Field label="Name" {...fieldProps(fields.name)} />
           <SelectField label="Role" options={ROLE_OPTIONS} {...fieldProps(fields.role)} />
@@ -124,7 +124,7 @@ function UpdateUserForm({ user, labOptions, reply }: { user: UserRow; labOptions
     <Form method="post" className="flex flex-wrap items-end gap-2" {...getFormProps(form)}>
       <input type="hidden" name="intent" value="update" />
       <input type="hidden" name="userId" value={user.id} />
-      <FormErrors errors={form.errors} />
+      <FormErrors errors={formWideErrors(form)} />
       <CompactSelect label={`Role of ${user.email}`} id={`role-${user.id}`} name={fields.role.name} defaultValue={fields.role.initialValue as string} options={ROLE_OPTIONS} />
       <CompactSelect label={`Lab of ${user.email}`} id={`lab-${user.id}`} name={fields.labId.name} defaultValue={(fields.labId.initialValue as string) ?? ""} options={labOptions} />
       <label className="flex items-center gap-1">
@@ -146,7 +146,7 @@ function DisableUserForm({ user, reply }: { user: UserRow; reply: ActionData }) 
       <Button type="submit" variant="secondary" aria-label={`${user.disabled ? "Enable" : "Disable"} ${user.email}`}>
         {user.disabled ? "Enable" : "Disable"}
       </Button>
-      <FormErrors errors={form.errors} />
+      <FormErrors errors={formWideErrors(form)} />
     </Form>
   );
 }

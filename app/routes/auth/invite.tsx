@@ -2,7 +2,7 @@ import { getFormProps, type Submission } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/invite";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { Button, Card, Field, MessagePage } from "~/components/ui";
 import { acceptInvitationSchema, declineInvitationSchema, invitationAccountSchema, invitationAnswerSchema } from "~/lib/account-forms";
 import { formatDate } from "~/lib/format";
@@ -127,7 +127,7 @@ function NewAccountForm({ email, actionData, busy }: { email: string; actionData
   return (
     <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
       <input type="hidden" name="intent" value="accept" />
-      <FormErrors errors={form.errors} />
+      <FormErrors errors={formWideErrors(form)} />
       <p>Set up your account: you will sign in with {email} and this password.</p>
       <Field label="Your name" autoComplete="name" {...fieldProps(fields.name)} />
       <Field label="New password" type="password" autoComplete="new-password" hint="At least 12 characters" {...fieldProps(fields.password)} />
@@ -144,7 +144,7 @@ function AcceptSignedInForm({ labName, actionData, busy }: { labName: string; ac
   return (
     <Form method="post" className="flex flex-col gap-2" {...getFormProps(form)}>
       <input type="hidden" name="intent" value="accept" />
-      <FormErrors errors={form.errors} />
+      <FormErrors errors={formWideErrors(form)} />
       <div>
         <Button type="submit" disabled={busy}>
           Accept for {labName}
@@ -160,7 +160,7 @@ function DeclineForm({ actionData, busy }: { actionData: ActionData; busy: boole
     <Card title="Decline">
       <Form method="post" className="flex flex-col gap-2" {...getFormProps(form)}>
         <input type="hidden" name="intent" value="decline" />
-        <FormErrors errors={form.errors} />
+        <FormErrors errors={formWideErrors(form)} />
         <p>If your lab cannot take part, decline so the coordinator can invite another lab.</p>
         <div>
           <Button type="submit" variant="secondary" disabled={busy}>

@@ -2,7 +2,7 @@ import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, useNavigation } from "react-router";
 import type { Route } from "./+types/welcome";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { Button, Card, Field, MessagePage } from "~/components/ui";
 import { firstPasswordSchema } from "~/lib/account-forms";
 import { lookupWelcome, setFirstPassword, type WelcomeLookup } from "~/models/welcome.server";
@@ -58,7 +58,7 @@ export default function Welcome({ loaderData, actionData }: Route.ComponentProps
       <p>Set your password. You will sign in with {account!.email} and this password.</p>
       <Card>
         <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
-          <FormErrors errors={form.errors} />
+          <FormErrors errors={formWideErrors(form)} />
           <Field label="New password" type="password" autoComplete="new-password" hint="At least 12 characters" {...fieldProps(fields.password)} />
           <Field label="Repeat the password" type="password" autoComplete="new-password" {...fieldProps(fields.confirm)} />
           <Button type="submit" disabled={busy}>

@@ -4,7 +4,7 @@ import { data, Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/ballot";
 import { LazyCharts } from "~/components/charts/lazy-charts";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { PrecisionTables } from "~/components/precision-tables";
 import { StateBadge } from "~/components/state-badge";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
@@ -222,7 +222,7 @@ function VoteForm({
   return (
     <Form method="post" className="flex flex-col gap-3" {...getFormProps(form)}>
       <input type="hidden" name="intent" value="vote" />
-      <FormErrors errors={form.errors} />
+      <FormErrors errors={formWideErrors(form)} />
       <fieldset aria-describedby={choiceError ? `${fields.choice.id}-error` : undefined}>
         <legend className="mb-1 font-semibold text-basalt-800">{own ? "Change your vote" : "Your vote"}</legend>
         <div className="flex flex-wrap gap-4">
@@ -255,7 +255,7 @@ function CommentForm({ actionData }: { actionData: ActionData }) {
   return (
     <Form method="post" className="flex flex-col gap-3" {...getFormProps(form)}>
       <input type="hidden" name="intent" value="comment" />
-      <FormErrors errors={form.errors} />
+      <FormErrors errors={formWideErrors(form)} />
       <TextAreaField label="Add a comment" {...fieldProps(fields.body)} />
       <div>
         <Button type="submit" variant="secondary">
