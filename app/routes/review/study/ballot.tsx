@@ -12,6 +12,7 @@ import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, TextAreaField } from "~/components/ui";
 import { formatDateTime } from "~/lib/format";
 import { reviewRefusal } from "~/lib/review/write-rules";
+import { studyPageMeta } from "~/lib/study-page-meta";
 import { STATEMENT_STATE, VOTE_CHOICE } from "~/lib/state-labels";
 import { studyAnalysis } from "~/models/analysis.server";
 import { addComment, castVote, commentsOn, ReviewError } from "~/models/review.server";
@@ -22,7 +23,7 @@ import { redirectWithToast } from "~/server/toast.server";
 
 export const handle: StudyPageHandle = { pageTitle: "Review" };
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Review — ${data?.study.code ?? "Study"} · Ringbatch` }];
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta("Review", matches);
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, user } = requireStudy(context, ["reviewer"]);
   // The committee sees only versions that were sent to it, never a coordinator's draft.
