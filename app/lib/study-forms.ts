@@ -6,20 +6,24 @@ import { z } from "zod";
 import { RESPONSE_KINDS, STUDY_STATES } from "~/db/values";
 import { emailField } from "~/lib/validation";
 
+// Conform hands a blank field to the schema as undefined; the older forms still send "". Both mean "left blank".
+
 const optionalText = (max: number, label: string) =>
-  z.string().trim().max(max, { message: `Keep the ${label} to ${max} characters or fewer.` });
+  z.string().trim().max(max, { message: `Keep the ${label} to ${max} characters or fewer.` }).default("");
 
 const optionalDate = z
   .union([z.literal(""), z.iso.date({ message: "Enter a date as YYYY-MM-DD." })])
-  .transform((v) => (v === "" ? null : v));
+  .optional()
+  .transform((v) => v || null);
 
 /** A number typed in a form; blank becomes null. */
 const optionalNumber = (message: string) =>
   z
     .string()
     .trim()
+    .optional()
     .transform((v, ctx) => {
-      if (v === "") return null;
+      if (!v) return null;
       const n = Number(v.replace(",", "."));
       if (!Number.isFinite(n)) {
         ctx.addIssue({ code: "custom", message });
