@@ -36,17 +36,21 @@ export function draftProblems(draft: EntryDraft): Record<string, string> {
   return problems;
 }
 
-const draftField = z
-  .string({ message: DRAFT_UNREADABLE })
-  .transform((text, ctx) => {
-    try {
-      return JSON.parse(text) as unknown;
-    } catch {
-      ctx.addIssue({ code: "custom", message: DRAFT_UNREADABLE });
-      return z.NEVER;
-    }
-  })
-  .pipe(entryDraftSchema);
+// The draft is checked inside the transform, so a form library's handling of blank fields ("" to undefined) never reaches the JSON's blanks.
+const draftField = z.string({ message: DRAFT_UNREADABLE }).transform((text, ctx): EntryDraft => {
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch {
+    json = undefined;
+  }
+  const draft = entryDraftSchema.safeParse(json);
+  if (!draft.success) {
+    ctx.addIssue({ code: "custom", message: DRAFT_UNREADABLE });
+    return z.NEVER;
+  }
+  return draft.data;
+});
 
 export const draftSaveSchema = z.object({ intent: z.literal("draft"), draft: draftField });
 

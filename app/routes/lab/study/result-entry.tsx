@@ -138,8 +138,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     // Only the photo form sends a file; the body was not read past it.
     return data({ result: { status: "error", error: { photo: ["The photo is larger than 10 MB."] } } as SubmissionResult<string[]> }, { status: 400 });
   }
-  // The draft's JSON keeps its blank fields as "", so the form's values are taken as sent (the browser's check turns blanks into undefined; the schema reads both alike).
-  const submission = parseWithZod(form, { schema: resultEntrySchema, disableAutoCoercion: true });
+  const submission = parseWithZod(form, { schema: resultEntrySchema });
   if (submission.status !== "success") return refuse(submission);
   const input = submission.value;
   switch (input.intent) {
