@@ -8,6 +8,7 @@ import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
 import { call, get } from "../support/routes";
+import { errorsOf, toastOf, valuesOf } from "../support/replies";
 
 // The file store reads its directory when first loaded, so point it at a scratch directory before any import.
 vi.hoisted(() => {
@@ -40,7 +41,7 @@ describe("surface photos per replicate", () => {
   it("accepts a PNG named .jpg as a PNG, judged from its bytes, and links it to the replicate", async () => {
     const cookie = await demoCookie("analyst5@ringbatch.example"); // lab index 4: a draft of F1
     const outcome = await call(entry.action, uploadPhoto(PNG, "surface.jpg", cookie), { studyId, materialId: f1 });
-    expect(outcome.data).toMatchObject({ uploaded: true, replicate: 1 });
+    expect(await toastOf(outcome)).toBe("Photo of replicate 1 added.");
     const attachment = (await db.select().from(attachments)).at(-1)!;
     expect(attachment).toMatchObject({ contentType: "image/png", originalName: "surface.jpg", sizeBytes: PNG.length });
     const linked = await db.select().from(results).where(eq(results.photoAttachmentId, attachment.id));
@@ -52,7 +53,8 @@ describe("surface photos per replicate", () => {
     const before = (await db.select().from(attachments)).length;
     const outcome = await call(entry.action, uploadPhoto(new TextEncoder().encode("just some notes, not a picture"), "notes.png", cookie, "2"), { studyId, materialId: f1 });
     expect(outcome.status).toBe(400);
-    expect(outcome.data).toMatchObject({ replicate: 2, error: "This file is not a JPG, PNG, WEBP file (judged from its contents, not its name)." });
+    expect(errorsOf(outcome).photo).toBe("This file is not a JPG, PNG, WEBP file (judged from its contents, not its name).");
+    expect(valuesOf(outcome).replicate).toBe("2");
     expect((await db.select().from(attachments)).length).toBe(before);
   });
 
@@ -74,6 +76,6 @@ describe("surface photos per replicate", () => {
     const cookie = await demoCookie("analyst7@ringbatch.example"); // lab index 6: nothing entered
     const outcome = await call(entry.action, uploadPhoto(PNG, "surface.png", cookie), { studyId, materialId: f1 });
     expect(outcome.status).toBe(400);
-    expect(outcome.data.error).toBe("Enter a result of replicate 1 before adding its photo.");
+    expect(errorsOf(outcome).photo).toBe("Enter a result of replicate 1 before adding its photo.");
   });
 });

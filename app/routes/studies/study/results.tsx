@@ -11,7 +11,7 @@ import { requireStudy } from "~/server/study-context.server";
 import { studyBatchMarks } from "~/models/batch.server";
 import { studyAuditTrail, studyResults } from "~/models/results.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Results" };
+export const handle = { pageTitle: "Results" } satisfies StudyPageHandle;
 
 export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
