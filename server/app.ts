@@ -12,7 +12,10 @@ import express from "express";
 import morgan from "morgan";
 import onHeaders from "on-headers";
 import { answerRepeatPrecisionRead } from "~/server/api-repeat-reads.server";
+import { assertDeploymentConfig, refuseBeforeReading } from "~/server/deployment.server";
 import { applySecurityHeaders } from "~/server/security-headers.server";
+
+assertDeploymentConfig();
 
 const clientFiles = fileURLToPath(new URL("../client", import.meta.url));
 const logRequest = morgan("tiny");
@@ -45,6 +48,7 @@ app.use(createRequestHandler({ build: () => import("virtual:react-router/server-
 
 export async function handleRequest(request: IncomingMessage, response: ServerResponse) {
   logRequest(request, response, () => undefined);
+  if (refuseBeforeReading(request, response)) return;
   try {
     const answer = await answerRepeatPrecisionRead(request.method, request.url, request.headers);
     if (answer) {

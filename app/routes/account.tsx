@@ -149,16 +149,16 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
           <Form method="post" className="flex flex-col gap-4" onSubmit={passwordCheck.onSubmit} noValidate>
             <input type="hidden" name="intent" value="password" />
             <Field label="Current password" name="currentPassword" type="password" autoComplete="current-password" error={passwordCheck.errors.currentPassword} required />
-            <Field label="New password" name="newPassword" type="password" autoComplete="new-password" hint="At least 12 characters. You will sign in again afterwards." error={passwordCheck.errors.newPassword} required />
+            <Field label="New password" name="newPassword" type="password" autoComplete="new-password" hint="At least 12 characters. You will sign in again afterwards, and your API tokens stop working." error={passwordCheck.errors.newPassword} required />
             <Field label="New password again" name="confirmPassword" type="password" autoComplete="new-password" error={passwordCheck.errors.confirmPassword} required />
             <Button type="submit" disabled={busy}>Change password</Button>
           </Form>
         </Card>
         <Card title="Sessions">
-          <p className="mb-4">Signed in on another device you no longer use? End every session, this one included.</p>
+          <p className="mb-4">Signed in on another device you no longer use? End every session, this one included; your API tokens are revoked too.</p>
           <Form method="post">
             <input type="hidden" name="intent" value="sign-out-everywhere" />
-            <Button type="submit" variant="secondary" disabled={busy}>Sign out of every session</Button>
+            <Button type="submit" variant="secondary" disabled={busy}>Sign out of every session and revoke all API tokens</Button>
           </Form>
         </Card>
       </div>
