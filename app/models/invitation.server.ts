@@ -59,6 +59,7 @@ export async function inviteLab(study: Study, labId: number, actorUserId: number
       url: appUrl(request, invitationPath(token, study.id)),
       expiresOn: expiresAt.toISOString().slice(0, 10),
     }),
+    { studyId: study.id },
   );
   return { token };
 }

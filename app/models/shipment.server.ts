@@ -96,6 +96,7 @@ export async function markShipped(
         shippedOn: input.shippedOn,
         url: appUrl(request, `/lab/studies/${study.id}/receipt`),
       }),
+      { studyId: study.id },
     );
   }
 }

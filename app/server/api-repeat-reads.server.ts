@@ -96,7 +96,7 @@ export async function answerRepeatPrecisionRead(method: string | undefined, url:
     body: bytes,
   });
   try {
-    enforceRateLimit(reader.rateKey);
+    await enforceRateLimit(reader.rateKey);
   } catch (error) {
     if (!(error instanceof ApiError)) throw error;
     return answer(error.status, Buffer.from(JSON.stringify(errorBody(error))));
