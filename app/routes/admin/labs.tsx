@@ -1,6 +1,7 @@
 import { data, Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/labs";
+import { wholeNumberParam } from "~/lib/query-params";
 import { Button, Card, Field, Notice, PageHeader, SimpleTable } from "~/components/ui";
 import { recordAudit } from "~/server/audit.server";
 import { type FieldErrors, parseForm } from "~/lib/forms";
@@ -24,7 +25,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   await requireRole(request, "admin");
   const labs = await listLabs();
   // `?edit=<id>` opens that lab's entry in the form.
-  const editId = Number(new URL(request.url).searchParams.get("edit"));
+  const editId = wholeNumberParam(new URL(request.url).searchParams, "edit");
   return { labs, editing: labs.find((l) => l.id === editId) ?? null };
 }
 

@@ -2,6 +2,7 @@ import { Link } from "react-router";
 import type { Route } from "./+types/results";
 import { CellStatusBadge } from "~/components/cell-status-badge";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
+import { wholeNumberParam } from "~/lib/query-params";
 import { requireStudy } from "~/server/study-context.server";
 import { studyBatchMarks } from "~/models/batch.server";
 import { studyAuditTrail, studyResults } from "~/models/results.server";
@@ -11,7 +12,7 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `Results · ${da
 export async function loader({ request, context }: Route.LoaderArgs) {
   const { study } = requireStudy(context, ["coordinator", "admin"]);
   const search = new URL(request.url).searchParams;
-  const pageParam = (name: string) => Math.max(1, Number(search.get(name)) || 1);
+  const pageParam = (name: string) => wholeNumberParam(search, name) ?? 1;
   const [table, audit, marks] = await Promise.all([studyResults(study.id, pageParam("labs")), studyAuditTrail(study.id, pageParam("page")), studyBatchMarks(study.id)]);
   const marksByCell = new Map(marks.map((m) => [`${m.enrollmentId}:${m.materialId}`, m.readings]));
   const rows = table.rows.map((row) => ({ ...row, fresh: marksByCell.get(`${row.enrollmentId}:${row.materialId}`) ?? [] }));
