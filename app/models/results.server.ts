@@ -66,7 +66,11 @@ async function enrollmentCells(executor: Pick<typeof db, "select">, enrollmentId
 /** Checks rows against the study and the lab's cells; rows with a problem are left out of `resolved`. */
 function resolveRows(frame: StudyFrame, existingCells: Map<string, typeof cells.$inferSelect>, rows: ResultInputRow[], options: { valueRequired: boolean }) {
   const submittedCells = new Set([...existingCells].filter(([, c]) => c.status === "submitted").map(([key]) => key));
-  return resolveResultRows({ replicatesPerCell: frame.study.replicatesPerCell, materials: frame.materials, responses: frame.responses, submittedCells }, rows, options);
+  return resolveResultRows(
+    { replicatesPerCell: frame.study.replicatesPerCell, materials: frame.materials, responses: frame.responses, submittedCells, studyEnd: frame.study.resultsDue },
+    rows,
+    options,
+  );
 }
 
 type Change = { material: string; response: string; replicate: number; before: number | null; after: number | null };
