@@ -4,7 +4,7 @@
  * error shape — `{ "error": { "code", "message", "details"? } }` — for every
  * failure. Nothing from inside (a stack trace, a SQL message) ever leaves.
  */
-import { type StudyAccess, getUser, studyAccessFor } from "~/server/guards.server";
+import { enrollmentEnded, type StudyAccess, getUser, studyAccessFor } from "~/server/guards.server";
 import { activeApiToken, type ApiToken } from "~/models/api-token.server";
 import { loadSessionUser, type SessionUser } from "~/models/user.server";
 import { API_REQUESTS, consume } from "~/server/rate-limit.server";
@@ -84,6 +84,7 @@ export async function requireApiStudyAccess(request: Request, studyIdParam: stri
   if (caller.token && (caller.token.scope !== "study:read" || caller.token.studyId !== studyId)) throw notYours();
   const found = await studyAccessFor(caller.user, studyId);
   if (!found || !allowed.includes(found.access)) throw notYours();
+  if (found.access === "analyst" && enrollmentEnded(found.enrollment)) throw notYours();
   return { ...caller, ...found };
 }
 

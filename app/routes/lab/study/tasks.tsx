@@ -2,6 +2,7 @@ import { Link } from "react-router";
 import type { Route } from "./+types/tasks";
 import { CellStatusBadge } from "~/components/cell-status-badge";
 import { Badge, Card, Notice, PageHeader, SimpleTable } from "~/components/ui";
+import { enrollmentEnded } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
 import { STATE_LABEL } from "~/lib/state-labels";
 import { enrollmentWorklist } from "~/models/results.server";
@@ -9,13 +10,17 @@ import { enrollmentWorklist } from "~/models/results.server";
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.study.code ?? "Study"} · My lab · Ringbatch` }];
 
 export async function loader({ context }: Route.LoaderArgs) {
-  const { enrollment } = requireStudy(context, ["analyst"]);
+  const { study: frame, enrollment } = requireStudy(context, ["analyst"], { endedEnrollment: true });
+  // A lab that declined or was withdrawn sees the notice only.
+  if (enrollmentEnded(enrollment)) {
+    return { ended: enrollment!.state as "declined" | "withdrawn", study: { id: frame.id, code: frame.code, title: frame.title } };
+  }
   const worklist = await enrollmentWorklist(enrollment!);
   const { study } = worklist;
   return {
     study: { id: study.id, code: study.code, title: study.title, state: study.state, resultsDue: study.resultsDue, testMethod: study.testMethod },
+    ended: null,
     labCode: enrollment!.labCode,
-    withdrawn: enrollment!.state === "withdrawn",
     shipment: worklist.shipment,
     materials: worklist.materials,
   };
@@ -24,7 +29,16 @@ export async function loader({ context }: Route.LoaderArgs) {
 const SHIPMENT_LABEL = { preparing: "Being prepared", shipped: "On its way", received: "Received", lost: "Lost in transit" } as const;
 
 export default function LabStudy({ loaderData }: Route.ComponentProps) {
-  const { study, labCode, withdrawn, shipment, materials } = loaderData;
+  if (loaderData.ended) {
+    return (
+      <Notice>
+        {loaderData.ended === "withdrawn"
+          ? "The coordinator has withdrawn your lab from this study. Your results are kept as they are, but they can no longer change and are not part of the analysis."
+          : "Your lab declined the invitation to this study, so its pages are closed to you. Ask the coordinator if this was a mistake."}
+      </Notice>
+    );
+  }
+  const { study, labCode, shipment, materials } = loaderData;
   const base = `/lab/studies/${study.id}`;
   return (
     <>
@@ -43,12 +57,6 @@ export default function LabStudy({ loaderData }: Route.ComponentProps) {
         }
       />
       <div className="grid gap-6 [&>*]:min-w-0">
-        {withdrawn && (
-          <Notice>
-            The coordinator has withdrawn your lab from this study. Your results are kept as they are, but they can no longer change and are not part of
-            the analysis.
-          </Notice>
-        )}
         <Card title="Materials received">
           <p className="mb-2">
             Shipment: {shipment ? SHIPMENT_LABEL[shipment.status] : "not yet sent"}
