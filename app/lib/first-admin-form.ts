@@ -5,3 +5,6 @@ import { emailField, nameField, newPasswordField } from "~/lib/validation";
 export const firstAdminSchema = z
   .object({ name: nameField, email: emailField, password: newPasswordField, confirm: z.string({ message: "Repeat the password." }) })
   .refine((v) => v.password === v.confirm, { path: ["confirm"], message: "The two passwords differ." });
+
+/** How long the one-time setup link works. */
+export const SETUP_LINK_MINUTES = 30;

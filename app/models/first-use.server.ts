@@ -8,6 +8,9 @@ import { and, count, eq, gt, isNull } from "drizzle-orm";
 import { db, type Database } from "~/db/client.server";
 import { setupLinks, users } from "~/db/schema";
 import { FieldRefusal } from "~/lib/field-refusal";
+import { SETUP_LINK_MINUTES } from "~/lib/first-admin-form";
+
+export { SETUP_LINK_MINUTES };
 import { isProduction } from "~/server/deployment.server";
 import { hashPassword, normaliseEmail } from "~/models/user.server";
 import { DEMO_PEOPLE } from "../../seed/demo-data";
@@ -31,7 +34,6 @@ export async function demoDataPresent(database: Database = db) {
   return Boolean(row);
 }
 
-export const SETUP_LINK_MINUTES = 30;
 
 const hashToken = (token: string) => createHash("sha256").update(token).digest("hex");
 
