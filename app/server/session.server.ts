@@ -3,7 +3,7 @@ import { and, eq, isNull } from "drizzle-orm";
 import { createCookie, createSessionStorage } from "react-router";
 import { db } from "~/db/client.server";
 import { apiTokens, sessions } from "~/db/schema";
-import { isProduction } from "~/server/deployment.server";
+import { assertDeploymentConfig } from "~/server/deployment.server";
 
 const SESSION_LIFETIME_SECONDS = 60 * 60 * 12;
 
@@ -14,7 +14,8 @@ const SESSION_LIFETIME_SECONDS = 60 * 60 * 12;
  */
 function configuredSecrets(env: NodeJS.ProcessEnv = process.env) {
   if (env.SESSION_SECRET) return env.SESSION_SECRET.split(",");
-  if (isProduction(env)) throw new Error("SESSION_SECRET must be set in production.");
+  // In production this throws, naming every missing setting.
+  assertDeploymentConfig(env);
   return ["ringbatch-local-session-secret"];
 }
 export const sessionSecrets = configuredSecrets();
