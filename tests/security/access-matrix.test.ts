@@ -14,6 +14,7 @@ import { composeEmail, sendEmail } from "~/server/email.server";
 import { storeUpload } from "~/server/uploads.server";
 import routeConfig from "~/routes";
 import { DEMO_LABS } from "../../seed/demo-data";
+import { ONE_PIXEL_PNG } from "./support";
 import { useFreshDatabase } from "../support/database";
 import { call, type RouteOutcome } from "../support/routes";
 import { EXPECTED, type Method } from "./access-matrix.expected";
@@ -23,7 +24,7 @@ import { type Persona, PERSONAS, seedPersonas } from "./personas";
 type RouteEntry = { path?: string; file: string; index?: boolean; children?: RouteEntry[] };
 
 const ORIGIN = "http://ringbatch.test";
-const PNG = Uint8Array.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 0]);
+const PNG = ONE_PIXEL_PNG;
 
 let cookieFor: (persona: Persona) => Promise<string | undefined>;
 let params: Record<string, string>;
@@ -50,7 +51,7 @@ beforeAll(async () => {
   const photo = await storeUpload(new File([PNG], "surface.png"), { allowed: ["image/png"], maxBytes: 1024, uploadedBy: analyst.id });
   const [cell] = await db.select().from(cells).where(and(eq(cells.enrollmentId, own.id), eq(cells.materialId, material.id)));
   await db.update(results).set({ photoAttachmentId: photo.id }).where(eq(results.cellId, cell!.id));
-  const message = await sendEmail(composeEmail({ to: "someone@ringbatch.example", subject: "Test", greeting: "Hello", paragraphs: ["Body"] }));
+  const message = await sendEmail(composeEmail({ to: "someone@ringbatch.example", subject: "Test", greeting: "Hello", paragraphs: ["Body"] }), { studyId: study.id });
   params = {
     studyId: String(study.id),
     materialId: String(material.id),
