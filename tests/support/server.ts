@@ -34,6 +34,8 @@ export async function startServer(extraEnv: Record<string, string> = {}, { datab
   const buildDirectory = extraEnv.BUILD_DIR ?? process.env.BUILD_DIR ?? "build";
   const serverBuild = join(buildDirectory, "server/index.js");
   if (!existsSync(serverBuild)) throw new Error(`No build at ${serverBuild}: run \`npm run build\` before the browser tests.`);
+  // A prepared database already has its accounts, so the first-use step would write nothing: skip its start-up cost.
+  const prepared = databaseUrl !== undefined;
   databaseUrl ??= `file:${join(mkdtempSync(join(tmpdir(), "ringbatch-e2e-")), "e2e.db")}`;
   const port = await freePort();
   const url = `http://localhost:${port}`;
@@ -50,7 +52,7 @@ export async function startServer(extraEnv: Record<string, string> = {}, { datab
     ...extraEnv,
     BUILD_DIR: buildDirectory,
   };
-  for (const script of ["scripts/db-setup.ts", "scripts/db-seed.ts"]) {
+  for (const script of prepared ? ["scripts/db-setup.ts"] : ["scripts/db-setup.ts", "scripts/db-seed.ts"]) {
     const setup = spawnSync("node_modules/.bin/tsx", [script], { env, encoding: "utf8" });
     if (setup.status !== 0) throw new Error(`${script} failed: ${setup.stderr}`);
   }
