@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 
 export const emailField = z.email({ message: "Enter an e-mail address such as name@example.org." }).trim().max(254);
 
@@ -6,7 +7,8 @@ export const nameField = z
   .string({ message: "Enter a name." })
   .trim()
   .min(1, { message: "Enter a name." })
-  .max(120, { message: "Keep the name to 120 characters or fewer." });
+  .max(120, { message: "Keep the name to 120 characters or fewer." })
+  .superRefine(refuseUnsafeCharacters());
 
 export const newPasswordField = z
   .string({ message: "Use at least 12 characters." })

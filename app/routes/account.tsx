@@ -145,7 +145,7 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
               label="New password"
               type="password"
               autoComplete="new-password"
-              hint="At least 12 characters. You will sign in again afterwards."
+              hint="At least 12 characters. You will sign in again afterwards, and your API tokens stop working."
               {...fieldProps(passwordFields.newPassword)}
             />
             <Field label="New password again" type="password" autoComplete="new-password" {...fieldProps(passwordFields.confirmPassword)} />
@@ -153,10 +153,10 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
           </Form>
         </Card>
         <Card title="Sessions">
-          <p className="mb-4">Signed in on another device you no longer use? End every session, this one included.</p>
+          <p className="mb-4">Signed in on another device you no longer use? End every session, this one included; your API tokens are revoked too.</p>
           <Form method="post" {...getFormProps(signOutForm)}>
             <input type="hidden" name="intent" value="sign-out-everywhere" />
-            <Button type="submit" variant="secondary" disabled={busy}>Sign out of every session</Button>
+            <Button type="submit" variant="secondary" disabled={busy}>Sign out of every session and revoke all API tokens</Button>
           </Form>
         </Card>
       </div>

@@ -5,6 +5,7 @@ import type { Route } from "./+types/labs";
 import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { Button, Card, Field, PageHeader, SimpleTable } from "~/components/ui";
 import { labSchema } from "~/lib/account-forms";
+import { wholeNumberParam } from "~/lib/query-params";
 import { createLab, listLabs, updateLab } from "~/models/lab.server";
 import { recordAudit } from "~/server/audit.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
@@ -17,7 +18,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   await requireRole(request, "admin");
   const labs = await listLabs();
   // `?edit=<id>` opens that lab's entry in the form.
-  const editId = Number(new URL(request.url).searchParams.get("edit"));
+  const editId = wholeNumberParam(new URL(request.url).searchParams, "edit");
   return { labs, editing: labs.find((l) => l.id === editId) ?? null };
 }
 

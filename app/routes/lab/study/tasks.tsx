@@ -8,6 +8,7 @@ import { formatDate } from "~/lib/format";
 import { SHIPMENT_STATE } from "~/lib/state-labels";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { enrollmentWorklist } from "~/models/results.server";
+import { enrollmentEnded } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
 
 export const handle = { pageTitle: "Tasks" } satisfies StudyPageHandle;
@@ -15,19 +16,30 @@ export const handle = { pageTitle: "Tasks" } satisfies StudyPageHandle;
 export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta("Tasks", matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
-  const { enrollment } = requireStudy(context, ["analyst"]);
+  const { enrollment } = requireStudy(context, ["analyst"], { endedEnrollment: true });
+  // A lab that declined or was withdrawn sees the notice only.
+  if (enrollmentEnded(enrollment)) return { ended: enrollment!.state as "declined" | "withdrawn" } as const;
   const worklist = await enrollmentWorklist(enrollment!);
   const { study } = worklist;
   return {
+    ended: null,
     study: { id: study.id, resultsDue: study.resultsDue, testMethod: study.testMethod },
-    withdrawn: enrollment!.state === "withdrawn",
     shipment: worklist.shipment,
     materials: worklist.materials,
   };
 }
 
 export default function LabStudy({ loaderData }: Route.ComponentProps) {
-  const { study, withdrawn, shipment, materials } = loaderData;
+  if (loaderData.ended) {
+    return (
+      <Notice>
+        {loaderData.ended === "withdrawn"
+          ? "The coordinator has withdrawn your lab from this study. Your results are kept as they are, but they can no longer change and are not part of the analysis."
+          : "Your lab declined the invitation to this study, so its pages are closed to you. Ask the coordinator if this was a mistake."}
+      </Notice>
+    );
+  }
+  const { study, shipment, materials } = loaderData;
   const base = `/lab/studies/${study.id}`;
   return (
     <div className="grid gap-6 [&>*]:min-w-0">
@@ -43,12 +55,6 @@ export default function LabStudy({ loaderData }: Route.ComponentProps) {
           Import results from CSV
         </Link>
       </div>
-      {withdrawn && (
-        <Notice>
-          The coordinator has withdrawn your lab from this study. Your results are kept as they are, but they can no longer change and are not part of the
-          analysis.
-        </Notice>
-      )}
       <Card title="Materials received">
         <p className="mb-2">
           Shipment: {shipment ? <StateBadge view={SHIPMENT_STATE[shipment.status]} /> : "not yet sent"}
