@@ -6,3 +6,4 @@ export * from "./interpretation";
 export * from "./homogeneity";
 export * from "./stability";
 export * from "./score-round";
+export * from "./round-precision";
