@@ -9,10 +9,12 @@ const NAV_BY_ROLE: Record<Role, { to: string; label: string }[]> = {
     { to: "/admin/users", label: "Users" },
     { to: "/admin/labs", label: "Labs" },
     { to: "/studies", label: "Studies" },
+    { to: "/rounds", label: "Rounds" },
   ],
   coordinator: [
     { to: "/studies", label: "Studies" },
     { to: "/studies/new", label: "New study" },
+    { to: "/rounds", label: "Rounds" },
   ],
   analyst: [{ to: "/lab", label: "My lab" }],
   reviewer: [{ to: "/review", label: "Reviews" }],
