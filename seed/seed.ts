@@ -33,6 +33,7 @@ import {
   demoResults,
   FLOAT_FINISHING_RESPONSES,
 } from "./demo-data";
+import { seedDemoRounds } from "./rounds";
 
 type StudySpec = {
   code: string;
@@ -222,4 +223,5 @@ export async function seedDemo(db: Database) {
       }
     });
   }
+  await seedDemoRounds(db, { coordinatorId, labIds, userId });
 }

@@ -56,7 +56,8 @@ describe("role guards", () => {
     const outcome = await call(lab.loader, get("/lab", await demoCookie("analyst1@ringbatch.example")));
     const labNames = new Set(outcome.data.enrollments.map((e: { labName: string }) => e.labName));
     expect([...labNames]).toEqual(["Quarrow County Materials Lab"]);
-    expect(outcome.data.enrollments).toHaveLength(2);
+    // The two demo studies, the published precision study and the two proficiency rounds.
+    expect(outcome.data.enrollments).toHaveLength(5);
   });
 
   it("lists the studies assigned to a reviewer", async () => {

@@ -86,9 +86,10 @@ describe("API authentication", () => {
 describe("API endpoints by role", () => {
   it("lists each role's studies", async () => {
     const list = async (email: string) => (await call(studyList.loader, get("/api/v1/studies", await demoCookie(email)))).data.studies.map((s: { code: string }) => s.code);
-    expect(await list("admin@ringbatch.example")).toEqual(["FF-2026-A", "FF-2026-B"]);
-    expect(await list("coordinator@ringbatch.example")).toEqual(["FF-2026-A", "FF-2026-B"]);
-    expect(await list("analyst3@ringbatch.example")).toEqual(["FF-2026-A", "FF-2026-B"]);
+    const everyDemoStudy = ["FF-2025-P", "FF-2026-A", "FF-2026-B", "PT-2026-1", "PT-2026-2"];
+    expect(await list("admin@ringbatch.example")).toEqual(everyDemoStudy);
+    expect(await list("coordinator@ringbatch.example")).toEqual(everyDemoStudy);
+    expect(await list("analyst3@ringbatch.example")).toEqual(everyDemoStudy);
     expect(await list("reviewer2@ringbatch.example")).toEqual(["FF-2026-A", "FF-2026-B"]);
   });
 

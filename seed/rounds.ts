@@ -1,0 +1,155 @@
+/**
+ * The demo's proficiency rounds: a published precision study to take σ_pt
+ * from, a published round of twelve labs with one unsatisfactory and one
+ * questionable score planted, and a round in testing. Built through the
+ * product's own round functions, so the demo is what the pages would make.
+ */
+import { and, eq } from "drizzle-orm";
+import type { Database } from "~/db/client.server";
+import { cells, enrollments, labMembers, labs, materials, precisionStatements, responses, results, studies } from "~/db/schema";
+import { analyzeStudy, type ResultRow } from "~/lib/precision";
+import { c670Text, e691Text, type StatementSnapshot } from "~/lib/statement-text";
+import { createRound, publishRound, saveChecks } from "~/models/round.server";
+import { DEMO_MATERIALS, demoResults, FLOAT_FINISHING_RESPONSES, generator } from "./demo-data";
+import { PUBLISHED_ROUND_PLANTS, PUBLISHED_STUDY, ROUND_BASE, ROUND_CHECKS, ROUND_EXTRA_ANALYSTS, ROUND_EXTRA_LABS, ROUND_MATERIALS } from "./rounds-data";
+
+type Ids = { coordinatorId: number; labIds: number[]; userId: (email: string, name: string, role: "analyst") => Promise<number> };
+
+async function seedPublishedStudy(db: Database, { coordinatorId, labIds }: Ids) {
+  const existing = await db.query.studies.findFirst({ where: eq(studies.code, PUBLISHED_STUDY.code) });
+  if (existing) return existing;
+  const designs = PUBLISHED_STUDY.materials.map((code) => DEMO_MATERIALS.find((m) => m.code === code)!);
+  const values = demoResults(PUBLISHED_STUDY.materials, 3, PUBLISHED_STUDY.resultSeed);
+  const rows: ResultRow[] = values.map((v) => ({ lab: PUBLISHED_STUDY.labCodes[v.labIndex]!, material: v.material, response: v.response, replicate: v.replicate, value: v.value }));
+  const analysis = analyzeStudy(rows, { responseKinds: { holes: "count", surface: "count" } });
+  return db.transaction(async (tx) => {
+    const [study] = await tx
+      .insert(studies)
+      .values({
+        code: PUBLISHED_STUDY.code,
+        title: PUBLISHED_STUDY.title,
+        testMethod: "Float finishing test of fresh concrete",
+        notes: PUBLISHED_STUDY.notes,
+        state: "published",
+        replicatesPerCell: 3,
+        targetSurfaceRating: 2,
+        resultsDue: "2025-10-31",
+        ownerId: coordinatorId,
+        dataVersion: 1,
+      })
+      .returning();
+    const responseRows = await tx.insert(responses).values(FLOAT_FINISHING_RESPONSES.map((r, i) => ({ ...r, studyId: study!.id, decimals: 0, sortOrder: i }))).returning();
+    const materialRows = await tx.insert(materials).values(designs.map((m, i) => ({ studyId: study!.id, code: m.code, description: m.description, sortOrder: i }))).returning();
+    for (const [labIndex, labId] of labIds.slice(0, 8).entries()) {
+      const [enrollment] = await tx.insert(enrollments).values({ studyId: study!.id, labId, labCode: PUBLISHED_STUDY.labCodes[labIndex], state: "accepted" }).returning();
+      for (const material of materialRows) {
+        for (const response of responseRows) {
+          const [cell] = await tx.insert(cells).values({ enrollmentId: enrollment!.id, materialId: material.id, responseId: response.id, status: "submitted", submittedAt: new Date("2025-10-20") }).returning();
+          const cellValues = values.filter((v) => v.labIndex === labIndex && v.material === material.code && v.response === response.key);
+          await tx.insert(results).values(cellValues.map((v) => ({ cellId: cell!.id, replicate: v.replicate, value: v.value, testedOn: "2025-10-14" })));
+        }
+      }
+    }
+    const snapshot: StatementSnapshot = {
+      study: { code: study!.code, title: study!.title, testMethod: study!.testMethod },
+      dataVersion: 1,
+      frozenAt: "2025-12-01T10:00:00.000Z",
+      labs: 8,
+      replicates: 3,
+      materials: designs.map(({ code, description }) => ({ code, description })),
+      responses: FLOAT_FINISHING_RESPONSES.map(({ key, name, unit }) => ({ key, name, unit, decimals: 0 })),
+      analysis,
+    };
+    await tx.insert(precisionStatements).values({ studyId: study!.id, version: 1, state: "approved", textE691: e691Text(snapshot), textC670: c670Text(snapshot), snapshot, dataVersion: 1, createdBy: coordinatorId, sentAt: new Date("2025-12-02") });
+    return study!;
+  });
+}
+
+/** Fresh lab codes for a round: a shuffle of L01…L12, the same on every machine. */
+function roundCodes(seed: number, count: number) {
+  const next = generator(seed);
+  const codes = Array.from({ length: count }, (_, i) => `L${String(i + 1).padStart(2, "0")}`);
+  for (let i = codes.length - 1; i > 0; i--) {
+    const j = Math.floor(next() * (i + 1));
+    [codes[i], codes[j]] = [codes[j]!, codes[i]!];
+  }
+  return codes;
+}
+
+async function enterRoundResults(db: Database, roundId: number, labIds: number[], { seed, submittedLabs, plants = [] }: { seed: number; submittedLabs: number[]; plants?: readonly { labIndex: number; material: string; response: string; values: readonly number[] }[] }) {
+  const codes = roundCodes(seed, labIds.length);
+  const next = generator(seed + 1);
+  const normal = () => Math.sqrt(-2 * Math.log(1 - next())) * Math.cos(2 * Math.PI * next());
+  const materialRows = await db.select().from(materials).where(eq(materials.studyId, roundId));
+  const responseRows = await db.select().from(responses).where(eq(responses.studyId, roundId));
+  for (const [labIndex, labId] of labIds.entries()) {
+    const [enrollment] = await db.insert(enrollments).values({ studyId: roundId, labId, labCode: codes[labIndex], state: "accepted", invitedAt: new Date("2026-03-02"), respondedAt: new Date("2026-03-06") }).returning();
+    if (!submittedLabs.includes(labIndex)) continue;
+    for (const material of materialRows) {
+      for (const response of responseRows) {
+        const base = ROUND_BASE[material.code as keyof typeof ROUND_BASE][response.key as "holes" | "surface"];
+        const bias = 0.6 * normal();
+        const planted = plants.find((p) => p.labIndex === labIndex && p.material === material.code && p.response === response.key);
+        const values = planted ? [...planted.values] : [1, 2].map(() => Math.max(1, Math.round(base + bias + 0.6 * normal())));
+        const [cell] = await db.insert(cells).values({ enrollmentId: enrollment!.id, materialId: material.id, responseId: response.id, status: "submitted", submittedAt: new Date("2026-04-20") }).returning();
+        await db.insert(results).values(values.map((value, i) => ({ cellId: cell!.id, replicate: i + 1, value, testedOn: "2026-04-15" })));
+      }
+    }
+  }
+}
+
+async function enterChecks(db: Database, round: typeof studies.$inferSelect, coordinatorId: number) {
+  const materialRows = await db.select().from(materials).where(eq(materials.studyId, round.id));
+  const responseRows = await db.select().from(responses).where(eq(responses.studyId, round.id));
+  for (const material of materialRows) {
+    for (const response of responseRows) {
+      const checks = ROUND_CHECKS[`${material.code}:${response.key}`]!;
+      await saveChecks(round, coordinatorId, { intent: "checks", materialId: material.id, responseId: response.id, homogeneity: checks.homogeneity, stability: checks.stability, justification: "" });
+    }
+  }
+}
+
+export async function seedDemoRounds(db: Database, ids: Ids) {
+  const source = await seedPublishedStudy(db, ids);
+  const roundLabIds = [...ids.labIds];
+  for (const [i, lab] of ROUND_EXTRA_LABS.entries()) {
+    const analyst = ROUND_EXTRA_ANALYSTS[i]!;
+    let row = await db.query.labs.findFirst({ where: eq(labs.name, lab.name) });
+    row ??= (await db.insert(labs).values({ ...lab, contactName: analyst.name, contactEmail: analyst.email }).returning())[0]!;
+    roundLabIds.push(row.id);
+    const analystId = await ids.userId(analyst.email, analyst.name, "analyst");
+    await db.insert(labMembers).values({ labId: row.id, userId: analystId, isContact: true }).onConflictDoNothing();
+  }
+
+  if (!(await db.query.studies.findFirst({ where: eq(studies.code, "PT-2026-1") }))) {
+    const round = await createRound(ids.coordinatorId, {
+      code: "PT-2026-1",
+      title: "Float finishing proficiency round, spring 2026",
+      sourceStudyId: source.id,
+      testMethod: "",
+      replicatesPerCell: 2,
+      materials: ROUND_MATERIALS,
+      resultsDue: "2026-04-24",
+    });
+    await db.update(studies).set({ state: "testing", shipDate: "2026-03-30" }).where(eq(studies.id, round.id));
+    await enterRoundResults(db, round.id, roundLabIds, { seed: 2611, submittedLabs: roundLabIds.map((_, i) => i), plants: PUBLISHED_ROUND_PLANTS });
+    const checking = (await db.query.studies.findFirst({ where: eq(studies.id, round.id) }))!;
+    await enterChecks(db, checking, ids.coordinatorId);
+    await db.update(studies).set({ state: "checking" }).where(and(eq(studies.id, round.id), eq(studies.state, "testing")));
+    await publishRound({ ...checking, state: "checking" }, ids.coordinatorId);
+  }
+
+  if (!(await db.query.studies.findFirst({ where: eq(studies.code, "PT-2026-2") }))) {
+    const round = await createRound(ids.coordinatorId, {
+      code: "PT-2026-2",
+      title: "Float finishing proficiency round, autumn 2026",
+      sourceStudyId: source.id,
+      testMethod: "",
+      replicatesPerCell: 2,
+      materials: ROUND_MATERIALS.map((m) => ({ ...m, description: m.description.replace("PT26-1", "PT26-2") })),
+      resultsDue: "2026-12-18",
+    });
+    await db.update(studies).set({ state: "testing", shipDate: "2026-11-16" }).where(eq(studies.id, round.id));
+    await enterRoundResults(db, round.id, roundLabIds, { seed: 2602, submittedLabs: [0, 2, 4, 6, 8, 10] });
+  }
+}
