@@ -12,9 +12,9 @@ const blankToNull = (v: string) => (v.trim() === "" ? null : v.trim());
 const optionalNumber = (message: string) =>
   z
     .string()
-    .default("")
+    .optional()
     .transform((v, ctx) => {
-      const text = blankToNull(v);
+      const text = blankToNull(v ?? "");
       if (text === null) return null;
       const n = Number(text.replace(",", "."));
       if (!Number.isFinite(n)) {
@@ -31,10 +31,22 @@ export const newRoundSchema = z.object({
   title: z.string().trim().min(1, { message: "Enter a title." }).max(200, { message: "Keep the title to 200 characters or fewer." }),
   sourceStudyId: z
     .string()
-    .default("")
-    .transform((v) => (v === "" ? null : Number(v)))
-    .pipe(z.number().int().positive().nullable()),
-  testMethod: z.string().trim().max(200, { message: "Keep the test method to 200 characters or fewer." }).default(""),
+    .optional()
+    .transform((v, ctx) => {
+      if (!v) return null;
+      const id = Number(v);
+      if (!Number.isSafeInteger(id) || id <= 0) {
+        ctx.addIssue({ code: "custom", message: "Choose a published study from the list." });
+        return z.NEVER;
+      }
+      return id;
+    }),
+  testMethod: z
+    .string()
+    .trim()
+    .max(200, { message: "Keep the test method to 200 characters or fewer." })
+    .optional()
+    .transform((v) => v ?? ""),
   replicatesPerCell: z.coerce
     .number({ message: "Enter 1, 2 or 3 replicates." })
     .int({ message: "Enter 1, 2 or 3 replicates." })
@@ -65,8 +77,8 @@ export const newRoundSchema = z.object({
     }),
   resultsDue: z
     .union([z.literal(""), z.iso.date({ message: "Enter the date as YYYY-MM-DD." })])
-    .default("")
-    .transform((v) => (v === "" ? null : v)),
+    .optional()
+    .transform((v) => v || null),
 });
 
 export const assignmentSchema = z
@@ -105,8 +117,8 @@ export const checksSchema = z.object({
   responseId: z.coerce.number().int().positive(),
   homogeneity: z
     .string()
-    .default("")
-    .transform((text, ctx) => {
+    .optional()
+    .transform((text = "", ctx) => {
       const lines = numberLines(text);
       const bad = lines.findIndex((values) => values.length !== 2 || values.some((n) => !Number.isFinite(n)));
       if (bad >= 0) {
@@ -121,8 +133,8 @@ export const checksSchema = z.object({
     }),
   stability: z
     .string()
-    .default("")
-    .transform((text, ctx) => {
+    .optional()
+    .transform((text = "", ctx) => {
       const values = numberLines(text).flat();
       if (values.some((n) => !Number.isFinite(n))) {
         ctx.addIssue({ code: "custom", message: "Enter one number per line (or several separated by spaces)." });
@@ -130,7 +142,12 @@ export const checksSchema = z.object({
       }
       return values;
     }),
-  justification: z.string().trim().max(2000, { message: "Keep the justification to 2000 characters or fewer." }).default(""),
+  justification: z
+    .string()
+    .trim()
+    .max(2000, { message: "Keep the justification to 2000 characters or fewer." })
+    .optional()
+    .transform((v) => v ?? ""),
 });
 
 export const roundTransitionSchema = z.object({
