@@ -50,6 +50,7 @@ export default [
   ...prefix("lab", [
     index("routes/lab/index.tsx"),
     route("queries", "routes/lab/queries.tsx"),
+    route("rounds", "routes/lab/rounds/index.tsx"),
     route("rounds/:roundId", "routes/lab/rounds/round/layout.tsx", [
       index("routes/lab/rounds/round/uncertainty.tsx"),
       route("letter", "routes/lab/rounds/round/letter.tsx"),

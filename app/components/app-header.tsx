@@ -16,7 +16,10 @@ const NAV_BY_ROLE: Record<Role, { to: string; label: string }[]> = {
     { to: "/studies/new", label: "New study" },
     { to: "/rounds", label: "Rounds" },
   ],
-  analyst: [{ to: "/lab", label: "My lab" }],
+  analyst: [
+    { to: "/lab", label: "My lab" },
+    { to: "/lab/rounds", label: "Rounds" },
+  ],
   reviewer: [{ to: "/review", label: "Reviews" }],
 };
 

@@ -139,4 +139,34 @@ describe("a proficiency round in the browser", { timeout: 180_000 }, () => {
     const refused = await outside.goto(`${running.server.url}/lab/rounds/${roundId}/letter`);
     expect(refused?.status()).toBe(404);
   });
+
+  it("shows the demo's published round with its planted scores, on accessible pages", async () => {
+    const coordinator = await signedIn("coordinator@ringbatch.example");
+    await coordinator.goto(`${running.server.url}/rounds`);
+    await expectAccessible(coordinator);
+    await coordinator.getByRole("link", { name: "PT-2026-1" }).click();
+    await coordinator.waitForURL(/\/rounds\/\d+$/);
+    const base = coordinator.url();
+    for (const page of ["", "/assigned-values", "/material-checks", "/report"]) {
+      const response = await coordinator.goto(base + page);
+      expect(response?.status(), page).toBe(200);
+      await expectAccessible(coordinator);
+    }
+    // On the report: Kestrel Ridge is unsatisfactory on R1's surface, Ostrade questionable on R2's holes.
+    const r1 = groupCard(coordinator, `R1 · ${RESPONSES.surface}`);
+    await expect.poll(() => r1.getByRole("row", { name: /Kestrel Ridge Ready-Mix QC/ }).textContent()).toContain("Unsatisfactory (action signal)");
+    const r2 = groupCard(coordinator, `R2 · ${RESPONSES.holes}`);
+    await expect.poll(() => r2.getByRole("row", { name: /Ostrade Highway District Lab/ }).textContent()).toContain("Questionable (warning signal)");
+    expect(await coordinator.getByText("Unsatisfactory (action signal)").count()).toBe(1);
+    expect(await coordinator.getByText("Questionable (warning signal)").count()).toBe(1);
+
+    const ostrade = await signedIn("analyst4@ringbatch.example");
+    await ostrade.getByRole("link", { name: "Rounds" }).click();
+    await ostrade.waitForURL(/\/lab\/rounds$/);
+    await expectAccessible(ostrade);
+    await ostrade.getByRole("row", { name: /PT-2026-1/ }).getByRole("link", { name: "Read the letter" }).click();
+    await ostrade.waitForURL(/\/lab\/rounds\/\d+\/letter$/);
+    await expect.poll(() => groupCard(ostrade, `R2 · ${RESPONSES.holes}`).textContent()).toContain("Questionable (warning signal)");
+    await expectAccessible(ostrade);
+  });
 });

@@ -70,6 +70,7 @@ export const EXPECTED: Record<string, Partial<Record<Method, Record<Persona, num
   "rounds/:roundId/material-checks": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
   "rounds/:roundId/scores": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
   "rounds/:roundId/report": { GET: row(302, 200, 200, 404, 404, 404, 404, 404) },
+  "lab/rounds": { GET: row(302, 404, 404, 404, 200, 200, 404, 404) },
   "lab/rounds/:roundId [layout]": { GET: row(302, 404, 404, 404, 200, 404, 404, 404) },
   "lab/rounds/:roundId": { GET: row(302, 404, 404, 404, 200, 404, 404, 404), POST: row(302, 404, 404, 404, 400, 404, 404, 404) },
   "lab/rounds/:roundId/letter": { GET: row(302, 404, 404, 404, 200, 404, 404, 404) },
