@@ -140,14 +140,13 @@ export async function createRound(ownerId: number, input: z.infer<typeof newRoun
       .values(input.materials.map((m, sortOrder) => ({ ...m, studyId: round!.id, sortOrder })))
       .returning();
     await tx.insert(roundSettings).values({ studyId: round!.id, sourceStudyId: source?.study.id ?? null, precision });
-    // σ_pt defaults to the published precision where the source study gave figures for the response, else to the round's s*.
     await tx.insert(roundAssignments).values(
       insertedMaterials.flatMap((material) =>
         insertedResponses.map((response) => ({
           studyId: round!.id,
           materialId: material.id,
           responseId: response.id,
-          sigmaMethod: precision.responses[response.key] ? ("precision" as const) : ("robust" as const),
+          sigmaMethod: defaultSigmaMethod(precision, response.key),
         })),
       ),
     );
@@ -162,6 +161,33 @@ async function settingsOf(studyId: number) {
   return { ...settings, precision: settings.precision as RoundPrecision, publishedReport: settings.publishedReport as PublishedRound | null };
 }
 
+/** σ_pt follows the published precision where the source study gave figures for the response, else the round's s*. */
+function defaultSigmaMethod(precision: RoundPrecision, responseKey: string) {
+  return precision.responses[responseKey] ? ("precision" as const) : ("robust" as const);
+}
+
+/**
+ * The choice row of one material × response of the round, made with the
+ * defaults when the material or response was added after the round was set
+ * up; refused when either is not the round's.
+ */
+async function assignmentRowFor(study: Study, materialId: number, responseId: number) {
+  const [material, response] = await Promise.all([
+    db.query.materials.findFirst({ where: and(eq(materials.id, materialId), eq(materials.studyId, study.id)) }),
+    db.query.responses.findFirst({ where: and(eq(responses.id, responseId), eq(responses.studyId, study.id)) }),
+  ]);
+  if (!material || !response) throw new FieldRefusal("form", "That material and response are not part of this round.");
+  const settings = await settingsOf(study.id);
+  await db
+    .insert(roundAssignments)
+    .values({ studyId: study.id, materialId, responseId, sigmaMethod: defaultSigmaMethod(settings.precision, response.key) })
+    .onConflictDoNothing();
+  const row = await db.query.roundAssignments.findFirst({
+    where: and(eq(roundAssignments.studyId, study.id), eq(roundAssignments.materialId, materialId), eq(roundAssignments.responseId, responseId)),
+  });
+  return { row: row!, response, settings };
+}
+
 /** The round's materials × responses with the coordinator's choices and the entered check results. */
 export async function roundDesign(studyId: number) {
   const [materialRows, responseRows, assignmentRows, checkRows, settings] = await Promise.all([
@@ -173,7 +199,14 @@ export async function roundDesign(studyId: number) {
   ]);
   const groups = materialRows.flatMap((material) =>
     responseRows.map((response) => {
-      const assignment = assignmentRows.find((a) => a.materialId === material.id && a.responseId === response.id) ?? null;
+      const assignment = assignmentRows.find((a) => a.materialId === material.id && a.responseId === response.id) ?? {
+        assignedMethod: "consensus" as const,
+        referenceValue: null,
+        referenceUncertainty: null,
+        sigmaMethod: defaultSigmaMethod(settings.precision, response.key),
+        fixedSigma: null,
+        checkJustification: "",
+      };
       const checks = checkRows.filter((c) => c.materialId === material.id && c.responseId === response.id);
       const homogeneity: [number, number][] = [];
       for (const row of checks.filter((c) => c.check === "homogeneity")) {
@@ -206,31 +239,20 @@ export async function saveAssignment(study: Study, actorUserId: number, input: z
     updatedBy: actorUserId,
     updatedAt: new Date(),
   };
-  if (input.sigmaMethod === "precision") {
-    const settings = await settingsOf(study.id);
-    const response = await db.query.responses.findFirst({ where: and(eq(responses.id, input.responseId), eq(responses.studyId, study.id)) });
-    if (!response || !settings.precision.responses[response.key]) {
-      throw new FieldRefusal("sigmaMethod", "This round has no published precision for the response; choose the round's s* or a fixed value.");
-    }
+  const { row, response, settings } = await assignmentRowFor(study, input.materialId, input.responseId);
+  if (input.sigmaMethod === "precision" && !settings.precision.responses[response.key]) {
+    throw new FieldRefusal("sigmaMethod", "This round has no published precision for the response; choose the round's s* or a fixed value.");
   }
   await db.transaction(async (tx) => {
-    const updated = await tx
-      .update(roundAssignments)
-      .set(values)
-      .where(and(eq(roundAssignments.studyId, study.id), eq(roundAssignments.materialId, input.materialId), eq(roundAssignments.responseId, input.responseId)))
-      .returning({ id: roundAssignments.id });
-    if (updated.length === 0) throw new FieldRefusal("form", "That material and response are not part of this round.");
-    await recordAudit({ actorUserId, action: "round_assignment_saved", entityType: "round_assignment", entityId: updated[0]!.id, studyId: study.id, after: values }, tx);
+    await tx.update(roundAssignments).set(values).where(eq(roundAssignments.id, row.id));
+    await recordAudit({ actorUserId, action: "round_assignment_saved", entityType: "round_assignment", entityId: row.id, studyId: study.id, after: values }, tx);
   });
 }
 
 /** Replaces the homogeneity and stability results of one material × response, and the justification, in one transaction. */
 export async function saveChecks(study: Study, actorUserId: number, input: z.infer<typeof checksSchema>) {
   assertNotPublished(study);
-  const assignment = await db.query.roundAssignments.findFirst({
-    where: and(eq(roundAssignments.studyId, study.id), eq(roundAssignments.materialId, input.materialId), eq(roundAssignments.responseId, input.responseId)),
-  });
-  if (!assignment) throw new FieldRefusal("form", "That material and response are not part of this round.");
+  const { row: assignment } = await assignmentRowFor(study, input.materialId, input.responseId);
   const rows = [
     ...input.homogeneity.flatMap(([first, second], index) => [
       { check: "homogeneity" as MaterialCheck, sample: index + 1, replicate: 1, value: first },
@@ -333,7 +355,7 @@ export async function scoreRound(study: Study): Promise<RoundGroup[]> {
       }
     }
     const entries = [...byLab.values()];
-    const assignment = group.assignment!;
+    const assignment = group.assignment;
     const assigned =
       assignment.assignedMethod === "reference"
         ? { method: "reference" as const, value: assignment.referenceValue!, uncertainty: assignment.referenceUncertainty ?? 0 }
@@ -347,6 +369,7 @@ export async function scoreRound(study: Study): Promise<RoundGroup[]> {
     let refusal: string | null = null;
     let sigmaBasis = assignment.sigmaMethod === "precision" ? "" : SIGMA_BASIS[assignment.sigmaMethod];
     try {
+      if (entries.length < 2) throw new ScoringRefusal("Scores need submitted results from at least 2 labs.");
       let sigma: SigmaPtChoice;
       if (assignment.sigmaMethod === "fixed") sigma = { method: "fixed", value: assignment.fixedSigma! };
       else if (assignment.sigmaMethod === "robust") sigma = { method: "robust" };

@@ -80,6 +80,27 @@ describe("the demo's published round", () => {
   });
 });
 
+describe("a material added to a round after it was set up", () => {
+  it("is scored with the default choices, and its choice can be saved", async () => {
+    const round = await studyByCode("PT-2026-2");
+    const params = { roundId: String(round.id) };
+    const [added] = await db.insert(materials).values({ studyId: round.id, code: "R3", description: "Added on the setup page", sortOrder: 9 }).returning();
+    const page = await call(assignedValues.loader, get(`/rounds/${round.id}/assigned-values`, coordinator), params);
+    const group = page.data.groups.find((g: any) => g.material.code === "R3");
+    expect(group.assignment).toMatchObject({ assignedMethod: "consensus", sigmaMethod: "precision" });
+    expect(group.scored.refusal).toMatch(/at least 2 labs/);
+    const holes = (await db.query.responses.findFirst({ where: (r, { and, eq }) => and(eq(r.studyId, round.id), eq(r.key, "holes")) }))!;
+    const saved = await call(
+      assignedValues.action,
+      post(`/rounds/${round.id}/assigned-values`, { intent: "assignment", materialId: String(added!.id), responseId: String(holes.id), assignedMethod: "reference", referenceValue: "8", referenceUncertainty: "0.2", sigmaMethod: "fixed", fixedSigma: "1" }, coordinator),
+      params,
+    );
+    expect(saved.status).toBe(302);
+    const again = await call(assignedValues.loader, get(`/rounds/${round.id}/assigned-values`, coordinator), params);
+    expect(again.data.groups.find((g: any) => g.material.code === "R3" && g.response.key === "holes").assignment).toMatchObject({ assignedMethod: "reference", referenceValue: 8, fixedSigma: 1 });
+  });
+});
+
 describe("a round from the published study, run to publication", () => {
   let roundId: number;
   const params = () => ({ roundId: String(roundId) });
