@@ -27,6 +27,9 @@ export const PUBLISHED_STUDY = {
   resultSeed: 2025,
 };
 
+/** Results of the earlier round (autumn 2025), in which every lab scored satisfactory. */
+export const PREVIOUS_ROUND_SEED = 2511;
+
 export const ROUND_MATERIALS = [
   { code: "R1", description: "Reference paving mix (as M1 of the precision study), lot PT26-1A" },
   { code: "R2", description: "Fly ash paving mix (as M2 of the precision study), lot PT26-1B" },

@@ -11,7 +11,7 @@ import { analyzeStudy, type ResultRow } from "~/lib/precision";
 import { c670Text, e691Text, type StatementSnapshot } from "~/lib/statement-text";
 import { createRound, publishRound, saveChecks } from "~/models/round.server";
 import { DEMO_MATERIALS, demoResults, FLOAT_FINISHING_RESPONSES, generator } from "./demo-data";
-import { PUBLISHED_ROUND_PLANTS, PUBLISHED_STUDY, ROUND_BASE, ROUND_CHECKS, ROUND_EXTRA_ANALYSTS, ROUND_EXTRA_LABS, ROUND_MATERIALS } from "./rounds-data";
+import { PREVIOUS_ROUND_SEED, PUBLISHED_ROUND_PLANTS, PUBLISHED_STUDY, ROUND_BASE, ROUND_CHECKS, ROUND_EXTRA_ANALYSTS, ROUND_EXTRA_LABS, ROUND_MATERIALS } from "./rounds-data";
 
 type Ids = { coordinatorId: number; labIds: number[]; userId: (email: string, name: string, role: "analyst") => Promise<number> };
 
@@ -109,6 +109,31 @@ async function enterChecks(db: Database, round: typeof studies.$inferSelect, coo
   }
 }
 
+async function seedPublishedRound(
+  db: Database,
+  ids: Ids,
+  sourceId: number,
+  labIds: number[],
+  spec: { code: string; title: string; lot: string; seed: number; publishedAt: Date; plants?: typeof PUBLISHED_ROUND_PLANTS },
+) {
+  if (await db.query.studies.findFirst({ where: eq(studies.code, spec.code) })) return;
+  const round = await createRound(ids.coordinatorId, {
+    code: spec.code,
+    title: spec.title,
+    sourceStudyId: sourceId,
+    testMethod: "",
+    replicatesPerCell: 2,
+    materials: ROUND_MATERIALS.map((m) => ({ ...m, description: m.description.replace("PT26-1", spec.lot) })),
+    resultsDue: null,
+  });
+  await db.update(studies).set({ state: "testing" }).where(eq(studies.id, round.id));
+  await enterRoundResults(db, round.id, labIds, { seed: spec.seed, submittedLabs: labIds.map((_, i) => i), plants: spec.plants });
+  const testing = (await db.query.studies.findFirst({ where: eq(studies.id, round.id) }))!;
+  await enterChecks(db, testing, ids.coordinatorId);
+  await db.update(studies).set({ state: "checking" }).where(and(eq(studies.id, round.id), eq(studies.state, "testing")));
+  await publishRound({ ...testing, state: "checking" }, ids.coordinatorId, spec.publishedAt);
+}
+
 export async function seedDemoRounds(db: Database, ids: Ids) {
   const source = await seedPublishedStudy(db, ids);
   const roundLabIds = [...ids.labIds];
@@ -121,23 +146,9 @@ export async function seedDemoRounds(db: Database, ids: Ids) {
     await db.insert(labMembers).values({ labId: row.id, userId: analystId, isContact: true }).onConflictDoNothing();
   }
 
-  if (!(await db.query.studies.findFirst({ where: eq(studies.code, "PT-2026-1") }))) {
-    const round = await createRound(ids.coordinatorId, {
-      code: "PT-2026-1",
-      title: "Float finishing proficiency round, spring 2026",
-      sourceStudyId: source.id,
-      testMethod: "",
-      replicatesPerCell: 2,
-      materials: ROUND_MATERIALS,
-      resultsDue: "2026-04-24",
-    });
-    await db.update(studies).set({ state: "testing", shipDate: "2026-03-30" }).where(eq(studies.id, round.id));
-    await enterRoundResults(db, round.id, roundLabIds, { seed: 2611, submittedLabs: roundLabIds.map((_, i) => i), plants: PUBLISHED_ROUND_PLANTS });
-    const checking = (await db.query.studies.findFirst({ where: eq(studies.id, round.id) }))!;
-    await enterChecks(db, checking, ids.coordinatorId);
-    await db.update(studies).set({ state: "checking" }).where(and(eq(studies.id, round.id), eq(studies.state, "testing")));
-    await publishRound({ ...checking, state: "checking" }, ids.coordinatorId);
-  }
+  // An earlier round, all satisfactory, so each letter has a history; then the round with the planted scores.
+  await seedPublishedRound(db, ids, source.id, roundLabIds, { code: "PT-2025-2", title: "Float finishing proficiency round, autumn 2025", lot: "PT25-2", seed: PREVIOUS_ROUND_SEED, publishedAt: new Date("2025-11-28T15:00:00Z") });
+  await seedPublishedRound(db, ids, source.id, roundLabIds, { code: "PT-2026-1", title: "Float finishing proficiency round, spring 2026", lot: "PT26-1", seed: 2611, publishedAt: new Date("2026-05-08T15:00:00Z"), plants: PUBLISHED_ROUND_PLANTS });
 
   if (!(await db.query.studies.findFirst({ where: eq(studies.code, "PT-2026-2") }))) {
     const round = await createRound(ids.coordinatorId, {

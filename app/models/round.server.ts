@@ -435,12 +435,11 @@ export function publicationProblems(study: Pick<Study, "state">, groups: RoundGr
  * refuse any later change) and moves the round to published, in one
  * transaction that only succeeds if the round is still checking.
  */
-export async function publishRound(study: Study, actorUserId: number) {
+export async function publishRound(study: Study, actorUserId: number, publishedAt = new Date()) {
   const groups = await scoreRound(study);
   const problems = publicationProblems(study, groups);
   if (problems.length) throw new FieldRefusal("form", problems.join(" "));
   const settings = await settingsOf(study.id);
-  const publishedAt = new Date();
   const report: PublishedRound = {
     code: study.code,
     title: study.title,

@@ -56,8 +56,8 @@ describe("role guards", () => {
     const outcome = await call(lab.loader, get("/lab", await demoCookie("analyst1@ringbatch.example")));
     const labNames = new Set(outcome.data.enrollments.map((e: { labName: string }) => e.labName));
     expect([...labNames]).toEqual(["Quarrow County Materials Lab"]);
-    // The two demo studies, the published precision study and the two proficiency rounds.
-    expect(outcome.data.enrollments).toHaveLength(5);
+    // The two demo studies, the published precision study and the three proficiency rounds.
+    expect(outcome.data.enrollments).toHaveLength(6);
   });
 
   it("lists the studies assigned to a reviewer", async () => {

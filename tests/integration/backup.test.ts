@@ -29,7 +29,7 @@ describe("backup and restore", () => {
     client.close();
     expect(copy).toEqual(original);
     // Every demo result (tests/integration/database.test.ts counts them study by study).
-    expect(original.counts.results).toBe(540);
+    expect(original.counts.results).toBe(636);
     expect(original.resultsDigest.length).toBeGreaterThan(0);
   });
 });
