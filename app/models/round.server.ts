@@ -360,7 +360,7 @@ export async function scoreRound(study: Study): Promise<RoundGroup[]> {
       assignment.assignedMethod === "reference"
         ? { method: "reference" as const, value: assignment.referenceValue!, uncertainty: assignment.referenceUncertainty ?? 0 }
         : { method: "consensus" as const };
-    const assignedBasis =
+    let assignedBasis =
       assigned.method === "reference"
         ? "A reference value with its standard uncertainty, entered by the coordinator (ISO 13528 7.4–7.6)."
         : "The consensus of the participants' results: robust average x* by Algorithm A (ISO 13528 C.3.1), standard uncertainty u = 1.25·s*/√p (ISO 13528 7.7.3).";
@@ -386,6 +386,9 @@ export async function scoreRound(study: Study): Promise<RoundGroup[]> {
     } catch (error) {
       if (!(error instanceof ScoringRefusal) && !(error instanceof RangeError)) throw error;
       refusal = error.message;
+    }
+    if (assigned.method === "consensus" && scores?.robust.degenerate) {
+      assignedBasis += " More than half the labs reported the same result, so x* is their median and s* is 0; the plain standard deviation of the results stands in for s* in u.";
     }
     const sigmaPt = scores?.sigmaPt ?? null;
     const homogeneity = sigmaPt !== null && group.homogeneity.length >= 2 ? homogeneityCheck(group.homogeneity, sigmaPt) : null;

@@ -38,6 +38,17 @@ describe("scoreGroup", () => {
     expect(b.verdict).toBe("questionable");
   });
 
+  it("takes u(x_pt) from the plain standard deviation when more than half the labs agree exactly", () => {
+    const counts = [12, 12, 12, 12, 12, 13, 11, 14].map((value, index) => ({ labCode: `L${index}`, values: [value] }));
+    const scores = scoreGroup(counts, { method: "consensus" }, { method: "fixed", value: 1 }, 1);
+    expect(scores.robust.degenerate).toBe(true);
+    expect(scores.assignedValue).toBe(12);
+    // sample SD of the eight results = √(4/7) (mean 12.25); u = 1.25·s/√8
+    const mean = 12.25;
+    const sd = Math.sqrt([12, 12, 12, 12, 12, 13, 11, 14].reduce((sum, v) => sum + (v - mean) ** 2, 0) / 7);
+    expect(scores.assignedUncertainty).toBeCloseTo((1.25 * sd) / Math.sqrt(8), 12);
+  });
+
   it("refuses a robust σ_pt of zero with a reason", () => {
     const same = ["A", "B", "C", "D", "E"].map((labCode, index) => ({ labCode, values: [index === 4 ? 9 : 7] }));
     expect(() => scoreGroup(same, { method: "consensus" }, { method: "robust" }, 1)).toThrow(ScoringRefusal);

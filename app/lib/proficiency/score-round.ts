@@ -1,3 +1,4 @@
+import { sampleStandardDeviation } from "simple-statistics";
 import { algorithmA, type RobustEstimate } from "./algorithm-a";
 import { assignedValueUncertaintyNegligible, consensusUncertainty } from "./assigned-value";
 import { interpretScore, type ScoreVerdict } from "./interpretation";
@@ -74,8 +75,10 @@ export function scoreGroup(
   const robust = algorithmA(results);
 
   const assignedValue = assigned.method === "consensus" ? robust.robustMean : assigned.value;
-  const assignedUncertainty =
-    assigned.method === "consensus" ? consensusUncertainty(robust.robustSd, robust.count) : assigned.uncertainty;
+  // When more than half the labs report the same result, s* is 0 and would give u(x_pt) = 0; the plain
+  // standard deviation of the results stands in for s* there (our rule, so the uncertainty is never understated to nothing).
+  const spreadForUncertainty = robust.degenerate ? sampleStandardDeviation(results) : robust.robustSd;
+  const assignedUncertainty = assigned.method === "consensus" ? consensusUncertainty(spreadForUncertainty, robust.count) : assigned.uncertainty;
 
   let sigmaPt: number;
   if (sigma.method === "fixed") sigmaPt = sigma.value;
