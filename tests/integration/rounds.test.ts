@@ -8,6 +8,7 @@ import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { enrollments, labs, materials, responses, roundScores, roundSettings, studies } from "~/db/schema";
+import * as apiRounds from "~/routes/api/v1/rounds";
 import * as apiScores from "~/routes/api/v1/round-scores";
 import * as letterPage from "~/routes/lab/rounds/round/letter";
 import * as assignedValues from "~/routes/rounds/round/assigned-values";
@@ -78,6 +79,24 @@ describe("the demo's published round", () => {
     const ownScores = await call(apiScores.loader, get(`/api/v1/rounds/${round.id}/scores`, analyst), params);
     expect(ownScores.data.scores.every((s: any) => s.labCode === letter.labCode)).toBe(true);
     expect(ownScores.data.scores).toHaveLength(4);
+  });
+});
+
+describe("the rounds API with a token", () => {
+  it("reads a lab's own scores with a study:read token made for the round, and nothing else", async () => {
+    const round = await studyByCode("PT-2026-1");
+    const analyst = (await db.query.users.findFirst({ where: (u, { eq }) => eq(u.email, "analyst4@ringbatch.example") }))!;
+    const { loadSessionUser } = await import("~/models/user.server");
+    const { createApiToken } = await import("~/models/api-token.server");
+    const { token } = await createApiToken((await loadSessionUser(analyst.id))!, { name: "letter script", scope: "study:read", studyId: round.id });
+    const bearer = (path: string) => new Request(`http://ringbatch.test${path}`, { headers: { Authorization: `Bearer ${token}` } });
+    const listed = await call(apiRounds.loader, bearer("/api/v1/rounds"));
+    expect(listed.data.rounds.map((r: any) => r.code)).toEqual(["PT-2026-1"]);
+    const mine = await call(apiScores.loader, bearer(`/api/v1/rounds/${round.id}/scores`), { roundId: String(round.id) });
+    expect(mine.status).toBe(200);
+    expect(new Set(mine.data.scores.map((s: any) => s.labCode))).toEqual(new Set([mine.data.labCode]));
+    const earlier = await studyByCode("PT-2025-2");
+    expect((await call(apiScores.loader, bearer(`/api/v1/rounds/${earlier.id}/scores`), { roundId: String(earlier.id) })).status).toBe(404);
   });
 });
 
