@@ -544,17 +544,6 @@ export const rateLimitHits = sqliteTable(
 );
 
 /**
- * One row whose `version` goes up with every change to what the access guards
- * read (accounts, sessions, tokens, memberships, studies and their people),
- * through triggers (drizzle/0004), whoever writes: memory that remembers a
- * guard's decision is good while the version is the same.
- */
-export const accessVersion = sqliteTable("access_version", {
-  id: integer("id").primaryKey(),
-  version: integer("version").notNull().default(0),
-});
-
-/**
  * A proficiency round's settings (a study of kind "proficiency"): the
  * published study it was set up from and that study's precision figures,
  * copied when the round was created so later changes elsewhere cannot move

@@ -1,4 +1,3 @@
-import { MaxFileSizeExceededError, parseFormData } from "@remix-run/form-data-parser";
 import { useEffect } from "react";
 import { data, Form, isRouteErrorResponse, Link, type ShouldRevalidateFunctionArgs, useFetcher } from "react-router";
 import { z } from "zod";
@@ -11,6 +10,7 @@ import { requireStudy } from "~/server/study-context.server";
 import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
 import { SAVE_STATE_TEXT, useAutosavedDraft } from "~/lib/results/use-autosaved-draft";
 import { checkResultValue, checkTestDate } from "~/lib/results/values";
+import { readUploadForm } from "~/server/upload-form.server";
 import { UploadError } from "~/server/uploads.server";
 import { freshTargets, getBatch, saveFreshProperties } from "~/models/batch.server";
 import { openQueriesOfMaterial } from "~/models/lab-queries.server";
@@ -144,13 +144,9 @@ async function saveDraft(enrollment: Enrollment, entry: Entry, draft: EntryDraft
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { user, study, enrollment, entry } = await loadEntry(context, params);
-  let form: FormData;
-  try {
-    form = await parseFormData(request, { maxFileSize: PHOTO_MAX_BYTES, maxFiles: 1 });
-  } catch (error) {
-    if (error instanceof MaxFileSizeExceededError) return data({ intent: "photo", error: "The photo is larger than 10 MB." }, { status: 400 });
-    throw error;
-  }
+  const upload = await readUploadForm(request, "photo", PHOTO_MAX_BYTES);
+  if (upload.tooLarge) return data({ intent: "photo", error: "The photo is larger than 10 MB." }, { status: 400 });
+  const form = upload.formData;
   const intent = form.get("intent");
   try {
     if (intent === "draft" || intent === "submit") {
