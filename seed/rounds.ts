@@ -131,7 +131,7 @@ async function seedPublishedRound(
   const testing = (await db.query.studies.findFirst({ where: eq(studies.id, round.id) }))!;
   await enterChecks(db, testing, ids.coordinatorId);
   await db.update(studies).set({ state: "checking" }).where(and(eq(studies.id, round.id), eq(studies.state, "testing")));
-  await publishRound({ ...testing, state: "checking" }, ids.coordinatorId, spec.publishedAt);
+  await publishRound({ ...testing, state: "checking" }, ids.coordinatorId, { publishedAt: spec.publishedAt, notify: false });
 }
 
 export async function seedDemoRounds(db: Database, ids: Ids) {

@@ -44,6 +44,7 @@ import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import type { assignmentSchema, checksSchema, newRoundSchema } from "~/lib/round-forms";
 import type { SessionUser } from "~/models/user.server";
 import { recordAudit } from "~/server/audit.server";
+import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import type { z } from "zod";
 
 type Study = typeof studies.$inferSelect;
@@ -438,7 +439,7 @@ export function publicationProblems(study: Pick<Study, "state">, groups: RoundGr
  * refuse any later change) and moves the round to published, in one
  * transaction that only succeeds if the round is still checking.
  */
-export async function publishRound(study: Study, actorUserId: number, publishedAt = new Date()) {
+export async function publishRound(study: Study, actorUserId: number, { publishedAt = new Date(), request = null, notify = true }: { publishedAt?: Date; request?: Request | null; notify?: boolean } = {}) {
   const groups = await scoreRound(study);
   const problems = publicationProblems(study, groups);
   if (problems.length) throw new FieldRefusal("form", problems.join(" "));
@@ -479,6 +480,31 @@ export async function publishRound(study: Study, actorUserId: number, publishedA
     return true;
   });
   if (!moved) throw new FieldRefusal("form", "Someone else changed the round's state meanwhile; reload and try again.");
+  if (notify) await tellLabsTheirLettersAreReady(study, request);
+}
+
+/** One message to each scored lab's contact: the letter is on its page; the scores are not in the e-mail. */
+async function tellLabsTheirLettersAreReady(study: Study, request: Request | null) {
+  const contacts = await db
+    .select({ name: labs.contactName, email: labs.contactEmail })
+    .from(enrollments)
+    .innerJoin(labs, eq(labs.id, enrollments.labId))
+    .where(and(eq(enrollments.studyId, study.id), eq(enrollments.state, "accepted")));
+  for (const contact of contacts) {
+    if (!contact.email) continue;
+    await sendEmail(
+      composeEmail({
+        to: contact.email,
+        subject: `${study.code}: your proficiency letter is ready`,
+        greeting: `Hello ${contact.name || "colleague"},`,
+        paragraphs: [
+          `The scores of proficiency round ${study.code} (${study.title}) are published.`,
+          "Your lab's confidential letter gives its scores, the assigned values and σ_pt with their basis, and what to do after a questionable or unsatisfactory score. Sign in to read and print it.",
+        ],
+        action: { label: "Read your letter", url: appUrl(request, `/lab/rounds/${study.id}/letter`) },
+      }),
+    );
+  }
 }
 
 /** The frozen report of a published round, or null before publication. */

@@ -220,6 +220,11 @@ describe("a round from the published study, run to publication", () => {
     expect((await studyByCode("PT-2027-1")).state).toBe("published");
     const frozen = await db.select().from(roundScores).where(eq(roundScores.studyId, roundId));
     expect(frozen).toHaveLength(labRows.length * 4);
+    // Each lab's contact is told the letter is ready; the e-mail carries no score.
+    const { emailOutbox } = await import("~/db/schema");
+    const told = await db.select().from(emailOutbox).where(eq(emailOutbox.subject, "PT-2027-1: your proficiency letter is ready"));
+    expect(told.length).toBe(labRows.filter((l) => l.contactEmail).length);
+    expect(told.every((m) => m.text.includes(`/lab/rounds/${roundId}/letter`) && !/[+−-]\d+\.\d{2}\b/.test(m.text))).toBe(true);
 
     // Once published, the choices no longer change.
     const late = await call(

@@ -32,7 +32,7 @@ export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireRound(context, ["coordinator"]);
   const submission = parseWithZod(await request.formData(), { schema: publishRoundSchema });
   if (submission.status !== "success") return refuse(submission);
-  const published = await withRefusals(submission, () => publishRound(study, user.id));
+  const published = await withRefusals(submission, () => publishRound(study, user.id, { request }));
   if (!published.ok) return published.reply;
   return redirectWithToast(`/rounds/${study.id}/report`, "Round published: every lab can now read its letter.");
 }
