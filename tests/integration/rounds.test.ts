@@ -11,6 +11,7 @@ import { enrollments, labs, materials, responses, roundScores, roundSettings, st
 import * as apiRounds from "~/routes/api/v1/rounds";
 import * as apiScores from "~/routes/api/v1/round-scores";
 import * as letterPage from "~/routes/lab/rounds/round/letter";
+import * as labRound from "~/routes/lab/rounds/round/uncertainty";
 import * as assignedValues from "~/routes/rounds/round/assigned-values";
 import * as materialChecks from "~/routes/rounds/round/material-checks";
 import * as newRound from "~/routes/rounds/new";
@@ -97,6 +98,30 @@ describe("the rounds API with a token", () => {
     expect(new Set(mine.data.scores.map((s: any) => s.labCode))).toEqual(new Set([mine.data.labCode]));
     const earlier = await studyByCode("PT-2025-2");
     expect((await call(apiScores.loader, bearer(`/api/v1/rounds/${earlier.id}/scores`), { roundId: String(earlier.id) })).status).toBe(404);
+  });
+});
+
+describe("a lab's own uncertainty", () => {
+  it("is refused beside its field when not above 0, and once saved gives the lab a ζ score", async () => {
+    const round = await studyByCode("PT-2026-2");
+    const params = { roundId: String(round.id) };
+    const analyst = await demoCookie("analyst1@ringbatch.example"); // Quarrow, which has submitted in this round
+    const r1 = (await db.query.materials.findFirst({ where: (m, { and, eq }) => and(eq(m.studyId, round.id), eq(m.code, "R1")) }))!;
+    const holes = (await db.query.responses.findFirst({ where: (r, { and, eq }) => and(eq(r.studyId, round.id), eq(r.key, "holes")) }))!;
+    const form = (u: string) => ({ intent: "uncertainty", materialId: String(r1.id), responseId: String(holes.id), standardUncertainty: u });
+    const refused = await call(labRound.action, post(`/lab/rounds/${round.id}`, form("-1"), analyst), params);
+    expect(refused.status).toBe(400);
+    expect(refused.data.result.error.standardUncertainty).toEqual(["Enter a standard uncertainty above 0, or leave it blank."]);
+    const saved = await call(labRound.action, post(`/lab/rounds/${round.id}`, form("0,4"), analyst), params);
+    expect(saved.status).toBe(302);
+    const own = (await db.select({ code: enrollments.labCode }).from(enrollments).innerJoin(labs, eq(labs.id, enrollments.labId)).where(eq(labs.name, "Quarrow County Materials Lab")))
+      .map((e) => e.code);
+    const page = await call(scores.loader, get(`/rounds/${round.id}/scores`, coordinator), params);
+    const group = page.data.groups.find((g: any) => g.material.code === "R1" && g.response.key === "holes");
+    const zetas = group.scores.labs.filter((l: any) => l.zeta !== null);
+    expect(zetas).toHaveLength(1);
+    expect(own).toContain(zetas[0].labCode);
+    expect(zetas[0].zeta).toBeCloseTo((zetas[0].result - group.scores.assignedValue) / Math.sqrt(0.4 ** 2 + group.scores.assignedUncertainty ** 2), 10);
   });
 });
 
