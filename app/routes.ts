@@ -76,6 +76,26 @@ export default [
   // Local stand-in for the e-mail provider
   ...prefix("dev/mailbox", [index("routes/dev/mailbox.tsx"), route(":messageId", "routes/dev/mailbox-message.tsx")]),
 
+  // Method toolkit: ruggedness screening before a study, mixture comparison after it, the bundle behind a published statement
+  ...prefix("ruggedness", [
+    index("routes/ruggedness/index.tsx"),
+    route("new", "routes/ruggedness/new.tsx"),
+    route(":ruggednessStudyId", "routes/ruggedness/study/layout.tsx", [
+      index("routes/ruggedness/study/factors.tsx"),
+      route("design", "routes/ruggedness/study/design.tsx"),
+      route("results", "routes/ruggedness/study/results.tsx"),
+      route("effects", "routes/ruggedness/study/effects.tsx"),
+      route("conclusions", "routes/ruggedness/study/conclusions.tsx"),
+    ]),
+  ]),
+  ...prefix("compare", [
+    index("routes/compare/index.tsx"),
+    route("new", "routes/compare/new.tsx"),
+    route(":comparisonId", "routes/compare/sheet.tsx"),
+  ]),
+  route("api/v1/studies/:studyId/bundle", "routes/api/v1/study-bundle-summary.ts"),
+  route("api/v1/studies/:studyId/bundle.zip", "routes/api/v1/study-bundle.ts"),
+
   // Resource routes: files, health, and the JSON API
   route("files/:fileId", "routes/files.ts"),
   route("healthz", "routes/healthz.ts"),

@@ -1,7 +1,7 @@
 /**
  * Proficiency rounds of the demo consortium — entirely fictional. The
- * consortium's earlier precision study of the float finishing test was
- * published, and it now runs rounds for twelve labs: the eight of the demo
+ * consortium's precision study of the float finishing test was published
+ * (seed/toolkit-demo.ts), and it now runs rounds for twelve labs: the eight of the demo
  * studies and four more that joined for proficiency testing.
  */
 
@@ -17,22 +17,12 @@ export const ROUND_EXTRA_ANALYSTS = ["Ilsa Marchetti-Obi", "Tobiah Grennan", "Ka
   name,
 }));
 
-/** The published precision study the rounds take σ_pt from. */
-export const PUBLISHED_STUDY = {
-  code: "FF-2025-P",
-  title: "Precision of the float finishing test — paving mixtures",
-  notes: "The consortium's published precision study; its statement gives s_r and s_R across three levels of finishability.",
-  materials: ["M2", "M1", "M4"],
-  labCodes: ["L05", "L02", "L08", "L01", "L06", "L03", "L07", "L04"],
-  resultSeed: 2025,
-};
-
 /** Results of the earlier round (autumn 2025), in which every lab scored satisfactory. */
 export const PREVIOUS_ROUND_SEED = 2511;
 
 export const ROUND_MATERIALS = [
-  { code: "R1", description: "Reference paving mix (as M1 of the precision study), lot PT26-1A" },
-  { code: "R2", description: "Fly ash paving mix (as M2 of the precision study), lot PT26-1B" },
+  { code: "R1", description: "Reference paving mix (as M1 of the published study), lot PT26-1A" },
+  { code: "R2", description: "Fly ash paving mix (as M2 of the published study), lot PT26-1B" },
 ];
 
 /** Typical pass counts of the round materials. */

@@ -1,69 +1,18 @@
 /**
- * The demo's proficiency rounds: a published precision study to take σ_pt
- * from, a published round of twelve labs with one unsatisfactory and one
+ * The demo's proficiency rounds, taking σ_pt from the toolkit demo's
+ * published precision study: an earlier published round, a published round of twelve labs with one unsatisfactory and one
  * questionable score planted, and a round in testing. Built through the
  * product's own round functions, so the demo is what the pages would make.
  */
 import { and, eq } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
-import { cells, enrollments, labMembers, labs, materials, precisionStatements, responses, results, studies } from "~/db/schema";
-import { analyzeStudy, type ResultRow } from "~/lib/precision";
-import { c670Text, e691Text, type StatementSnapshot } from "~/lib/statement-text";
+import { cells, enrollments, labMembers, labs, materials, responses, results, studies } from "~/db/schema";
 import { createRound, publishRound, saveChecks } from "~/models/round.server";
-import { DEMO_MATERIALS, demoResults, FLOAT_FINISHING_RESPONSES, generator } from "./demo-data";
-import { PREVIOUS_ROUND_SEED, PUBLISHED_ROUND_PLANTS, PUBLISHED_STUDY, ROUND_BASE, ROUND_CHECKS, ROUND_EXTRA_ANALYSTS, ROUND_EXTRA_LABS, ROUND_MATERIALS } from "./rounds-data";
+import { generator } from "./demo-data";
+import { PUBLISHED_STUDY_CODE } from "./toolkit-demo";
+import { PREVIOUS_ROUND_SEED, PUBLISHED_ROUND_PLANTS, ROUND_BASE, ROUND_CHECKS, ROUND_EXTRA_ANALYSTS, ROUND_EXTRA_LABS, ROUND_MATERIALS } from "./rounds-data";
 
 type Ids = { coordinatorId: number; labIds: number[]; userId: (email: string, name: string, role: "analyst") => Promise<number> };
-
-async function seedPublishedStudy(db: Database, { coordinatorId, labIds }: Ids) {
-  const existing = await db.query.studies.findFirst({ where: eq(studies.code, PUBLISHED_STUDY.code) });
-  if (existing) return existing;
-  const designs = PUBLISHED_STUDY.materials.map((code) => DEMO_MATERIALS.find((m) => m.code === code)!);
-  const values = demoResults(PUBLISHED_STUDY.materials, 3, PUBLISHED_STUDY.resultSeed);
-  const rows: ResultRow[] = values.map((v) => ({ lab: PUBLISHED_STUDY.labCodes[v.labIndex]!, material: v.material, response: v.response, replicate: v.replicate, value: v.value }));
-  const analysis = analyzeStudy(rows, { responseKinds: { holes: "count", surface: "count" } });
-  return db.transaction(async (tx) => {
-    const [study] = await tx
-      .insert(studies)
-      .values({
-        code: PUBLISHED_STUDY.code,
-        title: PUBLISHED_STUDY.title,
-        testMethod: "Float finishing test of fresh concrete",
-        notes: PUBLISHED_STUDY.notes,
-        state: "published",
-        replicatesPerCell: 3,
-        targetSurfaceRating: 2,
-        resultsDue: "2025-10-31",
-        ownerId: coordinatorId,
-        dataVersion: 1,
-      })
-      .returning();
-    const responseRows = await tx.insert(responses).values(FLOAT_FINISHING_RESPONSES.map((r, i) => ({ ...r, studyId: study!.id, decimals: 0, sortOrder: i }))).returning();
-    const materialRows = await tx.insert(materials).values(designs.map((m, i) => ({ studyId: study!.id, code: m.code, description: m.description, sortOrder: i }))).returning();
-    for (const [labIndex, labId] of labIds.slice(0, 8).entries()) {
-      const [enrollment] = await tx.insert(enrollments).values({ studyId: study!.id, labId, labCode: PUBLISHED_STUDY.labCodes[labIndex], state: "accepted" }).returning();
-      for (const material of materialRows) {
-        for (const response of responseRows) {
-          const [cell] = await tx.insert(cells).values({ enrollmentId: enrollment!.id, materialId: material.id, responseId: response.id, status: "submitted", submittedAt: new Date("2025-10-20") }).returning();
-          const cellValues = values.filter((v) => v.labIndex === labIndex && v.material === material.code && v.response === response.key);
-          await tx.insert(results).values(cellValues.map((v) => ({ cellId: cell!.id, replicate: v.replicate, value: v.value, testedOn: "2025-10-14" })));
-        }
-      }
-    }
-    const snapshot: StatementSnapshot = {
-      study: { code: study!.code, title: study!.title, testMethod: study!.testMethod },
-      dataVersion: 1,
-      frozenAt: "2025-12-01T10:00:00.000Z",
-      labs: 8,
-      replicates: 3,
-      materials: designs.map(({ code, description }) => ({ code, description })),
-      responses: FLOAT_FINISHING_RESPONSES.map(({ key, name, unit }) => ({ key, name, unit, decimals: 0 })),
-      analysis,
-    };
-    await tx.insert(precisionStatements).values({ studyId: study!.id, version: 1, state: "approved", textE691: e691Text(snapshot), textC670: c670Text(snapshot), snapshot, dataVersion: 1, createdBy: coordinatorId, sentAt: new Date("2025-12-02") });
-    return study!;
-  });
-}
 
 /** Fresh lab codes for a round: a shuffle of L01…L12, the same on every machine. */
 function roundCodes(seed: number, count: number) {
@@ -135,7 +84,8 @@ async function seedPublishedRound(
 }
 
 export async function seedDemoRounds(db: Database, ids: Ids) {
-  const source = await seedPublishedStudy(db, ids);
+  const source = await db.query.studies.findFirst({ where: eq(studies.code, PUBLISHED_STUDY_CODE) });
+  if (!source) throw new Error(`seed the published study ${PUBLISHED_STUDY_CODE} first`);
   const roundLabIds = [...ids.labIds];
   for (const [i, lab] of ROUND_EXTRA_LABS.entries()) {
     const analyst = ROUND_EXTRA_ANALYSTS[i]!;

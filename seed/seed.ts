@@ -34,6 +34,7 @@ import {
   FLOAT_FINISHING_RESPONSES,
 } from "./demo-data";
 import { seedDemoRounds } from "./rounds";
+import { seedToolkitDemo } from "./toolkit-demo";
 
 type StudySpec = {
   code: string;
@@ -223,5 +224,7 @@ export async function seedDemo(db: Database) {
       }
     });
   }
+  await seedToolkitDemo(db);
+  // The rounds take σ_pt from the toolkit's published study, so they come after it.
   await seedDemoRounds(db, { coordinatorId, labIds, userId });
 }

@@ -14,7 +14,7 @@ import {
   text,
   uniqueIndex,
 } from "drizzle-orm/sqlite-core";
-import { ROLES, STUDY_KINDS, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES, ASSIGNED_VALUE_METHODS, SIGMA_PT_METHODS, MATERIAL_CHECKS, SCORE_VERDICTS } from "./values";
+import { ROLES, STUDY_KINDS, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES, COMPARISON_SETTINGS, ASSIGNED_VALUE_METHODS, SIGMA_PT_METHODS, MATERIAL_CHECKS, SCORE_VERDICTS } from "./values";
 
 export * from "./values";
 
@@ -99,6 +99,9 @@ export const studies = sqliteTable("studies", {
   dataVersion: integer("data_version").notNull().default(0),
   createdAt: createdAt(),
 });
+
+/** A study's row, as every model and page reads it. */
+export type Study = typeof studies.$inferSelect;
 
 export const studyCoordinators = sqliteTable(
   "study_coordinators",
@@ -541,6 +544,94 @@ export const rateLimitHits = sqliteTable(
     createdAt: createdAt(),
   },
   (t) => [index("rate_limit_hits_bucket_key").on(t.bucket, t.key, t.createdAt)],
+);
+
+
+/**
+ * A ruggedness study's plan (a study of kind "ruggedness", ASTM E1169): the
+ * two-level design's size, how many results each run takes, and the run
+ * order drawn from a seed. Fixed once the first result is entered.
+ */
+export const ruggednessPlans = sqliteTable("ruggedness_plans", {
+  studyId: integer("study_id")
+    .primaryKey()
+    .references(() => studies.id, { onDelete: "cascade" }),
+  runs: integer("runs").notNull(),
+  replicates: integer("replicates").notNull(),
+  runOrderSeed: integer("run_order_seed").notNull(),
+  /** Design row numbers (1-based) in the order the runs are performed. */
+  runOrder: text("run_order", { mode: "json" }).notNull().$type<number[]>(),
+  createdAt: createdAt(),
+});
+
+/** One factor of a ruggedness study: its design column and its low and high settings (text, as the method words them). */
+export const ruggednessFactors = sqliteTable(
+  "ruggedness_factors",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    studyId: integer("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    column: integer("column").notNull(),
+    name: text("name").notNull(),
+    unit: text("unit").notNull().default(""),
+    low: text("low").notNull(),
+    high: text("high").notNull(),
+  },
+  (t) => [uniqueIndex("ruggedness_factors_study_column").on(t.studyId, t.column)],
+);
+
+/** One result of one run of a ruggedness study, per response and replicate. */
+export const ruggednessResults = sqliteTable(
+  "ruggedness_results",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    studyId: integer("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    /** design row number, 1-based */
+    run: integer("run").notNull(),
+    responseId: integer("response_id")
+      .notNull()
+      .references(() => responses.id, { onDelete: "cascade" }),
+    replicate: integer("replicate").notNull(),
+    value: real("value").notNull(),
+    enteredBy: integer("entered_by")
+      .notNull()
+      .references(() => users.id),
+    updatedAt: integer("updated_at", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [uniqueIndex("ruggedness_results_run_response_replicate").on(t.studyId, t.run, t.responseId, t.replicate)],
+);
+
+/**
+ * A person's comparison of two mixtures against a published precision
+ * statement (ISO 5725-6). Kept as entered with its outcome frozen, so the
+ * history shows what was concluded with the statement version used.
+ */
+export const comparisons = sqliteTable(
+  "comparisons",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    userId: integer("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    statementId: integer("statement_id")
+      .notNull()
+      .references(() => precisionStatements.id),
+    /** response key in the statement */
+    response: text("response").notNull(),
+    setting: text("setting", { enum: COMPARISON_SETTINGS }).notNull(),
+    referenceLabel: text("reference_label").notNull(),
+    trialLabel: text("trial_label").notNull(),
+    referenceValues: text("reference_values", { mode: "json" }).notNull().$type<number[]>(),
+    trialValues: text("trial_values", { mode: "json" }).notNull().$type<number[]>(),
+    notes: text("notes").notNull().default(""),
+    /** the computed comparison and acceptability checks as shown when it was made */
+    outcome: text("outcome", { mode: "json" }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("comparisons_user").on(t.userId, t.createdAt)],
 );
 
 /**

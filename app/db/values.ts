@@ -57,6 +57,9 @@ export const VOTE_CHOICES = ["approve", "object", "abstain"] as const;
 
 export const API_SCOPES = ["results:write", "study:read"] as const;
 
+/** Where the two mixtures of a comparison were tested: in one lab (σ_r) or in two labs (σ_R and σ_r). */
+export const COMPARISON_SETTINGS = ["same-lab", "two-labs"] as const;
+
 /** Proficiency rounds: how an assigned value is set (ISO 13528 clause 7). */
 export const ASSIGNED_VALUE_METHODS = ["consensus", "reference"] as const;
 export type AssignedValueMethod = (typeof ASSIGNED_VALUE_METHODS)[number];

@@ -6,21 +6,7 @@
  */
 import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
-import {
-  amendments,
-  auditEvents,
-  batches,
-  cells,
-  enrollments,
-  labs,
-  materials,
-  queries,
-  responses,
-  results,
-  shipments,
-  studies,
-  users,
-} from "~/db/schema";
+import { amendments, auditEvents, batches, cells, enrollments, labs, materials, queries, responses, results, shipments, studies, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { cellKey, type ResolvedRow, resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { cellStatusOf } from "~/lib/cell-status";
@@ -30,7 +16,6 @@ import { IMAGE_TYPES, storeUpload } from "~/server/uploads.server";
 import { bumpDataVersion } from "~/models/analysis.server";
 
 export type Enrollment = typeof enrollments.$inferSelect;
-type Study = typeof studies.$inferSelect;
 type Actor = { id: number };
 
 /** A refusal with a message for the person, shown beside the form. */

@@ -5,13 +5,12 @@
  */
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { enrollments, labs, materials, mixtureConstituents, shipments, studies } from "~/db/schema";
+import { enrollments, labs, materials, mixtureConstituents, shipments, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, sendEmail } from "~/server/email.server";
 import { shipmentNoticeEmail } from "~/lib/email-templates";
-import { FieldRefusal } from "~/lib/form-results";
+import { FieldRefusal } from "~/lib/field-refusal";
 
-type Study = typeof studies.$inferSelect;
 type Shipment = typeof shipments.$inferSelect;
 
 export class ShipmentError extends FieldRefusal {}

@@ -47,7 +47,8 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
     await coordinator.getByRole("button", { name: "Create study" }).click();
     await coordinator.waitForURL(/\/studies\/\d+\/setup$/);
     const studyId = /\/studies\/(\d+)\/setup/.exec(coordinator.url())![1];
-    await expect.poll(() => heading(coordinator)).toBe("FF-2027-E — setup");
+    await expect.poll(() => heading(coordinator)).toBe("Setup — FF-2027-E");
+    expect(await coordinator.title()).toBe("Setup — FF-2027-E · Ringbatch");
     await expect.poll(() => coordinator.getByRole("cell", { name: "Passes to close the preformed holes", exact: true }).count()).toBe(1);
     await expectAccessible(coordinator);
 
@@ -118,7 +119,7 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
     await coordinator.getByLabel("Carrier", { exact: true }).first().fill("Kestrel Freight");
     await coordinator.getByRole("button", { name: "Prepare shipment" }).click();
     await expect.poll(() => coordinator.getByText("Shipment prepared.").count()).toBe(1);
-    await coordinator.locator('input[id$="-tracking"]').fill("KF-20270215");
+    await coordinator.locator('input[id$="-trackingNumber"][id^="ship-"]').fill("KF-20270215");
     await coordinator.getByRole("button", { name: "Mark shipped" }).click();
     await expect.poll(() => coordinator.getByText("Marked shipped; the lab has been e-mailed.").count()).toBe(1);
 

@@ -66,7 +66,7 @@ describe("a proficiency round in the browser", { timeout: 180_000 }, () => {
     await coordinator.getByRole("link", { name: "Rounds" }).click();
     await coordinator.getByRole("link", { name: "New round" }).click();
     await coordinator.waitForURL(/\/rounds\/new$/);
-    await coordinator.getByLabel("From a published study", { exact: true }).selectOption({ label: "FF-2025-P — Precision of the float finishing test — paving mixtures" });
+    await coordinator.getByLabel("From a published study", { exact: true }).selectOption({ label: "FF-2025-D — Finishability of bridge-deck mixtures" });
     await coordinator.getByLabel("Round code").fill("PT-2027-9");
     await coordinator.getByLabel("Title", { exact: true }).fill("Float finishing proficiency round, spring 2027");
     await coordinator.getByLabel("Materials (one to three)").fill("R1 Reference paving mix, lot 27-A\nR2 Fly ash paving mix, lot 27-B");
@@ -83,7 +83,7 @@ describe("a proficiency round in the browser", { timeout: 180_000 }, () => {
 
     // σ_pt follows the published study's precision, and the page says so.
     await coordinator.getByRole("link", { name: "Assigned values & σ_pt" }).click();
-    await expect.poll(() => groupCard(coordinator, `R1 · ${RESPONSES.surface}`).textContent()).toContain("From the published precision of FF-2025-P");
+    await expect.poll(() => groupCard(coordinator, `R1 · ${RESPONSES.surface}`).textContent()).toContain("From the published precision of FF-2025-D");
 
     // The material checks: a malformed line is refused beside its field; then the results go in.
     await coordinator.getByRole("link", { name: "Homogeneity & stability" }).click();

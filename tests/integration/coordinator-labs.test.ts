@@ -12,6 +12,7 @@ import { seedDemo } from "../../seed/seed";
 import { createStudyAs } from "../support/coordinator";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
+import { readReply } from "../support/replies";
 import { call, cookieFrom, get, post } from "../support/routes";
 
 let coordinator: string;
@@ -28,8 +29,8 @@ beforeAll(async () => {
   [newLab] = await db.insert(labs).values({ name: "Fennick Test Bench", contactName: "Ivo Fennick", contactEmail: "ivo@fennick.example" }).returning();
 });
 
-const inviteLab = (s: typeof study, labId: number, cookie = coordinator) =>
-  call(labsPage.action, post(`/studies/${s.id}/labs`, { intent: "invite", labId: String(labId) }, cookie), { studyId: String(s.id) });
+const inviteLab = async (s: typeof study, labId: number, cookie = coordinator) =>
+  readReply(await call(labsPage.action, post(`/studies/${s.id}/labs`, { intent: "invite", labId: String(labId) }, cookie), { studyId: String(s.id) }));
 
 /** The link of the newest message to an address, as the recipient would click it. */
 async function latestLink(to: string) {
@@ -43,20 +44,20 @@ const answer = (link: { path: string; token: string }, fields: Record<string, st
 
 describe("inviting labs", () => {
   it("waits for recruiting, and needs a lab with a contact e-mail", async () => {
-    expect((await inviteLab(study, newLab.id)).data.errors.labId).toBe("Labs can be invited only while the study is recruiting.");
+    expect((await inviteLab(study, newLab.id)).errors.labId).toBe("Labs can be invited only while the study is recruiting.");
     await db.update(studies).set({ state: "recruiting" }).where(eq(studies.id, study.id));
     study.state = "recruiting";
     await db.update(studies).set({ state: "recruiting" }).where(eq(studies.id, otherStudy.id));
     const [noContact] = await db.insert(labs).values({ name: "Nocontact Lab" }).returning();
-    expect((await inviteLab(study, noContact!.id)).data.errors.labId).toContain("no contact e-mail");
-    expect((await inviteLab(study, 999999)).data.errors.labId).toBe("Choose a lab from the directory.");
+    expect((await inviteLab(study, noContact!.id)).errors.labId).toContain("no contact e-mail");
+    expect((await inviteLab(study, 999999)).errors.labId).toBe("Choose a lab from the directory.");
     expect((await inviteLab(study, Number.NaN)).status).toBe(400);
     expect((await inviteLab(study, newLab.id, await demoCookie("admin@ringbatch.example"))).status).toBe(404);
   });
 
   it("e-mails the contact a single-use link whose token is stored only as its SHA-256", async () => {
     const outcome = await inviteLab(study, newLab.id);
-    expect(outcome.data.done).toBe("Invitation sent to the lab's contact.");
+    expect(outcome.done).toBe("Invitation sent to the lab's contact.");
     const link = await latestLink("ivo@fennick.example");
     // 32 random bytes in base64url are 43 characters.
     expect(link.token).toMatch(/^[A-Za-z0-9_-]{43}$/);
@@ -141,7 +142,7 @@ describe("inviting labs", () => {
     expect(declined).toMatchObject({ state: "declined", labCode: null });
     const codes = (await db.select().from(enrollments).where(eq(enrollments.studyId, study.id))).map((e) => e.labCode).filter(Boolean);
     expect(new Set(codes).size).toBe(codes.length);
-    expect((await inviteLab(study, lab3.id)).data.errors.labId).toBe("This lab has already accepted.");
+    expect((await inviteLab(study, lab3.id)).errors.labId).toBe("This lab has already accepted.");
   });
 });
 

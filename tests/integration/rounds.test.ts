@@ -50,7 +50,7 @@ describe("the demo's published round", () => {
     expect(Math.abs(flagged[1].score)).toBeGreaterThan(2);
     expect(Math.abs(flagged[1].score)).toBeLessThan(3);
     // σ_pt came from the published study's precision, and the choice is written out.
-    expect(outcome.data.groups[0].sigmaBasis).toMatch(/FF-2025-P/);
+    expect(outcome.data.groups[0].sigmaBasis).toMatch(/FF-2025-D/);
     expect(outcome.data.groups[0].scores.labs).toHaveLength(12);
   });
 
@@ -151,7 +151,7 @@ describe("a round from the published study, run to publication", () => {
   const params = () => ({ roundId: String(roundId) });
 
   it("refuses bad input beside its field, and keeps nothing", async () => {
-    const source = await studyByCode("FF-2025-P");
+    const source = await studyByCode("FF-2025-D");
     const refused = await call(newRound.action, post("/rounds/new", { code: "x", title: "", sourceStudyId: String(source.id), replicatesPerCell: "5", materials: "" }, coordinator));
     expect(refused.status).toBe(400);
     expect(Object.keys(refused.data.result.error)).toEqual(expect.arrayContaining(["code", "title", "replicatesPerCell", "materials"]));
@@ -159,7 +159,7 @@ describe("a round from the published study, run to publication", () => {
   });
 
   it("creates the round with the study's method, responses and precision", async () => {
-    const source = await studyByCode("FF-2025-P");
+    const source = await studyByCode("FF-2025-D");
     const created = await call(
       newRound.action,
       post("/rounds/new", { code: "PT-2027-1", title: "Spring 2027 round", sourceStudyId: String(source.id), testMethod: "", replicatesPerCell: "2", materials: "R1 Reference mix\nR2 Fly ash mix", resultsDue: "" }, coordinator),

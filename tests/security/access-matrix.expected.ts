@@ -77,4 +77,19 @@ export const EXPECTED: Record<string, Partial<Record<Method, Record<Persona, num
   "api/v1/rounds": { GET: row(401, 200, 200, 200, 200, 200, 200, 200) },
   "api/v1/rounds/:roundId": { GET: row(401, 200, 200, 404, 200, 404, 404, 404) },
   "api/v1/rounds/:roundId/scores": { GET: row(401, 200, 200, 404, 200, 404, 404, 404) },
+  // Method toolkit: ruggedness studies are their coordinator's (admins read); comparisons are anyone's own; bundles only for published studies.
+  "ruggedness": { GET: row(302, 200, 200, 200, 404, 404, 404, 404) },
+  "ruggedness/new": { GET: row(302, 404, 200, 200, 404, 404, 404, 404), POST: row(302, 404, 400, 400, 404, 404, 404, 404) },
+  "ruggedness/:ruggednessStudyId [layout]": { GET: row(302, 200, 200, 404, 404, 404, 404, 404) },
+  "ruggedness/:ruggednessStudyId": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
+  "ruggedness/:ruggednessStudyId/design": { GET: row(302, 200, 200, 404, 404, 404, 404, 404) },
+  "ruggedness/:ruggednessStudyId/results": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
+  "ruggedness/:ruggednessStudyId/effects": { GET: row(302, 200, 200, 404, 404, 404, 404, 404) },
+  "ruggedness/:ruggednessStudyId/conclusions": { GET: row(302, 200, 200, 404, 404, 404, 404, 404) },
+  "compare": { GET: row(302, 200, 200, 200, 200, 200, 200, 200) },
+  "compare/new": { GET: row(302, 200, 200, 200, 200, 200, 200, 200), POST: row(302, 400, 400, 400, 400, 400, 400, 400) },
+  "compare/:comparisonId": { GET: row(302, 404, 404, 404, 200, 404, 404, 404) },
+  // The matrix's study is not published, so no one gets its bundle; tests/integration/statement-bundle.test.ts covers a published one.
+  "api/v1/studies/:studyId/bundle": { GET: row(401, 404, 404, 404, 404, 404, 404, 404) },
+  "api/v1/studies/:studyId/bundle.zip": { GET: row(401, 404, 404, 404, 404, 404, 404, 404) },
 };

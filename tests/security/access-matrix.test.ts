@@ -9,11 +9,12 @@
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { cells, enrollments, labs, materials, results, studies } from "~/db/schema";
+import { cells, comparisons, enrollments, labs, materials, results, studies } from "~/db/schema";
 import { composeEmail, sendEmail } from "~/server/email.server";
 import { storeUpload } from "~/server/uploads.server";
 import routeConfig from "~/routes";
 import { DEMO_LABS } from "../../seed/demo-data";
+import { RUGGEDNESS_STUDY_CODE } from "../../seed/toolkit-demo";
 import { useFreshDatabase } from "../support/database";
 import { call, type RouteOutcome } from "../support/routes";
 import { EXPECTED, type Method } from "./access-matrix.expected";
@@ -53,9 +54,13 @@ beforeAll(async () => {
   // The demo's published proficiency round, where the analyst's lab has a letter.
   const round = (await db.query.studies.findFirst({ where: eq(studies.code, "PT-2026-1") }))!;
   const message = await sendEmail(composeEmail({ to: "someone@ringbatch.example", subject: "Test", greeting: "Hello", paragraphs: ["Body"] }));
+  const ruggednessStudy = (await db.query.studies.findFirst({ where: eq(studies.code, RUGGEDNESS_STUDY_CODE) }))!;
+  const comparison = (await db.query.comparisons.findFirst({ where: eq(comparisons.userId, analyst.id) }))!;
   params = {
     studyId: String(study.id),
     roundId: String(round.id),
+    ruggednessStudyId: String(ruggednessStudy.id),
+    comparisonId: String(comparison.id),
     materialId: String(material.id),
     enrollmentId: String(own.id),
     fileId: String(photo.id),

@@ -1,4 +1,4 @@
-import { Link } from "react-router";
+import { Link, redirect } from "react-router";
 import type { Route } from "./+types/layout";
 import { StudyFrame, type StudyTab } from "~/components/study-frame";
 import { requireStudy, studyAccessMiddleware } from "~/server/study-context.server";
@@ -8,6 +8,7 @@ export const middleware: Route.MiddlewareFunction[] = [studyAccessMiddleware(["c
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireStudy(context, ["coordinator", "admin", "reviewer"]);
+  if (study.kind === "ruggedness") throw redirect(`/ruggedness/${study.id}`);
   return { study: { id: study.id, code: study.code, title: study.title, state: study.state, kind: study.kind }, access };
 }
 
