@@ -645,7 +645,7 @@ export const roundSettings = sqliteTable("round_settings", {
     .primaryKey()
     .references(() => studies.id, { onDelete: "cascade" }),
   sourceStudyId: integer("source_study_id").references(() => studies.id),
-  /** JSON RoundPrecision: per response key, the fitted level relations and each material's s_r and s_R. */
+  /** JSON: the source study's code and its approved statement's frozen analysis (null without a source study). */
   precision: text("precision", { mode: "json" }).notNull(),
   /** JSON: the figures and every lab's scores as published; never changed afterwards. */
   publishedReport: text("published_report", { mode: "json" }),

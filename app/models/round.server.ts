@@ -28,17 +28,16 @@ import { FieldRefusal } from "~/lib/field-refusal";
 import {
   algorithmA,
   homogeneityCheck,
-  precisionNearLevel,
-  roundPrecisionFromAnalysis,
   scoreGroup,
   ScoringRefusal,
   stabilityCheck,
   type GroupScores,
   type HomogeneityCheck,
-  type RoundPrecision,
   type SigmaPtChoice,
   type StabilityCheck,
 } from "~/lib/proficiency";
+import { precisionAtLevel, type PrecisionAtLevel } from "~/lib/comparison";
+import type { StudyAnalysis } from "~/lib/precision";
 import type { StatementSnapshot } from "~/lib/statement-text";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import type { assignmentSchema, checksSchema, newRoundSchema } from "~/lib/round-forms";
@@ -48,6 +47,29 @@ import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import type { z } from "zod";
 
 type Study = typeof studies.$inferSelect;
+
+/** What a round keeps of the published study it was set up from: the code and the approved statement's frozen analysis. */
+type RoundPrecision = { sourceCode: string | null; analysis: StudyAnalysis | null };
+
+/** Whether the round's source study gave precision figures for the response. */
+export function hasPublishedPrecision(precision: RoundPrecision, responseKey: string) {
+  return precision.analysis?.groups.some((g) => g.status === "computed" && g.response === responseKey) ?? false;
+}
+
+function figure(value: number) {
+  return Number(value.toPrecision(4)).toString();
+}
+
+/** How σ_r and σ_R were found at the round's level, in words for the report and the letters. */
+function precisionBasis(found: PrecisionAtLevel) {
+  const where =
+    found.basis === "level-relation"
+      ? `s_r = ${figure(found.sr)} and s_R = ${figure(found.sR)} from the study's fitted level relations at level ${figure(found.level)}`
+      : `s_r = ${figure(found.sr)} and s_R = ${figure(found.sR)} of material ${found.material}, the nearest level to ${figure(found.level)}`;
+  return found.outsideStudiedRange
+    ? `${where}; the level lies outside the studied range ${figure(found.studiedRange[0])}–${figure(found.studiedRange[1])}, so the figures are extrapolated`
+    : where;
+}
 
 /** A round's choices may change, and its checks be entered, until it is published. */
 function assertNotPublished(study: Pick<Study, "state">) {
@@ -110,9 +132,7 @@ export async function createRound(ownerId: number, input: z.infer<typeof newRoun
   } else if (input.testMethod === "") {
     throw new FieldRefusal("testMethod", "Name the test method, or choose a published study to take it from.");
   }
-  const precision: RoundPrecision = source
-    ? roundPrecisionFromAnalysis(source.study.code, source.snapshot.analysis)
-    : { sourceCode: null, responses: {} };
+  const precision: RoundPrecision = source ? { sourceCode: source.study.code, analysis: source.snapshot.analysis } : { sourceCode: null, analysis: null };
 
   return db.transaction(async (tx) => {
     const [round] = await tx
@@ -164,7 +184,7 @@ async function settingsOf(studyId: number) {
 
 /** σ_pt follows the published precision where the source study gave figures for the response, else the round's s*. */
 function defaultSigmaMethod(precision: RoundPrecision, responseKey: string) {
-  return precision.responses[responseKey] ? ("precision" as const) : ("robust" as const);
+  return hasPublishedPrecision(precision, responseKey) ? ("precision" as const) : ("robust" as const);
 }
 
 /**
@@ -241,7 +261,7 @@ export async function saveAssignment(study: Study, actorUserId: number, input: z
     updatedAt: new Date(),
   };
   const { row, response, settings } = await assignmentRowFor(study, input.materialId, input.responseId);
-  if (input.sigmaMethod === "precision" && !settings.precision.responses[response.key]) {
+  if (input.sigmaMethod === "precision" && !hasPublishedPrecision(settings.precision, response.key)) {
     throw new FieldRefusal("sigmaMethod", "This round has no published precision for the response; choose the round's s* or a fixed value.");
   }
   await db.transaction(async (tx) => {
@@ -378,10 +398,10 @@ export async function scoreRound(study: Study): Promise<RoundGroup[]> {
         // The level is the assigned value: a reference value, or the consensus computed first.
         const level =
           assigned.method === "reference" ? assigned.value : algorithmA(entries.map((e) => e.values.reduce((a, b) => a + b, 0) / e.values.length)).robustMean;
-        const near = precisionNearLevel(settings.precision.responses[group.response.key], level);
-        if (!near) throw new ScoringRefusal("The source study gave no precision for this response; choose the round's s* or a fixed σ_pt.");
-        sigma = { method: "precision", precision: near.precision };
-        sigmaBasis = `From the published precision of ${settings.precision.sourceCode} (ISO 13528 8.5: σ_pt = √(σ_R² − σ_r²(1 − 1/m)), m = ${study.replicatesPerCell}): ${near.basis}.`;
+        const found = settings.precision.analysis ? precisionAtLevel(settings.precision.analysis, group.response.key, level) : null;
+        if (!found) throw new ScoringRefusal("The source study gave no precision for this response; choose the round's s* or a fixed σ_pt.");
+        sigma = { method: "precision", atLevel: () => found };
+        sigmaBasis = `From the published precision of ${settings.precision.sourceCode} (ISO 13528 8.5: σ_pt = √(σ_R² − σ_r²(1 − 1/m)), m = ${study.replicatesPerCell}): ${precisionBasis(found)}.`;
       }
       scores = scoreGroup(entries, assigned, sigma, study.replicatesPerCell);
     } catch (error) {

@@ -171,7 +171,9 @@ describe("a round from the published study, run to publication", () => {
     const keys = (await db.select({ key: responses.key }).from(responses).where(eq(responses.studyId, round.id))).map((r) => r.key);
     expect(keys).toEqual(["holes", "surface"]);
     const settings = (await db.query.roundSettings.findFirst({ where: eq(roundSettings.studyId, round.id) }))!;
-    expect(Object.keys((settings.precision as any).responses)).toEqual(["holes", "surface"]);
+    // The approved statement's frozen analysis comes along, so σ_pt cannot move if anything changes elsewhere.
+    expect((settings.precision as any).sourceCode).toBe("FF-2025-D");
+    expect(new Set((settings.precision as any).analysis.groups.map((g: any) => g.response))).toEqual(new Set(["holes", "surface"]));
   });
 
   it("scores the submitted results and gates publication on the material checks", async () => {

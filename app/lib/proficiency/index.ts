@@ -6,4 +6,3 @@ export * from "./interpretation";
 export * from "./homogeneity";
 export * from "./stability";
 export * from "./score-round";
-export * from "./round-precision";

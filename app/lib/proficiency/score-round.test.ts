@@ -9,7 +9,7 @@ const labs = [95, 102, 98, 110, 100, 97, 104, 99, 101, 150, 96, 103].map((value,
 describe("scoreGroup", () => {
   it("scores against the Algorithm A consensus with σ_pt from the published precision", () => {
     // x* and s* of these results are the R reference in algorithm-a.test.ts.
-    const scores = scoreGroup(labs, { method: "consensus" }, { method: "precision", precision: { basis: "material", sr: 3, sR: 6 } }, 1);
+    const scores = scoreGroup(labs, { method: "consensus" }, { method: "precision", atLevel: () => ({ sr: 3, sR: 6 }) }, 1);
     expect(scores.assignedValue).toBeCloseTo(101.0343378726, 8);
     expect(scores.assignedUncertainty).toBeCloseTo((1.25 * 5.11445957535) / Math.sqrt(12), 8);
     expect(scores.sigmaPt).toBe(6);

@@ -3,7 +3,7 @@ import { algorithmA, type RobustEstimate } from "./algorithm-a";
 import { assignedValueUncertaintyNegligible, consensusUncertainty } from "./assigned-value";
 import { interpretScore, type ScoreVerdict } from "./interpretation";
 import { zetaScore, zPrimeScore, zScore } from "./scores";
-import { precisionAtLevel, sigmaPtFromPrecision, type PublishedPrecision } from "./sigma-pt";
+import { sigmaPtFromPrecision } from "./sigma-pt";
 
 /** How the assigned value of one material × response is set. */
 export type AssignedValueChoice =
@@ -12,7 +12,8 @@ export type AssignedValueChoice =
 
 /** How σ_pt of one material × response is set. */
 export type SigmaPtChoice =
-  | { method: "precision"; precision: PublishedPrecision }
+  /** σ_r and σ_R of the method at a level (the assigned value), from its published precision */
+  | { method: "precision"; atLevel: (level: number) => { sr: number; sR: number } }
   | { method: "robust" }
   | { method: "fixed"; value: number };
 
@@ -84,7 +85,7 @@ export function scoreGroup(
   if (sigma.method === "fixed") sigmaPt = sigma.value;
   else if (sigma.method === "robust") sigmaPt = robust.robustSd;
   else {
-    const { sr, sR } = precisionAtLevel(sigma.precision, assignedValue);
+    const { sr, sR } = sigma.atLevel(assignedValue);
     sigmaPt = sigmaPtFromPrecision(sR, sr, replicatesPerLab);
   }
   if (!(sigmaPt > 0)) {

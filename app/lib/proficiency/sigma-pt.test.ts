@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { precisionAtLevel, sigmaPtFromPrecision } from "./sigma-pt";
+import { sigmaPtFromPrecision } from "./sigma-pt";
 
 describe("sigmaPtFromPrecision (ISO 13528 8.5: σ_pt = √(σ_R² − σ_r²(1 − 1/m)))", () => {
   it("is σ_R for single results", () => {
@@ -15,23 +15,5 @@ describe("sigmaPtFromPrecision (ISO 13528 8.5: σ_pt = √(σ_R² − σ_r²(1 �
     expect(() => sigmaPtFromPrecision(1, 3, 2)).toThrow(/inconsistent/);
     expect(() => sigmaPtFromPrecision(1, 0.5, 0)).toThrow(RangeError);
     expect(() => sigmaPtFromPrecision(1, 0.5, 1.5)).toThrow(RangeError);
-  });
-});
-
-describe("precisionAtLevel", () => {
-  it("evaluates the fitted relations at the round's level", () => {
-    const figures = precisionAtLevel(
-      {
-        basis: "level-relation",
-        repeatability: { relation: "proportional", formula: "s = b·m", b: 0.05 },
-        reproducibility: { relation: "linear", formula: "s = a + b·m", a: 0.5, b: 0.1 },
-      },
-      20,
-    );
-    expect(figures.sr).toBeCloseTo(1, 12);
-    expect(figures.sR).toBeCloseTo(2.5, 12);
-  });
-  it("passes a single material's figures through", () => {
-    expect(precisionAtLevel({ basis: "material", sr: 1, sR: 2 }, 99)).toEqual({ sr: 1, sR: 2 });
   });
 });

@@ -8,7 +8,7 @@ import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, Field, Notice, SelectField } from "~/components/ui";
 import { figureDecimals, formatFigure } from "~/lib/review/format";
 import { assignmentSchema } from "~/lib/round-forms";
-import { roundDesign, saveAssignment, scoreRound } from "~/models/round.server";
+import { hasPublishedPrecision, roundDesign, saveAssignment, scoreRound } from "~/models/round.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { redirectWithToast } from "~/server/toast.server";
@@ -24,7 +24,7 @@ export async function loader({ context }: Route.LoaderArgs) {
     sourceCode: settings.precision.sourceCode,
     groups: groups.map((group, index) => ({
       ...group,
-      hasPrecision: Boolean(settings.precision.responses[group.response.key]),
+      hasPrecision: hasPublishedPrecision(settings.precision, group.response.key),
       scored: scored[index]!,
     })),
   };
