@@ -13,6 +13,7 @@ export default [
   route("logout", "routes/auth/logout.tsx"),
   route("invite/:token", "routes/auth/invite.tsx"),
   route("welcome/:token", "routes/auth/welcome.tsx"),
+  route("setup/:token", "routes/auth/setup.tsx"),
   route("account", "routes/account.tsx"),
 
   // Coordinator (admins read)

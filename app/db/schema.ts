@@ -484,6 +484,8 @@ export const emailOutbox = sqliteTable("email_outbox", {
   html: text("html").notNull(),
   text: text("text").notNull(),
   transport: text("transport", { enum: ["fake", "resend"] }).notNull(),
+  /** The study the message is about, so the local mailbox shows a coordinator only their studies' mail. */
+  studyId: integer("study_id").references(() => studies.id, { onDelete: "set null" }),
   providerMessageId: text("provider_message_id"),
   error: text("error"),
   createdAt: createdAt(),
@@ -496,6 +498,8 @@ export const attachments = sqliteTable("attachments", {
   contentType: text("content_type").notNull(),
   sizeBytes: integer("size_bytes").notNull(),
   originalName: text("original_name").notNull(),
+  /** A small JPEG of an image (its hash under data/uploads), for the pages; null for PDFs. */
+  thumbnailSha256: text("thumbnail_sha256"),
   uploadedBy: integer("uploaded_by")
     .notNull()
     .references(() => users.id),
@@ -534,17 +538,25 @@ export const apiTokens = sqliteTable(
   (t) => [index("api_tokens_user").on(t.userId)],
 );
 
-/** Hits counted by the rate limiter (sign-in failures, invitation use, API calls). */
-export const rateLimitHits = sqliteTable(
-  "rate_limit_hits",
-  {
-    id: integer("id").primaryKey({ autoIncrement: true }),
-    bucket: text("bucket").notNull(),
-    key: text("key").notNull(),
-    createdAt: createdAt(),
-  },
-  (t) => [index("rate_limit_hits_bucket_key").on(t.bucket, t.key, t.createdAt)],
-);
+/**
+ * Counters of the rate limits (sign-in failures, unknown links, API calls),
+ * in rate-limiter-flexible's Drizzle layout: one row per limit and key, kept
+ * in the database so every app instance counts together.
+ */
+export const rateLimits = sqliteTable("rate_limits", {
+  key: text("key").primaryKey(),
+  points: integer("points").notNull(),
+  expire: integer("expire", { mode: "timestamp_ms" }),
+});
+
+/** The one-time link that creates the first administrator of a database with no accounts (only its hash is kept). */
+export const setupLinks = sqliteTable("setup_links", {
+  id: integer("id").primaryKey({ autoIncrement: true }),
+  tokenHash: text("token_hash").notNull().unique(),
+  expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+  usedAt: integer("used_at", { mode: "timestamp_ms" }),
+  createdAt: createdAt(),
+});
 
 
 /**

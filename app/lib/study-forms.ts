@@ -4,12 +4,13 @@
  */
 import { z } from "zod";
 import { RESPONSE_KINDS, STUDY_STATES } from "~/db/values";
+import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { emailField } from "~/lib/validation";
 
 // Conform hands a blank field to the schema as undefined; the older forms still send "". Both mean "left blank".
 
 const optionalText = (max: number, label: string) =>
-  z.string().trim().max(max, { message: `Keep the ${label} to ${max} characters or fewer.` }).default("");
+  z.string().trim().max(max, { message: `Keep the ${label} to ${max} characters or fewer.` }).superRefine(refuseUnsafeCharacters({ multiline: true })).default("");
 
 const optionalDate = z
   .union([z.literal(""), z.iso.date({ message: "Enter a date as YYYY-MM-DD." })])
@@ -40,8 +41,8 @@ export const studyCodeField = z
 
 const studyFieldsShape = z.object({
     code: studyCodeField,
-    title: z.string({ message: "Enter a title." }).trim().min(1, { message: "Enter a title." }).max(200, { message: "Keep the title to 200 characters or fewer." }),
-    testMethod: z.string({ message: "Name the test method." }).trim().min(1, { message: "Name the test method." }).max(200, { message: "Keep the test method to 200 characters or fewer." }),
+    title: z.string({ message: "Enter a title." }).trim().min(1, { message: "Enter a title." }).max(200, { message: "Keep the title to 200 characters or fewer." }).superRefine(refuseUnsafeCharacters()),
+    testMethod: z.string({ message: "Name the test method." }).trim().min(1, { message: "Name the test method." }).max(200, { message: "Keep the test method to 200 characters or fewer." }).superRefine(refuseUnsafeCharacters()),
     // E691 needs at least two replicates per cell to estimate repeatability.
     replicatesPerCell: z.coerce
       .number({ message: "Enter a whole number of replicates." })
@@ -88,7 +89,7 @@ export const responseSchema = z
       .string({ message: "Use a short key of lower-case letters, digits and _, starting with a letter." })
       .trim()
       .regex(/^[a-z][a-z0-9_]{0,29}$/, { message: "Use a short key of lower-case letters, digits and _, starting with a letter." }),
-    name: z.string({ message: "Name the response." }).trim().min(1, { message: "Name the response." }).max(120, { message: "Keep the name to 120 characters or fewer." }),
+    name: z.string({ message: "Name the response." }).trim().min(1, { message: "Name the response." }).max(120, { message: "Keep the name to 120 characters or fewer." }).superRefine(refuseUnsafeCharacters()),
     unit: optionalText(30, "unit"),
     kind: z.enum(RESPONSE_KINDS, { message: "Choose count or continuous." }),
     decimals: z.coerce
@@ -153,7 +154,7 @@ const enrollmentChoice = z.coerce.number({ message: "Choose a lab." }).int().pos
 
 export const shipmentCreateSchema = z.object({
   enrollmentId: enrollmentChoice,
-  contents: z.string({ message: "List the materials and lots in the shipment." }).trim().min(1, { message: "List the materials and lots in the shipment." }).max(2000, { message: "Keep the contents to 2000 characters or fewer." }),
+  contents: z.string({ message: "List the materials and lots in the shipment." }).trim().min(1, { message: "List the materials and lots in the shipment." }).max(2000, { message: "Keep the contents to 2000 characters or fewer." }).superRefine(refuseUnsafeCharacters({ multiline: true })),
   carrier: optionalText(120, "carrier"),
   trackingNumber: optionalText(120, "tracking number"),
 });
@@ -161,7 +162,7 @@ export const shipmentCreateSchema = z.object({
 export const shipSchema = z.object({
   shipmentId: z.coerce.number().int().positive(),
   shippedOn: requiredDate("ship"),
-  carrier: z.string({ message: "Name the carrier." }).trim().min(1, { message: "Name the carrier." }).max(120, { message: "Keep the carrier to 120 characters or fewer." }),
+  carrier: z.string({ message: "Name the carrier." }).trim().min(1, { message: "Name the carrier." }).max(120, { message: "Keep the carrier to 120 characters or fewer." }).superRefine(refuseUnsafeCharacters()),
   trackingNumber: optionalText(120, "tracking number"),
 });
 
@@ -174,7 +175,7 @@ export const receiptSchema = z.object({
 
 export const withdrawalSchema = z.object({
   enrollmentId: enrollmentChoice,
-  reason: z.string({ message: "Give the reason for withdrawing the lab." }).trim().min(1, { message: "Give the reason for withdrawing the lab." }).max(500, { message: "Keep the reason to 500 characters or fewer." }),
+  reason: z.string({ message: "Give the reason for withdrawing the lab." }).trim().min(1, { message: "Give the reason for withdrawing the lab." }).max(500, { message: "Keep the reason to 500 characters or fewer." }).superRefine(refuseUnsafeCharacters({ multiline: true })),
 });
 
 /** The row a remove or change button acts on. */

@@ -58,6 +58,7 @@ export async function raiseQuery(study: Study, actorUserId: number, input: Raise
         ],
         action: { label: "Answer the query", url: appUrl(request, "/lab/queries") },
       }),
+      { studyId: study.id },
     );
   }
   return query;

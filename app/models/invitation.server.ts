@@ -56,6 +56,7 @@ export async function inviteLab(study: Study, labId: number, actorUserId: number
       url: appUrl(request, invitationPath(token, study.id)),
       expiresOn: formatDate(expiresAt),
     }),
+    { studyId: study.id },
   );
   return { token };
 }

@@ -24,6 +24,7 @@ export async function remindLabsWithMissingResults(study: Study, actorUserId: nu
     if (!lab?.email) continue;
     await sendEmail(
       missingResultsReminderEmail({ to: lab.email, labName: lab.name, study, missing: m.codes, resultsDue: study.resultsDue, url: appUrl(request, `/lab/studies/${study.id}`) }),
+      { studyId: study.id },
     );
     reminded.push(lab.name);
   }

@@ -523,6 +523,7 @@ async function tellLabsTheirLettersAreReady(study: Study, request: Request | nul
         ],
         action: { label: "Read your letter", url: appUrl(request, `/lab/rounds/${study.id}/letter`) },
       }),
+      { studyId: study.id },
     );
   }
 }

@@ -148,6 +148,7 @@ export async function sendToReview(study: Study, actorUserId: number, statementI
         ],
         action: { label: "Review the statement", url: appUrl(request, `/review/${study.id}`) },
       }),
+      { studyId: study.id },
     );
   }
   return statement;

@@ -14,6 +14,7 @@ import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
 import { readReply } from "../support/replies";
 import { call, get, post } from "../support/routes";
+import { errorsOf, toastOf } from "../support/replies";
 
 let coordinator: string;
 let testing: typeof studies.$inferSelect;
@@ -187,14 +188,15 @@ describe("shipments and receipt", () => {
       return call(receipt.action, postMultipart(`/lab/studies/${testing.id}/receipt`, form, cookie), params());
     };
     const fields = { shipmentId: String(shipment.id), receivedOn: "2027-02-18", condition: "damaged", receiptNotes: "" };
-    expect((await confirm(fields)).data.errors.receiptNotes).toContain("Describe the damage");
-    expect((await confirm({ ...fields, condition: "soggy" })).data.errors.condition).toContain("good condition or damaged");
-    expect((await confirm({ ...fields, receivedOn: "18/02/2027" })).data.errors.receivedOn).toContain("YYYY-MM-DD");
-    expect((await confirm({ ...fields, receiptNotes: "Wet bag" }, new File(["<svg/>"], "photo.png"))).data.errors.photo).toContain("not a JPG, PNG, WEBP file");
-    // Another lab's analyst cannot confirm this lab's shipment.
-    expect((await confirm({ ...fields, receiptNotes: "x" }, undefined, await demoCookie("analyst2@ringbatch.example"))).data.errors.form).toBe("That shipment is not for your lab.");
-    const png = new File([new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 1, 2, 3])], "bag.png");
-    expect((await confirm({ ...fields, receiptNotes: "One fiber carton crushed." }, png)).data.done).toBe("Receipt confirmed. Thank you.");
+    expect(errorsOf(await confirm(fields)).receiptNotes).toContain("Describe the damage");
+    expect(errorsOf(await confirm({ ...fields, condition: "soggy" })).condition).toContain("good condition or damaged");
+    expect(errorsOf(await confirm({ ...fields, receivedOn: "18/02/2027" })).receivedOn).toContain("YYYY-MM-DD");
+    expect(errorsOf(await confirm({ ...fields, receiptNotes: "Wet bag" }, new File(["<svg/>"], "photo.png"))).photo).toContain("not a JPG, PNG, WEBP file");
+    // Another lab's analyst cannot confirm this lab's shipment, and learns nothing from the answer.
+    expect((await confirm({ ...fields, receiptNotes: "x" }, undefined, await demoCookie("analyst2@ringbatch.example"))).status).toBe(404);
+    // A 1 × 1 pixel PNG (PNG specification: signature 89 50 4E 47 0D 0A 1A 0A, then IHDR, IDAT, IEND).
+    const png = new File([Buffer.from("iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg==", "base64")], "bag.png");
+    expect(await toastOf(await confirm({ ...fields, receiptNotes: "One fiber carton crushed." }, png))).toBe("Receipt confirmed. Thank you.");
     const stored = (await db.query.shipments.findFirst({ where: eq(shipments.id, shipment.id) }))!;
     expect(stored).toMatchObject({ status: "received", condition: "damaged", receivedOn: "2027-02-18", receiptNotes: "One fiber carton crushed." });
     expect(stored.photoAttachmentId).not.toBeNull();

@@ -73,16 +73,16 @@ describe("a review round from freezing to publication", () => {
   it("requires a reason for an objection and a choice for any vote", async () => {
     const noReason = await reviewerDoes(0, { intent: "vote", choice: "object", reason: "" });
     expect(noReason.status).toBe(400);
-    expect(noReason.data.errors.reason).toMatch(/reason/);
+    expect(errorsOf(noReason).reason).toMatch(/reason/);
     const noChoice = await reviewerDoes(0, { intent: "vote", reason: "" });
-    expect(noChoice.data.errors.choice).toBeDefined();
+    expect(errorsOf(noChoice).choice).toBeDefined();
     const emptyComment = await reviewerDoes(0, { intent: "comment", body: " " });
-    expect(emptyComment.data.errors.body).toBeDefined();
+    expect(errorsOf(emptyComment).body).toBeDefined();
   });
 
   it("lets a reviewer object; the round.coordinator answers not upheld, and every reviewer sees the rationale", async () => {
-    expect((await reviewerDoes(0, { intent: "comment", body: "Why is M3 holes left out for L01?" })).status).toBe(200);
-    expect((await reviewerDoes(0, { intent: "vote", choice: "object", reason: "The exclusion of L01 on M3 needs a better reason." })).status).toBe(200);
+    expect((await reviewerDoes(0, { intent: "comment", body: "Why is M3 holes left out for L01?" })).status).toBe(302);
+    expect((await reviewerDoes(0, { intent: "vote", choice: "object", reason: "The exclusion of L01 on M3 needs a better reason." })).status).toBe(302);
     const blocked = await coordinatorDoes({ intent: "publish" });
     expect(blocked.status).toBe(409);
     expect(blocked.errors.form).toMatch(/not voted|no answer/);
@@ -99,10 +99,10 @@ describe("a review round from freezing to publication", () => {
   });
 
   it("publishes once every reviewer voted and no objection is unanswered; then every write refuses", async () => {
-    expect((await reviewerDoes(0, { intent: "vote", choice: "approve", reason: "" })).status).toBe(200);
-    expect((await reviewerDoes(1, { intent: "vote", choice: "approve", reason: "" })).status).toBe(200);
+    expect((await reviewerDoes(0, { intent: "vote", choice: "approve", reason: "" })).status).toBe(302);
+    expect((await reviewerDoes(1, { intent: "vote", choice: "approve", reason: "" })).status).toBe(302);
     expect((await coordinatorDoes({ intent: "publish" })).status).toBe(409);
-    expect((await reviewerDoes(2, { intent: "vote", choice: "abstain", reason: "" })).status).toBe(200);
+    expect((await reviewerDoes(2, { intent: "vote", choice: "abstain", reason: "" })).status).toBe(302);
     expect((await coordinatorDoes({ intent: "publish" })).status).toBe(302);
     expect(await studyState()).toBe("published");
     expect((await statementNow()).latest.state).toBe("approved");

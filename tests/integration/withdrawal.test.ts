@@ -74,15 +74,14 @@ describe("withdrawing a lab", () => {
     expect(again.errors.reason).toBe("Only an invited or enrolled lab can be withdrawn.");
   });
 
-  it("stops the lab changing results, and tells it why", async () => {
+  it("closes the study's pages to the lab, results entry included, and tells it why on the first page", async () => {
     const analyst = await demoCookie("analyst1@ringbatch.example");
     const f1 = (await db.query.materials.findFirst({ where: and(eq(materials.studyId, study.id), eq(materials.code, "F1")) }))!;
     const draft = JSON.stringify({ values: { "holes:1": "9" }, testedOn: {}, operator: {}, fresh: {}, batchedAt: "" });
     const save = await call(entry.action, post(`/lab/studies/${study.id}/results/${f1.id}`, { intent: "draft", draft }, analyst), { studyId: String(study.id), materialId: String(f1.id) });
-    expect(save.status).toBe(400);
-    expect(JSON.stringify(save.data)).toContain("Your lab was withdrawn from this study");
+    expect(save.status).toBe(404);
     const tasks = await call(labStudy.loader, get(`/lab/studies/${study.id}`, analyst), { studyId: String(study.id) });
-    expect(tasks.data.withdrawn).toBe(true);
+    expect(tasks.data.ended).toBe("withdrawn");
   });
 
   it("is refused once the statement is with the committee", async () => {

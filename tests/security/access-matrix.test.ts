@@ -15,6 +15,7 @@ import { storeUpload } from "~/server/uploads.server";
 import routeConfig from "~/routes";
 import { DEMO_LABS } from "../../seed/demo-data";
 import { RUGGEDNESS_STUDY_CODE } from "../../seed/toolkit-demo";
+import { ONE_PIXEL_PNG } from "./support";
 import { useFreshDatabase } from "../support/database";
 import { call, type RouteOutcome } from "../support/routes";
 import { EXPECTED, type Method } from "./access-matrix.expected";
@@ -24,7 +25,7 @@ import { type Persona, PERSONAS, seedPersonas } from "./personas";
 type RouteEntry = { path?: string; file: string; index?: boolean; children?: RouteEntry[] };
 
 const ORIGIN = "http://ringbatch.test";
-const PNG = Uint8Array.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 0]);
+const PNG = ONE_PIXEL_PNG;
 
 let cookieFor: (persona: Persona) => Promise<string | undefined>;
 let params: Record<string, string>;
@@ -53,7 +54,7 @@ beforeAll(async () => {
   await db.update(results).set({ photoAttachmentId: photo.id }).where(eq(results.cellId, cell!.id));
   // The demo's published proficiency round, where the analyst's lab has a letter.
   const round = (await db.query.studies.findFirst({ where: eq(studies.code, "PT-2026-1") }))!;
-  const message = await sendEmail(composeEmail({ to: "someone@ringbatch.example", subject: "Test", greeting: "Hello", paragraphs: ["Body"] }));
+  const message = await sendEmail(composeEmail({ to: "someone@ringbatch.example", subject: "Test", greeting: "Hello", paragraphs: ["Body"] }), { studyId: study.id });
   const ruggednessStudy = (await db.query.studies.findFirst({ where: eq(studies.code, RUGGEDNESS_STUDY_CODE) }))!;
   const comparison = (await db.query.comparisons.findFirst({ where: eq(comparisons.userId, analyst.id) }))!;
   params = {

@@ -5,7 +5,7 @@ import { Card, Notice } from "~/components/ui";
 import { ruggednessAnalysis } from "~/models/ruggedness.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Conclusions" };
+export const handle = { pageTitle: "Conclusions" } satisfies StudyPageHandle;
 export const meta: Route.MetaFunction = () => [{ title: "Ruggedness conclusions · Ringbatch" }];
 
 export async function loader({ context }: Route.LoaderArgs) {

@@ -7,7 +7,7 @@ import { plackettBurmanDesign, settingText } from "~/lib/ruggedness";
 import { ruggednessSetup } from "~/models/ruggedness.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Design & run sheet" };
+export const handle = { pageTitle: "Design & run sheet" } satisfies StudyPageHandle;
 export const meta: Route.MetaFunction = () => [{ title: "Ruggedness design · Ringbatch" }];
 
 export async function loader({ context }: Route.LoaderArgs) {

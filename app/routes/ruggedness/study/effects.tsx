@@ -6,7 +6,7 @@ import { Card, Notice, SimpleTable } from "~/components/ui";
 import { ruggednessAnalysis } from "~/models/ruggedness.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Effects" };
+export const handle = { pageTitle: "Effects" } satisfies StudyPageHandle;
 export const meta: Route.MetaFunction = () => [{ title: "Ruggedness effects · Ringbatch" }];
 
 export async function loader({ context }: Route.LoaderArgs) {

@@ -11,7 +11,7 @@ import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Factors" };
+export const handle = { pageTitle: "Factors" } satisfies StudyPageHandle;
 export const meta: Route.MetaFunction = () => [{ title: "Ruggedness factors · Ringbatch" }];
 
 export async function loader({ context }: Route.LoaderArgs) {

@@ -13,7 +13,7 @@ import { notFound } from "~/server/guards.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Results" };
+export const handle = { pageTitle: "Results" } satisfies StudyPageHandle;
 export const meta: Route.MetaFunction = () => [{ title: "Ruggedness results · Ringbatch" }];
 
 export async function loader({ context }: Route.LoaderArgs) {

@@ -26,7 +26,7 @@ import { listStudyQueries, raiseQuery } from "~/models/coordinator-queries.serve
 import { cellEvidence, decisionHistory, listCellDecisions, saveCellDecision } from "~/models/decisions.server";
 import { studyDesign } from "~/models/statement.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Analysis" };
+export const handle = { pageTitle: "Analysis" } satisfies StudyPageHandle;
 
 export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 

@@ -18,7 +18,7 @@ import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Labs" };
+export const handle = { pageTitle: "Labs" } satisfies StudyPageHandle;
 
 export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 

@@ -30,7 +30,7 @@ import { notFound } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Material" };
+export const handle = { pageTitle: "Material" } satisfies StudyPageHandle;
 
 export const meta: Route.MetaFunction = ({ data, matches }) => studyPageMeta(`Material ${data?.material.code ?? ""}`.trim(), matches);
 

@@ -22,7 +22,7 @@ import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Overview" };
+export const handle = { pageTitle: "Overview" } satisfies StudyPageHandle;
 
 export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 

@@ -18,7 +18,7 @@ import { notFound } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Queries" };
+export const handle = { pageTitle: "Queries" } satisfies StudyPageHandle;
 
 export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 

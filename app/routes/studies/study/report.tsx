@@ -11,7 +11,7 @@ import { studyPageMeta } from "~/lib/study-page-meta";
 import { listStatements, participatingLabs } from "~/models/statement.server";
 import { requireStudy } from "~/server/study-context.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Report" };
+export const handle = { pageTitle: "Report" } satisfies StudyPageHandle;
 
 export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 

@@ -5,20 +5,21 @@ import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Badge, Card, SimpleTable } from "~/components/ui";
 import { formatDateTime } from "~/lib/format";
+import { wholeNumberParam } from "~/lib/query-params";
 import { ENROLLMENT_STATE } from "~/lib/state-labels";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { requireStudy } from "~/server/study-context.server";
 import { studyBatchMarks } from "~/models/batch.server";
 import { studyAuditTrail, studyResults } from "~/models/results.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Results" };
+export const handle = { pageTitle: "Results" } satisfies StudyPageHandle;
 
 export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ request, context }: Route.LoaderArgs) {
   const { study } = requireStudy(context, ["coordinator", "admin"]);
   const search = new URL(request.url).searchParams;
-  const pageParam = (name: string) => Math.max(1, Number(search.get(name)) || 1);
+  const pageParam = (name: string) => wholeNumberParam(search, name) ?? 1;
   const [table, audit, marks] = await Promise.all([
     studyResults(study.id, pageParam("labs")),
     studyAuditTrail(study.id, pageParam("page")),

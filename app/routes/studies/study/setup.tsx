@@ -36,7 +36,7 @@ import { redirectWithToast } from "~/server/toast.server";
 import { readUploadForm } from "~/server/upload-form.server";
 import { PDF_TYPES, storeUpload, UploadError } from "~/server/uploads.server";
 
-export const handle: StudyPageHandle = { pageTitle: "Setup" };
+export const handle = { pageTitle: "Setup" } satisfies StudyPageHandle;
 
 export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
