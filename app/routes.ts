@@ -34,10 +34,28 @@ export default [
     ]),
   ]),
 
+  // Proficiency rounds (coordinator; admins read)
+  ...prefix("rounds", [
+    index("routes/rounds/index.tsx"),
+    route("new", "routes/rounds/new.tsx"),
+    route(":roundId", "routes/rounds/round/layout.tsx", [
+      index("routes/rounds/round/overview.tsx"),
+      route("assigned-values", "routes/rounds/round/assigned-values.tsx"),
+      route("material-checks", "routes/rounds/round/material-checks.tsx"),
+      route("scores", "routes/rounds/round/scores.tsx"),
+      route("report", "routes/rounds/round/report.tsx"),
+    ]),
+  ]),
+
   // Lab analysts
   ...prefix("lab", [
     index("routes/lab/index.tsx"),
     route("queries", "routes/lab/queries.tsx"),
+    route("rounds", "routes/lab/rounds/index.tsx"),
+    route("rounds/:roundId", "routes/lab/rounds/round/layout.tsx", [
+      index("routes/lab/rounds/round/uncertainty.tsx"),
+      route("letter", "routes/lab/rounds/round/letter.tsx"),
+    ]),
     route("studies/:studyId", "routes/lab/study/layout.tsx", [
       index("routes/lab/study/tasks.tsx"),
       route("receipt", "routes/lab/study/receipt.tsx"),
@@ -92,5 +110,8 @@ export default [
     route("studies/:studyId/progress", "routes/api/v1/study-progress.ts"),
     route("studies/:studyId/what-if", "routes/api/v1/study-what-if.ts"),
     route("enrollments/:enrollmentId/results", "routes/api/v1/enrollment-results.ts"),
+    route("rounds", "routes/api/v1/rounds.ts"),
+    route("rounds/:roundId", "routes/api/v1/round.ts"),
+    route("rounds/:roundId/scores", "routes/api/v1/round-scores.ts"),
   ]),
 ] satisfies RouteConfig;

@@ -33,6 +33,7 @@ import {
   demoResults,
   FLOAT_FINISHING_RESPONSES,
 } from "./demo-data";
+import { seedDemoRounds } from "./rounds";
 import { seedToolkitDemo } from "./toolkit-demo";
 
 type StudySpec = {
@@ -224,4 +225,6 @@ export async function seedDemo(db: Database) {
     });
   }
   await seedToolkitDemo(db);
+  // The rounds take σ_pt from the toolkit's published study, so they come after it.
+  await seedDemoRounds(db, { coordinatorId, labIds, userId });
 }

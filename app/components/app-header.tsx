@@ -9,12 +9,17 @@ const NAV_BY_ROLE: Record<Role, { to: string; label: string }[]> = {
     { to: "/admin/users", label: "Users" },
     { to: "/admin/labs", label: "Labs" },
     { to: "/studies", label: "Studies" },
+    { to: "/rounds", label: "Rounds" },
   ],
   coordinator: [
     { to: "/studies", label: "Studies" },
     { to: "/studies/new", label: "New study" },
+    { to: "/rounds", label: "Rounds" },
   ],
-  analyst: [{ to: "/lab", label: "My lab" }],
+  analyst: [
+    { to: "/lab", label: "My lab" },
+    { to: "/lab/rounds", label: "Rounds" },
+  ],
   reviewer: [{ to: "/review", label: "Reviews" }],
 };
 

@@ -48,7 +48,7 @@ export function StudyFrame({
         </p>
       </div>
       {tabs.length > 1 && (
-        <nav aria-label="Study pages" className="mb-6 flex gap-1 overflow-x-auto border-b border-basalt-200 whitespace-nowrap">
+        <nav aria-label="Study pages" className="no-print mb-6 flex gap-1 overflow-x-auto border-b border-basalt-200 whitespace-nowrap">
           {tabs.map((tab) => (
             <NavLink
               key={tab.to}

@@ -14,7 +14,7 @@ import {
   text,
   uniqueIndex,
 } from "drizzle-orm/sqlite-core";
-import { ROLES, STUDY_KINDS, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES, COMPARISON_SETTINGS } from "./values";
+import { ROLES, STUDY_KINDS, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES, COMPARISON_SETTINGS, ASSIGNED_VALUE_METHODS, SIGMA_PT_METHODS, MATERIAL_CHECKS, SCORE_VERDICTS } from "./values";
 
 export * from "./values";
 
@@ -644,4 +644,114 @@ export const comparisons = sqliteTable(
     createdAt: createdAt(),
   },
   (t) => [index("comparisons_user").on(t.userId, t.createdAt)],
+);
+
+/**
+ * A proficiency round's settings (a study of kind "proficiency"): the
+ * published study it was set up from and that study's precision figures,
+ * copied when the round was created so later changes elsewhere cannot move
+ * a round's σ_pt.
+ */
+export const roundSettings = sqliteTable("round_settings", {
+  studyId: integer("study_id")
+    .primaryKey()
+    .references(() => studies.id, { onDelete: "cascade" }),
+  sourceStudyId: integer("source_study_id").references(() => studies.id),
+  /** JSON: the source study's code and its approved statement's frozen analysis (null without a source study). */
+  precision: text("precision", { mode: "json" }).notNull(),
+  /** JSON: the figures and every lab's scores as published; never changed afterwards. */
+  publishedReport: text("published_report", { mode: "json" }),
+  publishedAt: integer("published_at", { mode: "timestamp_ms" }),
+  publishedBy: integer("published_by").references(() => users.id),
+});
+
+/** The coordinator's choice of assigned value and σ_pt for one material × response of a round. */
+export const roundAssignments = sqliteTable(
+  "round_assignments",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    studyId: integer("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    materialId: integer("material_id")
+      .notNull()
+      .references(() => materials.id, { onDelete: "cascade" }),
+    responseId: integer("response_id")
+      .notNull()
+      .references(() => responses.id, { onDelete: "cascade" }),
+    assignedMethod: text("assigned_method", { enum: ASSIGNED_VALUE_METHODS }).notNull().default("consensus"),
+    referenceValue: real("reference_value"),
+    referenceUncertainty: real("reference_uncertainty"),
+    sigmaMethod: text("sigma_method", { enum: SIGMA_PT_METHODS }).notNull().default("precision"),
+    fixedSigma: real("fixed_sigma"),
+    /** Why scores may be published although the homogeneity or stability check fails. */
+    checkJustification: text("check_justification").notNull().default(""),
+    updatedBy: integer("updated_by").references(() => users.id),
+    updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [uniqueIndex("round_assignments_group").on(t.studyId, t.materialId, t.responseId)],
+);
+
+/** Homogeneity (two replicates per sample, before shipping) and stability (after the testing period) results of a round's material. */
+export const roundCheckResults = sqliteTable(
+  "round_check_results",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    studyId: integer("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    materialId: integer("material_id")
+      .notNull()
+      .references(() => materials.id, { onDelete: "cascade" }),
+    responseId: integer("response_id")
+      .notNull()
+      .references(() => responses.id, { onDelete: "cascade" }),
+    check: text("check", { enum: MATERIAL_CHECKS }).notNull(),
+    sample: integer("sample").notNull(),
+    replicate: integer("replicate").notNull(),
+    value: real("value").notNull(),
+  },
+  (t) => [uniqueIndex("round_check_results_value").on(t.materialId, t.responseId, t.check, t.sample, t.replicate)],
+);
+
+/** A lab's own standard uncertainty for its result, when it reports one (for ζ). */
+export const roundLabUncertainties = sqliteTable(
+  "round_lab_uncertainties",
+  {
+    enrollmentId: integer("enrollment_id")
+      .notNull()
+      .references(() => enrollments.id, { onDelete: "cascade" }),
+    materialId: integer("material_id")
+      .notNull()
+      .references(() => materials.id, { onDelete: "cascade" }),
+    responseId: integer("response_id")
+      .notNull()
+      .references(() => responses.id, { onDelete: "cascade" }),
+    standardUncertainty: real("standard_uncertainty").notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.enrollmentId, t.materialId, t.responseId] })],
+);
+
+/** Every lab's scores as published, one row per lab × material × response; the lab's history across rounds reads these. */
+export const roundScores = sqliteTable(
+  "round_scores",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    studyId: integer("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    labId: integer("lab_id")
+      .notNull()
+      .references(() => labs.id),
+    labCode: text("lab_code").notNull(),
+    materialCode: text("material_code").notNull(),
+    responseKey: text("response_key").notNull(),
+    result: real("result").notNull(),
+    scoreKind: text("score_kind", { enum: ["z", "z′"] }).notNull(),
+    score: real("score").notNull(),
+    zeta: real("zeta"),
+    verdict: text("verdict", { enum: SCORE_VERDICTS }).notNull(),
+    publishedAt: integer("published_at", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [index("round_scores_lab").on(t.labId, t.publishedAt), index("round_scores_study").on(t.studyId)],
 );

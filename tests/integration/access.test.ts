@@ -56,7 +56,8 @@ describe("role guards", () => {
     const outcome = await call(lab.loader, get("/lab", await demoCookie("analyst1@ringbatch.example")));
     const labNames = new Set(outcome.data.enrollments.map((e: { labName: string }) => e.labName));
     expect([...labNames]).toEqual(["Quarrow County Materials Lab"]);
-    expect(outcome.data.enrollments).toHaveLength(3); // the published study, the one in checking, the one in testing
+    // The published study, the one in checking, the one in testing, and the three proficiency rounds.
+    expect(outcome.data.enrollments).toHaveLength(6);
   });
 
   it("lists the studies assigned to a reviewer", async () => {
