@@ -1,8 +1,8 @@
 import type { ReactNode } from "react";
 import { NavLink, Outlet, useMatches } from "react-router";
-import { Badge } from "~/components/ui";
+import { StateBadge } from "~/components/state-badge";
 import type { StudyState } from "~/db/values";
-import { STATE_LABEL } from "~/lib/state-labels";
+import { STUDY_STATE } from "~/lib/state-labels";
 
 /**
  * What a study's child route tells the frame around it: the page's name in the
@@ -43,7 +43,7 @@ export function StudyFrame({
           <span className="whitespace-nowrap">{study.code}</span>
         </h1>
         <p className="mt-1 text-basalt-700">
-          {study.title} · <Badge>{STATE_LABEL[study.state]}</Badge>
+          {study.title} · <StateBadge view={STUDY_STATE[study.state]} />
           {detail}
         </p>
       </div>

@@ -1,17 +1,25 @@
 import { and, asc, count, eq, inArray, or } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { cells, enrollments, labs, materials, queries, responses, studies, studyCoordinators, studyReviewers, type Study } from "~/db/schema";
+import { cells, enrollments, labs, materials, queries, responses, studies, studyCoordinators, studyReviewers, type Study, type StudyKind } from "~/db/schema";
 import { CELL_STATUS_ORDER, type CellStatus, cellStatusOf } from "~/lib/cell-status";
 import type { SessionUser } from "~/models/user.server";
 
 
-/** Studies the user coordinates (every study for an admin). */
-export async function listCoordinatedStudies(user: SessionUser) {
+/**
+ * Studies of one kind that the user coordinates (every one for an admin).
+ * Rounds and ruggedness studies have lists of their own; account pages ask for every kind.
+ */
+export async function listCoordinatedStudies(user: SessionUser, kind: StudyKind | "any" = "precision") {
   const coordinated = db.select({ id: studyCoordinators.studyId }).from(studyCoordinators).where(eq(studyCoordinators.userId, user.id));
   return db
     .select()
     .from(studies)
-    .where(user.role === "admin" ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated)))
+    .where(
+      and(
+        kind === "any" ? undefined : eq(studies.kind, kind),
+        user.role === "admin" ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated)),
+      ),
+    )
     .orderBy(asc(studies.code));
 }
 

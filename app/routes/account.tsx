@@ -33,7 +33,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Account · Ringbatch" }
 async function tokenTargets(user: Awaited<ReturnType<typeof requireUser>>) {
   const [labStudies, studies] = await Promise.all([
     listLabEnrollments(user.labIds),
-    user.role === "reviewer" ? listReviewedStudies(user.id) : user.role === "analyst" ? Promise.resolve([]) : listCoordinatedStudies(user),
+    user.role === "reviewer" ? listReviewedStudies(user.id) : user.role === "analyst" ? Promise.resolve([]) : listCoordinatedStudies(user, "any"),
   ]);
   return [
     ...labStudies.map((e) => ({ value: `enrollment:${e.enrollmentId}`, label: `Write results: ${e.studyCode} (${e.labName})` })),
