@@ -13,7 +13,7 @@ const path = process.argv[2] ?? "/healthz";
 const probe = await startServer({ BUILD_DIR: process.env.BUILD_DIR ?? "build" });
 const db = probe.databaseUrl; await probe.stop();
 const dir = mkdtempSync(join(tmpdir(), "perf-prof-"));
-const child = spawn(process.execPath, ["--cpu-prof", `--cpu-prof-dir=${dir}`, "server.js"], { env: { ...process.env, NODE_ENV: "production", BUILD_DIR: process.env.BUILD_DIR ?? "build", DATABASE_URL: db, PORT: "39123" }, stdio: "ignore" });
+const child = spawn(process.execPath, ["--cpu-prof", `--cpu-prof-dir=${dir}`, "server.js"], { env: { ...process.env, NODE_ENV: "production", BUILD_DIR: process.env.BUILD_DIR ?? "build", DATABASE_URL: db, PORT: "39123", APP_URL: "http://127.0.0.1:39123", SESSION_SECRET: "profile-session-secret" }, stdio: "ignore" });
 for (let i = 0; i < 100; i++) { try { await fetch("http://127.0.0.1:39123/healthz"); break; } catch { await new Promise(r => setTimeout(r, 100)); } }
 await autocannon({ url: `http://127.0.0.1:39123${path}`, connections: 10, duration: 5, headers: { "accept-encoding": "gzip" } });
 child.kill("SIGINT"); await new Promise(r => child.once("exit", r));

@@ -5,13 +5,12 @@
  */
 import { and, asc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { precisionStatements, reviewComments, studies, studyReviewers, users, votes } from "~/db/schema";
+import { precisionStatements, reviewComments, studies, studyReviewers, users, votes, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import type { VoteChoice } from "~/lib/review/publication";
 import { reviewRefusal } from "~/lib/review/write-rules";
 import { statementInReview } from "~/models/statement.server";
 
-type Study = typeof studies.$inferSelect;
 
 export class ReviewError extends Error {}
 

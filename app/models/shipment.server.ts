@@ -5,13 +5,13 @@
  */
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { enrollments, labs, materials, mixtureConstituents, shipments, studies } from "~/db/schema";
+import { enrollments, labs, materials, mixtureConstituents, shipments, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
+import { notFound } from "~/server/guards.server";
 import { appUrl, sendEmail } from "~/server/email.server";
 import { shipmentNoticeEmail } from "~/lib/email-templates";
-import { FieldRefusal } from "~/lib/form-results";
+import { FieldRefusal } from "~/lib/field-refusal";
 
-type Study = typeof studies.$inferSelect;
 type Shipment = typeof shipments.$inferSelect;
 
 export class ShipmentError extends FieldRefusal {}
@@ -96,6 +96,7 @@ export async function markShipped(
         shippedOn: input.shippedOn,
         url: appUrl(request, `/lab/studies/${study.id}/receipt`),
       }),
+      { studyId: study.id },
     );
   }
 }
@@ -107,10 +108,14 @@ export async function markLost(study: Study, shipmentId: number, actorUserId: nu
 
 export type ReceiptInput = { shipmentId: number; receivedOn: string; condition: "good" | "damaged"; receiptNotes: string; photoAttachmentId: number | null };
 
-/** The lab confirms a shipment of its own enrollment. */
+/**
+ * The lab confirms a shipment of its own enrollment. Any other id, another
+ * lab's shipment or one that does not exist, is the same 404, so a lab cannot
+ * count the study's shipments or labs.
+ */
 export async function confirmReceipt(study: Study, enrollmentId: number, input: ReceiptInput, actorUserId: number) {
-  const shipment = await shipmentOf(study, input.shipmentId);
-  if (shipment.enrollmentId !== enrollmentId) throw new ShipmentError("form", "That shipment is not for your lab.");
+  const shipment = await db.query.shipments.findFirst({ where: and(eq(shipments.id, input.shipmentId), eq(shipments.enrollmentId, enrollmentId)) });
+  if (!shipment) notFound();
   if (input.condition === "damaged" && !input.receiptNotes) throw new ShipmentError("receiptNotes", "Describe the damage so the coordinator can decide what to resend.");
   const { shipmentId: _, ...change } = input;
   await moveShipment(study, shipment, ["shipped"], { ...change, status: "received" }, "shipment_received", actorUserId);

@@ -5,7 +5,7 @@
  */
 import { and, asc, desc, eq, inArray, isNotNull } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
-import { enrollments, labs, materials, precisionStatements, responses, studies, studyReviewers, users, votes } from "~/db/schema";
+import { enrollments, labs, materials, precisionStatements, responses, studyReviewers, users, votes, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import { publicationCheck } from "~/lib/review/publication";
@@ -13,11 +13,16 @@ import { draftingRefusal, reviewRefusal } from "~/lib/review/write-rules";
 import { c670Text, e691Text, type StatementSnapshot } from "~/lib/statement-text";
 import { studyAnalysis } from "~/models/analysis.server";
 import { transitionStudy } from "~/models/study-lifecycle.server";
+import { FieldRefusal } from "~/lib/field-refusal";
 
-type Study = typeof studies.$inferSelect;
 export type Statement = Omit<typeof precisionStatements.$inferSelect, "snapshot"> & { snapshot: StatementSnapshot };
 
-export class StatementError extends Error {}
+/** A refusal of the whole form, shown above it. */
+export class StatementError extends FieldRefusal {
+  constructor(message: string) {
+    super("form", message);
+  }
+}
 
 /** The study's responses and materials, in their order, as the analysis pages and the snapshot name them. */
 export async function studyDesign(studyId: number) {
@@ -143,6 +148,7 @@ export async function sendToReview(study: Study, actorUserId: number, statementI
         ],
         action: { label: "Review the statement", url: appUrl(request, `/review/${study.id}`) },
       }),
+      { studyId: study.id },
     );
   }
   return statement;

@@ -5,11 +5,10 @@
  */
 import { and, count, eq } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
-import { enrollments, materials, studies, type StudyState } from "~/db/schema";
+import { enrollments, materials, studies, type StudyState, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { checkTransition, resultsEditable, type TransitionCheck } from "~/lib/study-lifecycle";
 
-type Study = typeof studies.$inferSelect;
 
 export class StudyStateError extends Error {}
 

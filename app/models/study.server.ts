@@ -1,34 +1,30 @@
 import { and, asc, count, desc, eq, inArray, or } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import {
-  cells,
-  enrollments,
-  labs,
-  materials,
-  queries,
-  responses,
-  studies,
-  studyCoordinators,
-  studyReviewers,
-} from "~/db/schema";
+import { cells, enrollments, labs, materials, queries, responses, studies, studyCoordinators, studyReviewers, type Study, type StudyKind } from "~/db/schema";
 import { CELL_STATUS_ORDER, type CellStatus, cellStatusOf } from "~/lib/cell-status";
 import type { SessionUser } from "~/models/user.server";
 import { readPage } from "~/lib/paging";
 
 
-function coordinatedBy(user: SessionUser) {
+function coordinatedBy(user: SessionUser, kind: StudyKind | "any") {
   const coordinated = db.select({ id: studyCoordinators.studyId }).from(studyCoordinators).where(eq(studyCoordinators.userId, user.id));
-  return user.role === "admin" ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated));
+  return and(
+    kind === "any" ? undefined : eq(studies.kind, kind),
+    user.role === "admin" ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated)),
+  );
 }
 
-/** Studies the user coordinates (every study for an admin). */
-export async function listCoordinatedStudies(user: SessionUser) {
-  return db.select().from(studies).where(coordinatedBy(user)).orderBy(asc(studies.code));
+/**
+ * Studies of one kind that the user coordinates (every one for an admin).
+ * Rounds and ruggedness studies have lists of their own; account pages ask for every kind.
+ */
+export async function listCoordinatedStudies(user: SessionUser, kind: StudyKind | "any" = "precision") {
+  return db.select().from(studies).where(coordinatedBy(user, kind)).orderBy(asc(studies.code));
 }
 
-/** One page of the studies the user coordinates, newest first. */
+/** One page of the precision studies the user coordinates, newest first. */
 export async function coordinatedStudiesPage(user: SessionUser, page: number) {
-  const where = coordinatedBy(user);
+  const where = coordinatedBy(user, "precision");
   return readPage(
     page,
     async () => (await db.select({ total: count() }).from(studies).where(where))[0]!.total,
@@ -170,7 +166,7 @@ export function statusCountsByMaterial(matrix: StudyMatrix) {
 }
 
 /** The progress figures the overview polls: every lab for the coordinator, one lab's own row for an analyst. */
-export async function studyProgress(study: Pick<typeof studies.$inferSelect, "id" | "code" | "state" | "resultsDue">, onlyEnrollmentId?: number) {
+export async function studyProgress(study: Pick<Study, "id" | "code" | "state" | "resultsDue">, onlyEnrollmentId?: number) {
   const matrix = await studyMatrix(study.id, onlyEnrollmentId ? { enrollmentId: onlyEnrollmentId } : {});
   return {
     study: { id: study.id, code: study.code, state: study.state, resultsDue: study.resultsDue },

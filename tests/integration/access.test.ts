@@ -29,6 +29,15 @@ describe("role guards", () => {
     expect(outcome.headers.get("Location")).toBe("/login?redirectTo=%2Fstudies");
   });
 
+  it("lists precision studies on the studies page, leaving rounds and ruggedness studies to their own lists", async () => {
+    const outcome = await call(studyList.loader, get("/studies", await demoCookie("admin@ringbatch.example")));
+    const listed = outcome.data.studies.map((s: { code: string; kind: string }) => s);
+    expect(listed.map((s: { code: string }) => s.code)).toContain("FF-2026-A");
+    expect(listed.every((s: { kind: string }) => s.kind === "precision")).toBe(true);
+    const every = await db.select({ kind: studies.kind }).from(studies);
+    expect(new Set(every.map((s) => s.kind))).toEqual(new Set(["precision", "proficiency", "ruggedness"]));
+  });
+
   it("answers 404, not 403, when a role opens another role's home", async () => {
     const analyst = await demoCookie("analyst1@ringbatch.example");
     const reviewer = await demoCookie("reviewer1@ringbatch.example");
@@ -56,11 +65,12 @@ describe("role guards", () => {
     const outcome = await call(lab.loader, get("/lab", await demoCookie("analyst1@ringbatch.example")));
     const labNames = new Set(outcome.data.enrollments.map((e: { labName: string }) => e.labName));
     expect([...labNames]).toEqual(["Quarrow County Materials Lab"]);
-    expect(outcome.data.enrollments).toHaveLength(2);
+    // The published study, the one in checking, the one in testing, and the three proficiency rounds.
+    expect(outcome.data.enrollments).toHaveLength(6);
   });
 
   it("lists the studies assigned to a reviewer", async () => {
     const outcome = await call(review.loader, get("/review", await demoCookie("reviewer2@ringbatch.example")));
-    expect(outcome.data.studies.map((s: { code: string }) => s.code)).toEqual(["FF-2026-A", "FF-2026-B"]);
+    expect(outcome.data.studies.map((s: { code: string }) => s.code)).toEqual(["FF-2025-D", "FF-2026-A", "FF-2026-B"]);
   });
 });

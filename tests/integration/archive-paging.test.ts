@@ -41,8 +41,9 @@ describe("the generated archive", () => {
 });
 
 describe("paging", () => {
-  it("shows the coordinator's studies newest first, each exactly once across the pages", async () => {
-    const total = await count(sql`select count(*) as n from studies`);
+  it("shows the coordinator's precision studies newest first, each exactly once across the pages", async () => {
+    // Proficiency rounds and ruggedness studies have lists of their own.
+    const total = await count(sql`select count(*) as n from studies where kind = 'precision'`);
     const first = await call(studyList.loader, get("/studies", coordinator));
     expect(first.data.page).toMatchObject({ page: 1, total, pageCount: Math.ceil(total / PAGE_SIZE) });
     expect(first.data.studies).toHaveLength(PAGE_SIZE);

@@ -3,6 +3,7 @@
  * and the lab's submitted cells. Pure, so the import preview in the browser
  * and the server's import name the same problems for the same rows.
  */
+import { unsafeCharacterMessage } from "~/lib/text-hygiene";
 import { checkResultValue, checkTestDate, type ResponseRule } from "./values";
 
 /** One result as typed in the form, read from a CSV row or sent to the API. */
@@ -41,6 +42,8 @@ export type RowFrame = {
   responses: (ResponseRule & { id: number; key: string })[];
   /** `materialId:responseId` of the lab's submitted cells. */
   submittedCells: Set<string>;
+  /** The study's last day for results (YYYY-MM-DD): no test date after it. */
+  studyEnd?: string | null;
 };
 
 export const cellKey = (materialId: number, responseId: number) => `${materialId}:${responseId}`;
@@ -86,10 +89,12 @@ export function resolveResultRows(frame: RowFrame, rows: ResultInputRow[], { val
     const check = checkResultValue(response, input.value);
     if (check.status === "refused") return problem("value", check.message);
     if (check.status === "empty" && valueRequired) return problem("value", "The value is empty.");
-    const date = checkTestDate(input.testedOn);
+    const date = checkTestDate(input.testedOn, new Date(), { studyEnd: frame.studyEnd });
     if (!date.ok) return problem("tested_on", date.message);
     const operator = String(input.operator ?? "").trim();
     if (operator.length > 120) return problem("operator", "Keep the operator's name to 120 characters or fewer.");
+    const unsafe = unsafeCharacterMessage(operator);
+    if (unsafe) return problem("operator", unsafe);
     if (FORMULA_START.test(operator)) return problem("operator", "An operator's name cannot start with =, +, - or @ (a spreadsheet would run it as a formula).");
     resolved.push({
       row,

@@ -6,6 +6,7 @@
  */
 import { useCallback, useEffect, useRef, useState } from "react";
 import { useFetcher } from "react-router";
+import type { z } from "zod";
 
 export type SaveState = "saved" | "unsaved" | "saving" | "offline" | "problems";
 
@@ -37,8 +38,10 @@ function writeCopy<T>(key: string, copy: StoredCopy<T>) {
 /**
  * `serverDraft` is the draft as stored on the server; its JSON is the stamp
  * that tells a stale device copy from one still matching the server.
+ * `schema` is the one the action parses the draft with: a draft it refuses
+ * stays on the device, marked, until corrected.
  */
-export function useAutosavedDraft<T>({ storageKey, serverDraft, intent }: { storageKey: string; serverDraft: T; intent: string }) {
+export function useAutosavedDraft<T>({ storageKey, serverDraft, intent, schema }: { storageKey: string; serverDraft: T; intent: string; schema: z.ZodType<T> }) {
   const fetcher = useFetcher<DraftSaveReply>({ key: `autosave:${storageKey}` });
   const [draft, setDraft] = useState<T>(serverDraft);
   const [saveState, setSaveState] = useState<SaveState>("saved");
@@ -55,11 +58,15 @@ export function useAutosavedDraft<T>({ storageKey, serverDraft, intent }: { stor
       setSaveState("offline");
       return;
     }
+    if (!schema.safeParse(latest.current).success) {
+      setSaveState("problems");
+      return;
+    }
     const json = JSON.stringify(latest.current);
     inFlight.current = json;
     setSaveState("saving");
     fetcher.submit({ intent, draft: json }, { method: "post" });
-  }, [fetcher, intent]);
+  }, [fetcher, intent, schema]);
 
   const schedule = useCallback(() => {
     clearTimeout(timer.current);
@@ -138,5 +145,5 @@ export const SAVE_STATE_TEXT: Record<SaveState, string> = {
   unsaved: "Unsaved changes…",
   saving: "Saving…",
   offline: "Offline: your entries are kept on this device and saved when the connection returns",
-  problems: "Saved, except the fields marked below",
+  problems: "Not all saved: correct the fields marked below",
 };

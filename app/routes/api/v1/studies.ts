@@ -13,7 +13,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   return apiHandler(async () => {
     const caller = await requireApiCaller(request);
     const { user, token } = caller;
-    const columns = { id: studies.id, code: studies.code, title: studies.title, state: studies.state };
+    const columns = { id: studies.id, code: studies.code, title: studies.title, kind: studies.kind, state: studies.state };
     const visible =
       user.role === "admin"
         ? undefined

@@ -1,17 +1,19 @@
+import { getFormProps, type SubmissionResult } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
 import { useEffect } from "react";
 import { data, Form, isRouteErrorResponse, Link, type ShouldRevalidateFunctionArgs, useFetcher } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/result-entry";
 import { CellStatusBadge } from "~/components/cell-status-badge";
 import { ConcreteCaution } from "~/components/cautions";
-import { Badge, Button, Card, Field, Notice, PageHeader } from "~/components/ui";
-import { notFound } from "~/server/guards.server";
-import { requireStudy } from "~/server/study-context.server";
-import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
+import type { StudyPageHandle } from "~/components/study-frame";
+import { Badge, Button, Card, Field, Notice } from "~/components/ui";
+import { formatDateTime } from "~/lib/format";
+import { amendSchema, draftProblems, type EntryDraft, entryDraftSchema, photoSchema, resultEntrySchema, submitMaterialSchema } from "~/lib/results/entry-forms";
+import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES } from "~/lib/results/fresh";
 import { SAVE_STATE_TEXT, useAutosavedDraft } from "~/lib/results/use-autosaved-draft";
 import { checkResultValue, checkTestDate } from "~/lib/results/values";
-import { readUploadForm } from "~/server/upload-form.server";
-import { UploadError } from "~/server/uploads.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
 import { freshTargets, getBatch, saveFreshProperties } from "~/models/batch.server";
 import { openQueriesOfMaterial } from "~/models/lab-queries.server";
 import {
@@ -25,34 +27,18 @@ import {
   saveDraftResults,
   submitMaterial,
 } from "~/models/results.server";
+import { refuse } from "~/server/form-reply.server";
+import { notFound } from "~/server/guards.server";
+import { requireStudy } from "~/server/study-context.server";
+import { redirectWithToast } from "~/server/toast.server";
+import { readUploadForm } from "~/server/upload-form.server";
+import { UploadError } from "~/server/uploads.server";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Results ${data?.material.code ?? ""} · Ringbatch` }];
+const pageTitle = (data: { material: { code: string } }) => `Results of ${data.material.code}`;
 
-/** What the form holds: values keyed `response:replicate`, per-replicate date and operator, and the batch's fresh properties. */
-type EntryDraft = {
-  values: Record<string, string>;
-  testedOn: Record<string, string>;
-  operator: Record<string, string>;
-  fresh: Partial<Record<FreshProperty, string>>;
-  batchedAt: string;
-};
+export const handle: StudyPageHandle<{ material: { code: string } }> = { pageTitle };
 
-const draftSchema = z.object({
-  values: z.record(z.string(), z.string().max(40)),
-  testedOn: z.record(z.string(), z.string().max(20)),
-  operator: z.record(z.string(), z.string().max(200)),
-  fresh: z.partialRecord(z.enum(FRESH_PROPERTY_NAMES as [FreshProperty, ...FreshProperty[]]), z.string().max(20)),
-  batchedAt: z.string().max(20),
-});
-
-/** The draft field's JSON, or undefined when it is not JSON (the schema then refuses it). */
-function parseJsonField(value: FormDataEntryValue | null) {
-  try {
-    return JSON.parse(String(value ?? "{}"));
-  } catch {
-    return undefined;
-  }
-}
+export const meta: Route.MetaFunction = ({ data, matches }) => studyPageMeta(data ? pageTitle(data) : "Results", matches);
 
 async function loadEntry(context: Route.LoaderArgs["context"], params: Route.LoaderArgs["params"]) {
   const access = requireStudy(context, ["analyst"]);
@@ -95,10 +81,9 @@ export async function loader({ params, context }: Route.LoaderArgs) {
   const photos: Record<number, number> = {};
   for (const response of entry.responses) for (const r of response.results) if (r.photoAttachmentId) photos[r.replicate] = r.photoAttachmentId;
   return {
-    study: { id: study.id, code: study.code, state: study.state, replicatesPerCell: study.replicatesPerCell },
+    study: { id: study.id, state: study.state, replicatesPerCell: study.replicatesPerCell },
     editable: study.state === "testing",
     enrollmentId: enrollment.id,
-    labCode: enrollment.labCode,
     material: { id: entry.material.id, code: entry.material.code, description: entry.material.description },
     responses: entry.responses.map(({ results: _results, ...response }) => response),
     submittedValues: Object.fromEntries(entry.responses.flatMap((r) => r.results.map((x) => [`${r.key}:${x.replicate}`, x.value]))),
@@ -144,47 +129,61 @@ async function saveDraft(enrollment: Enrollment, entry: Entry, draft: EntryDraft
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { user, study, enrollment, entry } = await loadEntry(context, params);
+  const here = `/lab/studies/${study.id}/results/${entry.material.id}`;
   const upload = await readUploadForm(request, "photo", PHOTO_MAX_BYTES);
-  if (upload.tooLarge) return data({ intent: "photo", error: "The photo is larger than 10 MB." }, { status: 400 });
-  const form = upload.formData;
-  const intent = form.get("intent");
-  try {
-    if (intent === "draft" || intent === "submit") {
-      const parsed = draftSchema.safeParse(parseJsonField(form.get("draft")));
-      if (!parsed.success) return data({ intent, error: "The form could not be read; reload the page." }, { status: 400 });
-      const problems = await saveDraft(enrollment, entry, parsed.data, study.replicatesPerCell, user);
-      if (intent === "draft") {
-        const fresh = await materialEntry(enrollment, entry.material.id);
-        const stamp = JSON.stringify(serverDraft(fresh!, await getBatch(enrollment.id, entry.material.id), study.replicatesPerCell));
-        return { intent, problems, stamp };
+  // Only the photo form sends a file; the body was not read past it.
+  if (upload.tooLarge) return data({ result: { status: "error", error: { photo: ["The photo is larger than 10 MB."] } } as SubmissionResult<string[]> }, { status: 400 });
+  const submission = parseWithZod(upload.formData, { schema: resultEntrySchema });
+  if (submission.status !== "success") return refuse(submission);
+  const input = submission.value;
+  switch (input.intent) {
+    case "draft": {
+      const problems = await saveDraftOrRefuse(enrollment, entry, input.draft, study.replicatesPerCell, user);
+      if (!problems.ok) return refuse(submission, { form: [problems.message] });
+      const fresh = await materialEntry(enrollment, entry.material.id);
+      const stamp = JSON.stringify(serverDraft(fresh!, await getBatch(enrollment.id, entry.material.id), study.replicatesPerCell));
+      return { problems: problems.value, stamp };
+    }
+    case "submit": {
+      const problems = await saveDraftOrRefuse(enrollment, entry, input.draft, study.replicatesPerCell, user);
+      if (!problems.ok) return refuse(submission, { form: [problems.message] });
+      if (Object.keys(problems.value).length > 0) {
+        return data({ result: submission.reply({ formErrors: ["Correct the marked fields first."] }), problems: problems.value }, { status: 400 });
       }
-      if (Object.keys(problems).length > 0) return data({ intent, problems, submitProblems: ["Correct the marked fields first."] }, { status: 400 });
       const submitted = await submitMaterial(enrollment, entry.material.id, user);
-      if (!submitted.ok) return data({ intent, submitProblems: submitted.problems }, { status: 400 });
-      return { intent, submitted: true };
+      if (!submitted.ok) return data({ result: submission.reply({ formErrors: submitted.problems }) }, { status: 400 });
+      return redirectWithToast(here, `${entry.material.code} is submitted. Thank you.`);
     }
-    if (intent === "amend") {
-      const fields = z
-        .object({ responseId: z.coerce.number().int(), replicate: z.coerce.number().int(), version: z.coerce.number().int(), value: z.string(), reason: z.string() })
-        .safeParse(Object.fromEntries(form));
-      if (!fields.success) return data({ intent, error: "The amendment could not be read; reload the page." }, { status: 400 });
-      const { responseId, replicate, version, value, reason } = fields.data;
-      const outcome = await amendResult(enrollment, entry.material.id, { responseId, replicate, value, reason, expectedVersion: version }, user);
-      const target = `${responseId}:${replicate}`;
-      return outcome.ok ? { intent, target, amended: true } : data({ intent, target, field: outcome.field, error: outcome.message }, { status: outcome.field === "form" ? 409 : 400 });
+    case "amend": {
+      const { responseId, replicate, version, value, reason } = input;
+      try {
+        const outcome = await amendResult(enrollment, entry.material.id, { responseId, replicate, value, reason, expectedVersion: version }, user);
+        if (!outcome.ok) return refuse(submission, { [outcome.field]: [outcome.message] }, outcome.field === "form" ? 409 : 400);
+      } catch (error) {
+        if (error instanceof ResultsError) return refuse(submission, { form: [error.message] });
+        throw error;
+      }
+      return redirectWithToast(here, "Amendment recorded. The coordinator sees the old and the new value with your reason.");
     }
-    if (intent === "photo") {
-      const replicate = Number(form.get("replicate"));
-      const file = form.get("photo");
-      if (!(file instanceof File) || file.size === 0) return data({ intent, replicate, error: "Choose a photo to upload." }, { status: 400 });
-      await attachReplicatePhoto(enrollment, entry.material.id, replicate, file, user);
-      return { intent, replicate, uploaded: true };
-    }
+    case "photo":
+      try {
+        await attachReplicatePhoto(enrollment, entry.material.id, input.replicate, input.photo, user);
+      } catch (error) {
+        if (error instanceof ResultsError || error instanceof UploadError) return refuse(submission, { photo: [error.message] });
+        throw error;
+      }
+      return redirectWithToast(here, `Photo of replicate ${input.replicate} added.`);
+  }
+}
+
+/** Saves the draft; a study no longer open to changes (a ResultsError) refuses the whole form. */
+async function saveDraftOrRefuse(enrollment: Enrollment, entry: Entry, draft: EntryDraft, replicates: number, user: { id: number }) {
+  try {
+    return { ok: true as const, value: await saveDraft(enrollment, entry, draft, replicates, user) };
   } catch (error) {
-    if (error instanceof ResultsError || error instanceof UploadError) return data({ intent, replicate: Number(form.get("replicate")), error: error.message }, { status: 400 });
+    if (error instanceof ResultsError) return { ok: false as const, message: error.message };
     throw error;
   }
-  return data({ intent, error: "Unknown action." }, { status: 400 });
 }
 
 /** A request that never reached the server answers `offline` instead of replacing the page with an error, so nothing typed is lost. */
@@ -193,7 +192,7 @@ export async function clientAction({ serverAction }: Route.ClientActionArgs) {
     return await serverAction();
   } catch (error) {
     if (isRouteErrorResponse(error)) throw error;
-    return { intent: "offline", offline: true as const };
+    return { offline: true as const };
   }
 }
 
@@ -202,27 +201,24 @@ export function shouldRevalidate({ formData, defaultShouldRevalidate }: ShouldRe
   return formData?.get("intent") === "draft" ? false : defaultShouldRevalidate;
 }
 
-type ActionReply = {
-  intent?: string;
-  error?: string;
-  field?: string;
-  target?: string;
-  replicate?: number;
-  problems?: Record<string, string>;
-  submitProblems?: string[];
-  submitted?: boolean;
-  amended?: boolean;
-  uploaded?: boolean;
-};
+type ActionData = Route.ComponentProps["actionData"];
 
 export default function ResultEntry({ loaderData, actionData }: Route.ComponentProps) {
   const { study, material, responses, targets, photos, openQueries, editable } = loaderData;
-  const reply = actionData as ActionReply | undefined;
   const replicates = Array.from({ length: study.replicatesPerCell }, (_, i) => i + 1);
   const locked = responses.every((r) => r.cell?.status === "submitted");
   const storageKey = `ringbatch:results-draft:${loaderData.enrollmentId}:${material.id}`;
-  const { draft, update, saveState, problems: savedProblems, forget, flush } = useAutosavedDraft({ storageKey, serverDraft: loaderData.draft, intent: "draft" });
-  const problems = { ...savedProblems, ...(reply?.problems ?? {}) };
+  const { draft, update, saveState, problems: savedProblems, forget, flush } = useAutosavedDraft({
+    storageKey,
+    serverDraft: loaderData.draft,
+    intent: "draft",
+    schema: entryDraftSchema,
+  });
+  const submitReply = actionData && "result" in actionData && actionData.result?.initialValue?.intent === "submit" ? actionData : undefined;
+  const submitProblems = submitReply && "problems" in submitReply ? submitReply.problems : undefined;
+  const problems: Record<string, string> = { ...savedProblems, ...(submitProblems as Record<string, string> | undefined), ...draftProblems(draft) };
+  const [submitForm] = useSchemaForm(submitMaterialSchema, { reply: submitReply, intent: "submit" });
+  const submitFormProps = getFormProps(submitForm);
 
   useEffect(() => {
     if (locked) forget();
@@ -234,19 +230,12 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
 
   return (
     <>
-      <PageHeader
-        title={`Results of ${material.code}`}
-        subtitle={
-          <>
-            {study.code} · your lab code {loaderData.labCode ?? "—"} · {material.description}
-          </>
-        }
-        actions={
-          <Link to={`/lab/studies/${study.id}`} className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
-            Back to the study
-          </Link>
-        }
-      />
+      <div className="mb-6 flex flex-wrap items-center justify-between gap-3">
+        <p>{material.description}</p>
+        <Link to={`/lab/studies/${study.id}`} className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
+          Back to the tasks
+        </Link>
+      </div>
       <div className="grid gap-6 [&>*]:min-w-0">
         <ConcreteCaution />
         {!editable && <Notice>Results can be changed only while the study is in testing.</Notice>}
@@ -314,7 +303,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
 
         <Card title={locked ? "Submitted results" : "Results per replicate"}>
           {locked ? (
-            <SubmittedResults responses={responses} replicates={replicates} values={loaderData.submittedValues} reply={reply} editable={editable} photos={photos} />
+            <SubmittedResults responses={responses} replicates={replicates} values={loaderData.submittedValues} actionData={actionData} editable={editable} photos={photos} />
           ) : (
             <div className="relative overflow-x-auto">
               <table className="w-full border-collapse text-left">
@@ -404,24 +393,24 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
             <p className="mb-3">
               Submitting locks every result of {material.code}. After that a change is an amendment with a reason, which the coordinator sees.
             </p>
-            {reply?.submitProblems && (
-              <Notice tone="error">
-                <p className="font-semibold">Not submitted yet:</p>
-                <ul className="ml-5 list-disc">
-                  {reply.submitProblems.map((p) => (
-                    <li key={p}>{p}</li>
-                  ))}
-                </ul>
-              </Notice>
-            )}
-            <Form method="post" className="mt-3" onSubmit={() => flush()}>
+            <Form
+              method="post"
+              className="mt-3 grid gap-3"
+              {...submitFormProps}
+              onSubmit={(event) => {
+                flush();
+                submitFormProps.onSubmit(event);
+              }}
+            >
+              <FormErrors errors={formWideErrors(submitForm)} />
               <input type="hidden" name="intent" value="submit" />
               <input type="hidden" name="draft" value={JSON.stringify(draft)} />
-              <Button type="submit">Submit {material.code}</Button>
+              <div>
+                <Button type="submit">Submit {material.code}</Button>
+              </div>
             </Form>
           </Card>
         )}
-        {reply?.submitted && <Notice tone="success">{material.code} is submitted. Thank you.</Notice>}
         <AmendmentHistory responses={responses} />
       </div>
     </>
@@ -465,9 +454,11 @@ function CellInput({
 }
 
 function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoId?: number; editable: boolean }) {
-  const fetcher = useFetcher<ActionReply>();
-  const error = fetcher.data?.intent === "photo" && fetcher.data.replicate === replicate ? fetcher.data.error : undefined;
-  const id = `photo-${replicate}`;
+  // A fetcher of its own, so a refused photo is named beside its replicate and the grid keeps what was typed.
+  const fetcher = useFetcher<typeof action>();
+  const [form, fields] = useSchemaForm(photoSchema, { reply: fetcher.data, id: `photo-${replicate}` });
+  const error = fields.photo.errors?.[0] ?? formWideErrors(form)[0];
+  const id = fields.photo.id;
   return (
     <div className="flex flex-col gap-1">
       {photoId && (
@@ -476,13 +467,21 @@ function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoI
         </a>
       )}
       {editable && (
-        <fetcher.Form method="post" encType="multipart/form-data" className="flex flex-col gap-1">
+        <fetcher.Form method="post" encType="multipart/form-data" className="flex flex-col gap-1" {...getFormProps(form)}>
           <input type="hidden" name="intent" value="photo" />
           <input type="hidden" name="replicate" value={replicate} />
           <label htmlFor={id} className="sr-only">
             Surface photo of replicate {replicate} (JPEG, PNG or WebP, at most 10 MB)
           </label>
-          <input id={id} name="photo" type="file" accept="image/jpeg,image/png,image/webp" className="max-w-48 text-sm" aria-describedby={error ? `${id}-error` : undefined} />
+          <input
+            id={id}
+            name={fields.photo.name}
+            type="file"
+            accept="image/jpeg,image/png,image/webp"
+            className="max-w-48 text-sm"
+            aria-invalid={error ? true : undefined}
+            aria-describedby={error ? `${id}-error` : undefined}
+          />
           <Button type="submit" variant="secondary" className="min-h-9 px-2 py-1 text-sm" disabled={fetcher.state !== "idle"}>
             {fetcher.state !== "idle" ? "Uploading…" : "Upload"}
             <span className="sr-only"> photo of replicate {replicate}</span>
@@ -504,17 +503,18 @@ function SubmittedResults({
   responses,
   replicates,
   values,
-  reply,
+  actionData,
   editable,
   photos,
 }: {
   responses: ResponseView[];
   replicates: number[];
   values: Record<string, number>;
-  reply?: ActionReply;
+  actionData: ActionData;
   editable: boolean;
   photos: Record<number, number>;
 }) {
+  const answered = actionData && "result" in actionData ? actionData.result?.initialValue : undefined;
   return (
     <div className="grid gap-4">
       {responses.map((response) => (
@@ -524,8 +524,7 @@ function SubmittedResults({
           </h3>
           <ul className="grid gap-2">
             {replicates.map((replicate) => {
-              const target = `${response.id}:${replicate}`;
-              const mine = reply?.intent === "amend" && reply.target === target ? reply : undefined;
+              const mine = answered?.intent === "amend" && answered.responseId === String(response.id) && answered.replicate === String(replicate);
               return (
                 <li key={replicate} className="flex flex-wrap items-start gap-3">
                   <span className="min-w-40">
@@ -537,38 +536,7 @@ function SubmittedResults({
                       </>
                     )}
                   </span>
-                  {editable && (
-                    <details className="flex-1" open={Boolean(mine?.error)}>
-                      <summary className="cursor-pointer font-semibold text-basalt-700 underline">
-                        Amend<span className="sr-only"> {response.name}, replicate {replicate}</span>
-                      </summary>
-                      <Form method="post" className="mt-2 grid max-w-xl gap-2">
-                        <input type="hidden" name="intent" value="amend" />
-                        <input type="hidden" name="responseId" value={response.id} />
-                        <input type="hidden" name="replicate" value={replicate} />
-                        <input type="hidden" name="version" value={response.cell?.version ?? 0} />
-                        {mine?.field === "form" && <Notice tone="error">{mine.error}</Notice>}
-                        <Field
-                          label={`Corrected value, ${response.name.toLowerCase()}, replicate ${replicate}`}
-                          name="value"
-                          id={`amend-value-${target}`}
-                          inputMode="decimal"
-                          required
-                          error={mine?.field === "value" ? mine.error : undefined}
-                        />
-                        <Field
-                          label="Reason for the change"
-                          name="reason"
-                          id={`amend-reason-${target}`}
-                          required
-                          minLength={5}
-                          hint="The coordinator sees the reason, the old and the new value."
-                          error={mine?.field === "reason" ? mine.error : undefined}
-                        />
-                        <Button type="submit">Record amendment</Button>
-                      </Form>
-                    </details>
-                  )}
+                  {editable && <AmendForm response={response} replicate={replicate} reply={mine ? actionData : undefined} />}
                 </li>
               );
             })}
@@ -576,6 +544,28 @@ function SubmittedResults({
         </section>
       ))}
     </div>
+  );
+}
+
+function AmendForm({ response, replicate, reply }: { response: ResponseView; replicate: number; reply: ActionData }) {
+  const target = `${response.id}-${replicate}`;
+  const [form, fields] = useSchemaForm(amendSchema, { reply, id: `amend-${target}` });
+  return (
+    <details className="flex-1" open={Boolean(reply)}>
+      <summary className="cursor-pointer font-semibold text-basalt-700 underline">
+        Amend<span className="sr-only"> {response.name}, replicate {replicate}</span>
+      </summary>
+      <Form method="post" className="mt-2 grid max-w-xl gap-2" {...getFormProps(form)}>
+        <input type="hidden" name="intent" value="amend" />
+        <input type="hidden" name="responseId" value={response.id} />
+        <input type="hidden" name="replicate" value={replicate} />
+        <input type="hidden" name="version" value={response.cell?.version ?? 0} />
+        <FormErrors errors={formWideErrors(form)} />
+        <Field label={`Corrected value, ${response.name.toLowerCase()}, replicate ${replicate}`} inputMode="decimal" {...fieldProps(fields.value)} />
+        <Field label="Reason for the change" hint="The coordinator sees the reason, the old and the new value." {...fieldProps(fields.reason)} />
+        <Button type="submit">Record amendment</Button>
+      </Form>
+    </details>
   );
 }
 
@@ -588,7 +578,7 @@ function AmendmentHistory({ responses }: { responses: ResponseView[] }) {
         {rows.map((a) => (
           <li key={a.id}>
             {a.responseName}, replicate {a.replicate}: {a.oldValue ?? "—"} → <span className="font-semibold">{a.newValue}</span> · “{a.reason}” · {a.byName},{" "}
-            {new Date(a.createdAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" })} UTC
+            {formatDateTime(a.createdAt)}
           </li>
         ))}
       </ul>

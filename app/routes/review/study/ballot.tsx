@@ -1,21 +1,29 @@
-import { Form } from "react-router";
+import { getFormProps } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
+import { data, Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/ballot";
 import { LazyCharts } from "~/components/charts/lazy-charts";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { PrecisionTables } from "~/components/precision-tables";
+import { StateBadge } from "~/components/state-badge";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
-import { Badge, Button, Card, Notice, PageHeader, TextAreaField } from "~/components/ui";
-import { type ActionResult, refused } from "~/lib/form-results";
-import { type FieldErrors, parseForm } from "~/lib/forms";
-import { requireStudy } from "~/server/study-context.server";
+import type { StudyPageHandle } from "~/components/study-frame";
+import { Button, Card, TextAreaField } from "~/components/ui";
+import { formatDateTime } from "~/lib/format";
 import { reviewRefusal } from "~/lib/review/write-rules";
-import { STATE_LABEL } from "~/lib/state-labels";
-import { addComment, castVote, commentsOn, ReviewError } from "~/models/review.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
+import { STATEMENT_STATE, VOTE_CHOICE } from "~/lib/state-labels";
 import { studyAnalysis } from "~/models/analysis.server";
+import { addComment, castVote, commentsOn, ReviewError } from "~/models/review.server";
 import { listStatements, studyDesign, votesOn } from "~/models/statement.server";
+import { refuse } from "~/server/form-reply.server";
+import { requireStudy } from "~/server/study-context.server";
+import { redirectWithToast } from "~/server/toast.server";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Review · ${data?.study.code ?? "Study"} · Ringbatch` }];
+export const handle = { pageTitle: "Review" } satisfies StudyPageHandle;
 
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta("Review", matches);
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, user } = requireStudy(context, ["reviewer"]);
   // The committee sees only versions that were sent to it, never a coordinator's draft.
@@ -23,10 +31,21 @@ export async function loader({ context }: Route.LoaderArgs) {
   const [roundVotes, comments] = statement ? await Promise.all([votesOn(statement.id), commentsOn(statement.id)]) : [[], []];
   const own = roundVotes.find((v) => v.reviewerId === user.id) ?? null;
   // Before a version is sent, the committee can follow the blinded figures as they stand.
-  const current = statement ? null : { analysis: await studyAnalysis(study), responses: (await studyDesign(study.id)).responses };
+  const current = statement
+    ? null
+    : {
+        analysis: await studyAnalysis(study),
+        responses: (await studyDesign(study.id)).responses,
+      };
   return {
     current,
-    study: { id: study.id, code: study.code, title: study.title, testMethod: study.testMethod, state: study.state },
+    study: {
+      id: study.id,
+      code: study.code,
+      title: study.title,
+      testMethod: study.testMethod,
+      state: study.state,
+    },
     statement: statement && {
       version: statement.version,
       state: statement.state,
@@ -43,34 +62,43 @@ export async function loader({ context }: Route.LoaderArgs) {
 
 const voteSchema = z
   .object({
-    choice: z.enum(["approve", "object", "abstain"], { message: "Choose approve, object or abstain." }),
-    reason: z.string().trim().max(4000, "Keep the reason under 4000 characters."),
+    intent: z.literal("vote"),
+    choice: z.enum(["approve", "object", "abstain"], {
+      message: "Choose approve, object or abstain.",
+    }),
+    reason: z.string().trim().max(4000, "Keep the reason under 4000 characters.").optional(),
   })
-  .refine((v) => v.choice !== "object" || v.reason.length >= 10, { path: ["reason"], message: "An objection needs its reason (at least 10 characters)." });
+  .refine((v) => v.choice !== "object" || (v.reason ?? "").length >= 10, {
+    path: ["reason"],
+    message: "An objection needs its reason (at least 10 characters).",
+  });
 
-const commentSchema = z.object({ body: z.string().trim().min(2, "Write the comment.").max(4000, "Keep the comment under 4000 characters.") });
+const commentSchema = z.object({
+  intent: z.literal("comment"),
+  body: z.string({ message: "Write the comment." }).trim().min(2, "Write the comment.").max(4000, "Keep the comment under 4000 characters."),
+});
+
+const ballotSchema = z.discriminatedUnion("intent", [voteSchema, commentSchema]);
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireStudy(context, ["reviewer"]);
-  const form = await request.formData();
-  const intent = String(form.get("intent") ?? "");
-  const fail = (errors: FieldErrors, values: Record<string, string>, status = 400) => refused(intent, errors, values, status);
+  const submission = parseWithZod(await request.formData(), {
+    schema: ballotSchema,
+  });
+  if (submission.status !== "success") return refuse(submission);
+  const input = submission.value;
   try {
-    if (intent === "vote") {
-      const parsed = parseForm(voteSchema, form);
-      if (!parsed.ok) return fail(parsed.errors, parsed.values);
-      await castVote(study, user.id, { choice: parsed.data.choice, reason: parsed.data.reason || null });
-      return { intent, done: "Your vote is recorded. You may change it until the round closes." } satisfies ActionResult;
+    if (input.intent === "vote") {
+      await castVote(study, user.id, {
+        choice: input.choice,
+        reason: input.reason || null,
+      });
+      return redirectWithToast(`/review/${study.id}`, "Your vote is recorded. You may change it until the round closes.");
     }
-    if (intent === "comment") {
-      const parsed = parseForm(commentSchema, form);
-      if (!parsed.ok) return fail(parsed.errors, parsed.values);
-      await addComment(study, user.id, parsed.data.body);
-      return { intent, done: "Comment added." } satisfies ActionResult;
-    }
-    return fail({ form: "Unknown action." }, {});
+    await addComment(study, user.id, input.body);
+    return redirectWithToast(`/review/${study.id}`, "Comment added.");
   } catch (error) {
-    if (error instanceof ReviewError) return fail({ form: error.message }, {}, 409);
+    if (error instanceof ReviewError) return data({ result: submission.reply({ formErrors: [error.message] }) }, { status: 409 });
     throw error;
   }
 }
@@ -82,143 +110,159 @@ const CHOICES = [
 ] as const;
 
 export default function ReviewStudy({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, statement, current, votes, own, comments, refusal } = loaderData;
-  const outcome = actionData as ActionResult | undefined;
-  const failed = outcome?.errors ? outcome : null;
+  const { statement, current, votes, own, comments, refusal } = loaderData;
   return (
-    <>
-      <PageHeader
-        title={`Review — ${study.code}`}
-        subtitle={
-          <>
-            {study.title} · <Badge>{STATE_LABEL[study.state]}</Badge> · labs appear by code only
-          </>
-        }
-      />
-      <div className="flex flex-col gap-6">
-        <StatementCaution />
-        {outcome?.done && <Notice tone="success">{outcome.done}</Notice>}
-        {failed?.errors?.form && <Notice tone="error">{failed.errors.form}</Notice>}
-        {!statement ? (
-          <>
-            <Card title="No statement yet">
-              <p>
-                The coordinator has not sent a statement to the committee yet. Below are the figures as they stand now, from the submitted
-                results and the coordinator's decisions so far; they may still change before a version is frozen and sent to you.
-              </p>
-            </Card>
-            {current && (
-              <>
-                <Card title="Current consistency and precision charts">
-                  <LazyCharts analysis={current.analysis} responses={current.responses} />
-                </Card>
-                <Card title="Current figures">
-                  <PrecisionTables analysis={current.analysis} responses={current.responses} headingLevel={3} />
-                </Card>
-              </>
-            )}
-          </>
-        ) : (
-          <>
-            <Card title={`Statement version ${statement.version}`}>
+    <div className="flex flex-col gap-6">
+      <StatementCaution />
+      {!statement ? (
+        <>
+          <Card title="No statement yet">
+            <p>
+              The coordinator has not sent a statement to the committee yet. Below are the figures as they stand now, from the submitted results and the
+              coordinator's decisions so far; they may still change before a version is frozen and sent to you.
+            </p>
+          </Card>
+          {current && (
+            <>
+              <Card title="Current consistency and precision charts">
+                <LazyCharts analysis={current.analysis} responses={current.responses} />
+              </Card>
+              <Card title="Current figures">
+                <PrecisionTables analysis={current.analysis} responses={current.responses} headingLevel={3} />
+              </Card>
+            </>
+          )}
+        </>
+      ) : (
+        <>
+          <Card title={`Statement version ${statement.version}`}>
+            <p className="mb-3">
+              <StateBadge view={STATEMENT_STATE[statement.state]} /> · {statement.snapshot.labs} labs, {statement.snapshot.materials.length} materials,{" "}
+              {statement.snapshot.replicates} replicates · data version {statement.snapshot.dataVersion}
+            </p>
+            <StatementTexts textE691={statement.textE691} textC670={statement.textC670} />
+            <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells left out</h3>
+            <ExcludedCells excluded={statement.snapshot.analysis.excluded} />
+          </Card>
+          <Card title="Your vote">
+            {own && (
               <p className="mb-3">
-                <Badge>{statement.state.replace("_", " ")}</Badge> · {statement.snapshot.labs} labs, {statement.snapshot.materials.length} materials,{" "}
-                {statement.snapshot.replicates} replicates · data version {statement.snapshot.dataVersion}
+                You voted <strong>{VOTE_CHOICE[own.choice].label.toLowerCase()}</strong>
+                {own.reason && <> — “{own.reason}”</>}.
               </p>
-              <StatementTexts textE691={statement.textE691} textC670={statement.textC670} />
-              <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells left out</h3>
-              <ExcludedCells excluded={statement.snapshot.analysis.excluded} />
-            </Card>
-            <Card title="Your vote">
-              {own && (
-                <p className="mb-3">
-                  You voted <strong>{own.choice}</strong>
-                  {own.reason && <> — “{own.reason}”</>}.
-                </p>
-              )}
-              {refusal ? (
-                <p>{refusal}</p>
-              ) : (
-                <Form method="post" className="flex flex-col gap-3">
-                  <input type="hidden" name="intent" value="vote" />
-                  <fieldset aria-describedby={failed?.errors?.choice ? "field-choice-error" : undefined}>
-                    <legend className="mb-1 font-semibold text-basalt-800">{own ? "Change your vote" : "Your vote"}</legend>
-                    <div className="flex flex-wrap gap-4">
-                      {CHOICES.map((c) => (
-                        <label key={c.value} className="inline-flex min-h-11 items-center gap-2">
-                          <input type="radio" name="choice" value={c.value} defaultChecked={(failed?.values?.choice ?? own?.choice) === c.value} className="size-5" />
-                          {c.label}
-                        </label>
-                      ))}
-                    </div>
-                    {failed?.errors?.choice && (
-                      <p id="field-choice-error" className="text-sm font-semibold text-signal-700">
-                        {failed.errors.choice}
+            )}
+            {refusal ? <p>{refusal}</p> : <VoteForm own={own} actionData={actionData} />}
+          </Card>
+          <Card title="Votes and answers">
+            {votes.length === 0 ? (
+              <p>No vote yet.</p>
+            ) : (
+              <ul className="flex flex-col gap-2">
+                {votes.map((v) => (
+                  <li key={v.id} className="rounded border border-basalt-100 p-3">
+                    <strong>{v.reviewer}</strong>: <StateBadge view={VOTE_CHOICE[v.choice]} />
+                    {v.reason && <> — “{v.reason}”</>}
+                    {v.answer && (
+                      <p className="mt-1">
+                        Coordinator's answer: <strong>{v.answer === "upheld" ? "upheld" : "not upheld"}</strong> — {v.answerRationale}
                       </p>
                     )}
-                  </fieldset>
-                  <TextAreaField name="reason" label="Reason" hint="Required when you object." error={failed?.errors?.reason} defaultValue={failed?.values?.reason ?? own?.reason ?? ""} />
-                  <div>
-                    <Button type="submit">Record my vote</Button>
-                  </div>
-                </Form>
-              )}
-            </Card>
-            <Card title="Votes and answers">
-              {votes.length === 0 ? (
-                <p>No vote yet.</p>
-              ) : (
-                <ul className="flex flex-col gap-2">
-                  {votes.map((v) => (
-                    <li key={v.id} className="rounded border border-basalt-100 p-3">
-                      <strong>{v.reviewer}</strong>: {v.choice}
-                      {v.reason && <> — “{v.reason}”</>}
-                      {v.answer && (
-                        <p className="mt-1">
-                          Coordinator's answer: <strong>{v.answer === "upheld" ? "upheld" : "not upheld"}</strong> — {v.answerRationale}
-                        </p>
-                      )}
-                    </li>
-                  ))}
-                </ul>
-              )}
-            </Card>
-            <Card title="Comments">
-              {comments.length === 0 ? (
-                <p>No comment yet.</p>
-              ) : (
-                <ul className="mb-4 flex flex-col gap-2">
-                  {comments.map((c) => (
-                    <li key={c.id} className="rounded border border-basalt-100 p-3">
-                      <p className="text-sm text-basalt-700">
-                        {c.author} · {c.createdAt.slice(0, 16).replace("T", " ")}
-                      </p>
-                      <p className="whitespace-pre-line">{c.body}</p>
-                    </li>
-                  ))}
-                </ul>
-              )}
-              {!refusal && (
-                <Form method="post" className="flex flex-col gap-3">
-                  <input type="hidden" name="intent" value="comment" />
-                  <TextAreaField name="body" label="Add a comment" error={failed?.errors?.body} defaultValue={failed?.intent === "comment" ? failed.values?.body : ""} />
-                  <div>
-                    <Button type="submit" variant="secondary">
-                      Add the comment
-                    </Button>
-                  </div>
-                </Form>
-              )}
-            </Card>
-            <Card title="Charts">
-              <LazyCharts analysis={statement.snapshot.analysis} responses={statement.snapshot.responses} />
-            </Card>
-            <Card title="Tables">
-              <PrecisionTables analysis={statement.snapshot.analysis} responses={statement.snapshot.responses} headingLevel={3} />
-            </Card>
-          </>
+                  </li>
+                ))}
+              </ul>
+            )}
+          </Card>
+          <Card title="Comments">
+            {comments.length === 0 ? (
+              <p>No comment yet.</p>
+            ) : (
+              <ul className="mb-4 flex flex-col gap-2">
+                {comments.map((c) => (
+                  <li key={c.id} className="rounded border border-basalt-100 p-3">
+                    <p className="text-sm text-basalt-700">
+                      {c.author} · {formatDateTime(c.createdAt)}
+                    </p>
+                    <p className="whitespace-pre-line">{c.body}</p>
+                  </li>
+                ))}
+              </ul>
+            )}
+            {/* Keyed by the number of comments, so the box is empty again once a comment is added. */}
+            {!refusal && <CommentForm key={comments.length} actionData={actionData} />}
+          </Card>
+          <Card title="Charts">
+            <LazyCharts analysis={statement.snapshot.analysis} responses={statement.snapshot.responses} />
+          </Card>
+          <Card title="Tables">
+            <PrecisionTables analysis={statement.snapshot.analysis} responses={statement.snapshot.responses} headingLevel={3} />
+          </Card>
+        </>
+      )}
+    </div>
+  );
+}
+
+type ActionData = Route.ComponentProps["actionData"];
+
+function VoteForm({
+  own,
+  actionData,
+}: {
+  own: {
+    choice: "approve" | "object" | "abstain";
+    reason: string | null;
+  } | null;
+  actionData: ActionData;
+}) {
+  const [form, fields] = useSchemaForm(voteSchema, {
+    reply: actionData,
+    intent: "vote",
+    defaultValue: { choice: own?.choice, reason: own?.reason ?? "" },
+  });
+  const choiceError = fields.choice.errors?.[0];
+  return (
+    <Form method="post" className="flex flex-col gap-3" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="vote" />
+      <FormErrors errors={formWideErrors(form)} />
+      <fieldset aria-describedby={choiceError ? `${fields.choice.id}-error` : undefined}>
+        <legend className="mb-1 font-semibold text-basalt-800">{own ? "Change your vote" : "Your vote"}</legend>
+        <div className="flex flex-wrap gap-4">
+          {CHOICES.map((c) => (
+            <label key={c.value} className="inline-flex min-h-11 items-center gap-2">
+              <input type="radio" name={fields.choice.name} value={c.value} defaultChecked={fields.choice.initialValue === c.value} className="size-5" />
+              {c.label}
+            </label>
+          ))}
+        </div>
+        {choiceError && (
+          <p id={`${fields.choice.id}-error`} className="text-sm font-semibold text-signal-700">
+            {choiceError}
+          </p>
         )}
+      </fieldset>
+      <TextAreaField label="Reason" hint="Required when you object." {...fieldProps(fields.reason)} />
+      <div>
+        <Button type="submit">Record my vote</Button>
       </div>
-    </>
+    </Form>
+  );
+}
+
+function CommentForm({ actionData }: { actionData: ActionData }) {
+  const [form, fields] = useSchemaForm(commentSchema, {
+    reply: actionData,
+    intent: "comment",
+  });
+  return (
+    <Form method="post" className="flex flex-col gap-3" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="comment" />
+      <FormErrors errors={formWideErrors(form)} />
+      <TextAreaField label="Add a comment" {...fieldProps(fields.body)} />
+      <div>
+        <Button type="submit" variant="secondary">
+          Add the comment
+        </Button>
+      </div>
+    </Form>
   );
 }
