@@ -17,8 +17,8 @@ const port = Number(process.env.PORT ?? (development ? 5173 : 3000));
 const app = express();
 app.disable("x-powered-by");
 // A line per request costs a write to stdout on every answer; in production a proxy in front usually
-// keeps the access log, so the app writes one only when REQUEST_LOG is set.
-if (!production || process.env.REQUEST_LOG) app.use(morgan("tiny"));
+// keeps the access log, so outside development the app writes one only when REQUEST_LOG is set.
+if (development || process.env.REQUEST_LOG) app.use(morgan("tiny"));
 
 let vite;
 if (!development) {
