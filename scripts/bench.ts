@@ -217,7 +217,8 @@ for (const page of perPage) {
   const goal = page.route.includes("result-entry") ? "≤ 150 kB" : "";
   if (goal || page.charts) line(`JS for ${page.route}`, `${(page.gzipBytes / 1024).toFixed(1)} kB gzip${page.charts ? ", can load charts" : ""}`, goal || "charts only on chart pages", goal ? page.gzipBytes <= 150 * 1024 : true);
 }
-const chartsElsewhere = perPage.filter((p) => p.charts && !/analysis|ballot|report|material/.test(p.route));
+// The pages that draw charts: the analysis, the review ballot, the report, a proficiency round's letter, a ruggedness study's effects.
+const chartsElsewhere = perPage.filter((p) => p.charts && !/study\/(analysis|ballot|report|effects)$|round\/letter$/.test(p.route));
 line("charting library on pages without charts", chartsElsewhere.map((p) => p.route).join(", ") || "none", "none", chartsElsewhere.length === 0);
 const heaviest = [...perPage].sort((a, b) => b.gzipBytes - a.gzipBytes)[0]!;
 note(`heaviest page up front: ${heaviest.route}, ${(heaviest.gzipBytes / 1024).toFixed(1)} kB gzip`);
