@@ -14,13 +14,13 @@ export function roundSignificant(x: number, digits: number = STATEMENT_SIGNIFICA
 
 /**
  * x as text with `digits` significant digits, in plain notation between 1e-6
- * and 1e21 (e.g. 0.0123, 1.20, 1230 — trailing zeros kept, they are significant).
+ * and 1e21 (e.g. 0.0123, 1.20, 1230 — trailing zeros after the point kept, they are significant).
  */
 export function formatSignificant(x: number | null | undefined, digits: number = STATEMENT_SIGNIFICANT_DIGITS): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return "—";
   if (x === 0) return "0";
-  const exponent = Math.floor(Math.log10(Math.abs(Number(x.toPrecision(digits)))));
+  const rounded = Number(x.toPrecision(digits));
+  const exponent = Math.floor(Math.log10(Math.abs(rounded)));
   if (exponent < -6 || exponent >= 21) return x.toPrecision(digits);
-  const decimals = Math.max(0, digits - 1 - exponent);
-  return x.toFixed(decimals);
+  return rounded.toFixed(Math.max(0, digits - 1 - exponent));
 }
