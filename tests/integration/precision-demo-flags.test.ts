@@ -6,8 +6,13 @@ import { flaggedCells, suggestedQuestion } from "~/lib/review/flags";
 import { studyAnalysis } from "~/models/analysis.server";
 import { plannerView } from "~/models/study-planner.server";
 import { loadSessionUser } from "~/models/user.server";
+import * as newStudyPage from "~/routes/studies/new";
+import * as analysisPage from "~/routes/studies/study/analysis";
+import * as setupPage from "~/routes/studies/study/setup";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
+import { demoCookie } from "../support/demo";
+import { call, get } from "../support/routes";
 
 beforeAll(async () => {
   await useFreshDatabase();
@@ -75,5 +80,39 @@ describe("the study planner", () => {
     expect(view.cost.volumePerLabM3).toBeCloseTo(2 * 3 * 0.0425 * 1.1, 12);
     expect(view.cost.perLab.find((c) => c.kind === "fiber")?.amount).toBeGreaterThan(0);
     expect(view.cost.total.find((c) => c.kind === "cement")?.amount).toBeCloseTo(8 * (390 + 293) * 3 * 0.0425 * 1.1, 0);
+  });
+});
+
+describe("the pages", () => {
+  it("the analysis page carries the flags with their tests, the intervals, the warnings and what the significance choice changes", async () => {
+    const id = String((await study("FF-2026-B")).id);
+    const { status, data } = await call(analysisPage.loader, get(`/studies/${id}/analysis`, await demoCookie("coordinator@ringbatch.example")), { studyId: id });
+    expect(status).toBe(200);
+    expect(data.analysis.warnings.map((w: { code: string }) => w.code)).toEqual(["few-labs", "few-materials", "few-materials"]);
+    expect(data.analysis.significance).toMatch(/Cochran's and Grubbs' tests are always judged at 5 %/);
+    const computed = data.analysis.groups.find((g: { status: string }) => g.status === "computed");
+    expect(computed.uncertainty.sr.method).toMatch(/chi-square/);
+    expect(computed.screening[0].test).toBe("cochran");
+    for (const f of data.flagged) expect(f.statistic).toMatch(/critical value|beyond|above/);
+  });
+
+  it("the setup page plans the study with γ from the earlier study of the same method", async () => {
+    const id = String((await study("FF-2026-B")).id);
+    const { status, data } = await call(setupPage.loader, get(`/studies/${id}/setup?target=25`, await demoCookie("coordinator@ringbatch.example")), { studyId: id });
+    expect(status).toBe(200);
+    expect(data.planner.gammaSource).toMatch(/FF-2026-A/);
+    expect(data.planner.plan.targetAR).toBe(0.25);
+    expect(data.planner.cost.perLab.length).toBeGreaterThan(0);
+  });
+
+  it("the new-study page plans with the default γ = 2 or the one entered", async () => {
+    const cookie = await demoCookie("coordinator@ringbatch.example");
+    const plain = await call(newStudyPage.loader, get("/studies/new", cookie));
+    expect(plain.data.planner.plan.gamma).toBe(2);
+    expect(plain.data.planner.plan.smallest).toMatchObject({ labs: 18, replicates: 2 });
+    expect(plain.data.planner.cost.volumePerLabM3).toBeCloseTo(3 * 2 * 0.0425 * 1.1, 12);
+    const entered = await call(newStudyPage.loader, get("/studies/new?gamma=3&materials=5&labs=10&replicates=3", cookie));
+    expect(entered.data.planner.plan.gamma).toBe(3);
+    expect(entered.data.planner.cost.volumePerLabM3).toBeCloseTo(5 * 3 * 0.0425 * 1.1, 12);
   });
 });
