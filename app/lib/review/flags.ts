@@ -35,7 +35,7 @@ export function labClasses(group: GroupResult, lab: string): LabClasses {
 
 /** Every finding on the lab, one per test, joined: what a query quotes, e.g. `h = 2.34, beyond ±2.06 (ASTM E691 at 0.5 %)`. */
 export function flagStatistic(_group: ComputedGroup, lab: LabResult): string {
-  return lab.findings.map((finding) => finding.text).join("; ");
+  return (lab.findings ?? []).map((finding) => finding.text).join("; ");
 }
 
 export type FlaggedCell = CellRef & { statistic: string; flags: LabResult["flags"]; tests: Finding["test"][]; findings: Finding[] };
@@ -46,7 +46,8 @@ export function flaggedCells(analysis: StudyAnalysis): FlaggedCell[] {
     group.status !== "computed"
       ? []
       : group.labs
-          .filter((lab) => lab.findings.length > 0)
+          // analyses frozen before findings existed have none
+          .filter((lab) => (lab.findings ?? []).length > 0)
           .map((lab) => ({
             lab: lab.lab,
             material: group.material,
