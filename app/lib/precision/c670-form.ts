@@ -20,7 +20,7 @@ export function relativeSpread(values: readonly number[]): number {
   return sd / Math.abs(mean);
 }
 
-const pct = (x: number) => `${(100 * x).toFixed(0)} %`;
+const pct = (x: number) => `${(100 * x).toFixed(1)} %`;
 
 /**
  * ASTM C670 lets a statement give precision as 1s and d2s or, when the
