@@ -186,7 +186,10 @@ export function screenCells(input: ScreeningInput): ScreeningOutcome {
     }
     const d = screenGrubbsDouble(input, side);
     doubles[side] = d;
-    if (d === null) continue;
+    if (d === null) {
+      notRun(`no critical value of the double test is available for ${p} labs`);
+      continue;
+    }
     steps.push({
       test: "grubbs-double",
       side,
