@@ -39,7 +39,7 @@ const SIMULATED = new Map(precomputed.rows.map((row) => [row.p, [row.critical1, 
  * ISO 5725-2, lower critical values of the double Grubbs test at 5 % and 1 %
  * (the statistic is suspect when below them). p = 4 … 20: the published
  * table. p = 21 … 40: a Monte Carlo precomputation precise to the fourth
- * decimal (standard error below 0.0001), made once by
+ * decimal (standard error at most 0.0001), made once by
  * `scripts/grubbs-double-table.ts` with the seed it names and kept in
  * `grubbs-double-table.json`; it reproduces the published p = 19 and 20 values.
  * Null outside 4 ≤ p ≤ 40.
