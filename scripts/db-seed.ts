@@ -5,9 +5,11 @@
  * creates the first administrator. A database with accounts is left alone.
  */
 import { closeDatabase, databaseConfig, db } from "../app/db/client.server";
-import { prepareFirstUse, SETUP_LINK_MINUTES } from "../app/models/first-use.server";
+import { SETUP_LINK_MINUTES } from "../app/lib/first-admin-form";
+import { prepareFirstUse } from "../app/models/first-use.server";
+import { seedDemo } from "../seed/seed";
 
-const firstUse = await prepareFirstUse(process.env, db);
+const firstUse = await prepareFirstUse(seedDemo, process.env, db);
 const where = databaseConfig().url;
 if (firstUse.outcome === "has-accounts") {
   console.log(`${where} has accounts: nothing written.`);

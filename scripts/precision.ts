@@ -12,6 +12,16 @@
 // Sound data that are too thin for a group (fewer than 3 labs, a lab with one
 // result) still give exit status 0: that group is printed with its cell
 // statistics and `reasons`, and the same messages are listed under `problems`.
+// Values beyond ±1e150 (their squares would overflow) are damaged input too.
+//
+// The JSON holds, per computed group, the figures (s_r, s_R, r, R, the C670
+// forms), their 95 % confidence intervals and ISO 5725-1's A_r / A_R under
+// `uncertainty`, the ISO 5725-2 screening in order under `screening` and each
+// lab's `findings` (test, statistic, critical values); per response the
+// weighted level fit with the reason for its relation and the C670 form; and
+// `warnings` where the design falls short of the practices' minimums (fewer
+// than 6 labs, 3 materials, 2 replicates). The warnings are also written to
+// standard error, one per line, prefixed "warning: " (exit status stays 0).
 import { readFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import {
@@ -77,7 +87,9 @@ function main(argv: string[]): void {
   const analysis = analyzeStudy(csv.rows, { alpha, responseKinds, excludedCells });
   const inputErrors = analysis.problems.filter(isInputError);
   if (inputErrors.length > 0) return fail(inputErrors.map((problem) => `${file}: ${problem.message}`));
-  process.stdout.write(`${JSON.stringify(analysis, null, 2)}\n`);
+  const { alpha: level, significance, warnings, ...rest } = analysis;
+  for (const warning of warnings) process.stderr.write(`warning: ${warning.message}\n`);
+  process.stdout.write(`${JSON.stringify({ alpha: level, significance, warnings, ...rest }, null, 2)}\n`);
 }
 
 main(process.argv.slice(2));

@@ -3,6 +3,7 @@
  * a finishability study of four paving mixtures in eight labs. Every name,
  * address and number here is invented.
  */
+import { DEMO_ADMIN_EMAIL } from "../app/lib/demo";
 
 export const DEMO_PASSWORD = "ringbatch-demo";
 
@@ -18,7 +19,7 @@ export const DEMO_LABS = [
 ] as const;
 
 export const DEMO_PEOPLE = {
-  admin: { email: "admin@ringbatch.example", name: "Ines Marwick" },
+  admin: { email: DEMO_ADMIN_EMAIL, name: "Ines Marwick" },
   coordinator: { email: "coordinator@ringbatch.example", name: "Dr. Talia Brennock" },
   analysts: [
     "Omar Feldane",

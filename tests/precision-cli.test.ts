@@ -54,7 +54,10 @@ const smallLines = [
 describe("npm run precision", () => {
   it("prints the precision statistics of a small file as JSON", async () => {
     const { status, stdout, stderr } = await runCli(writeCsv("small.csv", smallLines));
-    expect(stderr).toBe("");
+    // Issue #16: the practices' minimum design is checked; 3 labs and 1 material fall short, and the
+    // command line says so on standard error (it used to print nothing there) while still exiting 0.
+    expect(stderr.trim().split("\n").every((line) => line.startsWith("warning: "))).toBe(true);
+    expect(stderr).toMatch(/fewer than 6 labs: M1 \/ slump \(3\), M1 \/ air \(2\)/);
     expect(status).toBe(0);
     const output = JSON.parse(stdout);
     const slump = output.groups[0];
@@ -69,6 +72,24 @@ describe("npm run precision", () => {
     expect(output.groups[1]).toMatchObject({ response: "air", status: "not-computed", p: 2 });
     expect(output.groups[1].reasons[0]).toMatch(/at least 3 labs/);
     expect(output.problems).toMatchObject([{ code: "too-few-labs" }]);
+    // The new figures: confidence intervals, A_r / A_R, the screening steps, findings, warnings, the C670 form.
+    expect(slump.uncertainty.sr).toMatchObject({ df: 3, method: expect.stringMatching(/chi-square/) });
+    expect(slump.uncertainty.sR.method).toMatch(/Satterthwaite|s_L² < 0/);
+    expect(typeof slump.uncertainty.Ar).toBe("number");
+    expect(slump.screening.map((step: { test: string }) => step.test)).toEqual(["cochran", "grubbs-single", "grubbs-single", "grubbs-double", "grubbs-double"]);
+    expect(slump.labs[0].findings).toEqual([]);
+    expect(output.warnings.map((w: { code: string }) => w.code)).toEqual(["few-labs", "few-materials", "few-materials"]);
+    expect(output.significance).toMatch(/ASTM E691's 0.5 % level/);
+    expect(output.levelFits[0].c670Form.form).toBe("absolute");
+  });
+
+  it("refuses a value whose square would overflow and names its row", async () => {
+    // Results files take plain decimals only (no exponent), so 1e200 is written out in full.
+    const lines = [...smallLines.slice(0, 3), `L02,M1,slump,1,1${"0".repeat(200)}`, ...smallLines.slice(4, 7)];
+    const { status, stdout, stderr } = await runCli(writeCsv("huge.csv", lines));
+    expect(status).toBe(1);
+    expect(stdout).toBe("");
+    expect(stderr).toMatch(/row 4 .*too large to compute with: its square would overflow/);
   });
 
   it("reproduces NIST StRD SiRstv's certified within mean square, in full double precision", async () => {

@@ -1,7 +1,7 @@
 /** Pieces the round pages and the lab's letter share. */
 import type { FormReply } from "~/components/forms";
 import { Badge } from "~/components/ui";
-import type { ScoreVerdict } from "~/lib/proficiency";
+import type { ScoreVerdict } from "~/db/values";
 import { formatFigure } from "~/lib/review/format";
 
 export const VERDICT_VIEW: Record<ScoreVerdict, { label: string; tone: "leaf" | "ochre" | "signal" }> = {

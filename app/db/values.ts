@@ -72,4 +72,6 @@ export type SigmaPtMethod = (typeof SIGMA_PT_METHODS)[number];
 export const MATERIAL_CHECKS = ["homogeneity", "stability"] as const;
 export type MaterialCheck = (typeof MATERIAL_CHECKS)[number];
 
-export { SCORE_VERDICTS, type ScoreVerdict } from "../lib/proficiency/interpretation";
+/** How a proficiency score reads (ISO 13528 § 9.7): |score| ≤ 2, 2 < |score| < 3, |score| ≥ 3. */
+export const SCORE_VERDICTS = ["satisfactory", "questionable", "unsatisfactory"] as const;
+export type ScoreVerdict = (typeof SCORE_VERDICTS)[number];

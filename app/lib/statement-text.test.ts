@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { analyzeStudy, type ComputedGroup, type ResultRow } from "~/lib/precision";
-import { c670Text, e691Text, percentFormSteadier, type StatementSnapshot } from "./statement-text";
+import { analyzeStudy, formatSignificant, type ComputedGroup, type ResultRow } from "~/lib/precision";
+import { c670Text, e691Text, ROUNDING_RULE, responseForm, type StatementSnapshot } from "./statement-text";
 
 // Planted data (invented): 4 labs, 2 materials, 2 replicates; L4 on B is left out.
 const VALUES: Record<string, Record<string, number[]>> = {
@@ -34,10 +34,26 @@ describe("E691 form", () => {
     expect(text).toContain("2 replicate results");
     expect(text).toContain("lab L4, material B, holes: batch water doubled by mistake");
   });
-  it("reports the engine's s_r, s_R, r and R of each material", () => {
-    expect(text).toContain(`A, average ${a.mean.toFixed(1)} passes: s_r = ${a.sr.toFixed(2)}, s_R = ${a.sR.toFixed(2)}, r = ${a.r.toFixed(1)}, R = ${a.R.toFixed(1)}`);
+  // Issue #16: figures follow one stated rounding rule, three significant digits (ASTM E691: two or three);
+  // this test used to expect the response's decimals + 2 for s and + 1 for r and R.
+  it("reports the engine's s_r, s_R, r and R of each material to three significant digits", () => {
+    const sig = (x: number) => formatSignificant(x, 3);
+    expect(text).toContain(`A, average ${a.mean.toFixed(1)} passes: s_r = ${sig(a.sr)}, s_R = ${sig(a.sR)}, r = ${sig(a.r)}, R = ${sig(a.R)}`);
+    expect(text).toContain(ROUNDING_RULE);
+    expect(ROUNDING_RULE).toMatch(/3 significant digits \(ASTM E691 asks for two or three\)/);
     // ASTM E691: r = 2.8 s_r.
     expect(a.r / a.sr).toBeCloseTo(2.8, 10);
+  });
+  it("gives the 95 % confidence intervals and ISO 5725-1's ±A_r, ±A_R", () => {
+    const u = a.uncertainty;
+    expect(text).toContain(`σ_r ${formatSignificant(u.sr.lower, 3)} to ${formatSignificant(u.sr.upper, 3)} passes (chi-square, 4 degrees of freedom)`);
+    expect(text).toMatch(/σ_R .* \(Satterthwaite, \d+\.\d effective degrees of freedom\)/);
+    expect(text).toContain(`s_r ± ${(100 * u.Ar).toFixed(0)} %`);
+  });
+  it("states where the design falls short of the practices' minimums", () => {
+    expect(text).toContain("Limitations of the study design:");
+    expect(text).toMatch(/fewer than 6 labs/);
+    expect(text).toMatch(/2 materials; ASTM E691 asks for at least 3/);
   });
 });
 
@@ -50,17 +66,34 @@ describe("C670 form", () => {
     expect(text).toMatch(/Multilaboratory precision/);
     expect(text).toContain("left out of the analysis");
   });
-  it("chooses the percent form when the coefficient of variation is the steadier figure", () => {
-    const proportional = [
-      { sr: 1, sR: 2, cvr: 10, cvR: 20 },
-      { sr: 2, sR: 4, cvr: 10, cvR: 20 },
-    ] as ComputedGroup[];
-    expect(percentFormSteadier(proportional, "r")).toBe(true);
-    const constant = [
-      { sr: 1, sR: 2, cvr: 10, cvR: 20 },
-      { sr: 1, sR: 2, cvr: 5, cvR: 10 },
-    ] as ComputedGroup[];
-    expect(percentFormSteadier(constant, "R")).toBe(false);
+  // Issue #16: one form per response for both precisions, by one stated rule (this test used to
+  // check a per-precision choice, which could give s_r in percent and s_R in passes).
+  it("gives both precisions of a response in one form, chosen by one stated rule", () => {
+    const form = responseForm(analysis, "holes");
+    const section = text.slice(text.indexOf("Passes to close the holes"));
+    if (form.form === "percent") {
+      expect(section.match(/1s % =/g)).toHaveLength(4);
+      expect(section).not.toMatch(/1s = /);
+    } else {
+      expect(section.match(/1s = /g)).toHaveLength(4);
+      expect(section).not.toMatch(/1s % =/);
+    }
+    expect(section).toContain(form.reason);
+    expect(text).toMatch(/in percent \(1s %, d2s %\) when the coefficient of variation is steadier/);
+  });
+  it("uses the percent form when s grows with the level, for single-operator and multilaboratory alike", () => {
+    const grows = analyzeStudy(
+      ["A", "B"].flatMap((material, m) =>
+        ["L1", "L2", "L3", "L4", "L5", "L6"].flatMap((lab, i) =>
+          [0, 1].map((replicate) => ({ lab, material, response: "holes", replicate: replicate + 1, value: (m + 1) * (10 + (i % 3) + replicate * ((i % 2) + 1)) })),
+        ),
+      ),
+    );
+    const percentText = c670Text({ ...snapshot, analysis: grows });
+    expect(responseForm(grows, "holes").form).toBe("percent");
+    expect(percentText.match(/1s % =/g)).toHaveLength(4);
+    expect(percentText).toMatch(/Single-operator precision: the single-operator coefficient of variation/);
+    expect(percentText).toMatch(/Multilaboratory precision: the multilaboratory coefficient of variation/);
   });
   it("says when nothing was excluded", () => {
     expect(c670Text({ ...snapshot, analysis: analyzeStudy(rows) })).toContain("Every submitted cell was used");

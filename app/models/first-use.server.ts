@@ -3,18 +3,16 @@
  * one-time link that creates the first administrator. Nothing here ever
  * writes into a database that already has accounts.
  */
-import { createHash, randomBytes } from "node:crypto";
+import { randomBytes } from "node:crypto";
 import { and, count, eq, gt, isNull } from "drizzle-orm";
 import { db, type Database } from "~/db/client.server";
 import { setupLinks, users } from "~/db/schema";
 import { FieldRefusal } from "~/lib/field-refusal";
+import { DEMO_ADMIN_EMAIL } from "~/lib/demo";
 import { SETUP_LINK_MINUTES } from "~/lib/first-admin-form";
-
-export { SETUP_LINK_MINUTES };
-import { isProduction } from "~/server/deployment.server";
 import { hashPassword, normaliseEmail } from "~/models/user.server";
-import { DEMO_PEOPLE } from "../../seed/demo-data";
-import { seedDemo } from "../../seed/seed";
+import { isProduction } from "~/server/deployment.server";
+import { hashToken } from "~/server/token-hash.server";
 
 /** The demo is on by default outside production and off in production unless DEMO=on; DEMO=off turns it off anywhere. */
 export function demoWanted(env: NodeJS.ProcessEnv = process.env) {
@@ -30,24 +28,22 @@ export async function accountCount(database: Database = db) {
 
 /** Whether the demo's accounts (and so its published password) are in the database. */
 export async function demoDataPresent(database: Database = db) {
-  const row = await database.query.users.findFirst({ columns: { id: true }, where: eq(users.email, DEMO_PEOPLE.admin.email) });
+  const row = await database.query.users.findFirst({ columns: { id: true }, where: eq(users.email, DEMO_ADMIN_EMAIL) });
   return Boolean(row);
 }
 
-
-const hashToken = (token: string) => createHash("sha256").update(token).digest("hex");
 
 export type FirstUse = { outcome: "has-accounts" } | { outcome: "demo-written" } | { outcome: "setup-link"; path: string; expiresAt: Date };
 
 /**
  * What a start does to the database: nothing when it has accounts; the demo
- * when it has none and the demo is wanted; otherwise a new setup link (earlier
- * unused links stop working).
+ * (written by `writeDemo`, the seed's) when it has none and the demo is
+ * wanted; otherwise a new setup link (earlier unused links stop working).
  */
-export async function prepareFirstUse(env: NodeJS.ProcessEnv = process.env, database: Database = db): Promise<FirstUse> {
+export async function prepareFirstUse(writeDemo: (database: Database) => Promise<unknown>, env: NodeJS.ProcessEnv = process.env, database: Database = db): Promise<FirstUse> {
   if ((await accountCount(database)) > 0) return { outcome: "has-accounts" };
   if (demoWanted(env)) {
-    await seedDemo(database);
+    await writeDemo(database);
     return { outcome: "demo-written" };
   }
   const token = randomBytes(32).toString("base64url");

@@ -11,7 +11,7 @@ import { db } from "~/db/client.server";
 import { cells, materials, responses, results } from "~/db/schema";
 import { type RunningServer, startServer } from "../support/server";
 import { recordFigure } from "./figures";
-import { createTestingStudy, fullResultsCsv, prepareDatabaseFile, randomSource, signInOverHttp, TEST_PASSWORD, type TestingStudy } from "./support";
+import { createTestingStudy, DATA_REDIRECT_STATUS, fullResultsCsv, prepareDatabaseFile, randomSource, signInOverHttp, TEST_PASSWORD, type TestingStudy } from "./support";
 
 const MATERIALS = 250;
 const REPLICATES = 10;
@@ -77,7 +77,7 @@ describe("a SIGKILL during a CSV import", () => {
     const started = Date.now();
     const first = await sendImport(firstCsv);
     const importMs = Date.now() - started;
-    expect(first.status).toBe(200);
+    expect(first.status).toBe(DATA_REDIRECT_STATUS);
     expect((await storedResults()).size).toBe(fullCount);
 
     let rowsLost = 0;
@@ -111,7 +111,7 @@ describe("a SIGKILL during a CSV import", () => {
 
     // After the crashes the server imports as before.
     const lastCsv = fullResultsCsv(materialCodes, study.responseKeys, REPLICATES, random);
-    expect((await sendImport(lastCsv)).status).toBe(200);
+    expect((await sendImport(lastCsv)).status).toBe(DATA_REDIRECT_STATUS);
     expect(same(await storedResults(), fileResults(lastCsv))).toBe(true);
     console.info(`import of ${fullCount} rows took ${importMs} ms; kills: ${outcomes.join("; ")}`);
   }, 150_000);

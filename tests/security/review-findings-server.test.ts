@@ -116,7 +116,7 @@ function productionStart(env: Record<string, string>) {
       resolve({ setup: setup.stdout + setup.stderr, seed: seed.stdout + seed.stderr, exitCode: code, output });
     });
     child.stdout.on("data", () => {
-      if (output.includes("serving")) child.kill("SIGTERM");
+      if (output.includes("Ringbatch (production) on")) child.kill("SIGTERM");
     });
   });
 }
@@ -139,7 +139,7 @@ describe("2, 7, 12. a production start", () => {
     expect(started.setup).toContain("migrations applied");
     expect(started.seed).toMatch(/Create the first administrator within 30 minutes \(the link works once\):\n {2}https:\/\/ringbatch\.example\.org\/setup\/[A-Za-z0-9_-]{43}\n/);
     expect(started.seed).not.toContain("demo data written");
-    expect(started.output).toContain("serving");
+    expect(started.output).toContain("Ringbatch (production) on");
     checked();
   });
 });

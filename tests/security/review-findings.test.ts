@@ -153,17 +153,17 @@ describe("2. demo data and the first administrator", () => {
   it("writes the demo only into a database without accounts, and only when wanted", async () => {
     // This database has accounts: nothing is written whatever DEMO says.
     const before = (await db.select().from(users)).length;
-    expect(await prepareFirstUse({ NODE_ENV: "development", DEMO: "on" })).toEqual({ outcome: "has-accounts" });
+    expect(await prepareFirstUse(seedDemo, { NODE_ENV: "development", DEMO: "on" })).toEqual({ outcome: "has-accounts" });
     expect((await db.select().from(users)).length).toBe(before);
 
     await useFreshDatabase();
     try {
-      const production = await prepareFirstUse({ NODE_ENV: "production" });
+      const production = await prepareFirstUse(seedDemo, { NODE_ENV: "production" });
       expect(production.outcome).toBe("setup-link");
       expect(await db.select().from(users)).toEqual([]);
       expect(await demoDataPresent()).toBe(false);
       expect((await call(root.loader, get("/login"))).data.demo).toBe(false);
-      expect(await prepareFirstUse({ NODE_ENV: "production", DEMO: "on" })).toEqual({ outcome: "demo-written" });
+      expect(await prepareFirstUse(seedDemo, { NODE_ENV: "production", DEMO: "on" })).toEqual({ outcome: "demo-written" });
       expect(await demoDataPresent()).toBe(true);
       expect((await call(root.loader, get("/login"))).data.demo).toBe(true);
     } finally {
@@ -176,7 +176,7 @@ describe("2. demo data and the first administrator", () => {
   it("gives a production start on an empty database a one-time link, valid 30 minutes, that creates the first administrator", async () => {
     await useFreshDatabase();
     try {
-      const first = await prepareFirstUse({ NODE_ENV: "production" });
+      const first = await prepareFirstUse(seedDemo, { NODE_ENV: "production" });
       if (first.outcome !== "setup-link") throw new Error(first.outcome);
       const token = first.path.split("/").at(-1)!;
       const minutes = (first.expiresAt.getTime() - Date.now()) / 60_000;
@@ -198,7 +198,7 @@ describe("2. demo data and the first administrator", () => {
 
       // An expired link does nothing either.
       await useFreshDatabase();
-      const late = await prepareFirstUse({ NODE_ENV: "production" });
+      const late = await prepareFirstUse(seedDemo, { NODE_ENV: "production" });
       if (late.outcome !== "setup-link") throw new Error(late.outcome);
       await db.update(setupLinks).set({ expiresAt: new Date(Date.now() - 1000) });
       expect((await call(setup.loader, get(late.path), { token: late.path.split("/").at(-1)! })).status).toBe(404);

@@ -135,3 +135,10 @@ export function fullResultsCsv(materialCodes: string[], responseKeys: string[], 
   }
   return `${lines.join("\n")}\n`;
 }
+
+/**
+ * React Router's data requests (`….data`) answer an action's redirect with 202
+ * and the target in the body, where a document request would get a 302: a
+ * change that succeeded and sent the page on.
+ */
+export const DATA_REDIRECT_STATUS = 202;

@@ -90,7 +90,11 @@ export function LazyCharts({ analysis, responses }: { analysis: StudyAnalysis; r
             {level && fit && (
               <ChartFigure
                 title={`s_r and s_R against level — ${response.name}`}
-                summary={`Fitted relation: s_r ${fit.sr.chosen ?? "none"}, s_R ${fit.sR.chosen ?? "none"}${fit.sr.notes.length ? ` (${fit.sr.notes.join("; ")})` : ""}.`}
+                summary={
+                  `Weighted fit (ISO 5725-2): s_r ${fit.sr.candidates.find((c) => c.relation === fit.sr.chosen)?.formula ?? "none"}, ` +
+                  `s_R ${fit.sR.candidates.find((c) => c.relation === fit.sR.chosen)?.formula ?? "none"}${fit.sr.notes.length ? ` (${fit.sr.notes.join("; ")})` : ""}. ` +
+                  (fit.c670Form ? `Statement form for both: ${fit.c670Form.form === "percent" ? "1s % and d2s %" : "1s and d2s"}.` : "")
+                }
                 option={level}
               >
                 <SimpleTable

@@ -6,13 +6,11 @@ import {
   standardDeviationOfCellAverages,
 } from "./cell-averages";
 import { cellStatistics, type CellStatistics } from "./cell-statistics";
-import { cochranC, cochranCritical } from "./cochran";
+import { repeatabilityInterval, reproducibilityInterval } from "./confidence-intervals";
 import { hCritical, hStatistic, kCritical, kStatistic } from "./consistency";
-import { grubbsDouble, grubbsSingle, grubbsSingleCritical } from "./grubbs";
-import { GRUBBS_DOUBLE_MAX_LABS, GRUBBS_DOUBLE_MIN_LABS, grubbsDoubleCritical } from "./grubbs-double-critical";
 import type { GroupAccumulator } from "./group-rows";
+import { repeatabilityUncertainty, reproducibilityUncertainty } from "./iso-uncertainty";
 import { c670Limits, coefficientOfVariation, precisionLimit } from "./limits";
-import { outlierClass } from "./outlier-class";
 import { pooledRepeatabilityStandardDeviation, repeatabilityStandardDeviation } from "./repeatability";
 import {
   betweenCellVariance,
@@ -21,8 +19,11 @@ import {
   generalBetweenLabVariance,
   reproducibilityStandardDeviation,
 } from "./reproducibility";
+import { screenCells } from "./screening";
 import type { SignificanceLevel } from "./significance";
-import type { ComputedGroup, ConsistencyFlag, GrubbsResult, GroupResult, LabResult, Problem } from "./types";
+import { significanceDescription } from "./significance-text";
+import type { ComputedGroup, ConsistencyFlag, Finding, GroupResult, LabResult, Problem, ScreeningStep } from "./types";
+import { workingUnits } from "./working-units";
 
 /** Fewest labs, and fewest replicates per lab, that give precision statistics (ASTM E691). */
 export const MIN_LABS = 3;
@@ -31,44 +32,95 @@ export const MIN_REPLICATES = 2;
 type Cell = CellStatistics & { lab: string };
 type ComputedCell = Cell & { variance: number; sd: number };
 
-function grubbsTests(cells: readonly Cell[], notes: string[]): GrubbsResult {
-  const p = cells.length;
-  const means = cells.map((cell) => cell.mean);
-  const single = grubbsSingle(means);
-  const critical5 = grubbsSingleCritical(p, 0.05);
-  const critical1 = grubbsSingleCritical(p, 0.01);
-  const singleResult = ({ G, index }: { G: number | null; index: number }) => ({
-    G,
-    lab: cells[index].lab,
-    critical5,
-    critical1,
-    class: outlierClass(G, critical5, critical1, "above"),
-  });
-  const doubleCritical = grubbsDoubleCritical(p);
-  if (doubleCritical === null) {
-    notes.push(
-      `the double Grubbs test is evaluated for ${GRUBBS_DOUBLE_MIN_LABS} to ${GRUBBS_DOUBLE_MAX_LABS} labs (the range ISO 5725-2 tabulates); this group has ${p}`,
-    );
-    return { high: singleResult(single.high), low: singleResult(single.low), doubleHigh: null, doubleLow: null };
-  }
-  const double = grubbsDouble(means);
-  const doubleResult = ({ G, indices }: { G: number | null; indices: [number, number] }) => ({
-    G,
-    labs: [cells[indices[0]].lab, cells[indices[1]].lab] as [string, string],
-    critical5: doubleCritical.critical5,
-    critical1: doubleCritical.critical1,
-    class: outlierClass(G, doubleCritical.critical5, doubleCritical.critical1, "below"),
-  });
-  return {
-    high: singleResult(single.high),
-    low: singleResult(single.low),
-    doubleHigh: doubleResult(double.high),
-    doubleLow: doubleResult(double.low),
-  };
+const ALPHA_TEXT: Record<SignificanceLevel, string> = { 0.005: "0.5 %", 0.01: "1 %", 0.05: "5 %" };
+const TEST_NAME: Record<ScreeningStep["test"], string> = {
+  cochran: "Cochran's test",
+  "grubbs-single": "Grubbs' single test",
+  "grubbs-double": "Grubbs' double test",
+};
+
+function fixed(x: number, digits: number): string {
+  return Number.isFinite(x) ? x.toFixed(digits) : String(x);
 }
 
-function computePrecision(group: GroupAccumulator, cells: readonly ComputedCell[], alpha: SignificanceLevel): ComputedGroup {
+/** The ISO 5725-2 findings of the screening steps that flagged, per lab. */
+function screeningFindings(steps: readonly ScreeningStep[]): Map<string, Finding[]> {
+  const byLab = new Map<string, Finding[]>();
+  for (const step of steps) {
+    if (step.outcome !== "flagged" || step.statistic === null) continue;
+    const digits = step.test === "grubbs-single" ? 3 : 4;
+    const bound = step.test === "grubbs-double" ? "below" : "above";
+    const beyond = step.class === "outlier" ? step.critical1 : step.critical5;
+    const where = step.side === null ? "" : ` (${step.side} side${step.test === "grubbs-double" ? `, pair ${step.labs.join(" + ")}` : ""})`;
+    const text =
+      `${TEST_NAME[step.test]}${where}: ${step.test === "cochran" ? "C" : "G"} = ${fixed(step.statistic, digits)}, ${bound} the ` +
+      `${step.class === "outlier" ? "1 %" : "5 %"} critical value ${fixed(beyond ?? Number.NaN, digits)} ` +
+      `(5 %: ${fixed(step.critical5 ?? Number.NaN, digits)}, 1 %: ${fixed(step.critical1 ?? Number.NaN, digits)}; ISO 5725-2) — ${step.class}`;
+    for (const lab of step.labs) {
+      const finding: Finding = {
+        test: step.test,
+        side: step.side,
+        statistic: step.statistic,
+        critical: null,
+        critical5: step.critical5,
+        critical1: step.critical1,
+        class: step.class,
+        partner: step.test === "grubbs-double" ? (step.labs.find((other) => other !== lab) ?? null) : null,
+        text,
+      };
+      const list = byLab.get(lab);
+      if (list === undefined) byLab.set(lab, [finding]);
+      else list.push(finding);
+    }
+  }
+  return byLab;
+}
+
+function consistencyFindings(h: number | null, k: number | null, hLimit: number, kLimit: number, alpha: SignificanceLevel): Finding[] {
+  const findings: Finding[] = [];
+  const level = `ASTM E691 ${alpha === 0.005 ? "" : "/ ISO 5725-2 "}at ${ALPHA_TEXT[alpha]}`;
+  if (h !== null && Math.abs(h) > hLimit) {
+    findings.push({
+      test: "h",
+      side: h > 0 ? "high" : "low",
+      statistic: h,
+      critical: hLimit,
+      critical5: null,
+      critical1: null,
+      class: null,
+      partner: null,
+      text: `h = ${fixed(h, 2)}, beyond ±${fixed(hLimit, 2)} (${level})`,
+    });
+  }
+  if (k !== null && k > kLimit) {
+    findings.push({
+      test: "k",
+      side: null,
+      statistic: k,
+      critical: kLimit,
+      critical5: null,
+      critical1: null,
+      class: null,
+      partner: null,
+      text: `k = ${fixed(k, 2)}, above ${fixed(kLimit, 2)} (${level})`,
+    });
+  }
+  return findings;
+}
+
+/**
+ * The precision statistics of one group. Cells come in working units
+ * (x − origin)/scale; every figure is computed in them and taken back to the
+ * response's units at the end (h, k, C and G are ratios and need no change).
+ */
+function computePrecision(
+  group: GroupAccumulator,
+  cells: readonly ComputedCell[],
+  alpha: SignificanceLevel,
+  units: { origin: number; scale: number },
+): ComputedGroup {
   const notes: string[] = [];
+  const { origin, scale } = units;
   const p = cells.length;
   const counts = cells.map((cell) => cell.n);
   const means = cells.map((cell) => cell.mean);
@@ -80,16 +132,19 @@ function computePrecision(group: GroupAccumulator, cells: readonly ComputedCell[
   let mean: number;
   let sr: number;
   let sL2: number;
+  let sd2: number;
   let criticalN: number;
   if (replicatesEqual) {
     mean = averageOfAverages;
     sr = repeatabilityStandardDeviation(cells.map((cell) => cell.sd));
     sL2 = betweenLabVariance(sx, sr, n);
+    sd2 = n * sx * sx;
     criticalN = n;
   } else {
     mean = replicateWeightedMean(cells);
     sr = pooledRepeatabilityStandardDeviation(cells);
-    sL2 = generalBetweenLabVariance(betweenCellVariance(cells, mean), sr, n);
+    sd2 = betweenCellVariance(cells, mean);
+    sL2 = generalBetweenLabVariance(sd2, sr, n);
     criticalN = mostFrequentReplicates(counts);
     notes.push(
       `unequal replicates (${Math.min(...counts)} to ${Math.max(...counts)} per lab): n is the ISO 5725-2 effective n̄ = ${n}; ` +
@@ -99,14 +154,17 @@ function computePrecision(group: GroupAccumulator, cells: readonly ComputedCell[
     );
   }
   const sL = betweenLabStandardDeviation(sL2);
-  if (sL2 < 0) notes.push(`the between-lab variance estimate came out negative (${sL2}); s_L is taken as 0 and s_R = s_r`);
+  if (sL2 < 0) notes.push(`the between-lab variance estimate came out negative (${sL2 * scale * scale}); s_L is taken as 0 and s_R = s_r`);
   const sR = reproducibilityStandardDeviation(sL, sr);
   if (sx === 0) notes.push("all cell averages are equal (s_x̄ = 0): h is undefined");
   if (sr === 0) notes.push("no cell shows any spread (s_r = 0): k is undefined");
-  if (mean === 0) notes.push("the mean is 0: coefficients of variation and % forms are undefined");
+  const generalMean = origin + scale * mean;
+  if (generalMean === 0) notes.push("the mean is 0: coefficients of variation and % forms are undefined");
 
   const hLimit = hCritical(p, alpha);
   const kLimit = kCritical(p, criticalN, alpha);
+  const screening = screenCells({ labs: cells.map((cell) => cell.lab), means, variances: cells.map((cell) => cell.variance), n: criticalN });
+  const isoFindings = screeningFindings(screening.steps);
   const labs: LabResult[] = cells.map((cell) => {
     const d = cell.mean - averageOfAverages;
     const h = hStatistic(d, sx);
@@ -114,14 +172,35 @@ function computePrecision(group: GroupAccumulator, cells: readonly ComputedCell[
     const flags: ConsistencyFlag[] = [];
     if (h !== null && Math.abs(h) > hLimit) flags.push("h");
     if (k !== null && k > kLimit) flags.push("k");
-    return { lab: cell.lab, n: cell.n, mean: cell.mean, sd: cell.sd, d, h, k, flags };
+    return {
+      lab: cell.lab,
+      n: cell.n,
+      mean: origin + scale * cell.mean,
+      sd: scale * cell.sd,
+      d: scale * d,
+      h,
+      k,
+      flags,
+      findings: [...consistencyFindings(h, k, hLimit, kLimit, alpha), ...(isoFindings.get(cell.lab) ?? [])],
+    };
   });
 
-  const cochran = cochranC(cells.map((cell) => cell.variance));
-  const cochranCritical5 = cochranCritical(p, criticalN, 0.05);
-  const cochranCritical1 = cochranCritical(p, criticalN, 0.01);
-  const repeatabilityForms = c670Limits(sr, mean);
-  const reproducibilityForms = c670Limits(sR, mean);
+  const srOut = scale * sr;
+  const sROut = scale * sR;
+  const repeatabilityForms = c670Limits(srOut, generalMean);
+  const reproducibilityForms = c670Limits(sROut, generalMean);
+  const dfr = counts.reduce((sum, count) => sum + count - 1, 0);
+  const gamma = sr > 0 ? sR / sr : 1;
+  const uncertainty = {
+    sr: repeatabilityInterval(srOut, dfr),
+    sR:
+      sr > 0 || sR > 0
+        ? reproducibilityInterval({ sR: sROut, sr: srOut, sd2: sd2 * scale * scale, nBar: n, p, dfr, sLClamped: sL2 <= 0 })
+        : repeatabilityInterval(sROut, dfr),
+    Ar: repeatabilityUncertainty(p, n),
+    AR: reproducibilityUncertainty(p, n, gamma),
+    gamma,
+  };
 
   return {
     status: "computed",
@@ -131,15 +210,15 @@ function computePrecision(group: GroupAccumulator, cells: readonly ComputedCell[
     p,
     n,
     replicatesEqual,
-    mean,
-    sx,
-    sr,
-    sL,
-    sR,
-    r: precisionLimit(sr),
-    R: precisionLimit(sR),
-    cvr: coefficientOfVariation(sr, mean),
-    cvR: coefficientOfVariation(sR, mean),
+    mean: generalMean,
+    sx: scale * sx,
+    sr: srOut,
+    sL: scale * sL,
+    sR: sROut,
+    r: precisionLimit(srOut),
+    R: precisionLimit(sROut),
+    cvr: coefficientOfVariation(srOut, generalMean),
+    cvR: coefficientOfVariation(sROut, generalMean),
     oneSr: repeatabilityForms.oneS,
     d2sr: repeatabilityForms.d2s,
     oneSrPercent: repeatabilityForms.oneSPercent,
@@ -151,14 +230,11 @@ function computePrecision(group: GroupAccumulator, cells: readonly ComputedCell[
     alpha,
     hCritical: hLimit,
     kCritical: kLimit,
-    cochran: {
-      C: cochran.C,
-      critical5: cochranCritical5,
-      critical1: cochranCritical1,
-      class: outlierClass(cochran.C, cochranCritical5, cochranCritical1, "above"),
-      lab: cochran.C === null ? null : cells[cochran.index].lab,
-    },
-    grubbs: grubbsTests(cells, notes),
+    significance: significanceDescription(alpha),
+    cochran: screening.cochran,
+    grubbs: screening.grubbs,
+    screening: screening.steps,
+    uncertainty,
     labs,
     notes,
   };
@@ -182,9 +258,10 @@ export function analyzeGroup(
   const cells: Cell[] = [];
   const damagedLabs = new Set<string>();
   const inputProblems = [...group.problems];
+  const units = workingUnits(values, group.cells);
   for (const cell of group.cells) {
     if (cell.count > 0) {
-      const { n, mean, variance, sd } = cellStatistics(values, cell.start, cell.start + cell.count);
+      const { n, mean, variance, sd } = cellStatistics(values, cell.start, cell.start + cell.count, units.origin, units.scale);
       cells.push({ lab: cell.lab, n, mean, variance, sd });
     }
     if (cell.problems.length > 0) {
@@ -212,9 +289,19 @@ export function analyzeGroup(
     }
   }
   if (inputProblems.length === 0 && problems.length === 0) {
-    return { result: computePrecision(group, cells as ComputedCell[], alpha), problems };
+    return { result: computePrecision(group, cells as ComputedCell[], alpha, units), problems };
   }
-  const labs: LabResult[] = cells.map((cell) => ({ lab: cell.lab, n: cell.n, mean: cell.mean, sd: cell.sd, d: null, h: null, k: null, flags: [] }));
+  const labs: LabResult[] = cells.map((cell) => ({
+    lab: cell.lab,
+    n: cell.n,
+    mean: units.origin + units.scale * cell.mean,
+    sd: cell.sd === null ? null : units.scale * cell.sd,
+    d: null,
+    h: null,
+    k: null,
+    flags: [],
+    findings: [],
+  }));
   const reasons = [...inputProblems, ...problems].map((problem) => problem.message);
   return {
     result: {

@@ -275,3 +275,74 @@ describe("output", () => {
     expect(fit.sR.candidates).toHaveLength(3);
   });
 });
+
+describe("screening order and findings (ISO 5725-2 §7.3, issue #16)", () => {
+  // Issue #16: the double test used to run on the high side as well, and flag L05's neighbour with it.
+  it("a lab found by the single Grubbs test is not tested again as part of a pair", () => {
+    const group = computed(analyzeStudy(toRows(PLANTED_BETWEEN)).groups[0]);
+    expect(group.grubbs.doubleHigh).toBeNull();
+    expect(group.screening.find((step) => step.test === "grubbs-double" && step.side === "high")?.outcome).toBe("not-run");
+    expect(group.labs.filter((lab) => lab.findings.length > 0).map((lab) => lab.lab)).toEqual(["L05"]);
+  });
+
+  it("every finding carries its statistic, its critical values and its test, checkable by hand", () => {
+    const group = computed(analyzeStudy(toRows(PLANTED_BETWEEN)).groups[0]);
+    const l05 = group.labs.find((lab) => lab.lab === "L05")!;
+    expect(l05.findings.map((finding) => finding.test)).toEqual(["h", "grubbs-single"]);
+    const [h, grubbs] = l05.findings;
+    expect(h).toMatchObject({ side: "high", statistic: l05.h, critical: group.hCritical });
+    expect(h.text).toContain(`±${group.hCritical.toFixed(2)}`);
+    expect(grubbs).toMatchObject({ side: "high", statistic: group.grubbs.high.G, critical5: group.grubbs.high.critical5, critical1: group.grubbs.high.critical1, class: "outlier" });
+    expect(grubbs.text).toMatch(/^Grubbs' single test \(high side\): G = \d\.\d{3}, above the 1 % critical value 2\.274/);
+  });
+
+  it("the pair of the double test gets a finding on both labs, each naming the other", () => {
+    const group = computed(analyzeStudy(toRows(PLANTED_PAIR)).groups[0]);
+    const findings = group.labs.flatMap((lab) => lab.findings.filter((f) => f.test === "grubbs-double").map((f) => `${lab.lab}+${f.partner}`));
+    expect(findings.sort()).toEqual(["L02+L07", "L07+L02"]);
+  });
+});
+
+describe("confidence intervals of the precision figures", () => {
+  it("s_r by chi-square with p(n − 1) df, s_R by Satterthwaite, with ISO 5725-1's A_r and A_R", () => {
+    const group = computed(analyzeStudy(toRows(PLANTED_BETWEEN)).groups[0]);
+    const { uncertainty } = group;
+    expect(uncertainty.sr.df).toBe(16);
+    expect(uncertainty.sr.lower).toBeLessThan(group.sr);
+    expect(uncertainty.sr.upper).toBeGreaterThan(group.sr);
+    expect(uncertainty.sR.method).toMatch(/Satterthwaite/);
+    expect(uncertainty.sR.df).toBeGreaterThan(1);
+    expect(uncertainty.sR.df).toBeLessThan(23);
+    expect(uncertainty.Ar).toBeCloseTo(1.96 * Math.sqrt(1 / 32), 14);
+    expect(uncertainty.gamma).toBeCloseTo(group.sR / group.sr, 12);
+  });
+});
+
+describe("numerical range (issue #16)", () => {
+  it("a large common offset (1e9 + small differences) keeps its digits through a working origin", () => {
+    const offset = 1e9;
+    const shifted = computed(analyzeStudy(toRows(Object.fromEntries(Object.entries(PLANTED_WITHIN).map(([lab, v]) => [lab, v.map((x) => x - 100 + offset)])))).groups[0]);
+    const original = computed(analyzeStudy(toRows(PLANTED_WITHIN)).groups[0]);
+    expect(shifted.sr).toBeCloseTo(original.sr, 6);
+    shifted.labs.forEach((lab, i) => {
+      expect(lab.mean - offset).toBeCloseTo(original.labs[i].mean - 100, 6);
+      expect(lab.h).toBeCloseTo(original.labs[i].h as number, 6);
+    });
+  });
+
+  it("tiny values are computed, not reported as having no spread", () => {
+    const tiny = computed(analyzeStudy(toRows(Object.fromEntries(Object.entries(PLANTED_WITHIN).map(([lab, v]) => [lab, v.map((x) => x * 1e-200)])))).groups[0]);
+    const original = computed(analyzeStudy(toRows(PLANTED_WITHIN)).groups[0]);
+    expect(tiny.notes.join(" ")).not.toMatch(/no cell shows any spread/);
+    expect(tiny.sr / 1e-200).toBeCloseTo(original.sr, 8);
+    expect(tiny.labs.map((lab) => lab.flags)).toEqual(original.labs.map((lab) => lab.flags));
+  });
+
+  it("values whose squares would overflow are refused with the row named", () => {
+    const rows = toRows({ A: [1e200, 2e200], B: [1e200, 3e200], C: [2e200, 2e200] }).map((row, i) => ({ ...row, row: i + 2 }));
+    const analysis = analyzeStudy(rows);
+    expect(analysis.groups[0].status).toBe("not-computed");
+    expect(analysis.problems[0]).toMatchObject({ code: "value-out-of-range", row: 2 });
+    expect(analysis.problems[0].message).toMatch(/^row 2 .*square would overflow/);
+  });
+});

@@ -1,7 +1,10 @@
 import { analyzeGroup } from "./analyze-group";
 import { groupRows, type GroupAccumulator } from "./group-rows";
+import { c670Form } from "./c670-form";
 import { levelFit } from "./level-fit";
 import { assertSignificanceLevel } from "./significance";
+import { significanceDescription } from "./significance-text";
+import { studyWarnings } from "./study-warnings";
 import type {
   ComputedGroup,
   ExcludedCell,
@@ -63,6 +66,7 @@ function levelFits(groups: readonly GroupResult[]): ResponseLevelFit[] {
     response,
     sr: levelFitReport(computed, "sr"),
     sR: levelFitReport(computed, "sR"),
+    c670Form: c670Form(computed.map((group) => ({ level: group.mean, sr: group.sr, sR: group.sR }))),
   }));
 }
 
@@ -73,6 +77,7 @@ function levelFits(groups: readonly GroupResult[]): ResponseLevelFit[] {
  * Every problem in the input is reported; a group touched by one, or with too
  * few labs or replicates, comes back with its cell statistics and reasons
  * instead of precision statistics, and the other groups are still computed.
+ * `warnings` list where the design falls short of the practices' minimums.
  * Throws RangeError for an unsupported significance level.
  */
 export function analyzeStudy(rows: readonly ResultRow[], options: StudyOptions = {}): StudyAnalysis {
@@ -84,5 +89,13 @@ export function analyzeStudy(rows: readonly ResultRow[], options: StudyOptions =
     problems.push(...analysis.problems);
     return analysis.result;
   });
-  return { alpha, groups, excluded, problems, levelFits: levelFits(groups) };
+  return {
+    alpha,
+    groups,
+    excluded,
+    problems,
+    levelFits: levelFits(groups),
+    warnings: studyWarnings(groups),
+    significance: significanceDescription(alpha),
+  };
 }

@@ -67,6 +67,12 @@ function isLabel(value: unknown): value is string {
   return typeof value === "string" && value.length > 0;
 }
 
+/**
+ * Largest |value| accepted: its square (1e300) and sums of such squares over
+ * many results stay below the largest double (about 1.8e308).
+ */
+export const MAX_MAGNITUDE = 1e150;
+
 /** Which check a row failed, for a row known to fail one. */
 function rowDataProblem(row: ResultRow, isCount: boolean): [ProblemCode, string] {
   const { replicate, value } = row;
@@ -74,6 +80,12 @@ function rowDataProblem(row: ResultRow, isCount: boolean): [ProblemCode, string]
     return ["invalid-replicate", "the replicate number must be a whole number of at least 1"];
   }
   if (typeof value !== "number" || !Number.isFinite(value)) return ["non-finite-value", "the value is not a finite number"];
+  if (Math.abs(value) > MAX_MAGNITUDE) {
+    return [
+      "value-out-of-range",
+      `the value ${value} is too large to compute with: its square would overflow double precision; results must lie within ±${MAX_MAGNITUDE}`,
+    ];
+  }
   if (isCount && value < 0) return ["count-negative", `the value ${value} is negative, but ${row.response} is a count`];
   return ["count-not-whole", `the value ${value} is not a whole number, but ${row.response} is a count`];
 }
@@ -144,6 +156,7 @@ function assignCells(
       replicate >= 1 &&
       typeof value === "number" &&
       Number.isFinite(value) &&
+      Math.abs(value) <= MAX_MAGNITUDE &&
       (!isCount || (value >= 0 && Number.isInteger(value)));
     if (!valid) {
       const [code, message] = rowDataProblem(row, isCount);

@@ -1,3 +1,4 @@
+import type { C670Form } from "./c670-form";
 import type { LevelFitResult, LevelPoint } from "./level-fit";
 import type { OutlierClass } from "./outlier-class";
 import type { SignificanceLevel } from "./significance";
@@ -44,6 +45,7 @@ export type ProblemCode =
   | "count-negative"
   | "count-not-whole"
   | "duplicate-replicate"
+  | "value-out-of-range"
   // a group or an exclusion cannot be honoured
   | "too-few-labs"
   | "too-few-replicates"
@@ -60,6 +62,50 @@ export interface Problem {
 
 export type ConsistencyFlag = "h" | "k";
 
+/** The tests that can raise a finding: E691's h and k, ISO 5725-2's Cochran and Grubbs tests. */
+export type FindingTest = "h" | "k" | "cochran" | "grubbs-single" | "grubbs-double";
+
+/**
+ * One test's verdict on one lab, with everything a reader needs to check it by
+ * hand: the statistic, the critical value(s) and the rule.
+ */
+export interface Finding {
+  test: FindingTest;
+  /** h and the Grubbs tests: which side of the other labs the lab's average lies on */
+  side: "high" | "low" | null;
+  statistic: number;
+  /** h, k: the critical value at the chosen significance level (|h| or k above it flags) */
+  critical: number | null;
+  /** Cochran, Grubbs: critical values at 5 % (straggler) and 1 % (outlier) */
+  critical5: number | null;
+  critical1: number | null;
+  /** ISO 5725-2 class for Cochran and Grubbs; null for h and k */
+  class: OutlierClass;
+  /** the double Grubbs test: the other lab of the pair */
+  partner: string | null;
+  /** one line, e.g. "h = 2.34 beyond ±2.06 (ASTM E691, 0.5 %)" */
+  text: string;
+}
+
+/** One step of ISO 5725-2's screening (§7.3), in the order the practice runs them. */
+export interface ScreeningStep {
+  test: "cochran" | "grubbs-single" | "grubbs-double";
+  side: "high" | "low" | null;
+  /** the lab or labs the test looked at */
+  labs: string[];
+  statistic: number | null;
+  critical5: number | null;
+  critical1: number | null;
+  class: OutlierClass;
+  /**
+   * "flagged": beyond a critical value; "passed": inside both; "uninformative":
+   * ties leave the test nothing to measure (see `reason`); "not-run": the
+   * procedure skips it here (see `reason`)
+   */
+  outcome: "flagged" | "passed" | "uninformative" | "not-run";
+  reason: string | null;
+}
+
 export interface LabResult {
   lab: string;
   n: number;
@@ -74,6 +120,8 @@ export interface LabResult {
   /** null when not computed or when s_r = 0 */
   k: number | null;
   flags: ConsistencyFlag[];
+  /** every test that points at this lab (h, k, Cochran, Grubbs), with its statistic and critical values */
+  findings: Finding[];
 }
 
 export interface CochranResult {
@@ -83,6 +131,8 @@ export interface CochranResult {
   class: OutlierClass;
   /** the lab with the largest cell variance; null when C is null */
   lab: string | null;
+  /** why the test cannot judge this group (ties), when it cannot; class is then null */
+  uninformative: string | null;
 }
 
 export interface GrubbsSingleResult {
@@ -91,6 +141,8 @@ export interface GrubbsSingleResult {
   critical5: number;
   critical1: number;
   class: OutlierClass;
+  /** why the test cannot judge this side (ties), when it cannot; class is then null */
+  uninformative: string | null;
 }
 
 export interface GrubbsDoubleResult {
@@ -99,14 +151,40 @@ export interface GrubbsDoubleResult {
   critical5: number;
   critical1: number;
   class: OutlierClass;
+  uninformative: string | null;
 }
 
 export interface GrubbsResult {
   high: GrubbsSingleResult;
   low: GrubbsSingleResult;
-  /** null below 4 or above 40 labs (see notes) */
+  /**
+   * null when not run: below 4 labs, or on a side where the single test
+   * already found a straggler or outlier (ISO 5725-2 §7.3.4); see `screening`
+   */
   doubleHigh: GrubbsDoubleResult | null;
   doubleLow: GrubbsDoubleResult | null;
+}
+
+/** A two-sided 95 % confidence interval of a standard deviation. */
+export interface StandardDeviationInterval {
+  lower: number;
+  upper: number;
+  /** degrees of freedom (Satterthwaite's effective value for s_R) */
+  df: number;
+  method: string;
+}
+
+/** How well the study pins down its precision figures. */
+export interface PrecisionUncertainty {
+  /** 95 % interval of σ_r: chi-square with Σ(n_i − 1) = p(n − 1) degrees of freedom */
+  sr: StandardDeviationInterval;
+  /** 95 % interval of σ_R: Satterthwaite's approximation */
+  sR: StandardDeviationInterval;
+  /** ISO 5725-1: σ_r lies within s_r·(1 ± A_r) with about 95 % probability */
+  Ar: number;
+  /** ISO 5725-1: σ_R within s_R·(1 ± A_R), with γ = s_R/s_r from this group */
+  AR: number;
+  gamma: number;
 }
 
 interface GroupIdentity {
@@ -146,8 +224,13 @@ export interface ComputedGroup extends GroupIdentity {
   alpha: SignificanceLevel;
   hCritical: number;
   kCritical: number;
+  /** what the significance choice changes, in words */
+  significance: string;
   cochran: CochranResult;
   grubbs: GrubbsResult;
+  /** ISO 5725-2 §7.3 screening, in order: Cochran, single Grubbs high/low, double Grubbs where run */
+  screening: ScreeningStep[];
+  uncertainty: PrecisionUncertainty;
 }
 
 export interface UncomputedGroup extends GroupIdentity {
@@ -171,6 +254,17 @@ export interface ResponseLevelFit {
   response: string;
   sr: LevelFitReport;
   sR: LevelFitReport;
+  /** ASTM C670: one form for both single-operator and multilaboratory figures, and why */
+  c670Form: C670Form;
+}
+
+export type StudyWarningCode = "few-labs" | "few-materials" | "few-replicates";
+
+/** A shortfall against the practices' minimum design; the figures are still computed. */
+export interface StudyWarning {
+  code: StudyWarningCode;
+  message: string;
+  response?: string;
 }
 
 export interface StudyAnalysis {
@@ -180,4 +274,8 @@ export interface StudyAnalysis {
   problems: Problem[];
   /** per response, the dependence of s_r and s_R on level across computed materials */
   levelFits: ResponseLevelFit[];
+  /** the design falls short of the practices' minimums (labs, materials, replicates) */
+  warnings: StudyWarning[];
+  /** what the significance choice changes, in words */
+  significance: string;
 }

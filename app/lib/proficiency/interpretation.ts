@@ -1,5 +1,5 @@
-export const SCORE_VERDICTS = ["satisfactory", "questionable", "unsatisfactory"] as const;
-export type ScoreVerdict = (typeof SCORE_VERDICTS)[number];
+import type { ScoreVerdict } from "~/db/values";
+
 
 /**
  * ISO 13528:2022 9.4.1 and ISO/IEC 17043: |score| ≤ 2.0 satisfactory;

@@ -1,7 +1,8 @@
 import { sampleStandardDeviation } from "simple-statistics";
 import { algorithmA, type RobustEstimate } from "./algorithm-a";
 import { assignedValueUncertaintyNegligible, consensusUncertainty } from "./assigned-value";
-import { interpretScore, type ScoreVerdict } from "./interpretation";
+import type { ScoreVerdict } from "~/db/values";
+import { interpretScore } from "./interpretation";
 import { zetaScore, zPrimeScore, zScore } from "./scores";
 import { sigmaPtFromPrecision } from "./sigma-pt";
 

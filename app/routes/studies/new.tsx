@@ -4,10 +4,12 @@ import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/new";
 import { FormErrors, useSchemaForm } from "~/components/forms";
 import { StudyFields } from "~/components/study-fields";
+import { StudyPlanner } from "~/components/study-planner";
 import { Button, Card, PageHeader } from "~/components/ui";
 import { newStudySchema } from "~/lib/study-forms";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import { createStudy } from "~/models/study-setup.server";
+import { plannerView } from "~/models/study-planner.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRole } from "~/server/guards.server";
 import { redirectWithToast } from "~/server/toast.server";
@@ -15,8 +17,8 @@ import { redirectWithToast } from "~/server/toast.server";
 export const meta: Route.MetaFunction = () => [{ title: "New study · Ringbatch" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  await requireRole(request, "coordinator");
-  return null;
+  const user = await requireRole(request, "coordinator");
+  return { planner: await plannerView(user, new URL(request.url).searchParams, null) };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -36,7 +38,7 @@ const TEMPLATE_DEFAULTS = {
   targetSurfaceRating: String(FLOAT_FINISHING_TEMPLATE.targetSurfaceRating),
 };
 
-export default function NewStudy({ actionData }: Route.ComponentProps) {
+export default function NewStudy({ loaderData, actionData }: Route.ComponentProps) {
   const [form, fields] = useSchemaForm(newStudySchema, { reply: actionData, id: "new-study", defaultValue: TEMPLATE_DEFAULTS });
   const template = fields.template.initialValue;
   const busy = useNavigation().state === "submitting";
@@ -79,6 +81,9 @@ export default function NewStudy({ actionData }: Route.ComponentProps) {
             </Button>
           </div>
         </Form>
+      </Card>
+      <Card className="mt-6">
+        <StudyPlanner view={loaderData.planner} askMaterials />
       </Card>
     </>
   );

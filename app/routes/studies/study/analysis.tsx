@@ -4,7 +4,9 @@ import { useState } from "react";
 import { Form, Link, useFetcher, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/analysis";
+import { DesignWarnings, ScreeningSteps, SignificanceEffect } from "~/components/analysis-warnings";
 import { LazyCharts } from "~/components/charts/lazy-charts";
+import { PrecisionUncertainty } from "~/components/precision-uncertainty";
 import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { PrecisionTables } from "~/components/precision-tables";
 import { StateBadge } from "~/components/state-badge";
@@ -15,7 +17,7 @@ import { studyPageMeta } from "~/lib/study-page-meta";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
-import { type ComputedGroup, isSignificanceLevel, SIGNIFICANCE_LEVELS, type StudyAnalysis } from "~/lib/precision";
+import { type ComputedGroup, type Finding, isSignificanceLevel, SIGNIFICANCE_LEVELS, type StudyAnalysis } from "~/lib/precision";
 import { type CellRef, cellKey, parseCellList, sameCell } from "~/lib/review/cells";
 import { flaggedCells, flagStatistic, suggestedQuestion } from "~/lib/review/flags";
 import { ALPHA_LABEL, figureDecimals, formatFigure } from "~/lib/review/format";
@@ -75,7 +77,7 @@ const REASON_TOO_SHORT = "Give the reason (at least 10 characters): the assignab
 const askSchema = z.object({
   intent: z.literal("ask"),
   ...cellFields,
-  statistic: z.string().trim().max(300, "Keep the statistic under 300 characters.").default(""),
+  statistic: z.string().trim().max(800, "Keep the statistic under 800 characters.").default(""),
   question: z.string({ message: QUESTION_TOO_SHORT }).trim().min(10, QUESTION_TOO_SHORT).max(2000, "Keep the question under 2000 characters."),
 });
 
@@ -132,6 +134,7 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
           flags again after every exclusion — removing one cell changes the critical values and statistics of the others. These figures support the
           committee's judgement; they do not replace it.
         </Notice>
+        <DesignWarnings warnings={analysis.warnings} />
         {loaderData.withdrawn.length > 0 && (
           <Notice>
             Not in the analysis: {loaderData.withdrawn.join(", ")}, withdrawn from the study. Their results stay on the results page and in the audit
@@ -155,10 +158,14 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
               Recompute
             </Button>
           </Form>
+          <SignificanceEffect text={analysis.significance} />
         </Card>
         <FlaggedCells loaderData={loaderData} excludedKeys={excludedKeys} />
         {cell && <Investigation key={cellKey(cell)} loaderData={loaderData} actionData={actionData} cell={cell} />}
         <Decisions loaderData={loaderData} />
+        <Card title="Uncertainty of the figures">
+          <PrecisionUncertainty analysis={analysis} responses={responses} />
+        </Card>
         <Card title="Charts">
           <LazyCharts analysis={analysis} responses={responses} />
         </Card>
@@ -169,7 +176,7 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
             headingLevel={3}
             labAction={(group, lab) => (
               <Link to={cellHref(alpha, { lab: lab.lab, material: group.material, response: group.response })} className="font-semibold text-basalt-700 underline">
-                {lab.flags.length > 0 ? "Ask the lab / decide" : "Decide"}
+                {lab.findings.length > 0 ? "Ask the lab / decide" : "Decide"}
                 <span className="sr-only">
                   {" "}
                   on lab {lab.lab}, {group.material}, {group.response}
@@ -294,7 +301,13 @@ function Investigation({ loaderData, actionData, cell }: { loaderData: LoaderDat
             )}
           </div>
           <div className="flex flex-col gap-6">
-            <AskTheLab loaderData={loaderData} actionData={actionData} cell={cell} statistic={statistic} />
+            {group?.status === "computed" && (
+              <div>
+                <h3 className="mb-2 font-semibold text-basalt-800">Screening of {cell.material} · {cell.response}, in ISO 5725-2's order</h3>
+                <ScreeningSteps group={group} />
+              </div>
+            )}
+            <AskTheLab loaderData={loaderData} actionData={actionData} cell={cell} statistic={statistic} findings={lab?.findings ?? []} />
             <DecisionForm loaderData={loaderData} actionData={actionData} cell={cell} currentlyExcluded={excluded} decision={decision ?? null} alpha={alpha} />
           </div>
         </div>
@@ -314,12 +327,24 @@ function CellHiddenFields({ cell }: { cell: CellRef }) {
   );
 }
 
-function AskTheLab({ loaderData, actionData, cell, statistic }: { loaderData: LoaderData; actionData: ActionData; cell: CellRef; statistic: string }) {
+function AskTheLab({
+  loaderData,
+  actionData,
+  cell,
+  statistic,
+  findings,
+}: {
+  loaderData: LoaderData;
+  actionData: ActionData;
+  cell: CellRef;
+  statistic: string;
+  findings: Finding[];
+}) {
   const navigation = useNavigation();
   const [form, fields] = useSchemaForm(askSchema, {
     reply: actionData,
     intent: "ask",
-    defaultValue: { statistic, question: suggestedQuestion(cell, statistic || "see the attached statistic") },
+    defaultValue: { statistic, question: suggestedQuestion(cell, statistic || "see the attached statistic", findings) },
   });
   if (loaderData.queryRefusal) return <Notice>{loaderData.queryRefusal}</Notice>;
   return (

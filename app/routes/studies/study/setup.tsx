@@ -7,6 +7,7 @@ import { fieldProps, FormErrors, formWideErrors, refusalOf, useSchemaForm } from
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { StudyFields } from "~/components/study-fields";
+import { StudyPlanner } from "~/components/study-planner";
 import { Badge, Button, Card, Field, Notice, SelectField } from "~/components/ui";
 import type { StudyState } from "~/db/schema";
 import { mmToIn } from "~/lib/batching";
@@ -17,6 +18,7 @@ import { PROTOCOL_MAX_BYTES, protocolSchema, setupForms, setupSchema } from "~/l
 import { allowedNextStates, setupEditable } from "~/lib/study-lifecycle";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { previewTransition, transitionStudy } from "~/models/study-lifecycle.server";
+import { plannerView } from "~/models/study-planner.server";
 import {
   addMaterial,
   addPerson,
@@ -46,15 +48,16 @@ const OWNER_ONLY = new Set(["coordinator-add", "reviewer-add", "coordinator-remo
 /** The review workflow moves a study into and out of committee review; this page does not. */
 const MOVES_FROM_SETUP: StudyState[] = ["draft", "recruiting", "testing", "checking", "cancelled"];
 
-export async function loader({ context }: Route.LoaderArgs) {
+export async function loader({ request, context }: Route.LoaderArgs) {
   const { study, user, access } = requireStudy(context, ["coordinator", "admin", "reviewer"]);
+  const planner = access === "reviewer" ? null : await plannerView(user, new URL(request.url).searchParams, study);
   const setup = await loadSetup(study);
   const moves = await Promise.all(
     allowedNextStates(study.state)
       .filter((to) => MOVES_FROM_SETUP.includes(to))
       .map(async (to) => ({ to, ...(await previewTransition(study, to)) })),
   );
-  return { study, setup, moves: access === "coordinator" ? moves : [], canEdit: access === "coordinator", isOwner: study.ownerId === user.id };
+  return { study, setup, moves: access === "coordinator" ? moves : [], canEdit: access === "coordinator", isOwner: study.ownerId === user.id, planner };
 }
 
 /** A refused protocol upload, in the same shape as a refused form, beside the file field. */
@@ -302,6 +305,11 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
         <FormErrors errors={refusalOf(actionData, "material-remove")} />
         {editable && <MaterialForm reply={actionData} busy={busy} />}
       </Card>
+      {loaderData.planner && (
+        <Card>
+          <StudyPlanner view={loaderData.planner} />
+        </Card>
+      )}
       <p className="text-sm text-basalt-700">
         This tool supports the committee's judgement and does not replace it; local codes, specifications and licensed engineers govern the concrete.
       </p>
