@@ -14,9 +14,7 @@ import * as results from "~/routes/api/v1/study-results";
 import * as resultsCsv from "~/routes/api/v1/study-results-csv";
 import * as studyList from "~/routes/api/v1/studies";
 import { DEMO_LABS } from "../../seed/demo-data";
-import { seedDemo } from "../../seed/seed";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
+import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { call, get } from "../support/routes";
 
 let checkingId: number;
@@ -35,10 +33,9 @@ const revalidate = (path: string, etag: string, cookie?: string) =>
   new Request(`http://ringbatch.test${path}`, { headers: { "If-None-Match": etag, ...(cookie ? { Cookie: cookie } : {}) } });
 
 beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
-  checkingId = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!.id;
-  testingId = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-B") }))!.id;
+  await useDemoDatabase();
+  checkingId = (await demoStudy("FF-2026-A")).id;
+  testingId = (await demoStudy("FF-2026-B")).id;
 });
 
 describe("API authentication", () => {

@@ -12,9 +12,7 @@ import { buildStatementBundle } from "~/models/bundle.server";
 import * as bundleZip from "~/routes/api/v1/study-bundle";
 import * as bundleSummary from "~/routes/api/v1/study-bundle-summary";
 import { PUBLISHED_STUDY_CODE } from "../../seed/toolkit-demo";
-import { seedDemo } from "../../seed/seed";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
+import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { runPrecisionCli, scratchDir } from "../support/precision-cli";
 import { call, get } from "../support/routes";
 
@@ -24,9 +22,8 @@ let studyId: number;
 let zipBytes: Buffer;
 
 beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
-  studyId = (await db.query.studies.findFirst({ where: eq(studies.code, PUBLISHED_STUDY_CODE) }))!.id;
+  await useDemoDatabase();
+  studyId = (await demoStudy(PUBLISHED_STUDY_CODE)).id;
   const response = await bundleZip.loader({ request: get(`/api/v1/studies/${studyId}/bundle.zip`, await demoCookie("coordinator@ringbatch.example")), params: { studyId: String(studyId) } } as never);
   expect(response.status).toBe(200);
   zipBytes = Buffer.from(await response.arrayBuffer());
@@ -103,7 +100,7 @@ describe("the bundle of a published statement", () => {
   it("is not given to analysts, nor made for a study that is not published", async () => {
     const params = { studyId: String(studyId) };
     expect((await call(bundleZip.loader, get(`/api/v1/studies/${studyId}/bundle.zip`, await demoCookie("analyst1@ringbatch.example")), params)).status).toBe(404);
-    const checking = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!.id;
+    const checking = (await demoStudy("FF-2026-A")).id;
     const refused = await call(bundleSummary.loader, get(`/api/v1/studies/${checking}/bundle`, await demoCookie("coordinator@ringbatch.example")), { studyId: String(checking) });
     expect(refused.status).toBe(404);
     expect(refused.data.error.message).toContain("published");
