@@ -38,6 +38,16 @@ beforeAll(async () => {
   testingId = (await demoStudy("FF-2026-B")).id;
 });
 
+/** The first enrolment of a demo lab, for a results:write token. */
+async function firstEnrollmentOf(labName: string) {
+  const [enrollment] = await db
+    .select({ id: enrollments.id })
+    .from(enrollments)
+    .innerJoin(labs, eq(labs.id, enrollments.labId))
+    .where(eq(labs.name, labName));
+  return enrollment!.id;
+}
+
 describe("API authentication", () => {
   it("answers 401 in the error shape without credentials or with a bad token", async () => {
     const anonymous = await call(studyList.loader, get("/api/v1/studies"));
@@ -64,25 +74,14 @@ describe("API authentication", () => {
 
   it("does not let a results:write token read the study", async () => {
     const analyst = await userNamed("analyst1@ringbatch.example");
-    const enrollment = await db
-      .select({ id: enrollments.id })
-      .from(enrollments)
-      .innerJoin(labs, eq(labs.id, enrollments.labId))
-      .where(eq(labs.name, DEMO_LABS[0].name));
-    const own = enrollment.find(Boolean)!;
-    const { token } = await createApiToken(analyst, { name: "lab system", scope: "results:write", enrollmentId: own.id });
+    const { token } = await createApiToken(analyst, { name: "lab system", scope: "results:write", enrollmentId: await firstEnrollmentOf(DEMO_LABS[0].name) });
     const outcome = await call(study.loader, bearer(`/api/v1/studies/${checkingId}`, token), { studyId: String(checkingId) });
     expect(outcome.status).toBe(404);
   });
 
   it("refuses to make a token for another lab's enrollment", async () => {
     const analyst = await userNamed("analyst1@ringbatch.example");
-    const other = await db
-      .select({ id: enrollments.id })
-      .from(enrollments)
-      .innerJoin(labs, eq(labs.id, enrollments.labId))
-      .where(eq(labs.name, DEMO_LABS[1].name));
-    await expect(createApiToken(analyst, { name: "x", scope: "results:write", enrollmentId: other[0]!.id })).rejects.toThrow(/your lab/);
+    await expect(createApiToken(analyst, { name: "x", scope: "results:write", enrollmentId: await firstEnrollmentOf(DEMO_LABS[1].name) })).rejects.toThrow(/your lab/);
   });
 });
 
