@@ -1,30 +1,15 @@
-import { spawn } from "node:child_process";
-import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { writeFileSync } from "node:fs";
 import { join } from "node:path";
-import { afterAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import { analyzeStudy, parseResultsCsv } from "~/lib/precision";
+import { runPrecisionCli, scratchDir } from "./support/precision-cli";
 
-const root = new URL("..", import.meta.url).pathname;
-const workDir = mkdtempSync(join(tmpdir(), "precision-cli-decisions-"));
-afterAll(() => rmSync(workDir, { recursive: true, force: true }));
+const workDir = scratchDir("precision-cli-decisions-");
 
 function write(name: string, text: string) {
   const path = join(workDir, name);
   writeFileSync(path, text);
   return path;
-}
-
-function runCli(...args: string[]): Promise<{ status: number | null; stdout: string; stderr: string }> {
-  return new Promise((resolve, reject) => {
-    const child = spawn("npx", ["tsx", "scripts/precision.ts", ...args], { cwd: root });
-    let stdout = "";
-    let stderr = "";
-    child.stdout.on("data", (chunk) => (stdout += chunk));
-    child.stderr.on("data", (chunk) => (stderr += chunk));
-    child.on("error", reject);
-    child.on("close", (status) => resolve({ status, stdout, stderr }));
-  });
 }
 
 // Invented: 4 labs × 2 replicates; L4 is far off.
@@ -37,8 +22,8 @@ describe("precision command --decisions", () => {
   it("leaves out the excluded cells, as the engine does with the same exclusions", async () => {
     const results = write("results.csv", `${RESULTS}\n`);
     const decisions = write("decisions.csv", "lab,material,response,decision,reason\nL4,M1,passes,excluded,Lab confirmed a wrong float\nL2,M1,passes,retained,Lab confirmed the counts\n");
-    const run = await runCli(results, "--count", "passes", "--decisions", decisions);
-    // Issue #16: the command line writes the design warnings (here fewer than 6 labs) to standard error,
+    const run = await runPrecisionCli(results, "--count", "passes", "--decisions", decisions);
+    // The command line writes the design warnings (here fewer than 6 labs) to standard error,
     // one "warning: " line each, and nothing else.
     expect(run.stderr.split("\n").filter(Boolean).every((line) => line.startsWith("warning: "))).toBe(true);
     const expected = analyzeStudy(parseResultsCsv(RESULTS).rows, { responseKinds: { passes: "count" }, excludedCells: [{ lab: "L4", material: "M1", response: "passes", reason: "Lab confirmed a wrong float" }] });
@@ -49,7 +34,7 @@ describe("precision command --decisions", () => {
   it("stops with exit status 1 and the row of a bad decision, printing nothing", async () => {
     const results = write("results2.csv", `${RESULTS}\n`);
     const decisions = write("bad-decisions.csv", "lab,material,response,decision,reason\nL4,M1,passes,dropped,because\n");
-    const run = await runCli(results, "--decisions", decisions);
+    const run = await runPrecisionCli(results, "--decisions", decisions);
     expect(run.status).toBe(1);
     expect(run.stdout).toBe("");
     expect(run.stderr).toBe(`${decisions}: row 2: decision must be "excluded" or "retained", got "dropped"\n`);

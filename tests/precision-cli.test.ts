@@ -1,13 +1,10 @@
-import { spawn } from "node:child_process";
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { readFileSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import Papa from "papaparse";
-import { afterAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
+import { repoRoot, runPrecisionCli, scratchDir } from "./support/precision-cli";
 
-const root = new URL("..", import.meta.url).pathname;
-const workDir = mkdtempSync(join(tmpdir(), "precision-cli-"));
-afterAll(() => rmSync(workDir, { recursive: true, force: true }));
+const workDir = scratchDir("precision-cli-");
 
 const HEADER = "lab,material,response,replicate,value";
 
@@ -17,21 +14,9 @@ function writeCsv(name: string, lines: string[]): string {
   return path;
 }
 
-function runCli(...args: string[]): Promise<{ status: number | null; stdout: string; stderr: string }> {
-  return new Promise((resolve, reject) => {
-    const child = spawn("npx", ["tsx", "scripts/precision.ts", ...args], { cwd: root });
-    let stdout = "";
-    let stderr = "";
-    child.stdout.on("data", (chunk) => (stdout += chunk));
-    child.stderr.on("data", (chunk) => (stderr += chunk));
-    child.on("error", reject);
-    child.on("close", (status) => resolve({ status, stdout, stderr }));
-  });
-}
-
 // NIST StRD one-way ANOVA "SiRstv" in long form, instruments read as labs (tests/fixtures).
 const nist = Papa.parse<{ instrument: string; resistance: string }>(
-  readFileSync(join(root, "tests/fixtures/nist-strd-anova-SiRstv.csv"), "utf8").trim(),
+  readFileSync(join(repoRoot, "tests/fixtures/nist-strd-anova-SiRstv.csv"), "utf8").trim(),
   { header: true },
 ).data;
 const nistLines = nist.map((record, i) => `I${record.instrument},SiR,resistivity,${(i % 5) + 1},${record.resistance}`);
@@ -53,8 +38,8 @@ const smallLines = [
 
 describe("npm run precision", () => {
   it("prints the precision statistics of a small file as JSON", async () => {
-    const { status, stdout, stderr } = await runCli(writeCsv("small.csv", smallLines));
-    // Issue #16: the practices' minimum design is checked; 3 labs and 1 material fall short, and the
+    const { status, stdout, stderr } = await runPrecisionCli(writeCsv("small.csv", smallLines));
+    // The practices' minimum design is checked; 3 labs and 1 material fall short, and the
     // command line says so on standard error (it used to print nothing there) while still exiting 0.
     expect(stderr.trim().split("\n").every((line) => line.startsWith("warning: "))).toBe(true);
     expect(stderr).toMatch(/fewer than 6 labs: M1 \/ slump \(3\), M1 \/ air \(2\)/);
@@ -86,14 +71,14 @@ describe("npm run precision", () => {
   it("refuses a value whose square would overflow and names its row", async () => {
     // Results files take plain decimals only (no exponent), so 1e200 is written out in full.
     const lines = [...smallLines.slice(0, 3), `L02,M1,slump,1,1${"0".repeat(200)}`, ...smallLines.slice(4, 7)];
-    const { status, stdout, stderr } = await runCli(writeCsv("huge.csv", lines));
+    const { status, stdout, stderr } = await runPrecisionCli(writeCsv("huge.csv", lines));
     expect(status).toBe(1);
     expect(stdout).toBe("");
     expect(stderr).toMatch(/row 4 .*too large to compute with: its square would overflow/);
   });
 
   it("reproduces NIST StRD SiRstv's certified within mean square, in full double precision", async () => {
-    const { status, stdout } = await runCli(writeCsv("nist.csv", [HEADER, ...nistLines]));
+    const { status, stdout } = await runPrecisionCli(writeCsv("nist.csv", [HEADER, ...nistLines]));
     expect(status).toBe(0);
     const group = JSON.parse(stdout).groups[0];
     // NIST StRD certified residual standard deviation for SiRstv: 1.04076068334656E-01.
@@ -101,34 +86,34 @@ describe("npm run precision", () => {
   });
 
   it("--alpha 0.05 switches h to the ISO 5725-2 5 % critical value", async () => {
-    const { status, stdout } = await runCli(writeCsv("nist-alpha.csv", [HEADER, ...nistLines]), "--alpha", "0.05");
+    const { status, stdout } = await runPrecisionCli(writeCsv("nist-alpha.csv", [HEADER, ...nistLines]), "--alpha", "0.05");
     expect(status).toBe(0);
     // ISO 5725-2 h table at 5 %, from memory: p = 5 → 1.57.
     expect(Math.abs(JSON.parse(stdout).groups[0].hCritical - 1.57)).toBeLessThanOrEqual(0.006);
   });
 
   it("refuses an unsupported --alpha", async () => {
-    const { status, stdout, stderr } = await runCli(writeCsv("alpha.csv", smallLines), "--alpha", "0.1");
+    const { status, stdout, stderr } = await runPrecisionCli(writeCsv("alpha.csv", smallLines), "--alpha", "0.1");
     expect(status).toBe(1);
     expect(stdout).toBe("");
     expect(stderr).toMatch(/--alpha must be one of 0.005, 0.01, 0.05/);
   });
 
   it("fails on a file it cannot read", async () => {
-    const { status, stdout, stderr } = await runCli(join(workDir, "does-not-exist.csv"));
+    const { status, stdout, stderr } = await runPrecisionCli(join(workDir, "does-not-exist.csv"));
     expect(status).toBe(1);
     expect(stdout).toBe("");
     expect(stderr).toMatch(/cannot read .*does-not-exist\.csv/);
   });
 
   it("fails without a file argument", async () => {
-    const { status, stderr } = await runCli();
+    const { status, stderr } = await runPrecisionCli();
     expect(status).toBe(1);
     expect(stderr).toMatch(/usage/);
   });
 
   it("fails on a missing column", async () => {
-    const { status, stdout, stderr } = await runCli(writeCsv("columns.csv", ["lab,material,response,value", "L01,M1,slump,3"]));
+    const { status, stdout, stderr } = await runPrecisionCli(writeCsv("columns.csv", ["lab,material,response,value", "L01,M1,slump,3"]));
     expect(status).toBe(1);
     expect(stdout).toBe("");
     expect(stderr).toMatch(/no "replicate" column/);
@@ -137,7 +122,7 @@ describe("npm run precision", () => {
   it("fails on a non-finite value and names its row", async () => {
     const lines = [...smallLines];
     lines[3] = "L02,M1,slump,1,n/a";
-    const { status, stdout, stderr } = await runCli(writeCsv("nonfinite.csv", lines));
+    const { status, stdout, stderr } = await runPrecisionCli(writeCsv("nonfinite.csv", lines));
     expect(status).toBe(1);
     expect(stdout).toBe("");
     expect(stderr).toMatch(/row 4 \(lab L02, material M1, response slump, replicate 1\): the value is not a finite number/);
@@ -146,7 +131,7 @@ describe("npm run precision", () => {
   it("fails on duplicate replicate numbers and names both rows", async () => {
     const lines = [...smallLines];
     lines[2] = "L01,M1,slump,1,102";
-    const { status, stderr } = await runCli(writeCsv("duplicate.csv", lines));
+    const { status, stderr } = await runPrecisionCli(writeCsv("duplicate.csv", lines));
     expect(status).toBe(1);
     expect(stderr).toMatch(/row 3 .*replicate 1 appears twice in this cell; first at row 2/);
   });
@@ -154,22 +139,22 @@ describe("npm run precision", () => {
   it("fails on a negative or fractional value of a --count response", async () => {
     const lines = [HEADER, "L01,M1,passes,1,3", "L01,M1,passes,2,-1", "L02,M1,passes,1,2.5", "L02,M1,passes,2,2", "L03,M1,passes,1,4", "L03,M1,passes,2,4"];
     const path = writeCsv("count.csv", lines);
-    const { status, stderr } = await runCli(path, "--count", "passes");
+    const { status, stderr } = await runPrecisionCli(path, "--count", "passes");
     expect(status).toBe(1);
     expect(stderr).toMatch(/row 3 .*negative, but passes is a count/);
     expect(stderr).toMatch(/row 4 .*not a whole number, but passes is a count/);
     // Without --count the same file is continuous data and fine.
-    expect((await runCli(path)).status).toBe(0);
+    expect((await runPrecisionCli(path)).status).toBe(0);
   });
 
   it("fails on a malformed row", async () => {
-    const { status, stderr } = await runCli(writeCsv("malformed.csv", [HEADER, "L01,M1,slump,1"]));
+    const { status, stderr } = await runPrecisionCli(writeCsv("malformed.csv", [HEADER, "L01,M1,slump,1"]));
     expect(status).toBe(1);
     expect(stderr).toMatch(/row 2: 4 fields where the header has 5/);
   });
 
   it("prints a group with a one-result lab, with the reason", async () => {
-    const { status, stdout } = await runCli(writeCsv("single.csv", smallLines.slice(0, 6)));
+    const { status, stdout } = await runPrecisionCli(writeCsv("single.csv", smallLines.slice(0, 6)));
     expect(status).toBe(0);
     const group = JSON.parse(stdout).groups[0];
     expect(group.status).toBe("not-computed");

@@ -6,7 +6,7 @@
 import { type DefaultValue, type FieldMetadata, type SubmissionResult, useForm } from "@conform-to/react";
 import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
 import type { z } from "zod";
-import { Notice } from "~/components/ui";
+import { Field, Notice } from "~/components/ui";
 
 /** What an action returns when it refuses a form (see `refuse` in form-reply.server). */
 export type FormReply = { result?: SubmissionResult<string[]> } | undefined | null;
@@ -45,6 +45,16 @@ export function fieldProps(meta: FieldMetadata<unknown>) {
     ...(meta.min !== undefined && { min: meta.min }),
     ...(meta.max !== undefined && { max: meta.max }),
   };
+}
+
+/** A password chosen twice, so a typo in it is caught before it locks the account out. */
+export function NewPasswordFields({ label, password, confirm }: { label: string; password: FieldMetadata<unknown>; confirm: FieldMetadata<unknown> }) {
+  return (
+    <>
+      <Field label={label} type="password" autoComplete="new-password" hint="At least 12 characters" {...fieldProps(password)} />
+      <Field label="Repeat the password" type="password" autoComplete="new-password" {...fieldProps(confirm)} />
+    </>
+  );
 }
 
 /** Errors of the form as a whole (not of one field). */

@@ -12,6 +12,16 @@ export type StudyPageHandle<LoaderData = unknown> = { pageTitle: string | ((load
 
 export type StudyTab = { to: string; label: string; end?: boolean };
 
+/** Tabs for the pages under `base`; the "" page is `base` itself and is active only there, not under its siblings. */
+export function tabsUnder(base: string, pages: [path: string, label: string][]): StudyTab[] {
+  return pages.map(([path, label]) => ({ to: base + path, label, end: path === "" }));
+}
+
+/** The few fields the frame shows, so a parent loader sends no more of the study than that. */
+export function frameStudy({ id, code, title, state }: { id: number; code: string; title: string; state: StudyState }) {
+  return { id, code, title, state };
+}
+
 /** The name of the deepest page that gives one, for the heading "Results — FF-2026-A". */
 function usePageTitle() {
   const matches = useMatches();

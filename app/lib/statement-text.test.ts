@@ -34,7 +34,7 @@ describe("E691 form", () => {
     expect(text).toContain("2 replicate results");
     expect(text).toContain("lab L4, material B, holes: batch water doubled by mistake");
   });
-  // Issue #16: figures follow one stated rounding rule, three significant digits (ASTM E691: two or three);
+  // Figures follow one stated rounding rule, three significant digits (ASTM E691: two or three);
   // this test used to expect the response's decimals + 2 for s and + 1 for r and R.
   it("reports the engine's s_r, s_R, r and R of each material to three significant digits", () => {
     const sig = (x: number) => formatSignificant(x, 3);
@@ -66,7 +66,7 @@ describe("C670 form", () => {
     expect(text).toMatch(/Multilaboratory precision/);
     expect(text).toContain("left out of the analysis");
   });
-  // Issue #16: one form per response for both precisions, by one stated rule (this test used to
+  // One form per response for both precisions, by one stated rule (this test used to
   // check a per-precision choice, which could give s_r in percent and s_R in passes).
   it("gives both precisions of a response in one form, chosen by one stated rule", () => {
     const form = responseForm(analysis, "holes");

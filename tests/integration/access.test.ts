@@ -1,4 +1,3 @@
-import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { studies } from "~/db/schema";
@@ -8,18 +7,15 @@ import * as lab from "~/routes/lab/index";
 import * as review from "~/routes/review/index";
 import * as studyList from "~/routes/studies/index";
 import * as studyOverview from "~/routes/studies/study/overview";
-import { seedDemo } from "../../seed/seed";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
+import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { call, get } from "../support/routes";
 
 let checkingStudyId: string;
 
 beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
-  const study = await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") });
-  checkingStudyId = String(study!.id);
+  await useDemoDatabase();
+  const study = await demoStudy("FF-2026-A");
+  checkingStudyId = String(study.id);
 });
 
 describe("role guards", () => {

@@ -14,9 +14,7 @@ import * as results from "~/routes/api/v1/study-results";
 import * as resultsCsv from "~/routes/api/v1/study-results-csv";
 import * as studyList from "~/routes/api/v1/studies";
 import { DEMO_LABS } from "../../seed/demo-data";
-import { seedDemo } from "../../seed/seed";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
+import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { call, get } from "../support/routes";
 
 let checkingId: number;
@@ -35,11 +33,20 @@ const revalidate = (path: string, etag: string, cookie?: string) =>
   new Request(`http://ringbatch.test${path}`, { headers: { "If-None-Match": etag, ...(cookie ? { Cookie: cookie } : {}) } });
 
 beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
-  checkingId = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!.id;
-  testingId = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-B") }))!.id;
+  await useDemoDatabase();
+  checkingId = (await demoStudy("FF-2026-A")).id;
+  testingId = (await demoStudy("FF-2026-B")).id;
 });
+
+/** The first enrolment of a demo lab, for a results:write token. */
+async function firstEnrollmentOf(labName: string) {
+  const [enrollment] = await db
+    .select({ id: enrollments.id })
+    .from(enrollments)
+    .innerJoin(labs, eq(labs.id, enrollments.labId))
+    .where(eq(labs.name, labName));
+  return enrollment!.id;
+}
 
 describe("API authentication", () => {
   it("answers 401 in the error shape without credentials or with a bad token", async () => {
@@ -67,25 +74,14 @@ describe("API authentication", () => {
 
   it("does not let a results:write token read the study", async () => {
     const analyst = await userNamed("analyst1@ringbatch.example");
-    const enrollment = await db
-      .select({ id: enrollments.id })
-      .from(enrollments)
-      .innerJoin(labs, eq(labs.id, enrollments.labId))
-      .where(eq(labs.name, DEMO_LABS[0].name));
-    const own = enrollment.find(Boolean)!;
-    const { token } = await createApiToken(analyst, { name: "lab system", scope: "results:write", enrollmentId: own.id });
+    const { token } = await createApiToken(analyst, { name: "lab system", scope: "results:write", enrollmentId: await firstEnrollmentOf(DEMO_LABS[0].name) });
     const outcome = await call(study.loader, bearer(`/api/v1/studies/${checkingId}`, token), { studyId: String(checkingId) });
     expect(outcome.status).toBe(404);
   });
 
   it("refuses to make a token for another lab's enrollment", async () => {
     const analyst = await userNamed("analyst1@ringbatch.example");
-    const other = await db
-      .select({ id: enrollments.id })
-      .from(enrollments)
-      .innerJoin(labs, eq(labs.id, enrollments.labId))
-      .where(eq(labs.name, DEMO_LABS[1].name));
-    await expect(createApiToken(analyst, { name: "x", scope: "results:write", enrollmentId: other[0]!.id })).rejects.toThrow(/your lab/);
+    await expect(createApiToken(analyst, { name: "x", scope: "results:write", enrollmentId: await firstEnrollmentOf(DEMO_LABS[1].name) })).rejects.toThrow(/your lab/);
   });
 });
 

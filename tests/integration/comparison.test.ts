@@ -1,25 +1,22 @@
 import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { comparisons, precisionStatements, studies } from "~/db/schema";
+import { comparisons, precisionStatements } from "~/db/schema";
 import { withinLabCriticalDifference } from "~/lib/comparison";
 import * as history from "~/routes/compare/index";
 import * as newComparison from "~/routes/compare/new";
 import * as sheet from "~/routes/compare/sheet";
 import { PUBLISHED_STUDY_CODE } from "../../seed/toolkit-demo";
-import { seedDemo } from "../../seed/seed";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
+import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { call, get, post } from "../support/routes";
 
 let reviewer: string;
 let statementId: number;
 
 beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
+  await useDemoDatabase();
   reviewer = await demoCookie("reviewer2@ringbatch.example");
-  const study = (await db.query.studies.findFirst({ where: eq(studies.code, PUBLISHED_STUDY_CODE) }))!;
+  const study = await demoStudy(PUBLISHED_STUDY_CODE);
   statementId = (await db.query.precisionStatements.findFirst({ where: eq(precisionStatements.studyId, study.id) }))!.id;
 });
 
@@ -47,7 +44,7 @@ describe("mixture comparison", () => {
   });
 
   it("refuses a statement that is not published beside the statement field", async () => {
-    const draft = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!;
+    const draft = await demoStudy("FF-2026-A");
     const [fake] = await db.insert(precisionStatements).values({ studyId: draft.id, version: 1, textE691: "x".repeat(30), textC670: "x".repeat(30), snapshot: {}, dataVersion: 1, createdBy: 1 }).returning();
     const outcome = await call(newComparison.action, post("/compare/new", form({ basis: `${fake!.id}:holes` }), reviewer));
     expect(outcome.status).toBe(400);

@@ -8,10 +8,8 @@ import * as receipt from "~/routes/lab/study/receipt";
 import * as materialPage from "~/routes/studies/study/material";
 import * as shipmentsPage from "~/routes/studies/study/shipments";
 import * as overview from "~/routes/studies/study/overview";
-import { seedDemo } from "../../seed/seed";
 import { createStudyAs, postMultipart } from "../support/coordinator";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
+import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { readReply } from "../support/replies";
 import { call, get, post } from "../support/routes";
 import { errorsOf, toastOf } from "../support/replies";
@@ -20,10 +18,9 @@ let coordinator: string;
 let testing: typeof studies.$inferSelect;
 
 beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
+  await useDemoDatabase();
   coordinator = await demoCookie("coordinator@ringbatch.example");
-  testing = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-B") }))!;
+  testing = await demoStudy("FF-2026-B");
 });
 
 const params = () => ({ studyId: String(testing.id) });
@@ -136,7 +133,7 @@ describe("progress and reminders", () => {
     // Labs 5–8 of the seed (drafts or not started); labs 1–4 have submitted everything.
     expect(sent.map((m) => m.to).sort()).toEqual(["analyst5@ringbatch.example", "analyst6@ringbatch.example", "analyst7@ringbatch.example", "analyst8@ringbatch.example"]);
     expect(sent.find((m) => m.to === "analyst5@ringbatch.example")!.text).toContain("F2");
-    const checking = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!;
+    const checking = await demoStudy("FF-2026-A");
     const refused = await readReply(await call(overview.action, post(`/studies/${checking.id}`, { intent: "remind" }, coordinator), { studyId: String(checking.id) }));
     expect(refused.errors.form).toBe("Reminders go out only while the study is testing.");
     expect((await call(overview.action, post(`/studies/${testing.id}`, { intent: "remind" }, await demoCookie("admin@ringbatch.example")), params())).status).toBe(404);

@@ -5,10 +5,8 @@ import { auditEvents, freshPropertyTargets, materials, responses, studies, study
 import { StudyStateError, assertResultsEditable } from "~/models/study-lifecycle.server";
 import * as newStudy from "~/routes/studies/new";
 import * as setup from "~/routes/studies/study/setup";
-import { seedDemo } from "../../seed/seed";
 import { createStudyAs, enrollDemoLabs, postMultipart, STUDY_FIELDS } from "../support/coordinator";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
+import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { readReply } from "../support/replies";
 import { call, get, post } from "../support/routes";
 
@@ -16,8 +14,7 @@ let coordinator: string;
 let study: typeof studies.$inferSelect;
 
 beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
+  await useDemoDatabase();
   coordinator = await demoCookie("coordinator@ringbatch.example");
   study = await createStudyAs(coordinator);
 });
@@ -43,7 +40,7 @@ describe("creating a study", () => {
   it("as a custom test method without responses, and sends the coordinator to its setup", async () => {
     const outcome = await call(newStudy.action, post("/studies/new", { ...STUDY_FIELDS, template: "custom", code: "SL-2027-1", testMethod: "Slump flow", targetSurfaceRating: "" }, coordinator));
     expect(outcome.status).toBe(302);
-    const custom = (await db.query.studies.findFirst({ where: eq(studies.code, "SL-2027-1") }))!;
+    const custom = await demoStudy("SL-2027-1");
     expect(outcome.headers.get("Location")).toBe(`/studies/${custom.id}/setup`);
     expect(await db.select().from(responses).where(eq(responses.studyId, custom.id))).toEqual([]);
     expect(custom.targetSurfaceRating).toBeNull();

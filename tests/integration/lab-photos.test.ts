@@ -1,12 +1,10 @@
 import { and, eq, isNotNull } from "drizzle-orm";
 import { beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
-import { attachments, materials, results, studies } from "~/db/schema";
+import { attachments, materials, results } from "~/db/schema";
 import * as files from "~/routes/files";
 import * as entry from "~/routes/lab/study/result-entry";
-import { seedDemo } from "../../seed/seed";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
+import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { call, get } from "../support/routes";
 import { errorsOf, toastOf, valuesOf } from "../support/replies";
 
@@ -19,11 +17,10 @@ let studyId: string;
 let f1: string;
 
 beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
-  const study = await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-B") });
-  studyId = String(study!.id);
-  f1 = String((await db.query.materials.findFirst({ where: and(eq(materials.studyId, study!.id), eq(materials.code, "F1")) }))!.id);
+  await useDemoDatabase();
+  const study = await demoStudy("FF-2026-B");
+  studyId = String(study.id);
+  f1 = String((await db.query.materials.findFirst({ where: and(eq(materials.studyId, study.id), eq(materials.code, "F1")) }))!.id);
 });
 
 // A 1 × 1 pixel PNG: the 8-byte PNG signature (89 50 4E 47 0D 0A 1A 0A, PNG specification) and its chunks.

@@ -21,7 +21,7 @@ beforeAll(async () => {
 
 const study = async (code: string) => (await db.query.studies.findFirst({ where: eq(studies.code, code) }))!;
 
-describe("the demo's checking study (issue #16)", () => {
+describe("the demo's checking study", () => {
   // seed/demo-data.ts plants two problems: Brimmel (L08) far more passes on M2's surface, Vantoller (L01)
   // scattering widely on M3's holes. Nothing else may be flagged unless shown with its statistic and
   // critical value; the old double-Grubbs flag on L06 (h = 0.10) is gone because the single test on the
@@ -57,7 +57,7 @@ describe("the demo's checking study (issue #16)", () => {
 });
 
 describe("the demo's testing study (4 labs so far)", () => {
-  // Issue #16: 4 of its 5 flags were double-Grubbs "outliers" on tied pass counts (|h| < 1.6).
+  // 4 of its 5 flags were double-Grubbs "outliers" on tied pass counts (|h| < 1.6).
   it("no longer flags pairs whose statistic is 0 only because the other labs tie", async () => {
     const analysis = await studyAnalysis(await study("FF-2026-B"));
     const flagged = flaggedCells(analysis);

@@ -18,25 +18,20 @@ import * as newRound from "~/routes/rounds/new";
 import * as overview from "~/routes/rounds/round/overview";
 import * as report from "~/routes/rounds/round/report";
 import * as scores from "~/routes/rounds/round/scores";
-import { seedDemo } from "../../seed/seed";
 import { ROUND_CHECKS } from "../../seed/rounds-data";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
+import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { call, get, post } from "../support/routes";
 
 let coordinator: string;
 
 beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
+  await useDemoDatabase();
   coordinator = await demoCookie("coordinator@ringbatch.example");
 });
 
-const studyByCode = async (code: string) => (await db.query.studies.findFirst({ where: eq(studies.code, code) }))!;
-
 describe("the demo's published round", () => {
   it("shows the planted unsatisfactory and questionable scores and nothing else outside satisfactory", async () => {
-    const round = await studyByCode("PT-2026-1");
+    const round = await demoStudy("PT-2026-1");
     const outcome = await call(report.loader, get(`/rounds/${round.id}/report`, coordinator), { roundId: String(round.id) });
     expect(outcome.status).toBe(200);
     const flagged = outcome.data.groups.flatMap((g: any) =>
@@ -55,14 +50,14 @@ describe("the demo's published round", () => {
   });
 
   it("never lets a published score change", async () => {
-    const round = await studyByCode("PT-2026-1");
+    const round = await demoStudy("PT-2026-1");
     await expect(db.update(roundScores).set({ score: 0 }).where(eq(roundScores.studyId, round.id))).rejects.toThrow();
     await expect(db.delete(roundScores).where(eq(roundScores.studyId, round.id))).rejects.toThrow();
     await expect(db.update(roundSettings).set({ publishedReport: null }).where(eq(roundSettings.studyId, round.id))).rejects.toThrow();
   });
 
   it("gives each lab its own letter: its scores, other labs as codes only", async () => {
-    const round = await studyByCode("PT-2026-1");
+    const round = await demoStudy("PT-2026-1");
     const params = { roundId: String(round.id) };
     const analyst = await demoCookie("analyst4@ringbatch.example"); // Ostrade Highway District Lab
     const outcome = await call(letterPage.loader, get(`/lab/rounds/${round.id}/letter`, analyst), params);
@@ -85,7 +80,7 @@ describe("the demo's published round", () => {
 
 describe("the rounds API with a token", () => {
   it("reads a lab's own scores with a study:read token made for the round, and nothing else", async () => {
-    const round = await studyByCode("PT-2026-1");
+    const round = await demoStudy("PT-2026-1");
     const analyst = (await db.query.users.findFirst({ where: (u, { eq }) => eq(u.email, "analyst4@ringbatch.example") }))!;
     const { loadSessionUser } = await import("~/models/user.server");
     const { createApiToken } = await import("~/models/api-token.server");
@@ -96,14 +91,14 @@ describe("the rounds API with a token", () => {
     const mine = await call(apiScores.loader, bearer(`/api/v1/rounds/${round.id}/scores`), { roundId: String(round.id) });
     expect(mine.status).toBe(200);
     expect(new Set(mine.data.scores.map((s: any) => s.labCode))).toEqual(new Set([mine.data.labCode]));
-    const earlier = await studyByCode("PT-2025-2");
+    const earlier = await demoStudy("PT-2025-2");
     expect((await call(apiScores.loader, bearer(`/api/v1/rounds/${earlier.id}/scores`), { roundId: String(earlier.id) })).status).toBe(404);
   });
 });
 
 describe("a lab's own uncertainty", () => {
   it("is refused beside its field when not above 0, and once saved gives the lab a ζ score", async () => {
-    const round = await studyByCode("PT-2026-2");
+    const round = await demoStudy("PT-2026-2");
     const params = { roundId: String(round.id) };
     const analyst = await demoCookie("analyst1@ringbatch.example"); // Quarrow, which has submitted in this round
     const r1 = (await db.query.materials.findFirst({ where: (m, { and, eq }) => and(eq(m.studyId, round.id), eq(m.code, "R1")) }))!;
@@ -127,7 +122,7 @@ describe("a lab's own uncertainty", () => {
 
 describe("a material added to a round after it was set up", () => {
   it("is scored with the default choices, and its choice can be saved", async () => {
-    const round = await studyByCode("PT-2026-2");
+    const round = await demoStudy("PT-2026-2");
     const params = { roundId: String(round.id) };
     const [added] = await db.insert(materials).values({ studyId: round.id, code: "R3", description: "Added on the setup page", sortOrder: 9 }).returning();
     const page = await call(assignedValues.loader, get(`/rounds/${round.id}/assigned-values`, coordinator), params);
@@ -151,7 +146,7 @@ describe("a round from the published study, run to publication", () => {
   const params = () => ({ roundId: String(roundId) });
 
   it("refuses bad input beside its field, and keeps nothing", async () => {
-    const source = await studyByCode("FF-2025-D");
+    const source = await demoStudy("FF-2025-D");
     const refused = await call(newRound.action, post("/rounds/new", { code: "x", title: "", sourceStudyId: String(source.id), replicatesPerCell: "5", materials: "" }, coordinator));
     expect(refused.status).toBe(400);
     expect(Object.keys(refused.data.result.error)).toEqual(expect.arrayContaining(["code", "title", "replicatesPerCell", "materials"]));
@@ -159,13 +154,13 @@ describe("a round from the published study, run to publication", () => {
   });
 
   it("creates the round with the study's method, responses and precision", async () => {
-    const source = await studyByCode("FF-2025-D");
+    const source = await demoStudy("FF-2025-D");
     const created = await call(
       newRound.action,
       post("/rounds/new", { code: "PT-2027-1", title: "Spring 2027 round", sourceStudyId: String(source.id), testMethod: "", replicatesPerCell: "2", materials: "R1 Reference mix\nR2 Fly ash mix", resultsDue: "" }, coordinator),
     );
     expect(created.status).toBe(302);
-    const round = await studyByCode("PT-2027-1");
+    const round = await demoStudy("PT-2027-1");
     roundId = round.id;
     expect(round).toMatchObject({ kind: "proficiency", testMethod: source.testMethod, state: "draft", replicatesPerCell: 2 });
     const keys = (await db.select({ key: responses.key }).from(responses).where(eq(responses.studyId, round.id))).map((r) => r.key);
@@ -212,7 +207,7 @@ describe("a round from the published study, run to publication", () => {
     expect(page.data.problems.join(" ")).toMatch(/homogeneity and stability/);
     const blocked = await call(scores.action, post(`/rounds/${roundId}/scores`, { intent: "publish", confirm: "yes" }, coordinator), params());
     expect(blocked.status).toBe(400);
-    expect((await studyByCode("PT-2027-1")).state).toBe("checking");
+    expect((await demoStudy("PT-2027-1")).state).toBe("checking");
 
     // A failing homogeneity check (one sample far off) still blocks until a justification is recorded.
     const failing = ["8 8", "8 9", "8 8", "12 12", "8 8", "9 8", "8 8", "8 8", "8 9", "8 8"].join("\n");
@@ -244,7 +239,7 @@ describe("a round from the published study, run to publication", () => {
     }
     const published = await call(scores.action, post(`/rounds/${roundId}/scores`, { intent: "publish", confirm: "yes" }, coordinator), params());
     expect(published.status).toBe(302);
-    expect((await studyByCode("PT-2027-1")).state).toBe("published");
+    expect((await demoStudy("PT-2027-1")).state).toBe("published");
     const frozen = await db.select().from(roundScores).where(eq(roundScores.studyId, roundId));
     expect(frozen).toHaveLength(labRows.length * 4);
     // Each lab's contact is told the letter is ready; the e-mail carries no score.
@@ -270,7 +265,7 @@ describe("a round from the published study, run to publication", () => {
     const { sessionCookieFor } = await import("../support/routes");
     const outside = await call(letterPage.loader, get(`/lab/rounds/${roundId}/letter`, await sessionCookieFor(user!.id)), params());
     expect(outside.status).toBe(404);
-    const precision = await studyByCode("FF-2026-A");
+    const precision = await demoStudy("FF-2026-A");
     const wrongKind = await call(report.loader, get(`/rounds/${precision.id}/report`, coordinator), { roundId: String(precision.id) });
     expect(wrongKind.status).toBe(404);
   });

@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { ruggednessResults, studies } from "~/db/schema";
+import { ruggednessResults } from "~/db/schema";
 import * as conclusions from "~/routes/ruggedness/study/conclusions";
 import * as effects from "~/routes/ruggedness/study/effects";
 import * as factors from "~/routes/ruggedness/study/factors";
@@ -9,19 +9,16 @@ import * as newStudy from "~/routes/ruggedness/new";
 import * as results from "~/routes/ruggedness/study/results";
 import * as precisionStudy from "~/routes/studies/study/layout";
 import { RUGGEDNESS_STUDY_CODE } from "../../seed/toolkit-demo";
-import { seedDemo } from "../../seed/seed";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
+import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { call, get, post } from "../support/routes";
 
 let coordinator: string;
 let demoStudyId: number;
 
 beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
+  await useDemoDatabase();
   coordinator = await demoCookie("coordinator@ringbatch.example");
-  demoStudyId = (await db.query.studies.findFirst({ where: eq(studies.code, RUGGEDNESS_STUDY_CODE) }))!.id;
+  demoStudyId = (await demoStudy(RUGGEDNESS_STUDY_CODE)).id;
 });
 
 const at = (id: number) => ({ ruggednessStudyId: String(id) });
@@ -67,7 +64,7 @@ describe("a new ruggedness study", () => {
   it("is created with the float test's responses", async () => {
     const outcome = await call(newStudy.action, post("/ruggedness/new", { code: "RG-TEST-1", title: "Screening", template: "float_finishing" }, coordinator));
     expect(outcome.status).toBe(302);
-    studyId = (await db.query.studies.findFirst({ where: eq(studies.code, "RG-TEST-1") }))!.id;
+    studyId = (await demoStudy("RG-TEST-1")).id;
     expect(outcome.headers.get("Location")).toBe(`/ruggedness/${studyId}`);
   });
 
@@ -116,7 +113,7 @@ describe("a new ruggedness study", () => {
   });
 
   it("is not a precision study's page, nor another coordinator's", async () => {
-    const precision = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!.id;
+    const precision = (await demoStudy("FF-2026-A")).id;
     expect((await call(effects.loader, get(`/ruggedness/${precision}/effects`, coordinator), at(precision))).status).toBe(404);
     expect((await call(effects.loader, get(`/ruggedness/${studyId}/effects`, await demoCookie("reviewer1@ringbatch.example")), at(studyId))).status).toBe(404);
   });

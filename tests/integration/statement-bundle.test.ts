@@ -1,11 +1,10 @@
-import { execFileSync, spawn } from "node:child_process";
+import { execFileSync } from "node:child_process";
 import { createHash } from "node:crypto";
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { readFileSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { eq } from "drizzle-orm";
 import Papa from "papaparse";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { studies } from "~/db/schema";
 import type { ComputedGroup, StudyAnalysis } from "~/lib/precision";
@@ -13,34 +12,18 @@ import { buildStatementBundle } from "~/models/bundle.server";
 import * as bundleZip from "~/routes/api/v1/study-bundle";
 import * as bundleSummary from "~/routes/api/v1/study-bundle-summary";
 import { PUBLISHED_STUDY_CODE } from "../../seed/toolkit-demo";
-import { seedDemo } from "../../seed/seed";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
+import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
+import { runPrecisionCli, scratchDir } from "../support/precision-cli";
 import { call, get } from "../support/routes";
 
-const root = new URL("../..", import.meta.url).pathname;
-const workDir = mkdtempSync(join(tmpdir(), "statement-bundle-"));
-afterAll(() => rmSync(workDir, { recursive: true, force: true }));
+const workDir = scratchDir("statement-bundle-");
 
 let studyId: number;
 let zipBytes: Buffer;
 
-function runCli(args: string[]): Promise<{ status: number | null; stdout: string; stderr: string }> {
-  return new Promise((resolve, reject) => {
-    const child = spawn("npx", ["tsx", "scripts/precision.ts", ...args], { cwd: root });
-    let stdout = "";
-    let stderr = "";
-    child.stdout.on("data", (chunk) => (stdout += chunk));
-    child.stderr.on("data", (chunk) => (stderr += chunk));
-    child.on("error", reject);
-    child.on("close", (status) => resolve({ status, stdout, stderr }));
-  });
-}
-
 beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
-  studyId = (await db.query.studies.findFirst({ where: eq(studies.code, PUBLISHED_STUDY_CODE) }))!.id;
+  await useDemoDatabase();
+  studyId = (await demoStudy(PUBLISHED_STUDY_CODE)).id;
   const response = await bundleZip.loader({ request: get(`/api/v1/studies/${studyId}/bundle.zip`, await demoCookie("coordinator@ringbatch.example")), params: { studyId: String(studyId) } } as never);
   expect(response.status).toBe(200);
   zipBytes = Buffer.from(await response.arrayBuffer());
@@ -75,7 +58,7 @@ describe("the bundle of a published statement", () => {
   it("recomputes every published figure from the bundle alone with the command it gives", async () => {
     const design = JSON.parse(bundleFile("design.json"));
     const args = (design.recompute as string).replace(/^npm run -s precision -- /, "").replaceAll("bundle/", `${join(workDir, "bundle")}/`).split(" ");
-    const run = await runCli(args);
+    const run = await runPrecisionCli(...args);
     expect(run.stderr).toBe("");
     expect(run.status).toBe(0);
     const recomputed: StudyAnalysis = JSON.parse(run.stdout);
@@ -117,7 +100,7 @@ describe("the bundle of a published statement", () => {
   it("is not given to analysts, nor made for a study that is not published", async () => {
     const params = { studyId: String(studyId) };
     expect((await call(bundleZip.loader, get(`/api/v1/studies/${studyId}/bundle.zip`, await demoCookie("analyst1@ringbatch.example")), params)).status).toBe(404);
-    const checking = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!.id;
+    const checking = (await demoStudy("FF-2026-A")).id;
     const refused = await call(bundleSummary.loader, get(`/api/v1/studies/${checking}/bundle`, await demoCookie("coordinator@ringbatch.example")), { studyId: String(checking) });
     expect(refused.status).toBe(404);
     expect(refused.data.error.message).toContain("published");

@@ -276,8 +276,8 @@ describe("output", () => {
   });
 });
 
-describe("screening order and findings (ISO 5725-2 §7.3, issue #16)", () => {
-  // Issue #16: the double test used to run on the high side as well, and flag L05's neighbour with it.
+describe("screening order and findings (ISO 5725-2 §7.3)", () => {
+  // The double test used to run on the high side as well, and flag L05's neighbour with it.
   it("a lab found by the single Grubbs test is not tested again as part of a pair", () => {
     const group = computed(analyzeStudy(toRows(PLANTED_BETWEEN)).groups[0]);
     expect(group.grubbs.doubleHigh).toBeNull();
@@ -318,7 +318,7 @@ describe("confidence intervals of the precision figures", () => {
   });
 });
 
-describe("numerical range (issue #16)", () => {
+describe("numerical range", () => {
   it("a large common offset (1e9 + small differences) keeps its digits through a working origin", () => {
     const offset = 1e9;
     const shifted = computed(analyzeStudy(toRows(Object.fromEntries(Object.entries(PLANTED_WITHIN).map(([lab, v]) => [lab, v.map((x) => x - 100 + offset)])))).groups[0]);

@@ -11,7 +11,7 @@ const reference = JSON.parse(
   chiSquare: { probability: number; df: number; quantile: number }[];
 };
 
-// Issue #16: the inversions reach 1e-12 relative (jStat alone stopped near 1e-9).
+// The inversions reach 1e-12 relative (jStat alone stopped near 1e-9).
 const RELATIVE = 1e-12;
 
 describe("studentTQuantile", () => {

@@ -9,7 +9,7 @@ const tables = JSON.parse(readFileSync(new URL("../../../tests/fixtures/iso-5725
 };
 
 describe("grubbsDoubleCritical", () => {
-  // Issue #16: the old 100 000-sample simulation missed the table by up to 0.003
+  // The old 100 000-sample simulation missed the table by up to 0.003
   // (p = 20, 1 %: 0.3558 against 0.3585); the values must now match within ±0.0015.
   it.each(tables.doubleGrubbs)("p = %i matches the published ISO 5725-2 table within ±0.0015", (p, at1, at5) => {
     const critical = grubbsDoubleCritical(p);

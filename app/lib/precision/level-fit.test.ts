@@ -56,7 +56,7 @@ describe("levelFit", () => {
     expect(result.notes[0]).toMatch(/at least 3 materials/);
   });
 
-  // Issue #16: a response whose levels cross zero is never fitted as proportional
+  // A response whose levels cross zero is never fitted as proportional
   // (this test used to expect s = b·m among the candidates).
   it("never fits s = b·m when the levels cross zero, and skips the log relation there", () => {
     const result = levelFit([{ level: -2, s: 0.1 }, { level: 3, s: 0.2 }, { level: 8, s: 0.35 }]);

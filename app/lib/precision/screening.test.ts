@@ -17,7 +17,7 @@ describe("screenCells: ISO 5725-2 §7.3 in order", () => {
     expect(steps.every((step) => step.outcome === "passed")).toBe(true);
   });
 
-  // Issue #16: the double test used to run even when the single test on that side had already found the lab,
+  // The double test used to run even when the single test on that side had already found the lab,
   // and flagged its neighbour with it (the demo's "L06 · M2 · surface — Grubbs high (straggler)" at h = 0.10).
   it("skips the double test on a side where the single test found a lab", () => {
     const { steps, grubbs } = screenCells({ labs, means: [10.1, 9.9, 10.0, 10.2, 9.8, 10.05, 9.95, 13], variances, n: 3 });

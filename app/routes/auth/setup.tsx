@@ -2,7 +2,7 @@ import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, useNavigation } from "react-router";
 import type { Route } from "./+types/setup";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, NewPasswordFields, useSchemaForm } from "~/components/forms";
 import { Button, Card, Field, MessagePage } from "~/components/ui";
 import { firstAdminSchema, SETUP_LINK_MINUTES } from "~/lib/first-admin-form";
 import { createFirstAdmin, setupLinkValid } from "~/models/first-use.server";
@@ -55,8 +55,7 @@ export default function Setup({ loaderData, actionData }: Route.ComponentProps) 
           <FormErrors errors={form.errors} />
           <Field label="Your name" autoComplete="name" {...fieldProps(fields.name)} />
           <Field label="E-mail" type="email" autoComplete="username" {...fieldProps(fields.email)} />
-          <Field label="Password" type="password" autoComplete="new-password" hint="At least 12 characters" {...fieldProps(fields.password)} />
-          <Field label="Repeat the password" type="password" autoComplete="new-password" {...fieldProps(fields.confirm)} />
+          <NewPasswordFields label="Password" password={fields.password} confirm={fields.confirm} />
           <Button type="submit" disabled={busy}>
             Create administrator and sign in
           </Button>

@@ -2,8 +2,8 @@ import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, useNavigation } from "react-router";
 import type { Route } from "./+types/welcome";
-import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
-import { Button, Card, Field, MessagePage } from "~/components/ui";
+import { FormErrors, formWideErrors, NewPasswordFields, useSchemaForm } from "~/components/forms";
+import { Button, Card, MessagePage } from "~/components/ui";
 import { firstPasswordSchema } from "~/lib/account-forms";
 import { lookupWelcome, setFirstPassword, type WelcomeLookup } from "~/models/welcome.server";
 import { redirectSignedIn } from "~/server/auth.server";
@@ -59,8 +59,7 @@ export default function Welcome({ loaderData, actionData }: Route.ComponentProps
       <Card>
         <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
           <FormErrors errors={formWideErrors(form)} />
-          <Field label="New password" type="password" autoComplete="new-password" hint="At least 12 characters" {...fieldProps(fields.password)} />
-          <Field label="Repeat the password" type="password" autoComplete="new-password" {...fieldProps(fields.confirm)} />
+          <NewPasswordFields label="New password" password={fields.password} confirm={fields.confirm} />
           <Button type="submit" disabled={busy}>
             Set password and sign in
           </Button>

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/layout";
-import { StudyFrame, type StudyTab } from "~/components/study-frame";
+import { StudyFrame, frameStudy, tabsUnder } from "~/components/study-frame";
 import { requireRound, roundAccessMiddleware } from "~/server/round-context.server";
 
 // Coordinators run the round; admins read it.
@@ -7,7 +7,7 @@ export const middleware: Route.MiddlewareFunction[] = [roundAccessMiddleware(["c
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireRound(context, ["coordinator", "admin"]);
-  return { round: { id: study.id, code: study.code, title: study.title, state: study.state } };
+  return { round: frameStudy(study) };
 }
 
 const TABS: [path: string, label: string][] = [
@@ -20,7 +20,5 @@ const TABS: [path: string, label: string][] = [
 
 export default function RoundLayout({ loaderData }: Route.ComponentProps) {
   const { round } = loaderData;
-  const base = `/rounds/${round.id}`;
-  const tabs: StudyTab[] = TABS.map(([path, label]) => ({ to: base + path, label, end: path === "" }));
-  return <StudyFrame study={round} tabs={tabs} />;
+  return <StudyFrame study={round} tabs={tabsUnder(`/rounds/${round.id}`, TABS)} />;
 }

@@ -1,6 +1,6 @@
-import { Link } from "react-router";
 import type { Route } from "./+types/design";
 import { ConcreteCaution } from "~/components/cautions";
+import { NoDesignYet } from "~/components/no-design-yet";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Card, SimpleTable } from "~/components/ui";
 import { plackettBurmanDesign, settingText } from "~/lib/ruggedness";
@@ -19,13 +19,7 @@ export async function loader({ context }: Route.LoaderArgs) {
 export default function DesignPage({ loaderData }: Route.ComponentProps) {
   const { study, setup, design } = loaderData;
   if (!setup.plan || !design) {
-    return (
-      <Card>
-        <p>
-          No design yet. <Link to={`/ruggedness/${study.id}`} className="font-semibold underline">Name the factors</Link> first.
-        </p>
-      </Card>
-    );
+    return <NoDesignYet studyId={study.id} />;
   }
   const { plan, factors, responses } = setup;
   const columnLabel = (column: number) => factors.find((f) => f.column === column)?.name ?? `Dummy (column ${column})`;

@@ -1,6 +1,7 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/effects";
 import { HalfNormalFigure } from "~/components/charts/half-normal";
+import { NoDesignYet } from "~/components/no-design-yet";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Card, Notice, SimpleTable } from "~/components/ui";
 import { ruggednessAnalysis } from "~/models/ruggedness.server";
@@ -20,13 +21,7 @@ const signed = (x: number) => `${x > 0 ? "+" : x < 0 ? "−" : ""}${Math.abs(x).
 export default function EffectsPage({ loaderData }: Route.ComponentProps) {
   const { studyId, planned, responses } = loaderData;
   if (!planned) {
-    return (
-      <Card>
-        <p>
-          No design yet. <Link to={`/ruggedness/${studyId}`} className="font-semibold underline">Name the factors</Link> first.
-        </p>
-      </Card>
-    );
+    return <NoDesignYet studyId={studyId} />;
   }
   return (
     <div className="flex flex-col gap-6">

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/layout";
-import { StudyFrame, type StudyTab } from "~/components/study-frame";
+import { StudyFrame, frameStudy, tabsUnder } from "~/components/study-frame";
 import { requireRuggednessStudy, ruggednessAccessMiddleware } from "~/server/ruggedness-context.server";
 
 // A ruggedness study is its coordinator's own work in one lab; admins read it.
@@ -7,7 +7,7 @@ export const middleware: Route.MiddlewareFunction[] = [ruggednessAccessMiddlewar
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireRuggednessStudy(context, ["coordinator", "admin"]);
-  return { study: { id: study.id, code: study.code, title: study.title, state: study.state } };
+  return { study: frameStudy(study) };
 }
 
 const TABS: [path: string, label: string][] = [
@@ -20,7 +20,5 @@ const TABS: [path: string, label: string][] = [
 
 export default function RuggednessLayout({ loaderData }: Route.ComponentProps) {
   const { study } = loaderData;
-  const base = `/ruggedness/${study.id}`;
-  const tabs: StudyTab[] = TABS.map(([path, label]) => ({ to: base + path, label, end: path === "" }));
-  return <StudyFrame study={study} tabs={tabs} />;
+  return <StudyFrame study={study} tabs={tabsUnder(`/ruggedness/${study.id}`, TABS)} />;
 }

@@ -1,9 +1,10 @@
 import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { Form, Link, useNavigation } from "react-router";
+import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/results";
 import { ConcreteCaution } from "~/components/cautions";
 import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
+import { NoDesignYet } from "~/components/no-design-yet";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, Field, Notice } from "~/components/ui";
 import { resultFieldName, ruggednessResultsSchema } from "~/lib/ruggedness/forms";
@@ -49,13 +50,7 @@ export async function action({ request, context }: Route.ActionArgs) {
 export default function ResultsPage({ loaderData, actionData }: Route.ComponentProps) {
   const { studyId, setup, stored, canEdit } = loaderData;
   if (!setup.plan) {
-    return (
-      <Card>
-        <p>
-          No design yet. <Link to={`/ruggedness/${studyId}`} className="font-semibold underline">Name the factors</Link> first.
-        </p>
-      </Card>
-    );
+    return <NoDesignYet studyId={studyId} />;
   }
   return <ResultsForm plan={setup.plan} responses={setup.responses} stored={stored} canEdit={canEdit} actionData={actionData} />;
 }
