@@ -9,7 +9,7 @@ import { cells, enrollments, labMembers, labs, materials, queries, responses, st
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import type { CellRef } from "~/lib/review/cells";
-import { queryRefusal } from "~/lib/review/write-rules";
+import { writeRefusal } from "~/lib/write-rules";
 import { findCellId } from "~/models/decisions.server";
 
 type Study = typeof studies.$inferSelect;
@@ -20,7 +20,7 @@ export type RaiseQueryInput = CellRef & { statistic: string; question: string };
 
 /** Raises a query on a cell and e-mails every member of the lab. */
 export async function raiseQuery(study: Study, actorUserId: number, input: RaiseQueryInput, request: Request | null) {
-  const refusal = queryRefusal(study.state);
+  const refusal = writeRefusal("queries", study.state);
   if (refusal) throw new QueryError(refusal);
   const cellId = await findCellId(study.id, input);
   if (cellId === null) throw new QueryError(`Lab ${input.lab} has no ${input.response} results for material ${input.material}.`);
@@ -89,7 +89,7 @@ export async function listStudyQueries(studyId: number) {
 
 /** Closes a query of this study; a query of another study is reported as missing. */
 export async function closeQuery(study: Study, actorUserId: number, queryId: number) {
-  const refusal = queryRefusal(study.state);
+  const refusal = writeRefusal("queries", study.state);
   if (refusal) throw new QueryError(refusal);
   const [found] = await db
     .select({ id: queries.id, state: queries.state })

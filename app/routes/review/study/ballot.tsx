@@ -8,11 +8,11 @@ import { Badge, Button, Card, Notice, PageHeader, TextAreaField } from "~/compon
 import { type ActionResult, refused } from "~/lib/form-results";
 import { type FieldErrors, parseForm } from "~/lib/forms";
 import { requireStudy } from "~/server/study-context.server";
-import { reviewRefusal } from "~/lib/review/write-rules";
+import { writeRefusal } from "~/lib/write-rules";
 import { STATE_LABEL } from "~/lib/state-labels";
-import { addComment, castVote, commentsOn, ReviewError } from "~/models/review.server";
+import { addComment, castVote, commentsOn, replyToAnswer, ReviewError, ruleOnObjection } from "~/models/review.server";
 import { studyAnalysis } from "~/models/analysis.server";
-import { listStatements, studyDesign, votesOn } from "~/models/statement.server";
+import { listStatements, publicationStatus, studyDesign, votesOn } from "~/models/statement.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Review · ${data?.study.code ?? "Study"} · Ringbatch` }];
 
@@ -21,6 +21,8 @@ export async function loader({ context }: Route.LoaderArgs) {
   // The committee sees only versions that were sent to it, never a coordinator's draft.
   const statement = (await listStatements(study.id)).find((s) => s.sentAt !== null) ?? null;
   const [roundVotes, comments] = statement ? await Promise.all([votesOn(statement.id), commentsOn(statement.id)]) : [[], []];
+  const publication = await publicationStatus(study.id);
+  const isChair = publication.round?.chairId === user.id;
   const own = roundVotes.find((v) => v.reviewerId === user.id) ?? null;
   // Before a version is sent, the committee can follow the blinded figures as they stand.
   const current = statement ? null : { analysis: await studyAnalysis(study), responses: (await studyDesign(study.id)).responses };
@@ -34,10 +36,12 @@ export async function loader({ context }: Route.LoaderArgs) {
       textC670: statement.textC670,
       snapshot: statement.snapshot,
     },
-    votes: roundVotes.map(({ reviewerId: _reviewerId, ...v }) => v),
-    own: own && { choice: own.choice, reason: own.reason },
+    votes: roundVotes.map(({ reviewerId, ...v }) => ({ ...v, ruleable: isChair && reviewerId !== user.id && v.stage === "awaiting_ruling" })),
+    own: own && { choice: own.choice, reason: own.reason, stage: own.stage, answerRationale: own.answerRationale },
+    round: publication.round && { chair: roundVotes.find((v) => v.reviewerId === publication.round!.chairId)?.reviewer ?? null, isChair, reviewers: publication.round.reviewerIds.length },
+    tally: publication.check.tally,
     comments,
-    refusal: statement?.state === "in_review" ? reviewRefusal(study.state) : "The round is closed.",
+    refusal: statement?.state === "in_review" ? writeRefusal("review", study.state) : "The round is closed.",
   };
 }
 
@@ -47,6 +51,19 @@ const voteSchema = z
     reason: z.string().trim().max(4000, "Keep the reason under 4000 characters."),
   })
   .refine((v) => v.choice !== "object" || v.reason.length >= 10, { path: ["reason"], message: "An objection needs its reason (at least 10 characters)." });
+
+const replySchema = z
+  .object({
+    reply: z.enum(["withdrawn", "maintained"], { message: "Choose withdraw or maintain." }),
+    note: z.string().trim().max(4000, "Keep the note under 4000 characters."),
+  })
+  .refine((v) => v.reply !== "maintained" || v.note.length >= 10, { path: ["note"], message: "Say why you maintain the objection (at least 10 characters)." });
+
+const rulingSchema = z.object({
+  voteId: z.coerce.number({ message: "Missing id." }).int().positive("Missing id."),
+  ruling: z.enum(["upheld", "not_upheld"], { message: "Choose upheld or not upheld." }),
+  reason: z.string().trim().min(10, "Give the reason for the ruling (at least 10 characters).").max(4000, "Keep the reason under 4000 characters."),
+});
 
 const commentSchema = z.object({ body: z.string().trim().min(2, "Write the comment.").max(4000, "Keep the comment under 4000 characters.") });
 
@@ -59,8 +76,20 @@ export async function action({ request, context }: Route.ActionArgs) {
     if (intent === "vote") {
       const parsed = parseForm(voteSchema, form);
       if (!parsed.ok) return fail(parsed.errors, parsed.values);
-      await castVote(study, user.id, { choice: parsed.data.choice, reason: parsed.data.reason || null });
-      return { intent, done: "Your vote is recorded. You may change it until the round closes." } satisfies ActionResult;
+      await castVote(study, user.id, { choice: parsed.data.choice, reason: parsed.data.reason || null }, request);
+      return { intent, done: "Your vote is recorded. You may change it until the round closes or your objection is answered." } satisfies ActionResult;
+    }
+    if (intent === "reply") {
+      const parsed = parseForm(replySchema, form);
+      if (!parsed.ok) return fail(parsed.errors, parsed.values);
+      await replyToAnswer(study, user.id, parsed.data, request);
+      return { intent, done: parsed.data.reply === "withdrawn" ? "Objection withdrawn." : "Objection maintained; the chair will rule on it." } satisfies ActionResult;
+    }
+    if (intent === "rule") {
+      const parsed = parseForm(rulingSchema, form);
+      if (!parsed.ok) return fail(parsed.errors, parsed.values);
+      if (!(await ruleOnObjection(study, user.id, parsed.data, request))) return fail({ form: "That vote is not part of this round." }, {}, 404);
+      return { intent, done: parsed.data.ruling === "upheld" ? "Ruling recorded: the objection is upheld and the statement goes back to the coordinator." : "Ruling recorded: the objection is not upheld." } satisfies ActionResult;
     }
     if (intent === "comment") {
       const parsed = parseForm(commentSchema, form);

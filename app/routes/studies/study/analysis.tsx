@@ -12,7 +12,7 @@ import { type ComputedGroup, isSignificanceLevel, SIGNIFICANCE_LEVELS, type Stud
 import { type CellRef, cellKey, parseCellList, sameCell } from "~/lib/review/cells";
 import { flaggedCells, flagStatistic, suggestedQuestion } from "~/lib/review/flags";
 import { ALPHA_LABEL, figureDecimals, formatFigure } from "~/lib/review/format";
-import { decisionRefusal, queryRefusal } from "~/lib/review/write-rules";
+import { writeRefusal } from "~/lib/write-rules";
 import { STATE_LABEL } from "~/lib/state-labels";
 import { studyAnalysis, withdrawnLabCodes } from "~/models/analysis.server";
 import { QueryError, listStudyQueries, raiseQuery } from "~/models/coordinator-queries.server";
@@ -53,8 +53,8 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     flagged: flaggedCells(analysis),
     cell,
     cellEvidence: evidence,
-    decisionRefusal: decisionRefusal(study.state),
-    queryRefusal: queryRefusal(study.state),
+    decisionRefusal: writeRefusal("decisions", study.state),
+    queryRefusal: writeRefusal("queries", study.state),
   };
 }
 

@@ -5,12 +5,13 @@ import { DataTable } from "~/components/data-table";
 import { Badge, Button, Card, Notice, PageHeader, SelectField, TextAreaField } from "~/components/ui";
 import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
 import { requireStudy } from "~/server/study-context.server";
-import { invitationsOpen, RECOMMENDED_MIN_LABS } from "~/lib/study-lifecycle";
+import { RECOMMENDED_MIN_LABS } from "~/lib/study-lifecycle";
+import { mayWrite } from "~/lib/write-rules";
 import { withdrawalSchema } from "~/lib/study-forms";
 import { STATE_LABEL } from "~/lib/state-labels";
 import { useSchemaCheck } from "~/lib/use-schema-check";
 import { idField } from "~/lib/validation";
-import { inviteLab, listStudyEnrollments, WITHDRAWAL_STATES, withdrawEnrollment } from "~/models/invitation.server";
+import { inviteLab, listStudyEnrollments, withdrawEnrollment } from "~/models/invitation.server";
 import { listLabs } from "~/models/lab.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Labs ${data?.study.code ?? ""} · Ringbatch` }];
@@ -27,8 +28,8 @@ export async function loader({ context }: Route.LoaderArgs) {
     study,
     rows,
     accepted: enrolled.filter((e) => e.state === "accepted").length,
-    canInvite: access === "coordinator" && invitationsOpen(study.state),
-    canWithdraw: access === "coordinator" && WITHDRAWAL_STATES.includes(study.state),
+    canInvite: access === "coordinator" && mayWrite("invitations", study.state),
+    canWithdraw: access === "coordinator" && mayWrite("withdrawals", study.state),
   };
 }
 

@@ -21,7 +21,7 @@ import {
   type UnitSystem,
 } from "~/lib/mixture-form";
 import { materialSchema } from "~/lib/study-forms";
-import { setupEditable } from "~/lib/study-lifecycle";
+import { mayWrite } from "~/lib/write-rules";
 import { loadMaterial, saveMaterial, SetupError } from "~/models/study-setup.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Material ${data?.material.code ?? ""} · Ringbatch` }];
@@ -36,7 +36,7 @@ async function materialOf(studyId: number, param: string | undefined) {
 export async function loader({ params, context }: Route.LoaderArgs) {
   const { study, access } = requireStudy(context, ["coordinator", "admin", "reviewer"]);
   const { material, constituents } = await materialOf(study.id, params.materialId);
-  return { study, material, constituents, canEdit: access === "coordinator" && setupEditable(study.state) };
+  return { study, material, constituents, canEdit: access === "coordinator" && mayWrite("design", study.state) };
 }
 
 export async function action({ request, params, context }: Route.ActionArgs) {

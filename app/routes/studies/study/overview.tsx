@@ -8,7 +8,7 @@ import { Badge, Button, Card, Notice, PageHeader } from "~/components/ui";
 import type { ActionResult } from "~/lib/form-results";
 import { refused } from "~/lib/form-results";
 import { requireStudy } from "~/server/study-context.server";
-import { resultsEditable } from "~/lib/study-lifecycle";
+import { mayWrite } from "~/lib/write-rules";
 import { STATE_LABEL } from "~/lib/state-labels";
 import { remindLabsWithMissingResults } from "~/models/reminder.server";
 import { listStudyShipments } from "~/models/shipment.server";
@@ -33,7 +33,7 @@ export async function loader({ context }: Route.LoaderArgs) {
       shipped: shipments.filter((s) => s.status === "shipped").length,
       received: shipments.filter((s) => s.status === "received").length,
     },
-    canRemind: access === "coordinator" && resultsEditable(study.state),
+    canRemind: access === "coordinator" && mayWrite("results", study.state),
     today: new Date().toISOString().slice(0, 10),
   };
 }
@@ -42,7 +42,7 @@ export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireStudy(context, ["coordinator"]);
   const form = await request.formData();
   if (form.get("intent") !== "remind") return refused("remind", { form: "Unknown action." });
-  if (!resultsEditable(study.state)) return refused("remind", { form: "Reminders go out only while the study is testing." });
+  if (!mayWrite("results", study.state)) return refused("remind", { form: "Reminders go out only while the study is testing." });
   const { reminded } = await remindLabsWithMissingResults(study, user.id, request);
   return {
     intent: "remind",

@@ -7,14 +7,14 @@ import { parseForm } from "~/lib/forms";
 import { notFound } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
 import { cellKey } from "~/lib/review/cells";
-import { queryRefusal } from "~/lib/review/write-rules";
+import { writeRefusal } from "~/lib/write-rules";
 import { closeQuery, listStudyQueries, QueryError } from "~/models/coordinator-queries.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Queries · ${data?.study.code ?? "Study"} · Ringbatch` }];
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireStudy(context, ["coordinator", "admin"]);
-  return { study: { id: study.id, code: study.code, title: study.title }, queries: await listStudyQueries(study.id), refusal: queryRefusal(study.state) };
+  return { study: { id: study.id, code: study.code, title: study.title }, queries: await listStudyQueries(study.id), refusal: writeRefusal("queries", study.state) };
 }
 
 const closeSchema = z.object({ queryId: z.coerce.number().int().positive("Missing query.") });

@@ -11,7 +11,8 @@ import { notFound } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
 import { freshTargetsSchema, materialSchema, personSchema, responseSchema, studyFields, transitionSchema } from "~/lib/study-forms";
 import { useSchemaCheck } from "~/lib/use-schema-check";
-import { allowedNextStates, setupEditable } from "~/lib/study-lifecycle";
+import { allowedNextStates } from "~/lib/study-lifecycle";
+import { mayWrite } from "~/lib/write-rules";
 import { STATE_LABEL } from "~/lib/state-labels";
 import { readUploadForm } from "~/server/upload-form.server";
 import { PDF_TYPES, storeUpload, UploadError } from "~/server/uploads.server";
@@ -32,17 +33,13 @@ import {
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Setup ${data?.study.code ?? ""} · Ringbatch` }];
 
-/** The review workflow moves a study into and out of committee review; this page does not. */
-const MOVES_FROM_SETUP: StudyState[] = ["draft", "recruiting", "testing", "checking", "cancelled"];
 const PROTOCOL_MAX_BYTES = 10 * 1024 * 1024;
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, user, access } = requireStudy(context, ["coordinator", "admin", "reviewer"]);
   const setup = await loadSetup(study);
   const moves = await Promise.all(
-    allowedNextStates(study.state)
-      .filter((to) => MOVES_FROM_SETUP.includes(to))
-      .map(async (to) => ({ to, ...(await previewTransition(study, to)) })),
+    allowedNextStates(study.state, "setup").map(async (to) => ({ to, ...(await previewTransition(study, to)) })),
   );
   return { study, setup, moves: access === "coordinator" ? moves : [], canEdit: access === "coordinator", isOwner: study.ownerId === user.id };
 }
@@ -116,7 +113,6 @@ export async function action({ request, context }: Route.ActionArgs) {
       });
     case "transition":
       return handleForm(intent, transitionSchema, form, async ({ to }) => {
-        if (!MOVES_FROM_SETUP.includes(to)) return { errors: { to: "The committee review moves the study into review and publication." } };
         const check = await transitionStudy(study, to, user.id);
         if (!check.allowed) return { errors: { to: check.problems.join(" ") } };
         return { done: `The study is now: ${STATE_LABEL[to]}.`, warnings: check.warnings };
@@ -141,7 +137,7 @@ const MOVE_LABEL: Partial<Record<StudyState, string>> = {
 export default function StudySetup({ loaderData, actionData }: Route.ComponentProps) {
   const { study, setup, moves, canEdit, isOwner } = loaderData;
   const busy = useNavigation().state === "submitting";
-  const editable = canEdit && setupEditable(study.state);
+  const editable = canEdit && mayWrite("design", study.state);
   const transition = resultOf(actionData, "transition");
   const details = resultOf(actionData, "study");
   const responseAdd = resultOf(actionData, "response-add");

@@ -8,7 +8,7 @@ import { type ActionResult, refused } from "~/lib/form-results";
 import { type FieldErrors, parseForm } from "~/lib/forms";
 import { notFound } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
-import { draftingRefusal, reviewRefusal } from "~/lib/review/write-rules";
+import { writeRefusal } from "~/lib/write-rules";
 import { STATE_LABEL } from "~/lib/state-labels";
 import {
   answerObjection,
@@ -35,8 +35,8 @@ export async function loader({ context }: Route.LoaderArgs) {
     earlier: statements.slice(1).map(({ id, version, state, dataVersion, createdAt }) => ({ id, version, state, dataVersion, createdAt: createdAt.toISOString() })),
     votes: roundVotes,
     publication: publication.check,
-    draftingRefusal: draftingRefusal(study.state),
-    reviewRefusal: reviewRefusal(study.state),
+    draftingRefusal: writeRefusal("statements", study.state),
+    reviewRefusal: writeRefusal("review", study.state),
   };
 }
 
@@ -46,7 +46,7 @@ const textSchema = z.object({
   textE691: z.string().trim().min(20, "The E691 text needs at least 20 characters.").max(20000, "Keep the text under 20,000 characters."),
   textC670: z.string().trim().min(20, "The C670 text needs at least 20 characters.").max(20000, "Keep the text under 20,000 characters."),
 });
-const sendSchema = z.object({ statementId: id });
+const sendSchema = z.object({ statementId: id, chairId: z.coerce.number({ message: "Choose the chair of the round." }).int().positive("Choose the chair of the round.") });
 const answerSchema = z.object({
   voteId: id,
   answer: z.enum(["upheld", "not_upheld"], { message: "Choose upheld or not upheld." }),
@@ -73,16 +73,16 @@ export async function action({ request, context }: Route.ActionArgs) {
       case "send": {
         const parsed = parseForm(sendSchema, form);
         if (!parsed.ok) return fail(parsed.errors, parsed.values);
-        if (!(await sendToReview(study, user.id, parsed.data.statementId, request))) notFound();
+        if (!(await sendToReview(study, user.id, parsed.data.statementId, parsed.data.chairId, request))) notFound();
         return { intent, done: "Sent to the committee; every reviewer has been e-mailed." } satisfies ActionResult;
       }
       case "answer": {
         const parsed = parseForm(answerSchema, form);
         if (!parsed.ok) return fail(parsed.errors, parsed.values);
-        if (!(await answerObjection(study, user.id, parsed.data))) notFound();
+        if (!(await answerObjection(study, user.id, parsed.data, request))) notFound();
         return {
           intent,
-          done: parsed.data.answer === "upheld" ? "Objection upheld: the statement is back in drafting; freeze a new version for a new round." : "Answer recorded; every reviewer sees it.",
+          done: parsed.data.answer === "upheld" ? "Objection upheld: the statement is back in drafting; freeze a new version for a new round." : "Answer recorded; the reviewer is asked to withdraw or maintain the objection.",
         } satisfies ActionResult;
       }
       case "publish": {
