@@ -3,6 +3,7 @@
  * and the lab's submitted cells. Pure, so the import preview in the browser
  * and the server's import name the same problems for the same rows.
  */
+import { testDateProblem } from "~/lib/plausible-dates";
 import { checkResultValue, checkTestDate, type ResponseRule } from "./values";
 
 /** One result as typed in the form, read from a CSV row or sent to the API. */
@@ -15,6 +16,8 @@ export type ResultInputRow = {
   value: string | number | null;
   testedOn?: string | null;
   operator?: string | null;
+  /** The version of the stored replicate the writer read (0: none stored); given, a save that finds another version is refused as a conflict. */
+  readVersion?: number;
 };
 
 export type RowField = "material" | "response" | "replicate" | "value" | "tested_on" | "operator";
@@ -33,6 +36,7 @@ export type ResolvedRow = {
   warning?: string;
   testedOn: string | null;
   operator: string;
+  readVersion?: number;
 };
 
 export type RowFrame = {
@@ -41,6 +45,8 @@ export type RowFrame = {
   responses: (ResponseRule & { id: number; key: string })[];
   /** `materialId:responseId` of the lab's submitted cells. */
   submittedCells: Set<string>;
+  /** When the lab received the materials; no test is dated before it. */
+  receivedOn?: string | null;
 };
 
 export const cellKey = (materialId: number, responseId: number) => `${materialId}:${responseId}`;
@@ -88,6 +94,8 @@ export function resolveResultRows(frame: RowFrame, rows: ResultInputRow[], { val
     if (check.status === "empty" && valueRequired) return problem("value", "The value is empty.");
     const date = checkTestDate(input.testedOn);
     if (!date.ok) return problem("tested_on", date.message);
+    const beforeReceipt = date.value && testDateProblem(date.value, { receivedOn: frame.receivedOn ?? null });
+    if (beforeReceipt) return problem("tested_on", beforeReceipt);
     const operator = String(input.operator ?? "").trim();
     if (operator.length > 120) return problem("operator", "Keep the operator's name to 120 characters or fewer.");
     if (FORMULA_START.test(operator)) return problem("operator", "An operator's name cannot start with =, +, - or @ (a spreadsheet would run it as a formula).");
@@ -102,6 +110,7 @@ export function resolveResultRows(frame: RowFrame, rows: ResultInputRow[], { val
       ...(check.status === "ok" && check.warning ? { warning: check.warning } : {}),
       testedOn: date.value,
       operator,
+      ...(input.readVersion !== undefined ? { readVersion: input.readVersion } : {}),
     });
   });
   return { problems, resolved };

@@ -3,11 +3,12 @@ import type { Route } from "./+types/receipt";
 import { Badge, Button, Card, Field, Notice, PageHeader, TextAreaField } from "~/components/ui";
 import { type ActionResult, FieldRefusal, formState, handleForm, refused } from "~/lib/form-results";
 import { requireStudy } from "~/server/study-context.server";
+import { todayIso } from "~/lib/format";
 import { receiptSchema } from "~/lib/study-forms";
 import { useSchemaCheck } from "~/lib/use-schema-check";
 import { readUploadForm } from "~/server/upload-form.server";
 import { IMAGE_TYPES, storeUpload, UploadError } from "~/server/uploads.server";
-import { confirmReceipt, listEnrollmentShipments } from "~/models/shipment.server";
+import { confirmReceipt, listEnrollmentShipments, receiptCorrectable } from "~/models/shipment.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Receipt ${data?.study.code ?? ""} · Ringbatch` }];
 
@@ -19,7 +20,8 @@ export async function loader({ context }: Route.LoaderArgs) {
     study: { id: study.id, code: study.code, title: study.title },
     labCode: enrollment!.labCode,
     shipments: await listEnrollmentShipments(enrollment!.id),
-    today: new Date().toISOString().slice(0, 10),
+    correctable: await receiptCorrectable(study, enrollment!.id),
+    today: todayIso(),
   };
 }
 
@@ -37,13 +39,13 @@ export async function action({ request, context }: Route.ActionArgs) {
         throw error;
       }
     }
-    await confirmReceipt(study, enrollment!.id, { ...input, photoAttachmentId }, user.id);
-    return { done: "Receipt confirmed. Thank you." };
+    const outcome = await confirmReceipt(study, enrollment!, { ...input, photoAttachmentId }, user.id);
+    return { done: outcome === "confirmed" ? "Receipt confirmed. Thank you." : "Receipt corrected; the earlier entry stays in the audit trail." };
   });
 }
 
 export default function Receipt({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, labCode, shipments, today } = loaderData;
+  const { study, labCode, shipments, today, correctable } = loaderData;
   const result = formState(actionData as ActionResult | undefined, "receipt");
   const { errors, onSubmit } = useSchemaCheck(receiptSchema, result.errors);
   const busy = useNavigation().state === "submitting";
@@ -66,15 +68,17 @@ export default function Receipt({ loaderData, actionData }: Route.ComponentProps
                 Received {s.receivedOn}, condition {s.condition}. {s.receiptNotes}
               </p>
             )}
-            {s.status === "shipped" && (
+            {s.status === "received" && correctable && <p className="mt-2 text-basalt-700">Until your lab records its first result you can correct this receipt below; the earlier entry stays in the audit trail.</p>}
+            {s.status === "received" && !correctable && <p className="mt-2 text-basalt-700">The receipt is fixed now that your lab has recorded results; write to the coordinator if it is wrong.</p>}
+            {(s.status === "shipped" || (s.status === "received" && correctable)) && (
               <Form method="post" encType="multipart/form-data" className="grid gap-4 md:grid-cols-2" onSubmit={onSubmit} noValidate>
                 <input type="hidden" name="shipmentId" value={s.id} />
-                <Field label="Received on" name="receivedOn" type="date" defaultValue={result.values.receivedOn ?? today} error={errors.receivedOn} />
+                <Field label="Received on" name="receivedOn" type="date" defaultValue={result.values.receivedOn ?? s.receivedOn ?? today} max={today} min={s.shippedOn ?? undefined} error={errors.receivedOn} />
                 <fieldset className="flex flex-col gap-1">
                   <legend className="font-semibold text-basalt-800">Condition</legend>
                   {(["good", "damaged"] as const).map((c) => (
                     <label key={c} className="flex items-center gap-2">
-                      <input type="radio" name="condition" value={c} defaultChecked={(result.values.condition ?? "good") === c} />
+                      <input type="radio" name="condition" value={c} defaultChecked={(result.values.condition ?? s.condition) === c} />
                       {c === "good" ? "Good: everything arrived intact" : "Damaged: something is broken, wet or missing"}
                     </label>
                   ))}
@@ -86,7 +90,7 @@ export default function Receipt({ loaderData, actionData }: Route.ComponentProps
                 <Field label="Photo (JPEG, PNG or WebP, optional)" name="photo" type="file" accept="image/jpeg,image/png,image/webp" error={result.errors.photo} />
                 <div className="self-end">
                   <Button type="submit" disabled={busy}>
-                    Confirm receipt
+                    {s.status === "received" ? "Correct the receipt" : "Confirm receipt"}
                   </Button>
                 </div>
               </Form>

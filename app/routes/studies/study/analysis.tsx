@@ -68,6 +68,8 @@ const askSchema = z.object({
   ...cellFields,
   statistic: z.string().trim().max(300, "Keep the statistic under 300 characters."),
   question: z.string().trim().min(10, "Write the question for the lab (at least 10 characters).").max(2000, "Keep the question under 2000 characters."),
+  // A checkbox: present means the lab may amend the cell while the query is open.
+  asksCorrection: z.literal("on").optional().transform((v) => v === "on"),
 });
 
 const decideSchema = z.object({
