@@ -50,6 +50,16 @@ export async function openQueriesOfMaterial(enrollment: Enrollment, materialId: 
   return fromQueries().where(and(eq(cells.enrollmentId, enrollment.id), eq(cells.materialId, materialId), eq(queries.state, "open")));
 }
 
+/** The lab's cells of one material that a correction query, not yet closed, lets the lab amend after testing (by response id). */
+export async function correctableResponses(enrollment: Enrollment, materialId: number) {
+  const rows = await db
+    .select({ responseId: cells.responseId })
+    .from(queries)
+    .innerJoin(cells, eq(cells.id, queries.cellId))
+    .where(and(eq(cells.enrollmentId, enrollment.id), eq(cells.materialId, materialId), eq(queries.asksCorrection, true), inArray(queries.state, ["open", "answered"])));
+  return [...new Set(rows.map((r) => r.responseId))];
+}
+
 export class QueryAnswerError extends Error {}
 
 /**

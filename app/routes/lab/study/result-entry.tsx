@@ -10,10 +10,12 @@ import { notFound } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
 import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
 import { SAVE_STATE_TEXT, useAutosavedDraft } from "~/lib/results/use-autosaved-draft";
+import { type DraftChanges, draftChanges, type EntryDraft, rebaseDraft } from "~/lib/results/entry-draft";
 import { checkResultValue, checkTestDate } from "~/lib/results/values";
 import { UploadError } from "~/server/uploads.server";
 import { freshTargets, getBatch, saveFreshProperties } from "~/models/batch.server";
-import { openQueriesOfMaterial } from "~/models/lab-queries.server";
+import { correctableResponses, openQueriesOfMaterial } from "~/models/lab-queries.server";
+import { writeRefusal } from "~/lib/write-rules";
 import {
   amendResult,
   attachReplicatePhoto,
@@ -28,21 +30,22 @@ import {
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Results ${data?.material.code ?? ""} · Ringbatch` }];
 
-/** What the form holds: values keyed `response:replicate`, per-replicate date and operator, and the batch's fresh properties. */
-type EntryDraft = {
-  values: Record<string, string>;
-  testedOn: Record<string, string>;
-  operator: Record<string, string>;
-  fresh: Partial<Record<FreshProperty, string>>;
-  batchedAt: string;
-};
-
-const draftSchema = z.object({
-  values: z.record(z.string(), z.string().max(40)),
-  testedOn: z.record(z.string(), z.string().max(20)),
-  operator: z.record(z.string(), z.string().max(200)),
+/** What an autosave or a submission sends: the changed replicates with the version each was read at, and the changed fresh properties. */
+const changesSchema = z.object({
+  rows: z
+    .array(
+      z.object({
+        response: z.string().max(40),
+        replicate: z.number().int(),
+        value: z.string().max(40),
+        testedOn: z.string().max(20),
+        operator: z.string().max(200),
+        readVersion: z.number().int().min(0),
+      }),
+    )
+    .max(1000),
   fresh: z.partialRecord(z.enum(FRESH_PROPERTY_NAMES as [FreshProperty, ...FreshProperty[]]), z.string().max(20)),
-  batchedAt: z.string().max(20),
+  batchedAt: z.string().max(20).optional(),
 });
 
 /** The draft field's JSON, or undefined when it is not JSON (the schema then refuses it). */
@@ -69,10 +72,11 @@ const text = (n: number | null | undefined) => (n === null || n === undefined ? 
 
 /** The draft as stored on the server, in the form's shape. */
 function serverDraft(entry: Entry, batch: Batch, replicates: number): EntryDraft {
-  const draft: EntryDraft = { values: {}, testedOn: {}, operator: {}, fresh: {}, batchedAt: batch?.batchedAt ?? "" };
+  const draft: EntryDraft = { values: {}, testedOn: {}, operator: {}, fresh: {}, batchedAt: batch?.batchedAt ?? "", versions: {} };
   for (const response of entry.responses) {
     for (const r of response.results) {
       draft.values[`${response.key}:${r.replicate}`] = text(r.value);
+      draft.versions[`${response.key}:${r.replicate}`] = r.version;
       if (r.testedOn) draft.testedOn[r.replicate] ??= r.testedOn;
       if (r.operator) draft.operator[r.replicate] ??= r.operator;
     }
@@ -87,16 +91,21 @@ function serverDraft(entry: Entry, batch: Batch, replicates: number): EntryDraft
 
 export async function loader({ params, context }: Route.LoaderArgs) {
   const { study, enrollment, entry } = await loadEntry(context, params);
-  const [batch, targets, openQueries] = await Promise.all([
+  const [batch, targets, openQueries, correctable] = await Promise.all([
     getBatch(enrollment.id, entry.material.id),
     freshTargets(study.id),
     openQueriesOfMaterial(enrollment, entry.material.id),
+    correctableResponses(enrollment, entry.material.id),
   ]);
   const photos: Record<number, number> = {};
   for (const response of entry.responses) for (const r of response.results) if (r.photoAttachmentId) photos[r.replicate] = r.photoAttachmentId;
   return {
     study: { id: study.id, code: study.code, state: study.state, replicatesPerCell: study.replicatesPerCell },
-    editable: study.state === "testing",
+    editable: study.state === "testing" && enrollment.state === "accepted",
+    /** Why nothing can be typed here, as the write rules say it. */
+    lockedBecause: writeRefusal("results", study.state),
+    /** After testing, the responses whose cell a correction query lets the lab amend. */
+    correctable: study.state === "checking" && enrollment.state === "accepted" ? correctable : [],
     enrollmentId: enrollment.id,
     labCode: enrollment.labCode,
     material: { id: entry.material.id, code: entry.material.code, description: entry.material.description },
@@ -109,37 +118,32 @@ export async function loader({ params, context }: Route.LoaderArgs) {
   };
 }
 
-/** Turns the form's draft into result rows; `fieldOf` maps each row number back to the field that shows its problem. */
-function draftRows(entry: Entry, draft: EntryDraft, replicates: number) {
-  const rows: ResultInputRow[] = [];
-  const fieldOf = new Map<number, { value: string; replicate: number }>();
-  for (const response of entry.responses) {
-    if (response.cell?.status === "submitted") continue;
-    for (let replicate = 1; replicate <= replicates; replicate++) {
-      const key = `${response.key}:${replicate}`;
-      const row = rows.length + 1;
-      rows.push({ row, material: entry.material.code, response: response.key, replicate, value: draft.values[key] ?? "", testedOn: draft.testedOn[replicate], operator: draft.operator[replicate] });
-      fieldOf.set(row, { value: key, replicate });
-    }
-  }
-  return { rows, fieldOf };
-}
-
-async function saveDraft(enrollment: Enrollment, entry: Entry, draft: EntryDraft, replicates: number, user: { id: number }) {
-  const { rows, fieldOf } = draftRows(entry, draft, replicates);
+/**
+ * Saves what changed: replicates of cells still in draft (each checked
+ * against the version it was read at) and the changed fresh properties.
+ * Returns the problems and the conflicts keyed by the field that shows them.
+ */
+async function saveChanges(enrollment: Enrollment, entry: Entry, changes: DraftChanges, user: { id: number }) {
+  const submittedKeys = new Set(entry.responses.filter((r) => r.cell?.status === "submitted").map((r) => r.key));
+  const sent = changes.rows.filter((r) => !submittedKeys.has(r.response));
+  const rows: ResultInputRow[] = sent.map((r, i) => ({ row: i + 1, material: entry.material.code, ...r }));
   const outcome = await saveDraftResults(enrollment, rows, user);
   const problems: Record<string, string> = {};
+  const conflicts: Record<string, string> = {};
+  const fieldOf = (row: number) => sent[row - 1]!;
   for (const p of outcome.problems) {
-    const field = fieldOf.get(p.row)!;
-    const key = p.field === "tested_on" ? `testedOn:${field.replicate}` : p.field === "operator" ? `operator:${field.replicate}` : field.value;
+    const { response, replicate } = fieldOf(p.row);
+    const key = p.field === "tested_on" ? `testedOn:${replicate}` : p.field === "operator" ? `operator:${replicate}` : `${response}:${replicate}`;
     problems[key] ??= p.message;
   }
+  for (const c of outcome.conflicts) conflicts[`${fieldOf(c.row).response}:${c.replicate}`] = c.message;
   const locked = entry.responses.every((r) => r.cell?.status === "submitted");
-  if (!locked) {
-    const fresh = await saveFreshProperties(enrollment, entry.material.id, { ...draft.fresh, batchedAt: draft.batchedAt }, user);
+  const freshChanged = Object.keys(changes.fresh).length > 0 || changes.batchedAt !== undefined;
+  if (!locked && freshChanged) {
+    const fresh = await saveFreshProperties(enrollment, entry.material.id, { ...changes.fresh, ...(changes.batchedAt !== undefined ? { batchedAt: changes.batchedAt } : {}) }, user);
     for (const [property, message] of Object.entries(fresh.problems)) problems[`fresh:${property}`] = message;
   }
-  return problems;
+  return { problems, conflicts };
 }
 
 export async function action({ request, params, context }: Route.ActionArgs) {
@@ -154,28 +158,39 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   const intent = form.get("intent");
   try {
     if (intent === "draft" || intent === "submit") {
-      const parsed = draftSchema.safeParse(parseJsonField(form.get("draft")));
+      const parsed = changesSchema.safeParse(parseJsonField(form.get("draft")));
       if (!parsed.success) return data({ intent, error: "The form could not be read; reload the page." }, { status: 400 });
-      const problems = await saveDraft(enrollment, entry, parsed.data, study.replicatesPerCell, user);
-      if (intent === "draft") {
-        const fresh = await materialEntry(enrollment, entry.material.id);
-        const stamp = JSON.stringify(serverDraft(fresh!, await getBatch(enrollment.id, entry.material.id), study.replicatesPerCell));
-        return { intent, problems, stamp };
-      }
+      const { problems, conflicts } = await saveChanges(enrollment, entry, parsed.data, user);
+      const current = await materialEntry(enrollment, entry.material.id);
+      const stamp = JSON.stringify(serverDraft(current!, await getBatch(enrollment.id, entry.material.id), study.replicatesPerCell));
+      if (intent === "draft") return { intent, problems, conflicts, stamp };
+      if (Object.keys(conflicts).length > 0) return data({ intent, problems, conflicts, stamp, submitProblems: ["Someone else changed a value meanwhile; check the marked fields, then submit again."] }, { status: 409 });
       if (Object.keys(problems).length > 0) return data({ intent, problems, submitProblems: ["Correct the marked fields first."] }, { status: 400 });
-      const submitted = await submitMaterial(enrollment, entry.material.id, user);
-      if (!submitted.ok) return data({ intent, submitProblems: submitted.problems }, { status: 400 });
+      const submitted = await submitMaterial(enrollment, entry.material.id, user, { confirmedUnusual: form.get("confirmUnusual") === "yes" });
+      if (!submitted.ok) return data({ intent, submitProblems: submitted.problems, unusualValues: submitted.unusual }, { status: 400 });
       return { intent, submitted: true };
     }
     if (intent === "amend") {
       const fields = z
-        .object({ responseId: z.coerce.number().int(), replicate: z.coerce.number().int(), version: z.coerce.number().int(), value: z.string(), reason: z.string() })
+        .object({ responseId: z.coerce.number().int(), replicate: z.coerce.number().int(), version: z.coerce.number().int(), value: z.string(), reason: z.string(), confirmUnusual: z.literal("yes").optional() })
         .safeParse(Object.fromEntries(form));
       if (!fields.success) return data({ intent, error: "The amendment could not be read; reload the page." }, { status: 400 });
-      const { responseId, replicate, version, value, reason } = fields.data;
-      const outcome = await amendResult(enrollment, entry.material.id, { responseId, replicate, value, reason, expectedVersion: version }, user);
+      const { responseId, replicate, version, value, reason, confirmUnusual } = fields.data;
+      const outcome = await amendResult(enrollment, entry.material.id, { responseId, replicate, value, reason, expectedVersion: version, confirmedUnusual: confirmUnusual === "yes" }, user);
       const target = `${responseId}:${replicate}`;
-      return outcome.ok ? { intent, target, amended: true } : data({ intent, target, field: outcome.field, error: outcome.message }, { status: outcome.field === "form" ? 409 : 400 });
+      return outcome.ok
+        ? { intent, target, amended: true }
+        : data({ intent, target, field: outcome.field, error: outcome.message, unusual: outcome.unusual ?? false, values: { value, reason } }, { status: outcome.field === "form" ? 409 : 400 });
+    }
+    if (intent === "amend-fresh") {
+      const fields = z
+        .object({ reason: z.string().max(1000), ...Object.fromEntries(FRESH_PROPERTY_NAMES.map((p) => [p, z.string().max(20).optional()])) })
+        .safeParse(Object.fromEntries(form));
+      if (!fields.success) return data({ intent, error: "The amendment could not be read; reload the page." }, { status: 400 });
+      const { reason, ...readings } = fields.data as { reason: string } & Partial<Record<FreshProperty, string>>;
+      const outcome = await saveFreshProperties(enrollment, entry.material.id, readings, user, { reason });
+      if (Object.keys(outcome.problems).length > 0) return data({ intent, problems: outcome.problems as Record<string, string> }, { status: 400 });
+      return { intent, amended: true };
     }
     if (intent === "photo") {
       const replicate = Number(form.get("replicate"));
@@ -217,6 +232,10 @@ type ActionReply = {
   submitted?: boolean;
   amended?: boolean;
   uploaded?: boolean;
+  conflicts?: Record<string, string>;
+  unusual?: boolean;
+  unusualValues?: { response: string; replicate: number; value: number; range: string }[];
+  values?: { value: string; reason: string };
 };
 
 export default function ResultEntry({ loaderData, actionData }: Route.ComponentProps) {
@@ -225,8 +244,15 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
   const replicates = Array.from({ length: study.replicatesPerCell }, (_, i) => i + 1);
   const locked = responses.every((r) => r.cell?.status === "submitted");
   const storageKey = `ringbatch:results-draft:${loaderData.enrollmentId}:${material.id}`;
-  const { draft, update, saveState, problems: savedProblems, forget, flush } = useAutosavedDraft({ storageKey, serverDraft: loaderData.draft, intent: "draft" });
-  const problems = { ...savedProblems, ...(reply?.problems ?? {}) };
+  const responseKeys = responses.filter((r) => r.cell?.status !== "submitted").map((r) => r.key);
+  const { draft, update, saveState, problems: savedProblems, conflicts: savedConflicts, forget, flush, base } = useAutosavedDraft({
+    storageKey,
+    serverDraft: loaderData.draft,
+    intent: "draft",
+    changes: (from: EntryDraft, to: EntryDraft) => draftChanges(from, to, responseKeys, study.replicatesPerCell),
+    rebase: rebaseDraft,
+  });
+  const problems = { ...savedProblems, ...savedConflicts, ...(reply?.problems ?? {}), ...(reply?.conflicts ?? {}) };
 
   useEffect(() => {
     if (locked) forget();
@@ -253,7 +279,10 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
       />
       <div className="grid gap-6 [&>*]:min-w-0">
         <ConcreteCaution />
-        {!editable && <Notice>Results can be changed only while the study is in testing.</Notice>}
+        {!editable && loaderData.lockedBecause && <Notice>{loaderData.lockedBecause}</Notice>}
+        {loaderData.correctable.length > 0 && (
+          <Notice tone="caution">The coordinator asks your lab to correct a result of this material. Amend the named result below with the reason; the change is kept in the audit trail.</Notice>
+        )}
         {openQueries.length > 0 && (
           <Notice tone="caution">
             The coordinator asks about this material:
@@ -318,7 +347,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
 
         <Card title={locked ? "Submitted results" : "Results per replicate"}>
           {locked ? (
-            <SubmittedResults responses={responses} replicates={replicates} values={loaderData.submittedValues} reply={reply} editable={editable} photos={photos} />
+            <SubmittedResults responses={responses} replicates={replicates} values={loaderData.submittedValues} reply={reply} editable={editable} correctable={loaderData.correctable} photos={photos} />
           ) : (
             <div className="relative overflow-x-auto">
               <table className="w-full border-collapse text-left">
@@ -418,10 +447,29 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
                 </ul>
               </Notice>
             )}
-            <Form method="post" className="mt-3" onSubmit={() => flush()}>
+            {reply?.unusualValues && reply.unusualValues.length > 0 && (
+              <Notice tone="caution">
+                <p className="font-semibold">Please look again at these values before submitting:</p>
+                <ul className="ml-5 list-disc" aria-label="Values outside the plausible range">
+                  {reply.unusualValues.map((u) => (
+                    <li key={`${u.response}:${u.replicate}`}>
+                      {u.response}, replicate {u.replicate}: <span className="font-semibold">{u.value}</span> (plausible {u.range})
+                    </li>
+                  ))}
+                </ul>
+                <p className="mt-2">If they are what your lab measured, confirm and submit; otherwise correct them above.</p>
+              </Notice>
+            )}
+            <Form method="post" className="mt-3 flex flex-wrap gap-3" onSubmit={() => flush()}>
               <input type="hidden" name="intent" value="submit" />
-              <input type="hidden" name="draft" value={JSON.stringify(draft)} />
-              <Button type="submit">Submit {material.code}</Button>
+              <input type="hidden" name="draft" value={JSON.stringify(draftChanges(base(), draft, responseKeys, study.replicatesPerCell))} />
+              {reply?.unusualValues && reply.unusualValues.length > 0 ? (
+                <Button type="submit" name="confirmUnusual" value="yes">
+                  Confirm these values and submit {material.code}
+                </Button>
+              ) : (
+                <Button type="submit">Submit {material.code}</Button>
+              )}
             </Form>
           </Card>
         )}
@@ -510,6 +558,7 @@ function SubmittedResults({
   values,
   reply,
   editable,
+  correctable,
   photos,
 }: {
   responses: ResponseView[];
@@ -517,6 +566,7 @@ function SubmittedResults({
   values: Record<string, number>;
   reply?: ActionReply;
   editable: boolean;
+  correctable: number[];
   photos: Record<number, number>;
 }) {
   return (
@@ -541,7 +591,7 @@ function SubmittedResults({
                       </>
                     )}
                   </span>
-                  {editable && (
+                  {(editable || correctable.includes(response.id)) && (
                     <details className="flex-1" open={Boolean(mine?.error)}>
                       <summary className="cursor-pointer font-semibold text-basalt-700 underline">
                         Amend<span className="sr-only"> {response.name}, replicate {replicate}</span>
@@ -558,8 +608,10 @@ function SubmittedResults({
                           id={`amend-value-${target}`}
                           inputMode="decimal"
                           required
-                          error={mine?.field === "value" ? mine.error : undefined}
+                          defaultValue={mine?.values?.value}
+                          error={mine?.field === "value" && !mine.unusual ? mine.error : undefined}
                         />
+                        {mine?.unusual === true && <Notice tone="caution">{mine.error}</Notice>}
                         <Field
                           label="Reason for the change"
                           name="reason"
@@ -567,9 +619,16 @@ function SubmittedResults({
                           required
                           minLength={5}
                           hint="The coordinator sees the reason, the old and the new value."
+                          defaultValue={mine?.values?.reason}
                           error={mine?.field === "reason" ? mine.error : undefined}
                         />
-                        <Button type="submit">Record amendment</Button>
+                        {mine?.unusual === true ? (
+                          <Button type="submit" name="confirmUnusual" value="yes">
+                            Confirm the value and record the amendment
+                          </Button>
+                        ) : (
+                          <Button type="submit">Record amendment</Button>
+                        )}
                       </Form>
                     </details>
                   )}
