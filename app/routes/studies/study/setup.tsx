@@ -6,13 +6,13 @@ import { StudyFields } from "~/components/study-fields";
 import { Badge, Button, Card, Field, Notice, PageHeader, SelectField } from "~/components/ui";
 import type { StudyState } from "~/db/schema";
 import { mmToIn } from "~/lib/batching";
-import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
+import { type ActionResult, FieldRefusal, formState, handleForm, refused } from "~/lib/form-results";
 import { notFound } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
 import { freshTargetsSchema, materialSchema, personSchema, responseSchema, studyFields, transitionSchema } from "~/lib/study-forms";
 import { useSchemaCheck } from "~/lib/use-schema-check";
 import { allowedNextStates } from "~/lib/study-lifecycle";
-import { mayWrite } from "~/lib/write-rules";
+import { mayWrite, writeRefusal } from "~/lib/write-rules";
 import { STATE_LABEL } from "~/lib/state-labels";
 import { readUploadForm } from "~/server/upload-form.server";
 import { PDF_TYPES, storeUpload, UploadError } from "~/server/uploads.server";
@@ -49,6 +49,9 @@ const idForm = z.object({ id: idField });
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireStudy(context, ["coordinator"]);
   if (request.headers.get("Content-Type")?.startsWith("multipart/form-data")) {
+    // Refused before the file is stored, so a late upload leaves nothing behind.
+    const closed = writeRefusal("protocol", study.state);
+    if (closed) return refused("protocol", { protocol: closed });
     const upload = await readUploadForm(request, "protocol", PROTOCOL_MAX_BYTES);
     if (upload.tooLarge) return refused("protocol", { protocol: "The file is larger than 10 MB." });
     if (!upload.file) return refused("protocol", { protocol: "Choose a PDF file to upload." });
@@ -114,7 +117,7 @@ export async function action({ request, context }: Route.ActionArgs) {
     case "transition":
       return handleForm(intent, transitionSchema, form, async ({ to }) => {
         const check = await transitionStudy(study, to, user.id);
-        if (!check.allowed) return { errors: { to: check.problems.join(" ") } };
+        if (!check.allowed) throw new FieldRefusal("to", check.problems.join(" "));
         return { done: `The study is now: ${STATE_LABEL[to]}.`, warnings: check.warnings };
       });
     default:
