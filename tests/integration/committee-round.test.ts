@@ -58,6 +58,7 @@ describe("a committee round", () => {
     const study = (await db.query.studies.findFirst({ where: eq(studies.id, Number(round.studyId)) }))!;
     const details = await setupDoes({ intent: "study", code: study.code, title: "A new title behind the committee's back", testMethod: study.testMethod, replicatesPerCell: "3", significanceLevel: "0.005", targetSurfaceRating: "2", enrollmentDeadline: "", shipDate: "", resultsDue: "", notes: "" });
     expect(details.status).toBe(400);
+    expect(details.data.errors.form).toBe("Study details are fixed once the statement goes to the committee.");
     expect(await studyState()).toBe("in_review");
     expect((await db.query.studies.findFirst({ where: eq(studies.id, Number(round.studyId)) }))!.title).toBe(study.title);
   });
