@@ -5,7 +5,7 @@ export default {
   // BUILD_DIR lets two builds (say, a benchmark and a test run) live side by side.
   buildDirectory: process.env.BUILD_DIR ?? "build",
   future: {
-    // Root middleware sets the security headers on every response, resource routes included.
+    // Route middleware: the study parents check access once; the root refuses cross-site posts.
     v8_middleware: true,
   },
 } satisfies Config;

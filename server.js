@@ -1,14 +1,51 @@
-// Production entry: `node server.js` serves the build in BUILD_DIR (default build/) on PORT (default 3000).
+/**
+ * `node server.js` serves Ringbatch on PORT. With NODE_ENV=production it
+ * serves the build in BUILD_DIR (default build/, default port 3000);
+ * otherwise it runs Vite in middleware mode (default port 5173) and loads
+ * the same server module (server/app.ts) through it, so headers, limits and
+ * the request path are the same in development as in production.
+ */
 import { createServer } from "node:http";
 import { resolve } from "node:path";
 import { pathToFileURL } from "node:url";
+import express from "express";
+import morgan from "morgan";
 
-const buildDirectory = resolve(process.env.BUILD_DIR ?? "build");
-const { handleRequest } = await import(pathToFileURL(`${buildDirectory}/server/index.js`).href);
-const port = Number(process.env.PORT ?? 3000);
+const production = process.env.NODE_ENV === "production";
+const port = Number(process.env.PORT ?? (production ? 3000 : 5173));
+const app = express();
+app.disable("x-powered-by");
+app.use(morgan("tiny"));
 
-const server = createServer(handleRequest);
-server.listen(port, process.env.HOST, () => console.log(`Ringbatch serving ${buildDirectory} on http://localhost:${port}`));
+let vite;
+if (production) {
+  const buildDirectory = resolve(process.env.BUILD_DIR ?? "build");
+  const { frontDoor, requestHandler } = await import(pathToFileURL(`${buildDirectory}/server/index.js`).href);
+  app.use(frontDoor);
+  app.use("/assets", express.static(`${buildDirectory}/client/assets`, { immutable: true, maxAge: "1y" }));
+  app.use(express.static(`${buildDirectory}/client`, { maxAge: "1h" }));
+  app.use(requestHandler);
+} else {
+  vite = await (await import("vite")).createServer({ server: { middlewareMode: true } });
+  // Loaded per request: Vite hands back the module it has, or a fresh one after an edit.
+  const serverModule = () => vite.ssrLoadModule("./server/app.ts");
+  app.use((request, response, next) => serverModule().then((module) => module.frontDoor(request, response, next), next));
+  app.use(vite.middlewares);
+  app.use((request, response, next) =>
+    serverModule()
+      .then((module) => module.requestHandler(request, response, next))
+      .catch((error) => {
+        if (error instanceof Error) vite.ssrFixStacktrace(error);
+        next(error);
+      }),
+  );
+}
+
+const server = createServer(app);
+server.listen(port, process.env.HOST, () => console.log(`Ringbatch (${production ? "production" : "development"}) on http://localhost:${port}`));
 for (const signal of ["SIGTERM", "SIGINT"]) {
-  process.once(signal, () => server.close(() => process.exit(0)).closeAllConnections());
+  process.once(signal, async () => {
+    await vite?.close();
+    server.close(() => process.exit(0)).closeAllConnections();
+  });
 }

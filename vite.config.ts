@@ -3,7 +3,8 @@ import tailwindcss from "@tailwindcss/vite";
 import { defineConfig } from "vite";
 
 export default defineConfig(({ isSsrBuild }) => ({
-  // The production server's build includes its request handling (server/app.ts), served by server.js.
+  // The server build includes the server's own request handling (server/app.ts), which server.js
+  // imports in production; in development server.js loads the same module through Vite.
   build: isSsrBuild ? { rolldownOptions: { input: "./server/app.ts" } } : {},
   plugins: [tailwindcss(), reactRouter()],
   resolve: { alias: { "~": new URL("./app", import.meta.url).pathname } },

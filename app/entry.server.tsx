@@ -3,9 +3,9 @@ import { createReadableStreamFromReadable } from "@react-router/node";
 import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
-import { type EntryContext, ServerRouter } from "react-router";
+import { type EntryContext, type RouterContextProvider, ServerRouter } from "react-router";
 import { migrateDatabase } from "~/db/client.server";
-import { applySecurityHeaders } from "~/server/security-headers.server";
+import { cspNonceContext } from "~/server/security-headers.server";
 
 // Migrations from drizzle/ are applied when the server starts, before the first request.
 await migrateDatabase();
@@ -17,9 +17,8 @@ export default function handleRequest(
   responseStatusCode: number,
   responseHeaders: Headers,
   routerContext: EntryContext,
+  loadContext: RouterContextProvider,
 ) {
-  // Also for pages no route matches (the 404 page), which the root middleware never sees.
-  applySecurityHeaders(responseHeaders);
   if (request.method.toUpperCase() === "HEAD") {
     return new Response(null, { status: responseStatusCode, headers: responseHeaders });
   }
@@ -33,7 +32,11 @@ export default function handleRequest(
 
     let timeoutId: ReturnType<typeof setTimeout> | undefined = setTimeout(() => abort(), streamTimeout + 1000);
 
-    const { pipe, abort } = renderToPipeableStream(<ServerRouter context={routerContext} url={request.url} />, {
+    // The nonce the express layer put into this answer's Content-Security-Policy: React Router's inline
+    // scripts and React's own streaming scripts carry it, and nothing else inline may run.
+    const nonce = loadContext.get(cspNonceContext);
+    const { pipe, abort } = renderToPipeableStream(<ServerRouter context={routerContext} url={request.url} nonce={nonce} />, {
+      nonce,
       [readyOption]() {
         shellRendered = true;
         const body = new PassThrough({

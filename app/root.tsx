@@ -1,19 +1,18 @@
+import "~/lib/zod-without-eval";
 import { data, isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
 import { AppHeader } from "~/components/app-header";
 import { getUser } from "~/server/guards.server";
 import { isForeignOrigin } from "~/server/origin-check.server";
-import { withSecurityHeaders } from "~/server/security-headers.server";
 import { mailboxEnabled } from "~/models/mailbox.server";
 import { takeToast } from "~/server/toast.server";
 import { Notice } from "~/components/ui";
 import "./app.css";
 
+// The security headers are set by the express layer (server/app.ts), on every answer.
 const guardRequests: Route.MiddlewareFunction = async ({ request }, next) => {
-  if (isForeignOrigin(request)) {
-    return withSecurityHeaders(new Response("Cross-site request refused", { status: 403 }));
-  }
-  return withSecurityHeaders((await next()) as Response);
+  if (isForeignOrigin(request)) return new Response("Cross-site request refused", { status: 403 });
+  return next();
 };
 
 export const middleware: Route.MiddlewareFunction[] = [guardRequests];
@@ -22,6 +21,14 @@ export async function loader({ request }: Route.LoaderArgs) {
   const [user, { toast, headers }] = await Promise.all([getUser(request), takeToast(request)]);
   return data({ user: user && { name: user.name, role: user.role }, mailbox: mailboxEnabled(), toast }, { headers });
 }
+
+// The browser's icons and manifest, from public/ (drawn by scripts/make-icons.ts from the mark).
+export const links: Route.LinksFunction = () => [
+  { rel: "icon", href: "/favicon.svg", type: "image/svg+xml" },
+  { rel: "icon", href: "/favicon.png", type: "image/png", sizes: "32x32" },
+  { rel: "apple-touch-icon", href: "/apple-touch-icon.png" },
+  { rel: "manifest", href: "/site.webmanifest" },
+];
 
 export const meta: Route.MetaFunction = () => [{ title: "Ringbatch" }];
 

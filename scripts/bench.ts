@@ -93,7 +93,7 @@ try {
   const load = (url: string, headers: Record<string, string> = {}) =>
     autocannon({ url, connections: 10, duration: 8, headers }) as Promise<autocannon.Result>;
   const appLoad = await load(precisionUrl, { Cookie: coordinator });
-  // The same server's lightest route, which goes the whole React Router way: what a route read costs without the repeat-read memory.
+  // The same server's lightest route, which goes the whole React Router way: the ceiling of any route read.
   const healthLoad = await load(`${server.url}/healthz`);
   const bareLoad = await load(`http://127.0.0.1:${barePort}/`);
   bare.kill();
@@ -122,7 +122,7 @@ try {
     ratio >= 0.5 && refused === 0,
   );
   console.log(`   ${appLoad["2xx"]} answers 200, ${refused} not (non-2xx, errors, timeouts)`);
-  console.log(`   for scale: GET /healthz on the same server ${healthLoad.requests.average.toFixed(0)} req/s (one trivial query through React Router: the ceiling of a route without the repeat-read memory)`);
+  console.log(`   for scale: GET /healthz on the same server ${healthLoad.requests.average.toFixed(0)} req/s (one trivial query through React Router: the ceiling of any route read)`);
   line("4. result entry autosave round trip, 200", `p50 ${ms(autosave.p50)}, p95 ${ms(autosave.p95)}`, "p95 ≤ 50 ms", autosave.p95 <= 50);
   for (const page of javascriptPerPage()) {
     const goal = page.route.includes("results.$materialId") ? "≤ 150 kB" : "";

@@ -1,21 +1,18 @@
 /**
- * The production server's request handling, built by Vite with the app (so it
- * shares the app's modules and their caches): repeat API precision reads
- * answered from memory, then the client's address, static files and React
- * Router through express.
+ * The server's own request handling, the same in production (built with the
+ * app by Vite, so it shares the app's modules and their caches) and in
+ * development (loaded through Vite by server.js).
+ *
+ * `frontDoor` runs first for every request, static files included: the
+ * client's address, compression, and the security headers with this
+ * answer's script nonce. `requestHandler` is React Router.
  */
-import type { IncomingMessage, ServerResponse } from "node:http";
-import { fileURLToPath } from "node:url";
 import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express from "express";
-import morgan from "morgan";
 import onHeaders from "on-headers";
-import { answerRepeatPrecisionRead } from "~/server/api-repeat-reads.server";
-import { applySecurityHeaders } from "~/server/security-headers.server";
-
-const clientFiles = fileURLToPath(new URL("../client", import.meta.url));
-const logRequest = morgan("tiny");
+import { RouterContextProvider } from "react-router";
+import { applySecurityHeaders, cspNonceContext, newCspNonce } from "~/server/security-headers.server";
 
 /** Express's "trust proxy" from TRUST_PROXY: unset trusts no proxy, a number counts hops, anything else names addresses or subnets. */
 function trustedProxies(value = process.env.TRUST_PROXY) {
@@ -24,37 +21,29 @@ function trustedProxies(value = process.env.TRUST_PROXY) {
   return /^\d+$/.test(value) ? Number(value) : value;
 }
 
-const app = express();
-app.disable("x-powered-by");
-app.set("trust proxy", trustedProxies());
+export const frontDoor = express();
+frontDoor.disable("x-powered-by");
+frontDoor.set("trust proxy", trustedProxies());
 // The rate limits key on X-Forwarded-For: replace whatever the client sent with the address express trusts.
-app.use((request, _response, next) => {
+frontDoor.use((request, _response, next) => {
   request.headers["x-forwarded-for"] = request.ip;
   next();
 });
-app.use(compression());
-// Every answer carries the security headers, also static files and React Router's own refusals,
-// which the root middleware never sees; an answer that sets one keeps its own.
-app.use((_request, response, next) => {
-  onHeaders(response, () => applySecurityHeaders({ has: (name) => response.hasHeader(name), set: (name, value) => void response.setHeader(name, value) }));
+frontDoor.use(compression());
+// Every answer carries the security headers: pages, the API, static and public files, and React Router's
+// own refusals alike. An answer that sets one of them itself keeps its own.
+frontDoor.use((_request, response, next) => {
+  const nonce = newCspNonce();
+  response.locals.cspNonce = nonce;
+  onHeaders(response, () => applySecurityHeaders({ has: (name) => response.hasHeader(name), set: (name, value) => response.setHeader(name, value) }, nonce));
   next();
 });
-app.use("/assets", express.static(`${clientFiles}/assets`, { immutable: true, maxAge: "1y" }));
-app.use(express.static(clientFiles, { maxAge: "1h" }));
-app.use(createRequestHandler({ build: () => import("virtual:react-router/server-build") }));
 
-export async function handleRequest(request: IncomingMessage, response: ServerResponse) {
-  logRequest(request, response, () => undefined);
-  try {
-    const answer = await answerRepeatPrecisionRead(request.method, request.url, request.headers);
-    if (answer) {
-      response.writeHead(answer.status, answer.headers);
-      response.end(answer.body);
-      return;
-    }
-  } catch (error) {
-    // The full route answers instead, and reports the error in its own shape.
-    console.error(error);
-  }
-  app(request, response);
-}
+export const requestHandler = createRequestHandler({
+  build: () => import("virtual:react-router/server-build"),
+  getLoadContext(_request, response) {
+    const context = new RouterContextProvider();
+    context.set(cspNonceContext, response.locals.cspNonce);
+    return context;
+  },
+});

@@ -3,7 +3,6 @@ import { mkdirSync } from "node:fs";
 import { dirname, resolve } from "node:path";
 import { createClient, type Client, type InStatement } from "@libsql/client";
 import { drizzle, type LibSQLDatabase } from "drizzle-orm/libsql";
-import Libsql from "libsql";
 import { migrate } from "drizzle-orm/libsql/migrator";
 import * as schema from "./schema";
 
@@ -74,7 +73,7 @@ function queuedTransaction(real: Database): Database["transaction"] {
 }
 
 // One client per process, kept on globalThis so the dev server's module reloads reuse it.
-type Connection = { client: Client; db: Database; config: ReturnType<typeof databaseConfig>; readings?: { connection: InstanceType<typeof Libsql>; statements: Map<string, Libsql.Statement<[]>> } };
+type Connection = { client: Client; db: Database; config: ReturnType<typeof databaseConfig> };
 const globalStore = globalThis as typeof globalThis & { __ringbatchDb?: Connection };
 
 function connection() {
@@ -83,30 +82,6 @@ function connection() {
     return { client, db: drizzle(client, { schema }), config: databaseConfig() };
   })();
   return globalStore.__ringbatchDb;
-}
-
-/**
- * The one integer a query returns, or null. For checks that run on every
- * request: on a local file the statement is prepared once, on a read
- * connection of its own (the shared client prepares each statement anew and
- * costs more than the check itself); elsewhere the shared client answers.
- */
-export async function readInteger(query: string): Promise<number | null> {
-  const open = connection();
-  const { url, isLocalFile } = open.config;
-  if (!isLocalFile) {
-    const value = (await open.client.execute(query)).rows[0]?.[0];
-    return value === undefined || value === null ? null : Number(value);
-  }
-  open.readings ??= { connection: new Libsql(url.slice("file:".length), { timeout: 5000 }), statements: new Map() };
-  let statement = open.readings.statements.get(query);
-  if (!statement) {
-    statement = open.readings.connection.prepare<[]>(query);
-    open.readings.statements.set(query, statement);
-  }
-  const row = statement.get() as Record<string, unknown> | undefined;
-  const value = row && Object.values(row)[0];
-  return value === undefined || value === null ? null : Number(value);
 }
 
 /** The drizzle handle. Opened on first use so tests can choose the database first. */
@@ -134,7 +109,6 @@ export function migrateDatabase() {
 }
 
 export function closeDatabase() {
-  globalStore.__ringbatchDb?.readings?.connection.close();
   globalStore.__ringbatchDb?.client.close();
   globalStore.__ringbatchDb = undefined;
   migrated = undefined;

@@ -594,14 +594,3 @@ export const rateLimitHits = sqliteTable(
   },
   (t) => [index("rate_limit_hits_bucket_key").on(t.bucket, t.key, t.createdAt)],
 );
-
-/**
- * One row whose `version` goes up with every change to what the access guards
- * read (accounts, sessions, tokens, memberships, studies and their people),
- * through triggers (drizzle/0004), whoever writes: memory that remembers a
- * guard's decision is good while the version is the same.
- */
-export const accessVersion = sqliteTable("access_version", {
-  id: integer("id").primaryKey(),
-  version: integer("version").notNull().default(0),
-});

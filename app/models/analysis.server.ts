@@ -4,6 +4,7 @@
  * the same figures can go to coordinators and reviewers alike.
  */
 import { and, asc, eq, ne, sql } from "drizzle-orm";
+import { LRUCache } from "lru-cache";
 import { db, type Transaction } from "~/db/client.server";
 import { cellDecisions, cells, enrollments, labs, materials, responses, results, studies } from "~/db/schema";
 import { analyzeStudy, type ExcludedCell, type StudyAnalysis } from "~/lib/precision";
@@ -95,9 +96,8 @@ export function bumpDataVersion(tx: Transaction, studyId: number) {
 // Analyses are pure functions of (data version, alpha, exclusions): cache them by that key, with
 // their JSON. A stale entry can never be served: any change of results or decisions bumps data_version,
 // so the saved decisions need no lookup on a hit.
-type CachedAnalysis = { analysis: StudyAnalysis; json?: string; bytes?: Buffer };
-const cache = new Map<string, CachedAnalysis>();
-const CACHE_LIMIT = 50;
+type CachedAnalysis = { analysis: StudyAnalysis; json?: string };
+const cache = new LRUCache<string, CachedAnalysis>({ max: 50 });
 
 function cacheKey(study: Study, options: { alpha?: number; exclusions?: ExcludedCell[] }) {
   const whatIf = options.exclusions?.map((e) => [e.lab, e.material, e.response]) ?? "saved";
@@ -118,7 +118,6 @@ async function cachedAnalysis(study: Study, options: { alpha?: number; exclusion
     rows.map((r) => ({ lab: r.labCode, material: r.material, response: r.response, replicate: r.replicate, value: r.value })),
     { alpha, excludedCells: exclusions, responseKinds: Object.fromEntries(kinds.map((k) => [k.key, k.kind])) },
   );
-  if (cache.size >= CACHE_LIMIT) cache.delete(cache.keys().next().value!);
   const entry: CachedAnalysis = { analysis };
   cache.set(key, entry);
   return entry;
@@ -137,11 +136,4 @@ export async function studyAnalysisJson(study: Study, options: { alpha?: number;
   const entry = await cachedAnalysis(study, options);
   entry.json ??= JSON.stringify(entry.analysis);
   return entry.json;
-}
-
-/** The saved-decisions analysis as UTF-8 JSON bytes if it is already cached with its JSON, else undefined. */
-export function cachedAnalysisBytes(study: Study, alpha?: number) {
-  const entry = cache.get(cacheKey(study, { alpha }));
-  if (entry?.json === undefined) return undefined;
-  return (entry.bytes ??= Buffer.from(entry.json));
 }

@@ -1,18 +1,15 @@
-import { createHash, randomBytes } from "node:crypto";
+import { randomBytes } from "node:crypto";
 import { and, desc, eq, isNull, lt, or } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { apiTokens, enrollments, studies } from "~/db/schema";
 import { studyAccessFor } from "~/server/guards.server";
 import { AccountError, type SessionUser } from "~/models/user.server";
+import { hashToken } from "~/server/token-hash.server";
 
 const TOKEN_PREFIX = "rbt_";
 
 export type ApiScope = (typeof apiTokens.$inferSelect)["scope"];
 export type ApiToken = typeof apiTokens.$inferSelect;
-
-export function hashToken(token: string) {
-  return createHash("sha256").update(token).digest("hex");
-}
 
 /**
  * Creates a token for the user, limited to one enrollment (`results:write`) or
@@ -70,7 +67,7 @@ export async function revokeApiToken(userId: number, tokenId: number) {
 const LAST_USE_RESOLUTION_MS = 60_000;
 
 /** Until when a use of the token needs no new last-use record (epoch ms). */
-export const lastUseRecordedUntil = (token: ApiToken) => (token.lastUsedAt?.getTime() ?? 0) + LAST_USE_RESOLUTION_MS;
+const lastUseRecordedUntil = (token: ApiToken) => (token.lastUsedAt?.getTime() ?? 0) + LAST_USE_RESOLUTION_MS;
 
 /** The live token behind a bearer string, recording its use (at most once a minute, to spare writes). */
 export async function activeApiToken(token: string) {

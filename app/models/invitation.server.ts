@@ -3,7 +3,7 @@
  * in the e-mail; the database keeps its SHA-256. A token works once and for 14
  * days, and only for the study its link names.
  */
-import { createHash, randomBytes } from "node:crypto";
+import { randomBytes } from "node:crypto";
 import { and, eq, isNull } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
 import { enrollments, invitations, labMembers, labs, studies, users } from "~/db/schema";
@@ -16,16 +16,13 @@ import { writeRefusal } from "~/lib/write-rules";
 import { bumpDataVersion } from "~/models/analysis.server";
 import type { SessionUser } from "~/models/user.server";
 import { hashPassword, normaliseEmail } from "~/models/user.server";
+import { hashToken } from "~/server/token-hash.server";
 
 export const INVITATION_LIFETIME_MS = 14 * 24 * 60 * 60 * 1000;
 
 type Study = typeof studies.$inferSelect;
 
 export class InvitationError extends FieldRefusal {}
-
-export function hashToken(token: string) {
-  return createHash("sha256").update(token).digest("hex");
-}
 
 export function invitationPath(token: string, studyId: number) {
   return `/invite/${token}?study=${studyId}`;

@@ -3,7 +3,7 @@
  * colleague): the new analyst gets an e-mail with a link that works once, for
  * 14 days; only the link token's SHA-256 is stored.
  */
-import { createHash, randomBytes } from "node:crypto";
+import { randomBytes } from "node:crypto";
 import { and, eq, isNull } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { labs, passwordTokens, users } from "~/db/schema";
@@ -11,10 +11,10 @@ import { recordAudit } from "~/server/audit.server";
 import { appUrl, sendEmail } from "~/server/email.server";
 import { colleagueWelcomeEmail } from "~/lib/email-templates";
 import { createUser, hashPassword, type SessionUser } from "~/models/user.server";
+import { hashToken } from "~/server/token-hash.server";
 
 export const WELCOME_LIFETIME_MS = 14 * 24 * 60 * 60 * 1000;
 
-const hashToken = (token: string) => createHash("sha256").update(token).digest("hex");
 
 /** Adds a colleague as an analyst of the contact's lab, with no password yet, and e-mails them the link to set one. */
 export async function inviteColleague(labId: number, input: { email: string; name: string }, contact: SessionUser, request: Request | null) {

@@ -4,6 +4,9 @@
  * error shape — `{ "error": { "code", "message", "details"? } }` — for every
  * failure. Nothing from inside (a stack trace, a SQL message) ever leaves.
  */
+import { createHash, randomBytes } from "node:crypto";
+import { LRUCache } from "lru-cache";
+import { isSignificanceLevel } from "~/lib/precision";
 import { type StudyAccess, getUser, studyAccessFor } from "~/server/guards.server";
 import { activeApiToken, type ApiToken } from "~/models/api-token.server";
 import { loadSessionUser, type SessionUser } from "~/models/user.server";
@@ -86,6 +89,79 @@ export async function requireApiStudyAccess(request: Request, studyIdParam: stri
   return { ...caller, ...found };
 }
 
+/** What an API read sends: its text and type, and any further headers (a download's file name). */
+export type ApiRepresentation = { body: string; contentType: string; headers?: Record<string, string> };
+
+/**
+ * What makes one caller's view differ from another's for the same URL: the
+ * caller's access to the study (or role), and a token's scope and target.
+ */
+export function callerView(caller: ApiCaller & { access?: StudyAccess }) {
+  return [caller.access ?? caller.user.role, caller.token ? [caller.token.scope, caller.token.studyId, caller.token.enrollmentId] : "session"];
+}
+
+/** Private: answers differ per caller; no-cache: a stored answer is used only after the server confirms it. */
+const READ_CACHE_CONTROL = "private, no-cache";
+
+// Ties entity tags to this process's code: after a deployment the same data may be presented differently.
+const DEPLOYMENT_SALT = randomBytes(9).toString("base64url");
+
+const digest = (value: string) => createHash("sha256").update(value).digest("base64url");
+
+/** Whether an If-None-Match header names `etag`; weak comparison, as RFC 9110 §13.1.2 prescribes for it. */
+function ifNoneMatchHits(header: string | null, etag: string) {
+  if (!header) return false;
+  if (header.trim() === "*") return true;
+  return header.split(",").some((candidate) => candidate.trim().replace(/^W\//, "") === etag);
+}
+
+/**
+ * Answers an API read (after its access checks) with a strong ETag and
+ * `Cache-Control: private, no-cache`: a client revalidates every time and gets
+ * `304 Not Modified` while what it may see is unchanged.
+ *
+ * `version` lists everything the answer depends on besides the URL and the
+ * caller's view (say, the study's data version and significance level); a
+ * matching If-None-Match then answers 304 before `produce` runs. Reads that
+ * no version covers pass `null`: their tag is a digest of the answer, so a
+ * match still saves sending it, though not computing it.
+ */
+export async function conditionalRead(
+  request: Request,
+  view: unknown[],
+  version: unknown[] | null,
+  produce: () => Promise<ApiRepresentation>,
+): Promise<Response> {
+  const url = new URL(request.url);
+  const tagOf = (content: unknown) => `"${digest(JSON.stringify([DEPLOYMENT_SALT, url.pathname, url.search, view, content]))}"`;
+  const ifNoneMatch = request.headers.get("If-None-Match");
+  const notModified = (etag: string) => new Response(null, { status: 304, headers: { ETag: etag, "Cache-Control": READ_CACHE_CONTROL } });
+  let etag = version && tagOf(version);
+  if (etag && ifNoneMatchHits(ifNoneMatch, etag)) return notModified(etag);
+  const { body, contentType, headers } = await produce();
+  etag ??= tagOf([contentType, headers ?? null, digest(body)]);
+  if (ifNoneMatchHits(ifNoneMatch, etag)) return notModified(etag);
+  return new Response(body, { headers: { ...headers, "Content-Type": contentType, ETag: etag, "Cache-Control": READ_CACHE_CONTROL } });
+}
+
+export const JSON_TYPE = "application/json; charset=utf-8";
+
+/** The `alpha` query parameter: absent (the study's own level) or one of the engine's levels; 422 otherwise. */
+export function significanceParam(searchParams: URLSearchParams): number | undefined {
+  const param = searchParams.get("alpha");
+  if (param === null) return undefined;
+  const alpha = Number(param);
+  if (!isSignificanceLevel(alpha)) throw new ApiError(422, "invalid_alpha", "alpha must be 0.005, 0.01 or 0.05.");
+  return alpha;
+}
+
+/**
+ * Everything a study's precision figures depend on besides the query: the
+ * engine reads only submitted results and decisions, and each change of
+ * those moves the data version (see analysis.server.ts).
+ */
+export const analysisVersion = (study: { id: number; dataVersion: number; significanceLevel: number }) => [study.id, study.dataVersion, study.significanceLevel];
+
 export const MAX_BODY_BYTES = 1024 * 1024;
 
 /** Reads a JSON body of at most 1 MB: 413 above it, 400 when it is not JSON. */
@@ -129,7 +205,8 @@ async function readLimited(request: Request) {
  * runaway script without a database write on every read.
  */
 export const API_RATE_LIMIT = { max: 600, windowMs: 60_000 };
-const windows = new Map<string, { start: number; count: number }>();
+// The callers seen most recently; one pushed out has been quiet longest, and starts a fresh window.
+const windows = new LRUCache<string, { start: number; count: number }>({ max: 10_000 });
 
 /** `API_RATE_LIMIT_PER_MINUTE` overrides the limit (read on every request, so an operator or a test can change it). */
 export function apiRateLimitMax(env: NodeJS.ProcessEnv = process.env) {
@@ -144,7 +221,6 @@ export function enforceRateLimit(key: string) {
   const current = windows.get(key);
   if (!current || now - current.start >= API_RATE_LIMIT.windowMs) {
     windows.set(key, { start: now, count: 1 });
-    if (windows.size > 10_000) for (const [k, w] of windows) if (now - w.start >= API_RATE_LIMIT.windowMs) windows.delete(k);
     return;
   }
   current.count += 1;

@@ -4,21 +4,13 @@
  */
 import { and, eq } from "drizzle-orm";
 import { data, redirect } from "react-router";
-import { db, readInteger } from "~/db/client.server";
+import { db } from "~/db/client.server";
 import { enrollments, type Role, studies, studyCoordinators, studyReviewers } from "~/db/schema";
 import { sessionStorage } from "~/server/session.server";
 import { loadSessionUser, type SessionUser } from "~/models/user.server";
 
 export function notFound(): never {
   throw data("Not found", { status: 404 });
-}
-
-/**
- * The access version (schema.ts): it changes with anything these guards read,
- * so a decision remembered at one version holds while the version is the same.
- */
-export function currentAccessVersion(): Promise<number | null> {
-  return readInteger("select version from access_version where id = 1");
 }
 
 export async function getUser(request: Request): Promise<SessionUser | null> {

@@ -56,14 +56,6 @@ export const sessionStorage = createSessionStorage<{ userId: number }>({
   },
 });
 
-/** When the session a Cookie header carries ends (epoch ms), or null when it carries none. */
-export async function sessionEndsAt(cookieHeader: string | null): Promise<number | null> {
-  const id: unknown = await sessionCookie.parse(cookieHeader);
-  if (typeof id !== "string") return null;
-  const row = await db.query.sessions.findFirst({ columns: { expiresAt: true }, where: eq(sessions.id, id) });
-  return row ? row.expiresAt.getTime() : null;
-}
-
 /** Ends every session of a user (sign out everywhere, password change, disabled account). */
 export async function endAllSessions(userId: number) {
   await db.delete(sessions).where(eq(sessions.userId, userId));

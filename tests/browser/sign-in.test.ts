@@ -78,6 +78,34 @@ describe("signing in, in the browser", () => {
     await context.close();
   });
 
+  it("runs every page under the nonce-based policy: no violation, hydrated, charts drawn", async () => {
+    const context = await running.browser.newContext();
+    const page = await context.newPage();
+    const violations: string[] = [];
+    page.on("console", (message) => {
+      if (/Content[- ]Security[- ]Policy/i.test(message.text())) violations.push(message.text());
+    });
+    await page.addInitScript(() => {
+      document.addEventListener("securitypolicyviolation", (event) => console.error(`Content Security Policy: ${event.violatedDirective} ${event.blockedURI}`));
+    });
+    const documents: string[] = [];
+    page.on("request", (request) => {
+      if (request.resourceType() === "document") documents.push(new URL(request.url()).pathname);
+    });
+    await signInAs(page, running.server.url, "coordinator@ringbatch.example", DEMO_PASSWORD);
+    await page.waitForURL(`${running.server.url}/studies`);
+    // The analysis page draws its charts with echarts.
+    await page.goto(`${running.server.url}/studies/1/analysis`);
+    await expect.poll(() => page.locator("figure svg path").count(), { timeout: 20_000 }).toBeGreaterThan(0);
+    // A tab followed without a new document load: the page's scripts ran and React took it over.
+    const loadsBefore = documents.length;
+    await page.getByRole("link", { name: "Results", exact: true }).first().click();
+    await page.waitForURL(`${running.server.url}/studies/1/results`);
+    expect(documents.length).toBe(loadsBefore);
+    expect(violations).toEqual([]);
+    await context.close();
+  });
+
   it("sends the security headers and refuses a cross-site form post", async () => {
     const page = await fetch(`${running.server.url}/login`);
     expect(page.headers.get("Content-Security-Policy")).toContain("frame-ancestors 'none'");

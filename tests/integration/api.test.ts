@@ -5,6 +5,7 @@ import { db } from "~/db/client.server";
 import { enrollments, labs, studies, users } from "~/db/schema";
 import { loadSessionUser } from "~/models/user.server";
 import { createApiToken, revokeApiToken } from "~/models/api-token.server";
+import { saveCellDecision } from "~/models/decisions.server";
 import * as healthz from "~/routes/api/v1/healthz";
 import * as precision from "~/routes/api/v1/study-precision";
 import * as progress from "~/routes/api/v1/study-progress";
@@ -26,7 +27,12 @@ async function userNamed(email: string) {
   return (await loadSessionUser(row!.id))!;
 }
 
-const bearer = (path: string, token: string) => new Request(`http://ringbatch.test${path}`, { headers: { Authorization: `Bearer ${token}` } });
+const bearer = (path: string, token: string, headers: Record<string, string> = {}) =>
+  new Request(`http://ringbatch.test${path}`, { headers: { Authorization: `Bearer ${token}`, ...headers } });
+
+/** A GET as `get` makes it, revalidating a stored answer. */
+const revalidate = (path: string, etag: string, cookie?: string) =>
+  new Request(`http://ringbatch.test${path}`, { headers: { "If-None-Match": etag, ...(cookie ? { Cookie: cookie } : {}) } });
 
 beforeAll(async () => {
   await useFreshDatabase();
@@ -171,5 +177,92 @@ describe("CSV export safety", () => {
     const [header, row] = Papa.parse<string[]>(text).data;
     expect(header).toEqual(["operator", "note", "at", "dash", "value"]);
     expect(row).toEqual(["'=cmd()", "'+1", "'@SUM(A1)", "'-x", "-3"]);
+  });
+});
+
+// Conditional requests as RFC 9110 defines them: a strong entity tag (§8.8.3), If-None-Match answered
+// with 304 Not Modified (§13.1.2, §15.4.5); Cache-Control: private, no-cache as RFC 9111 §5.2.2.
+describe("API reads and their entity tags", () => {
+  const precisionPath = () => `/api/v1/studies/${checkingId}/precision`;
+  const params = () => ({ studyId: String(checkingId) });
+
+  it("answer 304 with no body to a matching If-None-Match, and 200 with the same tag otherwise", async () => {
+    const cookie = await demoCookie("coordinator@ringbatch.example");
+    const first = await call(precision.loader, get(precisionPath(), cookie), params());
+    expect(first.status).toBe(200);
+    const etag = first.headers.get("ETag")!;
+    expect(etag).toMatch(/^"[A-Za-z0-9_-]+"$/); // strong: no W/ prefix
+    expect(first.headers.get("Cache-Control")).toBe("private, no-cache");
+    const again = await call(precision.loader, revalidate(precisionPath(), etag, cookie), params());
+    expect(again.status).toBe(304);
+    expect(again.headers.get("ETag")).toBe(etag);
+    expect(again.data).toBeNull();
+    // A weak form of the same tag, or the tag among others, matches as well (weak comparison, RFC 9110 §13.1.2).
+    expect((await call(precision.loader, revalidate(precisionPath(), `"other", W/${etag}`, cookie), params())).status).toBe(304);
+    // A tag from elsewhere does not: the full answer comes, with the current tag.
+    const stale = await call(precision.loader, revalidate(precisionPath(), '"not-this-one"', cookie), params());
+    expect(stale.status).toBe(200);
+    expect(stale.headers.get("ETag")).toBe(etag);
+    expect(stale.data).toEqual(first.data);
+  });
+
+  it("give each role its own tag, even where the figures are the same", async () => {
+    const coordinator = await call(precision.loader, get(precisionPath(), await demoCookie("coordinator@ringbatch.example")), params());
+    const reviewer = await call(precision.loader, get(precisionPath(), await demoCookie("reviewer1@ringbatch.example")), params());
+    expect(reviewer.data).toEqual(coordinator.data);
+    expect(reviewer.headers.get("ETag")).not.toBe(coordinator.headers.get("ETag"));
+    // The reviewer's stored answer is no good for the coordinator.
+    const crossed = await call(precision.loader, revalidate(precisionPath(), reviewer.headers.get("ETag")!, await demoCookie("coordinator@ringbatch.example")), params());
+    expect(crossed.status).toBe(200);
+  });
+
+  it("change the tag when another significance level is asked for", async () => {
+    const cookie = await demoCookie("coordinator@ringbatch.example");
+    const own = await call(precision.loader, get(precisionPath(), cookie), params());
+    const other = await call(precision.loader, get(`${precisionPath()}?alpha=0.01`, cookie), params());
+    expect(other.status).toBe(200);
+    expect(other.headers.get("ETag")).not.toBe(own.headers.get("ETag"));
+  });
+
+  it("check access before answering 304: 401 without credentials, 404 for a caller outside, 401 for a revoked token", async () => {
+    const reviewer = await userNamed("reviewer1@ringbatch.example");
+    const { token, row } = await createApiToken(reviewer, { name: "poller", scope: "study:read", studyId: checkingId });
+    const first = await call(precision.loader, bearer(precisionPath(), token), params());
+    expect(first.status).toBe(200);
+    const etag = first.headers.get("ETag")!;
+    expect((await call(precision.loader, bearer(precisionPath(), token, { "If-None-Match": etag }), params())).status).toBe(304);
+    expect((await call(precision.loader, revalidate(precisionPath(), etag), params())).status).toBe(401);
+    expect((await call(precision.loader, revalidate(precisionPath(), etag, await demoCookie("analyst1@ringbatch.example")), params())).status).toBe(404);
+    await revokeApiToken(reviewer.id, row.id);
+    expect((await call(precision.loader, bearer(precisionPath(), token, { "If-None-Match": etag }), params())).status).toBe(401);
+  });
+
+  it("change the tag when a decision changes the figures, and the old tag then gets the new figures", async () => {
+    const cookie = await demoCookie("coordinator@ringbatch.example");
+    const before = await call(precision.loader, get(precisionPath(), cookie), params());
+    const etag = before.headers.get("ETag")!;
+    const checking = (await db.query.studies.findFirst({ where: eq(studies.id, checkingId) }))!;
+    const coordinator = await userNamed("coordinator@ringbatch.example");
+    // L01's scattered M3 holes cell (planted by the seed) is left out of the analysis.
+    await saveCellDecision(checking, coordinator.id, { lab: "L01", material: "M3", response: "holes", decision: "excluded", reason: "Operator error recorded on the data sheet." });
+    const after = await call(precision.loader, revalidate(precisionPath(), etag, cookie), params());
+    expect(after.status).toBe(200);
+    expect(after.headers.get("ETag")).not.toBe(etag);
+    expect(after.data).not.toEqual(before.data);
+    expect((await call(precision.loader, revalidate(precisionPath(), after.headers.get("ETag")!, cookie), params())).status).toBe(304);
+  });
+
+  it("tag the reads that have no version of their own by what they send", async () => {
+    const cookie = await demoCookie("coordinator@ringbatch.example");
+    const path = `/api/v1/studies/${checkingId}`;
+    const first = await call(study.loader, get(path, cookie), params());
+    expect(first.headers.get("Cache-Control")).toBe("private, no-cache");
+    expect((await call(study.loader, revalidate(path, first.headers.get("ETag")!, cookie), params())).status).toBe(304);
+    const list = await call(studyList.loader, get("/api/v1/studies", cookie));
+    expect((await call(studyList.loader, revalidate("/api/v1/studies", list.headers.get("ETag")!, cookie))).status).toBe(304);
+    // A study's new title is a new answer.
+    await db.update(studies).set({ title: "Float finishing, checking round (renamed)" }).where(eq(studies.id, checkingId));
+    expect((await call(study.loader, revalidate(path, first.headers.get("ETag")!, cookie), params())).status).toBe(200);
+    expect((await call(studyList.loader, revalidate("/api/v1/studies", list.headers.get("ETag")!, cookie))).status).toBe(200);
   });
 });

@@ -100,7 +100,8 @@ describe("progress and reminders", () => {
     const coordinatorUser = (await db.query.users.findFirst({ where: eq(users.email, "coordinator@ringbatch.example") }))!;
     await db.insert(queries).values({ cellId: cell!.cells.id, raisedBy: coordinatorUser.id, question: "Was replicate 2 from a second batch?" });
     const outcome = await call(progressApi.loader, get(`/api/v1/studies/${testing.id}/progress`, coordinator), params());
-    expect(outcome.headers.get("Cache-Control")).toBe("no-store");
+    // Revalidated on every poll (an unchanged progress answers 304), never served from a cache unasked.
+    expect(outcome.headers.get("Cache-Control")).toBe("private, no-cache");
     expect(outcome.data.labs).toHaveLength(8);
     const [f1, f2] = outcome.data.counts;
     // Seed: 4 labs submitted both materials, 2 hold drafts of F1 only, 2 have not started.

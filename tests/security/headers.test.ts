@@ -1,6 +1,8 @@
 /**
  * What the built server sends and refuses in production: security headers on
- * pages, resource routes, the API and file downloads; the session cookie's
+ * pages, resource routes, the API, file downloads and public files; the
+ * nonce-based Content-Security-Policy; API reads revalidated with
+ * If-None-Match; the session cookie's
  * flags; cross-site form posts refused with nothing written; 429 from the
  * sign-in, invitation and API rate limits; and uploads that must not be
  * stored (SVG, oversize) or must be stored under a hash (a name with a path).
@@ -107,18 +109,76 @@ describe("security headers", () => {
   });
 });
 
-describe("repeat API precision reads, answered from the server's memory", () => {
-  it("give the route's answer again, byte for byte with its headers, until the caller signs out", async () => {
+describe("the Content-Security-Policy", () => {
+  const scriptSources = (policy: string) => policy.split(";").map((d) => d.trim()).find((d) => d.startsWith("script-src "))!;
+
+  it("lets scripts run only from the app or with a fresh nonce that every inline script of the page carries", async () => {
+    const [one, two] = await Promise.all([get("/login"), get("/login")]);
+    const nonces = [];
+    for (const response of [one, two]) {
+      const scriptSrc = scriptSources(response.headers.get("Content-Security-Policy")!);
+      expect(scriptSrc).not.toContain("'unsafe-inline'");
+      expect(scriptSrc).not.toContain("'unsafe-eval'");
+      expect(response.headers.get("Content-Security-Policy")).not.toContain("'unsafe-inline'");
+      const nonce = /'nonce-([A-Za-z0-9+/=]+)'/.exec(scriptSrc)![1]!;
+      // At least 128 bits (CSP Level 3, §7.1: "at least 128 bits long"), base64: 24 characters.
+      expect(Buffer.from(nonce, "base64").length).toBeGreaterThanOrEqual(16);
+      const page = await response.text();
+      const scripts = page.match(/<script\b[^>]*>/g) ?? [];
+      expect(scripts.length).toBeGreaterThan(0);
+      for (const tag of scripts) expect(tag, tag).toContain(`nonce="${nonce}"`);
+      nonces.push(nonce);
+    }
+    expect(nonces[0]).not.toBe(nonces[1]);
+  });
+});
+
+describe("API reads revalidated with If-None-Match", () => {
+  it("answer 304 with the security headers to a matching tag, and only to a caller who still has access", async () => {
     const checkingId = await demoStudyId("FF-2026-A");
     const cookie = await signInOverHttp(server.url, "reviewer3@ringbatch.example", DEMO_PASSWORD);
-    const first = await get(`/api/v1/studies/${checkingId}/precision`, cookie);
-    const repeat = await get(`/api/v1/studies/${checkingId}/precision`, cookie);
-    expect([first.status, repeat.status]).toEqual([200, 200]);
-    expect(repeat.headers.get("Content-Type")).toBe(first.headers.get("Content-Type"));
+    const path = `/api/v1/studies/${checkingId}/precision`;
+    const first = await get(path, cookie);
+    expect(first.status).toBe(200);
+    const etag = first.headers.get("ETag")!;
+    expect(first.headers.get("Cache-Control")).toBe("private, no-cache");
+    const revalidate = (withCookie?: string) => fetch(server.url + path, { headers: { "If-None-Match": etag, ...(withCookie ? { Cookie: withCookie } : {}) } });
+    const repeat = await revalidate(cookie);
+    expect(repeat.status).toBe(304);
+    expect(repeat.headers.get("ETag")).toBe(etag);
+    expect(await repeat.text()).toBe("");
     expectSecurityHeaders(repeat);
-    expect(Buffer.from(await repeat.arrayBuffer()).equals(Buffer.from(await first.arrayBuffer()))).toBe(true);
+    expect((await revalidate()).status).toBe(401);
+    expect((await revalidate(cookies.analyst5)).status).toBe(404);
     expect((await postForm("/logout", new URLSearchParams(), { cookie })).status).toBe(302);
-    expect((await get(`/api/v1/studies/${checkingId}/precision`, cookie)).status).toBe(401);
+    expect((await revalidate(cookie)).status).toBe(401);
+  });
+});
+
+describe("the files browsers ask for", () => {
+  it("are served from public/ with the security headers, and the pages link the icons and the manifest", async () => {
+    const [svg, png, touch, robots, manifest] = await Promise.all(["/favicon.svg", "/favicon.png", "/apple-touch-icon.png", "/robots.txt", "/site.webmanifest"].map((path) => get(path)));
+    for (const response of [svg, png, touch, robots, manifest]) {
+      expect(response.status, response.url).toBe(200);
+      expectSecurityHeaders(response);
+    }
+    expect(svg.headers.get("Content-Type")).toMatch(/^image\/svg\+xml/);
+    expect(await svg.text()).toMatch(/^<svg xmlns="http:\/\/www.w3.org\/2000\/svg"/);
+    // PNG signature, then the IHDR chunk's width and height as 4-byte big-endian integers (PNG specification, sections 5.2 and 11.2.2).
+    for (const [response, size] of [[png, 32], [touch, 180]] as const) {
+      const bytes = Buffer.from(await response.arrayBuffer());
+      expect(bytes.subarray(0, 8)).toEqual(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]));
+      expect([bytes.readUInt32BE(16), bytes.readUInt32BE(20)]).toEqual([size, size]);
+    }
+    // The robots exclusion protocol (RFC 9309): "Disallow: /" for every user agent keeps crawlers out of every path.
+    expect(await robots.text()).toMatch(/^User-agent: \*\r?\nDisallow: \/\s*$/m);
+    const webManifest = await manifest.json();
+    expect(webManifest.name).toBe("Ringbatch");
+    expect(webManifest.icons.map((icon: { src: string }) => icon.src)).toEqual(["/favicon.svg", "/favicon.png", "/apple-touch-icon.png"]);
+    const head = (await (await get("/login")).text()).split("</head>")[0]!;
+    for (const link of ['rel="icon" href="/favicon.svg"', 'rel="icon" href="/favicon.png"', 'rel="apple-touch-icon" href="/apple-touch-icon.png"', 'rel="manifest" href="/site.webmanifest"']) {
+      expect(head).toContain(link);
+    }
   });
 });
 

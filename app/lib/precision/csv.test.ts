@@ -13,7 +13,7 @@ describe("parseResultsCsv", () => {
   });
 
   it("accepts a byte-order mark, CRLF line ends, spaces and upper-case headers", () => {
-    const { rows, problems } = parseResultsCsv("\uFEFFLab, Material ,Response,Replicate,Value\r\nL1, M1 ,air, 1 , 5.5e0 \r\n");
+    const { rows, problems } = parseResultsCsv("\uFEFFLab, Material ,Response,Replicate,Value\r\nL1, M1 ,air, 1 , 5.50 \r\n");
     expect(problems).toEqual([]);
     expect(rows).toEqual([{ lab: "L1", material: "M1", response: "air", replicate: 1, value: 5.5, row: 2 }]);
   });
@@ -52,9 +52,9 @@ describe("parseResultsCsv", () => {
   });
 
   it("turns anything but a plain decimal into NaN for the analysis to report", () => {
-    const text = "lab,material,response,replicate,value\n" + ["", "abc", "Infinity", "0x10", "1,5"].map((v, i) => `L1,M1,air,${i + 1},"${v}"`).join("\n");
+    const text = "lab,material,response,replicate,value\n" + ["", "abc", "Infinity", "0x10", "1,5", "5.5e0"].map((v, i) => `L1,M1,air,${i + 1},"${v}"`).join("\n");
     const { rows } = parseResultsCsv(text);
-    expect(rows.map((row) => row.value)).toEqual([Number.NaN, Number.NaN, Number.NaN, Number.NaN, Number.NaN]);
+    expect(rows.map((row) => row.value)).toEqual([Number.NaN, Number.NaN, Number.NaN, Number.NaN, Number.NaN, Number.NaN]);
     expect(parseResultsCsv("lab,material,response,replicate,value\nL1,M1,air,one,2\n").rows[0].replicate).toBeNaN();
   });
 });

@@ -1,4 +1,5 @@
-import Papa from "papaparse";
+import { readCsvTable } from "~/lib/csv-table";
+import { parsePlainNumber } from "~/lib/plain-number";
 import type { Problem, ResultRow } from "./types";
 
 /** The long-form columns a results file must have; any others are ignored. */
@@ -11,40 +12,20 @@ export interface ParsedResults {
   problems: Problem[];
 }
 
-const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
-
-/** A plain decimal number, or NaN (never 0 for an empty field, never hexadecimal or "Infinity"). */
-function parseDecimal(text: string): number {
-  const trimmed = text.trim();
-  return DECIMAL.test(trimmed) ? Number(trimmed) : Number.NaN;
-}
-
-function isBlank(record: readonly string[]): boolean {
-  return record.every((field) => field.trim() === "");
-}
-
 /**
- * Long-form results CSV (comma-separated, header row, RFC 4180 quoting) to rows.
- * Row numbers count CSV records with the header as row 1, as a spreadsheet
- * shows them. Blank records are skipped. A value or replicate that is not a
- * plain number becomes NaN, which the analysis reports against its row.
+ * Long-form results CSV to rows, read by the shared reader (~/lib/csv-table:
+ * header row, RFC 4180 quoting, rows numbered as a spreadsheet shows them,
+ * blank records skipped). A value or replicate that is not a plain number
+ * (~/lib/plain-number) becomes NaN, which the analysis reports against its row.
  */
 export function parseResultsCsv(text: string): ParsedResults {
-  const problems: Problem[] = [];
-  const parsed = Papa.parse<string[]>(text.replace(/^\uFEFF/, ""), { delimiter: ",", skipEmptyLines: false });
-  for (const error of parsed.errors) {
-    if (error.code === "MissingQuotes" || error.code === "InvalidQuotes") {
-      const row = error.row === undefined ? undefined : error.row + 1;
-      problems.push({ code: "malformed-row", message: `row ${row ?? "?"}: ${error.message}`, row });
-    }
-  }
-  const records = parsed.data;
-  const headerIndex = records.findIndex((record) => !isBlank(record));
-  if (headerIndex < 0) {
+  const { table, quoting } = readCsvTable(text);
+  const problems: Problem[] = quoting.map(({ row, message }) => ({ code: "malformed-row", message: `row ${row ?? "?"}: ${message}`, row }));
+  if (!table) {
     problems.push({ code: "unreadable-csv", message: "the file has no header row (it is empty)" });
     return { rows: [], problems };
   }
-  const header = records[headerIndex].map((name) => name.trim().toLowerCase());
+  const { header } = table;
   const columnIndex = {} as Record<ResultColumn, number>;
   for (const column of RESULT_COLUMNS) {
     const index = header.indexOf(column);
@@ -58,29 +39,18 @@ export function parseResultsCsv(text: string): ParsedResults {
   if (problems.some((problem) => problem.code === "missing-column" || problem.code === "duplicate-column")) {
     return { rows: [], problems };
   }
-
-  const rows: ResultRow[] = [];
-  for (let index = headerIndex + 1; index < records.length; index++) {
-    const record = records[index];
-    const row = index + 1;
-    if (isBlank(record)) continue;
-    if (record.length !== header.length) {
-      problems.push({
-        code: "malformed-row",
-        message: `row ${row}: ${record.length} fields where the header has ${header.length}`,
-        row,
-      });
-      continue;
-    }
-    rows.push({
-      lab: record[columnIndex.lab].trim(),
-      material: record[columnIndex.material].trim(),
-      response: record[columnIndex.response].trim(),
-      replicate: parseDecimal(record[columnIndex.replicate]),
-      value: parseDecimal(record[columnIndex.value]),
-      row,
-    });
+  for (const { row, fieldCount } of table.misshapen) {
+    problems.push({ code: "malformed-row", message: `row ${row}: ${fieldCount} fields where the header has ${header.length}`, row });
   }
+  const number = (text: string) => parsePlainNumber(text) ?? Number.NaN;
+  const rows: ResultRow[] = table.records.map(({ row, fields }) => ({
+    lab: fields[columnIndex.lab]!,
+    material: fields[columnIndex.material]!,
+    response: fields[columnIndex.response]!,
+    replicate: number(fields[columnIndex.replicate]!),
+    value: number(fields[columnIndex.value]!),
+    row,
+  }));
   if (rows.length === 0 && problems.length === 0) {
     problems.push({ code: "unreadable-csv", message: "the file has a header but no results" });
   }

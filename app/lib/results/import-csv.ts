@@ -1,10 +1,9 @@
 /**
- * The lab's results file: comma-separated, a header row naming at least
- * `material,response,replicate,value`, optionally `tested_on` and `operator`,
- * in any order. Row numbers count records with the header as row 1, as a
- * spreadsheet shows them, so a problem can be found in the file.
+ * The lab's results file, read by the shared reader (~/lib/csv-table): a
+ * header row naming at least `material,response,replicate,value`, optionally
+ * `tested_on` and `operator`, in any order.
  */
-import Papa from "papaparse";
+import { type CsvTable, readCsvTable, tableFromRecords } from "~/lib/csv-table";
 import { type ResultInputRow, shorten } from "./rows";
 
 export const REQUIRED_COLUMNS = ["material", "response", "replicate", "value"] as const;
@@ -31,38 +30,32 @@ export function decodeCsvText(bytes: Uint8Array): { ok: true; text: string } | {
 
 export type ParsedImport = { rows: ResultInputRow[]; fileProblems: string[] };
 
-const isBlank = (record: string[]) => record.every((field) => field.trim() === "");
-
-/** Records (as papaparse returns them) to result rows, or the problems of the file's shape. */
+/** Records (as papaparse returns them in the browser's preview) to result rows, or the problems of the file's shape. */
 export function recordsToRows(records: string[][]): ParsedImport {
-  const headerAt = records.findIndex((r) => !isBlank(r));
-  if (headerAt < 0) return { rows: [], fileProblems: ["The file is empty."] };
-  const header = records[headerAt]!.map((h) => h.trim().toLowerCase().replace(/^\uFEFF/, ""));
+  return tableToRows(tableFromRecords(records));
+}
+
+function tableToRows(table: CsvTable | null): ParsedImport {
+  if (!table) return { rows: [], fileProblems: ["The file is empty."] };
+  const { header } = table;
   const missing = REQUIRED_COLUMNS.filter((c) => !header.includes(c));
   if (missing.length > 0) {
     return { rows: [], fileProblems: [`The header row has no ${missing.map((c) => `“${c}”`).join(", ")} column (needed: ${REQUIRED_COLUMNS.join(",")}; optional: ${OPTIONAL_COLUMNS.join(",")}).`] };
   }
   const headerProblem = checkHeaderNames(header);
   if (headerProblem) return { rows: [], fileProblems: [headerProblem] };
-  const column = (name: string) => header.indexOf(name);
+  const fileProblems = table.misshapen.map(({ row, fieldCount }) => `Row ${row} has ${fieldCount} fields where the header has ${header.length}.`);
   const rows: ResultInputRow[] = [];
-  const fileProblems: string[] = [];
-  records.forEach((record, index) => {
-    if (index <= headerAt || isBlank(record)) return;
-    const row = index + 1;
-    if (record.length !== header.length) {
-      fileProblems.push(`Row ${row} has ${record.length} fields where the header has ${header.length}.`);
-      return;
-    }
+  for (const { row, fields } of table.records) {
     // Spreadsheets often add unnamed empty columns; a value under one would be lost without a word.
-    const unnamed = record.findIndex((field, i) => header[i] === "" && field.trim() !== "");
+    const unnamed = fields.findIndex((field, i) => header[i] === "" && field !== "");
     if (unnamed >= 0) {
       fileProblems.push(`Row ${row} has a value in column ${unnamed + 1}, which has no name in the header row.`);
-      return;
+      continue;
     }
-    const field = (name: string) => (column(name) < 0 ? undefined : record[column(name)]!.trim());
+    const field = (name: string) => (header.includes(name) ? fields[header.indexOf(name)]! : undefined);
     rows.push({ row, material: field("material")!, response: field("response")!, replicate: field("replicate")!, value: field("value")!, testedOn: field("tested_on") ?? null, operator: field("operator") ?? null });
-  });
+  }
   return { rows, fileProblems };
 }
 
@@ -80,8 +73,7 @@ function checkHeaderNames(header: string[]) {
 
 /** Parses the whole text at once (the server's way). */
 export function parseImportCsv(text: string): ParsedImport {
-  const parsed = Papa.parse<string[]>(text.replace(/^\uFEFF/, ""), { delimiter: ",", skipEmptyLines: false });
-  const quoting = parsed.errors.filter((e) => e.code === "MissingQuotes" || e.code === "InvalidQuotes").map((e) => `Row ${(e.row ?? 0) + 1}: ${e.message}.`);
-  const result = recordsToRows(parsed.data);
-  return { rows: result.rows, fileProblems: [...quoting, ...result.fileProblems] };
+  const { table, quoting } = readCsvTable(text);
+  const result = tableToRows(table);
+  return { rows: result.rows, fileProblems: [...quoting.map((q) => `Row ${q.row ?? "?"}: ${q.message}.`), ...result.fileProblems] };
 }

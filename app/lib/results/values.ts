@@ -3,6 +3,7 @@
  * runs beside the field in the browser and again on the server, so both
  * refuse the same values with the same words.
  */
+import { parsePlainNumber } from "~/lib/plain-number";
 
 export type ResponseRule = {
   name: string;
@@ -18,14 +19,8 @@ export type ValueCheck =
   | { status: "refused"; message: string }
   | { status: "ok"; value: number; warning?: string };
 
-// A plain decimal: no hexadecimal, no "Infinity", no thousands separators.
-const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)$/;
-
-/** A text field as a plain decimal number, or null. */
-export function parsePlainNumber(text: string): number | null {
-  const trimmed = text.trim();
-  return DECIMAL.test(trimmed) ? Number(trimmed) : null;
-}
+// The number grammar has its own home, shared with the results files' readers.
+export { parsePlainNumber };
 
 function plausibleRange(rule: ResponseRule) {
   const unit = rule.unit ? ` ${rule.unit}` : "";

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/study-progress";
-import { apiHandler, requireApiStudyAccess } from "~/server/api.server";
+import { apiHandler, callerView, conditionalRead, JSON_TYPE, requireApiStudyAccess } from "~/server/api.server";
 import { studyProgress } from "~/models/study.server";
 
 /**
@@ -9,8 +9,10 @@ import { studyProgress } from "~/models/study.server";
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   return apiHandler(async () => {
-    const { study, access, enrollment } = await requireApiStudyAccess(request, params.studyId, ["coordinator", "admin", "analyst"]);
-    const progress = await studyProgress(study, access === "analyst" ? enrollment!.id : undefined);
-    return Response.json(progress, { headers: { "Cache-Control": "no-store" } });
+    const caller = await requireApiStudyAccess(request, params.studyId, ["coordinator", "admin", "analyst"]);
+    return conditionalRead(request, callerView(caller), null, async () => ({
+      body: JSON.stringify(await studyProgress(caller.study, caller.access === "analyst" ? caller.enrollment!.id : undefined)),
+      contentType: JSON_TYPE,
+    }));
   });
 }

@@ -1,4 +1,3 @@
-import { MaxFileSizeExceededError, parseFormData } from "@remix-run/form-data-parser";
 import Papa from "papaparse";
 import { useMemo, useState } from "react";
 import { data, Form, Link, useNavigation } from "react-router";
@@ -8,6 +7,7 @@ import { requireStudy } from "~/server/study-context.server";
 import { decodeCsvText, IMPORT_MAX_BYTES, OPTIONAL_COLUMNS, parseImportCsv, recordsToRows, REQUIRED_COLUMNS } from "~/lib/results/import-csv";
 import { resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { importFrame, importResults, ResultsError } from "~/models/results.server";
+import { readUploadForm } from "~/server/upload-form.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Import results · Ringbatch" }];
 
@@ -23,14 +23,9 @@ const TOO_LARGE = `The file is larger than ${IMPORT_MAX_BYTES / 1024 / 1024} MB;
 
 export async function action({ request, context }: Route.ActionArgs): Promise<ImportReply | ReturnType<typeof data<ImportReply>>> {
   const { user, enrollment } = requireStudy(context, ["analyst"]);
-  let form: FormData;
-  try {
-    form = await parseFormData(request, { maxFileSize: IMPORT_MAX_BYTES, maxFiles: 1 });
-  } catch (error) {
-    if (error instanceof MaxFileSizeExceededError) return data({ fileError: TOO_LARGE }, { status: 413 });
-    throw error;
-  }
-  const file = form.get("file");
+  const upload = await readUploadForm(request, "file", IMPORT_MAX_BYTES);
+  if (upload.tooLarge) return data({ fileError: TOO_LARGE }, { status: 413 });
+  const file = upload.formData.get("file");
   if (!(file instanceof File) || (file.size === 0 && file.name === "")) return data({ fileError: "Choose a CSV file." }, { status: 400 });
   if (file.size === 0) return data({ fileError: "The file is empty." }, { status: 400 });
   const text = decodeCsvText(new Uint8Array(await file.arrayBuffer()));

@@ -1,4 +1,3 @@
-import { MaxFileSizeExceededError, parseFormData } from "@remix-run/form-data-parser";
 import { useEffect } from "react";
 import { data, Form, isRouteErrorResponse, Link, type ShouldRevalidateFunctionArgs, useFetcher } from "react-router";
 import { z } from "zod";
@@ -12,6 +11,7 @@ import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProper
 import { SAVE_STATE_TEXT, useAutosavedDraft } from "~/lib/results/use-autosaved-draft";
 import { type DraftChanges, draftChanges, type EntryDraft, rebaseDraft } from "~/lib/results/entry-draft";
 import { checkResultValue, checkTestDate } from "~/lib/results/values";
+import { readUploadForm } from "~/server/upload-form.server";
 import { UploadError } from "~/server/uploads.server";
 import { freshTargets, getBatch, saveFreshProperties } from "~/models/batch.server";
 import { correctableResponses, openQueriesOfMaterial } from "~/models/lab-queries.server";
@@ -148,13 +148,9 @@ async function saveChanges(enrollment: Enrollment, entry: Entry, changes: DraftC
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { user, study, enrollment, entry } = await loadEntry(context, params);
-  let form: FormData;
-  try {
-    form = await parseFormData(request, { maxFileSize: PHOTO_MAX_BYTES, maxFiles: 1 });
-  } catch (error) {
-    if (error instanceof MaxFileSizeExceededError) return data({ intent: "photo", error: "The photo is larger than 10 MB." }, { status: 400 });
-    throw error;
-  }
+  const upload = await readUploadForm(request, "photo", PHOTO_MAX_BYTES);
+  if (upload.tooLarge) return data({ intent: "photo", error: "The photo is larger than 10 MB." }, { status: 400 });
+  const form = upload.formData;
   const intent = form.get("intent");
   try {
     if (intent === "draft" || intent === "submit") {
