@@ -15,7 +15,8 @@ export type StudyFieldValues = {
   notes: string;
 };
 
-export function StudyFields({ values, errors }: { values: Partial<StudyFieldValues>; errors: FieldErrors }) {
+/** `fixed` names fields the study's state no longer lets change, with the sentence shown beside them (they stay read-only). */
+export function StudyFields({ values, errors, fixed = {} }: { values: Partial<StudyFieldValues>; errors: FieldErrors; fixed?: Partial<Record<"replicatesPerCell" | "significanceLevel", string>> }) {
   return (
     <div className="grid gap-4 md:grid-cols-2">
       <Field label="Study code" name="code" defaultValue={values.code} error={errors.code} hint="Letters, digits and hyphens, e.g. FF-2027-A" required />
@@ -30,6 +31,8 @@ export function StudyFields({ values, errors }: { values: Partial<StudyFieldValu
         max={10}
         defaultValue={values.replicatesPerCell}
         error={errors.replicatesPerCell}
+        readOnly={Boolean(fixed.replicatesPerCell)}
+        hint={fixed.replicatesPerCell}
         required
       />
       <Field
@@ -38,7 +41,8 @@ export function StudyFields({ values, errors }: { values: Partial<StudyFieldValu
         inputMode="decimal"
         defaultValue={values.significanceLevel}
         error={errors.significanceLevel}
-        hint="E691 uses 0.005"
+        readOnly={Boolean(fixed.significanceLevel)}
+        hint={fixed.significanceLevel ?? "E691 uses 0.005"}
         required
       />
       <SelectField

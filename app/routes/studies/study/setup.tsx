@@ -11,7 +11,8 @@ import { notFound } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
 import { freshTargetsSchema, materialSchema, personSchema, responseSchema, studyFields, transitionSchema } from "~/lib/study-forms";
 import { useSchemaCheck } from "~/lib/use-schema-check";
-import { allowedNextStates } from "~/lib/study-lifecycle";
+import { allowedNextStates, MOVE_CONSEQUENCES } from "~/lib/study-lifecycle";
+import { ConfirmStep } from "~/components/confirm-dialog";
 import { mayWrite, writeRefusal } from "~/lib/write-rules";
 import { STATE_LABEL } from "~/lib/state-labels";
 import { readUploadForm } from "~/server/upload-form.server";
@@ -173,8 +174,8 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
         {moves.length > 0 && (
           <Card title="Study state">
             <p className="mb-3">
-              Now: <Badge>{STATE_LABEL[study.state]}</Badge>. Results can be entered only while the study is testing; responses and materials are fixed
-              once testing starts.
+              Now: <Badge>{STATE_LABEL[study.state]}</Badge>. Results can be entered only while the study is testing; replicates, responses, materials
+              and the protocol are fixed once testing starts. Sending to the committee and publishing happen on the statement page.
             </p>
             {transition.errors.to && <Notice tone="error">{transition.errors.to}</Notice>}
             <div className="mt-3 flex flex-wrap gap-4">
@@ -182,9 +183,22 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
                 <Form key={move.to} method="post" className="flex max-w-sm flex-col gap-1">
                   <input type="hidden" name="intent" value="transition" />
                   <input type="hidden" name="to" value={move.to} />
-                  <Button type="submit" variant={move.to === "cancelled" ? "danger" : "primary"} disabled={busy || !move.allowed}>
-                    {MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}
-                  </Button>
+                  <ConfirmStep
+                    label={MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}
+                    title={`${MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}?`}
+                    consequences={
+                      <>
+                        <p>{MOVE_CONSEQUENCES[move.to]}</p>
+                        {move.warnings.map((w) => (
+                          <p key={w}>{w}</p>
+                        ))}
+                        <p>This cannot be undone from this page.</p>
+                      </>
+                    }
+                    confirmLabel={MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}
+                    variant={move.to === "cancelled" ? "danger" : "primary"}
+                    disabled={busy || !move.allowed}
+                  />
                   {[...move.problems, ...move.warnings].map((p) => (
                     <p key={p} className="text-sm text-basalt-700">
                       {p}
@@ -197,10 +211,15 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
         )}
 
         <Card title="Study details">
-          {canEdit ? (
+          {canEdit && writeRefusal("details", study.state) && <p className="mb-3 text-basalt-700">{writeRefusal("details", study.state)}</p>}
+          {canEdit && mayWrite("details", study.state) ? (
             <Form method="post" className="flex flex-col gap-4" onSubmit={detailsCheck.onSubmit} noValidate>
               <input type="hidden" name="intent" value="study" />
-              <StudyFields values={studyValues} errors={detailsCheck.errors} />
+              <StudyFields
+                values={studyValues}
+                errors={detailsCheck.errors}
+                fixed={{ replicatesPerCell: writeRefusal("design", study.state) ?? undefined, significanceLevel: writeRefusal("analysisSettings", study.state) ?? undefined }}
+              />
               <div>
                 <Button type="submit" disabled={busy}>
                   Save details
@@ -240,6 +259,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
             ]}
           />
           {errorsOf("response-remove").form && <Notice tone="error">{errorsOf("response-remove").form}</Notice>}
+          {canEdit && !editable && <p className="mt-3 text-basalt-700">{writeRefusal("design", study.state)}</p>}
           {editable && (
             <Form method="post" className="mt-4 grid gap-4 border-t border-basalt-100 pt-4 md:grid-cols-3" onSubmit={responseCheck.onSubmit} noValidate>
               <input type="hidden" name="intent" value="response-add" />
@@ -273,6 +293,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
             Slump: {slump ? `${slump.target} ± ${slump.tolerance} mm (${round(mmToIn(slump.target), 2)} ± ${round(mmToIn(slump.tolerance), 2)} in)` : "no target"}. Air
             content: {air ? `${air.target} ± ${air.tolerance} %` : "no target"}.
           </p>
+          {canEdit && !editable && <p className="mt-3 text-basalt-700">{writeRefusal("design", study.state)}</p>}
           {editable && (
             <Form method="post" className="grid gap-4 md:grid-cols-3">
               <input type="hidden" name="intent" value="targets" />
@@ -324,7 +345,8 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
             )}
           </p>
           {protocol.done && <Notice tone="success">{protocol.done}</Notice>}
-          {canEdit && (
+          {canEdit && writeRefusal("protocol", study.state) && <p className="text-basalt-700">{writeRefusal("protocol", study.state)}</p>}
+          {canEdit && mayWrite("protocol", study.state) && (
             <Form method="post" encType="multipart/form-data" className="flex flex-wrap items-end gap-4">
               <Field label="Protocol (PDF, up to 10 MB)" name="protocol" type="file" accept="application/pdf" error={protocol.errors.protocol} />
               <Button type="submit" disabled={busy}>
@@ -339,7 +361,8 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
             title="Coordinators"
             kind="coordinator"
             people={[{ ...setup.owner, owner: true }, ...setup.coordinators.map((p) => ({ ...p, owner: false }))]}
-            canChange={isOwner}
+            canChange={isOwner && mayWrite("coordinators", study.state)}
+            fixedBecause={isOwner ? writeRefusal("coordinators", study.state) : null}
             result={resultOf(actionData, "coordinator-add")}
             busy={busy}
           />
@@ -347,7 +370,8 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
             title="Committee reviewers"
             kind="reviewer"
             people={setup.reviewers.map((p) => ({ ...p, owner: false }))}
-            canChange={isOwner}
+            canChange={isOwner && mayWrite("reviewers", study.state)}
+            fixedBecause={isOwner ? writeRefusal("reviewers", study.state) : null}
             result={resultOf(actionData, "reviewer-add")}
             busy={busy}
           />
@@ -377,6 +401,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
                 : []),
             ]}
           />
+          {canEdit && !editable && <p className="mt-3 text-basalt-700">{writeRefusal("design", study.state)}</p>}
           {editable && (
             <Form method="post" className="mt-4 grid gap-4 border-t border-basalt-100 pt-4 md:grid-cols-3">
               <input type="hidden" name="intent" value="material-add" />
@@ -408,6 +433,7 @@ function PeopleCard({
   kind,
   people,
   canChange,
+  fixedBecause,
   result,
   busy,
 }: {
@@ -415,12 +441,15 @@ function PeopleCard({
   kind: "coordinator" | "reviewer";
   people: { id: number; name: string; email: string; owner: boolean }[];
   canChange: boolean;
+  /** Why the list cannot change in the study's state (~/lib/write-rules), shown instead of the controls. */
+  fixedBecause: string | null;
   result: ReturnType<typeof formState>;
   busy: boolean;
 }) {
   return (
     <Card title={title}>
       {result.done && <Notice tone="success">{result.done}</Notice>}
+      {fixedBecause && <p className="mb-3 text-basalt-700">{fixedBecause}</p>}
       <ul className="mb-3 flex flex-col gap-2">
         {people.length === 0 && <li>Nobody yet.</li>}
         {people.map((p) => (
