@@ -104,6 +104,16 @@ export async function updateStatementText(study: Study, actorUserId: number, sta
   return statement;
 }
 
+/** The study's reviewers by name, for choosing the chair of a round. */
+export async function reviewersByName(studyId: number) {
+  return db
+    .select({ id: users.id, name: users.name })
+    .from(studyReviewers)
+    .innerJoin(users, eq(users.id, studyReviewers.userId))
+    .where(eq(studyReviewers.studyId, studyId))
+    .orderBy(asc(users.name));
+}
+
 export async function studyReviewerIds(studyId: number) {
   return (await db.select({ id: studyReviewers.userId }).from(studyReviewers).where(eq(studyReviewers.studyId, studyId))).map((r) => r.id);
 }

@@ -10,9 +10,10 @@ import { type FieldErrors, parseForm } from "~/lib/forms";
 import { requireStudy } from "~/server/study-context.server";
 import { writeRefusal } from "~/lib/write-rules";
 import { STATE_LABEL } from "~/lib/state-labels";
+import { OBJECTION_STAGE_TEXT, QUORUM_SENTENCE } from "~/lib/review/publication";
 import { addComment, castVote, commentsOn, replyToAnswer, ReviewError, ruleOnObjection } from "~/models/review.server";
 import { studyAnalysis } from "~/models/analysis.server";
-import { listStatements, publicationStatus, studyDesign, votesOn } from "~/models/statement.server";
+import { listStatements, publicationStatus, reviewersByName, studyDesign, votesOn } from "~/models/statement.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Review · ${data?.study.code ?? "Study"} · Ringbatch` }];
 
@@ -38,7 +39,7 @@ export async function loader({ context }: Route.LoaderArgs) {
     },
     votes: roundVotes.map(({ reviewerId, ...v }) => ({ ...v, ruleable: isChair && reviewerId !== user.id && v.stage === "awaiting_ruling" })),
     own: own && { choice: own.choice, reason: own.reason, stage: own.stage, answerRationale: own.answerRationale },
-    round: publication.round && { chair: roundVotes.find((v) => v.reviewerId === publication.round!.chairId)?.reviewer ?? null, isChair, reviewers: publication.round.reviewerIds.length },
+    round: publication.round && { chair: (await reviewersByName(study.id)).find((r) => r.id === publication.round!.chairId)?.name ?? null, isChair, reviewers: publication.round.reviewerIds.length },
     tally: publication.check.tally,
     comments,
     refusal: statement?.state === "in_review" ? writeRefusal("review", study.state) : "The round is closed.",
@@ -111,7 +112,8 @@ const CHOICES = [
 ] as const;
 
 export default function ReviewStudy({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, statement, current, votes, own, comments, refusal } = loaderData;
+  const { study, statement, current, votes, own, comments, refusal, round, tally } = loaderData;
+  const awaitingReply = own?.stage === "awaiting_objector";
   const outcome = actionData as ActionResult | undefined;
   const failed = outcome?.errors ? outcome : null;
   return (
@@ -165,9 +167,35 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
                   {own.reason && <> — “{own.reason}”</>}.
                 </p>
               )}
+              {own?.stage && <p className="mb-3 text-basalt-700">Your objection: {OBJECTION_STAGE_TEXT[own.stage]}.</p>}
+              {!refusal && awaitingReply && (
+                <Form method="post" className="mb-4 flex flex-col gap-3 rounded border border-ochre-300 p-3">
+                  <input type="hidden" name="intent" value="reply" />
+                  <p>
+                    The coordinator answered your objection <strong>not upheld</strong>: “{own?.answerRationale}”. Withdraw the objection, or maintain it
+                    and the chair{round?.chair ? ` (${round.chair})` : ""} will rule on it.
+                  </p>
+                  <fieldset>
+                    <legend className="font-semibold text-basalt-800">Your reply</legend>
+                    <div className="flex flex-wrap gap-4">
+                      <label className="inline-flex min-h-11 items-center gap-2">
+                        <input type="radio" name="reply" value="withdrawn" className="size-5" defaultChecked={failed?.values?.reply === "withdrawn"} /> Withdraw my objection
+                      </label>
+                      <label className="inline-flex min-h-11 items-center gap-2">
+                        <input type="radio" name="reply" value="maintained" className="size-5" defaultChecked={failed?.values?.reply === "maintained"} /> Maintain it
+                      </label>
+                    </div>
+                    {failed?.intent === "reply" && failed.errors?.reply && <p className="text-sm font-semibold text-signal-700">{failed.errors.reply}</p>}
+                  </fieldset>
+                  <TextAreaField name="note" label="Note" hint="Required when you maintain the objection." error={failed?.intent === "reply" ? failed.errors?.note : undefined} defaultValue={failed?.intent === "reply" ? failed.values?.note : ""} />
+                  <div>
+                    <Button type="submit">Send my reply</Button>
+                  </div>
+                </Form>
+              )}
               {refusal ? (
                 <p>{refusal}</p>
-              ) : (
+              ) : own?.stage && own.stage !== "awaiting_answer" ? null : (
                 <Form method="post" className="flex flex-col gap-3">
                   <input type="hidden" name="intent" value="vote" />
                   <fieldset aria-describedby={failed?.errors?.choice ? "field-choice-error" : undefined}>
@@ -194,6 +222,10 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
               )}
             </Card>
             <Card title="Votes and answers">
+              {round && <p className="mb-2">Chair of this round: {round.chair ?? "—"}. {QUORUM_SENTENCE}</p>}
+              <p className="mb-3" data-testid="tally">
+                Tally: {tally.voted} of {tally.reviewers} reviewers voted · {tally.approve} approve · {tally.object} object · {tally.abstain} abstain
+              </p>
               {votes.length === 0 ? (
                 <p>No vote yet.</p>
               ) : (
@@ -206,6 +238,44 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
                         <p className="mt-1">
                           Coordinator's answer: <strong>{v.answer === "upheld" ? "upheld" : "not upheld"}</strong> — {v.answerRationale}
                         </p>
+                      )}
+                      {v.objectorReply && (
+                        <p className="mt-1">
+                          {v.reviewer} {v.objectorReply === "withdrawn" ? "withdrew" : "maintains"} the objection{v.objectorReplyNote && <> — “{v.objectorReplyNote}”</>}
+                        </p>
+                      )}
+                      {v.ruling && (
+                        <p className="mt-1">
+                          Chair's ruling: <strong>{v.ruling === "upheld" ? "upheld" : "not upheld"}</strong> — {v.rulingReason}
+                        </p>
+                      )}
+                      {v.stage && <p className="mt-1 text-sm text-basalt-700">{OBJECTION_STAGE_TEXT[v.stage]}</p>}
+                      {v.ruleable && !refusal && (
+                        <Form method="post" className="mt-3 flex flex-col gap-3">
+                          <input type="hidden" name="intent" value="rule" />
+                          <input type="hidden" name="voteId" value={v.id} />
+                          <fieldset>
+                            <legend className="font-semibold text-basalt-800">Your ruling as chair on {v.reviewer}'s maintained objection</legend>
+                            <div className="flex flex-wrap gap-4">
+                              <label className="inline-flex min-h-11 items-center gap-2">
+                                <input type="radio" name="ruling" value="upheld" className="size-5" /> Upheld (the statement goes back for revision)
+                              </label>
+                              <label className="inline-flex min-h-11 items-center gap-2">
+                                <input type="radio" name="ruling" value="not_upheld" className="size-5" /> Not upheld
+                              </label>
+                            </div>
+                            {failed?.values?.voteId === String(v.id) && failed.errors?.ruling && <p className="text-sm font-semibold text-signal-700">{failed.errors.ruling}</p>}
+                          </fieldset>
+                          <TextAreaField
+                            name="reason"
+                            label="Reason for the ruling (recorded and shown to the committee)"
+                            error={failed?.values?.voteId === String(v.id) ? failed.errors?.reason : undefined}
+                            defaultValue={failed?.values?.voteId === String(v.id) ? failed.values.reason : ""}
+                          />
+                          <div>
+                            <Button type="submit">Record the ruling</Button>
+                          </div>
+                        </Form>
                       )}
                     </li>
                   ))}

@@ -3,13 +3,14 @@ import { z } from "zod";
 import type { Route } from "./+types/statement";
 import { PrecisionSummaryTable } from "~/components/precision-tables";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
-import { Badge, Button, Card, Notice, PageHeader, SimpleTable, TextAreaField } from "~/components/ui";
+import { Badge, Button, Card, Notice, PageHeader, SelectField, SimpleTable, TextAreaField } from "~/components/ui";
 import { type ActionResult, refused } from "~/lib/form-results";
 import { type FieldErrors, parseForm } from "~/lib/forms";
 import { notFound } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
 import { writeRefusal } from "~/lib/write-rules";
 import { STATE_LABEL } from "~/lib/state-labels";
+import { MOVE_CONSEQUENCES } from "~/lib/study-lifecycle";
 import {
   answerObjection,
   freezeStatement,
@@ -19,8 +20,11 @@ import {
   sendToReview,
   StatementError,
   updateStatementText,
+  reviewersByName,
   votesOn,
 } from "~/models/statement.server";
+import { ConfirmStep } from "~/components/confirm-dialog";
+import { OBJECTION_STAGE_TEXT, QUORUM_SENTENCE } from "~/lib/review/publication";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Statement · ${data?.study.code ?? "Study"} · Ringbatch` }];
 
@@ -28,13 +32,15 @@ export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireStudy(context, ["coordinator", "admin"]);
   const statements = await listStatements(study.id);
   const latest = statements[0] ?? null;
-  const [roundVotes, publication] = await Promise.all([latest ? votesOn(latest.id) : [], publicationStatus(study.id)]);
+  const [roundVotes, publication, reviewers] = await Promise.all([latest ? votesOn(latest.id) : [], publicationStatus(study.id), reviewersByName(study.id)]);
   return {
     study: { id: study.id, code: study.code, title: study.title, state: study.state, dataVersion: study.dataVersion },
     latest,
     earlier: statements.slice(1).map(({ id, version, state, dataVersion, createdAt }) => ({ id, version, state, dataVersion, createdAt: createdAt.toISOString() })),
     votes: roundVotes,
     publication: publication.check,
+    chair: publication.round ? (reviewers.find((r) => r.id === publication.round!.chairId)?.name ?? null) : null,
+    reviewers,
     draftingRefusal: writeRefusal("statements", study.state),
     reviewRefusal: writeRefusal("review", study.state),
   };
@@ -162,10 +168,30 @@ export default function StatementPage({ loaderData, actionData }: Route.Componen
                 <StatementTexts textE691={latest.textE691} textC670={latest.textC670} />
               )}
               {latest.state === "draft" && !loaderData.draftingRefusal && (
-                <Form method="post" className="mt-4">
+                <Form method="post" className="mt-4 flex flex-col gap-3">
                   <input type="hidden" name="intent" value="send" />
                   <input type="hidden" name="statementId" value={latest.id} />
-                  <Button type="submit">Send version {latest.version} to the committee</Button>
+                  <SelectField
+                    label="Chair of the round (rules on objections maintained after your answer)"
+                    name="chairId"
+                    defaultValue={failed?.values?.chairId ?? ""}
+                    error={failed?.errors?.chairId}
+                    options={[{ value: "", label: "Choose a reviewer" }, ...loaderData.reviewers.map((r) => ({ value: String(r.id), label: r.name }))]}
+                  />
+                  <div>
+                    <ConfirmStep
+                      label={`Send version ${latest.version} to the committee`}
+                      title={`Send version ${latest.version} to the committee?`}
+                      consequences={
+                        <>
+                          <p>{MOVE_CONSEQUENCES.in_review}</p>
+                          <p>Reviewers of this round: {loaderData.reviewers.map((r) => r.name).join(", ") || "none yet"}.</p>
+                          <p>{QUORUM_SENTENCE}</p>
+                        </>
+                      }
+                      confirmLabel="Send to the committee"
+                    />
+                  </div>
                 </Form>
               )}
             </Card>
@@ -198,8 +224,15 @@ type LoaderData = Route.ComponentProps["loaderData"];
 
 function Round({ loaderData, failed, votes, publication }: { loaderData: LoaderData; failed: ActionResult | null; votes: LoaderData["votes"]; publication: LoaderData["publication"] }) {
   const canAnswer = !loaderData.reviewRefusal && loaderData.latest?.state === "in_review";
+  const tally = publication.tally;
   return (
     <Card title="Committee round">
+      {loaderData.chair && <p className="mb-2">Chair: {loaderData.chair}.</p>}
+      <p className="mb-2 text-basalt-700">{QUORUM_SENTENCE}</p>
+      <p className="mb-3" data-testid="tally">
+        Tally: {tally.voted} of {tally.reviewers} reviewers voted · {tally.approve} approve · {tally.object} object · {tally.abstain} abstain
+        {tally.withdrawn > 0 && <> (of which {tally.withdrawn} withdrawn objections)</>}
+      </p>
       {votes.length === 0 ? (
         <p>No vote yet.</p>
       ) : (
@@ -215,6 +248,17 @@ function Round({ loaderData, failed, votes, publication }: { loaderData: LoaderD
                   Answer: <strong>{v.answer === "upheld" ? "upheld" : "not upheld"}</strong> — {v.answerRationale}
                 </p>
               )}
+              {v.objectorReply && (
+                <p className="mt-1">
+                  {v.reviewer} {v.objectorReply === "withdrawn" ? "withdrew" : "maintains"} the objection{v.objectorReplyNote && <> — “{v.objectorReplyNote}”</>}
+                </p>
+              )}
+              {v.ruling && (
+                <p className="mt-1">
+                  Chair's ruling: <strong>{v.ruling === "upheld" ? "upheld" : "not upheld"}</strong> — {v.rulingReason}
+                </p>
+              )}
+              {v.stage && <p className="mt-1 text-sm text-basalt-700">{OBJECTION_STAGE_TEXT[v.stage]}</p>}
               {v.choice === "object" && !v.answer && canAnswer && (
                 <Form method="post" className="mt-3 flex flex-col gap-3">
                   <input type="hidden" name="intent" value="answer" />
@@ -259,9 +303,20 @@ function Round({ loaderData, failed, votes, publication }: { loaderData: LoaderD
           )}
           <Form method="post">
             <input type="hidden" name="intent" value="publish" />
-            <Button type="submit" disabled={!publication.allowed}>
-              Publish the study
-            </Button>
+            <ConfirmStep
+              label="Publish the study"
+              title="Publish the study?"
+              consequences={
+                <>
+                  <p>{MOVE_CONSEQUENCES.published}</p>
+                  <p>
+                    Tally: {tally.approve} approve, {tally.object} object, {tally.abstain} abstain of {tally.reviewers} reviewers.
+                  </p>
+                </>
+              }
+              confirmLabel="Publish"
+              disabled={!publication.allowed}
+            />
           </Form>
         </div>
       )}
