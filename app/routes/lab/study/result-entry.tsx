@@ -341,6 +341,31 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
           </div>
         </Card>
 
+        {locked && (editable || loaderData.correctable.length > 0) && (
+          <Card title="Amend fresh properties">
+            <p className="mb-3 text-basalt-700">The results of {material.code} are submitted: a corrected reading needs its reason, which the coordinator sees in the audit trail.</p>
+            {reply?.intent === "amend-fresh" && reply.amended && <Notice tone="success">Fresh properties amended.</Notice>}
+            <Form method="post" className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
+              <input type="hidden" name="intent" value="amend-fresh" />
+              {FRESH_PROPERTY_NAMES.map((property) => (
+                <Field
+                  key={property}
+                  label={`${FRESH_FIELDS[property].label} (${FRESH_FIELDS[property].unit})`}
+                  name={property}
+                  id={`amend-fresh-${property}`}
+                  inputMode="decimal"
+                  defaultValue={loaderData.draft.fresh[property] ?? ""}
+                  error={reply?.intent === "amend-fresh" ? reply.problems?.[property] : undefined}
+                />
+              ))}
+              <Field label="Reason for the change" name="reason" id="amend-fresh-reason" error={reply?.intent === "amend-fresh" ? reply.problems?.reason : undefined} />
+              <div className="self-end">
+                <Button type="submit">Record the amendment</Button>
+              </div>
+            </Form>
+          </Card>
+        )}
+
         <Card title={locked ? "Submitted results" : "Results per replicate"}>
           {locked ? (
             <SubmittedResults responses={responses} replicates={replicates} values={loaderData.submittedValues} reply={reply} editable={editable} correctable={loaderData.correctable} photos={photos} />

@@ -13,6 +13,7 @@ import { type CellRef, cellKey, parseCellList, sameCell } from "~/lib/review/cel
 import { flaggedCells, flagStatistic, suggestedQuestion } from "~/lib/review/flags";
 import { ALPHA_LABEL, figureDecimals, formatFigure } from "~/lib/review/format";
 import { writeRefusal } from "~/lib/write-rules";
+import { ConfirmStep } from "~/components/confirm-dialog";
 import { STATE_LABEL } from "~/lib/state-labels";
 import { studyAnalysis, withdrawnLabCodes } from "~/models/analysis.server";
 import { QueryError, listStudyQueries, raiseQuery } from "~/models/coordinator-queries.server";
@@ -341,6 +342,10 @@ function AskTheLab({ loaderData, actionData, cell, statistic }: { loaderData: Lo
         </label>
         <input id="field-statistic" name="statistic" defaultValue={failed?.values.statistic ?? statistic} className="min-h-11 rounded-md border border-basalt-200 bg-white px-3 py-2" />
       </div>
+      <label className="inline-flex min-h-11 items-center gap-2">
+        <input type="checkbox" name="asksCorrection" className="size-5" defaultChecked={failed?.values.asksCorrection === "on"} />
+        Ask the lab to correct this cell if it finds a recording error (it may amend this cell, with a reason, until you close the query)
+      </label>
       <TextAreaField name="question" label="Question to the lab" error={failed?.errors.question} defaultValue={failed?.values.question ?? suggestedQuestion(cell, statistic || "see the attached statistic")} />
       <div>
         <Button type="submit" disabled={navigation.state === "submitting"}>
@@ -425,7 +430,22 @@ function DecisionForm({
         )}
       </div>
       <div>
-        <Button type="submit">Save decision</Button>
+        {choice === "excluded" && !currentlyExcluded ? (
+          <ConfirmStep
+            label="Save decision"
+            title={`Exclude lab ${cell.lab}, ${cell.material}, ${cell.response}?`}
+            consequences={
+              <>
+                <p>The cell leaves the precision figures; the before-and-after figures are shown on this page. The reason is kept with the decision and shown to the committee.</p>
+                <p>An excluded cell is reported in the statement as left out.</p>
+              </>
+            }
+            confirmLabel="Exclude the cell"
+            variant="danger"
+          />
+        ) : (
+          <Button type="submit">Save decision</Button>
+        )}
       </div>
     </Form>
   );

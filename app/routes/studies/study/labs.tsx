@@ -7,6 +7,7 @@ import { type ActionResult, formState, handleForm, refused } from "~/lib/form-re
 import { requireStudy } from "~/server/study-context.server";
 import { RECOMMENDED_MIN_LABS } from "~/lib/study-lifecycle";
 import { mayWrite } from "~/lib/write-rules";
+import { ConfirmStep } from "~/components/confirm-dialog";
 import { withdrawalSchema } from "~/lib/study-forms";
 import { STATE_LABEL } from "~/lib/state-labels";
 import { useSchemaCheck } from "~/lib/use-schema-check";
@@ -150,9 +151,19 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
               />
               <TextAreaField label="Reason" name="reason" rows={2} defaultValue={withdrawal.values.reason} error={withdrawalCheck.errors.reason} />
               <div>
-                <Button type="submit" variant="secondary" disabled={busy}>
-                  Withdraw the lab
-                </Button>
+                <ConfirmStep
+                  label="Withdraw the lab"
+                  title="Withdraw the lab from the study?"
+                  consequences={
+                    <>
+                      <p>The lab can no longer enter or change results, and its pending invitation stops working.</p>
+                      <p>Its results are kept for the record but leave the analysis. This cannot be undone.</p>
+                    </>
+                  }
+                  confirmLabel="Withdraw the lab"
+                  variant="danger"
+                  disabled={busy}
+                />
               </div>
             </Form>
           </Card>
