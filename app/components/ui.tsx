@@ -110,7 +110,8 @@ export function TextAreaField({
   rows = 4,
   ...textarea
 }: ComponentProps<"textarea"> & { label: string; name: string; error?: string; hint?: string }) {
-  const id = `field-${name}`;
+  // A page with several forms using one field name gives each its own id, so every label names its own box.
+  const id = textarea.id ?? `field-${name}`;
   return (
     <FieldFrame id={id} label={label} hint={hint} error={error}>
       <textarea {...controlProps(id, name, error, hint)} rows={rows} className={`rounded-md border bg-white px-3 py-2 ${borderFor(error)}`} {...textarea} />

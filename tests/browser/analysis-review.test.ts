@@ -57,7 +57,7 @@ describe("from the checking study to a published statement, in the browser", () 
     const preview = coordinator.getByRole("table", { name: "Figures of this material and response before and after the decision" });
     await expect.poll(() => preview.getByRole("row").filter({ hasText: "Labs p" }).textContent()).toMatch(/87/);
     await expectAccessible(coordinator);
-    await coordinator.getByLabel("Reason").fill("The lab confirmed a counting error (assignable cause).");
+    await coordinator.getByLabel("Reason", { exact: true }).fill("The lab confirmed a counting error (assignable cause).");
     await coordinator.getByRole("button", { name: "Save decision" }).click();
     await coordinator.getByRole("dialog").getByRole("button", { name: "Exclude the cell" }).click();
     await coordinator.getByText(/Cell L08:M2:surface excluded/).waitFor();

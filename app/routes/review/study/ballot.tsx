@@ -214,7 +214,7 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
                       </p>
                     )}
                   </fieldset>
-                  <TextAreaField name="reason" label="Reason" hint="Required when you object." error={failed?.errors?.reason} defaultValue={failed?.values?.reason ?? own?.reason ?? ""} />
+                  <TextAreaField name="reason" label="Reason" hint="Required when you object." error={failed?.intent === "vote" ? failed.errors?.reason : undefined} defaultValue={failed?.values?.reason ?? own?.reason ?? ""} />
                   <div>
                     <Button type="submit">Record my vote</Button>
                   </div>
@@ -268,8 +268,9 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
                           </fieldset>
                           <TextAreaField
                             name="reason"
+                            id={`ruling-reason-${v.id}`}
                             label="Reason for the ruling (recorded and shown to the committee)"
-                            error={failed?.values?.voteId === String(v.id) ? failed.errors?.reason : undefined}
+                            error={failed?.intent === "rule" && failed.values?.voteId === String(v.id) ? failed.errors?.reason : undefined}
                             defaultValue={failed?.values?.voteId === String(v.id) ? failed.values.reason : ""}
                           />
                           <div>

@@ -277,6 +277,7 @@ function Round({ loaderData, failed, votes, publication }: { loaderData: LoaderD
                   </fieldset>
                   <TextAreaField
                     name="rationale"
+                    id={`rationale-${v.id}`}
                     label="Rationale (shown to every reviewer)"
                     error={failed?.values?.voteId === String(v.id) ? failed.errors?.rationale : undefined}
                     defaultValue={failed?.values?.voteId === String(v.id) ? failed.values.rationale : ""}
