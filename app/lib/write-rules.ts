@@ -42,7 +42,7 @@ export const WRITE_RULES: Record<WriteKind, Rule> = {
   protocol: { what: "Protocol document", open: ["draft", "recruiting"], closed: "The protocol is fixed once testing starts; labs test to the version they received." },
   coordinators: { what: "Co-coordinators", open: ["draft", "recruiting", "testing", "checking", "in_review"], closed: "" },
   reviewers: { what: "Committee reviewers", open: BEFORE_REVIEW, closed: "The committee of a round is fixed while the statement is in review." },
-  invitations: { what: "Invitations to labs", open: ["recruiting"], closed: "Labs are invited only while the study is recruiting." },
+  invitations: { what: "Invitations to labs", open: ["recruiting"], closed: "Labs can be invited only while the study is recruiting." },
   withdrawals: { what: "Withdrawing a lab", open: ["recruiting", "testing", "checking"], closed: "A lab can be withdrawn only while the study is recruiting, testing or being checked." },
   shipments: { what: "Shipments of materials", open: ["recruiting", "testing"], closed: "Shipments are prepared and sent only while the study is recruiting or testing." },
   receipts: { what: "Receipts of materials", open: ["recruiting", "testing"], closed: "Receipts are confirmed or corrected only while the study is recruiting or testing." },
