@@ -1,9 +1,9 @@
 /**
- * `node server.js` serves Ringbatch on PORT. With NODE_ENV=production it
- * serves the build in BUILD_DIR (default build/, default port 3000);
- * otherwise it runs Vite in middleware mode (default port 5173) and loads
- * the same server module (server/app.ts) through it, so headers, limits and
- * the request path are the same in development as in production.
+ * `node server.js` serves the build in BUILD_DIR (default build/) on PORT
+ * (default 3000). With NODE_ENV=development (`npm run dev`) it runs Vite in
+ * middleware mode instead (default port 5173) and loads the same server module
+ * (server/app.ts) through it, so headers, limits and the request path are the
+ * same in development as in production.
  */
 import { createServer } from "node:http";
 import { resolve } from "node:path";
@@ -11,14 +11,14 @@ import { pathToFileURL } from "node:url";
 import express from "express";
 import morgan from "morgan";
 
-const production = process.env.NODE_ENV === "production";
-const port = Number(process.env.PORT ?? (production ? 3000 : 5173));
+const development = process.env.NODE_ENV === "development";
+const port = Number(process.env.PORT ?? (development ? 5173 : 3000));
 const app = express();
 app.disable("x-powered-by");
 app.use(morgan("tiny"));
 
 let vite;
-if (production) {
+if (!development) {
   const buildDirectory = resolve(process.env.BUILD_DIR ?? "build");
   const { frontDoor, requestHandler } = await import(pathToFileURL(`${buildDirectory}/server/index.js`).href);
   app.use(frontDoor);
@@ -42,7 +42,7 @@ if (production) {
 }
 
 const server = createServer(app);
-server.listen(port, process.env.HOST, () => console.log(`Ringbatch (${production ? "production" : "development"}) on http://localhost:${port}`));
+server.listen(port, process.env.HOST, () => console.log(`Ringbatch (${development ? "development" : process.env.NODE_ENV === "production" ? "production" : "local"}) on http://localhost:${port}`));
 for (const signal of ["SIGTERM", "SIGINT"]) {
   process.once(signal, async () => {
     await vite?.close();

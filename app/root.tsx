@@ -4,6 +4,7 @@ import type { Route } from "./+types/root";
 import { AppHeader } from "~/components/app-header";
 import { getUser } from "~/server/guards.server";
 import { isForeignOrigin } from "~/server/origin-check.server";
+import { demoDataPresent } from "~/models/first-use.server";
 import { mailboxEnabled } from "~/models/mailbox.server";
 import { takeToast } from "~/server/toast.server";
 import { Notice } from "~/components/ui";
@@ -18,8 +19,8 @@ const guardRequests: Route.MiddlewareFunction = async ({ request }, next) => {
 export const middleware: Route.MiddlewareFunction[] = [guardRequests];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const [user, { toast, headers }] = await Promise.all([getUser(request), takeToast(request)]);
-  return data({ user: user && { name: user.name, role: user.role }, mailbox: mailboxEnabled(), toast }, { headers });
+  const [user, { toast, headers }, demo] = await Promise.all([getUser(request), takeToast(request), demoDataPresent()]);
+  return data({ user: user && { name: user.name, role: user.role }, mailbox: mailboxEnabled(), demo, toast }, { headers });
 }
 
 // The browser's icons and manifest, from public/ (drawn by scripts/make-icons.ts from the mark).
@@ -46,6 +47,12 @@ export function Layout({ children }: { children: React.ReactNode }) {
         <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 focus:rounded focus:bg-white focus:px-3 focus:py-2">
           Skip to content
         </a>
+        {rootData?.demo && (
+          <p role="note" className="bg-ochre-100 px-4 py-1 text-center text-sm text-basalt-900">
+            Demo data: the people, labs and results here are fictional, and the demo password is published. Do not enter
+            real results.
+          </p>
+        )}
         <AppHeader user={rootData?.user ?? null} mailbox={rootData?.mailbox ?? false} />
         <main id="main" className="mx-auto max-w-6xl px-4 py-8">
           {rootData?.toast && (

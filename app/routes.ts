@@ -13,6 +13,7 @@ export default [
   route("logout", "routes/auth/logout.tsx"),
   route("invite/:token", "routes/auth/invite.tsx"),
   route("welcome/:token", "routes/auth/welcome.tsx"),
+  route("setup/:token", "routes/auth/setup.tsx"),
   route("account", "routes/account.tsx"),
 
   // Coordinator (admins read)
@@ -33,10 +34,28 @@ export default [
     ]),
   ]),
 
+  // Proficiency rounds (coordinator; admins read)
+  ...prefix("rounds", [
+    index("routes/rounds/index.tsx"),
+    route("new", "routes/rounds/new.tsx"),
+    route(":roundId", "routes/rounds/round/layout.tsx", [
+      index("routes/rounds/round/overview.tsx"),
+      route("assigned-values", "routes/rounds/round/assigned-values.tsx"),
+      route("material-checks", "routes/rounds/round/material-checks.tsx"),
+      route("scores", "routes/rounds/round/scores.tsx"),
+      route("report", "routes/rounds/round/report.tsx"),
+    ]),
+  ]),
+
   // Lab analysts
   ...prefix("lab", [
     index("routes/lab/index.tsx"),
     route("queries", "routes/lab/queries.tsx"),
+    route("rounds", "routes/lab/rounds/index.tsx"),
+    route("rounds/:roundId", "routes/lab/rounds/round/layout.tsx", [
+      index("routes/lab/rounds/round/uncertainty.tsx"),
+      route("letter", "routes/lab/rounds/round/letter.tsx"),
+    ]),
     route("studies/:studyId", "routes/lab/study/layout.tsx", [
       index("routes/lab/study/tasks.tsx"),
       route("receipt", "routes/lab/study/receipt.tsx"),
@@ -58,6 +77,26 @@ export default [
   // Local stand-in for the e-mail provider
   ...prefix("dev/mailbox", [index("routes/dev/mailbox.tsx"), route(":messageId", "routes/dev/mailbox-message.tsx")]),
 
+  // Method toolkit: ruggedness screening before a study, mixture comparison after it, the bundle behind a published statement
+  ...prefix("ruggedness", [
+    index("routes/ruggedness/index.tsx"),
+    route("new", "routes/ruggedness/new.tsx"),
+    route(":ruggednessStudyId", "routes/ruggedness/study/layout.tsx", [
+      index("routes/ruggedness/study/factors.tsx"),
+      route("design", "routes/ruggedness/study/design.tsx"),
+      route("results", "routes/ruggedness/study/results.tsx"),
+      route("effects", "routes/ruggedness/study/effects.tsx"),
+      route("conclusions", "routes/ruggedness/study/conclusions.tsx"),
+    ]),
+  ]),
+  ...prefix("compare", [
+    index("routes/compare/index.tsx"),
+    route("new", "routes/compare/new.tsx"),
+    route(":comparisonId", "routes/compare/sheet.tsx"),
+  ]),
+  route("api/v1/studies/:studyId/bundle", "routes/api/v1/study-bundle-summary.ts"),
+  route("api/v1/studies/:studyId/bundle.zip", "routes/api/v1/study-bundle.ts"),
+
   // Resource routes: files, health, and the JSON API
   route("files/:fileId", "routes/files.ts"),
   route("healthz", "routes/healthz.ts"),
@@ -71,5 +110,8 @@ export default [
     route("studies/:studyId/progress", "routes/api/v1/study-progress.ts"),
     route("studies/:studyId/what-if", "routes/api/v1/study-what-if.ts"),
     route("enrollments/:enrollmentId/results", "routes/api/v1/enrollment-results.ts"),
+    route("rounds", "routes/api/v1/rounds.ts"),
+    route("rounds/:roundId", "routes/api/v1/round.ts"),
+    route("rounds/:roundId/scores", "routes/api/v1/round-scores.ts"),
   ]),
 ] satisfies RouteConfig;

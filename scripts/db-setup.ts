@@ -1,8 +1,6 @@
-/** Applies the migrations and seeds the demo scenario (idempotent). Run by `npm start`. */
-import { closeDatabase, databaseConfig, db, migrateDatabase } from "../app/db/client.server";
-import { seedDemo } from "../seed/seed";
+/** Applies the migrations (idempotent). Writes no accounts: `npm run db:seed` does the first use. */
+import { closeDatabase, databaseConfig, migrateDatabase } from "../app/db/client.server";
 
 await migrateDatabase();
-await seedDemo(db);
-console.log(`Database ready at ${databaseConfig().url} (migrations applied, demo data present).`);
+console.log(`Database ready at ${databaseConfig().url} (migrations applied).`);
 closeDatabase();

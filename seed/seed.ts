@@ -33,6 +33,8 @@ import {
   demoResults,
   FLOAT_FINISHING_RESPONSES,
 } from "./demo-data";
+import { seedDemoRounds } from "./rounds";
+import { seedToolkitDemo } from "./toolkit-demo";
 
 type StudySpec = {
   code: string;
@@ -222,4 +224,7 @@ export async function seedDemo(db: Database) {
       }
     });
   }
+  await seedToolkitDemo(db);
+  // The rounds take σ_pt from the toolkit's published study, so they come after it.
+  await seedDemoRounds(db, { coordinatorId, labIds, userId });
 }

@@ -12,7 +12,11 @@ import compression from "compression";
 import express from "express";
 import onHeaders from "on-headers";
 import { RouterContextProvider } from "react-router";
+import { assertDeploymentConfig, refuseBeforeReading } from "~/server/deployment.server";
 import { applySecurityHeaders, cspNonceContext, newCspNonce } from "~/server/security-headers.server";
+
+// A production start without APP_URL or SESSION_SECRET stops here, naming what is missing.
+assertDeploymentConfig();
 
 /** Express's "trust proxy" from TRUST_PROXY: unset trusts no proxy, a number counts hops, anything else names addresses or subnets. */
 function trustedProxies(value = process.env.TRUST_PROXY) {
@@ -37,6 +41,10 @@ frontDoor.use((_request, response, next) => {
   response.locals.cspNonce = nonce;
   onHeaders(response, () => applySecurityHeaders({ has: (name) => response.hasHeader(name), set: (name, value) => response.setHeader(name, value) }, nonce));
   next();
+});
+// An oversized body or a foreign Host is answered before anything reads the body.
+frontDoor.use((request, response, next) => {
+  if (!refuseBeforeReading(request, response)) next();
 });
 
 export const requestHandler = createRequestHandler({

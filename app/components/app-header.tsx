@@ -9,13 +9,26 @@ const NAV_BY_ROLE: Record<Role, { to: string; label: string }[]> = {
     { to: "/admin/users", label: "Users" },
     { to: "/admin/labs", label: "Labs" },
     { to: "/studies", label: "Studies" },
+    { to: "/rounds", label: "Rounds" },
   ],
   coordinator: [
     { to: "/studies", label: "Studies" },
     { to: "/studies/new", label: "New study" },
+    { to: "/rounds", label: "Rounds" },
   ],
-  analyst: [{ to: "/lab", label: "My lab" }],
+  analyst: [
+    { to: "/lab", label: "My lab" },
+    { to: "/lab/rounds", label: "Rounds" },
+  ],
   reviewer: [{ to: "/review", label: "Reviews" }],
+};
+
+/** The method toolkit: ruggedness studies for those who plan studies, mixture comparisons for everyone. */
+const TOOLKIT_NAV: Record<Role, { to: string; label: string }[]> = {
+  admin: [{ to: "/ruggedness", label: "Ruggedness" }, { to: "/compare", label: "Compare mixtures" }],
+  coordinator: [{ to: "/ruggedness", label: "Ruggedness" }, { to: "/compare", label: "Compare mixtures" }],
+  analyst: [{ to: "/compare", label: "Compare mixtures" }],
+  reviewer: [{ to: "/compare", label: "Compare mixtures" }],
 };
 
 const ROLE_LABEL: Record<Role, string> = {
@@ -29,7 +42,7 @@ const ROLE_LABEL: Record<Role, string> = {
 const MAILBOX_LINK = { to: "/dev/mailbox", label: "Mailbox" };
 
 export function AppHeader({ user, mailbox = false }: { user: HeaderUser | null; mailbox?: boolean }) {
-  const nav = user ? [...NAV_BY_ROLE[user.role], ...(mailbox && (user.role === "admin" || user.role === "coordinator") ? [MAILBOX_LINK] : [])] : [];
+  const nav = user ? [...NAV_BY_ROLE[user.role], ...TOOLKIT_NAV[user.role], ...(mailbox && (user.role === "admin" || user.role === "coordinator") ? [MAILBOX_LINK] : [])] : [];
   return (
     <header className="no-print bg-basalt-800 text-white">
       <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">

@@ -51,3 +51,32 @@ export function fieldProps(meta: FieldMetadata<unknown>) {
 export function FormErrors({ errors }: { errors?: string[] }) {
   return errors?.length ? <Notice tone="error">{errors.join(" ")}</Notice> : null;
 }
+
+/**
+ * Errors of the form as a whole: the schema's own, and a model's refusal of
+ * the whole form (a FieldRefusal on the field "form", such as "that shipment
+ * is not part of this study").
+ */
+export function formWideErrors(form: { errors?: string[]; allErrors: Record<string, string[]> }) {
+  return [...(form.errors ?? []), ...(form.allErrors.form ?? [])];
+}
+
+/**
+ * The messages of the last refusal of the button-only forms that post
+ * `intent` (remove, close, mark lost …): they have no field of their own to
+ * show a message beside, so the page shows it once near the buttons.
+ */
+export function refusalOf(reply: FormReply | unknown, intent: string): string[] {
+  const result = (reply as FormReply)?.result;
+  if (result?.initialValue?.intent !== intent) return [];
+  return Object.values(result.error ?? {}).flatMap((messages) => messages ?? []);
+}
+
+/**
+ * The action's last answer when it is about one row of a page with a form per
+ * row (its typed `name` is `value`), so only that row's form shows it.
+ */
+export function replyAbout(reply: FormReply | unknown, name: string, value: string | number): FormReply | undefined {
+  const typed = (reply as FormReply)?.result?.initialValue;
+  return typed?.[name] === String(value) ? (reply as FormReply) : undefined;
+}

@@ -4,8 +4,11 @@ import { Badge } from "~/components/ui";
 import type { StudyState } from "~/db/values";
 import { STATE_LABEL } from "~/lib/state-labels";
 
-/** What a study's child route tells the frame around it: the page's name in the title. */
-export type StudyPageHandle = { pageTitle: string };
+/**
+ * What a study's child route tells the frame around it: the page's name in the
+ * title, fixed ("Results") or read from the page's loader data ("Results of M2").
+ */
+export type StudyPageHandle<LoaderData = unknown> = { pageTitle: string | ((loaderData: LoaderData) => string) };
 
 export type StudyTab = { to: string; label: string; end?: boolean };
 
@@ -13,8 +16,10 @@ export type StudyTab = { to: string; label: string; end?: boolean };
 function usePageTitle() {
   const matches = useMatches();
   for (let i = matches.length - 1; i >= 0; i--) {
-    const handle = matches[i]!.handle as Partial<StudyPageHandle> | undefined;
-    if (handle?.pageTitle) return handle.pageTitle;
+    const { handle, loaderData } = matches[i]! as { handle?: Partial<StudyPageHandle>; loaderData?: unknown };
+    if (typeof handle?.pageTitle === "string") return handle.pageTitle;
+    // Without its data (an error page below) the page has no name to give.
+    if (handle?.pageTitle && loaderData !== undefined) return handle.pageTitle(loaderData);
   }
   return null;
 }
@@ -43,7 +48,7 @@ export function StudyFrame({
         </p>
       </div>
       {tabs.length > 1 && (
-        <nav aria-label="Study pages" className="mb-6 flex gap-1 overflow-x-auto border-b border-basalt-200 whitespace-nowrap">
+        <nav aria-label="Study pages" className="no-print mb-6 flex gap-1 overflow-x-auto border-b border-basalt-200 whitespace-nowrap">
           {tabs.map((tab) => (
             <NavLink
               key={tab.to}

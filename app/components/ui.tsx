@@ -110,7 +110,6 @@ export function TextAreaField({
   rows = 4,
   ...textarea
 }: ComponentProps<"textarea"> & { label: string; name: string; error?: string; hint?: string }) {
-  // A page with several forms using one field name gives each its own id, so every label names its own box.
   const id = textarea.id ?? `field-${name}`;
   return (
     <FieldFrame id={id} label={label} hint={hint} error={error}>

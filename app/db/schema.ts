@@ -14,7 +14,7 @@ import {
   text,
   uniqueIndex,
 } from "drizzle-orm/sqlite-core";
-import { ROLES, STUDY_KINDS, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES } from "./values";
+import { ROLES, STUDY_KINDS, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES, COMPARISON_SETTINGS, ASSIGNED_VALUE_METHODS, SIGMA_PT_METHODS, MATERIAL_CHECKS, SCORE_VERDICTS } from "./values";
 
 export * from "./values";
 
@@ -99,6 +99,9 @@ export const studies = sqliteTable("studies", {
   dataVersion: integer("data_version").notNull().default(0),
   createdAt: createdAt(),
 });
+
+/** A study's row, as every model and page reads it. */
+export type Study = typeof studies.$inferSelect;
 
 export const studyCoordinators = sqliteTable(
   "study_coordinators",
@@ -533,6 +536,8 @@ export const emailOutbox = sqliteTable("email_outbox", {
   html: text("html").notNull(),
   text: text("text").notNull(),
   transport: text("transport", { enum: ["fake", "resend"] }).notNull(),
+  /** The study the message is about, so the local mailbox shows a coordinator only their studies' mail. */
+  studyId: integer("study_id").references(() => studies.id, { onDelete: "set null" }),
   providerMessageId: text("provider_message_id"),
   error: text("error"),
   createdAt: createdAt(),
@@ -545,6 +550,8 @@ export const attachments = sqliteTable("attachments", {
   contentType: text("content_type").notNull(),
   sizeBytes: integer("size_bytes").notNull(),
   originalName: text("original_name").notNull(),
+  /** A small JPEG of an image (its hash under data/uploads), for the pages; null for PDFs. */
+  thumbnailSha256: text("thumbnail_sha256"),
   uploadedBy: integer("uploaded_by")
     .notNull()
     .references(() => users.id),
@@ -583,14 +590,220 @@ export const apiTokens = sqliteTable(
   (t) => [index("api_tokens_user").on(t.userId)],
 );
 
-/** Hits counted by the rate limiter (sign-in failures, invitation use, API calls). */
-export const rateLimitHits = sqliteTable(
-  "rate_limit_hits",
+/**
+ * Counters of the rate limits (sign-in failures, unknown links, API calls),
+ * in rate-limiter-flexible's Drizzle layout: one row per limit and key, kept
+ * in the database so every app instance counts together.
+ */
+export const rateLimits = sqliteTable("rate_limits", {
+  key: text("key").primaryKey(),
+  points: integer("points").notNull(),
+  expire: integer("expire", { mode: "timestamp_ms" }),
+});
+
+/** The one-time link that creates the first administrator of a database with no accounts (only its hash is kept). */
+export const setupLinks = sqliteTable("setup_links", {
+  id: integer("id").primaryKey({ autoIncrement: true }),
+  tokenHash: text("token_hash").notNull().unique(),
+  expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+  usedAt: integer("used_at", { mode: "timestamp_ms" }),
+  createdAt: createdAt(),
+});
+
+
+/**
+ * A ruggedness study's plan (a study of kind "ruggedness", ASTM E1169): the
+ * two-level design's size, how many results each run takes, and the run
+ * order drawn from a seed. Fixed once the first result is entered.
+ */
+export const ruggednessPlans = sqliteTable("ruggedness_plans", {
+  studyId: integer("study_id")
+    .primaryKey()
+    .references(() => studies.id, { onDelete: "cascade" }),
+  runs: integer("runs").notNull(),
+  replicates: integer("replicates").notNull(),
+  runOrderSeed: integer("run_order_seed").notNull(),
+  /** Design row numbers (1-based) in the order the runs are performed. */
+  runOrder: text("run_order", { mode: "json" }).notNull().$type<number[]>(),
+  createdAt: createdAt(),
+});
+
+/** One factor of a ruggedness study: its design column and its low and high settings (text, as the method words them). */
+export const ruggednessFactors = sqliteTable(
+  "ruggedness_factors",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    bucket: text("bucket").notNull(),
-    key: text("key").notNull(),
+    studyId: integer("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    column: integer("column").notNull(),
+    name: text("name").notNull(),
+    unit: text("unit").notNull().default(""),
+    low: text("low").notNull(),
+    high: text("high").notNull(),
+  },
+  (t) => [uniqueIndex("ruggedness_factors_study_column").on(t.studyId, t.column)],
+);
+
+/** One result of one run of a ruggedness study, per response and replicate. */
+export const ruggednessResults = sqliteTable(
+  "ruggedness_results",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    studyId: integer("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    /** design row number, 1-based */
+    run: integer("run").notNull(),
+    responseId: integer("response_id")
+      .notNull()
+      .references(() => responses.id, { onDelete: "cascade" }),
+    replicate: integer("replicate").notNull(),
+    value: real("value").notNull(),
+    enteredBy: integer("entered_by")
+      .notNull()
+      .references(() => users.id),
+    updatedAt: integer("updated_at", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [uniqueIndex("ruggedness_results_run_response_replicate").on(t.studyId, t.run, t.responseId, t.replicate)],
+);
+
+/**
+ * A person's comparison of two mixtures against a published precision
+ * statement (ISO 5725-6). Kept as entered with its outcome frozen, so the
+ * history shows what was concluded with the statement version used.
+ */
+export const comparisons = sqliteTable(
+  "comparisons",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    userId: integer("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    statementId: integer("statement_id")
+      .notNull()
+      .references(() => precisionStatements.id),
+    /** response key in the statement */
+    response: text("response").notNull(),
+    setting: text("setting", { enum: COMPARISON_SETTINGS }).notNull(),
+    referenceLabel: text("reference_label").notNull(),
+    trialLabel: text("trial_label").notNull(),
+    referenceValues: text("reference_values", { mode: "json" }).notNull().$type<number[]>(),
+    trialValues: text("trial_values", { mode: "json" }).notNull().$type<number[]>(),
+    notes: text("notes").notNull().default(""),
+    /** the computed comparison and acceptability checks as shown when it was made */
+    outcome: text("outcome", { mode: "json" }).notNull(),
     createdAt: createdAt(),
   },
-  (t) => [index("rate_limit_hits_bucket_key").on(t.bucket, t.key, t.createdAt)],
+  (t) => [index("comparisons_user").on(t.userId, t.createdAt)],
+);
+
+/**
+ * A proficiency round's settings (a study of kind "proficiency"): the
+ * published study it was set up from and that study's precision figures,
+ * copied when the round was created so later changes elsewhere cannot move
+ * a round's σ_pt.
+ */
+export const roundSettings = sqliteTable("round_settings", {
+  studyId: integer("study_id")
+    .primaryKey()
+    .references(() => studies.id, { onDelete: "cascade" }),
+  sourceStudyId: integer("source_study_id").references(() => studies.id),
+  /** JSON: the source study's code and its approved statement's frozen analysis (null without a source study). */
+  precision: text("precision", { mode: "json" }).notNull(),
+  /** JSON: the figures and every lab's scores as published; never changed afterwards. */
+  publishedReport: text("published_report", { mode: "json" }),
+  publishedAt: integer("published_at", { mode: "timestamp_ms" }),
+  publishedBy: integer("published_by").references(() => users.id),
+});
+
+/** The coordinator's choice of assigned value and σ_pt for one material × response of a round. */
+export const roundAssignments = sqliteTable(
+  "round_assignments",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    studyId: integer("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    materialId: integer("material_id")
+      .notNull()
+      .references(() => materials.id, { onDelete: "cascade" }),
+    responseId: integer("response_id")
+      .notNull()
+      .references(() => responses.id, { onDelete: "cascade" }),
+    assignedMethod: text("assigned_method", { enum: ASSIGNED_VALUE_METHODS }).notNull().default("consensus"),
+    referenceValue: real("reference_value"),
+    referenceUncertainty: real("reference_uncertainty"),
+    sigmaMethod: text("sigma_method", { enum: SIGMA_PT_METHODS }).notNull().default("precision"),
+    fixedSigma: real("fixed_sigma"),
+    /** Why scores may be published although the homogeneity or stability check fails. */
+    checkJustification: text("check_justification").notNull().default(""),
+    updatedBy: integer("updated_by").references(() => users.id),
+    updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [uniqueIndex("round_assignments_group").on(t.studyId, t.materialId, t.responseId)],
+);
+
+/** Homogeneity (two replicates per sample, before shipping) and stability (after the testing period) results of a round's material. */
+export const roundCheckResults = sqliteTable(
+  "round_check_results",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    studyId: integer("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    materialId: integer("material_id")
+      .notNull()
+      .references(() => materials.id, { onDelete: "cascade" }),
+    responseId: integer("response_id")
+      .notNull()
+      .references(() => responses.id, { onDelete: "cascade" }),
+    check: text("check", { enum: MATERIAL_CHECKS }).notNull(),
+    sample: integer("sample").notNull(),
+    replicate: integer("replicate").notNull(),
+    value: real("value").notNull(),
+  },
+  (t) => [uniqueIndex("round_check_results_value").on(t.materialId, t.responseId, t.check, t.sample, t.replicate)],
+);
+
+/** A lab's own standard uncertainty for its result, when it reports one (for ζ). */
+export const roundLabUncertainties = sqliteTable(
+  "round_lab_uncertainties",
+  {
+    enrollmentId: integer("enrollment_id")
+      .notNull()
+      .references(() => enrollments.id, { onDelete: "cascade" }),
+    materialId: integer("material_id")
+      .notNull()
+      .references(() => materials.id, { onDelete: "cascade" }),
+    responseId: integer("response_id")
+      .notNull()
+      .references(() => responses.id, { onDelete: "cascade" }),
+    standardUncertainty: real("standard_uncertainty").notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.enrollmentId, t.materialId, t.responseId] })],
+);
+
+/** Every lab's scores as published, one row per lab × material × response; the lab's history across rounds reads these. */
+export const roundScores = sqliteTable(
+  "round_scores",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    studyId: integer("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    labId: integer("lab_id")
+      .notNull()
+      .references(() => labs.id),
+    labCode: text("lab_code").notNull(),
+    materialCode: text("material_code").notNull(),
+    responseKey: text("response_key").notNull(),
+    result: real("result").notNull(),
+    scoreKind: text("score_kind", { enum: ["z", "z′"] }).notNull(),
+    score: real("score").notNull(),
+    zeta: real("zeta"),
+    verdict: text("verdict", { enum: SCORE_VERDICTS }).notNull(),
+    publishedAt: integer("published_at", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [index("round_scores_lab").on(t.labId, t.publishedAt), index("round_scores_study").on(t.studyId)],
 );

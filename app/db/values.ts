@@ -56,3 +56,20 @@ export const STATEMENT_STATES = ["draft", "in_review", "approved", "returned"] a
 export const VOTE_CHOICES = ["approve", "object", "abstain"] as const;
 
 export const API_SCOPES = ["results:write", "study:read"] as const;
+
+/** Where the two mixtures of a comparison were tested: in one lab (σ_r) or in two labs (σ_R and σ_r). */
+export const COMPARISON_SETTINGS = ["same-lab", "two-labs"] as const;
+
+/** Proficiency rounds: how an assigned value is set (ISO 13528 clause 7). */
+export const ASSIGNED_VALUE_METHODS = ["consensus", "reference"] as const;
+export type AssignedValueMethod = (typeof ASSIGNED_VALUE_METHODS)[number];
+
+/** Proficiency rounds: where σ_pt comes from (ISO 13528 clause 8). */
+export const SIGMA_PT_METHODS = ["precision", "robust", "fixed"] as const;
+export type SigmaPtMethod = (typeof SIGMA_PT_METHODS)[number];
+
+/** Proficiency rounds: checks of the shipped material (ISO 13528 Annex B). */
+export const MATERIAL_CHECKS = ["homogeneity", "stability"] as const;
+export type MaterialCheck = (typeof MATERIAL_CHECKS)[number];
+
+export { SCORE_VERDICTS, type ScoreVerdict } from "../lib/proficiency/interpretation";

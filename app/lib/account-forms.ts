@@ -1,7 +1,92 @@
 import { z } from "zod";
+import { ROLES } from "~/db/values";
+import { emailField, idField, nameField, newPasswordField } from "~/lib/validation";
 
 /** The sign-in form. Lengths are capped so a huge post is refused before any password hashing. */
 export const signInSchema = z.object({
   email: z.string({ message: "Enter your e-mail address." }).trim().min(1, { message: "Enter your e-mail address." }).max(254),
   password: z.string({ message: "Enter your password." }).min(1, { message: "Enter your password." }).max(1024),
+});
+
+/** A new password typed twice (first password of a welcome link, a new account from an invitation). */
+const passwordTwice = { password: newPasswordField, confirm: z.string({ message: "Repeat the password." }) };
+const samePassword = (v: { password: string; confirm: string }) => v.password === v.confirm;
+const PASSWORDS_DIFFER = { path: ["confirm"], message: "The two passwords differ." };
+
+export const firstPasswordSchema = z.object(passwordTwice).refine(samePassword, PASSWORDS_DIFFER);
+
+// An invitation is accepted (with a new account's name and password when the invited address has none) or declined.
+export const acceptInvitationSchema = z.object({ intent: z.literal("accept") });
+export const declineInvitationSchema = z.object({ intent: z.literal("decline") });
+export const invitationAnswerSchema = z.discriminatedUnion("intent", [acceptInvitationSchema, declineInvitationSchema]);
+export const invitationAccountSchema = z.object({ intent: z.literal("accept"), name: nameField, ...passwordTwice }).refine(samePassword, PASSWORDS_DIFFER);
+
+// The account page: one form per intent, told apart by the hidden `intent` field.
+export const profileSchema = z.object({ intent: z.literal("profile"), name: nameField });
+
+export const passwordChangeSchema = z
+  .object({
+    intent: z.literal("password"),
+    currentPassword: z.string({ message: "Enter your current password." }).min(1, { message: "Enter your current password." }).max(1024),
+    newPassword: newPasswordField,
+    confirmPassword: z.string({ message: "Repeat the new password." }),
+  })
+  .refine((v) => v.newPassword === v.confirmPassword, { path: ["confirmPassword"], message: "The two new passwords differ." });
+
+export const signOutEverywhereSchema = z.object({ intent: z.literal("sign-out-everywhere") });
+
+export const colleagueSchema = z.object({ intent: z.literal("add-colleague"), labId: idField, email: emailField, name: nameField });
+
+export const removeColleagueSchema = z.object({ intent: z.literal("remove-colleague"), labId: idField, userId: idField });
+
+// The target is "enrollment:<id>" for results:write or "study:<id>" for study:read.
+export const tokenSchema = z.object({
+  intent: z.literal("create-token"),
+  tokenName: nameField,
+  target: z.string({ message: "Choose what the token may reach." }).regex(/^(enrollment|study):\d+$/, { message: "Choose what the token may reach." }),
+});
+
+export const revokeTokenSchema = z.object({ intent: z.literal("revoke-token"), tokenId: idField });
+
+export const accountSchema = z.discriminatedUnion("intent", [
+  profileSchema,
+  passwordChangeSchema,
+  signOutEverywhereSchema,
+  colleagueSchema,
+  removeColleagueSchema,
+  tokenSchema,
+  revokeTokenSchema,
+]);
+
+// The administrator's account list.
+const roleField = z.enum(ROLES, { message: "Choose a role." });
+const labChoice = idField.optional().transform((v) => v ?? null);
+const contactBox = z.literal("on").optional();
+
+export const createUserSchema = z.object({
+  intent: z.literal("create"),
+  email: emailField,
+  name: nameField,
+  role: roleField,
+  password: newPasswordField,
+  labId: labChoice,
+  isContact: contactBox,
+});
+
+export const updateUserSchema = z.object({ intent: z.literal("update"), userId: idField, role: roleField, labId: labChoice, isContact: contactBox });
+
+export const disableUserSchema = z.object({ intent: z.literal("disable"), userId: idField, disabled: z.enum(["true", "false"]) });
+
+export const adminUserSchema = z.discriminatedUnion("intent", [createUserSchema, updateUserSchema, disableUserSchema]);
+
+// The lab directory. Conform turns an empty field into undefined; the optional fields store "".
+const optionalText = (max: number, message: string) => z.string().trim().max(max, { message }).optional().transform((v) => v ?? "");
+
+export const labSchema = z.object({
+  labId: idField.optional(),
+  name: nameField,
+  address: optionalText(300, "Keep the address to 300 characters."),
+  contactName: optionalText(120, "Keep the contact's name to 120 characters."),
+  contactEmail: emailField.optional().transform((v) => v ?? ""),
+  accreditationNumber: optionalText(60, "Keep the accreditation number to 60 characters."),
 });

@@ -3,6 +3,7 @@
  * answers (`intent`), the errors beside its fields and the values as typed.
  */
 import { data } from "react-router";
+import { FieldRefusal } from "~/lib/field-refusal";
 import type { z } from "zod";
 import { type FieldErrors, parseForm } from "~/lib/forms";
 
@@ -14,15 +15,8 @@ export type ActionResult = {
   warnings?: string[];
 };
 
-/** A refusal from a domain function, shown beside the named field. */
-export class FieldRefusal extends Error {
-  constructor(
-    readonly field: string,
-    message: string,
-  ) {
-    super(message);
-  }
-}
+/** The models' one refusal class, so pages on either form style catch the same refusals. */
+export { FieldRefusal };
 
 export function refused(intent: string, errors: FieldErrors, values: Record<string, string> = {}, status = 400) {
   return data<ActionResult>({ intent, errors, values }, { status });

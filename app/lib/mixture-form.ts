@@ -146,7 +146,13 @@ export function parseDesignRows(name: string, rows: EditorRow[], units: UnitSyst
   return { ok: false, design: null, errors };
 }
 
-/** The editor's rows as the form submitted them (FormData or the values an action sent back). */
+/** The rows as a refused form's typed values hold them: `{ c: { "0": { kind, name, … } } }`. */
+export function rowsFromTyped(typed: unknown): EditorRow[] {
+  const byIndex = (typed as { c?: Record<string, Record<string, unknown>> } | null | undefined)?.c ?? {};
+  return rowsFromForm(Object.entries(byIndex).flatMap(([index, row]) => Object.entries(row ?? {}).map(([field, value]): [string, unknown] => [`c.${index}.${field}`, value])));
+}
+
+/** The editor's rows as the form submitted them. */
 export function rowsFromForm(entries: Iterable<[string, unknown]>): EditorRow[] {
   const rows: EditorRow[] = [];
   for (const [key, value] of entries) {

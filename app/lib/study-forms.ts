@@ -4,22 +4,27 @@
  */
 import { z } from "zod";
 import { RESPONSE_KINDS, STUDY_STATES } from "~/db/values";
+import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { emailField } from "~/lib/validation";
 
+// Conform hands a blank field to the schema as undefined; the older forms still send "". Both mean "left blank".
+
 const optionalText = (max: number, label: string) =>
-  z.string().trim().max(max, { message: `Keep the ${label} to ${max} characters or fewer.` });
+  z.string().trim().max(max, { message: `Keep the ${label} to ${max} characters or fewer.` }).superRefine(refuseUnsafeCharacters({ multiline: true })).default("");
 
 const optionalDate = z
   .union([z.literal(""), z.iso.date({ message: "Enter a date as YYYY-MM-DD." })])
-  .transform((v) => (v === "" ? null : v));
+  .optional()
+  .transform((v) => v || null);
 
 /** A number typed in a form; blank becomes null. */
 const optionalNumber = (message: string) =>
   z
     .string()
     .trim()
+    .optional()
     .transform((v, ctx) => {
-      if (v === "") return null;
+      if (!v) return null;
       const n = Number(v.replace(",", "."));
       if (!Number.isFinite(n)) {
         ctx.addIssue({ code: "custom", message });
@@ -29,16 +34,15 @@ const optionalNumber = (message: string) =>
     });
 
 export const studyCodeField = z
-  .string()
+  .string({ message: "Use 2–30 letters, digits and hyphens, such as FF-2027-A." })
   .trim()
   .toUpperCase()
   .regex(/^[A-Z0-9][A-Z0-9-]{1,29}$/, { message: "Use 2–30 letters, digits and hyphens, such as FF-2027-A." });
 
-export const studyFields = z
-  .object({
+const studyFieldsShape = z.object({
     code: studyCodeField,
-    title: z.string().trim().min(1, { message: "Enter a title." }).max(200, { message: "Keep the title to 200 characters or fewer." }),
-    testMethod: z.string().trim().min(1, { message: "Name the test method." }).max(200, { message: "Keep the test method to 200 characters or fewer." }),
+    title: z.string({ message: "Enter a title." }).trim().min(1, { message: "Enter a title." }).max(200, { message: "Keep the title to 200 characters or fewer." }).superRefine(refuseUnsafeCharacters()),
+    testMethod: z.string({ message: "Name the test method." }).trim().min(1, { message: "Name the test method." }).max(200, { message: "Keep the test method to 200 characters or fewer." }).superRefine(refuseUnsafeCharacters()),
     // E691 needs at least two replicates per cell to estimate repeatability.
     replicatesPerCell: z.coerce
       .number({ message: "Enter a whole number of replicates." })
@@ -51,36 +55,41 @@ export const studyFields = z
       .max(0.1, { message: "Use a significance level between 0.0005 and 0.1." }),
     targetSurfaceRating: z
       .enum(["", "1", "2", "3"], { message: "Choose a rating of 1, 2 or 3, or none." })
-      .transform((v) => (v === "" ? null : Number(v))),
+      .optional()
+      .transform((v) => (v ? Number(v) : null)),
     enrollmentDeadline: optionalDate,
     shipDate: optionalDate,
     resultsDue: optionalDate,
     notes: optionalText(2000, "notes"),
-  })
-  .superRefine((v, ctx) => {
+});
+
+/** The study's dates come in order: enrollment closes, materials ship, results are due. */
+function datesInOrder(v: z.output<typeof studyFieldsShape>, ctx: z.RefinementCtx) {
     // ISO dates compare correctly as text.
     if (v.enrollmentDeadline && v.shipDate && v.shipDate < v.enrollmentDeadline) {
       ctx.addIssue({ code: "custom", path: ["shipDate"], message: "Ship after the enrollment deadline." });
     }
     const start = v.shipDate ?? v.enrollmentDeadline;
     if (start && v.resultsDue && v.resultsDue <= start) {
-      ctx.addIssue({ code: "custom", path: ["resultsDue"], message: "Results are due after the materials ship." });
-    }
-  });
+    ctx.addIssue({ code: "custom", path: ["resultsDue"], message: "Results are due after the materials ship." });
+  }
+}
+
+export const studyFields = studyFieldsShape.superRefine(datesInOrder);
 
 export const STUDY_TEMPLATES = ["float_finishing", "custom"] as const;
 
-export const newStudySchema = z
-  .object({ template: z.enum(STUDY_TEMPLATES, { message: "Choose a template." }) })
-  .and(studyFields);
+export const newStudySchema = studyFieldsShape
+  .extend({ template: z.enum(STUDY_TEMPLATES, { message: "Choose a template." }) })
+  .superRefine(datesInOrder);
 
 export const responseSchema = z
   .object({
     key: z
-      .string()
+      .string({ message: "Use a short key of lower-case letters, digits and _, starting with a letter." })
       .trim()
       .regex(/^[a-z][a-z0-9_]{0,29}$/, { message: "Use a short key of lower-case letters, digits and _, starting with a letter." }),
-    name: z.string().trim().min(1, { message: "Name the response." }).max(120, { message: "Keep the name to 120 characters or fewer." }),
+    name: z.string({ message: "Name the response." }).trim().min(1, { message: "Name the response." }).max(120, { message: "Keep the name to 120 characters or fewer." }).superRefine(refuseUnsafeCharacters()),
     unit: optionalText(30, "unit"),
     kind: z.enum(RESPONSE_KINDS, { message: "Choose count or continuous." }),
     decimals: z.coerce
@@ -126,12 +135,15 @@ export const personSchema = z.object({ email: emailField });
 
 export const materialSchema = z.object({
   code: z
-    .string()
+    .string({ message: "Use up to 12 letters, digits and hyphens, such as M1." })
     .trim()
     .toUpperCase()
     .regex(/^[A-Z0-9][A-Z0-9-]{0,11}$/, { message: "Use up to 12 letters, digits and hyphens, such as M1." }),
   description: optionalText(300, "description"),
 });
+
+/** The material page's own fields; its mixture design rows are checked by `parseDesignRows` (`~/lib/mixture-form`). */
+export const materialEditorSchema = materialSchema.extend({ units: z.enum(["si", "us"], { message: "Choose SI or US customary units." }).default("si") });
 
 export const transitionSchema = z.object({ to: z.enum(STUDY_STATES, { message: "Choose a state." }) });
 
@@ -142,7 +154,7 @@ const enrollmentChoice = z.coerce.number({ message: "Choose a lab." }).int().pos
 
 export const shipmentCreateSchema = z.object({
   enrollmentId: enrollmentChoice,
-  contents: z.string().trim().min(1, { message: "List the materials and lots in the shipment." }).max(2000, { message: "Keep the contents to 2000 characters or fewer." }),
+  contents: z.string({ message: "List the materials and lots in the shipment." }).trim().min(1, { message: "List the materials and lots in the shipment." }).max(2000, { message: "Keep the contents to 2000 characters or fewer." }).superRefine(refuseUnsafeCharacters({ multiline: true })),
   carrier: optionalText(120, "carrier"),
   trackingNumber: optionalText(120, "tracking number"),
 });
@@ -150,7 +162,7 @@ export const shipmentCreateSchema = z.object({
 export const shipSchema = z.object({
   shipmentId: z.coerce.number().int().positive(),
   shippedOn: requiredDate("ship"),
-  carrier: z.string().trim().min(1, { message: "Name the carrier." }).max(120, { message: "Keep the carrier to 120 characters or fewer." }),
+  carrier: z.string({ message: "Name the carrier." }).trim().min(1, { message: "Name the carrier." }).max(120, { message: "Keep the carrier to 120 characters or fewer." }).superRefine(refuseUnsafeCharacters()),
   trackingNumber: optionalText(120, "tracking number"),
 });
 
@@ -163,5 +175,71 @@ export const receiptSchema = z.object({
 
 export const withdrawalSchema = z.object({
   enrollmentId: enrollmentChoice,
-  reason: z.string().trim().min(1, { message: "Give the reason for withdrawing the lab." }).max(500, { message: "Keep the reason to 500 characters or fewer." }),
+  reason: z.string({ message: "Give the reason for withdrawing the lab." }).trim().min(1, { message: "Give the reason for withdrawing the lab." }).max(500, { message: "Keep the reason to 500 characters or fewer." }).superRefine(refuseUnsafeCharacters({ multiline: true })),
 });
+
+/** The row a remove or change button acts on. */
+const rowId = z.coerce.number({ message: "That row is missing; reload the page." }).int().positive({ message: "That row is missing; reload the page." });
+
+/** Which of a page's forms was sent: the hidden `intent` field. */
+const intent = <const Name extends string>(name: Name) => ({ intent: z.literal(name) });
+
+/** Every form of the setup page, by intent; the action parses them as one union. */
+export const setupForms = {
+  study: studyFields.safeExtend(intent("study")),
+  responseAdd: responseSchema.safeExtend(intent("response-add")),
+  responseRemove: z.object({ ...intent("response-remove"), id: rowId }),
+  targets: freshTargetsSchema.safeExtend(intent("targets")),
+  coordinatorAdd: personSchema.extend(intent("coordinator-add")),
+  reviewerAdd: personSchema.extend(intent("reviewer-add")),
+  coordinatorRemove: z.object({ ...intent("coordinator-remove"), id: rowId }),
+  reviewerRemove: z.object({ ...intent("reviewer-remove"), id: rowId }),
+  materialAdd: materialSchema.extend(intent("material-add")),
+  materialRemove: z.object({ ...intent("material-remove"), id: rowId }),
+  transition: transitionSchema.extend(intent("transition")),
+};
+
+const UNKNOWN_FORM = { error: "Unknown action." };
+
+export const setupSchema = z.discriminatedUnion(
+  "intent",
+  [
+    setupForms.study,
+    setupForms.responseAdd,
+    setupForms.responseRemove,
+    setupForms.targets,
+    setupForms.coordinatorAdd,
+    setupForms.reviewerAdd,
+    setupForms.coordinatorRemove,
+    setupForms.reviewerRemove,
+    setupForms.materialAdd,
+    setupForms.materialRemove,
+    setupForms.transition,
+  ],
+  UNKNOWN_FORM,
+);
+
+/** The protocol upload, checked in the browser; the server checks the file's bytes too. */
+export const PROTOCOL_MAX_BYTES = 10 * 1024 * 1024;
+export const protocolSchema = z.object({
+  ...intent("protocol"),
+  protocol: z
+    .file({ message: "Choose a PDF file to upload." })
+    .max(PROTOCOL_MAX_BYTES, { message: "The file is larger than 10 MB." })
+    .mime("application/pdf", { message: "Choose a PDF file." }),
+});
+
+/** The forms of the labs page. */
+export const labsForms = {
+  invite: z.object({ ...intent("invite"), labId: z.coerce.number({ message: "Choose a lab from the directory." }).int().positive({ message: "Choose a lab from the directory." }) }),
+  withdraw: withdrawalSchema.extend(intent("withdraw")),
+};
+export const labsSchema = z.discriminatedUnion("intent", [labsForms.invite, labsForms.withdraw], UNKNOWN_FORM);
+
+/** The forms of the shipments page. */
+export const shipmentForms = {
+  create: shipmentCreateSchema.extend(intent("create")),
+  ship: shipSchema.extend(intent("ship")),
+  lost: z.object({ ...intent("lost"), shipmentId: rowId }),
+};
+export const shipmentsSchema = z.discriminatedUnion("intent", [shipmentForms.create, shipmentForms.ship, shipmentForms.lost], UNKNOWN_FORM);

@@ -1,15 +1,17 @@
 import { z } from "zod";
+import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 
 export const emailField = z.email({ message: "Enter an e-mail address such as name@example.org." }).trim().max(254);
 
 export const nameField = z
-  .string()
+  .string({ message: "Enter a name." })
   .trim()
   .min(1, { message: "Enter a name." })
-  .max(120, { message: "Keep the name to 120 characters or fewer." });
+  .max(120, { message: "Keep the name to 120 characters or fewer." })
+  .superRefine(refuseUnsafeCharacters());
 
 export const newPasswordField = z
-  .string()
+  .string({ message: "Use at least 12 characters." })
   .min(12, { message: "Use at least 12 characters." })
   .max(256, { message: "Keep the password to 256 characters or fewer." });
 

@@ -6,10 +6,9 @@
 import { and, asc, eq, ne, sql } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import { db, type Transaction } from "~/db/client.server";
-import { cellDecisions, cells, enrollments, labs, materials, responses, results, studies } from "~/db/schema";
+import { cellDecisions, cells, enrollments, labs, materials, responses, results, studies, type Study } from "~/db/schema";
 import { analyzeStudy, type ExcludedCell, type StudyAnalysis } from "~/lib/precision";
 
-type Study = typeof studies.$inferSelect;
 
 export type StudyResultRow = {
   cellId: number;

@@ -5,16 +5,21 @@
  */
 import { and, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { cells, enrollments, labMembers, labs, materials, queries, responses, studies, users } from "~/db/schema";
+import { cells, enrollments, labMembers, labs, materials, queries, responses, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import type { CellRef } from "~/lib/review/cells";
 import { writeRefusal } from "~/lib/write-rules";
 import { findCellId } from "~/models/decisions.server";
+import { FieldRefusal } from "~/lib/field-refusal";
 
-type Study = typeof studies.$inferSelect;
 
-export class QueryError extends Error {}
+/** A refusal of the whole form, shown above it. */
+export class QueryError extends FieldRefusal {
+  constructor(message: string) {
+    super("form", message);
+  }
+}
 
 export type RaiseQueryInput = CellRef & { statistic: string; question: string; asksCorrection?: boolean };
 
@@ -58,6 +63,7 @@ export async function raiseQuery(study: Study, actorUserId: number, input: Raise
         ],
         action: { label: "Answer the query", url: appUrl(request, "/lab/queries") },
       }),
+      { studyId: study.id },
     );
   }
   return query;

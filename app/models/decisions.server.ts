@@ -6,15 +6,20 @@
  */
 import { and, asc, desc, eq, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { auditEvents, cellDecisions, cells, enrollments, materials, responses, results, studies, users } from "~/db/schema";
+import { auditEvents, cellDecisions, cells, enrollments, materials, responses, results, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import type { CellRef } from "~/lib/review/cells";
 import { writeRefusal } from "~/lib/write-rules";
 import { bumpDataVersion } from "~/models/analysis.server";
+import { FieldRefusal } from "~/lib/field-refusal";
 
-type Study = typeof studies.$inferSelect;
 
-export class DecisionError extends Error {}
+/** A refusal of the whole form, shown above it. */
+export class DecisionError extends FieldRefusal {
+  constructor(message: string) {
+    super("form", message);
+  }
+}
 
 /** The database id of a cell named by lab code, material code and response key, or null. */
 export async function findCellId(studyId: number, cell: CellRef) {

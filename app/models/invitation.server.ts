@@ -6,21 +6,21 @@
 import { randomBytes } from "node:crypto";
 import { and, eq, isNull } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
-import { enrollments, invitations, labMembers, labs, studies, users } from "~/db/schema";
+import { enrollments, invitations, labMembers, labs, studies, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, sendEmail } from "~/server/email.server";
 import { invitationEmail } from "~/lib/email-templates";
-import { FieldRefusal } from "~/lib/form-results";
+import { FieldRefusal } from "~/lib/field-refusal";
 import { drawLabCode } from "~/server/lab-codes.server";
 import { writeRefusal } from "~/lib/write-rules";
 import { bumpDataVersion } from "~/models/analysis.server";
 import type { SessionUser } from "~/models/user.server";
 import { hashPassword, normaliseEmail } from "~/models/user.server";
+import { formatDate } from "~/lib/format";
 import { hashToken } from "~/server/token-hash.server";
 
 export const INVITATION_LIFETIME_MS = 14 * 24 * 60 * 60 * 1000;
 
-type Study = typeof studies.$inferSelect;
 
 export class InvitationError extends FieldRefusal {}
 
@@ -55,8 +55,9 @@ export async function inviteLab(study: Study, labId: number, actorUserId: number
       labName: lab.name,
       study,
       url: appUrl(request, invitationPath(token, study.id)),
-      expiresOn: expiresAt.toISOString().slice(0, 10),
+      expiresOn: formatDate(expiresAt),
     }),
+    { studyId: study.id },
   );
   return { token };
 }

@@ -100,6 +100,7 @@ export async function answerQuery(queryId: number, labIds: number[], answer: str
         ],
         action: { label: "See the study's results", url: appUrl(request, `/studies/${found.studyId}/results`) },
       }),
+      { studyId: found.studyId },
     );
   }
   return found;

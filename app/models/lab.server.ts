@@ -39,9 +39,9 @@ export async function removeColleague(labId: number, userId: number, byUserId: n
   const membership = await db.query.labMembers.findFirst({
     where: and(eq(labMembers.labId, labId), eq(labMembers.userId, userId)),
   });
-  if (!membership) throw new AccountError("colleague", "That person is not a member of your lab.");
+  if (!membership) throw new AccountError("form", "That person is not a member of your lab.");
   if (membership.isContact || userId === byUserId) {
-    throw new AccountError("colleague", "A lab contact cannot be removed here; ask an administrator.");
+    throw new AccountError("form", "A lab contact cannot be removed here; ask an administrator.");
   }
   await db.delete(labMembers).where(and(eq(labMembers.labId, labId), eq(labMembers.userId, userId)));
 }

@@ -1,13 +1,13 @@
 /** Reminds the labs whose results are not all submitted — and only those. */
 import { eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { enrollments, labs, type studies } from "~/db/schema";
+import { enrollments, labs, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, sendEmail } from "~/server/email.server";
 import { missingResultsReminderEmail } from "~/lib/email-templates";
 import { studyMatrix } from "~/models/study.server";
 
-export async function remindLabsWithMissingResults(study: typeof studies.$inferSelect, actorUserId: number, request: Request | null) {
+export async function remindLabsWithMissingResults(study: Study, actorUserId: number, request: Request | null) {
   const matrix = await studyMatrix(study.id);
   const missing = matrix.rows
     .map((row) => ({ enrollmentId: row.id, codes: matrix.materials.filter((_, i) => !row.submitted[i]).map((m) => m.code) }))
@@ -24,6 +24,7 @@ export async function remindLabsWithMissingResults(study: typeof studies.$inferS
     if (!lab?.email) continue;
     await sendEmail(
       missingResultsReminderEmail({ to: lab.email, labName: lab.name, study, missing: m.codes, resultsDue: study.resultsDue, url: appUrl(request, `/lab/studies/${study.id}`) }),
+      { studyId: study.id },
     );
     reminded.push(lab.name);
   }

@@ -6,21 +6,7 @@
  */
 import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
-import {
-  amendments,
-  auditEvents,
-  batches,
-  cells,
-  enrollments,
-  labs,
-  materials,
-  queries,
-  responses,
-  results,
-  shipments,
-  studies,
-  users,
-} from "~/db/schema";
+import { amendments, auditEvents, batches, cells, enrollments, labs, materials, queries, responses, results, shipments, studies, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { cellKey, type ResolvedRow, resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { cellStatusOf } from "~/lib/cell-status";
@@ -30,7 +16,6 @@ import { IMAGE_TYPES, storeUpload } from "~/server/uploads.server";
 import { bumpDataVersion } from "~/models/analysis.server";
 
 export type Enrollment = typeof enrollments.$inferSelect;
-type Study = typeof studies.$inferSelect;
 type Actor = { id: number };
 
 /** A refusal with a message for the person, shown beside the form. */
@@ -90,7 +75,18 @@ async function enrollmentCells(executor: Pick<typeof db, "select">, enrollmentId
 /** Checks rows against the study and the lab's cells; rows with a problem are left out of `resolved`. */
 function resolveRows(frame: StudyFrame & { receivedOn: string | null }, existingCells: Map<string, typeof cells.$inferSelect>, rows: ResultInputRow[], options: { valueRequired: boolean }) {
   const submittedCells = new Set([...existingCells].filter(([, c]) => c.status === "submitted").map(([key]) => key));
-  return resolveResultRows({ replicatesPerCell: frame.study.replicatesPerCell, materials: frame.materials, responses: frame.responses, submittedCells, receivedOn: frame.receivedOn }, rows, options);
+  return resolveResultRows(
+    {
+      replicatesPerCell: frame.study.replicatesPerCell,
+      materials: frame.materials,
+      responses: frame.responses,
+      submittedCells,
+      receivedOn: frame.receivedOn,
+      studyEnd: frame.study.resultsDue,
+    },
+    rows,
+    options,
+  );
 }
 
 async function entryFrame(enrollment: Enrollment) {
@@ -427,7 +423,7 @@ export async function studyResults(studyId: number, labsPage = 1) {
     .where(eq(enrollments.studyId, studyId))
     .orderBy(asc(enrollments.labCode));
   const pageCount = Math.max(1, Math.ceil(allEnrollments.length / RESULTS_LABS_PER_PAGE));
-  const page = Math.min(Math.max(1, labsPage), pageCount);
+  const page = Number.isSafeInteger(labsPage) ? Math.min(Math.max(1, labsPage), pageCount) : 1;
   const pageEnrollments = allEnrollments.slice((page - 1) * RESULTS_LABS_PER_PAGE, page * RESULTS_LABS_PER_PAGE);
   const studyCells = pageEnrollments.length ? await db.select().from(cells).where(inArray(cells.enrollmentId, pageEnrollments.map((e) => e.id))) : [];
   const cellIds = studyCells.map((c) => c.id);
@@ -469,21 +465,20 @@ export async function studyResults(studyId: number, labsPage = 1) {
 
 export const AUDIT_PAGE_SIZE = 25;
 
-/** One page of the study's audit trail, newest first, with who did it. */
-export async function studyAuditTrail(studyId: number, page: number) {
-  const offset = (Math.max(1, page) - 1) * AUDIT_PAGE_SIZE;
-  const [events, [total]] = await Promise.all([
-    db
-      .select({ id: auditEvents.id, action: auditEvents.action, entityType: auditEvents.entityType, entityId: auditEvents.entityId, before: auditEvents.before, after: auditEvents.after, reason: auditEvents.reason, createdAt: auditEvents.createdAt, actorName: users.name })
-      .from(auditEvents)
-      .leftJoin(users, eq(users.id, auditEvents.actorUserId))
-      .where(eq(auditEvents.studyId, studyId))
-      .orderBy(desc(auditEvents.createdAt), desc(auditEvents.id))
-      .limit(AUDIT_PAGE_SIZE)
-      .offset(offset),
-    db.select({ n: sql<number>`count(*)` }).from(auditEvents).where(eq(auditEvents.studyId, studyId)),
-  ]);
-  return { events, total: total!.n, page: Math.max(1, page), pageCount: Math.max(1, Math.ceil(total!.n / AUDIT_PAGE_SIZE)) };
+/** One page of the study's audit trail, newest first, with who did it; a page past the last shows the last. */
+export async function studyAuditTrail(studyId: number, requestedPage: number) {
+  const [total] = await db.select({ n: sql<number>`count(*)` }).from(auditEvents).where(eq(auditEvents.studyId, studyId));
+  const pageCount = Math.max(1, Math.ceil(total!.n / AUDIT_PAGE_SIZE));
+  const page = Number.isSafeInteger(requestedPage) ? Math.min(Math.max(1, requestedPage), pageCount) : 1;
+  const events = await db
+    .select({ id: auditEvents.id, action: auditEvents.action, entityType: auditEvents.entityType, entityId: auditEvents.entityId, before: auditEvents.before, after: auditEvents.after, reason: auditEvents.reason, createdAt: auditEvents.createdAt, actorName: users.name })
+    .from(auditEvents)
+    .leftJoin(users, eq(users.id, auditEvents.actorUserId))
+    .where(eq(auditEvents.studyId, studyId))
+    .orderBy(desc(auditEvents.createdAt), desc(auditEvents.id))
+    .limit(AUDIT_PAGE_SIZE)
+    .offset((page - 1) * AUDIT_PAGE_SIZE);
+  return { events, total: total!.n, page, pageCount };
 }
 
 /** The lab's to-do list in one study: receipt, and per material its batch, results and open queries. */

@@ -7,14 +7,13 @@
  */
 import { and, asc, eq, inArray } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
-import { precisionStatements, reviewComments, studies, studyReviewers, users, votes } from "~/db/schema";
+import { precisionStatements, reviewComments, studies, studyReviewers, users, votes, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import { objectionStage, type VoteChoice } from "~/lib/review/publication";
 import { writeRefusal } from "~/lib/write-rules";
 import { coordinatorRecipients, openRound, returnStatement } from "~/models/statement.server";
 
-type Study = typeof studies.$inferSelect;
 
 export class ReviewError extends Error {}
 
@@ -28,9 +27,10 @@ async function roundFor(study: Study, reviewerId: number) {
   return open;
 }
 
-async function notify(to: { email: string; name: string }[], subject: string, paragraphs: string[], url: string) {
+/** E-mails each person; the study's mailbox keeps the messages beside the study. */
+async function notify(studyId: number, to: { email: string; name: string }[], subject: string, paragraphs: string[], url: string) {
   for (const person of to) {
-    await sendEmail(composeEmail({ to: person.email, subject, greeting: `Hello ${person.name},`, paragraphs, action: { label: "Open the statement", url } }));
+    await sendEmail(composeEmail({ to: person.email, subject, greeting: `Hello ${person.name},`, paragraphs, action: { label: "Open the statement", url } }), { studyId });
   }
 }
 
@@ -55,7 +55,7 @@ export async function castVote(study: Study, reviewerId: number, input: { choice
   });
   if (objected) {
     const reviewer = await db.query.users.findFirst({ where: eq(users.id, reviewerId) });
-    await notify(
+    await notify(study.id, 
       await coordinatorRecipients(study),
       `${study.code}: ${reviewer?.name ?? "a reviewer"} objects to version ${statement.version}`,
       [`${reviewer?.name ?? "A reviewer"} objects to version ${statement.version} of the precision statement of ${study.code}:`, input.reason ?? "", "Answer the objection in writing: upheld (the statement is revised) or not upheld (with the rationale)."],
@@ -79,10 +79,10 @@ export async function replyToAnswer(study: Study, reviewerId: number, input: Obj
   const url = appUrl(request, `/studies/${study.id}/statement`);
   const reviewer = await db.query.users.findFirst({ where: eq(users.id, reviewerId) });
   const subject = `${study.code}: ${reviewer?.name ?? "a reviewer"} ${input.reply === "withdrawn" ? "withdrew" : "maintains"} an objection`;
-  await notify(await coordinatorRecipients(study), subject, [subject + ".", input.note].filter(Boolean), url);
+  await notify(study.id, await coordinatorRecipients(study), subject, [subject + ".", input.note].filter(Boolean), url);
   if (input.reply === "maintained" && round.chairId !== reviewerId) {
     const chair = await db.select({ email: users.email, name: users.name }).from(users).where(eq(users.id, round.chairId));
-    await notify(chair, `${study.code}: a maintained objection awaits your ruling`, [`As chair of the round on version ${statement.version}, please rule on the objection ${reviewer?.name ?? "a reviewer"} maintains, with your reason.`], appUrl(request, `/review/${study.id}`));
+    await notify(study.id, chair, `${study.code}: a maintained objection awaits your ruling`, [`As chair of the round on version ${statement.version}, please rule on the objection ${reviewer?.name ?? "a reviewer"} maintains, with your reason.`], appUrl(request, `/review/${study.id}`));
   }
 }
 
@@ -108,7 +108,7 @@ export async function ruleOnObjection(study: Study, chairId: number, input: Ruli
   else await db.transaction(record);
   const objector = await db.select({ email: users.email, name: users.name }).from(users).where(eq(users.id, vote.reviewerId));
   const subject = `${study.code}: the chair ruled on a maintained objection (${input.ruling === "upheld" ? "upheld" : "not upheld"})`;
-  await notify([...objector, ...(await coordinatorRecipients(study))], subject, [subject + ".", input.reason], appUrl(request, `/review/${study.id}`));
+  await notify(study.id, [...objector, ...(await coordinatorRecipients(study))], subject, [subject + ".", input.reason], appUrl(request, `/review/${study.id}`));
   return vote;
 }
 

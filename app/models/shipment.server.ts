@@ -5,16 +5,16 @@
  */
 import { and, asc, count, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { cells, enrollments, labs, materials, mixtureConstituents, results, shipments, studies } from "~/db/schema";
+import { cells, enrollments, labs, materials, mixtureConstituents, results, shipments, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
+import { notFound } from "~/server/guards.server";
 import { appUrl, sendEmail } from "~/server/email.server";
 import { shipmentNoticeEmail } from "~/lib/email-templates";
-import { FieldRefusal } from "~/lib/form-results";
+import { FieldRefusal } from "~/lib/field-refusal";
 import { todayIso } from "~/lib/format";
 import { receiptDateProblem } from "~/lib/plausible-dates";
 import { enrollmentRefusal, type WriteKind, writeRefusal } from "~/lib/write-rules";
 
-type Study = typeof studies.$inferSelect;
 type Shipment = typeof shipments.$inferSelect;
 
 export class ShipmentError extends FieldRefusal {}
@@ -107,6 +107,7 @@ export async function markShipped(
         shippedOn: input.shippedOn,
         url: appUrl(request, `/lab/studies/${study.id}/receipt`),
       }),
+      { studyId: study.id },
     );
   }
 }
@@ -123,14 +124,16 @@ export type ReceiptInput = { shipmentId: number; receivedOn: string; condition: 
  * The lab confirms a shipment of its own enrollment, or corrects its receipt
  * until the lab records its first result (the test dates are checked against
  * the date of receipt). Dates in the future or before the shipment left are
- * refused; a correction keeps the earlier receipt in the audit trail.
+ * refused; a correction keeps the earlier receipt in the audit trail. Any
+ * other id, another lab's shipment or one that does not exist, is the same
+ * 404, so a lab cannot count the study's shipments or labs.
  */
 export async function confirmReceipt(study: Study, enrollment: Pick<typeof enrollments.$inferSelect, "id" | "state">, input: ReceiptInput, actorUserId: number) {
+  const shipment = await db.query.shipments.findFirst({ where: and(eq(shipments.id, input.shipmentId), eq(shipments.enrollmentId, enrollment.id)) });
+  if (!shipment) notFound();
   assertWritable("receipts", study);
   const notEnrolled = enrollmentRefusal(enrollment.state);
   if (notEnrolled) throw new ShipmentError("form", notEnrolled);
-  const shipment = await shipmentOf(study, input.shipmentId);
-  if (shipment.enrollmentId !== enrollment.id) throw new ShipmentError("form", "That shipment is not for your lab.");
   const dateProblem = receiptDateProblem(input.receivedOn, { shippedOn: shipment.shippedOn, today: todayIso() });
   if (dateProblem) throw new ShipmentError("receivedOn", dateProblem);
   if (input.condition === "damaged" && !input.receiptNotes) throw new ShipmentError("receiptNotes", "Describe the damage so the coordinator can decide what to resend.");

@@ -5,7 +5,7 @@
  */
 import { and, asc, desc, eq, inArray, isNotNull, isNull } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
-import { enrollments, labs, materials, precisionStatements, responses, reviewRounds, roundReviewers, studies, studyCoordinators, studyReviewers, users, votes } from "~/db/schema";
+import { enrollments, labs, materials, precisionStatements, responses, reviewRounds, roundReviewers, studyCoordinators, studyReviewers, users, votes, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import { objectionStage, publicationCheck, QUORUM_SENTENCE } from "~/lib/review/publication";
@@ -13,11 +13,16 @@ import { writeRefusal } from "~/lib/write-rules";
 import { c670Text, e691Text, type StatementSnapshot } from "~/lib/statement-text";
 import { studyAnalysis } from "~/models/analysis.server";
 import { closeOpenRound, transitionStudy } from "~/models/study-lifecycle.server";
+import { FieldRefusal } from "~/lib/field-refusal";
 
-type Study = typeof studies.$inferSelect;
 export type Statement = Omit<typeof precisionStatements.$inferSelect, "snapshot"> & { snapshot: StatementSnapshot };
 
-export class StatementError extends Error {}
+/** A refusal of the whole form, shown above it. */
+export class StatementError extends FieldRefusal {
+  constructor(message: string) {
+    super("form", message);
+  }
+}
 
 /** The study's responses and materials, in their order, as the analysis pages and the snapshot name them. */
 export async function studyDesign(studyId: number) {
@@ -167,6 +172,7 @@ export async function sendToReview(study: Study, actorUserId: number, statementI
         ],
         action: { label: "Review the statement", url: appUrl(request, `/review/${study.id}`) },
       }),
+      { studyId: study.id },
     );
   }
   return statement;
@@ -246,6 +252,7 @@ export async function answerObjection(study: Study, actorUserId: number, input: 
         ],
         action: { label: "Open the review", url: appUrl(request, `/review/${study.id}`) },
       }),
+      { studyId: study.id },
     );
   }
   return vote;

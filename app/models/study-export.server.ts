@@ -6,11 +6,10 @@
 import { asc, eq, inArray } from "drizzle-orm";
 import Papa from "papaparse";
 import { db } from "~/db/client.server";
-import { enrollments, labs, materials, mixtureConstituents, responses, studies } from "~/db/schema";
+import { enrollments, labs, materials, mixtureConstituents, responses, type Study } from "~/db/schema";
 import type { StudyAccess } from "~/server/guards.server";
 import { studyResultRows } from "~/models/analysis.server";
 
-type Study = typeof studies.$inferSelect;
 type Enrollment = typeof enrollments.$inferSelect;
 
 const seesLabNames = (access: StudyAccess) => access === "admin" || access === "coordinator";

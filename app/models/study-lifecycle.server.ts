@@ -6,11 +6,10 @@
  */
 import { and, count, eq, inArray } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
-import { enrollments, materials, precisionStatements, reviewRounds, studies, type StudyState } from "~/db/schema";
+import { enrollments, materials, precisionStatements, reviewRounds, studies, type StudyState, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { checkTransition, moveOwner, type MoveOwner, type TransitionCheck } from "~/lib/study-lifecycle";
 
-type Study = typeof studies.$inferSelect;
 
 /** A further condition on a move; returns a problem to show, or null when the move may go ahead. */
 export type TransitionGuard = (study: Study, to: StudyState) => Promise<string | null> | string | null;

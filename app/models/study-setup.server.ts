@@ -17,16 +17,16 @@ import {
   studyCoordinators,
   studyReviewers,
   users,
+  type Study,
 } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
-import { FieldRefusal } from "~/lib/form-results";
+import { FieldRefusal } from "~/lib/field-refusal";
 import { AIR_CONTENT_TOLERANCE_POINTS, type Constituent, inToMm, slumpTolerance } from "~/lib/batching";
 import type { freshTargetsSchema, materialSchema, newStudySchema, responseSchema, studyFields } from "~/lib/study-forms";
 import { type WriteKind, writeRefusal } from "~/lib/write-rules";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import { normaliseEmail } from "~/models/user.server";
 
-type Study = typeof studies.$inferSelect;
 type StudyInput = z.infer<typeof studyFields>;
 
 /** A refusal the page shows beside the named field. */

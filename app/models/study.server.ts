@@ -1,16 +1,6 @@
 import { and, asc, count, eq, inArray, or } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import {
-  cells,
-  enrollments,
-  labs,
-  materials,
-  queries,
-  responses,
-  studies,
-  studyCoordinators,
-  studyReviewers,
-} from "~/db/schema";
+import { cells, enrollments, labs, materials, queries, responses, studies, studyCoordinators, studyReviewers, type Study } from "~/db/schema";
 import { CELL_STATUS_ORDER, type CellStatus, cellStatusOf } from "~/lib/cell-status";
 import type { SessionUser } from "~/models/user.server";
 
@@ -138,7 +128,7 @@ export function statusCountsByMaterial(matrix: StudyMatrix) {
 }
 
 /** The progress figures the overview polls: every lab for the coordinator, one lab's own row for an analyst. */
-export async function studyProgress(study: Pick<typeof studies.$inferSelect, "id" | "code" | "state" | "resultsDue">, onlyEnrollmentId?: number) {
+export async function studyProgress(study: Pick<Study, "id" | "code" | "state" | "resultsDue">, onlyEnrollmentId?: number) {
   const matrix = await studyMatrix(study.id, onlyEnrollmentId ? { enrollmentId: onlyEnrollmentId } : {});
   return {
     study: { id: study.id, code: study.code, state: study.state, resultsDue: study.resultsDue },

@@ -2,6 +2,7 @@ import argon2 from "argon2";
 import { eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { labMembers, type Role, users } from "~/db/schema";
+import { FieldRefusal } from "~/lib/field-refusal";
 
 export type SessionUser = {
   id: number;
@@ -53,14 +54,8 @@ export const HOME_BY_ROLE: Record<Role, string> = {
   reviewer: "/review",
 };
 
-export class AccountError extends Error {
-  constructor(
-    readonly field: string,
-    message: string,
-  ) {
-    super(message);
-  }
-}
+/** A refusal of an account or lab change, shown beside the field it names ("" for the form as a whole). */
+export class AccountError extends FieldRefusal {}
 
 export async function updateName(userId: number, name: string) {
   await db.update(users).set({ name }).where(eq(users.id, userId));

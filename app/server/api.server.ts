@@ -5,11 +5,11 @@
  * failure. Nothing from inside (a stack trace, a SQL message) ever leaves.
  */
 import { createHash, randomBytes } from "node:crypto";
-import { LRUCache } from "lru-cache";
 import { isSignificanceLevel } from "~/lib/precision";
-import { type StudyAccess, getUser, studyAccessFor } from "~/server/guards.server";
+import { enrollmentEnded, type StudyAccess, getUser, studyAccessFor } from "~/server/guards.server";
 import { activeApiToken, type ApiToken } from "~/models/api-token.server";
 import { loadSessionUser, type SessionUser } from "~/models/user.server";
+import { API_REQUESTS, consume } from "~/server/rate-limit.server";
 
 export class ApiError extends Error {
   constructor(
@@ -71,7 +71,7 @@ export async function requireApiCaller(request: Request): Promise<ApiCaller> {
     if (!user) throw new ApiError(401, "unauthenticated", "Sign in or send a valid bearer token.");
     caller = { user, token: null };
   }
-  enforceRateLimit(rateLimitKey(caller));
+  await enforceRateLimit(rateLimitKey(caller));
   return caller;
 }
 
@@ -86,6 +86,7 @@ export async function requireApiStudyAccess(request: Request, studyIdParam: stri
   if (caller.token && (caller.token.scope !== "study:read" || caller.token.studyId !== studyId)) throw notYours();
   const found = await studyAccessFor(caller.user, studyId);
   if (!found || !allowed.includes(found.access)) throw notYours();
+  if (found.access === "analyst" && enrollmentEnded(found.enrollment)) throw notYours();
   return { ...caller, ...found };
 }
 
@@ -199,34 +200,19 @@ async function readLimited(request: Request) {
   }
 }
 
-/**
- * Requests per caller per minute. Counted in this process: with several app
- * instances each enforces the limit on its own share, which still stops a
- * runaway script without a database write on every read.
- */
-export const API_RATE_LIMIT = { max: 600, windowMs: 60_000 };
-// The callers seen most recently; one pushed out has been quiet longest, and starts a fresh window.
-const windows = new LRUCache<string, { start: number; count: number }>({ max: 10_000 });
-
 /** `API_RATE_LIMIT_PER_MINUTE` overrides the limit (read on every request, so an operator or a test can change it). */
 export function apiRateLimitMax(env: NodeJS.ProcessEnv = process.env) {
   const configured = Number(env.API_RATE_LIMIT_PER_MINUTE);
-  return Number.isSafeInteger(configured) && configured > 0 ? configured : API_RATE_LIMIT.max;
+  return Number.isSafeInteger(configured) && configured > 0 ? configured : API_REQUESTS.max;
 }
 
-/** Counts a request of the caller's; a 429 ApiError above the limit. */
-export function enforceRateLimit(key: string) {
+/** Counts a request of the caller's in the database (every app instance together); a 429 ApiError above the limit. */
+export async function enforceRateLimit(key: string) {
   const max = apiRateLimitMax();
-  const now = Date.now();
-  const current = windows.get(key);
-  if (!current || now - current.start >= API_RATE_LIMIT.windowMs) {
-    windows.set(key, { start: now, count: 1 });
-    return;
-  }
-  current.count += 1;
-  if (current.count > max) {
+  const outcome = await consume({ ...API_REQUESTS, max }, key);
+  if (!outcome.allowed) {
     throw new ApiError(429, "rate_limited", `More than ${max} requests in a minute; wait and try again.`, {
-      retryAfterSeconds: Math.ceil((current.start + API_RATE_LIMIT.windowMs - now) / 1000),
+      retryAfterSeconds: outcome.retryAfterSeconds,
     });
   }
 }

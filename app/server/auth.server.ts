@@ -3,12 +3,25 @@ import { Authenticator } from "remix-auth";
 import { FormStrategy } from "remix-auth-form";
 import { signInSchema } from "~/lib/account-forms";
 import { recordAudit } from "~/server/audit.server";
-import { ACCOUNT_SIGN_IN_FAILURES, clearHits, clientAddress, isLimited, recordHit, SIGN_IN_FAILURES } from "~/server/rate-limit.server";
+import {
+  ADDRESS_SIGN_IN_FAILURES,
+  clearSignInFailures,
+  clientAddress,
+  isLimited,
+  recordHit,
+  recordSignInFailure,
+  signInWaitRemaining,
+} from "~/server/rate-limit.server";
 import { sessionStorage } from "~/server/session.server";
 import { HOME_BY_ROLE, loadSessionUser, normaliseEmail, verifyLogin } from "~/models/user.server";
 
 export const SIGN_IN_FAILED = "That e-mail and password do not match an active account.";
-export const SIGN_IN_LIMITED = "Too many failed sign-ins. Wait 15 minutes, then try again.";
+export const SIGN_IN_LIMITED = "Too many failed sign-ins from this address. Wait 15 minutes, then try again.";
+
+export function signInWaitMessage(seconds: number) {
+  const wait = seconds < 90 ? `${seconds} seconds` : `${Math.ceil(seconds / 60)} minutes`;
+  return `Several wrong passwords in a row: wait ${wait} before the next try.`;
+}
 
 export class SignInError extends Error {
   constructor(
@@ -26,20 +39,20 @@ authenticator.use(
     const parsed = signInSchema.safeParse(Object.fromEntries(form));
     if (!parsed.success) throw new SignInError(SIGN_IN_FAILED, 400);
     const email = normaliseEmail(parsed.data.email);
-    // Failures count per account and address, so one attacker cannot lock a colleague out from elsewhere.
-    const key = `${email}|${clientAddress(request)}`;
-    // The address comes from a header a client can set; the account-wide cap holds whatever it says.
-    if ((await isLimited(SIGN_IN_FAILURES, key)) || (await isLimited(ACCOUNT_SIGN_IN_FAILURES, email))) {
-      throw new SignInError(SIGN_IN_LIMITED, 429);
-    }
+    const address = clientAddress(request);
+    // Waits grow per account and address, so a stranger guessing elsewhere never locks the owner out.
+    const pairKey = `${email}|${address}`;
+    if (await isLimited(ADDRESS_SIGN_IN_FAILURES, address)) throw new SignInError(SIGN_IN_LIMITED, 429);
+    const wait = await signInWaitRemaining(pairKey);
+    if (wait > 0) throw new SignInError(signInWaitMessage(wait), 429);
     const userId = await verifyLogin(email, parsed.data.password);
     if (userId === null) {
-      await recordHit(SIGN_IN_FAILURES, key);
-      await recordHit(ACCOUNT_SIGN_IN_FAILURES, email);
+      await recordHit(ADDRESS_SIGN_IN_FAILURES, address);
+      await recordSignInFailure(pairKey);
       await recordAudit({ actorUserId: null, action: "sign_in_failed", entityType: "user", after: { email } });
       throw new SignInError(SIGN_IN_FAILED, 401);
     }
-    await clearHits(SIGN_IN_FAILURES, key);
+    await clearSignInFailures(pairKey);
     return userId;
   }),
   "password",
@@ -71,8 +84,32 @@ export async function signOut(request: Request) {
   return redirect("/login", { headers: { "Set-Cookie": await sessionStorage.destroySession(session) } });
 }
 
-/** Only same-site paths; anything else would let a link send people elsewhere after sign-in. */
+const REDIRECT_BASE = "http://ringbatch.invalid";
+const CONTROL_CHARACTERS = /[\u0000-\u001f\u007f-\u009f]/;
+
+/**
+ * Only same-site paths; anything else would let a link send people elsewhere
+ * after sign-in. The path is checked after the URL parser has normalised it
+ * (browsers drop tabs and read backslashes as slashes), refused when it holds
+ * control characters (also percent-encoded ones), and returned percent-encoded
+ * so it is a valid header.
+ */
 export function safeRedirect(to: string | null | undefined) {
-  if (!to || !to.startsWith("/") || to.startsWith("//") || to.startsWith("/\\")) return null;
-  return to;
+  if (!to || to.length > 2000 || !to.startsWith("/") || CONTROL_CHARACTERS.test(to)) return null;
+  let url: URL;
+  try {
+    url = new URL(to, REDIRECT_BASE);
+  } catch {
+    return null;
+  }
+  if (url.origin !== REDIRECT_BASE) return null;
+  // Encoded too: a later decoding step must not turn the path into `//host`.
+  let decodedPath: string;
+  try {
+    decodedPath = decodeURIComponent(url.pathname);
+  } catch {
+    return null;
+  }
+  if (CONTROL_CHARACTERS.test(decodedPath) || /^\/[\s/\\]/.test(decodedPath)) return null;
+  return url.pathname + url.search + url.hash;
 }

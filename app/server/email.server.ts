@@ -17,7 +17,8 @@ export function emailTransport(env: NodeJS.ProcessEnv = process.env): "resend" |
 
 const FROM = process.env.EMAIL_FROM ?? "Ringbatch <studies@ringbatch.example>";
 
-export async function sendEmail(message: EmailMessage) {
+/** Sends a message; `studyId` names the study it is about, which decides who may read it in the local mailbox. */
+export async function sendEmail(message: EmailMessage, { studyId = null }: { studyId?: number | null } = {}) {
   const transport = emailTransport();
   let providerMessageId: string | null = null;
   let error: string | null = null;
@@ -27,7 +28,7 @@ export async function sendEmail(message: EmailMessage) {
     providerMessageId = sent.data?.id ?? null;
     error = sent.error ? `${sent.error.name}: ${sent.error.message}` : null;
   }
-  const [row] = await db.insert(emailOutbox).values({ ...message, transport, providerMessageId, error }).returning();
+  const [row] = await db.insert(emailOutbox).values({ ...message, studyId, transport, providerMessageId, error }).returning();
   return row!;
 }
 
@@ -61,8 +62,12 @@ export function composeEmail({ to, subject, greeting, paragraphs, action }: Emai
   return { to, subject, html, text };
 }
 
-/** An absolute link into the app, from the request that caused the message (or APP_URL). */
+/**
+ * An absolute link into the app, from APP_URL (required in production, so a
+ * forged Host header never chooses where links point); during development,
+ * from the request that caused the message.
+ */
 export function appUrl(request: Request | null, path: string) {
-  const base = process.env.APP_URL ?? (request ? new URL(request.url).origin : "http://localhost:3000");
+  const base = process.env.APP_URL || (request ? new URL(request.url).origin : "http://localhost:3000");
   return new URL(path, base).toString();
 }

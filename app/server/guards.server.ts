@@ -60,6 +60,14 @@ export async function studyAccessFor(user: SessionUser, studyId: number) {
   return null;
 }
 
+/**
+ * A lab that declined the invitation or was withdrawn keeps a notice on the
+ * study's first page and nothing else: its analysts no longer follow the study.
+ */
+export function enrollmentEnded(enrollment: { state: string } | null | undefined) {
+  return enrollment?.state === "declined" || enrollment?.state === "withdrawn";
+}
+
 /** The user and their access to the study, or 404 when their access is not among `allowed`. */
 export async function requireStudyAccess(request: Request, studyIdParam: string | undefined, allowed: StudyAccess[]) {
   const user = await requireUser(request);

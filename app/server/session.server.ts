@@ -1,13 +1,24 @@
 import { randomBytes } from "node:crypto";
-import { eq } from "drizzle-orm";
+import { and, eq, isNull } from "drizzle-orm";
 import { createCookie, createSessionStorage } from "react-router";
 import { db } from "~/db/client.server";
-import { sessions } from "~/db/schema";
+import { apiTokens, sessions } from "~/db/schema";
+import { assertDeploymentConfig } from "~/server/deployment.server";
 
 const SESSION_LIFETIME_SECONDS = 60 * 60 * 12;
 
-/** Signing secrets for the app's cookies; the first signs, all verify (rotation). */
-export const sessionSecrets = (process.env.SESSION_SECRET ?? "ringbatch-local-session-secret").split(",");
+/**
+ * Signing secrets for the app's cookies; the first signs, all verify
+ * (rotation). The built-in one is for development only: production refuses
+ * to run without SESSION_SECRET.
+ */
+function configuredSecrets(env: NodeJS.ProcessEnv = process.env) {
+  if (env.SESSION_SECRET) return env.SESSION_SECRET.split(",");
+  // In production this throws, naming every missing setting.
+  assertDeploymentConfig(env);
+  return ["ringbatch-local-session-secret"];
+}
+export const sessionSecrets = configuredSecrets();
 
 const sessionCookie = createCookie("__ringbatch_session", {
   httpOnly: true,
@@ -56,7 +67,13 @@ export const sessionStorage = createSessionStorage<{ userId: number }>({
   },
 });
 
-/** Ends every session of a user (sign out everywhere, password change, disabled account). */
+/**
+ * Ends every session of a user and revokes their API tokens (sign out
+ * everywhere, password change, disabled account): whoever held either loses it.
+ */
 export async function endAllSessions(userId: number) {
-  await db.delete(sessions).where(eq(sessions.userId, userId));
+  await db.transaction(async (tx) => {
+    await tx.delete(sessions).where(eq(sessions.userId, userId));
+    await tx.update(apiTokens).set({ revokedAt: new Date() }).where(and(eq(apiTokens.userId, userId), isNull(apiTokens.revokedAt)));
+  });
 }

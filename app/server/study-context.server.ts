@@ -4,7 +4,7 @@
  * context. Children only narrow the roles they serve.
  */
 import { createContext, type RouterContextProvider } from "react-router";
-import { notFound, requireStudyAccess, type StudyAccess } from "~/server/guards.server";
+import { enrollmentEnded, notFound, requireStudyAccess, type StudyAccess } from "~/server/guards.server";
 
 export type StudyAccessGrant = Awaited<ReturnType<typeof requireStudyAccess>>;
 
@@ -19,9 +19,18 @@ export function studyAccessMiddleware(allowed: StudyAccess[]) {
   };
 }
 
-/** What the parent found, narrowed to the roles this child serves (404 otherwise). */
-export function requireStudy(context: Readonly<RouterContextProvider>, allowed: StudyAccess[]): StudyAccessGrant {
+/**
+ * What the parent found, narrowed to the roles this child serves (404
+ * otherwise). Analysts of a lab that declined or was withdrawn get 404 too,
+ * except on the pages that show them that notice (`endedEnrollment`).
+ */
+export function requireStudy(
+  context: Readonly<RouterContextProvider>,
+  allowed: StudyAccess[],
+  { endedEnrollment = false }: { endedEnrollment?: boolean } = {},
+): StudyAccessGrant {
   const grant = context.get(studyAccessContext);
   if (!allowed.includes(grant.access)) notFound();
+  if (grant.access === "analyst" && !endedEnrollment && enrollmentEnded(grant.enrollment)) notFound();
   return grant;
 }

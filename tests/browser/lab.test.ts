@@ -16,13 +16,13 @@ describe("an analyst's day in the lab, in the browser", () => {
     await expectAccessible(page);
 
     await page.getByRole("link", { name: "FF-2026-B" }).click();
-    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toMatch(/^FF-2026-B/);
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Tasks — FF-2026-B");
     await expectAccessible(page);
     const studyUrl = page.url();
 
     // Batch sheet: the day's moisture contents give the wet masses and the corrected water.
     await page.getByRole("link", { name: "Open batch sheet for F1" }).click();
-    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Batch sheet — F1");
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Batch sheet F1 — FF-2026-B");
     await expect.poll(() => page.getByText("Fresh concrete is caustic").count()).toBe(1);
     await page.getByLabel("Moisture content of Crushed limestone 12.5 mm (% of oven-dry mass)").fill("1.5");
     await page.getByLabel("Moisture content of Natural river sand (% of oven-dry mass)").fill("4");
@@ -34,7 +34,8 @@ describe("an analyst's day in the lab, in the browser", () => {
     // Result entry: a changed draft value is saved as typed and survives a reload.
     await page.goto(studyUrl);
     await page.getByRole("link", { name: "Enter results for F1" }).click();
-    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Results of F1");
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Results of F1 — FF-2026-B");
+    await expect.poll(() => page.title()).toBe("Results of F1 — FF-2026-B · Ringbatch");
     await expectAccessible(page);
     const holes1 = page.getByLabel("Passes to close the preformed holes, replicate 1");
     await holes1.fill("13");
@@ -102,7 +103,7 @@ describe("an analyst's day in the lab, in the browser", () => {
     await page.goto(`${running.server.url}/lab`);
     await page.getByRole("link", { name: "FF-2026-B" }).click();
     await page.getByRole("link", { name: "Import results from CSV" }).click();
-    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Import results from CSV");
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Import — FF-2026-B");
     await page.getByLabel("Results file (CSV)").setInputFiles({ name: "f1.csv", mimeType: "text/csv", buffer: Buffer.from("material,response,replicate,value\nF1,holes,1,9\nF7,holes,1,9\n") });
     await expect.poll(() => page.getByRole("table", { name: "Rows of the file, those with problems first" }).textContent()).toContain("already submitted");
     expect(await page.getByRole("table", { name: "Rows of the file, those with problems first" }).textContent()).toContain("The study has no material “F7”");

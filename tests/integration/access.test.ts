@@ -56,11 +56,12 @@ describe("role guards", () => {
     const outcome = await call(lab.loader, get("/lab", await demoCookie("analyst1@ringbatch.example")));
     const labNames = new Set(outcome.data.enrollments.map((e: { labName: string }) => e.labName));
     expect([...labNames]).toEqual(["Quarrow County Materials Lab"]);
-    expect(outcome.data.enrollments).toHaveLength(2);
+    // The published study, the one in checking, the one in testing, and the three proficiency rounds.
+    expect(outcome.data.enrollments).toHaveLength(6);
   });
 
   it("lists the studies assigned to a reviewer", async () => {
     const outcome = await call(review.loader, get("/review", await demoCookie("reviewer2@ringbatch.example")));
-    expect(outcome.data.studies.map((s: { code: string }) => s.code)).toEqual(["FF-2026-A", "FF-2026-B"]);
+    expect(outcome.data.studies.map((s: { code: string }) => s.code)).toEqual(["FF-2025-D", "FF-2026-A", "FF-2026-B"]);
   });
 });

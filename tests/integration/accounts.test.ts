@@ -12,6 +12,7 @@ import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
 import { call, cookieFrom, get, post } from "../support/routes";
+import { errorsOf, toastOf, valuesOf } from "../support/replies";
 
 beforeAll(async () => {
   await useFreshDatabase();
@@ -23,9 +24,9 @@ describe("account page", () => {
     const cookie = await demoCookie("reviewer3@ringbatch.example");
     const bad = await call(account.action, post("/account", { intent: "profile", name: "   " }, cookie));
     expect(bad.status).toBe(400);
-    expect(bad.data.errors.name).toBe("Enter a name.");
+    expect(errorsOf(bad).name).toBe("Enter a name.");
     const ok = await call(account.action, post("/account", { intent: "profile", name: "Dagny O." }, cookie));
-    expect(ok.data.done).toMatch(/saved/);
+    expect(await toastOf(ok)).toMatch(/saved/);
     expect((await db.query.users.findFirst({ where: eq(users.email, "reviewer3@ringbatch.example") }))!.name).toBe("Dagny O.");
   });
 
@@ -35,11 +36,11 @@ describe("account page", () => {
     const fields = { intent: "password", currentPassword: "wrong-password", newPassword: "a-new-long-password", confirmPassword: "a-new-long-password" };
     const wrong = await call(account.action, post("/account", fields, cookie));
     expect(wrong.status).toBe(400);
-    expect(wrong.data.errors.currentPassword).toBe("The current password is not correct.");
+    expect(errorsOf(wrong).currentPassword).toBe("The current password is not correct.");
     const mismatch = await call(account.action, post("/account", { ...fields, currentPassword: DEMO_PASSWORD, confirmPassword: "different-password" }, cookie));
-    expect(mismatch.data.errors.confirmPassword).toBe("The two new passwords differ.");
+    expect(errorsOf(mismatch).confirmPassword).toBe("The two new passwords differ.");
     const short = await call(account.action, post("/account", { ...fields, currentPassword: DEMO_PASSWORD, newPassword: "short", confirmPassword: "short" }, cookie));
-    expect(short.data.errors.newPassword).toBe("Use at least 12 characters.");
+    expect(errorsOf(short).newPassword).toBe("Use at least 12 characters.");
     expect(await getUser(get("/", other))).not.toBeNull();
     const changed = await call(account.action, post("/account", { ...fields, currentPassword: DEMO_PASSWORD }, cookie));
     expect(changed.status).toBe(302);
@@ -60,15 +61,15 @@ describe("account page", () => {
     const lab2 = await db.query.labs.findFirst({ where: eq(labs.name, "Tessel Ready-Mix QC") });
     const colleague = { intent: "add-colleague", labId: String(lab1!.id), name: "Nell Ferris", email: "nell@quarrow.example" };
     const invalid = await call(account.action, post("/account", { ...colleague, email: "not-an-email" }, contact));
-    expect(invalid.data.errors.email).toMatch(/e-mail address/);
-    expect(invalid.data.values.name).toBe("Nell Ferris");
+    expect(errorsOf(invalid).email).toMatch(/e-mail address/);
+    expect(valuesOf(invalid).name).toBe("Nell Ferris");
     const added = await call(account.action, post("/account", colleague, contact));
-    expect(added.data.done).toMatch(/Nell Ferris.*e-mail/);
+    expect(await toastOf(added)).toMatch(/Nell Ferris.*e-mail/);
     const nell = await db.query.users.findFirst({ where: eq(users.email, "nell@quarrow.example") });
     expect(nell!.role).toBe("analyst");
     expect(nell!.passwordHash).toBeNull();
     const duplicate = await call(account.action, post("/account", colleague, contact));
-    expect(duplicate.data.errors.email).toBe("An account with this e-mail already exists.");
+    expect(errorsOf(duplicate).email).toBe("An account with this e-mail already exists.");
     const foreign = await call(account.action, post("/account", { ...colleague, labId: String(lab2!.id), email: "x@y.example" }, contact));
     expect(foreign.status).toBe(404);
 
@@ -78,7 +79,7 @@ describe("account page", () => {
     const token = path.split("/").pop()!;
     expect((await call(welcome.loader, get(path), { token })).data.account).toEqual({ name: "Nell Ferris", email: "nell@quarrow.example" });
     const short = await call(welcome.action, post(path, { password: "short", confirm: "short" }), { token });
-    expect(short.data.errors.password).toBe("Use at least 12 characters.");
+    expect(errorsOf(short).password).toBe("Use at least 12 characters.");
     const set = await call(welcome.action, post(path, { password: "nells-own-password", confirm: "nells-own-password" }), { token });
     expect(set.status).toBe(302);
     expect(set.headers.get("Location")).toBe("/lab");
@@ -88,7 +89,7 @@ describe("account page", () => {
     expect((await call(welcome.loader, get("/welcome/nonsense"), { token: "nonsense" })).status).toBe(404);
 
     const removed = await call(account.action, post("/account", { intent: "remove-colleague", labId: String(lab1!.id), userId: String(nell!.id) }, contact));
-    expect(removed.data.done).toMatch(/removed/);
+    expect(await toastOf(removed)).toMatch(/removed/);
     expect(await db.select().from(labMembers).where(eq(labMembers.userId, nell!.id))).toHaveLength(0);
   });
 });
@@ -98,11 +99,11 @@ describe("admin pages", () => {
     const admin = await demoCookie("admin@ringbatch.example");
     const bad = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "x", name: "", role: "wizard", password: "short", labId: "" }, admin));
     expect(bad.status).toBe(400);
-    expect(Object.keys(bad.data.errors).sort()).toEqual(["email", "name", "password", "role"]);
+    expect(Object.keys(errorsOf(bad)).sort()).toEqual(["email", "name", "password", "role"]);
     const noLab = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "new@lab.example", name: "New Analyst", role: "analyst", password: "long-enough-pw", labId: "" }, admin));
-    expect(noLab.data.errors.labId).toMatch(/choose one/);
+    expect(errorsOf(noLab).labId).toMatch(/choose one/);
     const ok = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "coord2@ringbatch.example", name: "Second Coordinator", role: "coordinator", password: "long-enough-pw", labId: "" }, admin));
-    expect(ok.data.done).toMatch(/created/);
+    expect(await toastOf(ok)).toMatch(/created/);
   });
 
   it("disables an account and ends its sessions", async () => {
@@ -110,7 +111,7 @@ describe("admin pages", () => {
     const victim = await demoCookie("analyst6@ringbatch.example");
     const user = await db.query.users.findFirst({ where: eq(users.email, "analyst6@ringbatch.example") });
     const outcome = await call(adminUsers.action, post("/admin/users", { intent: "disable", userId: String(user!.id), disabled: "true" }, admin));
-    expect(outcome.data.done).toMatch(/disabled/);
+    expect(await toastOf(outcome)).toMatch(/disabled/);
     expect(await getUser(get("/", victim))).toBeNull();
     const audit = await db.select().from(auditEvents).where(eq(auditEvents.action, "user_disabled"));
     expect(audit).toHaveLength(1);
@@ -119,11 +120,11 @@ describe("admin pages", () => {
   it("adds a lab to the directory and refuses a duplicate name", async () => {
     const admin = await demoCookie("admin@ringbatch.example");
     const lab = { name: "Norrow Field Lab", address: "1 Test Road", contactName: "", contactEmail: "", accreditationNumber: "" };
-    expect((await call(adminLabs.action, post("/admin/labs", lab, admin))).data.done).toMatch(/Norrow/);
+    expect(await toastOf(await call(adminLabs.action, post("/admin/labs", lab, admin)))).toMatch(/Norrow/);
     const again = await call(adminLabs.action, post("/admin/labs", lab, admin));
-    expect(again.data.errors.name).toBe("A lab with this name already exists.");
+    expect(errorsOf(again).name).toBe("A lab with this name already exists.");
     const badEmail = await call(adminLabs.action, post("/admin/labs", { ...lab, name: "Other", contactEmail: "nope" }, admin));
-    expect(badEmail.data.errors.contactEmail).toMatch(/e-mail/);
+    expect(errorsOf(badEmail).contactEmail).toMatch(/e-mail/);
   });
 
   it("edits a lab's entry, so a lab without a contact e-mail can be invited", async () => {
@@ -133,11 +134,11 @@ describe("admin pages", () => {
     expect(page.data.editing.name).toBe("Norrow Field Lab");
     const entry = { labId: String(norrow.id), name: "Norrow Field Lab", address: "1 Test Road", contactName: "Ada Quill", contactEmail: "ada@norrow.example", accreditationNumber: "QA-0001" };
     const saved = await call(adminLabs.action, post("/admin/labs", entry, admin));
-    expect(saved.data.done).toBe("Norrow Field Lab saved.");
+    expect(await toastOf(saved)).toBe("Norrow Field Lab saved.");
     expect((await db.query.labs.findFirst({ where: eq(labs.id, norrow.id) }))!.contactEmail).toBe("ada@norrow.example");
     const taken = await call(adminLabs.action, post("/admin/labs", { ...entry, name: "Tessel Ready-Mix QC" }, admin));
-    expect(taken.data.errors.name).toBe("A lab with this name already exists.");
+    expect(errorsOf(taken).name).toBe("A lab with this name already exists.");
     const gone = await call(adminLabs.action, post("/admin/labs", { ...entry, labId: "999999" }, admin));
-    expect(gone.data.errors.form).toBe("That lab no longer exists.");
+    expect(errorsOf(gone).form).toBe("That lab no longer exists.");
   });
 });

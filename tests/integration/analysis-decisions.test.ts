@@ -9,6 +9,7 @@ import * as whatIf from "~/routes/api/v1/study-what-if";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
+import { errorsOf, toastOf, valuesOf } from "../support/replies";
 import { call, get, post } from "../support/routes";
 
 let studyId: string;
@@ -53,14 +54,14 @@ describe("asking the lab", () => {
   it("keeps the question and shows the error beside it when it is too short", async () => {
     const outcome = await call(analysisPage.action, post(page(), { intent: "ask", lab: "L08", material: "M2", response: "surface", statistic: "h", question: "Why?" }, coordinator), { studyId });
     expect(outcome.status).toBe(400);
-    expect(outcome.data.errors.question).toMatch(/at least 10/);
-    expect(outcome.data.values.question).toBe("Why?");
+    expect(errorsOf(outcome).question).toMatch(/at least 10/);
+    expect(valuesOf(outcome).question).toBe("Why?");
   });
 
   it("refuses a cell that does not exist", async () => {
     const outcome = await call(analysisPage.action, post(page(), { intent: "ask", lab: "L99", material: "M2", response: "surface", statistic: "", question: "Please check these results." }, coordinator), { studyId });
     expect(outcome.status).toBe(409);
-    expect(outcome.data.errors.form).toMatch(/L99/);
+    expect(errorsOf(outcome).form).toMatch(/L99/);
   });
 
   it("raises a query, e-mails the lab, and tracks it through the answer to closed", async () => {
@@ -70,7 +71,8 @@ describe("asking the lab", () => {
       post(page(), { intent: "ask", lab: "L08", material: "M2", response: "surface", statistic: "h = 2.3 (critical ±2.15)", question: "Please check the surface pass counts of M2." }, coordinator),
       { studyId },
     );
-    expect(outcome.status).toBe(200);
+    expect(outcome.status).toBe(302);
+    expect(await toastOf(outcome)).toBe("Query sent to lab L08.");
     const mail = (await db.select().from(emailOutbox)).slice(before);
     expect(mail.map((m) => m.to)).toContain("analyst5@ringbatch.example");
     expect(mail[0]!.text).toContain("Please check the surface pass counts of M2.");
@@ -83,10 +85,11 @@ describe("asking the lab", () => {
     await answerQuery(query.id, [member!.labId], "The operator miscounted passes on that day.", analyst, null);
     expect((await db.query.queries.findFirst({ where: eq(queries.id, query.id) }))!.state).toBe("answered");
 
-    const closed = await call(queriesPage.action, post(`/studies/${studyId}/queries`, { queryId: String(query.id) }, coordinator), { studyId });
-    expect(closed.status).toBe(200);
+    const closed = await call(queriesPage.action, post(`/studies/${studyId}/queries`, { intent: "close", queryId: String(query.id) }, coordinator), { studyId });
+    expect(closed.status).toBe(302);
+    expect(await toastOf(closed)).toBe("Query closed.");
     expect((await db.query.queries.findFirst({ where: eq(queries.id, query.id) }))!.state).toBe("closed");
-    const again = await call(queriesPage.action, post(`/studies/${studyId}/queries`, { queryId: String(query.id) }, coordinator), { studyId });
+    const again = await call(queriesPage.action, post(`/studies/${studyId}/queries`, { intent: "close", queryId: String(query.id) }, coordinator), { studyId });
     expect(again.status).toBe(409);
   });
 });
@@ -109,14 +112,14 @@ describe("cell decisions", () => {
   it("requires a decision and a reason", async () => {
     const outcome = await call(analysisPage.action, post(page(), { intent: "decide", lab: "L08", material: "M2", response: "surface", reason: "" }, coordinator), { studyId });
     expect(outcome.status).toBe(400);
-    expect(Object.keys(outcome.data.errors).sort()).toEqual(["decision", "reason"]);
+    expect(Object.keys(errorsOf(outcome)).sort()).toEqual(["decision", "reason"]);
   });
 
   it("excludes a cell with its reason: the figures change, the data version moves, the trail records it", async () => {
     const before = (await call(analysisPage.loader, get(page(), coordinator), { studyId })).data;
     const reason = "Lab confirmed an operator counting error on that day (query answered).";
     const saved = await call(analysisPage.action, post(page(), { intent: "decide", lab: "L08", material: "M2", response: "surface", decision: "excluded", reason }, coordinator), { studyId });
-    expect(saved.status).toBe(200);
+    expect(saved.status).toBe(302);
     const after = (await call(analysisPage.loader, get(page(), coordinator), { studyId })).data;
     expect(after.study.dataVersion).toBe(before.study.dataVersion + 1);
     expect(group(after.analysis, "M2", "surface").p).toBe(group(before.analysis, "M2", "surface").p - 1);

@@ -92,10 +92,11 @@ describe("API authentication", () => {
 describe("API endpoints by role", () => {
   it("lists each role's studies", async () => {
     const list = async (email: string) => (await call(studyList.loader, get("/api/v1/studies", await demoCookie(email)))).data.studies.map((s: { code: string }) => s.code);
-    expect(await list("admin@ringbatch.example")).toEqual(["FF-2026-A", "FF-2026-B"]);
-    expect(await list("coordinator@ringbatch.example")).toEqual(["FF-2026-A", "FF-2026-B"]);
-    expect(await list("analyst3@ringbatch.example")).toEqual(["FF-2026-A", "FF-2026-B"]);
-    expect(await list("reviewer2@ringbatch.example")).toEqual(["FF-2026-A", "FF-2026-B"]);
+    const rounds = ["PT-2025-2", "PT-2026-1", "PT-2026-2"];
+    expect(await list("admin@ringbatch.example")).toEqual(["FF-2025-D", "FF-2026-A", "FF-2026-B", ...rounds, "RG-2026-1"]);
+    expect(await list("coordinator@ringbatch.example")).toEqual(["FF-2025-D", "FF-2026-A", "FF-2026-B", ...rounds, "RG-2026-1"]);
+    expect(await list("analyst3@ringbatch.example")).toEqual(["FF-2025-D", "FF-2026-A", "FF-2026-B", ...rounds]);
+    expect(await list("reviewer2@ringbatch.example")).toEqual(["FF-2025-D", "FF-2026-A", "FF-2026-B"]);
   });
 
   it("describes a study blinded by role: names for the coordinator, codes for reviewers, only its own lab for an analyst", async () => {

@@ -12,7 +12,9 @@ import { seedDemo } from "../../seed/seed";
 import { createStudyAs } from "../support/coordinator";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
+import { readReply } from "../support/replies";
 import { call, cookieFrom, get, post } from "../support/routes";
+import { errorsOf } from "../support/replies";
 
 let coordinator: string;
 let study: typeof studies.$inferSelect;
@@ -28,8 +30,8 @@ beforeAll(async () => {
   [newLab] = await db.insert(labs).values({ name: "Fennick Test Bench", contactName: "Ivo Fennick", contactEmail: "ivo@fennick.example" }).returning();
 });
 
-const inviteLab = (s: typeof study, labId: number, cookie = coordinator) =>
-  call(labsPage.action, post(`/studies/${s.id}/labs`, { intent: "invite", labId: String(labId) }, cookie), { studyId: String(s.id) });
+const inviteLab = async (s: typeof study, labId: number, cookie = coordinator) =>
+  readReply(await call(labsPage.action, post(`/studies/${s.id}/labs`, { intent: "invite", labId: String(labId) }, cookie), { studyId: String(s.id) }));
 
 /** The link of the newest message to an address, as the recipient would click it. */
 async function latestLink(to: string) {
@@ -43,20 +45,20 @@ const answer = (link: { path: string; token: string }, fields: Record<string, st
 
 describe("inviting labs", () => {
   it("waits for recruiting, and needs a lab with a contact e-mail", async () => {
-    expect((await inviteLab(study, newLab.id)).data.errors.labId).toBe("Labs can be invited only while the study is recruiting.");
+    expect((await inviteLab(study, newLab.id)).errors.labId).toBe("Labs can be invited only while the study is recruiting.");
     await db.update(studies).set({ state: "recruiting" }).where(eq(studies.id, study.id));
     study.state = "recruiting";
     await db.update(studies).set({ state: "recruiting" }).where(eq(studies.id, otherStudy.id));
     const [noContact] = await db.insert(labs).values({ name: "Nocontact Lab" }).returning();
-    expect((await inviteLab(study, noContact!.id)).data.errors.labId).toContain("no contact e-mail");
-    expect((await inviteLab(study, 999999)).data.errors.labId).toBe("Choose a lab from the directory.");
+    expect((await inviteLab(study, noContact!.id)).errors.labId).toContain("no contact e-mail");
+    expect((await inviteLab(study, 999999)).errors.labId).toBe("Choose a lab from the directory.");
     expect((await inviteLab(study, Number.NaN)).status).toBe(400);
     expect((await inviteLab(study, newLab.id, await demoCookie("admin@ringbatch.example"))).status).toBe(404);
   });
 
   it("e-mails the contact a single-use link whose token is stored only as its SHA-256", async () => {
     const outcome = await inviteLab(study, newLab.id);
-    expect(outcome.data.done).toBe("Invitation sent to the lab's contact.");
+    expect(outcome.done).toBe("Invitation sent to the lab's contact.");
     const link = await latestLink("ivo@fennick.example");
     // 32 random bytes in base64url are 43 characters.
     expect(link.token).toMatch(/^[A-Za-z0-9_-]{43}$/);
@@ -87,10 +89,10 @@ describe("inviting labs", () => {
     expect(page.status).toBe(200);
     expect(page.data.invitation).toMatchObject({ labName: "Fennick Test Bench", email: "ivo@fennick.example", needsPassword: true });
     const short = await answer(link, { intent: "accept", name: "Ivo Fennick", password: "short", confirm: "short" });
-    expect(short.data.errors.password).toBe("Use at least 12 characters.");
+    expect(errorsOf(short).password).toBe("Use at least 12 characters.");
     const differ = await answer(link, { intent: "accept", name: "Ivo Fennick", password: "a-long-enough-password", confirm: "another-long-password" });
-    expect(differ.data.errors.confirm).toBe("The two passwords differ.");
-    expect((await answer(link, { intent: "accept", name: "", password: "a-long-enough-password", confirm: "a-long-enough-password" })).data.errors.name).toBe("Enter a name.");
+    expect(errorsOf(differ).confirm).toBe("The two passwords differ.");
+    expect(errorsOf(await answer(link, { intent: "accept", name: "", password: "a-long-enough-password", confirm: "a-long-enough-password" })).name).toBe("Enter a name.");
     const accepted = await answer(link, { intent: "accept", name: "Ivo Fennick", password: "a-long-enough-password", confirm: "a-long-enough-password" });
     expect(accepted.status).toBe(302);
     expect(accepted.headers.get("Location")).toBe("/lab");
@@ -127,7 +129,7 @@ describe("inviting labs", () => {
     expect((await openInvite(link)).data.invitation.needsPassword).toBe(false);
     const signedOut = await answer(link, { intent: "accept" });
     expect(signedOut.status).toBe(403);
-    expect(signedOut.data.errors.form).toBe("Sign in as analyst3@ringbatch.example to accept.");
+    expect(errorsOf(signedOut)[""]).toBe("Sign in as analyst3@ringbatch.example to accept.");
     const wrongPerson = await answer(link, { intent: "accept" }, await demoCookie("analyst4@ringbatch.example"));
     expect(wrongPerson.status).toBe(403);
     const accepted = await answer(link, { intent: "accept" }, await demoCookie("analyst3@ringbatch.example"));
@@ -136,21 +138,24 @@ describe("inviting labs", () => {
     const lab4 = (await db.query.labs.findFirst({ where: eq(labs.contactEmail, "analyst4@ringbatch.example") }))!;
     await inviteLab(study, lab4.id);
     const declineLink = await latestLink("analyst4@ringbatch.example");
-    expect((await answer(declineLink, { intent: "decline" })).data.done).toContain("declined");
+    expect((await answer(declineLink, { intent: "decline" })).data.declined).toBe(true);
     const declined = (await db.query.enrollments.findFirst({ where: and(eq(enrollments.studyId, study.id), eq(enrollments.labId, lab4.id)) }))!;
     expect(declined).toMatchObject({ state: "declined", labCode: null });
     const codes = (await db.select().from(enrollments).where(eq(enrollments.studyId, study.id))).map((e) => e.labCode).filter(Boolean);
     expect(new Set(codes).size).toBe(codes.length);
-    expect((await inviteLab(study, lab3.id)).data.errors.labId).toBe("This lab has already accepted.");
+    expect((await inviteLab(study, lab3.id)).errors.labId).toBe("This lab has already accepted.");
   });
 });
 
 describe("blind lab codes", () => {
-  it("never repeat a taken code and use every free code of the pool", () => {
+  it("never repeat a taken code and use every free code of a range much wider than the number of labs", () => {
     const taken = new Set(["L01", "L03"]);
-    const drawn = new Set(Array.from({ length: 200 }, (_, i) => drawLabCode(taken, 4, (max) => i % max)));
-    expect([...drawn].sort()).toEqual(["L02", "L04"]);
-    expect(drawLabCode(new Set(["L01", "L02"]), 2, () => 0)).toBe("L03");
+    const drawn = new Set(Array.from({ length: 400 }, (_, i) => drawLabCode(taken, 4, (max) => i % max)));
+    expect(drawn.size).toBe(97);
+    expect(drawn.has("L01") || drawn.has("L03")).toBe(false);
+    expect([...drawn].sort().at(-1)).toBe("L99");
+    // A large study draws from three times its number of labs.
+    expect(drawLabCode(new Set(), 40, (max) => max - 1)).toBe("L120");
   });
 });
 

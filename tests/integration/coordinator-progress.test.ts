@@ -12,7 +12,9 @@ import { seedDemo } from "../../seed/seed";
 import { createStudyAs, postMultipart } from "../support/coordinator";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
+import { readReply } from "../support/replies";
 import { call, get, post } from "../support/routes";
+import { errorsOf, toastOf } from "../support/replies";
 
 let coordinator: string;
 let testing: typeof studies.$inferSelect;
@@ -36,8 +38,8 @@ describe("the mixture design editor's save", () => {
     "c.1.kind": "water", "c.1.name": "Batch water", "c.1.lot": "", "c.1.ssdMassKgPerM3": "150", "c.1.relativeDensity": "1",
     "c.2.kind": "admixture", "c.2.name": "Water reducer", "c.2.lot": "", "c.2.dosagePer100kgCementitious": "300",
   };
-  const save = (fields: Record<string, string>) =>
-    call(materialPage.action, post(`/studies/${study.id}/materials/${materialId}`, fields, coordinator), { studyId: String(study.id), materialId: String(materialId) });
+  const save = async (fields: Record<string, string>) =>
+    readReply(await call(materialPage.action, post(`/studies/${study.id}/materials/${materialId}`, fields, coordinator), { studyId: String(study.id), materialId: String(materialId) }));
 
   beforeAll(async () => {
     study = await createStudyAs(coordinator, { code: "FF-2027-MIX" });
@@ -45,7 +47,7 @@ describe("the mixture design editor's save", () => {
   });
 
   it("stores the rows in SI whichever units they were typed in", async () => {
-    expect((await save({ ...design, units: "si" })).data.done).toBe("Mixture design saved.");
+    expect((await save({ ...design, units: "si" })).done).toBe("Mixture design saved.");
     const si = await db.select().from(mixtureConstituents).where(eq(mixtureConstituents.materialId, materialId));
     expect(si.map((r) => [r.kind, r.ssdMassKgPerM3, r.dosageMlPer100Kg])).toEqual([
       ["cement", 335, null],
@@ -73,8 +75,10 @@ describe("the mixture design editor's save", () => {
     const before = await db.select().from(mixtureConstituents).where(eq(mixtureConstituents.materialId, materialId));
     const outcome = await save({ ...design, units: "si", ...change });
     expect(outcome.status).toBe(400);
-    expect(outcome.data.errors[field]).toContain(message);
-    expect(outcome.data.values["c.0.name"]).toBe({ ...design, ...change }["c.0.name"]);
+    expect(outcome.errors[field]).toContain(message);
+    // The rows come back as typed; a field left blank comes back blank.
+    const typedRows = outcome.values.c as Record<string, { name?: string }>;
+    expect(typedRows["0"]!.name ?? "").toBe({ ...design, ...change }["c.0.name"]);
     expect(await db.select().from(mixtureConstituents).where(eq(mixtureConstituents.materialId, materialId))).toEqual(before);
   });
 
@@ -83,11 +87,13 @@ describe("the mixture design editor's save", () => {
     const locked = await call(materialPage.action, post(path, { ...design, units: "si" }, coordinator), { studyId: String(testing.id), materialId: "1" });
     expect([400, 404]).toContain(locked.status);
     const mine = (await db.query.materials.findFirst({ where: eq(materials.studyId, testing.id) }))!;
-    const lockedOwn = await call(materialPage.action, post(`/studies/${testing.id}/materials/${mine.id}`, { ...design, code: mine.code, units: "si" }, coordinator), {
-      studyId: String(testing.id),
-      materialId: String(mine.id),
-    });
-    expect(lockedOwn.data.errors.code).toBe("Replicates, responses and materials are fixed once testing starts.");
+    const lockedOwn = await readReply(
+      await call(materialPage.action, post(`/studies/${testing.id}/materials/${mine.id}`, { ...design, code: mine.code, units: "si" }, coordinator), {
+        studyId: String(testing.id),
+        materialId: String(mine.id),
+      }),
+    );
+    expect(lockedOwn.errors.code).toBe("Replicates, responses and materials are fixed once testing starts.");
     const outsider = await call(materialPage.loader, get(path, await demoCookie("analyst1@ringbatch.example")), { studyId: String(study.id), materialId: String(materialId) });
     expect(outsider.status).toBe(404);
   });
@@ -124,22 +130,23 @@ describe("progress and reminders", () => {
 
   it("reminds only the labs with missing results", async () => {
     const before = (await db.select().from(emailOutbox)).length;
-    const outcome = await call(overview.action, post(`/studies/${testing.id}`, { intent: "remind" }, coordinator), params());
-    expect(outcome.data.done).toContain("Reminded 4 labs");
+    const outcome = await readReply(await call(overview.action, post(`/studies/${testing.id}`, { intent: "remind" }, coordinator), params()));
+    expect(outcome.done).toContain("Reminded 4 labs");
     const sent = (await db.select().from(emailOutbox)).slice(before);
     // Labs 5–8 of the seed (drafts or not started); labs 1–4 have submitted everything.
     expect(sent.map((m) => m.to).sort()).toEqual(["analyst5@ringbatch.example", "analyst6@ringbatch.example", "analyst7@ringbatch.example", "analyst8@ringbatch.example"]);
     expect(sent.find((m) => m.to === "analyst5@ringbatch.example")!.text).toContain("F2");
     const checking = (await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-A") }))!;
-    const refused = await call(overview.action, post(`/studies/${checking.id}`, { intent: "remind" }, coordinator), { studyId: String(checking.id) });
-    expect(refused.data.errors.form).toBe("Reminders go out only while the study is testing.");
+    const refused = await readReply(await call(overview.action, post(`/studies/${checking.id}`, { intent: "remind" }, coordinator), { studyId: String(checking.id) }));
+    expect(refused.errors.form).toBe("Reminders go out only while the study is testing.");
     expect((await call(overview.action, post(`/studies/${testing.id}`, { intent: "remind" }, await demoCookie("admin@ringbatch.example")), params())).status).toBe(404);
   });
 });
 
 describe("shipments and receipt", () => {
   let enrollmentId: number;
-  const ship = (fields: Record<string, string>, cookie = coordinator) => call(shipmentsPage.action, post(`/studies/${testing.id}/shipments`, fields, cookie), params());
+  const ship = async (fields: Record<string, string>, cookie = coordinator) =>
+    readReply(await call(shipmentsPage.action, post(`/studies/${testing.id}/shipments`, fields, cookie), params()));
 
   beforeAll(async () => {
     const lab = (await db.query.labs.findFirst({ where: eq(labs.contactEmail, "analyst1@ringbatch.example") }))!;
@@ -150,25 +157,25 @@ describe("shipments and receipt", () => {
     const page = await call(shipmentsPage.loader, get(`/studies/${testing.id}/shipments`, coordinator), params());
     expect(page.data.defaultContents).toContain("F1: ");
     expect(page.data.defaultContents).toContain("lot P-0601");
-    expect((await ship({ intent: "create", enrollmentId: String(enrollmentId), contents: "", carrier: "", trackingNumber: "" })).data.errors.contents).toContain("List the materials");
-    expect((await ship({ intent: "create", enrollmentId: "", contents: "F1", carrier: "", trackingNumber: "" })).data.errors.enrollmentId).toBe("Choose a lab.");
-    expect((await ship({ intent: "create", enrollmentId: "999999", contents: "F1", carrier: "", trackingNumber: "" })).data.errors.enrollmentId).toBe("Ship only to labs that have accepted.");
-    expect((await ship({ intent: "create", enrollmentId: String(enrollmentId), contents: page.data.defaultContents, carrier: "Kestrel Freight", trackingNumber: "" })).data.done).toBe("Shipment prepared.");
+    expect((await ship({ intent: "create", enrollmentId: String(enrollmentId), contents: "", carrier: "", trackingNumber: "" })).errors.contents).toContain("List the materials");
+    expect((await ship({ intent: "create", enrollmentId: "", contents: "F1", carrier: "", trackingNumber: "" })).errors.enrollmentId).toBe("Choose a lab.");
+    expect((await ship({ intent: "create", enrollmentId: "999999", contents: "F1", carrier: "", trackingNumber: "" })).errors.enrollmentId).toBe("Ship only to labs that have accepted.");
+    expect((await ship({ intent: "create", enrollmentId: String(enrollmentId), contents: page.data.defaultContents, carrier: "Kestrel Freight", trackingNumber: "" })).done).toBe("Shipment prepared.");
     expect((await ship({ intent: "create", enrollmentId: String(enrollmentId), contents: "F1", carrier: "", trackingNumber: "" }, await demoCookie("analyst1@ringbatch.example"))).status).toBe(404);
   });
 
   it("marks it shipped and e-mails the lab; refuses a missing carrier or date and a second move", async () => {
     const shipment = (await db.query.shipments.findFirst({ where: eq(shipments.enrollmentId, enrollmentId), orderBy: desc(shipments.id) }))!;
     const id = String(shipment.id);
-    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "", carrier: "Kestrel Freight", trackingNumber: "" })).data.errors.shippedOn).toContain("YYYY-MM-DD");
-    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2026-11-16", carrier: "", trackingNumber: "" })).data.errors.carrier).toBe("Name the carrier.");
+    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "", carrier: "Kestrel Freight", trackingNumber: "" })).errors.shippedOn).toContain("YYYY-MM-DD");
+    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2026-11-16", carrier: "", trackingNumber: "" })).errors.carrier).toBe("Name the carrier.");
     const before = (await db.select().from(emailOutbox)).length;
-    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2026-11-16", carrier: "Kestrel Freight", trackingNumber: "KF-1" })).data.done).toContain("e-mailed");
+    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2026-11-16", carrier: "Kestrel Freight", trackingNumber: "KF-1" })).done).toContain("e-mailed");
     const [notice] = (await db.select().from(emailOutbox)).slice(before);
     expect(notice).toMatchObject({ to: "analyst1@ringbatch.example" });
     expect(notice!.text).toContain(`/lab/studies/${testing.id}/receipt`);
-    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2026-11-16", carrier: "Kestrel Freight", trackingNumber: "" })).data.errors.form).toContain("cannot be changed");
-    expect((await ship({ intent: "lost", shipmentId: "999999" })).data.errors.form).toBe("That shipment is not part of this study.");
+    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2026-11-16", carrier: "Kestrel Freight", trackingNumber: "" })).errors.form).toContain("cannot be changed");
+    expect((await ship({ intent: "lost", shipmentId: "999999" })).errors.form).toBe("That shipment is not part of this study.");
   });
 
   it("lets the lab confirm receipt with a photo, and shows damage on the overview", async () => {
@@ -181,14 +188,15 @@ describe("shipments and receipt", () => {
       return call(receipt.action, postMultipart(`/lab/studies/${testing.id}/receipt`, form, cookie), params());
     };
     const fields = { shipmentId: String(shipment.id), receivedOn: "2026-11-18", condition: "damaged", receiptNotes: "" };
-    expect((await confirm(fields)).data.errors.receiptNotes).toContain("Describe the damage");
-    expect((await confirm({ ...fields, condition: "soggy" })).data.errors.condition).toContain("good condition or damaged");
-    expect((await confirm({ ...fields, receivedOn: "18/02/2027" })).data.errors.receivedOn).toContain("YYYY-MM-DD");
-    expect((await confirm({ ...fields, receiptNotes: "Wet bag" }, new File(["<svg/>"], "photo.png"))).data.errors.photo).toContain("not a JPG, PNG, WEBP file");
-    // Another lab's analyst cannot confirm this lab's shipment.
-    expect((await confirm({ ...fields, receiptNotes: "x" }, undefined, await demoCookie("analyst2@ringbatch.example"))).data.errors.form).toBe("That shipment is not for your lab.");
-    const png = new File([new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 1, 2, 3])], "bag.png");
-    expect((await confirm({ ...fields, receiptNotes: "One fiber carton crushed." }, png)).data.done).toBe("Receipt confirmed. Thank you.");
+    expect(errorsOf(await confirm(fields)).receiptNotes).toContain("Describe the damage");
+    expect(errorsOf(await confirm({ ...fields, condition: "soggy" })).condition).toContain("good condition or damaged");
+    expect(errorsOf(await confirm({ ...fields, receivedOn: "18/02/2027" })).receivedOn).toContain("YYYY-MM-DD");
+    expect(errorsOf(await confirm({ ...fields, receiptNotes: "Wet bag" }, new File(["<svg/>"], "photo.png"))).photo).toContain("not a JPG, PNG, WEBP file");
+    // Another lab's analyst cannot confirm this lab's shipment, and learns nothing from the answer.
+    expect((await confirm({ ...fields, receiptNotes: "x" }, undefined, await demoCookie("analyst2@ringbatch.example"))).status).toBe(404);
+    // A 1 × 1 pixel PNG (PNG specification: signature 89 50 4E 47 0D 0A 1A 0A, then IHDR, IDAT, IEND).
+    const png = new File([Buffer.from("iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg==", "base64")], "bag.png");
+    expect(await toastOf(await confirm({ ...fields, receiptNotes: "One fiber carton crushed." }, png))).toBe("Receipt confirmed. Thank you.");
     const stored = (await db.query.shipments.findFirst({ where: eq(shipments.id, shipment.id) }))!;
     expect(stored).toMatchObject({ status: "received", condition: "damaged", receivedOn: "2026-11-18", receiptNotes: "One fiber carton crushed." });
     expect(stored.photoAttachmentId).not.toBeNull();

@@ -23,9 +23,12 @@ describe("database", () => {
     const first = await counts();
     await seedDemo(db);
     expect(await counts()).toEqual(first);
-    // 2 staff + 8 analysts + 3 reviewers; the checking study's 8 labs × 4 materials × 2 responses × 3 replicates
-    // plus the testing study's 4 submitted labs × 2 × 2 × 3 and 2 draft labs × 1 × 2 × 3.
-    expect(first).toEqual([13, 2, 192 + 48 + 12]);
+    // 2 staff + 12 analysts + 3 reviewers; the checking study's 8 labs × 4 materials × 2 responses × 3 replicates
+    // plus the testing study's 4 submitted labs × 2 × 2 × 3 and 2 draft labs × 1 × 2 × 3, plus the published
+    // study's 8 labs × 3 materials × 2 responses × 3 replicates; the ruggedness study keeps its results apart;
+    // the two published rounds' 12 labs × 2 materials × 2 responses × 2 replicates each and the round in
+    // testing's 6 submitted labs × 2 × 2 × 2.
+    expect(first).toEqual([17, 7, 192 + 48 + 12 + 144 + 2 * 96 + 48]);
   });
 
   it("keeps foreign keys on and WAL for the file database", async () => {

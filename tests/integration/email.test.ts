@@ -83,7 +83,8 @@ describe("e-mail through the local fake transport", () => {
     expect(received).toHaveLength(0);
     const stored = await db.query.emailOutbox.findFirst({ where: eq(emailOutbox.id, row.id) });
     expect(stored).toMatchObject({ ...message, transport: "fake" });
-    const listed = (await listMessages()).map((m) => m.id);
+    const admin = { id: 0, email: "admin@ringbatch.example", name: "Admin", role: "admin" as const, labIds: [], contactLabIds: [] };
+    const listed = (await listMessages(admin)).map((m) => m.id);
     expect(listed).toContain(row.id);
     // Messages that went to the provider (the tests above) are not part of the local mailbox.
     const viaProvider = await db.select({ id: emailOutbox.id }).from(emailOutbox).where(eq(emailOutbox.transport, "resend"));

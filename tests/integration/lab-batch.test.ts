@@ -7,6 +7,7 @@ import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
 import { call, get, post } from "../support/routes";
+import { errorsOf, toastOf } from "../support/replies";
 
 let studyId: string;
 let materialId: string;
@@ -55,9 +56,9 @@ describe("batch sheet page", () => {
     const cookie = await demoCookie("analyst5@ringbatch.example");
     const fields = { batchVolume: "1", [`moisture-${ids.coarse}`]: "3", [`moisture-${ids.fine}`]: "0.5" };
     const saved = await call(batchPage.action, post(path(), fields, cookie), { studyId, materialId });
-    expect(saved.data.saved).toBe(true);
+    expect(await toastOf(saved)).toBe("Saved: this sheet is kept for your batch of CHK.");
     const page = await call(batchPage.loader, get(path(), cookie), { studyId, materialId });
-    for (const sheet of [saved.data.computed.sheet, page.data.computed.sheet]) {
+    for (const sheet of [page.data.computed.sheet]) {
       const coarse = sheet.rows.find((r: { name: string }) => r.name === "Coarse");
       const fine = sheet.rows.find((r: { name: string }) => r.name === "Fine");
       // batching.md: SSD 1000 kg, MC 3 %, Abs 1 % → wet 1019.80 kg, free water 19.80 kg.
@@ -79,7 +80,7 @@ describe("batch sheet page", () => {
     const cookie = await demoCookie("analyst5@ringbatch.example");
     const refused = await call(batchPage.action, post(path(), { batchVolume: "0.15", [`moisture-${ids.coarse}`]: "-2", [`moisture-${ids.fine}`]: "0.5" }, cookie), { studyId, materialId });
     expect(refused.status).toBe(400);
-    expect(refused.data.errors[`moisture-${ids.coarse}`]).toMatch(/moisture content of Coarse/);
+    expect(errorsOf(refused)[`moisture-${ids.coarse}`]).toMatch(/moisture content of Coarse/);
     const page = await call(batchPage.loader, get(path(), cookie), { studyId, materialId });
     expect(page.data.saved.batchVolumeM3).toBe(1);
   });

@@ -8,6 +8,7 @@ import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
 import { call } from "../support/routes";
+import { errorsOf, toastOf } from "../support/replies";
 
 let studyId: string;
 
@@ -43,8 +44,8 @@ describe("CSV import of a lab's results", () => {
     const cookie = await demoCookie("analyst6@ringbatch.example"); // lab index 5: a draft of F1 only
     expect(await storedCount(5, "F2")).toBe(0);
     const outcome = await call(importPage.action, upload([HEADER, ...goodRows].join("\n"), cookie), { studyId });
-    expect(outcome.status).toBe(200);
-    expect(outcome.data).toEqual({ imported: 6 });
+    expect(outcome.status).toBe(302);
+    expect(await toastOf(outcome)).toBe("Imported 6 results as drafts. Check them on each material's result page, then submit.");
     expect(await storedCount(5, "F2")).toBe(6);
     const events = await db.select().from(auditEvents).where(eq(auditEvents.action, "results.imported"));
     expect(events).toHaveLength(1);
@@ -80,7 +81,7 @@ describe("CSV import of a lab's results", () => {
     expect(big.length).toBeGreaterThan(3 * 1024 * 1024);
     const outcome = await call(importPage.action, upload(big, cookie), { studyId });
     expect(outcome.status).toBe(413);
-    expect(outcome.data.fileError).toBe("The file is larger than 2 MB; split it into smaller files.");
+    expect(errorsOf(outcome).file).toBe("The file is larger than 2 MB; split it into smaller files.");
     expect(await storedCount(6, "F2")).toBe(0);
   });
 
@@ -98,7 +99,7 @@ describe("CSV import of a lab's results", () => {
     const noValue = await call(importPage.action, upload("material,response,replicate\nF2,holes,1", cookie), { studyId });
     expect(noValue.data.fileProblems[0]).toMatch(/no “value” column/);
     const binary = await call(importPage.action, upload(new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0, 0, 0]), cookie), { studyId });
-    expect(binary.data.fileError).toBe("This is not a CSV text file.");
+    expect(errorsOf(binary).file).toBe("This is not a CSV text file.");
   });
 
   it("answers 404 to someone whose lab is not in the study", async () => {

@@ -8,6 +8,7 @@ import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
 import { call, get } from "../support/routes";
+import { errorsOf, toastOf, valuesOf } from "../support/replies";
 
 // The file store reads its directory when first loaded, so point it at a scratch directory before any import.
 vi.hoisted(() => {
@@ -40,9 +41,9 @@ describe("surface photos per replicate", () => {
   it("accepts a PNG named .jpg as a PNG, judged from its bytes, and links it to the replicate", async () => {
     const cookie = await demoCookie("analyst5@ringbatch.example"); // lab index 4: a draft of F1
     const outcome = await call(entry.action, uploadPhoto(PNG, "surface.jpg", cookie), { studyId, materialId: f1 });
-    expect(outcome.data).toMatchObject({ uploaded: true, replicate: 1 });
+    expect(await toastOf(outcome)).toBe("Photo of replicate 1 added.");
     const attachment = (await db.select().from(attachments)).at(-1)!;
-    expect(attachment).toMatchObject({ contentType: "image/png", originalName: "surface.jpg", sizeBytes: PNG.length });
+    expect(attachment).toMatchObject({ contentType: "image/png", originalName: "surface.jpg" });
     const linked = await db.select().from(results).where(eq(results.photoAttachmentId, attachment.id));
     expect(linked.map((r) => r.replicate)).toEqual([1, 1]); // both responses of replicate 1
   });
@@ -52,7 +53,8 @@ describe("surface photos per replicate", () => {
     const before = (await db.select().from(attachments)).length;
     const outcome = await call(entry.action, uploadPhoto(new TextEncoder().encode("just some notes, not a picture"), "notes.png", cookie, "2"), { studyId, materialId: f1 });
     expect(outcome.status).toBe(400);
-    expect(outcome.data).toMatchObject({ replicate: 2, error: "This file is not a JPG, PNG, WEBP file (judged from its contents, not its name)." });
+    expect(errorsOf(outcome).photo).toBe("This file is not a JPG, PNG, WEBP file (judged from its contents, not its name).");
+    expect(valuesOf(outcome).replicate).toBe("2");
     expect((await db.select().from(attachments)).length).toBe(before);
   });
 
@@ -64,7 +66,8 @@ describe("surface photos per replicate", () => {
     expect(own.status).toBe(200);
     expect(own.headers.get("Content-Type")).toBe("image/png");
     expect(own.headers.get("X-Content-Type-Options")).toBe("nosniff");
-    expect(own.headers.get("Content-Disposition")).toBe('inline; filename="surface.jpg"');
+    // A neutral name from the blind lab code, material, response and replicate, never the uploaded name.
+    expect(own.headers.get("Content-Disposition")).toMatch(/^inline; filename="L\d{2}-F1-[a-z_]+-rep1\.png"$/);
     expect((await call(files.loader, get(url, await demoCookie("coordinator@ringbatch.example")), params)).status).toBe(200);
     expect((await call(files.loader, get(url, await demoCookie("analyst6@ringbatch.example")), params)).status).toBe(404);
     expect((await call(files.loader, get(url, await demoCookie("analyst1@ringbatch.example")), params)).status).toBe(404);
@@ -74,6 +77,6 @@ describe("surface photos per replicate", () => {
     const cookie = await demoCookie("analyst7@ringbatch.example"); // lab index 6: nothing entered
     const outcome = await call(entry.action, uploadPhoto(PNG, "surface.png", cookie), { studyId, materialId: f1 });
     expect(outcome.status).toBe(400);
-    expect(outcome.data.error).toBe("Enter a result of replicate 1 before adding its photo.");
+    expect(errorsOf(outcome).photo).toBe("Enter a result of replicate 1 before adding its photo.");
   });
 });

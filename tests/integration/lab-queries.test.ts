@@ -7,6 +7,7 @@ import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
 import { call, get, post } from "../support/routes";
+import { errorsOf, toastOf } from "../support/replies";
 
 let queryId: number;
 
@@ -34,13 +35,13 @@ describe("queries from the coordinator to a lab", () => {
   it("refuses an empty answer beside the field", async () => {
     const outcome = await call(labQueries.action, post("/lab/queries", { queryId: String(queryId), answer: " " }, await demoCookie("analyst1@ringbatch.example")));
     expect(outcome.status).toBe(400);
-    expect(outcome.data.errors.answer).toBe("Write your answer (at least 3 characters).");
+    expect(errorsOf(outcome).answer).toBe("Write your answer (at least 3 characters).");
   });
 
   it("records the lab's answer, audits it and e-mails the coordinator", async () => {
     const answer = "All three were finished by the same operator within ten minutes; the counts are as recorded.";
     const outcome = await call(labQueries.action, post("/lab/queries", { queryId: String(queryId), answer }, await demoCookie("analyst1@ringbatch.example")));
-    expect(outcome.data).toMatchObject({ answered: true });
+    expect(await toastOf(outcome)).toBe("Answer sent to the coordinator.");
     expect(await db.query.queries.findFirst({ where: eq(queries.id, queryId) })).toMatchObject({ state: "answered", answer });
     const mail = await db.select().from(emailOutbox).where(eq(emailOutbox.to, "coordinator@ringbatch.example"));
     expect(mail.at(-1)!.subject).toBe("FF-2026-B: lab L06 answered your query on F1");

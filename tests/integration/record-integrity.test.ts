@@ -20,6 +20,7 @@ import { createTestingStudy, type TestingStudy } from "../security/support";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
 import { entryChanges } from "../support/entry-draft";
+import { errorsOf, toastOf } from "../support/replies";
 import { call, post, sessionCookieFor } from "../support/routes";
 
 let study: TestingStudy;
@@ -119,7 +120,7 @@ describe("a second look where a slip is likely", () => {
 
     const { changes: nothingNew } = await entryChanges(first, study.studyId, m2, {});
     const confirmed = await save(m2, first, nothingNew, "submit", { confirmUnusual: "yes" });
-    expect(confirmed.data).toMatchObject({ submitted: true });
+    expect(await toastOf(confirmed)).toBe("T002 is submitted. Thank you.");
     const [event] = await db.select().from(auditEvents).where(eq(auditEvents.action, "results.submitted"));
     expect((event!.after as { confirmedUnusual: unknown[] }).confirmedUnusual).toHaveLength(1);
   });
@@ -138,19 +139,19 @@ describe("plausible dates", () => {
   it("refuses a receipt dated in the future or before the shipment left, beside the date", async () => {
     const future = await receipt({ receivedOn: "2099-01-01" });
     expect(future.status).toBe(400);
-    expect(future.data.errors.receivedOn).toBe("The date of receipt is in the future.");
+    expect(errorsOf(future).receivedOn).toBe("The date of receipt is in the future.");
     const early = await receipt({ receivedOn: "2026-10-19" });
-    expect(early.data.errors.receivedOn).toBe("The materials left on 2026-10-20; they cannot have arrived before that.");
+    expect(errorsOf(early).receivedOn).toBe("The materials left on 2026-10-20; they cannot have arrived before that.");
     expect((await db.query.shipments.findFirst({ where: eq(shipments.id, shipmentId) }))!.status).toBe("shipped");
   });
 
   it("asks for the condition rather than assuming it", async () => {
     const none = await call(receiptPage.action, postMultipart(`/lab/studies/${study.studyId}/receipt`, { shipmentId: String(shipmentId), receivedOn: "2026-10-22", receiptNotes: "" }, first), { studyId: String(study.studyId) });
-    expect(none.data.errors.condition).toMatch(/good condition or damaged/);
+    expect(errorsOf(none).condition).toMatch(/good condition or damaged/);
   });
 
   it("refuses a test dated before the receipt", async () => {
-    expect((await receipt({ receivedOn: "2026-10-22" })).status).toBe(200);
+    expect((await receipt({ receivedOn: "2026-10-22" })).status).toBe(302);
     const m3 = String(study.materials[2]!.id);
     const { changes } = await entryChanges(first, study.studyId, m3, { values: { "holes:1": "10" }, testedOn: { 1: "2026-10-21" } });
     const early = await save(m3, first, changes);
@@ -162,7 +163,7 @@ describe("plausible dates", () => {
     // This lab already has results (above): the receipt is fixed.
     const late = await receipt({ receivedOn: "2026-10-21" });
     expect(late.status).toBe(400);
-    expect(late.data.errors.form).toMatch(/can no longer be corrected/);
+    expect(errorsOf(late).form).toMatch(/can no longer be corrected/);
     // A lab without results corrects its receipt.
     const other = await createTestingStudy({ code: "INTEG-2", materialCount: 1, replicates: 2, labCount: 1 });
     const [shipment] = await db.insert(shipments).values({ enrollmentId: other.labs[0]!.enrollmentId, status: "received", contents: "T001", shippedOn: "2026-10-20", receivedOn: "2026-10-23", condition: "good" }).returning();
@@ -172,7 +173,8 @@ describe("plausible dates", () => {
       postMultipart(`/lab/studies/${other.studyId}/receipt`, { shipmentId: String(shipment!.id), receivedOn: "2026-10-21", condition: "damaged", receiptNotes: "One cement bag split." }, analyst),
       { studyId: String(other.studyId) },
     );
-    expect(corrected.status).toBe(200);
+    expect(corrected.status).toBe(302);
+    expect(await toastOf(corrected)).toBe("Receipt corrected; the earlier entry stays in the audit trail.");
     expect((await db.query.shipments.findFirst({ where: eq(shipments.id, shipment!.id) }))).toMatchObject({ receivedOn: "2026-10-21", condition: "damaged" });
     const [event] = await db.select().from(auditEvents).where(eq(auditEvents.action, "shipment_receipt_corrected"));
     expect(event).toMatchObject({ before: expect.objectContaining({ receivedOn: "2026-10-23", condition: "good" }) });
@@ -198,10 +200,10 @@ describe("after testing", () => {
       { studyId: String(study.studyId) },
     );
     expect(lowered.status).toBe(400);
-    expect(lowered.data.errors.replicatesPerCell).toBe("Replicates, responses and materials are fixed once testing starts.");
+    expect(errorsOf(lowered).replicatesPerCell).toBe("Replicates, responses and materials are fixed once testing starts.");
     const refused = await amend(m2, { replicate: "2", value: "10", reason: "Typed 1000 instead of 10." });
     expect(refused.status).toBe(400);
-    expect(refused.data.error).toMatch(/correction query on this cell is open/);
+    expect(errorsOf(refused).form).toMatch(/correction query on this cell is open/);
     expect(await storedValue(m2, "holes", 2)).toBe(1000);
   });
 
@@ -211,9 +213,9 @@ describe("after testing", () => {
       post(`/studies/${study.studyId}/analysis`, { intent: "ask", lab: "L01", material: "T002", response: "holes", statistic: "", question: "Replicate 2 reads 1000 passes; please check your sheet.", asksCorrection: "on" }, coordinator),
       { studyId: String(study.studyId) },
     );
-    expect(ask.status).toBe(200);
+    expect(ask.status).toBe(302);
     const otherResponse = await amend(m2, { replicate: "2", value: "10", reason: "Typed 1000 instead of 10." });
-    expect(otherResponse.status).toBe(200);
+    expect(otherResponse.status).toBe(302);
     expect(await storedValue(m2, "holes", 2)).toBe(10);
     const [amendment] = await db.select().from(amendments);
     expect(amendment!.queryId).not.toBeNull();
@@ -229,7 +231,7 @@ describe("after testing", () => {
 
     // Once the query is closed, the cell is closed again.
     const queryId = (await db.query.queries.findFirst({ where: (q, { eq: is }) => is(q.asksCorrection, true) }))!.id;
-    expect((await call(queriesPage.action, post(`/studies/${study.studyId}/queries`, { queryId: String(queryId) }, coordinator), { studyId: String(study.studyId) })).status).toBe(200);
+    expect((await call(queriesPage.action, post(`/studies/${study.studyId}/queries`, { intent: "close", queryId: String(queryId) }, coordinator), { studyId: String(study.studyId) })).status).toBe(302);
     const afterClose = await amend(m2, { replicate: "2", value: "11", reason: "One more change after the close." });
     expect(afterClose.status).toBe(400);
     expect(await storedValue(m2, "holes", 2)).toBe(10);
@@ -241,8 +243,8 @@ describe("after testing", () => {
     const amendFresh = (fields: Record<string, string>) => call(entry.action, postMultipart(entryPath(m2), { intent: "amend-fresh", ...fields }, first), params(m2));
     const noReason = await amendFresh({ slump: "45", reason: "" });
     expect(noReason.status).toBe(400);
-    expect(noReason.data.problems.reason).toMatch(/give the reason/);
-    expect((await amendFresh({ slump: "45", reason: "Read on the wrong scale mark." })).status).toBe(200);
+    expect(errorsOf(noReason).reason).toMatch(/give the reason/);
+    expect((await amendFresh({ slump: "45", reason: "Read on the wrong scale mark." })).status).toBe(302);
     const [batch] = await db.select().from(batches).where(eq(batches.materialId, Number(m2)));
     expect(batch!.slumpMm).toBe(45);
     const [event] = await db.select().from(auditEvents).where(eq(auditEvents.action, "batch.fresh_properties_amended"));

@@ -264,7 +264,7 @@ function attempt(write: Write, f: Fixture): { action: (args: never) => unknown; 
     case "analysis: decide on a cell":
       return { action: analysisPage.action, path: `${studyPath}/analysis`, as: people.coordinator, fields: { intent: "decide", lab: "L01", material: "M1", response: "holes", decision: "retained", reason: "The lab confirmed the counts are right." } };
     case "queries: close a query":
-      return { action: queriesPage.action, path: `${studyPath}/queries`, as: people.coordinator, fields: { queryId: String(f.queryId) } };
+      return { action: queriesPage.action, path: `${studyPath}/queries`, as: people.coordinator, fields: { intent: "close", queryId: String(f.queryId) } };
     case "statement: edit the text":
       return { action: statementPage.action, path: `${studyPath}/statement`, as: people.coordinator, fields: { intent: "save-text", statementId: String(f.statementId ?? 1), textE691: "Edited repeatability and reproducibility text of the statement.", textC670: "Edited 1s and d2s text of the statement, long enough." } };
     case "statement: send to the committee":

@@ -13,6 +13,13 @@ import { useFreshDatabase } from "../support/database";
 
 export type Random = ReturnType<typeof randomSource>;
 
+/**
+ * A whole 1 × 1 pixel PNG (PNG specification: the 8-byte signature 89 50 4E 47
+ * 0D 0A 1A 0A, then IHDR, IDAT and IEND chunks): stored photos are decoded and
+ * encoded again, so a test photo must be a real image, not just the signature.
+ */
+export const ONE_PIXEL_PNG = Uint8Array.from(Buffer.from("iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg==", "base64"));
+
 /** Whole numbers, picks and shuffles from one seed: the same seed gives the same cases on every run. */
 export function randomSource(seed: number) {
   const next = generator(seed);

@@ -11,6 +11,7 @@ import * as statementPage from "~/routes/studies/study/statement";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "./database";
 import { demoCookie } from "./demo";
+import { readReply } from "./replies";
 import { call, get, post } from "./routes";
 
 export function useReviewRound() {
@@ -21,7 +22,8 @@ export function useReviewRound() {
     /** User ids of reviewer1…3; reviewer1 chairs the rounds these tests open. */
     reviewerIds: [] as number[],
     send: (statementId: number | string) => round.coordinatorDoes({ intent: "send", statementId: String(statementId), chairId: String(round.reviewerIds[0]) }),
-    coordinatorDoes: (fields: Record<string, string>) => call(statementPage.action, post(`/studies/${round.studyId}/statement`, fields, round.coordinator), { studyId: round.studyId }),
+    coordinatorDoes: async (fields: Record<string, string>) =>
+      readReply(await call(statementPage.action, post(`/studies/${round.studyId}/statement`, fields, round.coordinator), { studyId: round.studyId })),
     reviewerDoes: (i: number, fields: Record<string, string>) => call(reviewPage.action, post(`/review/${round.studyId}`, fields, round.reviewers[i]), { studyId: round.studyId }),
     statementNow: async () => (await call(statementPage.loader, get(`/studies/${round.studyId}/statement`, round.coordinator), { studyId: round.studyId })).data,
     studyState: async () => (await db.query.studies.findFirst({ where: eq(studies.id, Number(round.studyId)) }))!.state,

@@ -34,18 +34,34 @@ export async function startServer(extraEnv: Record<string, string> = {}, { datab
   const buildDirectory = extraEnv.BUILD_DIR ?? process.env.BUILD_DIR ?? "build";
   const serverBuild = join(buildDirectory, "server/index.js");
   if (!existsSync(serverBuild)) throw new Error(`No build at ${serverBuild}: run \`npm run build\` before the browser tests.`);
+  // A prepared database already has its accounts, so the first-use step would write nothing: skip its start-up cost.
+  const prepared = databaseUrl !== undefined;
   databaseUrl ??= `file:${join(mkdtempSync(join(tmpdir(), "ringbatch-e2e-")), "e2e.db")}`;
   const port = await freePort();
-  const env = { ...process.env, NODE_ENV: "production", DATABASE_URL: databaseUrl, PORT: String(port), ...extraEnv, BUILD_DIR: buildDirectory };
-  const setup = spawnSync("node_modules/.bin/tsx", ["scripts/db-setup.ts"], { env, encoding: "utf8" });
-  if (setup.status !== 0) throw new Error(`Seeding failed: ${setup.stderr}`);
+  const url = `http://localhost:${port}`;
+  // A production start as the README describes it, with the demo and the local mailbox switched on for the tests.
+  const env = {
+    ...process.env,
+    NODE_ENV: "production",
+    DATABASE_URL: databaseUrl,
+    PORT: String(port),
+    APP_URL: url,
+    SESSION_SECRET: "test-suite-session-secret",
+    DEMO: "on",
+    MAILBOX: "on",
+    ...extraEnv,
+    BUILD_DIR: buildDirectory,
+  };
+  for (const script of prepared ? ["scripts/db-setup.ts"] : ["scripts/db-setup.ts", "scripts/db-seed.ts"]) {
+    const setup = spawnSync("node_modules/.bin/tsx", [script], { env, encoding: "utf8" });
+    if (setup.status !== 0) throw new Error(`${script} failed: ${setup.stderr}`);
+  }
   const child: ChildProcess = spawn(process.execPath, ["server.js"], { env, stdio: ["ignore", "pipe", "pipe"] });
   // Keep the tail of the server's log for error messages; the server logs every request.
   let output = "";
   const keep = (chunk: Buffer) => (output = (output + chunk).slice(-20_000));
   child.stdout!.on("data", keep);
   child.stderr!.on("data", keep);
-  const url = `http://localhost:${port}`;
   const deadline = Date.now() + 20_000;
   while (true) {
     try {

@@ -18,7 +18,7 @@ function useHydrated() {
   return hydrated;
 }
 
-function ChartFigure({ title, summary, option, children }: { title: string; summary: string; option: ChartOption; children: ReactNode }) {
+export function ChartFigure({ title, summary, option, children }: { title: string; summary: string; option: ChartOption; children: ReactNode }) {
   const hydrated = useHydrated();
   return (
     <figure className="flex flex-col gap-2 break-inside-avoid">

@@ -4,25 +4,11 @@
  * read, each with the version it was read at, and only the fresh properties
  * that changed. Pure, so the browser and the tests share it.
  */
-import type { FreshProperty } from "./fresh";
+import type { DraftChanges, EntryDraft } from "./entry-forms";
 
-/** Values keyed `response:replicate`, per-replicate date and operator, the batch's fresh properties, and the version each value was read at. */
-export type EntryDraft = {
-  values: Record<string, string>;
-  testedOn: Record<string, string>;
-  operator: Record<string, string>;
-  fresh: Partial<Record<FreshProperty, string>>;
-  batchedAt: string;
-  versions: Record<string, number>;
-};
+export type { DraftChanges, EntryDraft };
 
-export type ChangedReplicate = { response: string; replicate: number; value: string; testedOn: string; operator: string; readVersion: number };
-
-export type DraftChanges = {
-  rows: ChangedReplicate[];
-  fresh: Partial<Record<FreshProperty, string>>;
-  batchedAt?: string;
-};
+type ChangedReplicate = DraftChanges["rows"][number];
 
 export function draftChanges(base: EntryDraft, draft: EntryDraft, responseKeys: readonly string[], replicates: number): DraftChanges {
   const rows: ChangedReplicate[] = [];
@@ -45,7 +31,7 @@ export function draftChanges(base: EntryDraft, draft: EntryDraft, responseKeys: 
     }
   }
   const fresh = Object.fromEntries(
-    (Object.keys(draft.fresh) as FreshProperty[]).filter((p) => (draft.fresh[p] ?? "") !== (base.fresh[p] ?? "")).map((p) => [p, draft.fresh[p] ?? ""]),
+    (Object.keys(draft.fresh) as (keyof EntryDraft["fresh"])[]).filter((p) => (draft.fresh[p] ?? "") !== (base.fresh[p] ?? "")).map((p) => [p, draft.fresh[p] ?? ""]),
   );
   return { rows, fresh, ...(draft.batchedAt !== base.batchedAt ? { batchedAt: draft.batchedAt } : {}) };
 }

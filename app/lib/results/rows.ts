@@ -4,6 +4,7 @@
  * and the server's import name the same problems for the same rows.
  */
 import { testDateProblem } from "~/lib/plausible-dates";
+import { unsafeCharacterMessage } from "~/lib/text-hygiene";
 import { checkResultValue, checkTestDate, type ResponseRule } from "./values";
 
 /** One result as typed in the form, read from a CSV row or sent to the API. */
@@ -47,6 +48,8 @@ export type RowFrame = {
   submittedCells: Set<string>;
   /** When the lab received the materials; no test is dated before it. */
   receivedOn?: string | null;
+  /** The study's last day for results (YYYY-MM-DD): no test date after it. */
+  studyEnd?: string | null;
 };
 
 export const cellKey = (materialId: number, responseId: number) => `${materialId}:${responseId}`;
@@ -92,12 +95,14 @@ export function resolveResultRows(frame: RowFrame, rows: ResultInputRow[], { val
     const check = checkResultValue(response, input.value);
     if (check.status === "refused") return problem("value", check.message);
     if (check.status === "empty" && valueRequired) return problem("value", "The value is empty.");
-    const date = checkTestDate(input.testedOn);
+    const date = checkTestDate(input.testedOn, new Date(), { studyEnd: frame.studyEnd });
     if (!date.ok) return problem("tested_on", date.message);
     const beforeReceipt = date.value && testDateProblem(date.value, { receivedOn: frame.receivedOn ?? null });
     if (beforeReceipt) return problem("tested_on", beforeReceipt);
     const operator = String(input.operator ?? "").trim();
     if (operator.length > 120) return problem("operator", "Keep the operator's name to 120 characters or fewer.");
+    const unsafe = unsafeCharacterMessage(operator);
+    if (unsafe) return problem("operator", unsafe);
     if (FORMULA_START.test(operator)) return problem("operator", "An operator's name cannot start with =, +, - or @ (a spreadsheet would run it as a formula).");
     resolved.push({
       row,

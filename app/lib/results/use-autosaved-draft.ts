@@ -12,6 +12,7 @@
  */
 import { useCallback, useEffect, useRef, useState } from "react";
 import { useFetcher } from "react-router";
+import type { z } from "zod";
 
 export type SaveState = "saved" | "unsaved" | "saving" | "offline" | "problems" | "conflict";
 
@@ -47,17 +48,21 @@ function writeCopy<T>(key: string, copy: StoredCopy<T>) {
 /**
  * `serverDraft` is the draft as stored on the server; its JSON is the stamp
  * that tells a stale device copy from one still matching the server.
+ * `schema` is the one the action parses the draft with: a draft it refuses
+ * stays on the device, marked, until corrected.
  */
 export function useAutosavedDraft<T>({
   storageKey,
   serverDraft,
   intent,
+  schema,
   changes,
   rebase,
 }: {
   storageKey: string;
   serverDraft: T;
   intent: string;
+  schema: z.ZodType<T>;
   changes?: (base: T, draft: T) => unknown;
   rebase?: (draft: T, oldBase: T, newBase: T, conflicts: string[]) => T;
 }) {
@@ -77,12 +82,16 @@ export function useAutosavedDraft<T>({
       setSaveState("offline");
       return;
     }
+    if (!schema.safeParse(latest.current).success) {
+      setSaveState("problems");
+      return;
+    }
     const json = JSON.stringify(latest.current);
     inFlight.current = json;
     setSaveState("saving");
     const body = changes ? JSON.stringify(changes(JSON.parse(stamp.current) as T, latest.current)) : json;
     fetcher.submit({ intent, draft: body }, { method: "post" });
-  }, [fetcher, intent, changes]);
+  }, [fetcher, intent, schema, changes]);
 
   const schedule = useCallback(() => {
     clearTimeout(timer.current);
@@ -171,6 +180,6 @@ export const SAVE_STATE_TEXT: Record<SaveState, string> = {
   unsaved: "Unsaved changes…",
   saving: "Saving…",
   offline: "Offline: your entries are kept on this device and saved when the connection returns",
-  problems: "Saved, except the fields marked below",
+  problems: "Not all saved: correct the fields marked below",
   conflict: "Someone else changed a field you were editing: see the message beside it",
 };

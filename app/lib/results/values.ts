@@ -60,15 +60,24 @@ function decimalsOf(input: string | number) {
 
 const ISO_DATE = /^\d{4}-\d{2}-\d{2}$/;
 
-/** A test date as YYYY-MM-DD that exists on the calendar, or a message. */
-export function checkTestDate(text: string | null | undefined, today = new Date()): { ok: true; value: string | null } | { ok: false; message: string } {
+/** No test of a study run through this product predates it by decades: earlier dates are typing slips (common practice of data checks). */
+export const EARLIEST_TEST_DATE = "1990-01-01";
+
+/** A test date as YYYY-MM-DD that exists on the calendar, from 1990 to today and not after the study's end, or a message. */
+export function checkTestDate(
+  text: string | null | undefined,
+  today = new Date(),
+  { studyEnd = null }: { studyEnd?: string | null } = {},
+): { ok: true; value: string | null } | { ok: false; message: string } {
   const trimmed = (text ?? "").trim();
   if (trimmed === "") return { ok: true, value: null };
   const date = new Date(`${trimmed}T00:00:00Z`);
   if (!ISO_DATE.test(trimmed) || Number.isNaN(date.getTime()) || date.toISOString().slice(0, 10) !== trimmed) {
     return { ok: false, message: "Enter the test date as YYYY-MM-DD." };
   }
+  if (trimmed < EARLIEST_TEST_DATE) return { ok: false, message: `The test date is before ${EARLIEST_TEST_DATE}; check the year.` };
   // A day of slack for time zones: a lab ahead of the server may already be on tomorrow.
   if (date.getTime() > today.getTime() + 36 * 3600 * 1000) return { ok: false, message: "The test date is in the future." };
+  if (studyEnd && trimmed > studyEnd) return { ok: false, message: `The test date is after the study's end (${studyEnd}).` };
   return { ok: true, value: trimmed };
 }

@@ -1,16 +1,17 @@
+import { getFormProps, type Submission } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, redirect, useNavigation } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/invite";
-import { Button, Card, Field, MessagePage, Notice } from "~/components/ui";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
+import { Button, Card, Field, MessagePage } from "~/components/ui";
+import { acceptInvitationSchema, declineInvitationSchema, invitationAccountSchema, invitationAnswerSchema } from "~/lib/account-forms";
+import { formatDate } from "~/lib/format";
+import { acceptInvitation, declineInvitation, InvitationError, type InvitationLookup, lookupInvitation } from "~/models/invitation.server";
 import { redirectSignedIn } from "~/server/auth.server";
-import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
+import { refuse } from "~/server/form-reply.server";
 import { getUser } from "~/server/guards.server";
 import { clientAddress, isLimited, LINK_MISSES, recordHit } from "~/server/rate-limit.server";
-import { nameField, newPasswordField } from "~/lib/validation";
-import { acceptInvitation, declineInvitation, type InvitationLookup, lookupInvitation } from "~/models/invitation.server";
-
 export const meta: Route.MetaFunction = () => [{ title: "Invitation · Ringbatch" }];
-
 
 const REFUSAL: Record<Exclude<InvitationLookup["status"], "valid">, { title: string; message: string; status: number }> = {
   unknown: { title: "This invitation link is not valid", message: "Check that the whole link was copied from the e-mail, or ask the study coordinator for a new invitation.", status: 404 },
@@ -49,37 +50,46 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-const newAccountSchema = z
-  .object({ name: nameField, password: newPasswordField, confirm: z.string() })
-  .refine((v) => v.password === v.confirm, { path: ["confirm"], message: "The two passwords differ." });
+const PASSWORD_FIELDS = ["password", "confirm"];
 
 export async function action({ request, params }: Route.ActionArgs) {
   const found = await lookup(request, params.token);
-  if (found.status !== "valid") return refused("accept", { form: REFUSAL[found.status].title }, {}, REFUSAL[found.status].status);
-  const user = await getUser(request);
   const form = await request.formData();
-  if (form.get("intent") === "decline") {
+  const answer = parseWithZod(form, { schema: invitationAnswerSchema });
+  if (found.status !== "valid") return data({ result: answer.reply({ formErrors: [REFUSAL[found.status].title] }) }, { status: REFUSAL[found.status].status });
+  if (answer.status !== "success") return refuse(answer);
+  const user = await getUser(request);
+  if (answer.value.intent === "decline") {
     await declineInvitation(found, user?.id ?? null);
-    return { intent: "decline", done: "You declined the invitation. The coordinator sees this on the study's lab page." } satisfies ActionResult;
+    return { declined: true as const };
   }
   if (found.account?.hasPassword) {
-    if (user?.id !== found.account.id) return refused("accept", { form: `Sign in as ${found.invitation.email} to accept.` }, {}, 403);
-    await acceptInvitation(found, { signedIn: user });
-    return redirect("/lab");
+    if (user?.id !== found.account.id) return data({ result: answer.reply({ formErrors: [`Sign in as ${found.invitation.email} to accept.`] }) }, { status: 403 });
+    const accepted = await accepting(answer, () => acceptInvitation(found, { signedIn: user }));
+    return accepted.ok ? redirect("/lab") : accepted.reply;
   }
-  return handleForm("accept", newAccountSchema, form, async ({ name, password }) => {
-    const { userId } = await acceptInvitation(found, { name, password });
-    return redirectSignedIn(userId, "/lab");
-  });
+  const submission = parseWithZod(form, { schema: invitationAccountSchema });
+  // The passwords are never sent back into the page.
+  if (submission.status !== "success") return data({ result: submission.reply({ hideFields: PASSWORD_FIELDS }) }, { status: 400 });
+  const accepted = await accepting(submission, () => acceptInvitation(found, submission.value));
+  return accepted.ok ? redirectSignedIn(accepted.value.userId, "/lab") : accepted.reply;
+}
+
+/** Runs the acceptance; a link claimed in the meantime (another tab, a colleague) is refused above the form. */
+async function accepting<T>(submission: Submission<unknown>, accept: () => Promise<T>) {
+  try {
+    return { ok: true as const, value: await accept() };
+  } catch (error) {
+    if (!(error instanceof InvitationError)) throw error;
+    return { ok: false as const, reply: data({ result: submission.reply({ hideFields: PASSWORD_FIELDS, formErrors: [error.message] }) }, { status: 409 }) };
+  }
 }
 
 export default function Invitation({ loaderData, actionData }: Route.ComponentProps) {
   const { refusal, invitation } = loaderData;
-  const result = actionData as ActionResult | undefined;
-  const accept = formState(result, "accept");
   const busy = useNavigation().state === "submitting";
   if (refusal) return <MessagePage title={refusal.title} message={refusal.message} />;
-  if (result?.intent === "decline" && result.done) {
+  if (actionData && "declined" in actionData) {
     return <MessagePage title="Invitation declined" message="Thank you for letting us know. The link no longer works." />;
   }
   const inv = invitation!;
@@ -88,28 +98,13 @@ export default function Invitation({ loaderData, actionData }: Route.ComponentPr
       <h1 className="text-2xl font-bold">Invitation to {inv.studyCode}</h1>
       <p>
         <span className="font-semibold">{inv.labName}</span> is invited to take part in “{inv.studyTitle}” ({inv.testMethod})
-        {inv.resultsDue && <>, results due {inv.resultsDue}</>}. This invitation is for {inv.email}.
+        {inv.resultsDue && <>, results due {formatDate(inv.resultsDue)}</>}. This invitation is for {inv.email}.
       </p>
-      {accept.errors.form && <Notice tone="error">{accept.errors.form}</Notice>}
       <Card title="Accept">
         {inv.needsPassword ? (
-          <Form method="post" className="flex flex-col gap-4">
-            <input type="hidden" name="intent" value="accept" />
-            <p>Set up your account: you will sign in with {inv.email} and this password.</p>
-            <Field label="Your name" name="name" autoComplete="name" defaultValue={accept.values.name} error={accept.errors.name} required />
-            <Field label="New password" name="password" type="password" autoComplete="new-password" hint="At least 12 characters" error={accept.errors.password} required />
-            <Field label="Repeat the password" name="confirm" type="password" autoComplete="new-password" error={accept.errors.confirm} required />
-            <Button type="submit" disabled={busy}>
-              Set password and accept
-            </Button>
-          </Form>
+          <NewAccountForm email={inv.email} actionData={actionData} busy={busy} />
         ) : inv.signedInAs === inv.email ? (
-          <Form method="post">
-            <input type="hidden" name="intent" value="accept" />
-            <Button type="submit" disabled={busy}>
-              Accept for {inv.labName}
-            </Button>
-          </Form>
+          <AcceptSignedInForm labName={inv.labName} actionData={actionData} busy={busy} />
         ) : (
           <p>
             An account with {inv.email} exists.{" "}
@@ -120,17 +115,59 @@ export default function Invitation({ loaderData, actionData }: Route.ComponentPr
           </p>
         )}
       </Card>
-      <Card title="Decline">
-        <Form method="post" className="flex flex-col gap-2">
-          <input type="hidden" name="intent" value="decline" />
-          <p>If your lab cannot take part, decline so the coordinator can invite another lab.</p>
-          <div>
-            <Button type="submit" variant="secondary" disabled={busy}>
-              Decline the invitation
-            </Button>
-          </div>
-        </Form>
-      </Card>
+      <DeclineForm actionData={actionData} busy={busy} />
     </div>
+  );
+}
+
+type ActionData = Route.ComponentProps["actionData"];
+
+function NewAccountForm({ email, actionData, busy }: { email: string; actionData: ActionData; busy: boolean }) {
+  const [form, fields] = useSchemaForm(invitationAccountSchema, { reply: actionData, intent: "accept" });
+  return (
+    <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="accept" />
+      <FormErrors errors={formWideErrors(form)} />
+      <p>Set up your account: you will sign in with {email} and this password.</p>
+      <Field label="Your name" autoComplete="name" {...fieldProps(fields.name)} />
+      <Field label="New password" type="password" autoComplete="new-password" hint="At least 12 characters" {...fieldProps(fields.password)} />
+      <Field label="Repeat the password" type="password" autoComplete="new-password" {...fieldProps(fields.confirm)} />
+      <Button type="submit" disabled={busy}>
+        Set password and accept
+      </Button>
+    </Form>
+  );
+}
+
+function AcceptSignedInForm({ labName, actionData, busy }: { labName: string; actionData: ActionData; busy: boolean }) {
+  const [form] = useSchemaForm(acceptInvitationSchema, { reply: actionData, intent: "accept" });
+  return (
+    <Form method="post" className="flex flex-col gap-2" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="accept" />
+      <FormErrors errors={formWideErrors(form)} />
+      <div>
+        <Button type="submit" disabled={busy}>
+          Accept for {labName}
+        </Button>
+      </div>
+    </Form>
+  );
+}
+
+function DeclineForm({ actionData, busy }: { actionData: ActionData; busy: boolean }) {
+  const [form] = useSchemaForm(declineInvitationSchema, { reply: actionData, intent: "decline" });
+  return (
+    <Card title="Decline">
+      <Form method="post" className="flex flex-col gap-2" {...getFormProps(form)}>
+        <input type="hidden" name="intent" value="decline" />
+        <FormErrors errors={formWideErrors(form)} />
+        <p>If your lab cannot take part, decline so the coordinator can invite another lab.</p>
+        <div>
+          <Button type="submit" variant="secondary" disabled={busy}>
+            Decline the invitation
+          </Button>
+        </div>
+      </Form>
+    </Card>
   );
 }

@@ -1,12 +1,13 @@
+import { getFormProps } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, useNavigation } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/welcome";
-import { Button, Card, Field, MessagePage, Notice } from "~/components/ui";
-import { redirectSignedIn } from "~/server/auth.server";
-import { type ActionResult, FieldRefusal, formState, handleForm, refused } from "~/lib/form-results";
-import { clientAddress, isLimited, LINK_MISSES, recordHit } from "~/server/rate-limit.server";
-import { newPasswordField } from "~/lib/validation";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
+import { Button, Card, Field, MessagePage } from "~/components/ui";
+import { firstPasswordSchema } from "~/lib/account-forms";
 import { lookupWelcome, setFirstPassword, type WelcomeLookup } from "~/models/welcome.server";
+import { redirectSignedIn } from "~/server/auth.server";
+import { clientAddress, isLimited, LINK_MISSES, recordHit } from "~/server/rate-limit.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Set your password · Ringbatch" }];
 
@@ -33,33 +34,33 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { refusal: null, account: { name: found.user.name, email: found.user.email } };
 }
 
-const passwordSchema = z
-  .object({ password: newPasswordField, confirm: z.string() })
-  .refine((v) => v.password === v.confirm, { path: ["confirm"], message: "The two passwords differ." });
+const PASSWORD_FIELDS = ["password", "confirm"];
 
 export async function action({ request, params }: Route.ActionArgs) {
   const found = await lookup(request, params.token);
-  if (found.status !== "valid") return refused("password", { form: REFUSAL[found.status].title }, {}, REFUSAL[found.status].status);
-  return handleForm("password", passwordSchema, await request.formData(), async ({ password }) => {
-    if (!(await setFirstPassword(found, password))) throw new FieldRefusal("form", REFUSAL.used.title);
-    return redirectSignedIn(found.user.id, "/lab");
-  });
+  const submission = parseWithZod(await request.formData(), { schema: firstPasswordSchema });
+  // The passwords are never sent back into the page.
+  const refusal = (formErrors: string[] | undefined, status: number) => data({ result: submission.reply({ hideFields: PASSWORD_FIELDS, ...(formErrors && { formErrors }) }) }, { status });
+  if (found.status !== "valid") return refusal([REFUSAL[found.status].title], REFUSAL[found.status].status);
+  if (submission.status !== "success") return refusal(undefined, 400);
+  if (!(await setFirstPassword(found, submission.value.password))) return refusal([REFUSAL.used.title], REFUSAL.used.status);
+  return redirectSignedIn(found.user.id, "/lab");
 }
 
 export default function Welcome({ loaderData, actionData }: Route.ComponentProps) {
   const { refusal, account } = loaderData;
-  const state = formState(actionData as ActionResult | undefined, "password");
+  const [form, fields] = useSchemaForm(firstPasswordSchema, { reply: actionData, id: "first-password" });
   const busy = useNavigation().state === "submitting";
   if (refusal) return <MessagePage title={refusal.title} message={refusal.message} />;
   return (
     <div className="mx-auto flex max-w-md flex-col gap-4">
       <h1 className="text-2xl font-bold">Welcome, {account!.name}</h1>
       <p>Set your password. You will sign in with {account!.email} and this password.</p>
-      {state.errors.form && <Notice tone="error">{state.errors.form}</Notice>}
       <Card>
-        <Form method="post" className="flex flex-col gap-4">
-          <Field label="New password" name="password" type="password" autoComplete="new-password" hint="At least 12 characters" error={state.errors.password} required />
-          <Field label="Repeat the password" name="confirm" type="password" autoComplete="new-password" error={state.errors.confirm} required />
+        <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
+          <FormErrors errors={formWideErrors(form)} />
+          <Field label="New password" type="password" autoComplete="new-password" hint="At least 12 characters" {...fieldProps(fields.password)} />
+          <Field label="Repeat the password" type="password" autoComplete="new-password" {...fieldProps(fields.confirm)} />
           <Button type="submit" disabled={busy}>
             Set password and sign in
           </Button>

@@ -7,9 +7,9 @@ import { getMessage, requireMailbox } from "~/models/mailbox.server";
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.message.subject ?? "Message"} · Mailbox · Ringbatch` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireMailbox(request);
+  const viewer = await requireMailbox(request);
   const id = Number(params.messageId);
-  const message = Number.isSafeInteger(id) ? await getMessage(id) : null;
+  const message = Number.isSafeInteger(id) ? await getMessage(viewer, id) : null;
   if (!message) notFound();
   return { message: { ...message, sentAt: message.createdAt.toISOString() } };
 }

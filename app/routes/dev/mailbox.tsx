@@ -7,8 +7,8 @@ import { listMessages, requireMailbox } from "~/models/mailbox.server";
 export const meta: Route.MetaFunction = () => [{ title: "Mailbox · Ringbatch" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  await requireMailbox(request);
-  const messages = await listMessages();
+  const viewer = await requireMailbox(request);
+  const messages = await listMessages(viewer);
   return { messages: messages.map((m) => ({ ...m, sentAt: m.createdAt.toISOString().replace("T", " ").slice(0, 16) })) };
 }
 
@@ -16,7 +16,10 @@ export default function Mailbox({ loaderData }: Route.ComponentProps) {
   return (
     <>
       <PageHeader title="Mailbox" subtitle="Messages kept by the local mail transport; nothing leaves this machine." />
-      <Notice tone="caution">These messages contain invitation links: whoever opens one acts for the invited lab.</Notice>
+      <Notice tone="caution">
+        A development stand-in for e-mail, unsafe for real users. You see the mail of the studies you coordinate (an
+        administrator sees all); invitation and first-password links work only in messages addressed to you.
+      </Notice>
       <Card className="mt-4">
         <DataTable
           caption="Messages, newest first"

@@ -1,9 +1,11 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/index";
-import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
+import { StateBadge } from "~/components/state-badge";
+import { Card, PageHeader, SimpleTable } from "~/components/ui";
+import { formatDate } from "~/lib/format";
 import { requireRole } from "~/server/guards.server";
 import { listLabEnrollments, submittedCellCounts } from "~/models/study.server";
-import { STATE_LABEL } from "~/lib/state-labels";
+import { ENROLLMENT_STATE, STUDY_STATE } from "~/lib/state-labels";
 
 export const meta: Route.MetaFunction = () => [{ title: "My lab · Ringbatch" }];
 
@@ -43,11 +45,11 @@ export default function LabHome({ loaderData }: Route.ComponentProps) {
               e.labName,
               e.labCode ?? "—",
               <span key="state" className="flex flex-wrap gap-1">
-                <Badge>{STATE_LABEL[e.studyState]}</Badge>
-                {e.enrollmentState === "withdrawn" && <Badge tone="signal">Your lab withdrawn</Badge>}
+                <StateBadge view={STUDY_STATE[e.studyState]} />
+                {e.enrollmentState === "withdrawn" && <StateBadge view={{ ...ENROLLMENT_STATE.withdrawn, label: "Your lab withdrawn" }} />}
               </span>,
               `${e.submittedCells} cells`,
-              e.resultsDue ?? "—",
+              formatDate(e.resultsDue),
             ])}
           />
         )}

@@ -1,10 +1,11 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/index";
+import { StateBadge } from "~/components/state-badge";
 import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
 import { requireRole } from "~/server/guards.server";
 import { awaitedVotes } from "~/models/review.server";
 import { listReviewedStudies } from "~/models/study.server";
-import { STATE_LABEL } from "~/lib/state-labels";
+import { STUDY_STATE } from "~/lib/state-labels";
 
 export const meta: Route.MetaFunction = () => [{ title: "Reviews · Ringbatch" }];
 
@@ -30,7 +31,7 @@ export default function ReviewHome({ loaderData }: Route.ComponentProps) {
                 {s.code}
               </Link>,
               s.title,
-              <Badge key="state">{STATE_LABEL[s.state]}</Badge>,
+              <StateBadge key="state" view={STUDY_STATE[s.state]} />,
               s.voteAwaited ? (
                 <Badge key="vote" tone="ochre">
                   Awaited

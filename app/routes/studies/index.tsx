@@ -1,9 +1,11 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/index";
-import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
-import { requireRole } from "~/server/guards.server";
+import { StateBadge } from "~/components/state-badge";
+import { Card, PageHeader, SimpleTable } from "~/components/ui";
+import { formatDate } from "~/lib/format";
+import { STUDY_STATE } from "~/lib/state-labels";
 import { listCoordinatedStudies } from "~/models/study.server";
-import { STATE_LABEL } from "~/lib/state-labels";
+import { requireRole } from "~/server/guards.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Studies · Ringbatch" }];
 
@@ -17,7 +19,11 @@ export default function Studies({ loaderData }: Route.ComponentProps) {
     <>
       <PageHeader
         title="Studies"
-        subtitle={loaderData.everyStudy ? "Every interlaboratory study, read-only for administrators." : "Interlaboratory studies you coordinate. Start one with New study in the menu above."}
+        subtitle={
+          loaderData.everyStudy
+            ? "Every interlaboratory study, read-only for administrators."
+            : "Interlaboratory studies you coordinate. Start one with New study in the menu above."
+        }
       />
       <Card>
         {loaderData.studies.length === 0 ? (
@@ -32,8 +38,8 @@ export default function Studies({ loaderData }: Route.ComponentProps) {
               </Link>,
               s.title,
               s.testMethod,
-              <Badge key="state">{STATE_LABEL[s.state]}</Badge>,
-              s.resultsDue ?? "—",
+              <StateBadge key="state" view={STUDY_STATE[s.state]} />,
+              formatDate(s.resultsDue),
             ])}
           />
         )}

@@ -1,13 +1,16 @@
-import { Form, redirect, useNavigation } from "react-router";
+import { getFormProps } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
+import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/new";
+import { FormErrors, useSchemaForm } from "~/components/forms";
 import { StudyFields } from "~/components/study-fields";
 import { Button, Card, PageHeader } from "~/components/ui";
-import { type ActionResult, formState, handleForm } from "~/lib/form-results";
-import { requireRole } from "~/server/guards.server";
 import { newStudySchema } from "~/lib/study-forms";
-import { useSchemaCheck } from "~/lib/use-schema-check";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import { createStudy } from "~/models/study-setup.server";
+import { refuse, withRefusals } from "~/server/form-reply.server";
+import { requireRole } from "~/server/guards.server";
+import { redirectWithToast } from "~/server/toast.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "New study · Ringbatch" }];
 
@@ -18,10 +21,11 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireRole(request, "coordinator");
-  return handleForm("create", newStudySchema, await request.formData(), async (input) => {
-    const study = await createStudy(user.id, input);
-    return redirect(`/studies/${study.id}/setup`);
-  });
+  const submission = parseWithZod(await request.formData(), { schema: newStudySchema });
+  if (submission.status !== "success") return refuse(submission);
+  const created = await withRefusals(submission, () => createStudy(user.id, submission.value));
+  if (!created.ok) return created.reply;
+  return redirectWithToast(`/studies/${created.value.id}/setup`, `Study ${created.value.code} created.`);
 }
 
 const TEMPLATE_DEFAULTS = {
@@ -33,38 +37,42 @@ const TEMPLATE_DEFAULTS = {
 };
 
 export default function NewStudy({ actionData }: Route.ComponentProps) {
-  const { errors: serverErrors, values: typed } = formState(actionData as ActionResult | undefined, "create");
-  const { errors, onSubmit } = useSchemaCheck(newStudySchema, serverErrors);
-  const values = { ...TEMPLATE_DEFAULTS, ...typed };
+  const [form, fields] = useSchemaForm(newStudySchema, { reply: actionData, id: "new-study", defaultValue: TEMPLATE_DEFAULTS });
+  const template = fields.template.initialValue;
   const busy = useNavigation().state === "submitting";
   return (
     <>
       <PageHeader title="New study" subtitle="Start from the float finishing template or set up any other test method." />
       <Card>
-        <Form method="post" className="flex flex-col gap-6" onSubmit={onSubmit} noValidate>
-          <fieldset className="flex flex-col gap-2">
+        <Form method="post" className="flex flex-col gap-6" {...getFormProps(form)}>
+          <FormErrors errors={form.errors} />
+          <fieldset className="flex flex-col gap-2" aria-describedby={fields.template.errors ? fields.template.errorId : undefined}>
             <legend className="mb-1 font-semibold text-basalt-800">Start from</legend>
             <label className="flex items-start gap-2">
-              <input type="radio" name="template" value="float_finishing" defaultChecked={values.template === "float_finishing"} className="mt-1" />
+              <input type="radio" name="template" value="float_finishing" defaultChecked={template === "float_finishing"} className="mt-1" />
               <span>
                 <span className="font-semibold">Float finishing test of fresh concrete</span>
                 <span className="block text-sm text-basalt-700">
-                  Two count responses (passes to close the preformed holes, passes to reach the target surface), target surface rating,
-                  slump {FLOAT_FINISHING_TEMPLATE.freshTargets[0].target} ± {FLOAT_FINISHING_TEMPLATE.freshTargets[0].tolerance} mm and air{" "}
+                  Two count responses (passes to close the preformed holes, passes to reach the target surface), target surface rating, slump{" "}
+                  {FLOAT_FINISHING_TEMPLATE.freshTargets[0].target} ± {FLOAT_FINISHING_TEMPLATE.freshTargets[0].tolerance} mm and air{" "}
                   {FLOAT_FINISHING_TEMPLATE.freshTargets[1].target} ± {FLOAT_FINISHING_TEMPLATE.freshTargets[1].tolerance} % targets.
                 </span>
               </span>
             </label>
             <label className="flex items-start gap-2">
-              <input type="radio" name="template" value="custom" defaultChecked={values.template === "custom"} className="mt-1" />
+              <input type="radio" name="template" value="custom" defaultChecked={template === "custom"} className="mt-1" />
               <span>
                 <span className="font-semibold">Custom test method</span>
                 <span className="block text-sm text-basalt-700">No responses yet: add them on the setup page.</span>
               </span>
             </label>
-            {errors.template && <p className="text-sm font-semibold text-signal-700">{errors.template}</p>}
+            {fields.template.errors && (
+              <p id={fields.template.errorId} className="text-sm font-semibold text-signal-700">
+                {fields.template.errors[0]}
+              </p>
+            )}
           </fieldset>
-          <StudyFields values={values} errors={errors} />
+          <StudyFields fields={fields} />
           <div>
             <Button type="submit" disabled={busy}>
               Create study

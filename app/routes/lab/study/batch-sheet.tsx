@@ -1,21 +1,29 @@
-import { useState } from "react";
-import { data, Form, Link, useNavigation } from "react-router";
+import { getFormProps } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
+import { useMemo, useState } from "react";
+import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/batch-sheet";
 import { ConcreteCaution } from "~/components/cautions";
-import { Button, Card, Field, Notice, PageHeader, SimpleTable } from "~/components/ui";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
+import type { StudyPageHandle } from "~/components/study-frame";
+import { Button, Card, Field, Notice, SimpleTable } from "~/components/ui";
 import { type BatchSheetView, computeBatchSheet } from "~/lib/batch-sheet";
-import { isAggregate, KG_PER_LB, m3ToFt3 } from "~/lib/batching";
-import { notFound } from "~/server/guards.server";
-import { requireStudy } from "~/server/study-context.server";
+import { type Constituent, isAggregate, KG_PER_LB, m3ToFt3 } from "~/lib/batching";
+import { batchInputsSchema, batchVolumeAccepted, moistureAccepted, moistureField } from "~/lib/results/batch-inputs";
 import { parsePlainNumber } from "~/lib/results/values";
+import { studyPageMeta } from "~/lib/study-page-meta";
 import { findStudyMaterial, getBatch, loadMixtureDesign, saveBatchInputs } from "~/models/batch.server";
 import { ResultsError } from "~/models/results.server";
+import { refuse } from "~/server/form-reply.server";
+import { notFound } from "~/server/guards.server";
+import { requireStudy } from "~/server/study-context.server";
+import { redirectWithToast } from "~/server/toast.server";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Batch sheet ${data?.material.code ?? ""} · Ringbatch` }];
+const pageTitle = (data: { material: { code: string } }) => `Batch sheet ${data.material.code}`;
 
-// Wide bounds of a laboratory batch and of stockpile moisture (common practice); they catch unit slips.
-const MAX_BATCH_M3 = 3;
-const MAX_MOISTURE_PERCENT = 30;
+export const handle: StudyPageHandle<{ material: { code: string } }> = { pageTitle };
+
+export const meta: Route.MetaFunction = ({ data, matches }) => studyPageMeta(data ? pageTitle(data) : "Batch sheet", matches);
 
 async function loadSheet(context: Route.LoaderArgs["context"], params: Route.LoaderArgs["params"]) {
   const { user, study, enrollment } = requireStudy(context, ["analyst"]);
@@ -25,17 +33,22 @@ async function loadSheet(context: Route.LoaderArgs["context"], params: Route.Loa
   return { user, study, enrollment: enrollment!, material, mixture };
 }
 
+/** The mixture's aggregates, whose moisture the analyst measures today. */
+function aggregatesOf(constituents: Constituent[], constituentIds: number[]) {
+  return constituents.flatMap((c, index) => (isAggregate(c) ? [{ id: constituentIds[index]!, name: c.name, absorptionPercent: c.absorptionPercent }] : []));
+}
+
 export async function loader({ params, context }: Route.LoaderArgs) {
   const { study, enrollment, material, mixture } = await loadSheet(context, params);
   const batch = await getBatch(enrollment.id, material.id);
   const saved = { batchVolumeM3: batch?.batchVolumeM3 ?? null, moistureByConstituentId: batch?.aggregateMoisture ?? {} };
   return {
-    study: { id: study.id, code: study.code, replicatesPerCell: study.replicatesPerCell, editable: study.state === "testing" },
-    labCode: enrollment.labCode,
+    study: { id: study.id, replicatesPerCell: study.replicatesPerCell, editable: study.state === "testing" },
     material: { id: material.id, code: material.code, description: material.description },
     design: mixture.design,
     designProblem: mixture.problem,
     constituentIds: mixture.constituentIds,
+    aggregates: mixture.design ? aggregatesOf(mixture.design.constituents, mixture.constituentIds) : [],
     saved,
     computed: mixture.design ? computeBatchSheet(mixture.design, mixture.constituentIds, study.replicatesPerCell, saved) : null,
   };
@@ -43,37 +56,29 @@ export async function loader({ params, context }: Route.LoaderArgs) {
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { enrollment, study, material, mixture } = await loadSheet(context, params);
-  if (!mixture.design) return data({ errors: { form: mixture.problem! } as Record<string, string> }, { status: 400 });
-  const form = await request.formData();
-  const errors: Record<string, string> = {};
-  const volume = parsePlainNumber(String(form.get("batchVolume") ?? ""));
-  if (volume === null || volume <= 0 || volume > MAX_BATCH_M3) errors.batchVolume = `Enter the batch volume in m³, more than 0 and at most ${MAX_BATCH_M3}.`;
-  const moisture: Record<string, number> = {};
-  mixture.design.constituents.forEach((c, index) => {
-    if (!isAggregate(c)) return;
-    const id = String(mixture.constituentIds[index]);
-    const mc = parsePlainNumber(String(form.get(`moisture-${id}`) ?? ""));
-    if (mc === null || mc < 0 || mc > MAX_MOISTURE_PERCENT) errors[`moisture-${id}`] = `Enter today's moisture content of ${c.name}, 0 to ${MAX_MOISTURE_PERCENT} % of oven-dry mass.`;
-    else moisture[id] = mc;
-  });
-  if (Object.keys(errors).length > 0) return data({ errors }, { status: 400 });
+  const schema = batchInputsSchema(mixture.design ? aggregatesOf(mixture.design.constituents, mixture.constituentIds) : []);
+  const submission = parseWithZod(await request.formData(), { schema });
+  if (!mixture.design) return refuse(submission, { form: [mixture.problem!] });
+  if (submission.status !== "success") return refuse(submission);
+  const { batchVolume, ...moisture } = submission.value;
+  const moistureByConstituentId = Object.fromEntries(Object.entries(moisture).map(([field, percent]) => [field.replace("moisture-", ""), percent]));
   try {
-    await saveBatchInputs(enrollment, material.id, { batchVolumeM3: volume!, moistureByConstituentId: moisture });
+    await saveBatchInputs(enrollment, material.id, { batchVolumeM3: batchVolume!, moistureByConstituentId });
   } catch (error) {
-    if (error instanceof ResultsError) return data({ errors: { form: error.message } as Record<string, string> }, { status: 409 });
+    if (error instanceof ResultsError) return refuse(submission, { form: [error.message] }, 409);
     throw error;
   }
-  const inputs = { batchVolumeM3: volume!, moistureByConstituentId: moisture };
-  return { saved: true, errors: {} as Record<string, string>, computed: computeBatchSheet(mixture.design, mixture.constituentIds, study.replicatesPerCell, inputs) };
+  return redirectWithToast(`/lab/studies/${study.id}/batch/${material.id}`, `Saved: this sheet is kept for your batch of ${material.code}.`);
 }
 
 const kg = (x: number) => x.toFixed(2);
 const lb = (x: number) => (x / KG_PER_LB).toFixed(2);
 
 export default function BatchSheetPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, material, design, designProblem, constituentIds, saved, computed } = loaderData;
-  const errors = actionData?.errors ?? {};
+  const { study, material, design, designProblem, constituentIds, aggregates, saved, computed } = loaderData;
   const navigation = useNavigation();
+  const schema = useMemo(() => batchInputsSchema(aggregates), [aggregates]);
+  const [form, fields] = useSchemaForm(schema, { reply: actionData, id: `batch-${material.id}` });
   const [volumeText, setVolumeText] = useState(saved.batchVolumeM3 === null ? (computed ? String(Number(computed.suggestion.volumeM3.toFixed(4))) : "") : String(saved.batchVolumeM3));
   const [moistureText, setMoistureText] = useState<Record<string, string>>(() =>
     Object.fromEntries(constituentIds.map((id) => [String(id), saved.moistureByConstituentId[String(id)] === undefined ? "" : String(saved.moistureByConstituentId[String(id)])])),
@@ -86,85 +91,76 @@ export default function BatchSheetPage({ loaderData, actionData }: Route.Compone
     const moisture: Record<string, number> = {};
     for (const [id, text] of Object.entries(moistureText)) {
       const mc = parsePlainNumber(text);
-      if (mc !== null && mc >= 0 && mc <= MAX_MOISTURE_PERCENT) moisture[id] = mc;
+      if (mc !== null && moistureAccepted(mc)) moisture[id] = mc;
     }
-    if (volume !== null && volume > 0 && volume <= MAX_BATCH_M3) live = computeBatchSheet(design, constituentIds, study.replicatesPerCell, { batchVolumeM3: volume, moistureByConstituentId: moisture });
+    if (volume !== null && batchVolumeAccepted(volume)) live = computeBatchSheet(design, constituentIds, study.replicatesPerCell, { batchVolumeM3: volume, moistureByConstituentId: moisture });
   }
 
   return (
-    <>
-      <PageHeader
-        title={`Batch sheet — ${material.code}`}
-        subtitle={
-          <>
-            {study.code} · your lab code {loaderData.labCode ?? "—"} · {material.description}
-          </>
-        }
-        actions={
-          <span className="no-print flex gap-2">
-            <Button type="button" variant="secondary" onClick={() => window.print()}>
-              Print
-            </Button>
-            <Link to={`/lab/studies/${study.id}/results/${material.id}`} className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
-              Enter results
-            </Link>
-          </span>
-        }
-      />
-      <div className="grid gap-6 [&>*]:min-w-0">
-        <ConcreteCaution heavy />
-        {designProblem && <Notice tone="error">{designProblem}</Notice>}
-        {design && computed && (
-          <>
-            <Card title="Batch volume and today's moisture">
-              <p className="mb-3">
-                Suggested batch volume: <span className="font-semibold">{computed.suggestion.summary}</span>
-              </p>
-              <ol className="mb-4 ml-5 list-decimal text-basalt-700" aria-label="Arithmetic of the suggested batch volume">
-                {computed.suggestion.steps.map((s) => (
-                  <li key={s.text}>{s.text}</li>
-                ))}
-              </ol>
-              {errors.form && <Notice tone="error">{errors.form}</Notice>}
-              {actionData && "saved" in actionData && <Notice tone="success">Saved: this sheet is kept for your batch of {material.code}.</Notice>}
-              <Form method="post" className="no-print mt-3 grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
-                <Field
-                  label="Batch volume (m³)"
-                  name="batchVolume"
-                  inputMode="decimal"
-                  value={volumeText}
-                  onChange={(e) => setVolumeText(e.target.value)}
-                  hint={`${m3ToFt3(parsePlainNumber(volumeText) ?? 0).toFixed(2)} ft³`}
-                  error={errors.batchVolume}
-                />
-                {design.constituents.map((c, index) =>
-                  isAggregate(c) ? (
-                    <Field
-                      key={constituentIds[index]}
-                      label={`Moisture content of ${c.name} (% of oven-dry mass)`}
-                      name={`moisture-${constituentIds[index]}`}
-                      inputMode="decimal"
-                      value={moistureText[String(constituentIds[index])] ?? ""}
-                      onChange={(e) => setMoistureText({ ...moistureText, [String(constituentIds[index])]: e.target.value })}
-                      hint={`Absorption ${c.absorptionPercent} %; measured on today's stockpile`}
-                      error={errors[`moisture-${constituentIds[index]}`]}
-                    />
-                  ) : null,
-                )}
-                <div className="flex items-end">
-                  <Button type="submit" disabled={!study.editable || navigation.state !== "idle"}>
-                    Save batch sheet
-                  </Button>
-                </div>
-              </Form>
-            </Card>
-            <Card title={`What to weigh for ${live?.batchVolumeM3.toFixed(4) ?? "—"} m³`}>
-              {live?.sheet ? <SheetTable view={live} /> : <p>Enter the moisture content of {live?.missingMoisture.join(" and ")} to compute the sheet.</p>}
-            </Card>
-          </>
-        )}
+    <div className="grid gap-6 [&>*]:min-w-0">
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <p>{material.description}</p>
+        <span className="no-print flex gap-2">
+          <Button type="button" variant="secondary" onClick={() => window.print()}>
+            Print
+          </Button>
+          <Link to={`/lab/studies/${study.id}/results/${material.id}`} className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
+            Enter results
+          </Link>
+        </span>
       </div>
-    </>
+      <ConcreteCaution heavy />
+      {designProblem && <Notice tone="error">{designProblem}</Notice>}
+      {design && computed && (
+        <>
+          <Card title="Batch volume and today's moisture">
+            <p className="mb-3">
+              Suggested batch volume: <span className="font-semibold">{computed.suggestion.summary}</span>
+            </p>
+            <ol className="mb-4 ml-5 list-decimal text-basalt-700" aria-label="Arithmetic of the suggested batch volume">
+              {computed.suggestion.steps.map((s) => (
+                <li key={s.text}>{s.text}</li>
+              ))}
+            </ol>
+            <Form method="post" className="no-print mt-3 grid gap-4 sm:grid-cols-2 lg:grid-cols-3" {...getFormProps(form)}>
+              <div className="sm:col-span-2 lg:col-span-3">
+                <FormErrors errors={formWideErrors(form)} />
+              </div>
+              {/* Controlled, so the sheet below follows every keystroke; the typed text stays after a refusal. */}
+              <Field
+                label="Batch volume (m³)"
+                {...fieldProps(fields.batchVolume)}
+                defaultValue={undefined}
+                inputMode="decimal"
+                value={volumeText}
+                onChange={(e) => setVolumeText(e.target.value)}
+                hint={`${m3ToFt3(parsePlainNumber(volumeText) ?? 0).toFixed(2)} ft³`}
+              />
+              {aggregates.map((a) => (
+                <Field
+                  key={a.id}
+                  label={`Moisture content of ${a.name} (% of oven-dry mass)`}
+                  {...fieldProps(fields[moistureField(a.id)]!)}
+                  defaultValue={undefined}
+                  inputMode="decimal"
+                  value={moistureText[String(a.id)] ?? ""}
+                  onChange={(e) => setMoistureText({ ...moistureText, [String(a.id)]: e.target.value })}
+                  hint={`Absorption ${a.absorptionPercent} %; measured on today's stockpile`}
+                />
+              ))}
+              <div className="flex items-end">
+                <Button type="submit" disabled={!study.editable || navigation.state !== "idle"}>
+                  Save batch sheet
+                </Button>
+              </div>
+            </Form>
+          </Card>
+          <Card title={`What to weigh for ${live?.batchVolumeM3.toFixed(4) ?? "—"} m³`}>
+            {live?.sheet ? <SheetTable view={live} /> : <p>Enter the moisture content of {live?.missingMoisture.join(" and ")} to compute the sheet.</p>}
+          </Card>
+        </>
+      )}
+    </div>
   );
 }
 

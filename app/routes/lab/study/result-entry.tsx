@@ -1,21 +1,33 @@
+import { getFormProps, type SubmissionResult } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
 import { useEffect } from "react";
 import { data, Form, isRouteErrorResponse, Link, type ShouldRevalidateFunctionArgs, useFetcher } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/result-entry";
 import { CellStatusBadge } from "~/components/cell-status-badge";
 import { ConcreteCaution } from "~/components/cautions";
-import { Badge, Button, Card, Field, Notice, PageHeader } from "~/components/ui";
-import { notFound } from "~/server/guards.server";
-import { requireStudy } from "~/server/study-context.server";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
+import type { StudyPageHandle } from "~/components/study-frame";
+import { Badge, Button, Card, Field, Notice } from "~/components/ui";
+import { formatDateTime } from "~/lib/format";
+import { draftChanges, rebaseDraft } from "~/lib/results/entry-draft";
+import {
+  amendFreshSchema,
+  amendSchema,
+  type DraftChanges,
+  draftProblems,
+  type EntryDraft,
+  entryDraftSchema,
+  photoSchema,
+  resultEntrySchema,
+  submitMaterialSchema,
+} from "~/lib/results/entry-forms";
 import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
 import { SAVE_STATE_TEXT, useAutosavedDraft } from "~/lib/results/use-autosaved-draft";
-import { type DraftChanges, draftChanges, type EntryDraft, rebaseDraft } from "~/lib/results/entry-draft";
 import { checkResultValue, checkTestDate } from "~/lib/results/values";
-import { readUploadForm } from "~/server/upload-form.server";
-import { UploadError } from "~/server/uploads.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
 import { freshTargets, getBatch, saveFreshProperties } from "~/models/batch.server";
-import { correctableResponses, openQueriesOfMaterial } from "~/models/lab-queries.server";
 import { writeRefusal } from "~/lib/write-rules";
+import { correctableResponses, openQueriesOfMaterial } from "~/models/lab-queries.server";
 import {
   amendResult,
   attachReplicatePhoto,
@@ -25,37 +37,21 @@ import {
   ResultsError,
   type ResultInputRow,
   saveDraftResults,
+  type UnusualValue,
   submitMaterial,
 } from "~/models/results.server";
+import { refuse } from "~/server/form-reply.server";
+import { notFound } from "~/server/guards.server";
+import { requireStudy } from "~/server/study-context.server";
+import { redirectWithToast } from "~/server/toast.server";
+import { readUploadForm } from "~/server/upload-form.server";
+import { UploadError } from "~/server/uploads.server";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Results ${data?.material.code ?? ""} · Ringbatch` }];
+const pageTitle = (data: { material: { code: string } }) => `Results of ${data.material.code}`;
 
-/** What an autosave or a submission sends: the changed replicates with the version each was read at, and the changed fresh properties. */
-const changesSchema = z.object({
-  rows: z
-    .array(
-      z.object({
-        response: z.string().max(40),
-        replicate: z.number().int(),
-        value: z.string().max(40),
-        testedOn: z.string().max(20),
-        operator: z.string().max(200),
-        readVersion: z.number().int().min(0),
-      }),
-    )
-    .max(1000),
-  fresh: z.partialRecord(z.enum(FRESH_PROPERTY_NAMES as [FreshProperty, ...FreshProperty[]]), z.string().max(20)),
-  batchedAt: z.string().max(20).optional(),
-});
+export const handle: StudyPageHandle<{ material: { code: string } }> = { pageTitle };
 
-/** The draft field's JSON, or undefined when it is not JSON (the schema then refuses it). */
-function parseJsonField(value: FormDataEntryValue | null) {
-  try {
-    return JSON.parse(String(value ?? "{}"));
-  } catch {
-    return undefined;
-  }
-}
+export const meta: Route.MetaFunction = ({ data, matches }) => studyPageMeta(data ? pageTitle(data) : "Results", matches);
 
 async function loadEntry(context: Route.LoaderArgs["context"], params: Route.LoaderArgs["params"]) {
   const access = requireStudy(context, ["analyst"]);
@@ -100,14 +96,13 @@ export async function loader({ params, context }: Route.LoaderArgs) {
   const photos: Record<number, number> = {};
   for (const response of entry.responses) for (const r of response.results) if (r.photoAttachmentId) photos[r.replicate] = r.photoAttachmentId;
   return {
-    study: { id: study.id, code: study.code, state: study.state, replicatesPerCell: study.replicatesPerCell },
+    study: { id: study.id, state: study.state, replicatesPerCell: study.replicatesPerCell },
     editable: study.state === "testing" && enrollment.state === "accepted",
     /** Why nothing can be typed here, as the write rules say it. */
     lockedBecause: writeRefusal("results", study.state),
     /** After testing, the responses whose cell a correction query lets the lab amend. */
     correctable: study.state === "checking" && enrollment.state === "accepted" ? correctable : [],
     enrollmentId: enrollment.id,
-    labCode: enrollment.labCode,
     material: { id: entry.material.id, code: entry.material.code, description: entry.material.description },
     responses: entry.responses.map(({ results: _results, ...response }) => response),
     submittedValues: Object.fromEntries(entry.responses.flatMap((r) => r.results.map((x) => [`${r.key}:${x.replicate}`, x.value]))),
@@ -148,58 +143,92 @@ async function saveChanges(enrollment: Enrollment, entry: Entry, changes: DraftC
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { user, study, enrollment, entry } = await loadEntry(context, params);
+  const here = `/lab/studies/${study.id}/results/${entry.material.id}`;
   const upload = await readUploadForm(request, "photo", PHOTO_MAX_BYTES);
-  if (upload.tooLarge) return data({ intent: "photo", error: "The photo is larger than 10 MB." }, { status: 400 });
-  const form = upload.formData;
-  const intent = form.get("intent");
+  // Only the photo form sends a file; the body was not read past it.
+  if (upload.tooLarge) return data({ result: { status: "error", error: { photo: ["The photo is larger than 10 MB."] } } as SubmissionResult<string[]> }, { status: 400 });
+  const submission = parseWithZod(upload.formData, { schema: resultEntrySchema });
+  if (submission.status !== "success") return refuse(submission);
+  const input = submission.value;
+  switch (input.intent) {
+    case "draft": {
+      const saved = await saveChangesOrRefuse(enrollment, entry, input.draft, user);
+      if (!saved.ok) return refuse(submission, { form: [saved.message] });
+      return { ...saved.value, stamp: await currentStamp(enrollment, entry, study.replicatesPerCell) };
+    }
+    case "submit": {
+      const saved = await saveChangesOrRefuse(enrollment, entry, input.draft, user);
+      if (!saved.ok) return refuse(submission, { form: [saved.message] });
+      const { problems, conflicts } = saved.value;
+      if (Object.keys(conflicts).length > 0) {
+        return data(
+          {
+            result: submission.reply({ formErrors: ["Someone else changed a value meanwhile; check the marked fields, then submit again."] }),
+            problems,
+            conflicts,
+            stamp: await currentStamp(enrollment, entry, study.replicatesPerCell),
+          },
+          { status: 409 },
+        );
+      }
+      if (Object.keys(problems).length > 0) {
+        return data({ result: submission.reply({ formErrors: ["Correct the marked fields first."] }), problems }, { status: 400 });
+      }
+      const submitted = await submitMaterial(enrollment, entry.material.id, user, { confirmedUnusual: input.confirmUnusual === "yes" });
+      if (!submitted.ok) return data({ result: submission.reply({ formErrors: submitted.problems }), unusualValues: submitted.unusual ?? [] }, { status: 400 });
+      return redirectWithToast(here, `${entry.material.code} is submitted. Thank you.`);
+    }
+    case "amend": {
+      const { responseId, replicate, version, value, reason, confirmUnusual } = input;
+      try {
+        const outcome = await amendResult(enrollment, entry.material.id, { responseId, replicate, value, reason, expectedVersion: version, confirmedUnusual: confirmUnusual === "yes" }, user);
+        if (!outcome.ok) {
+          return data({ result: submission.reply({ fieldErrors: { [outcome.field]: [outcome.message] } }), unusual: outcome.unusual ?? false }, { status: outcome.field === "form" ? 409 : 400 });
+        }
+      } catch (error) {
+        if (error instanceof ResultsError) return refuse(submission, { form: [error.message] });
+        throw error;
+      }
+      return redirectWithToast(here, "Amendment recorded. The coordinator sees the old and the new value with your reason.");
+    }
+    case "amend-fresh": {
+      const { intent: _, reason, ...readings } = input;
+      let outcome: Awaited<ReturnType<typeof saveFreshProperties>>;
+      try {
+        outcome = await saveFreshProperties(enrollment, entry.material.id, readings as Partial<Record<FreshProperty, string>>, user, { reason: reason ?? "" });
+      } catch (error) {
+        if (error instanceof ResultsError) return refuse(submission, { form: [error.message] });
+        throw error;
+      }
+      const problems = Object.entries(outcome.problems as Record<string, string>);
+      if (problems.length > 0) return refuse(submission, Object.fromEntries(problems.map(([field, message]) => [field, [message]])));
+      return redirectWithToast(here, "Fresh properties amended. The coordinator sees the old and the new readings with your reason.");
+    }
+    case "photo":
+      try {
+        await attachReplicatePhoto(enrollment, entry.material.id, input.replicate, input.photo, user);
+      } catch (error) {
+        if (error instanceof ResultsError || error instanceof UploadError) return refuse(submission, { photo: [error.message] });
+        throw error;
+      }
+      return redirectWithToast(here, `Photo of replicate ${input.replicate} added.`);
+  }
+}
+
+/** The server's draft after a save, for the page to fold into what is on screen. */
+async function currentStamp(enrollment: Enrollment, entry: Entry, replicates: number) {
+  const current = await materialEntry(enrollment, entry.material.id);
+  return JSON.stringify(serverDraft(current!, await getBatch(enrollment.id, entry.material.id), replicates));
+}
+
+/** Saves the changes; a study no longer open to changes (a ResultsError) refuses the whole form. */
+async function saveChangesOrRefuse(enrollment: Enrollment, entry: Entry, changes: DraftChanges, user: { id: number }) {
   try {
-    if (intent === "draft" || intent === "submit") {
-      const parsed = changesSchema.safeParse(parseJsonField(form.get("draft")));
-      if (!parsed.success) return data({ intent, error: "The form could not be read; reload the page." }, { status: 400 });
-      const { problems, conflicts } = await saveChanges(enrollment, entry, parsed.data, user);
-      const current = await materialEntry(enrollment, entry.material.id);
-      const stamp = JSON.stringify(serverDraft(current!, await getBatch(enrollment.id, entry.material.id), study.replicatesPerCell));
-      if (intent === "draft") return { intent, problems, conflicts, stamp };
-      if (Object.keys(conflicts).length > 0) return data({ intent, problems, conflicts, stamp, submitProblems: ["Someone else changed a value meanwhile; check the marked fields, then submit again."] }, { status: 409 });
-      if (Object.keys(problems).length > 0) return data({ intent, problems, submitProblems: ["Correct the marked fields first."] }, { status: 400 });
-      const submitted = await submitMaterial(enrollment, entry.material.id, user, { confirmedUnusual: form.get("confirmUnusual") === "yes" });
-      if (!submitted.ok) return data({ intent, submitProblems: submitted.problems, unusualValues: submitted.unusual }, { status: 400 });
-      return { intent, submitted: true };
-    }
-    if (intent === "amend") {
-      const fields = z
-        .object({ responseId: z.coerce.number().int(), replicate: z.coerce.number().int(), version: z.coerce.number().int(), value: z.string(), reason: z.string(), confirmUnusual: z.literal("yes").optional() })
-        .safeParse(Object.fromEntries(form));
-      if (!fields.success) return data({ intent, error: "The amendment could not be read; reload the page." }, { status: 400 });
-      const { responseId, replicate, version, value, reason, confirmUnusual } = fields.data;
-      const outcome = await amendResult(enrollment, entry.material.id, { responseId, replicate, value, reason, expectedVersion: version, confirmedUnusual: confirmUnusual === "yes" }, user);
-      const target = `${responseId}:${replicate}`;
-      return outcome.ok
-        ? { intent, target, amended: true }
-        : data({ intent, target, field: outcome.field, error: outcome.message, unusual: outcome.unusual ?? false, values: { value, reason } }, { status: outcome.field === "form" ? 409 : 400 });
-    }
-    if (intent === "amend-fresh") {
-      const fields = z
-        .object({ reason: z.string().max(1000), ...Object.fromEntries(FRESH_PROPERTY_NAMES.map((p) => [p, z.string().max(20).optional()])) })
-        .safeParse(Object.fromEntries(form));
-      if (!fields.success) return data({ intent, error: "The amendment could not be read; reload the page." }, { status: 400 });
-      const { reason, ...readings } = fields.data as { reason: string } & Partial<Record<FreshProperty, string>>;
-      const outcome = await saveFreshProperties(enrollment, entry.material.id, readings, user, { reason });
-      if (Object.keys(outcome.problems).length > 0) return data({ intent, problems: outcome.problems as Record<string, string> }, { status: 400 });
-      return { intent, amended: true };
-    }
-    if (intent === "photo") {
-      const replicate = Number(form.get("replicate"));
-      const file = form.get("photo");
-      if (!(file instanceof File) || file.size === 0) return data({ intent, replicate, error: "Choose a photo to upload." }, { status: 400 });
-      await attachReplicatePhoto(enrollment, entry.material.id, replicate, file, user);
-      return { intent, replicate, uploaded: true };
-    }
+    return { ok: true as const, value: await saveChanges(enrollment, entry, changes, user) };
   } catch (error) {
-    if (error instanceof ResultsError || error instanceof UploadError) return data({ intent, replicate: Number(form.get("replicate")), error: error.message }, { status: 400 });
+    if (error instanceof ResultsError) return { ok: false as const, message: error.message };
     throw error;
   }
-  return data({ intent, error: "Unknown action." }, { status: 400 });
 }
 
 /** A request that never reached the server answers `offline` instead of replacing the page with an error, so nothing typed is lost. */
@@ -208,7 +237,7 @@ export async function clientAction({ serverAction }: Route.ClientActionArgs) {
     return await serverAction();
   } catch (error) {
     if (isRouteErrorResponse(error)) throw error;
-    return { intent: "offline", offline: true as const };
+    return { offline: true as const };
   }
 }
 
@@ -217,38 +246,38 @@ export function shouldRevalidate({ formData, defaultShouldRevalidate }: ShouldRe
   return formData?.get("intent") === "draft" ? false : defaultShouldRevalidate;
 }
 
-type ActionReply = {
-  intent?: string;
-  error?: string;
-  field?: string;
-  target?: string;
-  replicate?: number;
-  problems?: Record<string, string>;
-  submitProblems?: string[];
-  submitted?: boolean;
-  amended?: boolean;
-  uploaded?: boolean;
-  conflicts?: Record<string, string>;
-  unusual?: boolean;
-  unusualValues?: { response: string; replicate: number; value: number; range: string }[];
-  values?: { value: string; reason: string };
-};
+type ActionData = Route.ComponentProps["actionData"];
 
 export default function ResultEntry({ loaderData, actionData }: Route.ComponentProps) {
   const { study, material, responses, targets, photos, openQueries, editable } = loaderData;
-  const reply = actionData as ActionReply | undefined;
   const replicates = Array.from({ length: study.replicatesPerCell }, (_, i) => i + 1);
   const locked = responses.every((r) => r.cell?.status === "submitted");
   const storageKey = `ringbatch:results-draft:${loaderData.enrollmentId}:${material.id}`;
   const responseKeys = responses.filter((r) => r.cell?.status !== "submitted").map((r) => r.key);
-  const { draft, update, saveState, problems: savedProblems, conflicts: savedConflicts, forget, flush, base } = useAutosavedDraft({
+  const {
+    draft,
+    update,
+    saveState,
+    problems: savedProblems,
+    conflicts: savedConflicts,
+    forget,
+    flush,
+    base,
+  } = useAutosavedDraft({
     storageKey,
     serverDraft: loaderData.draft,
     intent: "draft",
+    schema: entryDraftSchema,
     changes: (from: EntryDraft, to: EntryDraft) => draftChanges(from, to, responseKeys, study.replicatesPerCell),
     rebase: rebaseDraft,
   });
-  const problems = { ...savedProblems, ...savedConflicts, ...(reply?.problems ?? {}), ...(reply?.conflicts ?? {}) };
+  const submitReply = actionData && "result" in actionData && actionData.result?.initialValue?.intent === "submit" ? actionData : undefined;
+  const submitProblems = submitReply && "problems" in submitReply ? (submitReply.problems as Record<string, string>) : undefined;
+  const submitConflicts = submitReply && "conflicts" in submitReply ? (submitReply.conflicts as Record<string, string>) : undefined;
+  const unusualValues = submitReply && "unusualValues" in submitReply ? (submitReply.unusualValues as UnusualValue[]) : [];
+  const problems: Record<string, string> = { ...savedProblems, ...savedConflicts, ...submitProblems, ...submitConflicts, ...draftProblems(draft) };
+  const [submitForm] = useSchemaForm(submitMaterialSchema, { reply: submitReply, intent: "submit" });
+  const submitFormProps = getFormProps(submitForm);
 
   useEffect(() => {
     if (locked) forget();
@@ -260,19 +289,12 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
 
   return (
     <>
-      <PageHeader
-        title={`Results of ${material.code}`}
-        subtitle={
-          <>
-            {study.code} · your lab code {loaderData.labCode ?? "—"} · {material.description}
-          </>
-        }
-        actions={
-          <Link to={`/lab/studies/${study.id}`} className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
-            Back to the study
-          </Link>
-        }
-      />
+      <div className="mb-6 flex flex-wrap items-center justify-between gap-3">
+        <p>{material.description}</p>
+        <Link to={`/lab/studies/${study.id}`} className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
+          Back to the tasks
+        </Link>
+      </div>
       <div className="grid gap-6 [&>*]:min-w-0">
         <ConcreteCaution />
         {!editable && loaderData.lockedBecause && <Notice>{loaderData.lockedBecause}</Notice>}
@@ -341,34 +363,19 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
           </div>
         </Card>
 
-        {locked && (editable || loaderData.correctable.length > 0) && (
-          <Card title="Amend fresh properties">
-            <p className="mb-3 text-basalt-700">The results of {material.code} are submitted: a corrected reading needs its reason, which the coordinator sees in the audit trail.</p>
-            {reply?.intent === "amend-fresh" && reply.amended && <Notice tone="success">Fresh properties amended.</Notice>}
-            <Form method="post" className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
-              <input type="hidden" name="intent" value="amend-fresh" />
-              {FRESH_PROPERTY_NAMES.map((property) => (
-                <Field
-                  key={property}
-                  label={`${FRESH_FIELDS[property].label} (${FRESH_FIELDS[property].unit})`}
-                  name={property}
-                  id={`amend-fresh-${property}`}
-                  inputMode="decimal"
-                  defaultValue={loaderData.draft.fresh[property] ?? ""}
-                  error={reply?.intent === "amend-fresh" ? reply.problems?.[property] : undefined}
-                />
-              ))}
-              <Field label="Reason for the change" name="reason" id="amend-fresh-reason" error={reply?.intent === "amend-fresh" ? reply.problems?.reason : undefined} />
-              <div className="self-end">
-                <Button type="submit">Record the amendment</Button>
-              </div>
-            </Form>
-          </Card>
-        )}
+        {locked && (editable || loaderData.correctable.length > 0) && <AmendFreshForm fresh={loaderData.draft.fresh} actionData={actionData} />}
 
         <Card title={locked ? "Submitted results" : "Results per replicate"}>
           {locked ? (
-            <SubmittedResults responses={responses} replicates={replicates} values={loaderData.submittedValues} reply={reply} editable={editable} correctable={loaderData.correctable} photos={photos} />
+            <SubmittedResults
+              responses={responses}
+              replicates={replicates}
+              values={loaderData.submittedValues}
+              actionData={actionData}
+              editable={editable}
+              correctable={loaderData.correctable}
+              photos={photos}
+            />
           ) : (
             <div className="relative overflow-x-auto">
               <table className="w-full border-collapse text-left">
@@ -458,43 +465,43 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
             <p className="mb-3">
               Submitting locks every result of {material.code}. After that a change is an amendment with a reason, which the coordinator sees.
             </p>
-            {reply?.submitProblems && (
-              <Notice tone="error">
-                <p className="font-semibold">Not submitted yet:</p>
-                <ul className="ml-5 list-disc">
-                  {reply.submitProblems.map((p) => (
-                    <li key={p}>{p}</li>
-                  ))}
-                </ul>
-              </Notice>
-            )}
-            {reply?.unusualValues && reply.unusualValues.length > 0 && (
-              <Notice tone="caution">
-                <p className="font-semibold">Please look again at these values before submitting:</p>
-                <ul className="ml-5 list-disc" aria-label="Values outside the plausible range">
-                  {reply.unusualValues.map((u) => (
-                    <li key={`${u.response}:${u.replicate}`}>
-                      {u.response}, replicate {u.replicate}: <span className="font-semibold">{u.value}</span> (plausible {u.range})
-                    </li>
-                  ))}
-                </ul>
-                <p className="mt-2">If they are what your lab measured, confirm and submit; otherwise correct them above.</p>
-              </Notice>
-            )}
-            <Form method="post" className="mt-3 flex flex-wrap gap-3" onSubmit={() => flush()}>
+            <Form
+              method="post"
+              className="mt-3 grid gap-3"
+              {...submitFormProps}
+              onSubmit={(event) => {
+                flush();
+                submitFormProps.onSubmit(event);
+              }}
+            >
+              <FormErrors errors={formWideErrors(submitForm)} />
+              {unusualValues.length > 0 && (
+                <Notice tone="caution">
+                  <p className="font-semibold">Please look again at these values before submitting:</p>
+                  <ul className="ml-5 list-disc" aria-label="Values outside the plausible range">
+                    {unusualValues.map((u) => (
+                      <li key={`${u.response}:${u.replicate}`}>
+                        {u.response}, replicate {u.replicate}: <span className="font-semibold">{u.value}</span> (plausible {u.range})
+                      </li>
+                    ))}
+                  </ul>
+                  <p className="mt-2">If they are what your lab measured, confirm and submit; otherwise correct them above.</p>
+                </Notice>
+              )}
               <input type="hidden" name="intent" value="submit" />
               <input type="hidden" name="draft" value={JSON.stringify(draftChanges(base(), draft, responseKeys, study.replicatesPerCell))} />
-              {reply?.unusualValues && reply.unusualValues.length > 0 ? (
-                <Button type="submit" name="confirmUnusual" value="yes">
-                  Confirm these values and submit {material.code}
-                </Button>
-              ) : (
-                <Button type="submit">Submit {material.code}</Button>
-              )}
+              <div>
+                {unusualValues.length > 0 ? (
+                  <Button type="submit" name="confirmUnusual" value="yes">
+                    Confirm these values and submit {material.code}
+                  </Button>
+                ) : (
+                  <Button type="submit">Submit {material.code}</Button>
+                )}
+              </div>
             </Form>
           </Card>
         )}
-        {reply?.submitted && <Notice tone="success">{material.code} is submitted. Thank you.</Notice>}
         <AmendmentHistory responses={responses} />
       </div>
     </>
@@ -538,9 +545,11 @@ function CellInput({
 }
 
 function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoId?: number; editable: boolean }) {
-  const fetcher = useFetcher<ActionReply>();
-  const error = fetcher.data?.intent === "photo" && fetcher.data.replicate === replicate ? fetcher.data.error : undefined;
-  const id = `photo-${replicate}`;
+  // A fetcher of its own, so a refused photo is named beside its replicate and the grid keeps what was typed.
+  const fetcher = useFetcher<typeof action>();
+  const [form, fields] = useSchemaForm(photoSchema, { reply: fetcher.data, id: `photo-${replicate}` });
+  const error = fields.photo.errors?.[0] ?? formWideErrors(form)[0];
+  const id = fields.photo.id;
   return (
     <div className="flex flex-col gap-1">
       {photoId && (
@@ -549,13 +558,21 @@ function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoI
         </a>
       )}
       {editable && (
-        <fetcher.Form method="post" encType="multipart/form-data" className="flex flex-col gap-1">
+        <fetcher.Form method="post" encType="multipart/form-data" className="flex flex-col gap-1" {...getFormProps(form)}>
           <input type="hidden" name="intent" value="photo" />
           <input type="hidden" name="replicate" value={replicate} />
           <label htmlFor={id} className="sr-only">
             Surface photo of replicate {replicate} (JPEG, PNG or WebP, at most 10 MB)
           </label>
-          <input id={id} name="photo" type="file" accept="image/jpeg,image/png,image/webp" className="max-w-48 text-sm" aria-describedby={error ? `${id}-error` : undefined} />
+          <input
+            id={id}
+            name={fields.photo.name}
+            type="file"
+            accept="image/jpeg,image/png,image/webp"
+            className="max-w-48 text-sm"
+            aria-invalid={error ? true : undefined}
+            aria-describedby={error ? `${id}-error` : undefined}
+          />
           <Button type="submit" variant="secondary" className="min-h-9 px-2 py-1 text-sm" disabled={fetcher.state !== "idle"}>
             {fetcher.state !== "idle" ? "Uploading…" : "Upload"}
             <span className="sr-only"> photo of replicate {replicate}</span>
@@ -577,7 +594,7 @@ function SubmittedResults({
   responses,
   replicates,
   values,
-  reply,
+  actionData,
   editable,
   correctable,
   photos,
@@ -585,11 +602,12 @@ function SubmittedResults({
   responses: ResponseView[];
   replicates: number[];
   values: Record<string, number>;
-  reply?: ActionReply;
+  actionData: ActionData;
   editable: boolean;
   correctable: number[];
   photos: Record<number, number>;
 }) {
+  const answered = actionData && "result" in actionData ? actionData.result?.initialValue : undefined;
   return (
     <div className="grid gap-4">
       {responses.map((response) => (
@@ -599,8 +617,7 @@ function SubmittedResults({
           </h3>
           <ul className="grid gap-2">
             {replicates.map((replicate) => {
-              const target = `${response.id}:${replicate}`;
-              const mine = reply?.intent === "amend" && reply.target === target ? reply : undefined;
+              const mine = answered?.intent === "amend" && answered.responseId === String(response.id) && answered.replicate === String(replicate);
               return (
                 <li key={replicate} className="flex flex-wrap items-start gap-3">
                   <span className="min-w-40">
@@ -612,47 +629,7 @@ function SubmittedResults({
                       </>
                     )}
                   </span>
-                  {(editable || correctable.includes(response.id)) && (
-                    <details className="flex-1" open={Boolean(mine?.error)}>
-                      <summary className="cursor-pointer font-semibold text-basalt-700 underline">
-                        Amend<span className="sr-only"> {response.name}, replicate {replicate}</span>
-                      </summary>
-                      <Form method="post" className="mt-2 grid max-w-xl gap-2">
-                        <input type="hidden" name="intent" value="amend" />
-                        <input type="hidden" name="responseId" value={response.id} />
-                        <input type="hidden" name="replicate" value={replicate} />
-                        <input type="hidden" name="version" value={response.cell?.version ?? 0} />
-                        {mine?.field === "form" && <Notice tone="error">{mine.error}</Notice>}
-                        <Field
-                          label={`Corrected value, ${response.name.toLowerCase()}, replicate ${replicate}`}
-                          name="value"
-                          id={`amend-value-${target}`}
-                          inputMode="decimal"
-                          required
-                          defaultValue={mine?.values?.value}
-                          error={mine?.field === "value" && !mine.unusual ? mine.error : undefined}
-                        />
-                        {mine?.unusual === true && <Notice tone="caution">{mine.error}</Notice>}
-                        <Field
-                          label="Reason for the change"
-                          name="reason"
-                          id={`amend-reason-${target}`}
-                          required
-                          minLength={5}
-                          hint="The coordinator sees the reason, the old and the new value."
-                          defaultValue={mine?.values?.reason}
-                          error={mine?.field === "reason" ? mine.error : undefined}
-                        />
-                        {mine?.unusual === true ? (
-                          <Button type="submit" name="confirmUnusual" value="yes">
-                            Confirm the value and record the amendment
-                          </Button>
-                        ) : (
-                          <Button type="submit">Record amendment</Button>
-                        )}
-                      </Form>
-                    </details>
-                  )}
+                  {(editable || correctable.includes(response.id)) && <AmendForm response={response} replicate={replicate} reply={mine ? actionData : undefined} />}
                 </li>
               );
             })}
@@ -660,6 +637,59 @@ function SubmittedResults({
         </section>
       ))}
     </div>
+  );
+}
+
+function AmendForm({ response, replicate, reply }: { response: ResponseView; replicate: number; reply: ActionData }) {
+  const target = `${response.id}-${replicate}`;
+  const [form, fields] = useSchemaForm(amendSchema, { reply, id: `amend-${target}` });
+  // A value outside the plausible range is refused once, beside the value, and recorded when confirmed.
+  const unusual = reply !== undefined && "unusual" in reply && reply.unusual === true;
+  return (
+    <details className="flex-1" open={Boolean(reply)}>
+      <summary className="cursor-pointer font-semibold text-basalt-700 underline">
+        Amend<span className="sr-only"> {response.name}, replicate {replicate}</span>
+      </summary>
+      <Form method="post" className="mt-2 grid max-w-xl gap-2" {...getFormProps(form)}>
+        <input type="hidden" name="intent" value="amend" />
+        <input type="hidden" name="responseId" value={response.id} />
+        <input type="hidden" name="replicate" value={replicate} />
+        <input type="hidden" name="version" value={response.cell?.version ?? 0} />
+        <FormErrors errors={formWideErrors(form)} />
+        <Field label={`Corrected value, ${response.name.toLowerCase()}, replicate ${replicate}`} inputMode="decimal" {...fieldProps(fields.value)} />
+        <Field label="Reason for the change" hint="The coordinator sees the reason, the old and the new value." {...fieldProps(fields.reason)} />
+        {unusual ? (
+          <Button type="submit" name="confirmUnusual" value="yes">
+            Confirm the value and record the amendment
+          </Button>
+        ) : (
+          <Button type="submit">Record amendment</Button>
+        )}
+      </Form>
+    </details>
+  );
+}
+
+/** Corrected fresh properties of a submitted material, with the reason the coordinator reads in the audit trail. */
+function AmendFreshForm({ fresh, actionData }: { fresh: EntryDraft["fresh"]; actionData: ActionData }) {
+  const [form, fields] = useSchemaForm(amendFreshSchema, { reply: actionData, intent: "amend-fresh", id: "amend-fresh", defaultValue: fresh });
+  return (
+    <Card title="Amend fresh properties">
+      <p className="mb-3 text-basalt-700">The results are submitted: a corrected reading needs its reason, which the coordinator sees in the audit trail.</p>
+      <Form method="post" className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3" {...getFormProps(form)}>
+        <input type="hidden" name="intent" value="amend-fresh" />
+        <div className="sm:col-span-2 lg:col-span-3">
+          <FormErrors errors={formWideErrors(form)} />
+        </div>
+        {FRESH_PROPERTY_NAMES.map((property) => (
+          <Field key={property} label={`${FRESH_FIELDS[property].label} (${FRESH_FIELDS[property].unit})`} inputMode="decimal" {...fieldProps(fields[property])} />
+        ))}
+        <Field label="Reason for changing the fresh properties" {...fieldProps(fields.reason)} />
+        <div className="self-end">
+          <Button type="submit">Record the amendment</Button>
+        </div>
+      </Form>
+    </Card>
   );
 }
 
@@ -672,7 +702,7 @@ function AmendmentHistory({ responses }: { responses: ResponseView[] }) {
         {rows.map((a) => (
           <li key={a.id}>
             {a.responseName}, replicate {a.replicate}: {a.oldValue ?? "—"} → <span className="font-semibold">{a.newValue}</span> · “{a.reason}” · {a.byName},{" "}
-            {new Date(a.createdAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" })} UTC
+            {formatDateTime(a.createdAt)}
           </li>
         ))}
       </ul>

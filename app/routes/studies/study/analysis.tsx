@@ -1,26 +1,35 @@
-import { Form, Link, useFetcher, useNavigation } from "react-router";
+import { getFormProps } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
 import { useState } from "react";
+import { Form, Link, useFetcher, useNavigation } from "react-router";
 import { z } from "zod";
-import { data } from "react-router";
 import type { Route } from "./+types/analysis";
 import { LazyCharts } from "~/components/charts/lazy-charts";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { PrecisionTables } from "~/components/precision-tables";
-import { Badge, Button, Card, Notice, PageHeader, SimpleTable, TextAreaField } from "~/components/ui";
-import { type FieldErrors, parseForm } from "~/lib/forms";
+import { StateBadge } from "~/components/state-badge";
+import type { StudyPageHandle } from "~/components/study-frame";
+import { Button, Card, Field, Notice, SimpleTable, TextAreaField } from "~/components/ui";
+import { formatDate, formatDateTime } from "~/lib/format";
+import { studyPageMeta } from "~/lib/study-page-meta";
+import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
+import { redirectWithToast } from "~/server/toast.server";
 import { type ComputedGroup, isSignificanceLevel, SIGNIFICANCE_LEVELS, type StudyAnalysis } from "~/lib/precision";
 import { type CellRef, cellKey, parseCellList, sameCell } from "~/lib/review/cells";
 import { flaggedCells, flagStatistic, suggestedQuestion } from "~/lib/review/flags";
 import { ALPHA_LABEL, figureDecimals, formatFigure } from "~/lib/review/format";
 import { writeRefusal } from "~/lib/write-rules";
 import { ConfirmStep } from "~/components/confirm-dialog";
-import { STATE_LABEL } from "~/lib/state-labels";
+import { QUERY_STATE } from "~/lib/state-labels";
 import { studyAnalysis, withdrawnLabCodes } from "~/models/analysis.server";
-import { QueryError, listStudyQueries, raiseQuery } from "~/models/coordinator-queries.server";
-import { DecisionError, cellEvidence, decisionHistory, listCellDecisions, saveCellDecision } from "~/models/decisions.server";
+import { listStudyQueries, raiseQuery } from "~/models/coordinator-queries.server";
+import { cellEvidence, decisionHistory, listCellDecisions, saveCellDecision } from "~/models/decisions.server";
 import { studyDesign } from "~/models/statement.server";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Analysis · ${data?.study.code ?? "Study"} · Ringbatch` }];
+export const handle = { pageTitle: "Analysis" } satisfies StudyPageHandle;
+
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 function selectedCell(url: URL): CellRef | null {
   const parsed = parseCellList(url.searchParams.get("cell"));
@@ -59,62 +68,57 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   };
 }
 
-const cellFields = {
-  lab: z.string().trim().min(1, "Choose a cell."),
-  material: z.string().trim().min(1, "Choose a cell."),
-  response: z.string().trim().min(1, "Choose a cell."),
-};
+const cellField = z.string({ message: "Choose a cell." }).trim().min(1, "Choose a cell.");
+const cellFields = { lab: cellField, material: cellField, response: cellField };
+const QUESTION_TOO_SHORT = "Write the question for the lab (at least 10 characters).";
+const REASON_TOO_SHORT = "Give the reason (at least 10 characters): the assignable cause or the statistical justification.";
 
 const askSchema = z.object({
+  intent: z.literal("ask"),
   ...cellFields,
-  statistic: z.string().trim().max(300, "Keep the statistic under 300 characters."),
-  question: z.string().trim().min(10, "Write the question for the lab (at least 10 characters).").max(2000, "Keep the question under 2000 characters."),
+  statistic: z.string().trim().max(300, "Keep the statistic under 300 characters.").default(""),
+  question: z.string({ message: QUESTION_TOO_SHORT }).trim().min(10, QUESTION_TOO_SHORT).max(2000, "Keep the question under 2000 characters."),
   // A checkbox: present means the lab may amend the cell while the query is open.
-  asksCorrection: z.literal("on").optional().transform((v) => v === "on"),
+  asksCorrection: z.literal("on").optional(),
 });
 
 const decideSchema = z.object({
+  intent: z.literal("decide"),
   ...cellFields,
   decision: z.enum(["retained", "excluded"], { message: "Choose retain or exclude." }),
-  reason: z
-    .string()
-    .trim()
-    .min(10, "Give the reason (at least 10 characters): the assignable cause or the statistical justification.")
-    .max(2000, "Keep the reason under 2000 characters."),
+  reason: z.string({ message: REASON_TOO_SHORT }).trim().min(10, REASON_TOO_SHORT).max(2000, "Keep the reason under 2000 characters."),
 });
+
+const analysisSchema = z.discriminatedUnion("intent", [askSchema, decideSchema], { error: "Unknown action." });
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireStudy(context, ["coordinator"]);
-  const form = await request.formData();
-  const intent = form.get("intent");
-  if (intent === "ask") {
-    const parsed = parseForm(askSchema, form);
-    if (!parsed.ok) return data({ intent, ok: false as const, errors: parsed.errors, values: parsed.values }, { status: 400 });
-    try {
-      await raiseQuery(study, user.id, parsed.data, request);
-    } catch (error) {
-      if (error instanceof QueryError) return data({ intent, ok: false as const, errors: { form: error.message } as FieldErrors, values: parsed.values }, { status: 409 });
-      throw error;
-    }
-    return { intent, ok: true as const, message: `Query sent to lab ${parsed.data.lab}.` };
-  }
-  if (intent === "decide") {
-    const parsed = parseForm(decideSchema, form);
-    if (!parsed.ok) return data({ intent, ok: false as const, errors: parsed.errors, values: parsed.values }, { status: 400 });
-    try {
-      await saveCellDecision(study, user.id, parsed.data);
-    } catch (error) {
-      if (error instanceof DecisionError) return data({ intent, ok: false as const, errors: { form: error.message } as FieldErrors, values: parsed.values }, { status: 409 });
-      throw error;
-    }
-    const verb = parsed.data.decision === "excluded" ? "excluded" : "retained";
-    return { intent, ok: true as const, message: `Cell ${cellKey(parsed.data)} ${verb}. Re-check the flags below before deciding on another cell.` };
-  }
-  return data({ intent: null, ok: false as const, errors: { form: "Unknown action." } as FieldErrors, values: {} }, { status: 400 });
+  const submission = parseWithZod(await request.formData(), { schema: analysisSchema });
+  if (submission.status !== "success") return refuse(submission);
+  const form = submission.value;
+  // A refusal here is a conflict with the study's state or data (409), shown above the form.
+  const outcome = await withRefusals(
+    submission,
+    async () => {
+      if (form.intent === "ask") {
+        const { intent: _, asksCorrection, ...query } = form;
+        await raiseQuery(study, user.id, { ...query, asksCorrection: asksCorrection === "on" }, request);
+        return `Query sent to lab ${query.lab}.`;
+      }
+      const { intent: _, ...decision } = form;
+      await saveCellDecision(study, user.id, decision);
+      return `Cell ${cellKey(decision)} ${decision.decision}. Re-check the flags below before deciding on another cell.`;
+    },
+    409,
+  );
+  if (!outcome.ok) return outcome.reply;
+  const url = new URL(request.url);
+  return redirectWithToast(url.pathname + url.search, outcome.value);
 }
 
 type LoaderData = Route.ComponentProps["loaderData"];
 type ActionData = Route.ComponentProps["actionData"];
+type Decision = LoaderData["decisions"][number];
 
 const cellHref = (alpha: number, cell: CellRef) => `?alpha=${alpha}&cell=${encodeURIComponent(cellKey(cell))}#investigate`;
 
@@ -123,22 +127,14 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
   const excludedKeys = new Set(decisions.filter((d) => d.decision === "excluded").map(cellKey));
   return (
     <>
-      <PageHeader
-        title={`Analysis — ${study.code}`}
-        subtitle={
-          <>
-            {study.title} · <Badge>{STATE_LABEL[study.state]}</Badge> · data version {study.dataVersion}
-          </>
-        }
-      />
       <div className="flex flex-col gap-6">
+        <p className="text-basalt-700">Data version {study.dataVersion}.</p>
         <Notice tone="caution">
           <strong>Before leaving any result out:</strong> a flag only starts an investigation. Exclude a cell only when there is an assignable
           cause (a batching, testing or recording fault the lab confirms) or a clear statistical justification, give that reason, and look at the
           flags again after every exclusion — removing one cell changes the critical values and statistics of the others. These figures support the
           committee's judgement; they do not replace it.
         </Notice>
-        {actionData?.ok && <Notice tone="success">{actionData.message}</Notice>}
         {loaderData.withdrawn.length > 0 && (
           <Notice>
             Not in the analysis: {loaderData.withdrawn.join(", ")}, withdrawn from the study. Their results stay on the results page and in the audit
@@ -210,7 +206,7 @@ function FlaggedCells({ loaderData, excludedKeys }: { loaderData: LoaderData; ex
               f.material,
               f.response,
               f.statistic,
-              query ? <Badge key="q" tone={query.state === "closed" ? "leaf" : "ochre"}>{query.state}</Badge> : "none",
+              query ? <StateBadge key="q" view={QUERY_STATE[query.state]} /> : "none",
               excludedKeys.has(cellKey(f)) ? "excluded" : "—",
               <Link key="go" to={cellHref(alpha, f)} className="font-semibold text-basalt-700 underline">
                 Investigate<span className="sr-only"> lab {f.lab}, {f.material}, {f.response}</span>
@@ -285,7 +281,7 @@ function Investigation({ loaderData, actionData, cell }: { loaderData: LoaderDat
                 <ul className="flex flex-col gap-2">
                   {cellQueries.map((q) => (
                     <li key={q.id} className="rounded border border-basalt-100 p-2">
-                      <Badge tone={q.state === "closed" ? "leaf" : "ochre"}>{q.state}</Badge> {q.question}
+                      <StateBadge view={QUERY_STATE[q.state]} /> {q.question}
                       {q.answer && (
                         <p className="mt-1">
                           <strong>Lab's answer:</strong> {q.answer}
@@ -310,9 +306,6 @@ function Investigation({ loaderData, actionData, cell }: { loaderData: LoaderDat
   );
 }
 
-function errorsFor(actionData: ActionData, intent: string) {
-  return actionData && !actionData.ok && actionData.intent === intent ? actionData : null;
-}
 
 function CellHiddenFields({ cell }: { cell: CellRef }) {
   return (
@@ -325,28 +318,27 @@ function CellHiddenFields({ cell }: { cell: CellRef }) {
 }
 
 function AskTheLab({ loaderData, actionData, cell, statistic }: { loaderData: LoaderData; actionData: ActionData; cell: CellRef; statistic: string }) {
-  const failed = errorsFor(actionData, "ask");
   const navigation = useNavigation();
+  const [form, fields] = useSchemaForm(askSchema, {
+    reply: actionData,
+    intent: "ask",
+    defaultValue: { statistic, question: suggestedQuestion(cell, statistic || "see the attached statistic") },
+  });
   if (loaderData.queryRefusal) return <Notice>{loaderData.queryRefusal}</Notice>;
   return (
-    <Form method="post" className="flex flex-col gap-3" aria-labelledby="ask-heading">
+    <Form method="post" className="flex flex-col gap-3" aria-labelledby="ask-heading" {...getFormProps(form)}>
       <h3 id="ask-heading" className="font-semibold text-basalt-800">
         Ask the lab
       </h3>
-      {failed?.errors.form && <Notice tone="error">{failed.errors.form}</Notice>}
+      <FormErrors errors={[...formWideErrors(form), ...(fields.lab.errors ?? [])]} />
       <input type="hidden" name="intent" value="ask" />
       <CellHiddenFields cell={cell} />
-      <div className="flex flex-col gap-1">
-        <label htmlFor="field-statistic" className="font-semibold text-basalt-800">
-          Statistic quoted
-        </label>
-        <input id="field-statistic" name="statistic" defaultValue={failed?.values.statistic ?? statistic} className="min-h-11 rounded-md border border-basalt-200 bg-white px-3 py-2" />
-      </div>
+      <Field label="Statistic quoted" {...fieldProps(fields.statistic)} />
       <label className="inline-flex min-h-11 items-center gap-2">
-        <input type="checkbox" name="asksCorrection" className="size-5" defaultChecked={failed?.values.asksCorrection === "on"} />
+        <input type="checkbox" name={fields.asksCorrection.name} className="size-5" defaultChecked={fields.asksCorrection.initialValue === "on"} />
         Ask the lab to correct this cell if it finds a recording error (it may amend this cell, with a reason, until you close the query)
       </label>
-      <TextAreaField name="question" label="Question to the lab" error={failed?.errors.question} defaultValue={failed?.values.question ?? suggestedQuestion(cell, statistic || "see the attached statistic")} />
+      <TextAreaField label="Question to the lab" {...fieldProps(fields.question)} />
       <div>
         <Button type="submit" disabled={navigation.state === "submitting"}>
           Send the query
@@ -368,12 +360,12 @@ function DecisionForm({
   actionData: ActionData;
   cell: CellRef;
   currentlyExcluded: boolean;
-  decision: LoaderData["decisions"][number] | null;
+  decision: Decision | null;
   alpha: number;
 }) {
-  const failed = errorsFor(actionData, "decide");
+  const [form, fields] = useSchemaForm(decideSchema, { reply: actionData, intent: "decide" });
   const preview = useFetcher<StudyAnalysis>();
-  const [choice, setChoice] = useState<string>(failed?.values.decision ?? decision?.decision ?? "");
+  const [choice, setChoice] = useState<string>((fields.decision.initialValue as string | undefined) ?? decision?.decision ?? "");
   if (loaderData.decisionRefusal) return <Notice>{loaderData.decisionRefusal}</Notice>;
   const others = loaderData.analysis.excluded.filter((e) => !sameCell(e, cell));
   const loadPreview = (value: string) => {
@@ -382,42 +374,37 @@ function DecisionForm({
     preview.load(`/api/v1/studies/${loaderData.study.id}/what-if?alpha=${alpha}&exclude=${encodeURIComponent(list.map(cellKey).join(","))}`);
   };
   const after = preview.data && "groups" in preview.data ? preview.data : null;
+  const decisionError = fields.decision.errors?.[0];
   return (
-    <Form method="post" className="flex flex-col gap-3" aria-labelledby="decide-heading">
+    <Form method="post" className="flex flex-col gap-3" aria-labelledby="decide-heading" {...getFormProps(form)}>
       <h3 id="decide-heading" className="font-semibold text-basalt-800">
         Cell decision
       </h3>
       <p className="text-sm text-basalt-700">
         {decision
-          ? `Currently ${decision.decision}, decided by ${decision.decidedBy} on ${decision.decidedAt.slice(0, 10)}: ${decision.reason}`
+          ? `Currently ${decision.decision}, decided by ${decision.decidedBy} on ${formatDate(decision.decidedAt)}: ${decision.reason}`
           : "No decision yet: the cell counts in the figures."}
       </p>
-      {failed?.errors.form && <Notice tone="error">{failed.errors.form}</Notice>}
+      <FormErrors errors={[...formWideErrors(form), ...(fields.lab.errors ?? [])]} />
       <input type="hidden" name="intent" value="decide" />
       <CellHiddenFields cell={cell} />
-      <fieldset aria-describedby={failed?.errors.decision ? "field-decision-error" : undefined}>
+      <fieldset aria-describedby={decisionError ? fields.decision.errorId : undefined}>
         <legend className="mb-1 font-semibold text-basalt-800">Decision</legend>
         <div className="flex flex-wrap gap-4">
           {(["retained", "excluded"] as const).map((value) => (
             <label key={value} className="inline-flex min-h-11 items-center gap-2">
-              <input type="radio" name="decision" value={value} checked={choice === value} onChange={() => loadPreview(value)} className="size-5" />
+              <input type="radio" name={fields.decision.name} value={value} checked={choice === value} onChange={() => loadPreview(value)} className="size-5" />
               {value === "retained" ? "Retain the cell" : "Exclude the cell"}
             </label>
           ))}
         </div>
-        {failed?.errors.decision && (
-          <p id="field-decision-error" className="text-sm font-semibold text-signal-700">
-            {failed.errors.decision}
+        {decisionError && (
+          <p id={fields.decision.errorId} className="text-sm font-semibold text-signal-700">
+            {decisionError}
           </p>
         )}
       </fieldset>
-      <TextAreaField
-        name="reason"
-        label="Reason"
-        hint="The assignable cause the lab confirmed, or the statistical justification."
-        error={failed?.errors.reason}
-        defaultValue={failed?.values.reason ?? ""}
-      />
+      <TextAreaField label="Reason" hint="The assignable cause the lab confirmed, or the statistical justification." {...fieldProps(fields.reason)} />
       <div aria-live="polite">
         {preview.state === "loading" && <p>Recomputing…</p>}
         {after && choice && (
@@ -487,7 +474,7 @@ function Decisions({ loaderData }: { loaderData: LoaderData }) {
           caption="Audit trail of cell decisions, newest first"
           headers={["When", "Who", "Cell", "Decision", "Reason"]}
           rows={history.map((h) => [
-            h.at.replace("T", " ").slice(0, 16),
+            formatDateTime(h.at),
             h.by,
             cellKey(h.after),
             h.before ? `${h.before.decision} → ${h.after.decision}` : h.after.decision,

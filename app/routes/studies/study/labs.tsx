@@ -1,21 +1,28 @@
+import { getFormProps } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, useNavigation } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/labs";
 import { DataTable } from "~/components/data-table";
-import { Badge, Button, Card, Notice, PageHeader, SelectField, TextAreaField } from "~/components/ui";
-import { type ActionResult, formState, handleForm, refused } from "~/lib/form-results";
-import { requireStudy } from "~/server/study-context.server";
+import { fieldProps, FormErrors, formWideErrors, refusalOf, useSchemaForm } from "~/components/forms";
+import { StateBadge } from "~/components/state-badge";
+import type { StudyPageHandle } from "~/components/study-frame";
+import { Button, Card, Notice, SelectField, TextAreaField } from "~/components/ui";
+import { formatDate } from "~/lib/format";
+import { ENROLLMENT_STATE } from "~/lib/state-labels";
+import { labsForms, labsSchema } from "~/lib/study-forms";
 import { RECOMMENDED_MIN_LABS } from "~/lib/study-lifecycle";
 import { mayWrite } from "~/lib/write-rules";
 import { ConfirmStep } from "~/components/confirm-dialog";
-import { withdrawalSchema } from "~/lib/study-forms";
-import { STATE_LABEL } from "~/lib/state-labels";
-import { useSchemaCheck } from "~/lib/use-schema-check";
-import { idField } from "~/lib/validation";
+import { studyPageMeta } from "~/lib/study-page-meta";
 import { inviteLab, listStudyEnrollments, withdrawEnrollment } from "~/models/invitation.server";
 import { listLabs } from "~/models/lab.server";
+import { refuse, withRefusals } from "~/server/form-reply.server";
+import { requireStudy } from "~/server/study-context.server";
+import { redirectWithToast } from "~/server/toast.server";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Labs ${data?.study.code ?? ""} · Ringbatch` }];
+export const handle = { pageTitle: "Labs" } satisfies StudyPageHandle;
+
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireStudy(context, ["coordinator", "admin"]);
@@ -23,7 +30,13 @@ export async function loader({ context }: Route.LoaderArgs) {
   const byLab = new Map(enrolled.map((e) => [e.labId, e]));
   const rows = directory.map((lab) => {
     const e = byLab.get(lab.id);
-    return { ...lab, enrollmentId: e?.id ?? null, enrollmentState: e?.state ?? null, labCode: e?.labCode ?? null, invitedAt: e?.invitedAt?.toISOString().slice(0, 10) ?? null };
+    return {
+      ...lab,
+      enrollmentId: e?.id ?? null,
+      enrollmentState: e?.state ?? null,
+      labCode: e?.labCode ?? null,
+      invitedAt: e?.invitedAt ? formatDate(e.invitedAt) : null,
+    };
   });
   return {
     study,
@@ -36,139 +49,128 @@ export async function loader({ context }: Route.LoaderArgs) {
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireStudy(context, ["coordinator"]);
-  const form = await request.formData();
-  const intent = String(form.get("intent") ?? "");
-  switch (intent) {
-    case "invite":
-      return handleForm(intent, z.object({ labId: idField }), form, async ({ labId }) => {
-        await inviteLab(study, labId, user.id, request);
-        return { done: "Invitation sent to the lab's contact." };
-      });
-    case "withdraw":
-      return handleForm(intent, withdrawalSchema, form, async ({ enrollmentId, reason }) => {
-        await withdrawEnrollment(study, enrollmentId, reason, user.id);
-        return { done: "The lab is withdrawn: it can no longer change results, and its results have left the analysis." };
-      });
-    default:
-      return refused(intent, { form: "Unknown action." });
-  }
+  const submission = parseWithZod(await request.formData(), { schema: labsSchema });
+  if (submission.status !== "success") return refuse(submission);
+  const form = submission.value;
+  const outcome = await withRefusals(submission, async () => {
+    if (form.intent === "invite") {
+      await inviteLab(study, form.labId, user.id, request);
+      return "Invitation sent to the lab's contact.";
+    }
+    await withdrawEnrollment(study, form.enrollmentId, form.reason, user.id);
+    return "The lab is withdrawn: it can no longer change results, and its results have left the analysis.";
+  });
+  if (!outcome.ok) return outcome.reply;
+  return redirectWithToast(`/studies/${study.id}/labs`, outcome.value);
 }
-
-const ENROLLMENT_VIEW = {
-  invited: { label: "Invited", tone: "ochre" },
-  accepted: { label: "Accepted", tone: "leaf" },
-  declined: { label: "Declined", tone: "signal" },
-  withdrawn: { label: "Withdrawn", tone: "neutral" },
-} as const;
 
 export default function StudyLabs({ loaderData, actionData }: Route.ComponentProps) {
   const { study, rows, accepted, canInvite, canWithdraw } = loaderData;
-  const reply = actionData as ActionResult | undefined;
-  const result = formState(reply, "invite");
-  const withdrawal = formState(reply, "withdraw");
-  const withdrawalCheck = useSchemaCheck(withdrawalSchema, withdrawal.errors);
+  const inviteRefusal = refusalOf(actionData, "invite");
   const withdrawable = rows
     .filter((l) => l.enrollmentState === "invited" || l.enrollmentState === "accepted")
     .map((l) => ({ value: String(l.enrollmentId), label: `${l.name}${l.labCode ? ` (${l.labCode})` : ""}` }));
   const busy = useNavigation().state === "submitting";
   return (
-    <>
-      <PageHeader title={`${study.code} — labs`} subtitle={<>{study.title} · <Badge>{STATE_LABEL[study.state]}</Badge></>} />
-      <div className="flex flex-col gap-4">
-        {(result.done ?? withdrawal.done) && <Notice tone="success">{result.done ?? withdrawal.done}</Notice>}
-        {result.errors.labId && <Notice tone="error">{result.errors.labId}</Notice>}
-        {!canInvite && study.state === "draft" && <Notice>Open recruiting on the setup page to invite labs.</Notice>}
-        <p>
-          {accepted} {accepted === 1 ? "lab has" : "labs have"} accepted.
-          {accepted < RECOMMENDED_MIN_LABS && ` A precision statement usually needs at least ${RECOMMENDED_MIN_LABS} labs.`}
-        </p>
-        <Card title="Lab directory">
-          <DataTable
-            caption="Labs of the directory and their enrollment in this study"
-            filterLabel="Filter labs"
-            data={rows}
-            columns={[
-              { id: "name", header: "Lab", value: (l) => l.name },
-              { id: "address", header: "Address", value: (l) => l.address || null },
-              {
-                id: "contact",
-                header: "Contact",
-                value: (l) => `${l.contactName} ${l.contactEmail}`.trim() || null,
-                cell: (l) => (
-                  <>
-                    {l.contactName || "—"}
-                    {l.contactEmail && <span className="block text-sm text-basalt-700">{l.contactEmail}</span>}
-                  </>
-                ),
-              },
-              { id: "accreditation", header: "Accreditation", value: (l) => l.accreditationNumber || null },
-              {
-                id: "state",
-                header: "Enrollment",
-                value: (l) => (l.enrollmentState ? ENROLLMENT_VIEW[l.enrollmentState].label : "Not invited"),
-                cell: (l) =>
-                  l.enrollmentState ? <Badge tone={ENROLLMENT_VIEW[l.enrollmentState].tone}>{ENROLLMENT_VIEW[l.enrollmentState].label}</Badge> : "Not invited",
-              },
-              { id: "code", header: "Lab code", value: (l) => l.labCode },
-              { id: "invited", header: "Invited on", value: (l) => l.invitedAt },
-              ...(canInvite
-                ? [
-                    {
-                      id: "invite",
-                      header: "Invitation",
-                      sortable: false,
-                      value: () => null,
-                      cell: (l: (typeof rows)[number]) =>
-                        l.enrollmentState === "accepted" ? null : (
-                          <Form method="post">
-                            <input type="hidden" name="intent" value="invite" />
-                            <input type="hidden" name="labId" value={l.id} />
-                            <Button type="submit" variant="secondary" disabled={busy || !l.contactEmail} aria-label={`${l.enrollmentState ? "Invite again" : "Invite"} ${l.name}`}>
-                              {l.enrollmentState ? "Invite again" : "Invite"}
-                            </Button>
-                          </Form>
-                        ),
-                    },
-                  ]
-                : []),
-            ]}
-          />
+    <div className="flex flex-col gap-4">
+      <FormErrors errors={inviteRefusal} />
+      {!canInvite && study.state === "draft" && <Notice>Open recruiting on the setup page to invite labs.</Notice>}
+      <p>
+        {accepted} {accepted === 1 ? "lab has" : "labs have"} accepted.
+        {accepted < RECOMMENDED_MIN_LABS && ` A precision statement usually needs at least ${RECOMMENDED_MIN_LABS} labs.`}
+      </p>
+      <Card title="Lab directory">
+        <DataTable
+          caption="Labs of the directory and their enrollment in this study"
+          filterLabel="Filter labs"
+          data={rows}
+          columns={[
+            { id: "name", header: "Lab", value: (l) => l.name },
+            { id: "address", header: "Address", value: (l) => l.address || null },
+            {
+              id: "contact",
+              header: "Contact",
+              value: (l) => `${l.contactName} ${l.contactEmail}`.trim() || null,
+              cell: (l) => (
+                <>
+                  {l.contactName || "—"}
+                  {l.contactEmail && <span className="block text-sm text-basalt-700">{l.contactEmail}</span>}
+                </>
+              ),
+            },
+            { id: "accreditation", header: "Accreditation", value: (l) => l.accreditationNumber || null },
+            {
+              id: "state",
+              header: "Enrollment",
+              value: (l) => (l.enrollmentState ? ENROLLMENT_STATE[l.enrollmentState].label : "Not invited"),
+              cell: (l) => (l.enrollmentState ? <StateBadge view={ENROLLMENT_STATE[l.enrollmentState]} /> : "Not invited"),
+            },
+            { id: "code", header: "Lab code", value: (l) => l.labCode },
+            { id: "invited", header: "Invited on", value: (l) => l.invitedAt },
+            ...(canInvite
+              ? [
+                  {
+                    id: "invite",
+                    header: "Invitation",
+                    sortable: false,
+                    value: () => null,
+                    cell: (l: (typeof rows)[number]) =>
+                      l.enrollmentState === "accepted" ? null : (
+                        <Form method="post">
+                          <input type="hidden" name="intent" value="invite" />
+                          <input type="hidden" name="labId" value={l.id} />
+                          <Button
+                            type="submit"
+                            variant="secondary"
+                            disabled={busy || !l.contactEmail}
+                            aria-label={`${l.enrollmentState ? "Invite again" : "Invite"} ${l.name}`}
+                          >
+                            {l.enrollmentState ? "Invite again" : "Invite"}
+                          </Button>
+                        </Form>
+                      ),
+                  },
+                ]
+              : []),
+          ]}
+        />
+      </Card>
+      {canWithdraw && withdrawable.length > 0 && (
+        <Card title="Withdraw a lab">
+          <p className="mb-4">
+            A withdrawn lab can no longer change its results, and its results leave the analysis; they stay on record with your reason. While the study is
+            recruiting, the lab can be invited again.
+          </p>
+          <WithdrawalForm labs={withdrawable} reply={actionData} busy={busy} />
         </Card>
-        {canWithdraw && withdrawable.length > 0 && (
-          <Card title="Withdraw a lab">
-            <p className="mb-4">
-              A withdrawn lab can no longer change its results, and its results leave the analysis; they stay on record with your reason. While the study
-              is recruiting, the lab can be invited again.
-            </p>
-            <Form method="post" className="grid gap-4 md:grid-cols-2" onSubmit={withdrawalCheck.onSubmit} noValidate>
-              <input type="hidden" name="intent" value="withdraw" />
-              <SelectField
-                label="Lab"
-                name="enrollmentId"
-                options={[{ value: "", label: "Choose a lab" }, ...withdrawable]}
-                defaultValue={withdrawal.values.enrollmentId ?? ""}
-                error={withdrawalCheck.errors.enrollmentId}
-              />
-              <TextAreaField label="Reason" name="reason" rows={2} defaultValue={withdrawal.values.reason} error={withdrawalCheck.errors.reason} />
-              <div>
-                <ConfirmStep
-                  label="Withdraw the lab"
-                  title="Withdraw the lab from the study?"
-                  consequences={
-                    <>
-                      <p>The lab can no longer enter or change results, and its pending invitation stops working.</p>
-                      <p>Its results are kept for the record but leave the analysis. This cannot be undone.</p>
-                    </>
-                  }
-                  confirmLabel="Withdraw the lab"
-                  variant="danger"
-                  disabled={busy}
-                />
-              </div>
-            </Form>
-          </Card>
-        )}
+      )}
+    </div>
+  );
+}
+
+function WithdrawalForm({ labs, reply, busy }: { labs: { value: string; label: string }[]; reply: unknown; busy: boolean }) {
+  const [form, fields] = useSchemaForm(labsForms.withdraw, { reply, intent: "withdraw" });
+  return (
+    <Form method="post" className="grid gap-4 md:grid-cols-2" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="withdraw" />
+      <FormErrors errors={formWideErrors(form)} />
+      <SelectField label="Lab" {...fieldProps(fields.enrollmentId)} options={[{ value: "", label: "Choose a lab" }, ...labs]} />
+      <TextAreaField label="Reason" rows={2} {...fieldProps(fields.reason)} />
+      <div>
+        <ConfirmStep
+          label="Withdraw the lab"
+          title="Withdraw the lab from the study?"
+          consequences={
+            <>
+              <p>The lab can no longer enter or change results, and its pending invitation stops working.</p>
+              <p>Its results are kept for the record but leave the analysis. This cannot be undone.</p>
+            </>
+          }
+          confirmLabel="Withdraw the lab"
+          variant="danger"
+          disabled={busy}
+        />
       </div>
-    </>
+    </Form>
   );
 }

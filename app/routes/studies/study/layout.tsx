@@ -1,3 +1,4 @@
+import { Link, redirect } from "react-router";
 import type { Route } from "./+types/layout";
 import { StudyFrame, type StudyTab } from "~/components/study-frame";
 import { requireStudy, studyAccessMiddleware } from "~/server/study-context.server";
@@ -7,7 +8,8 @@ export const middleware: Route.MiddlewareFunction[] = [studyAccessMiddleware(["c
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireStudy(context, ["coordinator", "admin", "reviewer"]);
-  return { study: { id: study.id, code: study.code, title: study.title, state: study.state }, access };
+  if (study.kind === "ruggedness") throw redirect(`/ruggedness/${study.id}`);
+  return { study: { id: study.id, code: study.code, title: study.title, state: study.state, kind: study.kind }, access };
 }
 
 const COORDINATOR_TABS: [path: string, label: string][] = [
@@ -27,5 +29,15 @@ export default function StudyLayout({ loaderData }: Route.ComponentProps) {
   const { study, access } = loaderData;
   const base = `/studies/${study.id}`;
   const tabs: StudyTab[] = (access === "reviewer" ? REVIEWER_TABS : COORDINATOR_TABS).map(([path, label]) => ({ to: base + path, label, end: path === "" }));
-  return <StudyFrame study={study} tabs={tabs} />;
+  // A proficiency round uses these pages for enrolment, shipments and results; its scoring has pages of its own.
+  const roundLink =
+    study.kind === "proficiency" ? (
+      <>
+        {" · "}
+        <Link to={`/rounds/${study.id}`} className="font-semibold text-basalt-700 underline">
+          proficiency round pages
+        </Link>
+      </>
+    ) : null;
+  return <StudyFrame study={study} tabs={tabs} detail={roundLink} />;
 }

@@ -1,13 +1,13 @@
+import { getFormProps } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
 import { useMemo, useState } from "react";
 import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/material";
-import { Button, Card, Field, Notice, PageHeader } from "~/components/ui";
+import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
+import type { StudyPageHandle } from "~/components/study-frame";
+import { Button, Card, Field, Notice } from "~/components/ui";
 import { CONSTITUENT_KINDS } from "~/db/values";
 import { checkMixtureDesign, kgPerM3ToLbPerYd3, M3_PER_FT3, M3_PER_YD3, type ConstituentKind } from "~/lib/batching";
-import { type ActionResult, formState, refused } from "~/lib/form-results";
-import { parseForm } from "~/lib/forms";
-import { notFound } from "~/server/guards.server";
-import { requireStudy } from "~/server/study-context.server";
 import {
   convertRows,
   type EditorRow,
@@ -18,13 +18,21 @@ import {
   parseDesignRows,
   rowsFromDesign,
   rowsFromForm,
+  rowsFromTyped,
   type UnitSystem,
 } from "~/lib/mixture-form";
-import { materialSchema } from "~/lib/study-forms";
+import { materialEditorSchema } from "~/lib/study-forms";
 import { mayWrite } from "~/lib/write-rules";
-import { loadMaterial, saveMaterial, SetupError } from "~/models/study-setup.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
+import { loadMaterial, saveMaterial } from "~/models/study-setup.server";
+import { refuse, withRefusals } from "~/server/form-reply.server";
+import { notFound } from "~/server/guards.server";
+import { requireStudy } from "~/server/study-context.server";
+import { redirectWithToast } from "~/server/toast.server";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Material ${data?.material.code ?? ""} · Ringbatch` }];
+export const handle = { pageTitle: "Material" } satisfies StudyPageHandle;
+
+export const meta: Route.MetaFunction = ({ data, matches }) => studyPageMeta(`Material ${data?.material.code ?? ""}`.trim(), matches);
 
 async function materialOf(studyId: number, param: string | undefined) {
   const id = Number(param);
@@ -42,18 +50,21 @@ export async function loader({ params, context }: Route.LoaderArgs) {
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { study, user } = requireStudy(context, ["coordinator"]);
   const { material } = await materialOf(study.id, params.materialId);
-  const form = await request.formData();
-  const units: UnitSystem = form.get("units") === "us" ? "us" : "si";
-  const header = parseForm(materialSchema, form);
-  const design = parseDesignRows(String(form.get("code") ?? material.code), rowsFromForm(form), units);
-  if (!header.ok || !design.ok) return refused("save", { ...(header.ok ? {} : header.errors), ...design.errors }, header.values);
-  try {
-    await saveMaterial(study, material, { ...header.data, constituents: design.design.constituents }, user.id);
-    return { intent: "save", done: "Mixture design saved." } satisfies ActionResult;
-  } catch (error) {
-    if (error instanceof SetupError) return refused("save", { [error.field]: error.message }, header.values);
-    throw error;
+  const formData = await request.formData();
+  const submission = parseWithZod(formData, { schema: materialEditorSchema });
+  const units: UnitSystem = formData.get("units") === "us" ? "us" : "si";
+  // The rows are checked by the same parse the editor runs as one types; their errors join the form's.
+  const design = parseDesignRows(String(formData.get("code") ?? material.code), rowsFromForm(formData), units);
+  if (submission.status !== "success" || !design.ok) {
+    const fieldErrors: Record<string, string[]> = {};
+    if (submission.status === "error") for (const [name, messages] of Object.entries(submission.error ?? {})) if (messages) fieldErrors[name] = messages;
+    for (const [name, message] of Object.entries(design.errors)) fieldErrors[name] = [message];
+    return refuse(submission, fieldErrors);
   }
+  const { units: _, ...header } = submission.value;
+  const saved = await withRefusals(submission, () => saveMaterial(study, material, { ...header, constituents: design.design.constituents }, user.id));
+  if (!saved.ok) return saved.reply;
+  return redirectWithToast(`/studies/${study.id}/materials/${material.id}`, "Mixture design saved.");
 }
 
 const NEW_ROW: EditorRow = { kind: "cement", name: "", lot: "" };
@@ -61,15 +72,21 @@ const fixed = (v: number | null, digits: number) => (v === null ? "—" : v.toFi
 
 export default function MaterialPage({ loaderData, actionData }: Route.ComponentProps) {
   const { study, material, constituents, canEdit } = loaderData;
-  const result = formState(actionData as ActionResult | undefined, "save");
-  const returned = Object.keys(result.values).length ? result.values : null;
+  const [form, fields] = useSchemaForm(materialEditorSchema, {
+    reply: actionData,
+    id: "mixture-design",
+    defaultValue: { code: material.code, description: material.description, units: "si" },
+  });
+  // After a refused save without scripts, the page starts from what was typed.
+  const returned = form.initialValue as Record<string, unknown> | undefined;
   const [units, setUnits] = useState<UnitSystem>(returned?.units === "us" ? "us" : "si");
-  const [rows, setRows] = useState<EditorRow[]>(() => (returned ? rowsFromForm(Object.entries(returned)) : rowsFromDesign(constituents, "si")));
+  const [rows, setRows] = useState<EditorRow[]>(() => (returned?.c ? rowsFromTyped(returned) : rowsFromDesign(constituents, "si")));
   const busy = useNavigation().state === "submitting";
   // The same parse the action runs: live errors and checks as the coordinator types.
   const live = useMemo(() => parseDesignRows(material.code, rows, units), [material.code, rows, units]);
   const check = live.ok ? checkMixtureDesign(live.design) : null;
-  const errors = { ...live.errors, ...result.errors };
+  const serverErrors = Object.fromEntries(Object.entries(form.allErrors).map(([name, messages]) => [name, messages[0]]));
+  const errors: Record<string, string | undefined> = { ...live.errors, ...serverErrors };
 
   const update = (index: number, patch: Partial<EditorRow>) => setRows((rs) => rs.map((r, i) => (i === index ? { ...r, ...patch } : r)));
   const switchUnits = (next: UnitSystem) => {
@@ -78,162 +95,151 @@ export default function MaterialPage({ loaderData, actionData }: Route.Component
   };
 
   return (
-    <>
-      <PageHeader
-        title={`${study.code} — material ${material.code}`}
-        subtitle={
-          <>
-            Mixture design per 1 m³ (or per 1 yd³ in US customary units), SSD basis.{" "}
-            <Link to={`/studies/${study.id}/setup`} className="font-semibold text-basalt-700 underline">
-              Back to setup
-            </Link>
-          </>
-        }
-      />
-      <div className="flex flex-col gap-6">
-        {result.done && <Notice tone="success">{result.done}</Notice>}
-        <Notice tone="caution">
-          Fresh concrete is caustic: wear gloves and eye protection and keep it off the skin. Batches are heavy: lift with help. Local codes,
-          specifications and licensed engineers govern the mixture; these checks support, not replace, their judgement.
-        </Notice>
-        <Form method="post" className="flex flex-col gap-6">
-          <Card title="Material">
-            <div className="grid gap-4 md:grid-cols-2">
-              <Field label="Material code" name="code" defaultValue={returned?.code ?? material.code} error={errors.code} disabled={!canEdit} />
-              <Field label="Description" name="description" defaultValue={returned?.description ?? material.description} error={errors.description} disabled={!canEdit} />
-            </div>
-          </Card>
-          <Card title="Constituents">
-            <fieldset className="mb-4 flex flex-wrap gap-4">
-              <legend className="mb-1 font-semibold text-basalt-800">Units</legend>
-              <input type="hidden" name="units" value={units} />
-              {(["si", "us"] as const).map((u) => (
-                <label key={u} className="flex items-center gap-2">
-                  <input type="radio" name="unitChoice" checked={units === u} onChange={() => switchUnits(u)} />
-                  {u === "si" ? "SI (kg/m³, mL/100 kg)" : "US customary (lb/yd³, fl oz/cwt)"}
-                </label>
-              ))}
-            </fieldset>
-            {errors.constituents && <Notice tone="error">{errors.constituents}</Notice>}
-            <ol className="flex flex-col gap-4">
-              {rows.map((row, i) => (
-                <li key={i} className="rounded-md border border-basalt-100 p-3">
-                  <fieldset className="grid gap-3 md:grid-cols-4">
-                    <legend className="font-semibold text-basalt-800">Row {i + 1}</legend>
-                    <div className="flex flex-col gap-1">
-                      <label htmlFor={`row-${i}-kind`} className="font-semibold text-basalt-800">
-                        Kind
-                      </label>
-                      <select
-                        id={`row-${i}-kind`}
-                        name={inputName(i, "kind")}
-                        value={row.kind}
-                        disabled={!canEdit}
-                        onChange={(e) => update(i, { kind: e.target.value as ConstituentKind })}
-                        className="min-h-11 rounded-md border border-basalt-200 bg-white px-3 py-2"
-                      >
-                        {CONSTITUENT_KINDS.map((k) => (
-                          <option key={k} value={k}>
-                            {KIND_LABEL[k]}
-                          </option>
-                        ))}
-                      </select>
-                    </div>
-                    <Field
-                      label="Name"
-                      id={`row-${i}-name`}
-                      name={inputName(i, "name")}
-                      value={row.name}
+    <div className="flex flex-col gap-6">
+      <p className="text-basalt-700">
+        Material {material.code}: mixture design per 1 m³ (or per 1 yd³ in US customary units), SSD basis.{" "}
+        <Link to={`/studies/${study.id}/setup`} className="font-semibold text-basalt-700 underline">
+          Back to setup
+        </Link>
+      </p>
+      <Notice tone="caution">
+        Fresh concrete is caustic: wear gloves and eye protection and keep it off the skin. Batches are heavy: lift with help. Local codes, specifications and
+        licensed engineers govern the mixture; these checks support, not replace, their judgement.
+      </Notice>
+      <Form method="post" className="flex flex-col gap-6" {...getFormProps(form)}>
+        <FormErrors errors={formWideErrors(form)} />
+        <Card title="Material">
+          <div className="grid gap-4 md:grid-cols-2">
+            <Field label="Material code" {...fieldProps(fields.code)} disabled={!canEdit} />
+            <Field label="Description" {...fieldProps(fields.description)} disabled={!canEdit} />
+          </div>
+        </Card>
+        <Card title="Constituents">
+          <fieldset className="mb-4 flex flex-wrap gap-4">
+            <legend className="mb-1 font-semibold text-basalt-800">Units</legend>
+            <input type="hidden" name="units" value={units} />
+            {(["si", "us"] as const).map((u) => (
+              <label key={u} className="flex items-center gap-2">
+                <input type="radio" name="unitChoice" checked={units === u} onChange={() => switchUnits(u)} />
+                {u === "si" ? "SI (kg/m³, mL/100 kg)" : "US customary (lb/yd³, fl oz/cwt)"}
+              </label>
+            ))}
+          </fieldset>
+          {errors.constituents && <Notice tone="error">{errors.constituents}</Notice>}
+          <ol className="flex flex-col gap-4">
+            {rows.map((row, i) => (
+              <li key={i} className="rounded-md border border-basalt-100 p-3">
+                <fieldset className="grid gap-3 md:grid-cols-4">
+                  <legend className="font-semibold text-basalt-800">Row {i + 1}</legend>
+                  <div className="flex flex-col gap-1">
+                    <label htmlFor={`row-${i}-kind`} className="font-semibold text-basalt-800">
+                      Kind
+                    </label>
+                    <select
+                      id={`row-${i}-kind`}
+                      name={inputName(i, "kind")}
+                      value={row.kind}
                       disabled={!canEdit}
-                      onChange={(e) => update(i, { name: e.target.value })}
-                      error={errors[inputName(i, "name")]}
-                    />
+                      onChange={(e) => update(i, { kind: e.target.value as ConstituentKind })}
+                      className="min-h-11 rounded-md border border-basalt-200 bg-white px-3 py-2"
+                    >
+                      {CONSTITUENT_KINDS.map((k) => (
+                        <option key={k} value={k}>
+                          {KIND_LABEL[k]}
+                        </option>
+                      ))}
+                    </select>
+                  </div>
+                  <Field
+                    label="Name"
+                    id={`row-${i}-name`}
+                    name={inputName(i, "name")}
+                    value={row.name}
+                    disabled={!canEdit}
+                    onChange={(e) => update(i, { name: e.target.value })}
+                    error={errors[inputName(i, "name")]}
+                  />
+                  <Field
+                    label="Lot"
+                    id={`row-${i}-lot`}
+                    name={inputName(i, "lot")}
+                    value={row.lot}
+                    disabled={!canEdit}
+                    onChange={(e) => update(i, { lot: e.target.value })}
+                    error={errors[inputName(i, "lot")]}
+                  />
+                  {FIELDS_BY_KIND[row.kind].map((field) => (
                     <Field
-                      label="Lot"
-                      id={`row-${i}-lot`}
-                      name={inputName(i, "lot")}
-                      value={row.lot}
+                      key={field}
+                      label={FIELD_UNITS[field].label[units]}
+                      id={`row-${i}-${field}`}
+                      name={inputName(i, field)}
+                      inputMode="decimal"
+                      value={row[field] ?? ""}
                       disabled={!canEdit}
-                      onChange={(e) => update(i, { lot: e.target.value })}
-                      error={errors[inputName(i, "lot")]}
+                      onChange={(e) => update(i, { [field]: e.target.value })}
+                      error={errors[inputName(i, field)]}
                     />
-                    {FIELDS_BY_KIND[row.kind].map((field) => (
-                      <Field
-                        key={field}
-                        label={FIELD_UNITS[field].label[units]}
-                        id={`row-${i}-${field}`}
-                        name={inputName(i, field)}
-                        inputMode="decimal"
-                        value={row[field] ?? ""}
-                        disabled={!canEdit}
-                        onChange={(e) => update(i, { [field]: e.target.value })}
-                        error={errors[inputName(i, field)]}
-                      />
-                    ))}
-                    {check && (
-                      <p className="self-end text-sm text-basalt-700">
-                        Absolute volume {check.absoluteVolume.rows[i]!.volumeM3.toFixed(4)} m³
-                      </p>
-                    )}
-                  </fieldset>
-                  {canEdit && (
-                    <Button type="button" variant="secondary" className="mt-2" onClick={() => setRows((rs) => rs.filter((_, j) => j !== i))}>
-                      Remove row {i + 1}
-                    </Button>
-                  )}
-                </li>
-              ))}
-            </ol>
-            {canEdit && (
-              <Button type="button" variant="secondary" className="mt-4" onClick={() => setRows((rs) => [...rs, NEW_ROW])}>
-                Add constituent
-              </Button>
-            )}
-          </Card>
-          <Card title="Checks">
-            {check ? (
-              <div aria-live="polite" className="flex flex-col gap-3">
-                <dl className="grid gap-3 md:grid-cols-4">
-                  <div>
-                    <dt className="font-semibold">Absolute volume</dt>
-                    <dd>
-                      {check.absoluteVolume.totalM3.toFixed(3)} m³ per m³ ({(check.absoluteVolume.totalM3 * (M3_PER_YD3 / M3_PER_FT3)).toFixed(2)} ft³ per yd³)
-                    </dd>
-                  </div>
-                  <div>
-                    <dt className="font-semibold">w/cm</dt>
-                    <dd>{fixed(check.waterCementitiousRatio, 3)}</dd>
-                  </div>
-                  <div>
-                    <dt className="font-semibold">SCM replacement</dt>
-                    <dd>{fixed(check.scmReplacementPercent, 1)} % of cementitious</dd>
-                  </div>
-                  <div>
-                    <dt className="font-semibold">Cementitious</dt>
-                    <dd>
-                      {check.totalCementitiousKgPerM3.toFixed(0)} kg/m³ ({kgPerM3ToLbPerYd3(check.totalCementitiousKgPerM3).toFixed(0)} lb/yd³)
-                    </dd>
-                  </div>
-                </dl>
-                {check.warnings.map((w) => (
-                  <Notice key={w.code} tone="caution">
-                    {w.message}
-                  </Notice>
-                ))}
-              </div>
-            ) : (
-              <p aria-live="polite">Correct the marked fields to see the absolute volume, w/cm and SCM replacement.</p>
-            )}
-          </Card>
+                  ))}
+                  {check && <p className="self-end text-sm text-basalt-700">Absolute volume {check.absoluteVolume.rows[i]!.volumeM3.toFixed(4)} m³</p>}
+                </fieldset>
+                {canEdit && (
+                  <Button type="button" variant="secondary" className="mt-2" onClick={() => setRows((rs) => rs.filter((_, j) => j !== i))}>
+                    Remove row {i + 1}
+                  </Button>
+                )}
+              </li>
+            ))}
+          </ol>
           {canEdit && (
-            <div>
-              <Button type="submit" disabled={busy}>
-                Save mixture design
-              </Button>
-            </div>
+            <Button type="button" variant="secondary" className="mt-4" onClick={() => setRows((rs) => [...rs, NEW_ROW])}>
+              Add constituent
+            </Button>
           )}
-        </Form>
-      </div>
-    </>
+        </Card>
+        <Card title="Checks">
+          {check ? (
+            <div aria-live="polite" className="flex flex-col gap-3">
+              <dl className="grid gap-3 md:grid-cols-4">
+                <div>
+                  <dt className="font-semibold">Absolute volume</dt>
+                  <dd>
+                    {check.absoluteVolume.totalM3.toFixed(3)} m³ per m³ ({(check.absoluteVolume.totalM3 * (M3_PER_YD3 / M3_PER_FT3)).toFixed(2)} ft³ per yd³)
+                  </dd>
+                </div>
+                <div>
+                  <dt className="font-semibold">w/cm</dt>
+                  <dd>{fixed(check.waterCementitiousRatio, 3)}</dd>
+                </div>
+                <div>
+                  <dt className="font-semibold">SCM replacement</dt>
+                  <dd>{fixed(check.scmReplacementPercent, 1)} % of cementitious</dd>
+                </div>
+                <div>
+                  <dt className="font-semibold">Cementitious</dt>
+                  <dd>
+                    {check.totalCementitiousKgPerM3.toFixed(0)} kg/m³ ({kgPerM3ToLbPerYd3(check.totalCementitiousKgPerM3).toFixed(0)} lb/yd³)
+                  </dd>
+                </div>
+              </dl>
+              {check.warnings.map((w) => (
+                <Notice key={w.code} tone="caution">
+                  {w.message}
+                </Notice>
+              ))}
+            </div>
+          ) : (
+            <p aria-live="polite">Correct the marked fields to see the absolute volume, w/cm and SCM replacement.</p>
+          )}
+        </Card>
+        {canEdit && (
+          <div>
+            <Button type="submit" disabled={busy}>
+              Save mixture design
+            </Button>
+          </div>
+        )}
+      </Form>
+    </div>
   );
 }

@@ -1,18 +1,30 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/results";
 import { CellStatusBadge } from "~/components/cell-status-badge";
-import { Badge, Card, PageHeader, SimpleTable } from "~/components/ui";
+import { StateBadge } from "~/components/state-badge";
+import type { StudyPageHandle } from "~/components/study-frame";
+import { Badge, Card, SimpleTable } from "~/components/ui";
+import { formatDateTime } from "~/lib/format";
+import { wholeNumberParam } from "~/lib/query-params";
+import { ENROLLMENT_STATE } from "~/lib/state-labels";
+import { studyPageMeta } from "~/lib/study-page-meta";
 import { requireStudy } from "~/server/study-context.server";
 import { studyBatchMarks } from "~/models/batch.server";
 import { studyAuditTrail, studyResults } from "~/models/results.server";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Results · ${data?.study.code ?? "Study"} · Ringbatch` }];
+export const handle = { pageTitle: "Results" } satisfies StudyPageHandle;
+
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ request, context }: Route.LoaderArgs) {
   const { study } = requireStudy(context, ["coordinator", "admin"]);
   const search = new URL(request.url).searchParams;
-  const pageParam = (name: string) => Math.max(1, Number(search.get(name)) || 1);
-  const [table, audit, marks] = await Promise.all([studyResults(study.id, pageParam("labs")), studyAuditTrail(study.id, pageParam("page")), studyBatchMarks(study.id)]);
+  const pageParam = (name: string) => wholeNumberParam(search, name) ?? 1;
+  const [table, audit, marks] = await Promise.all([
+    studyResults(study.id, pageParam("labs")),
+    studyAuditTrail(study.id, pageParam("page")),
+    studyBatchMarks(study.id),
+  ]);
   const marksByCell = new Map(marks.map((m) => [`${m.enrollmentId}:${m.materialId}`, m.readings]));
   const rows = table.rows.map((row) => ({ ...row, fresh: marksByCell.get(`${row.enrollmentId}:${row.materialId}`) ?? [] }));
   return {
@@ -38,8 +50,6 @@ const ACTION_LABEL: Record<string, string> = {
 /** A link to one page of the results table and one page of the audit trail. */
 const pageLink = (labs: number, page: number) => `?${new URLSearchParams({ labs: String(labs), page: String(page) })}`;
 
-const when = (date: Date | string | number) => `${new Date(date).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" })} UTC`;
-
 /** A short readable form of an audit event's before/after values. */
 function describeValues(value: unknown): string {
   if (value === null || value === undefined) return "—";
@@ -59,97 +69,109 @@ function describeValues(value: unknown): string {
 }
 
 export default function StudyResults({ loaderData }: Route.ComponentProps) {
-  const { study, responses, rows, labsPage, labsPageCount, audit } = loaderData;
+  const { responses, rows, labsPage, labsPageCount, audit } = loaderData;
   const amendmentRows = rows.flatMap((r) => r.amendments.map((a) => ({ ...a, labCode: r.labCode, materialCode: r.materialCode })));
   return (
-    <>
-      <PageHeader title={`Results — ${study.code}`} subtitle={study.title} />
-      <div className="grid gap-6 [&>*]:min-w-0">
-        <Card title="Results by lab and material">
-          <SimpleTable
-            caption="Replicate results by lab, material and response, with cell status"
-            headers={["Lab code", "Lab", "Material", ...responses.map((r) => r.name), "Fresh properties"]}
-            rows={rows.map((row) => [
-              row.labCode ?? "—",
-              row.withdrawn ? (
-                <span key="lab" className="flex flex-wrap items-center gap-2">
-                  {row.labName} <Badge>Withdrawn</Badge>
-                </span>
-              ) : (
-                row.labName
-              ),
-              row.materialCode,
-              ...row.cells.map((cell) => (
-                <span key={cell.responseKey} className="flex flex-wrap items-center gap-2">
-                  <CellStatusBadge status={cell.status} />
-                  <span>{cell.values.map((v) => v.value).join(", ") || "—"}</span>
-                </span>
-              )),
-              row.fresh.length === 0 ? (
-                "—"
-              ) : (
-                <ul key="fresh" className="text-sm">
-                  {row.fresh.map((f) => (
-                    <li key={f.property}>
-                      {f.label} {f.value} {f.unit} {f.outside && <Badge tone="signal">Outside tolerance</Badge>}
-                    </li>
-                  ))}
-                </ul>
-              ),
-            ])}
-          />
-          {labsPageCount > 1 && (
-            <nav aria-label="Results pages" className="mt-3 flex gap-4">
-              <span>
-                Labs page {labsPage} of {labsPageCount}
+    <div className="grid gap-6 [&>*]:min-w-0">
+      <Card title="Results by lab and material">
+        <SimpleTable
+          caption="Replicate results by lab, material and response, with cell status"
+          headers={["Lab code", "Lab", "Material", ...responses.map((r) => r.name), "Fresh properties"]}
+          rows={rows.map((row) => [
+            row.labCode ?? "—",
+            row.withdrawn ? (
+              <span key="lab" className="flex flex-wrap items-center gap-2">
+                {row.labName} <StateBadge view={ENROLLMENT_STATE.withdrawn} />
               </span>
-              {labsPage > 1 && (
-                <Link to={pageLink(labsPage - 1, audit.page)} className="font-semibold text-basalt-700 underline">
-                  Previous labs
-                </Link>
-              )}
-              {labsPage < labsPageCount && (
-                <Link to={pageLink(labsPage + 1, audit.page)} className="font-semibold text-basalt-700 underline">
-                  Next labs
-                </Link>
-              )}
-            </nav>
-          )}
-        </Card>
-        <Card title="Amendments">
-          {amendmentRows.length === 0 ? (
-            <p>No submitted result has been amended.</p>
-          ) : (
-            <SimpleTable
-              caption="Amendments of submitted results"
-              headers={["When", "Lab code", "Cell", "Old → new", "Reason", "By"]}
-              rows={amendmentRows.map((a) => [when(a.createdAt), a.labCode ?? "—", `${a.materialCode} ${a.responseKey} #${a.replicate}`, `${a.oldValue ?? "—"} → ${a.newValue}`, a.reason, a.byName])}
-            />
-          )}
-        </Card>
-        <Card title="Audit trail">
-          <p className="mb-2 text-basalt-700">
-            Every submission, amendment, import and answer, newest first. {audit.total} {audit.total === 1 ? "event" : "events"}; page {audit.page} of {audit.pageCount}.
-          </p>
-          <SimpleTable
-            caption="Audit trail of the study"
-            headers={["When", "Who", "What", "Before", "After", "Reason"]}
-            rows={audit.events.map((e) => [when(e.createdAt), e.actorName ?? "—", ACTION_LABEL[e.action] ?? e.action, describeValues(e.before), describeValues(e.after), e.reason ?? "—"])}
-          />
-          <nav aria-label="Audit trail pages" className="mt-3 flex gap-4">
-            {audit.page > 1 && (
-              <Link to={pageLink(labsPage, audit.page - 1)} className="font-semibold text-basalt-700 underline">
-                Newer events
+            ) : (
+              row.labName
+            ),
+            row.materialCode,
+            ...row.cells.map((cell) => (
+              <span key={cell.responseKey} className="flex flex-wrap items-center gap-2">
+                <CellStatusBadge status={cell.status} />
+                <span>{cell.values.map((v) => v.value).join(", ") || "—"}</span>
+              </span>
+            )),
+            row.fresh.length === 0 ? (
+              "—"
+            ) : (
+              <ul key="fresh" className="text-sm">
+                {row.fresh.map((f) => (
+                  <li key={f.property}>
+                    {f.label} {f.value} {f.unit} {f.outside && <Badge tone="signal">Outside tolerance</Badge>}
+                  </li>
+                ))}
+              </ul>
+            ),
+          ])}
+        />
+        {labsPageCount > 1 && (
+          <nav aria-label="Results pages" className="mt-3 flex gap-4">
+            <span>
+              Labs page {labsPage} of {labsPageCount}
+            </span>
+            {labsPage > 1 && (
+              <Link to={pageLink(labsPage - 1, audit.page)} className="font-semibold text-basalt-700 underline">
+                Previous labs
               </Link>
             )}
-            {audit.page < audit.pageCount && (
-              <Link to={pageLink(labsPage, audit.page + 1)} className="font-semibold text-basalt-700 underline">
-                Older events
+            {labsPage < labsPageCount && (
+              <Link to={pageLink(labsPage + 1, audit.page)} className="font-semibold text-basalt-700 underline">
+                Next labs
               </Link>
             )}
           </nav>
-        </Card>
-      </div>
-    </>
+        )}
+      </Card>
+      <Card title="Amendments">
+        {amendmentRows.length === 0 ? (
+          <p>No submitted result has been amended.</p>
+        ) : (
+          <SimpleTable
+            caption="Amendments of submitted results"
+            headers={["When", "Lab code", "Cell", "Old → new", "Reason", "By"]}
+            rows={amendmentRows.map((a) => [
+              formatDateTime(a.createdAt),
+              a.labCode ?? "—",
+              `${a.materialCode} ${a.responseKey} #${a.replicate}`,
+              `${a.oldValue ?? "—"} → ${a.newValue}`,
+              a.reason,
+              a.byName,
+            ])}
+          />
+        )}
+      </Card>
+      <Card title="Audit trail">
+        <p className="mb-2 text-basalt-700">
+          Every submission, amendment, import and answer, newest first. {audit.total} {audit.total === 1 ? "event" : "events"}; page {audit.page} of{" "}
+          {audit.pageCount}.
+        </p>
+        <SimpleTable
+          caption="Audit trail of the study"
+          headers={["When", "Who", "What", "Before", "After", "Reason"]}
+          rows={audit.events.map((e) => [
+            formatDateTime(e.createdAt),
+            e.actorName ?? "—",
+            ACTION_LABEL[e.action] ?? e.action,
+            describeValues(e.before),
+            describeValues(e.after),
+            e.reason ?? "—",
+          ])}
+        />
+        <nav aria-label="Audit trail pages" className="mt-3 flex gap-4">
+          {audit.page > 1 && (
+            <Link to={pageLink(labsPage, audit.page - 1)} className="font-semibold text-basalt-700 underline">
+              Newer events
+            </Link>
+          )}
+          {audit.page < audit.pageCount && (
+            <Link to={pageLink(labsPage, audit.page + 1)} className="font-semibold text-basalt-700 underline">
+              Older events
+            </Link>
+          )}
+        </nav>
+      </Card>
+    </div>
   );
 }

@@ -1,23 +1,23 @@
-import { Form, Link, redirect, useNavigation } from "react-router";
-import { z } from "zod";
+import { getFormProps } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
+import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/setup";
+import { ConfirmStep } from "~/components/confirm-dialog";
 import { DataTable } from "~/components/data-table";
+import { fieldProps, FormErrors, formWideErrors, refusalOf, useSchemaForm } from "~/components/forms";
+import { StateBadge } from "~/components/state-badge";
+import type { StudyPageHandle } from "~/components/study-frame";
 import { StudyFields } from "~/components/study-fields";
-import { Badge, Button, Card, Field, Notice, PageHeader, SelectField } from "~/components/ui";
+import { Badge, Button, Card, Field, Notice, SelectField } from "~/components/ui";
 import type { StudyState } from "~/db/schema";
 import { mmToIn } from "~/lib/batching";
-import { type ActionResult, FieldRefusal, formState, handleForm, refused } from "~/lib/form-results";
-import { notFound } from "~/server/guards.server";
-import { requireStudy } from "~/server/study-context.server";
-import { freshTargetsSchema, materialSchema, personSchema, responseSchema, studyFields, transitionSchema } from "~/lib/study-forms";
-import { useSchemaCheck } from "~/lib/use-schema-check";
+import { FieldRefusal } from "~/lib/field-refusal";
+import { formatDate } from "~/lib/format";
+import { STATE_LABEL, STUDY_STATE } from "~/lib/state-labels";
+import { PROTOCOL_MAX_BYTES, protocolSchema, setupForms, setupSchema } from "~/lib/study-forms";
 import { allowedNextStates, MOVE_CONSEQUENCES } from "~/lib/study-lifecycle";
-import { ConfirmStep } from "~/components/confirm-dialog";
 import { mayWrite, writeRefusal } from "~/lib/write-rules";
-import { STATE_LABEL } from "~/lib/state-labels";
-import { readUploadForm } from "~/server/upload-form.server";
-import { PDF_TYPES, storeUpload, UploadError } from "~/server/uploads.server";
-import { idField } from "~/lib/validation";
+import { studyPageMeta } from "~/lib/study-page-meta";
 import { previewTransition, transitionStudy } from "~/models/study-lifecycle.server";
 import {
   addMaterial,
@@ -31,10 +31,19 @@ import {
   setProtocol,
   updateStudy,
 } from "~/models/study-setup.server";
+import { refuse, withRefusals } from "~/server/form-reply.server";
+import { notFound } from "~/server/guards.server";
+import { requireStudy } from "~/server/study-context.server";
+import { redirectWithToast } from "~/server/toast.server";
+import { readUploadForm } from "~/server/upload-form.server";
+import { PDF_TYPES, storeUpload, UploadError } from "~/server/uploads.server";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Setup ${data?.study.code ?? ""} · Ringbatch` }];
+export const handle = { pageTitle: "Setup" } satisfies StudyPageHandle;
 
-const PROTOCOL_MAX_BYTES = 10 * 1024 * 1024;
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
+
+/** Only the study's owner changes who coordinates and reviews it. */
+const OWNER_ONLY = new Set(["coordinator-add", "reviewer-add", "coordinator-remove", "reviewer-remove"]);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, user, access } = requireStudy(context, ["coordinator", "admin", "reviewer"]);
@@ -45,89 +54,91 @@ export async function loader({ context }: Route.LoaderArgs) {
   return { study, setup, moves: access === "coordinator" ? moves : [], canEdit: access === "coordinator", isOwner: study.ownerId === user.id };
 }
 
-const idForm = z.object({ id: idField });
+/** A refused protocol upload, in the same shape as a refused form, beside the file field. */
+function refuseProtocol(message: string) {
+  return data({ result: { status: "error" as const, initialValue: { intent: "protocol" }, error: { protocol: [message] } } }, { status: 400 });
+}
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireStudy(context, ["coordinator"]);
+  const setupPage = `/studies/${study.id}/setup`;
   if (request.headers.get("Content-Type")?.startsWith("multipart/form-data")) {
     // Refused before the file is stored, so a late upload leaves nothing behind.
     const closed = writeRefusal("protocol", study.state);
-    if (closed) return refused("protocol", { protocol: closed });
+    if (closed) return refuseProtocol(closed);
     const upload = await readUploadForm(request, "protocol", PROTOCOL_MAX_BYTES);
-    if (upload.tooLarge) return refused("protocol", { protocol: "The file is larger than 10 MB." });
-    if (!upload.file) return refused("protocol", { protocol: "Choose a PDF file to upload." });
+    if (upload.tooLarge) return refuseProtocol("The file is larger than 10 MB.");
+    if (!upload.file) return refuseProtocol("Choose a PDF file to upload.");
     try {
       const attachment = await storeUpload(upload.file, { allowed: PDF_TYPES, maxBytes: PROTOCOL_MAX_BYTES, uploadedBy: user.id });
       await setProtocol(study, attachment.id, user.id);
-      return { intent: "protocol", done: `Protocol ${attachment.originalName} attached.` } satisfies ActionResult;
+      return redirectWithToast(setupPage, `Protocol ${attachment.originalName} attached.`);
     } catch (error) {
-      if (error instanceof UploadError) return refused("protocol", { protocol: error.message });
+      if (error instanceof UploadError) return refuseProtocol(error.message);
       throw error;
     }
   }
-  const form = await request.formData();
-  const intent = String(form.get("intent") ?? "");
-  const ownerOnly = () => {
-    if (study.ownerId !== user.id) notFound();
+  const submission = parseWithZod(await request.formData(), { schema: setupSchema });
+  if (submission.status !== "success") return refuse(submission);
+  const form = submission.value;
+  if (OWNER_ONLY.has(form.intent) && study.ownerId !== user.id) notFound();
+  const transitionFromSetup = async (to: StudyState) => {
+    const check = await transitionStudy(study, to, user.id);
+    if (!check.allowed) throw new TransitionRefusal(check.problems.join(" "));
+    const message = [`The study is now: ${STATE_LABEL[to]}.`, ...check.warnings].join(" ");
+    return { message, tone: check.warnings.length > 0 ? ("info" as const) : ("success" as const) };
   };
-  switch (intent) {
-    case "study":
-      return handleForm(intent, studyFields, form, async (input) => {
+  // Each change either confirms with a message or is refused beside its field.
+  const change = async (): Promise<{ message: string; to?: string; tone?: "success" | "info" }> => {
+    switch (form.intent) {
+      case "study": {
+        const { intent: _, ...input } = form;
         await updateStudy(study, input, user.id);
-        return { done: "Study details saved." };
-      });
-    case "response-add":
-      return handleForm(intent, responseSchema, form, async (input) => {
+        return { message: "Study details saved." };
+      }
+      case "response-add": {
+        const { intent: _, ...input } = form;
         await addResponse(study, input, user.id);
-        return { done: `Response ${input.name} added.` };
-      });
-    case "response-remove":
-      return handleForm(intent, idForm, form, async ({ id }) => {
-        await removeResponse(study, id, user.id);
-        return { done: "Response removed." };
-      });
-    case "targets":
-      return handleForm(intent, freshTargetsSchema, form, async (input) => {
+        return { message: `Response ${input.name} added.` };
+      }
+      case "response-remove":
+        await removeResponse(study, form.id, user.id);
+        return { message: "Response removed." };
+      case "targets": {
+        const { intent: _, ...input } = form;
         await setFreshTargets(study, input, user.id);
-        return { done: "Fresh-property targets saved." };
-      });
-    case "coordinator-add":
-    case "reviewer-add":
-      ownerOnly();
-      return handleForm(intent, personSchema, form, async ({ email }) => {
-        await addPerson(study, intent === "coordinator-add" ? "coordinator" : "reviewer", email, user.id);
-        return { done: `${email} added.` };
-      });
-    case "coordinator-remove":
-    case "reviewer-remove":
-      ownerOnly();
-      return handleForm(intent, idForm, form, async ({ id }) => {
-        await removePerson(study, intent === "coordinator-remove" ? "coordinator" : "reviewer", id, user.id);
-        return { done: "Removed." };
-      });
-    case "material-add":
-      return handleForm(intent, materialSchema, form, async (input) => {
+        return { message: "Fresh-property targets saved." };
+      }
+      case "coordinator-add":
+      case "reviewer-add":
+        await addPerson(study, form.intent === "coordinator-add" ? "coordinator" : "reviewer", form.email, user.id);
+        return { message: `${form.email} added.` };
+      case "coordinator-remove":
+      case "reviewer-remove":
+        await removePerson(study, form.intent === "coordinator-remove" ? "coordinator" : "reviewer", form.id, user.id);
+        return { message: "Removed." };
+      case "material-add": {
+        const { intent: _, ...input } = form;
         const material = await addMaterial(study, input, user.id);
-        return redirect(`/studies/${study.id}/materials/${material.id}`);
-      });
-    case "material-remove":
-      return handleForm(intent, idForm, form, async ({ id }) => {
-        await removeMaterial(study, id, user.id);
-        return { done: "Material removed." };
-      });
-    case "transition":
-      return handleForm(intent, transitionSchema, form, async ({ to }) => {
-        const check = await transitionStudy(study, to, user.id);
-        if (!check.allowed) throw new FieldRefusal("to", check.problems.join(" "));
-        return { done: `The study is now: ${STATE_LABEL[to]}.`, warnings: check.warnings };
-      });
-    default:
-      return refused(intent, { form: "Unknown action." });
-  }
+        return { message: `Material ${material.code} added: enter its mixture design.`, to: `/studies/${study.id}/materials/${material.id}` };
+      }
+      case "material-remove":
+        await removeMaterial(study, form.id, user.id);
+        return { message: "Material removed." };
+      case "transition":
+        return transitionFromSetup(form.to);
+    }
+  };
+  const outcome = await withRefusals(submission, change);
+  if (!outcome.ok) return outcome.reply;
+  return redirectWithToast(outcome.value.to ?? setupPage, outcome.value.message, outcome.value.tone);
 }
 
-function resultOf(actionData: unknown, intent: string) {
-  return formState(actionData as ActionResult | undefined, intent);
+/** A move the study's state does not allow, shown beside the state buttons. */
+class TransitionRefusal extends FieldRefusal {
+  constructor(message: string) {
+    super("to", message);
+  }
 }
 
 const MOVE_LABEL: Partial<Record<StudyState, string>> = {
@@ -142,285 +153,318 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
   const { study, setup, moves, canEdit, isOwner } = loaderData;
   const busy = useNavigation().state === "submitting";
   const editable = canEdit && mayWrite("design", study.state);
-  const transition = resultOf(actionData, "transition");
-  const details = resultOf(actionData, "study");
-  const responseAdd = resultOf(actionData, "response-add");
-  // The same schemas as the action, checked in the browser before posting.
-  const detailsCheck = useSchemaCheck(studyFields, details.errors);
-  const responseCheck = useSchemaCheck(responseSchema, responseAdd.errors);
-  const targets = resultOf(actionData, "targets");
-  const protocol = resultOf(actionData, "protocol");
-  const materialAdd = resultOf(actionData, "material-add");
+  const designFixed = canEdit && !editable ? writeRefusal("design", study.state) : null;
   const slump = setup.targets.find((t) => t.property === "slump");
   const air = setup.targets.find((t) => t.property === "air_content");
-  const done = (actionData as ActionResult | undefined)?.done;
-  const errorsOf = (intent: string) => resultOf(actionData, intent).errors;
-  const studyValues = Object.keys(details.values).length
-    ? details.values
-    : {
-        ...Object.fromEntries(Object.entries(study).map(([k, v]) => [k, v == null ? "" : String(v)])),
-      };
+  const transitionRefusal = refusalOf(actionData, "transition");
   return (
-    <>
-      <PageHeader title={`${study.code} — setup`} subtitle={<>{study.title} · <Badge>{STATE_LABEL[study.state]}</Badge></>} />
-      <div className="flex flex-col gap-6">
-        {done && <Notice tone="success">{done}</Notice>}
-        {transition.warnings?.map((w) => (
-          <Notice key={w} tone="caution">
-            {w}
-          </Notice>
-        ))}
+    <div className="flex flex-col gap-6">
+      <p className="text-basalt-700">
+        The study's details, responses, fresh-property targets, protocol, people and materials. Replicates, responses, materials and the protocol are fixed
+        once testing starts.
+      </p>
+      {moves.length > 0 && (
+        <Card title="Study state">
+          <p className="mb-3">
+            Now: <StateBadge view={STUDY_STATE[study.state]} />. Results can be entered only while the study is testing; replicates, responses, materials and
+            the protocol are fixed once testing starts. Sending to the committee and publishing happen on the statement page.
+          </p>
+          {transitionRefusal.length > 0 && <Notice tone="error">{transitionRefusal.join(" ")}</Notice>}
+          <div className="mt-3 flex flex-wrap gap-4">
+            {moves.map((move) => (
+              <Form key={move.to} method="post" className="flex max-w-sm flex-col gap-1">
+                <input type="hidden" name="intent" value="transition" />
+                <input type="hidden" name="to" value={move.to} />
+                <ConfirmStep
+                  label={MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}
+                  title={`${MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}?`}
+                  consequences={
+                    <>
+                      <p>{MOVE_CONSEQUENCES[move.to]}</p>
+                      {move.warnings.map((w) => (
+                        <p key={w}>{w}</p>
+                      ))}
+                      <p>This cannot be undone from this page.</p>
+                    </>
+                  }
+                  confirmLabel={MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}
+                  variant={move.to === "cancelled" ? "danger" : "primary"}
+                  disabled={busy || !move.allowed}
+                />
+                {[...move.problems, ...move.warnings].map((p) => (
+                  <p key={p} className="text-sm text-basalt-700">
+                    {p}
+                  </p>
+                ))}
+              </Form>
+            ))}
+          </div>
+        </Card>
+      )}
 
-        {moves.length > 0 && (
-          <Card title="Study state">
-            <p className="mb-3">
-              Now: <Badge>{STATE_LABEL[study.state]}</Badge>. Results can be entered only while the study is testing; replicates, responses, materials
-              and the protocol are fixed once testing starts. Sending to the committee and publishing happen on the statement page.
-            </p>
-            {transition.errors.to && <Notice tone="error">{transition.errors.to}</Notice>}
-            <div className="mt-3 flex flex-wrap gap-4">
-              {moves.map((move) => (
-                <Form key={move.to} method="post" className="flex max-w-sm flex-col gap-1">
-                  <input type="hidden" name="intent" value="transition" />
-                  <input type="hidden" name="to" value={move.to} />
-                  <ConfirmStep
-                    label={MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}
-                    title={`${MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}?`}
-                    consequences={
-                      <>
-                        <p>{MOVE_CONSEQUENCES[move.to]}</p>
-                        {move.warnings.map((w) => (
-                          <p key={w}>{w}</p>
-                        ))}
-                        <p>This cannot be undone from this page.</p>
-                      </>
-                    }
-                    confirmLabel={MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}
-                    variant={move.to === "cancelled" ? "danger" : "primary"}
-                    disabled={busy || !move.allowed}
-                  />
-                  {[...move.problems, ...move.warnings].map((p) => (
-                    <p key={p} className="text-sm text-basalt-700">
-                      {p}
-                    </p>
-                  ))}
-                </Form>
-              ))}
+      <Card title="Study details">
+        {canEdit && writeRefusal("details", study.state) && <p className="mb-3 text-basalt-700">{writeRefusal("details", study.state)}</p>}
+        {canEdit && mayWrite("details", study.state) ? (
+          <DetailsForm study={study} reply={actionData} busy={busy} />
+        ) : (
+          <dl className="grid gap-2 md:grid-cols-2">
+            <div>
+              <dt className="font-semibold">Test method</dt>
+              <dd>{study.testMethod}</dd>
             </div>
-          </Card>
+            <div>
+              <dt className="font-semibold">Replicates per cell</dt>
+              <dd>{study.replicatesPerCell}</dd>
+            </div>
+            <div>
+              <dt className="font-semibold">Results due</dt>
+              <dd>{formatDate(study.resultsDue)}</dd>
+            </div>
+            <div>
+              <dt className="font-semibold">Notes</dt>
+              <dd>{study.notes || "—"}</dd>
+            </div>
+          </dl>
         )}
+      </Card>
 
-        <Card title="Study details">
-          {canEdit && writeRefusal("details", study.state) && <p className="mb-3 text-basalt-700">{writeRefusal("details", study.state)}</p>}
-          {canEdit && mayWrite("details", study.state) ? (
-            <Form method="post" className="flex flex-col gap-4" onSubmit={detailsCheck.onSubmit} noValidate>
-              <input type="hidden" name="intent" value="study" />
-              <StudyFields
-                values={studyValues}
-                errors={detailsCheck.errors}
-                fixed={{ replicatesPerCell: writeRefusal("design", study.state) ?? undefined, significanceLevel: writeRefusal("analysisSettings", study.state) ?? undefined }}
-              />
-              <div>
-                <Button type="submit" disabled={busy}>
-                  Save details
-                </Button>
-              </div>
-            </Form>
-          ) : (
-            <dl className="grid gap-2 md:grid-cols-2">
-              <div><dt className="font-semibold">Test method</dt><dd>{study.testMethod}</dd></div>
-              <div><dt className="font-semibold">Replicates per cell</dt><dd>{study.replicatesPerCell}</dd></div>
-              <div><dt className="font-semibold">Results due</dt><dd>{study.resultsDue ?? "—"}</dd></div>
-              <div><dt className="font-semibold">Notes</dt><dd>{study.notes || "—"}</dd></div>
-            </dl>
-          )}
-        </Card>
+      <Card title="Responses">
+        <DataTable
+          caption="Responses of the test method"
+          filterLabel="Filter responses"
+          empty="No responses yet."
+          data={setup.responses}
+          columns={[
+            { id: "key", header: "Key", value: (r) => r.key },
+            { id: "name", header: "Name", value: (r) => r.name },
+            { id: "unit", header: "Unit", value: (r) => r.unit || null },
+            { id: "kind", header: "Kind", value: (r) => r.kind },
+            { id: "decimals", header: "Decimals", value: (r) => r.decimals },
+            {
+              id: "range",
+              header: "Plausible range",
+              value: (r) => ((r.plausibleMin ?? r.plausibleMax) == null ? null : `${r.plausibleMin ?? "…"} to ${r.plausibleMax ?? "…"}`),
+            },
+            ...(editable ? [removeColumn<(typeof setup.responses)[number]>("response-remove", (r) => `Remove response ${r.name}`, busy)] : []),
+          ]}
+        />
+        <FormErrors errors={refusalOf(actionData, "response-remove")} />
+        {designFixed && <p className="mt-3 text-basalt-700">{designFixed}</p>}
+        {editable && <ResponseForm reply={actionData} busy={busy} />}
+      </Card>
 
-        <Card title="Responses">
-          <DataTable
-            caption="Responses of the test method"
-            filterLabel="Filter responses"
-            empty="No responses yet."
-            data={setup.responses}
-            columns={[
-              { id: "key", header: "Key", value: (r) => r.key },
-              { id: "name", header: "Name", value: (r) => r.name },
-              { id: "unit", header: "Unit", value: (r) => r.unit || null },
-              { id: "kind", header: "Kind", value: (r) => r.kind },
-              { id: "decimals", header: "Decimals", value: (r) => r.decimals },
-              {
-                id: "range",
-                header: "Plausible range",
-                value: (r) => (r.plausibleMin ?? r.plausibleMax) == null ? null : `${r.plausibleMin ?? "…"} to ${r.plausibleMax ?? "…"}`,
-              },
-              ...(editable
-                ? [removeColumn<(typeof setup.responses)[number]>("response-remove", (r) => `Remove response ${r.name}`, busy)]
-                : []),
-            ]}
-          />
-          {errorsOf("response-remove").form && <Notice tone="error">{errorsOf("response-remove").form}</Notice>}
-          {canEdit && !editable && <p className="mt-3 text-basalt-700">{writeRefusal("design", study.state)}</p>}
-          {editable && (
-            <Form method="post" className="mt-4 grid gap-4 border-t border-basalt-100 pt-4 md:grid-cols-3" onSubmit={responseCheck.onSubmit} noValidate>
-              <input type="hidden" name="intent" value="response-add" />
-              <Field label="Key" name="key" defaultValue={responseAdd.values.key} error={responseCheck.errors.key} hint="e.g. holes" />
-              <Field label="Response name" name="name" defaultValue={responseAdd.values.name} error={responseCheck.errors.name} />
-              <Field label="Unit" name="unit" defaultValue={responseAdd.values.unit} error={responseCheck.errors.unit} />
-              <SelectField
-                label="Kind"
-                name="kind"
-                defaultValue={responseAdd.values.kind ?? "count"}
-                error={responseCheck.errors.kind}
-                options={[
-                  { value: "count", label: "Count" },
-                  { value: "continuous", label: "Continuous" },
-                ]}
-              />
-              <Field label="Decimals" name="decimals" inputMode="numeric" defaultValue={responseAdd.values.decimals ?? "0"} error={responseCheck.errors.decimals} />
-              <Field label="Lowest plausible value" name="plausibleMin" inputMode="decimal" defaultValue={responseAdd.values.plausibleMin} error={responseCheck.errors.plausibleMin} />
-              <Field label="Highest plausible value" name="plausibleMax" inputMode="decimal" defaultValue={responseAdd.values.plausibleMax} error={responseCheck.errors.plausibleMax} />
-              <div className="self-end">
-                <Button type="submit" disabled={busy}>
-                  Add response
-                </Button>
-              </div>
-            </Form>
-          )}
-        </Card>
-
-        <Card title="Fresh-property targets">
-          <p className="mb-3">
-            Slump: {slump ? `${slump.target} ± ${slump.tolerance} mm (${round(mmToIn(slump.target), 2)} ± ${round(mmToIn(slump.tolerance), 2)} in)` : "no target"}. Air
-            content: {air ? `${air.target} ± ${air.tolerance} %` : "no target"}.
-          </p>
-          {canEdit && !editable && <p className="mt-3 text-basalt-700">{writeRefusal("design", study.state)}</p>}
-          {editable && (
-            <Form method="post" className="grid gap-4 md:grid-cols-3">
-              <input type="hidden" name="intent" value="targets" />
-              <Field label="Slump target" name="slumpTarget" inputMode="decimal" defaultValue={targets.values.slumpTarget ?? (slump ? String(slump.target) : "")} error={targets.errors.slumpTarget} />
-              <SelectField
-                label="Slump unit"
-                name="slumpUnit"
-                defaultValue={targets.values.slumpUnit ?? "mm"}
-                error={targets.errors.slumpUnit}
-                options={[
-                  { value: "mm", label: "mm" },
-                  { value: "in", label: "in" },
-                ]}
-              />
-              <Field
-                label="Slump tolerance ±"
-                name="slumpTolerance"
-                inputMode="decimal"
-                defaultValue={targets.values.slumpTolerance ?? (slump ? String(slump.tolerance) : "")}
-                error={targets.errors.slumpTolerance}
-                hint="Blank: the usual tolerance for the target (ASTM C94)"
-              />
-              <Field label="Air content target, %" name="airTarget" inputMode="decimal" defaultValue={targets.values.airTarget ?? (air ? String(air.target) : "")} error={targets.errors.airTarget} />
-              <Field
-                label="Air content tolerance ±, percentage points"
-                name="airTolerance"
-                inputMode="decimal"
-                defaultValue={targets.values.airTolerance ?? (air ? String(air.tolerance) : "")}
-                error={targets.errors.airTolerance}
-                hint="Blank: ± 1.5 points (ASTM C94)"
-              />
-              <div className="self-end">
-                <Button type="submit" disabled={busy}>
-                  Save targets
-                </Button>
-              </div>
-            </Form>
-          )}
-        </Card>
-
-        <Card title="Protocol">
-          <p className="mb-3">
-            {setup.protocol ? (
-              <a href={`/files/${setup.protocol.id}`} className="font-semibold text-basalt-700 underline">
-                {setup.protocol.originalName}
-              </a>
-            ) : (
-              "No protocol attached yet."
-            )}
-          </p>
-          {protocol.done && <Notice tone="success">{protocol.done}</Notice>}
-          {canEdit && writeRefusal("protocol", study.state) && <p className="text-basalt-700">{writeRefusal("protocol", study.state)}</p>}
-          {canEdit && mayWrite("protocol", study.state) && (
-            <Form method="post" encType="multipart/form-data" className="flex flex-wrap items-end gap-4">
-              <Field label="Protocol (PDF, up to 10 MB)" name="protocol" type="file" accept="application/pdf" error={protocol.errors.protocol} />
-              <Button type="submit" disabled={busy}>
-                Upload protocol
-              </Button>
-            </Form>
-          )}
-        </Card>
-
-        <div className="grid gap-6 md:grid-cols-2">
-          <PeopleCard
-            title="Coordinators"
-            kind="coordinator"
-            people={[{ ...setup.owner, owner: true }, ...setup.coordinators.map((p) => ({ ...p, owner: false }))]}
-            canChange={isOwner && mayWrite("coordinators", study.state)}
-            fixedBecause={isOwner ? writeRefusal("coordinators", study.state) : null}
-            result={resultOf(actionData, "coordinator-add")}
-            busy={busy}
-          />
-          <PeopleCard
-            title="Committee reviewers"
-            kind="reviewer"
-            people={setup.reviewers.map((p) => ({ ...p, owner: false }))}
-            canChange={isOwner && mayWrite("reviewers", study.state)}
-            fixedBecause={isOwner ? writeRefusal("reviewers", study.state) : null}
-            result={resultOf(actionData, "reviewer-add")}
-            busy={busy}
-          />
-        </div>
-
-        <Card title="Materials">
-          <DataTable
-            caption="Materials of the study"
-            filterLabel="Filter materials"
-            empty="No materials yet."
-            data={setup.materials}
-            columns={[
-              {
-                id: "code",
-                header: "Code",
-                value: (m) => m.code,
-                cell: (m) => (
-                  <Link to={`/studies/${study.id}/materials/${m.id}`} className="font-semibold text-basalt-700 underline">
-                    {m.code}
-                  </Link>
-                ),
-              },
-              { id: "description", header: "Description", value: (m) => m.description || null },
-              { id: "constituents", header: "Mixture design rows", value: (m) => m.constituents },
-              ...(editable
-                ? [removeColumn<(typeof setup.materials)[number]>("material-remove", (m) => `Remove material ${m.code}`, busy)]
-                : []),
-            ]}
-          />
-          {canEdit && !editable && <p className="mt-3 text-basalt-700">{writeRefusal("design", study.state)}</p>}
-          {editable && (
-            <Form method="post" className="mt-4 grid gap-4 border-t border-basalt-100 pt-4 md:grid-cols-3">
-              <input type="hidden" name="intent" value="material-add" />
-              <Field label="Material code" id="field-material-code" name="code" defaultValue={materialAdd.values.code} error={materialAdd.errors.code} hint="e.g. M1" />
-              <Field label="Description" id="field-material-description" name="description" defaultValue={materialAdd.values.description} error={materialAdd.errors.description} />
-              <div className="self-end">
-                <Button type="submit" disabled={busy}>
-                  Add material
-                </Button>
-              </div>
-            </Form>
-          )}
-        </Card>
-        <p className="text-sm text-basalt-700">
-          This tool supports the committee's judgement and does not replace it; local codes, specifications and licensed engineers govern the
-          concrete.
+      <Card title="Fresh-property targets">
+        <p className="mb-3">
+          Slump: {slump ? `${slump.target} ± ${slump.tolerance} mm (${round(mmToIn(slump.target), 2)} ± ${round(mmToIn(slump.tolerance), 2)} in)` : "no target"}
+          . Air content: {air ? `${air.target} ± ${air.tolerance} %` : "no target"}.
         </p>
+        {designFixed && <p className="mt-3 text-basalt-700">{designFixed}</p>}
+        {editable && <TargetsForm reply={actionData} busy={busy} slump={slump} air={air} />}
+      </Card>
+
+      <Card title="Protocol">
+        <p className="mb-3">
+          {setup.protocol ? (
+            <a href={`/files/${setup.protocol.id}`} className="font-semibold text-basalt-700 underline">
+              {setup.protocol.originalName}
+            </a>
+          ) : (
+            "No protocol attached yet."
+          )}
+        </p>
+        {canEdit && writeRefusal("protocol", study.state) && <p className="text-basalt-700">{writeRefusal("protocol", study.state)}</p>}
+        {canEdit && mayWrite("protocol", study.state) && <ProtocolForm reply={actionData} busy={busy} />}
+      </Card>
+
+      <div className="grid gap-6 md:grid-cols-2">
+        <PeopleCard
+          title="Coordinators"
+          kind="coordinator"
+          people={[{ ...setup.owner, owner: true }, ...setup.coordinators.map((p) => ({ ...p, owner: false }))]}
+          canChange={isOwner && mayWrite("coordinators", study.state)}
+          fixedBecause={isOwner ? writeRefusal("coordinators", study.state) : null}
+          reply={actionData}
+          busy={busy}
+        />
+        <PeopleCard
+          title="Committee reviewers"
+          kind="reviewer"
+          people={setup.reviewers.map((p) => ({ ...p, owner: false }))}
+          canChange={isOwner && mayWrite("reviewers", study.state)}
+          fixedBecause={isOwner ? writeRefusal("reviewers", study.state) : null}
+          reply={actionData}
+          busy={busy}
+        />
       </div>
-    </>
+
+      <Card title="Materials">
+        <DataTable
+          caption="Materials of the study"
+          filterLabel="Filter materials"
+          empty="No materials yet."
+          data={setup.materials}
+          columns={[
+            {
+              id: "code",
+              header: "Code",
+              value: (m) => m.code,
+              cell: (m) => (
+                <Link to={`/studies/${study.id}/materials/${m.id}`} className="font-semibold text-basalt-700 underline">
+                  {m.code}
+                </Link>
+              ),
+            },
+            { id: "description", header: "Description", value: (m) => m.description || null },
+            { id: "constituents", header: "Mixture design rows", value: (m) => m.constituents },
+            ...(editable ? [removeColumn<(typeof setup.materials)[number]>("material-remove", (m) => `Remove material ${m.code}`, busy)] : []),
+          ]}
+        />
+        <FormErrors errors={refusalOf(actionData, "material-remove")} />
+        {designFixed && <p className="mt-3 text-basalt-700">{designFixed}</p>}
+        {editable && <MaterialForm reply={actionData} busy={busy} />}
+      </Card>
+      <p className="text-sm text-basalt-700">
+        This tool supports the committee's judgement and does not replace it; local codes, specifications and licensed engineers govern the concrete.
+      </p>
+    </div>
+  );
+}
+
+type FormArgs = { reply: unknown; busy: boolean };
+type SetupStudy = Route.ComponentProps["loaderData"]["study"];
+
+/** The study as the details form shows it: stored values as typed text. */
+function detailsDefaults(study: SetupStudy) {
+  return {
+    code: study.code,
+    title: study.title,
+    testMethod: study.testMethod,
+    replicatesPerCell: String(study.replicatesPerCell),
+    significanceLevel: String(study.significanceLevel),
+    targetSurfaceRating: study.targetSurfaceRating === null ? "" : String(study.targetSurfaceRating),
+    enrollmentDeadline: study.enrollmentDeadline ?? "",
+    shipDate: study.shipDate ?? "",
+    resultsDue: study.resultsDue ?? "",
+    notes: study.notes,
+  };
+}
+
+function DetailsForm({ study, reply, busy }: FormArgs & { study: SetupStudy }) {
+  const [form, fields] = useSchemaForm(setupForms.study, { reply, intent: "study", defaultValue: detailsDefaults(study) });
+  return (
+    <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="study" />
+      <FormErrors errors={formWideErrors(form)} />
+      <StudyFields
+        fields={fields}
+        fixed={{ replicatesPerCell: writeRefusal("design", study.state) ?? undefined, significanceLevel: writeRefusal("analysisSettings", study.state) ?? undefined }}
+      />
+      <div>
+        <Button type="submit" disabled={busy}>
+          Save details
+        </Button>
+      </div>
+    </Form>
+  );
+}
+
+function ResponseForm({ reply, busy }: FormArgs) {
+  const [form, fields] = useSchemaForm(setupForms.responseAdd, { reply, intent: "response-add", defaultValue: { kind: "count", decimals: "0" } });
+  return (
+    <Form method="post" className="mt-4 grid gap-4 border-t border-basalt-100 pt-4 md:grid-cols-3" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="response-add" />
+      <Field label="Key" hint="e.g. holes" {...fieldProps(fields.key)} />
+      <Field label="Response name" {...fieldProps(fields.name)} />
+      <Field label="Unit" {...fieldProps(fields.unit)} />
+      <SelectField
+        label="Kind"
+        {...fieldProps(fields.kind)}
+        options={[
+          { value: "count", label: "Count" },
+          { value: "continuous", label: "Continuous" },
+        ]}
+      />
+      <Field label="Decimals" inputMode="numeric" {...fieldProps(fields.decimals)} />
+      <Field label="Lowest plausible value" inputMode="decimal" {...fieldProps(fields.plausibleMin)} />
+      <Field label="Highest plausible value" inputMode="decimal" {...fieldProps(fields.plausibleMax)} />
+      <div className="self-end">
+        <Button type="submit" disabled={busy}>
+          Add response
+        </Button>
+      </div>
+    </Form>
+  );
+}
+
+type Target = { target: number; tolerance: number } | undefined;
+
+function TargetsForm({ reply, busy, slump, air }: FormArgs & { slump: Target; air: Target }) {
+  const [form, fields] = useSchemaForm(setupForms.targets, {
+    reply,
+    intent: "targets",
+    defaultValue: {
+      slumpTarget: slump ? String(slump.target) : "",
+      slumpUnit: "mm",
+      slumpTolerance: slump ? String(slump.tolerance) : "",
+      airTarget: air ? String(air.target) : "",
+      airTolerance: air ? String(air.tolerance) : "",
+    },
+  });
+  return (
+    <Form method="post" className="grid gap-4 md:grid-cols-3" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="targets" />
+      <Field label="Slump target" inputMode="decimal" {...fieldProps(fields.slumpTarget)} />
+      <SelectField
+        label="Slump unit"
+        {...fieldProps(fields.slumpUnit)}
+        options={[
+          { value: "mm", label: "mm" },
+          { value: "in", label: "in" },
+        ]}
+      />
+      <Field label="Slump tolerance ±" inputMode="decimal" hint="Blank: the usual tolerance for the target (ASTM C94)" {...fieldProps(fields.slumpTolerance)} />
+      <Field label="Air content target, %" inputMode="decimal" {...fieldProps(fields.airTarget)} />
+      <Field
+        label="Air content tolerance ±, percentage points"
+        inputMode="decimal"
+        hint="Blank: ± 1.5 points (ASTM C94)"
+        {...fieldProps(fields.airTolerance)}
+      />
+      <div className="self-end">
+        <Button type="submit" disabled={busy}>
+          Save targets
+        </Button>
+      </div>
+    </Form>
+  );
+}
+
+function ProtocolForm({ reply, busy }: FormArgs) {
+  const [form, fields] = useSchemaForm(protocolSchema, { reply, intent: "protocol" });
+  return (
+    <Form method="post" encType="multipart/form-data" className="flex flex-wrap items-end gap-4" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="protocol" />
+      <Field label="Protocol (PDF, up to 10 MB)" type="file" accept="application/pdf" {...fieldProps(fields.protocol)} defaultValue={undefined} />
+      <Button type="submit" disabled={busy}>
+        Upload protocol
+      </Button>
+    </Form>
+  );
+}
+
+function MaterialForm({ reply, busy }: FormArgs) {
+  const [form, fields] = useSchemaForm(setupForms.materialAdd, { reply, intent: "material-add" });
+  return (
+    <Form method="post" className="mt-4 grid gap-4 border-t border-basalt-100 pt-4 md:grid-cols-3" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="material-add" />
+      <Field label="Material code" hint="e.g. M1" {...fieldProps(fields.code)} />
+      <Field label="Description" {...fieldProps(fields.description)} />
+      <div className="self-end">
+        <Button type="submit" disabled={busy}>
+          Add material
+        </Button>
+      </div>
+    </Form>
   );
 }
 
@@ -434,21 +478,19 @@ function PeopleCard({
   people,
   canChange,
   fixedBecause,
-  result,
+  reply,
   busy,
-}: {
+}: FormArgs & {
   title: string;
   kind: "coordinator" | "reviewer";
   people: { id: number; name: string; email: string; owner: boolean }[];
   canChange: boolean;
   /** Why the list cannot change in the study's state (~/lib/write-rules), shown instead of the controls. */
   fixedBecause: string | null;
-  result: ReturnType<typeof formState>;
-  busy: boolean;
 }) {
+  const [form, fields] = useSchemaForm(kind === "coordinator" ? setupForms.coordinatorAdd : setupForms.reviewerAdd, { reply, intent: `${kind}-add` });
   return (
     <Card title={title}>
-      {result.done && <Notice tone="success">{result.done}</Notice>}
       {fixedBecause && <p className="mb-3 text-basalt-700">{fixedBecause}</p>}
       <ul className="mb-3 flex flex-col gap-2">
         {people.length === 0 && <li>Nobody yet.</li>}
@@ -469,10 +511,11 @@ function PeopleCard({
           </li>
         ))}
       </ul>
+      <FormErrors errors={refusalOf(reply, `${kind}-remove`)} />
       {canChange && (
-        <Form method="post" className="flex flex-wrap items-end gap-3">
+        <Form method="post" className="flex flex-wrap items-end gap-3" {...getFormProps(form)}>
           <input type="hidden" name="intent" value={`${kind}-add`} />
-          <Field label={`Add ${kind === "coordinator" ? "co-coordinator" : "reviewer"} by e-mail`} name="email" id={`field-${kind}-email`} type="email" defaultValue={result.values.email} error={result.errors.email} />
+          <Field label={`Add ${kind === "coordinator" ? "co-coordinator" : "reviewer"} by e-mail`} type="email" {...fieldProps(fields.email)} />
           <Button type="submit" disabled={busy}>
             Add
           </Button>

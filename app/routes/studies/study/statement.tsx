@@ -1,32 +1,41 @@
+import { getFormProps } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
 import { Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/statement";
+import { fieldProps, FormErrors, formWideErrors, refusalOf, replyAbout, useSchemaForm } from "~/components/forms";
 import { PrecisionSummaryTable } from "~/components/precision-tables";
+import { StateBadge } from "~/components/state-badge";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
-import { Badge, Button, Card, Notice, PageHeader, SelectField, SimpleTable, TextAreaField } from "~/components/ui";
-import { type ActionResult, refused } from "~/lib/form-results";
-import { type FieldErrors, parseForm } from "~/lib/forms";
-import { notFound } from "~/server/guards.server";
-import { requireStudy } from "~/server/study-context.server";
+import { StatementBundle } from "~/components/statement-bundle";
+import type { StudyPageHandle } from "~/components/study-frame";
+import { ConfirmStep } from "~/components/confirm-dialog";
+import { Button, Card, Notice, SelectField, SimpleTable, TextAreaField } from "~/components/ui";
+import { formatDate, formatDateTime } from "~/lib/format";
+import { OBJECTION_STAGE_TEXT, QUORUM_SENTENCE } from "~/lib/review/publication";
 import { writeRefusal } from "~/lib/write-rules";
-import { STATE_LABEL } from "~/lib/state-labels";
+import { STATEMENT_STATE, VOTE_CHOICE } from "~/lib/state-labels";
 import { MOVE_CONSEQUENCES } from "~/lib/study-lifecycle";
+import { studyPageMeta } from "~/lib/study-page-meta";
 import {
   answerObjection,
   freezeStatement,
   listStatements,
   publicationStatus,
   publishStudy,
-  sendToReview,
-  StatementError,
-  updateStatementText,
   reviewersByName,
+  sendToReview,
+  updateStatementText,
   votesOn,
 } from "~/models/statement.server";
-import { ConfirmStep } from "~/components/confirm-dialog";
-import { OBJECTION_STAGE_TEXT, QUORUM_SENTENCE } from "~/lib/review/publication";
+import { refuse, withRefusals } from "~/server/form-reply.server";
+import { notFound } from "~/server/guards.server";
+import { requireStudy } from "~/server/study-context.server";
+import { redirectWithToast } from "~/server/toast.server";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Statement · ${data?.study.code ?? "Study"} · Ringbatch` }];
+export const handle = { pageTitle: "Statement" } satisfies StudyPageHandle;
+
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireStudy(context, ["coordinator", "admin"]);
@@ -47,85 +56,84 @@ export async function loader({ context }: Route.LoaderArgs) {
 }
 
 const id = z.coerce.number({ message: "Missing id." }).int().positive("Missing id.");
-const textSchema = z.object({
-  statementId: id,
-  textE691: z.string().trim().min(20, "The E691 text needs at least 20 characters.").max(20000, "Keep the text under 20,000 characters."),
-  textC670: z.string().trim().min(20, "The C670 text needs at least 20 characters.").max(20000, "Keep the text under 20,000 characters."),
-});
-const sendSchema = z.object({ statementId: id, chairId: z.coerce.number({ message: "Choose the chair of the round." }).int().positive("Choose the chair of the round.") });
-const answerSchema = z.object({
-  voteId: id,
-  answer: z.enum(["upheld", "not_upheld"], { message: "Choose upheld or not upheld." }),
-  rationale: z.string().trim().min(10, "Give the rationale the committee will read (at least 10 characters).").max(4000, "Keep the rationale under 4000 characters."),
-});
+const TEXT_TOO_LONG = "Keep the text under 20,000 characters.";
+const statementText = (form: string) => {
+  const tooShort = `The ${form} text needs at least 20 characters.`;
+  return z.string({ message: tooShort }).trim().min(20, tooShort).max(20000, TEXT_TOO_LONG);
+};
+const RATIONALE_TOO_SHORT = "Give the rationale the committee will read (at least 10 characters).";
+
+const statementForms = {
+  freeze: z.object({ intent: z.literal("freeze") }),
+  saveText: z.object({ intent: z.literal("save-text"), statementId: id, textE691: statementText("E691"), textC670: statementText("C670") }),
+  send: z.object({
+    intent: z.literal("send"),
+    statementId: id,
+    chairId: z.coerce.number({ message: "Choose the chair of the round." }).int().positive("Choose the chair of the round."),
+  }),
+  answer: z.object({
+    intent: z.literal("answer"),
+    voteId: id,
+    answer: z.enum(["upheld", "not_upheld"], { message: "Choose upheld or not upheld." }),
+    rationale: z.string({ message: RATIONALE_TOO_SHORT }).trim().min(10, RATIONALE_TOO_SHORT).max(4000, "Keep the rationale under 4000 characters."),
+  }),
+  publish: z.object({ intent: z.literal("publish") }),
+};
+
+const statementSchema = z.discriminatedUnion(
+  "intent",
+  [statementForms.freeze, statementForms.saveText, statementForms.send, statementForms.answer, statementForms.publish],
+  { error: "Unknown action." },
+);
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireStudy(context, ["coordinator"]);
-  const form = await request.formData();
-  const intent = String(form.get("intent") ?? "");
-  const fail = (errors: FieldErrors, values: Record<string, string>, status = 400) => refused(intent, errors, values, status);
-  try {
-    switch (intent) {
-      case "freeze": {
-        const row = await freezeStatement(study, user.id);
-        return { intent, done: `Version ${row.version} frozen at data version ${row.dataVersion}.` } satisfies ActionResult;
+  const submission = parseWithZod(await request.formData(), { schema: statementSchema });
+  if (submission.status !== "success") return refuse(submission);
+  const form = submission.value;
+  // The models refuse what the study's state or the round does not allow (409), shown above the forms.
+  const outcome = await withRefusals(
+    submission,
+    async () => {
+      switch (form.intent) {
+        case "freeze": {
+          const row = await freezeStatement(study, user.id);
+          return `Version ${row.version} frozen at data version ${row.dataVersion}.`;
+        }
+        case "save-text":
+          if (!(await updateStatementText(study, user.id, form.statementId, form))) notFound();
+          return "Text saved.";
+        case "send":
+          if (!(await sendToReview(study, user.id, form.statementId, form.chairId, request))) notFound();
+          return "Sent to the committee; every reviewer has been e-mailed.";
+        case "answer":
+          if (!(await answerObjection(study, user.id, form, request))) notFound();
+          return form.answer === "upheld"
+            ? "Objection upheld: the statement is back in drafting; freeze a new version for a new round."
+            : "Answer recorded; the reviewer is asked to withdraw or maintain the objection.";
+        case "publish":
+          await publishStudy(study, user.id);
+          return "Published. The study is now read-only.";
       }
-      case "save-text": {
-        const parsed = parseForm(textSchema, form);
-        if (!parsed.ok) return fail(parsed.errors, parsed.values);
-        if (!(await updateStatementText(study, user.id, parsed.data.statementId, parsed.data))) notFound();
-        return { intent, done: "Text saved." } satisfies ActionResult;
-      }
-      case "send": {
-        const parsed = parseForm(sendSchema, form);
-        if (!parsed.ok) return fail(parsed.errors, parsed.values);
-        if (!(await sendToReview(study, user.id, parsed.data.statementId, parsed.data.chairId, request))) notFound();
-        return { intent, done: "Sent to the committee; every reviewer has been e-mailed." } satisfies ActionResult;
-      }
-      case "answer": {
-        const parsed = parseForm(answerSchema, form);
-        if (!parsed.ok) return fail(parsed.errors, parsed.values);
-        if (!(await answerObjection(study, user.id, parsed.data, request))) notFound();
-        return {
-          intent,
-          done: parsed.data.answer === "upheld" ? "Objection upheld: the statement is back in drafting; freeze a new version for a new round." : "Answer recorded; the reviewer is asked to withdraw or maintain the objection.",
-        } satisfies ActionResult;
-      }
-      case "publish": {
-        await publishStudy(study, user.id);
-        return { intent, done: "Published. The study is now read-only." } satisfies ActionResult;
-      }
-      default:
-        return fail({ form: "Unknown action." }, {});
-    }
-  } catch (error) {
-    if (error instanceof StatementError) return fail({ form: error.message }, Object.fromEntries([...form].map(([k, v]) => [k, String(v)])), 409);
-    throw error;
-  }
+    },
+    409,
+  );
+  if (!outcome.ok) return outcome.reply;
+  return redirectWithToast(`/studies/${study.id}/statement`, outcome.value);
 }
-
-const STATEMENT_TONE = { draft: "neutral", in_review: "ochre", approved: "leaf", returned: "signal" } as const;
-const CHOICE_LABEL = { approve: "Approve", object: "Object", abstain: "Abstain" } as const;
 
 export default function StatementPage({ loaderData, actionData }: Route.ComponentProps) {
   const { study, latest, earlier, votes, publication } = loaderData;
-  const outcome = actionData as ActionResult | undefined;
-  const failed = outcome?.errors ? outcome : null;
   const stale = latest && latest.dataVersion !== study.dataVersion;
+  // Refusals of the button-only forms (freeze, publish) and of the whole page's state.
+  const refusals = ["freeze", "publish"].flatMap((intent) => refusalOf(actionData, intent));
   return (
     <>
-      <PageHeader
-        title={`Precision statement — ${study.code}`}
-        subtitle={
-          <>
-            {study.title} · <Badge>{STATE_LABEL[study.state]}</Badge>
-          </>
-        }
-      />
       <div className="flex flex-col gap-6">
+        <p className="text-basalt-700">The precision statement: frozen versions of the analysis, their texts, and the committee's round.</p>
         <StatementCaution />
-        {outcome?.done && <Notice tone="success">{outcome.done}</Notice>}
-        {failed?.errors?.form && <Notice tone="error">{failed.errors.form}</Notice>}
+        {study.state === "published" && <StatementBundle studyId={study.id} />}
+        <FormErrors errors={refusals} />
         {!loaderData.draftingRefusal && (
           <Card title="Freeze the analysis">
             <p className="mb-3">
@@ -146,54 +154,18 @@ export default function StatementPage({ loaderData, actionData }: Route.Componen
           <>
             <Card title={`Version ${latest.version}`}>
               <p className="mb-3">
-                <Badge tone={STATEMENT_TONE[latest.state]}>{latest.state.replace("_", " ")}</Badge> · frozen {latest.snapshot.frozenAt.slice(0, 16).replace("T", " ")} at data
+                <StateBadge view={STATEMENT_STATE[latest.state]} /> · frozen {formatDateTime(latest.snapshot.frozenAt)} at data
                 version {latest.dataVersion} · {latest.snapshot.labs} labs, {latest.snapshot.materials.length} materials, {latest.snapshot.replicates} replicates
               </p>
               {stale && latest.state === "draft" && (
                 <Notice tone="caution">Results or decisions changed after this version was frozen (data version now {study.dataVersion}). Freeze a new version before sending.</Notice>
               )}
               {latest.state === "draft" && !loaderData.draftingRefusal ? (
-                <Form method="post" className="mt-4 flex flex-col gap-4">
-                  <input type="hidden" name="intent" value="save-text" />
-                  <input type="hidden" name="statementId" value={latest.id} />
-                  <TextAreaField name="textE691" label="Statement text, E691 form (r and R)" rows={14} error={failed?.errors?.textE691} defaultValue={failed?.values?.textE691 ?? latest.textE691} />
-                  <TextAreaField name="textC670" label="Statement text, C670 form (1s and d2s)" rows={14} error={failed?.errors?.textC670} defaultValue={failed?.values?.textC670 ?? latest.textC670} />
-                  <div>
-                    <Button type="submit" variant="secondary">
-                      Save the text
-                    </Button>
-                  </div>
-                </Form>
+                <TextForm key={latest.id} statement={latest} reply={actionData} />
               ) : (
                 <StatementTexts textE691={latest.textE691} textC670={latest.textC670} />
               )}
-              {latest.state === "draft" && !loaderData.draftingRefusal && (
-                <Form method="post" className="mt-4 flex flex-col gap-3">
-                  <input type="hidden" name="intent" value="send" />
-                  <input type="hidden" name="statementId" value={latest.id} />
-                  <SelectField
-                    label="Chair of the round (rules on objections maintained after your answer)"
-                    name="chairId"
-                    defaultValue={failed?.values?.chairId ?? ""}
-                    error={failed?.errors?.chairId}
-                    options={[{ value: "", label: "Choose a reviewer" }, ...loaderData.reviewers.map((r) => ({ value: String(r.id), label: r.name }))]}
-                  />
-                  <div>
-                    <ConfirmStep
-                      label={`Send version ${latest.version} to the committee`}
-                      title={`Send version ${latest.version} to the committee?`}
-                      consequences={
-                        <>
-                          <p>{MOVE_CONSEQUENCES.in_review}</p>
-                          <p>Reviewers of this round: {loaderData.reviewers.map((r) => r.name).join(", ") || "none yet"}.</p>
-                          <p>{QUORUM_SENTENCE}</p>
-                        </>
-                      }
-                      confirmLabel="Send to the committee"
-                    />
-                  </div>
-                </Form>
-              )}
+              {latest.state === "draft" && !loaderData.draftingRefusal && <SendForm key={latest.id} statement={latest} reviewers={loaderData.reviewers} reply={actionData} />}
             </Card>
             <Card title="Figures of this version">
               <p className="mb-3 text-sm text-basalt-700">These numbers are the frozen snapshot; editing the text does not change them.</p>
@@ -207,12 +179,12 @@ export default function StatementPage({ loaderData, actionData }: Route.Componen
                 <ExcludedCells excluded={latest.snapshot.analysis.excluded} />
               </div>
             </Card>
-            {latest.state !== "draft" && <Round loaderData={loaderData} failed={failed} votes={votes} publication={publication} />}
+            {latest.state !== "draft" && <Round loaderData={loaderData} reply={actionData} votes={votes} publication={publication} />}
           </>
         )}
         {earlier.length > 0 && (
           <Card title="Earlier versions">
-            <SimpleTable caption="Earlier statement versions" headers={["Version", "State", "Data version", "Frozen"]} rows={earlier.map((s) => [s.version, s.state.replace("_", " "), s.dataVersion, s.createdAt.slice(0, 10)])} />
+            <SimpleTable caption="Earlier statement versions" headers={["Version", "State", "Data version", "Frozen"]} rows={earlier.map((s) => [s.version, STATEMENT_STATE[s.state].label, s.dataVersion, formatDate(s.createdAt)])} />
           </Card>
         )}
       </div>
@@ -222,7 +194,97 @@ export default function StatementPage({ loaderData, actionData }: Route.Componen
 
 type LoaderData = Route.ComponentProps["loaderData"];
 
-function Round({ loaderData, failed, votes, publication }: { loaderData: LoaderData; failed: ActionResult | null; votes: LoaderData["votes"]; publication: LoaderData["publication"] }) {
+function TextForm({ statement, reply }: { statement: NonNullable<LoaderData["latest"]>; reply: unknown }) {
+  const [form, fields] = useSchemaForm(statementForms.saveText, {
+    reply,
+    intent: "save-text",
+    defaultValue: { statementId: String(statement.id), textE691: statement.textE691, textC670: statement.textC670 },
+  });
+  return (
+    <Form method="post" className="mt-4 flex flex-col gap-4" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="save-text" />
+      <input type="hidden" name="statementId" value={statement.id} />
+      <FormErrors errors={formWideErrors(form)} />
+      <TextAreaField label="Statement text, E691 form (r and R)" rows={14} {...fieldProps(fields.textE691)} />
+      <TextAreaField label="Statement text, C670 form (1s and d2s)" rows={14} {...fieldProps(fields.textC670)} />
+      <div>
+        <Button type="submit" variant="secondary">
+          Save the text
+        </Button>
+      </div>
+    </Form>
+  );
+}
+
+/** Sends a draft version to the committee with the reviewer who chairs the round. */
+function SendForm({ statement, reviewers, reply }: { statement: NonNullable<LoaderData["latest"]>; reviewers: LoaderData["reviewers"]; reply: unknown }) {
+  const [form, fields] = useSchemaForm(statementForms.send, { reply, intent: "send", defaultValue: { statementId: String(statement.id) } });
+  return (
+    <Form method="post" className="mt-4 flex flex-col gap-3" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="send" />
+      <input type="hidden" name="statementId" value={statement.id} />
+      <FormErrors errors={formWideErrors(form)} />
+      <SelectField
+        label="Chair of the round (rules on objections maintained after your answer)"
+        {...fieldProps(fields.chairId)}
+        options={[{ value: "", label: "Choose a reviewer" }, ...reviewers.map((r) => ({ value: String(r.id), label: r.name }))]}
+      />
+      <div>
+        <ConfirmStep
+          label={`Send version ${statement.version} to the committee`}
+          title={`Send version ${statement.version} to the committee?`}
+          consequences={
+            <>
+              <p>{MOVE_CONSEQUENCES.in_review}</p>
+              <p>Reviewers of this round: {reviewers.map((r) => r.name).join(", ") || "none yet"}.</p>
+              <p>{QUORUM_SENTENCE}</p>
+            </>
+          }
+          confirmLabel="Send to the committee"
+        />
+      </div>
+    </Form>
+  );
+}
+
+type Vote = LoaderData["votes"][number];
+
+/** The coordinator's answer to one objection; the action's answer belongs to it only when it names this vote. */
+function AnswerForm({ vote, reply }: { vote: Vote; reply: unknown }) {
+  const [form, fields] = useSchemaForm(statementForms.answer, { reply: replyAbout(reply, "voteId", vote.id), intent: "answer", id: `answer-${vote.id}` });
+  const answerError = fields.answer.errors?.[0];
+  return (
+    <Form method="post" className="mt-3 flex flex-col gap-3" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="answer" />
+      <input type="hidden" name="voteId" value={vote.id} />
+      <FormErrors errors={formWideErrors(form)} />
+      <fieldset aria-describedby={answerError ? fields.answer.errorId : undefined}>
+        <legend className="font-semibold text-basalt-800">Your answer to {vote.reviewer}'s objection</legend>
+        <div className="flex flex-wrap gap-4">
+          <label className="inline-flex min-h-11 items-center gap-2">
+            <input type="radio" name={fields.answer.name} value="upheld" defaultChecked={fields.answer.initialValue === "upheld"} className="size-5" /> Upheld (revise the statement)
+          </label>
+          <label className="inline-flex min-h-11 items-center gap-2">
+            <input type="radio" name={fields.answer.name} value="not_upheld" defaultChecked={fields.answer.initialValue === "not_upheld"} className="size-5" /> Not upheld
+          </label>
+        </div>
+        {answerError && (
+          <p id={fields.answer.errorId} className="text-sm font-semibold text-signal-700">
+            {answerError}
+          </p>
+        )}
+      </fieldset>
+      <TextAreaField label="Rationale (shown to every reviewer)" {...fieldProps(fields.rationale)} />
+      <div>
+        <Button type="submit" variant="secondary">
+          Record the answer
+        </Button>
+      </div>
+    </Form>
+  );
+}
+
+function Round({ loaderData, reply, votes, publication }: { loaderData: LoaderData; reply: unknown; votes: LoaderData["votes"]; publication: LoaderData["publication"] }) {
   const canAnswer = !loaderData.reviewRefusal && loaderData.latest?.state === "in_review";
   const tally = publication.tally;
   return (
@@ -240,7 +302,7 @@ function Round({ loaderData, failed, votes, publication }: { loaderData: LoaderD
           {votes.map((v) => (
             <li key={v.id} className="rounded border border-basalt-100 p-3">
               <p>
-                <strong>{v.reviewer}</strong>: {CHOICE_LABEL[v.choice]}
+                <strong>{v.reviewer}</strong>: <StateBadge view={VOTE_CHOICE[v.choice]} />
                 {v.reason && <> — “{v.reason}”</>}
               </p>
               {v.answer && (
@@ -259,36 +321,7 @@ function Round({ loaderData, failed, votes, publication }: { loaderData: LoaderD
                 </p>
               )}
               {v.stage && <p className="mt-1 text-sm text-basalt-700">{OBJECTION_STAGE_TEXT[v.stage]}</p>}
-              {v.choice === "object" && !v.answer && canAnswer && (
-                <Form method="post" className="mt-3 flex flex-col gap-3">
-                  <input type="hidden" name="intent" value="answer" />
-                  <input type="hidden" name="voteId" value={v.id} />
-                  <fieldset>
-                    <legend className="font-semibold text-basalt-800">Your answer to {v.reviewer}'s objection</legend>
-                    <div className="flex flex-wrap gap-4">
-                      <label className="inline-flex min-h-11 items-center gap-2">
-                        <input type="radio" name="answer" value="upheld" className="size-5" /> Upheld (revise the statement)
-                      </label>
-                      <label className="inline-flex min-h-11 items-center gap-2">
-                        <input type="radio" name="answer" value="not_upheld" className="size-5" /> Not upheld
-                      </label>
-                    </div>
-                    {failed?.values?.voteId === String(v.id) && failed.errors?.answer && <p className="text-sm font-semibold text-signal-700">{failed.errors.answer}</p>}
-                  </fieldset>
-                  <TextAreaField
-                    name="rationale"
-                    id={`rationale-${v.id}`}
-                    label="Rationale (shown to every reviewer)"
-                    error={failed?.values?.voteId === String(v.id) ? failed.errors?.rationale : undefined}
-                    defaultValue={failed?.values?.voteId === String(v.id) ? failed.values.rationale : ""}
-                  />
-                  <div>
-                    <Button type="submit" variant="secondary">
-                      Record the answer
-                    </Button>
-                  </div>
-                </Form>
-              )}
+              {v.choice === "object" && !v.answer && canAnswer && <AnswerForm vote={v} reply={reply} />}
             </li>
           ))}
         </ul>

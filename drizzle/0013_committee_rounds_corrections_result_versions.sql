@@ -20,6 +20,10 @@ CREATE TABLE `round_reviewers` (
 	FOREIGN KEY (`user_id`) REFERENCES `users`(`id`) ON UPDATE no action ON DELETE no action
 );
 --> statement-breakpoint
+ALTER TABLE `amendments` ADD `query_id` integer REFERENCES queries(id);--> statement-breakpoint
+ALTER TABLE `queries` ADD `asks_correction` integer DEFAULT false NOT NULL;--> statement-breakpoint
+ALTER TABLE `results` ADD `version` integer DEFAULT 1 NOT NULL;--> statement-breakpoint
+ALTER TABLE `results` ADD `updated_by` integer REFERENCES users(id);--> statement-breakpoint
 ALTER TABLE `votes` ADD `objector_reply` text;--> statement-breakpoint
 ALTER TABLE `votes` ADD `objector_reply_note` text;--> statement-breakpoint
 ALTER TABLE `votes` ADD `objector_replied_at` integer;--> statement-breakpoint

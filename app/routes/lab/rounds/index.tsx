@@ -1,0 +1,47 @@
+import { Link } from "react-router";
+import type { Route } from "./+types/index";
+import { StateBadge } from "~/components/state-badge";
+import { Card, PageHeader, SimpleTable } from "~/components/ui";
+import { STUDY_STATE } from "~/lib/state-labels";
+import { labRounds } from "~/models/round.server";
+import { requireRole } from "~/server/guards.server";
+
+export const meta: Route.MetaFunction = () => [{ title: "Proficiency rounds · Ringbatch" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireRole(request, "analyst");
+  return { rounds: await labRounds(user.labIds) };
+}
+
+export default function LabRounds({ loaderData }: Route.ComponentProps) {
+  return (
+    <>
+      <PageHeader title="Proficiency rounds" subtitle="Rounds your lab takes part in; each published round has a confidential letter for your lab." />
+      <Card>
+        {loaderData.rounds.length === 0 ? (
+          <p>Your lab takes part in no round yet.</p>
+        ) : (
+          <SimpleTable
+            caption="Your lab's proficiency rounds"
+            headers={["Round", "Title", "Your lab code", "State", "Letter"]}
+            rows={loaderData.rounds.map((round) => [
+              <Link key="code" to={`/lab/rounds/${round.id}`} className="font-semibold text-basalt-700 underline">
+                {round.code}
+              </Link>,
+              round.title,
+              round.labCode ?? "—",
+              <StateBadge key="state" view={STUDY_STATE[round.state]} />,
+              round.state === "published" ? (
+                <Link key="letter" to={`/lab/rounds/${round.id}/letter`} className="font-semibold text-basalt-700 underline">
+                  Read the letter
+                </Link>
+              ) : (
+                "After publication"
+              ),
+            ])}
+          />
+        )}
+      </Card>
+    </>
+  );
+}

@@ -1,0 +1,52 @@
+import { Link } from "react-router";
+import type { Route } from "./+types/index";
+import { StateBadge } from "~/components/state-badge";
+import { Card, PageHeader, SimpleTable } from "~/components/ui";
+import { STUDY_STATE } from "~/lib/state-labels";
+import { listRuggednessStudies } from "~/models/ruggedness.server";
+import { requireRole } from "~/server/guards.server";
+
+export const meta: Route.MetaFunction = () => [{ title: "Ruggedness studies · Ringbatch" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireRole(request, "coordinator", "admin");
+  return { studies: await listRuggednessStudies(user), canCreate: user.role === "coordinator" };
+}
+
+export default function RuggednessStudies({ loaderData }: Route.ComponentProps) {
+  const { studies, canCreate } = loaderData;
+  return (
+    <>
+      <PageHeader
+        title="Ruggedness studies"
+        subtitle="Before a round robin: find, in your own lab, which details of the procedure must be held tightly (ASTM E1169 screening designs)."
+        actions={
+          canCreate && (
+            <Link to="/ruggedness/new" className="inline-flex min-h-11 items-center rounded-md bg-basalt-700 px-4 py-2 font-semibold text-white hover:bg-basalt-800">
+              New ruggedness study
+            </Link>
+          )
+        }
+      />
+      <Card>
+        {studies.length === 0 ? (
+          <p>No ruggedness studies yet.</p>
+        ) : (
+          <SimpleTable
+            caption="Ruggedness studies"
+            headers={["Code", "Title", "Test method", "Design", "State"]}
+            rows={studies.map((s) => [
+              <Link key="code" to={`/ruggedness/${s.id}`} className="font-semibold underline">
+                {s.code}
+              </Link>,
+              s.title,
+              s.testMethod,
+              s.runs ? `${s.runs} runs` : "not laid out",
+              <StateBadge key="state" view={STUDY_STATE[s.state]} />,
+            ])}
+          />
+        )}
+      </Card>
+    </>
+  );
+}
