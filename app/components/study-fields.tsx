@@ -18,14 +18,28 @@ type StudyFieldName =
 /** The Conform fields of a form built on `studyFields` (from `~/lib/study-forms`). */
 export type StudyFieldsMeta = { [Name in StudyFieldName]: FieldMetadata<unknown> };
 
-export function StudyFields({ fields }: { fields: StudyFieldsMeta }) {
+/** `fixed` names fields the study's state no longer lets change, with the sentence shown beside them (they stay read-only). */
+export function StudyFields({ fields, fixed = {} }: { fields: StudyFieldsMeta; fixed?: Partial<Record<"replicatesPerCell" | "significanceLevel", string>> }) {
   return (
     <div className="grid gap-4 md:grid-cols-2">
       <Field label="Study code" hint="Letters, digits and hyphens, e.g. FF-2027-A" {...fieldProps(fields.code)} />
       <Field label="Title" {...fieldProps(fields.title)} />
       <Field label="Test method" {...fieldProps(fields.testMethod)} />
-      <Field label="Replicates per cell" type="number" inputMode="numeric" {...fieldProps(fields.replicatesPerCell)} />
-      <Field label="Significance level for consistency flags" inputMode="decimal" hint="E691 uses 0.005" {...fieldProps(fields.significanceLevel)} />
+      <Field
+        label="Replicates per cell"
+        type="number"
+        inputMode="numeric"
+        readOnly={Boolean(fixed.replicatesPerCell)}
+        hint={fixed.replicatesPerCell}
+        {...fieldProps(fields.replicatesPerCell)}
+      />
+      <Field
+        label="Significance level for consistency flags"
+        inputMode="decimal"
+        readOnly={Boolean(fixed.significanceLevel)}
+        hint={fixed.significanceLevel ?? "E691 uses 0.005"}
+        {...fieldProps(fields.significanceLevel)}
+      />
       <SelectField
         label="Target surface rating (1–3 visual scale)"
         {...fieldProps(fields.targetSurfaceRating)}

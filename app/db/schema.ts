@@ -327,6 +327,9 @@ export const results = sqliteTable(
     testedOn: text("tested_on"),
     operator: text("operator").notNull().default(""),
     photoAttachmentId: integer("photo_attachment_id").references(() => attachments.id),
+    /** Goes up with every write of this replicate; a draft save names the version it read, so two people never erase each other. */
+    version: integer("version").notNull().default(1),
+    updatedBy: integer("updated_by").references(() => users.id),
     updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
   },
   (t) => [uniqueIndex("results_cell_replicate").on(t.cellId, t.replicate)],
@@ -344,6 +347,8 @@ export const amendments = sqliteTable(
     oldValue: real("old_value"),
     newValue: real("new_value").notNull(),
     reason: text("reason").notNull(),
+    /** The correction query the amendment answers, when it came after testing. */
+    queryId: integer("query_id").references(() => queries.id),
     byUserId: integer("by_user_id")
       .notNull()
       .references(() => users.id),
@@ -386,6 +391,8 @@ export const queries = sqliteTable(
     /** The statistic that prompted it, e.g. `h = 2.41 (critical 2.06)`. */
     statistic: text("statistic").notNull().default(""),
     question: text("question").notNull(),
+    /** The coordinator asks the lab to correct the cell; the lab may amend it while the query is not closed, even after testing. */
+    asksCorrection: integer("asks_correction", { mode: "boolean" }).notNull().default(false),
     state: text("state", { enum: QUERY_STATES }).notNull().default("open"),
     answer: text("answer"),
     answeredBy: integer("answered_by").references(() => users.id),
@@ -455,9 +462,54 @@ export const votes = sqliteTable(
     answerRationale: text("answer_rationale"),
     answeredBy: integer("answered_by").references(() => users.id),
     answeredAt: integer("answered_at", { mode: "timestamp_ms" }),
+    /** The objector's reply to a "not upheld" answer: withdraw the objection or maintain it. */
+    objectorReply: text("objector_reply", { enum: ["withdrawn", "maintained"] }),
+    objectorReplyNote: text("objector_reply_note"),
+    objectorRepliedAt: integer("objector_replied_at", { mode: "timestamp_ms" }),
+    /** The round chair's ruling on a maintained objection, with its reason. */
+    ruling: text("ruling", { enum: ["upheld", "not_upheld"] }),
+    rulingReason: text("ruling_reason"),
+    ruledBy: integer("ruled_by").references(() => users.id),
+    ruledAt: integer("ruled_at", { mode: "timestamp_ms" }),
     updatedAt: integer("updated_at", { mode: "timestamp_ms" }).notNull(),
   },
   (t) => [uniqueIndex("votes_statement_reviewer").on(t.statementId, t.reviewerId)],
+);
+
+/**
+ * One committee round: a statement version sent for review, with its chair.
+ * Its reviewers are fixed when it opens (round_reviewers), so removing a
+ * reviewer from the study later changes nothing about the round.
+ */
+export const reviewRounds = sqliteTable("review_rounds", {
+  id: integer("id").primaryKey({ autoIncrement: true }),
+  statementId: integer("statement_id")
+    .notNull()
+    .unique()
+    .references(() => precisionStatements.id, { onDelete: "cascade" }),
+  /** Rules on objections that their reviewer maintains after a "not upheld" answer. */
+  chairId: integer("chair_id")
+    .notNull()
+    .references(() => users.id),
+  openedBy: integer("opened_by")
+    .notNull()
+    .references(() => users.id),
+  outcome: text("outcome", { enum: ["open", "published", "returned", "cancelled"] }).notNull().default("open"),
+  closedAt: integer("closed_at", { mode: "timestamp_ms" }),
+  createdAt: createdAt(),
+});
+
+export const roundReviewers = sqliteTable(
+  "round_reviewers",
+  {
+    roundId: integer("round_id")
+      .notNull()
+      .references(() => reviewRounds.id, { onDelete: "cascade" }),
+    userId: integer("user_id")
+      .notNull()
+      .references(() => users.id),
+  },
+  (t) => [primaryKey({ columns: [t.roundId, t.userId] })],
 );
 
 export const reviewComments = sqliteTable(

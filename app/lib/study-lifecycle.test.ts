@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { STUDY_STATES } from "~/db/schema";
-import { allowedNextStates, checkTransition, invitationsOpen, resultsEditable, setupEditable } from "./study-lifecycle";
+import { allowedNextStates, checkTransition, moveOwner } from "./study-lifecycle";
+import { mayWrite, WRITE_RULES, type WriteKind, writeRefusal } from "./write-rules";
 
 describe("study lifecycle rules", () => {
   it("follows draft → recruiting → testing → checking → in_review → published, with cancel before published", () => {
@@ -31,9 +32,26 @@ describe("study lifecycle rules", () => {
     expect(checkTransition("draft", "testing", { materials: 1, acceptedLabs: 8 }).allowed).toBe(false);
   });
 
-  it("allows results only while testing, setup only before, invitations while recruiting", () => {
-    expect(STUDY_STATES.filter(resultsEditable)).toEqual(["testing"]);
-    expect(STUDY_STATES.filter(setupEditable)).toEqual(["draft", "recruiting"]);
-    expect(STUDY_STATES.filter(invitationsOpen)).toEqual(["recruiting"]);
+  it("never moves a study back to testing, and leaves review moves to the statement page", () => {
+    for (const state of STUDY_STATES.filter((s) => s !== "recruiting")) expect(allowedNextStates(state)).not.toContain("testing");
+    expect(allowedNextStates("in_review", "setup")).toEqual(["cancelled"]);
+    expect(allowedNextStates("checking", "setup")).toEqual(["cancelled"]);
+    expect(moveOwner("checking", "in_review")).toBe("statement");
+    expect(moveOwner("in_review", "checking")).toBe("statement");
+    expect(moveOwner("in_review", "published")).toBe("statement");
+  });
+
+  it("allows results only while testing, design only before, invitations while recruiting", () => {
+    expect(STUDY_STATES.filter((s) => mayWrite("results", s))).toEqual(["testing"]);
+    expect(STUDY_STATES.filter((s) => mayWrite("design", s))).toEqual(["draft", "recruiting"]);
+    expect(STUDY_STATES.filter((s) => mayWrite("invitations", s))).toEqual(["recruiting"]);
+    expect(writeRefusal("design", "testing")).toBe("Replicates, responses and materials are fixed once testing starts.");
+  });
+
+  it("refuses every kind of write once a study is published or cancelled", () => {
+    for (const kind of Object.keys(WRITE_RULES) as WriteKind[]) {
+      expect(writeRefusal(kind, "published")).toMatch(/read-only/);
+      expect(writeRefusal(kind, "cancelled")).toMatch(/cancelled/);
+    }
   });
 });

@@ -9,20 +9,39 @@ export const MIN_LABS_FOR_TESTING = 3;
 /** Below this many labs a precision statement is usually not written (common practice: E691 asks for at least 6). */
 export const RECOMMENDED_MIN_LABS = 6;
 
-const NEXT: Record<StudyState, StudyState[]> = {
-  draft: ["recruiting", "cancelled"],
-  recruiting: ["draft", "testing", "cancelled"],
-  // Checking can send the study back to testing, so labs may amend after a query.
-  testing: ["checking", "cancelled"],
-  checking: ["testing", "in_review", "cancelled"],
-  in_review: ["checking", "published", "cancelled"],
-  published: [],
-  cancelled: [],
+/**
+ * The page that owns each move. The setup page moves a study up to checking
+ * and may cancel it; only the statement page sends it to the committee, takes
+ * it back to checking (a returned statement) or publishes it, each together
+ * with the statement and the round. Nothing moves a study back to testing:
+ * corrections after testing go through correction queries.
+ */
+export type MoveOwner = "setup" | "statement";
+
+const NEXT: Record<StudyState, Partial<Record<StudyState, MoveOwner>>> = {
+  draft: { recruiting: "setup", cancelled: "setup" },
+  recruiting: { draft: "setup", testing: "setup", cancelled: "setup" },
+  testing: { checking: "setup", cancelled: "setup" },
+  checking: { in_review: "statement", cancelled: "setup" },
+  in_review: { checking: "statement", published: "statement", cancelled: "setup" },
+  published: {},
+  cancelled: {},
 };
 
-export function allowedNextStates(from: StudyState): StudyState[] {
-  return NEXT[from];
+export function allowedNextStates(from: StudyState, owner?: MoveOwner): StudyState[] {
+  return (Object.entries(NEXT[from]) as [StudyState, MoveOwner][]).filter(([, by]) => !owner || by === owner).map(([to]) => to);
 }
+
+/** What happens on each move, for the confirmation a person reads before it. */
+export const MOVE_CONSEQUENCES: Partial<Record<StudyState, string>> = {
+  recruiting: "Labs can then be invited. Responses and materials stay editable until testing starts.",
+  draft: "Recruiting stops; open invitations stay valid.",
+  testing: "Replicates per cell, responses, materials and the protocol become fixed. Labs can enter results.",
+  checking: "Labs can no longer enter or change results, except through a correction query on a named cell.",
+  in_review: "The statement and its figures are frozen for the committee. The reviewers of this round are fixed and e-mailed.",
+  published: "The study and its statement become read-only for good.",
+  cancelled: "The study becomes read-only for good. Any open committee round is closed.",
+};
 
 /** What the rules need to know about the study. */
 export type TransitionFacts = { materials: number; acceptedLabs: number };
@@ -32,7 +51,7 @@ export type TransitionCheck = { allowed: boolean; problems: string[]; warnings: 
 export function checkTransition(from: StudyState, to: StudyState, facts: TransitionFacts): TransitionCheck {
   const problems: string[] = [];
   const warnings: string[] = [];
-  if (!NEXT[from].includes(to)) {
+  if (!NEXT[from][to]) {
     problems.push(`A study cannot go from ${from.replace("_", " ")} to ${to.replace("_", " ")}.`);
   }
   if (to === "testing" && from === "recruiting") {
@@ -49,17 +68,6 @@ export function checkTransition(from: StudyState, to: StudyState, facts: Transit
   return { allowed: problems.length === 0, problems, warnings };
 }
 
-/** Labs enter and change results only while the study is testing. */
-export function resultsEditable(state: StudyState) {
-  return state === "testing";
-}
-
-/** Setup (responses, materials, mixture designs) may change until testing starts. */
-export function setupEditable(state: StudyState) {
-  return state === "draft" || state === "recruiting";
-}
-
-/** Labs are invited while the study is recruiting. */
-export function invitationsOpen(state: StudyState) {
-  return state === "recruiting";
+export function moveOwner(from: StudyState, to: StudyState): MoveOwner | null {
+  return NEXT[from][to] ?? null;
 }

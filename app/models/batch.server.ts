@@ -5,11 +5,11 @@
  */
 import { and, asc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { batches, freshPropertyTargets, materials, mixtureConstituents, studies } from "~/db/schema";
+import { batches, cells, freshPropertyTargets, materials, mixtureConstituents, studies } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { checkTolerance, mixtureDesignSchema } from "~/lib/batching";
 import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
-import { assertResultsEditable, type Enrollment } from "~/models/results.server";
+import { assertResultsEditable, correctionQueryFor, type Enrollment, ResultsError } from "~/models/results.server";
 
 type ConstituentRow = typeof mixtureConstituents.$inferSelect;
 
@@ -70,7 +70,30 @@ export async function freshTargets(studyId: number) {
 }
 
 export type FreshInput = Partial<Record<FreshProperty, string>> & { batchedAt?: string };
-export type FreshProblems = Partial<Record<FreshProperty | "batchedAt", string>>;
+export type FreshProblems = Partial<Record<FreshProperty | "batchedAt" | "reason", string>>;
+
+/**
+ * Whether the material's results are submitted: its fresh properties then
+ * change only as an amendment with a reason, like the results — while testing,
+ * or after it with a correction query open on one of the material's cells.
+ */
+async function freshAmendmentState(study: typeof studies.$inferSelect, enrollment: Enrollment, materialId: number) {
+  const materialCells = await db.select().from(cells).where(and(eq(cells.enrollmentId, enrollment.id), eq(cells.materialId, materialId)));
+  const submitted = materialCells.some((c) => c.status === "submitted");
+  if (!submitted) {
+    assertResultsEditable(study, enrollment);
+    return { submitted, queryId: null };
+  }
+  assertResultsEditable(study, enrollment, "corrections");
+  for (const cell of materialCells) {
+    const queryId = await correctionQueryFor(study, cell.id).catch((error: unknown) => {
+      if (error instanceof ResultsError) return undefined;
+      throw error;
+    });
+    if (queryId !== undefined) return { submitted, queryId };
+  }
+  throw new ResultsError("Testing is over: fresh properties can be corrected only while a correction query on this material is open.");
+}
 
 const DATE_TIME = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/;
 
@@ -79,9 +102,10 @@ const DATE_TIME = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/;
  * stored and named in the problems; a reading out of the study's tolerance is
  * saved (the coordinator sees the mark), never dropped.
  */
-export async function saveFreshProperties(enrollment: Enrollment, materialId: number, input: FreshInput, user: { id: number }) {
+export async function saveFreshProperties(enrollment: Enrollment, materialId: number, input: FreshInput, user: { id: number }, amendment: { reason?: string } = {}) {
   const study = await db.query.studies.findFirst({ where: eq(studies.id, enrollment.studyId) });
-  assertResultsEditable(study!, enrollment);
+  const { submitted, queryId } = await freshAmendmentState(study!, enrollment, materialId);
+  const reason = amendment.reason?.trim() ?? "";
   const targets = await freshTargets(enrollment.studyId);
   const problems: FreshProblems = {};
   const fields: Partial<typeof batches.$inferInsert> = {};
@@ -98,7 +122,8 @@ export async function saveFreshProperties(enrollment: Enrollment, materialId: nu
   }
   const before = await getBatch(enrollment.id, materialId);
   const changed = Object.entries(fields).some(([key, value]) => (before as Record<string, unknown> | null)?.[key] !== value && !(before === null && value === null));
-  if (changed) {
+  if (changed && submitted && reason.length < 5) problems.reason = "The results of this material are submitted: give the reason for the change (at least 5 characters).";
+  if (changed && !problems.reason) {
     await db.transaction(async (tx) => {
       await tx
         .insert(batches)
@@ -107,12 +132,13 @@ export async function saveFreshProperties(enrollment: Enrollment, materialId: nu
       await recordAudit(
         {
           actorUserId: user.id,
-          action: "batch.fresh_properties_saved",
+          action: submitted ? "batch.fresh_properties_amended" : "batch.fresh_properties_saved",
           entityType: "enrollment",
           entityId: enrollment.id,
           studyId: enrollment.studyId,
           before: before && Object.fromEntries(Object.keys(fields).map((k) => [k, (before as Record<string, unknown>)[k]])),
-          after: fields,
+          after: queryId ? { ...fields, queryId } : fields,
+          reason: submitted ? reason : null,
         },
         tx,
       );

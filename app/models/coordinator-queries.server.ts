@@ -9,7 +9,7 @@ import { cells, enrollments, labMembers, labs, materials, queries, responses, us
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import type { CellRef } from "~/lib/review/cells";
-import { queryRefusal } from "~/lib/review/write-rules";
+import { writeRefusal } from "~/lib/write-rules";
 import { findCellId } from "~/models/decisions.server";
 import { FieldRefusal } from "~/lib/field-refusal";
 
@@ -21,18 +21,22 @@ export class QueryError extends FieldRefusal {
   }
 }
 
-export type RaiseQueryInput = CellRef & { statistic: string; question: string };
+export type RaiseQueryInput = CellRef & { statistic: string; question: string; asksCorrection?: boolean };
 
-/** Raises a query on a cell and e-mails every member of the lab. */
+/**
+ * Raises a query on a cell and e-mails every member of the lab. A query that
+ * asks for a correction lets the lab amend that one cell, with its reason,
+ * until the query is closed — even after testing; nothing else reopens.
+ */
 export async function raiseQuery(study: Study, actorUserId: number, input: RaiseQueryInput, request: Request | null) {
-  const refusal = queryRefusal(study.state);
+  const refusal = writeRefusal("queries", study.state);
   if (refusal) throw new QueryError(refusal);
   const cellId = await findCellId(study.id, input);
   if (cellId === null) throw new QueryError(`Lab ${input.lab} has no ${input.response} results for material ${input.material}.`);
   const query = await db.transaction(async (tx) => {
-    const [row] = await tx.insert(queries).values({ cellId, raisedBy: actorUserId, statistic: input.statistic, question: input.question }).returning();
+    const [row] = await tx.insert(queries).values({ cellId, raisedBy: actorUserId, statistic: input.statistic, question: input.question, asksCorrection: input.asksCorrection ?? false }).returning();
     await recordAudit(
-      { actorUserId, action: "query.raised", entityType: "query", entityId: row!.id, studyId: study.id, after: { lab: input.lab, material: input.material, response: input.response, statistic: input.statistic } },
+      { actorUserId, action: "query.raised", entityType: "query", entityId: row!.id, studyId: study.id, after: { lab: input.lab, material: input.material, response: input.response, statistic: input.statistic, asksCorrection: input.asksCorrection ?? false } },
       tx,
     );
     return row!;
@@ -54,6 +58,7 @@ export async function raiseQuery(study: Study, actorUserId: number, input: Raise
           `The coordinator of ${study.code} has a question about your lab's results for material ${input.material}, response ${input.response}.`,
           input.question,
           ...(input.statistic ? [`What prompted it: ${input.statistic}.`] : []),
+          ...(input.asksCorrection ? ["If a recording error is confirmed, you may amend this cell, with the reason, on its result entry page until the query is closed."] : []),
           "Nothing has been removed from the study; your answer helps decide whether the results stand.",
         ],
         action: { label: "Answer the query", url: appUrl(request, "/lab/queries") },
@@ -75,6 +80,7 @@ export async function listStudyQueries(studyId: number) {
       response: responses.key,
       statistic: queries.statistic,
       question: queries.question,
+      asksCorrection: queries.asksCorrection,
       state: queries.state,
       answer: queries.answer,
       createdAt: queries.createdAt,
@@ -95,7 +101,7 @@ export async function listStudyQueries(studyId: number) {
 
 /** Closes a query of this study; a query of another study is reported as missing. */
 export async function closeQuery(study: Study, actorUserId: number, queryId: number) {
-  const refusal = queryRefusal(study.state);
+  const refusal = writeRefusal("queries", study.state);
   if (refusal) throw new QueryError(refusal);
   const [found] = await db
     .select({ id: queries.id, state: queries.state })

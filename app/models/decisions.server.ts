@@ -9,7 +9,7 @@ import { db } from "~/db/client.server";
 import { auditEvents, cellDecisions, cells, enrollments, materials, responses, results, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import type { CellRef } from "~/lib/review/cells";
-import { decisionRefusal } from "~/lib/review/write-rules";
+import { writeRefusal } from "~/lib/write-rules";
 import { bumpDataVersion } from "~/models/analysis.server";
 import { FieldRefusal } from "~/lib/field-refusal";
 
@@ -61,7 +61,7 @@ export type CellDecisionInput = CellRef & { decision: "retained" | "excluded"; r
 
 /** Records (or changes) the decision on one cell. Throws DecisionError with a message for the page. */
 export async function saveCellDecision(study: Study, actorUserId: number, input: CellDecisionInput) {
-  const refusal = decisionRefusal(study.state);
+  const refusal = writeRefusal("decisions", study.state);
   if (refusal) throw new DecisionError(refusal);
   const cellId = await findCellId(study.id, input);
   if (cellId === null) throw new DecisionError(`Lab ${input.lab} has no ${input.response} results for material ${input.material}.`);

@@ -12,7 +12,7 @@ import { appUrl, sendEmail } from "~/server/email.server";
 import { invitationEmail } from "~/lib/email-templates";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { drawLabCode } from "~/server/lab-codes.server";
-import { invitationsOpen } from "~/lib/study-lifecycle";
+import { writeRefusal } from "~/lib/write-rules";
 import { bumpDataVersion } from "~/models/analysis.server";
 import type { SessionUser } from "~/models/user.server";
 import { hashPassword, normaliseEmail } from "~/models/user.server";
@@ -30,7 +30,8 @@ export function invitationPath(token: string, studyId: number) {
 
 /** Invites a lab of the directory: enrollment `invited`, a fresh token, an e-mail to the lab's contact. */
 export async function inviteLab(study: Study, labId: number, actorUserId: number, request: Request | null) {
-  if (!invitationsOpen(study.state)) throw new InvitationError("labId", "Labs can be invited only while the study is recruiting.");
+  const refusal = writeRefusal("invitations", study.state);
+  if (refusal) throw new InvitationError("labId", refusal);
   const lab = await db.query.labs.findFirst({ where: eq(labs.id, labId) });
   if (!lab) throw new InvitationError("labId", "Choose a lab from the directory.");
   if (!lab.contactEmail) throw new InvitationError("labId", "This lab has no contact e-mail; ask an administrator to add one.");
@@ -140,9 +141,6 @@ export async function declineInvitation(found: Valid, actorUserId: number | null
   });
 }
 
-/** Study states in which a lab may be withdrawn: before the statement is frozen for review. */
-export const WITHDRAWAL_STATES: readonly Study["state"][] = ["recruiting", "testing", "checking"];
-
 /**
  * Withdraws an invited or enrolled lab with the coordinator's reason. Its
  * pending invitation stops working, it can no longer change results, and its
@@ -150,7 +148,8 @@ export const WITHDRAWAL_STATES: readonly Study["state"][] = ["recruiting", "test
  * moves on in the same transaction.
  */
 export async function withdrawEnrollment(study: Study, enrollmentId: number, reason: string, actorUserId: number) {
-  if (!WITHDRAWAL_STATES.includes(study.state)) throw new InvitationError("reason", "A lab can be withdrawn only while the study is recruiting, testing or being checked.");
+  const refusal = writeRefusal("withdrawals", study.state);
+  if (refusal) throw new InvitationError("reason", refusal);
   await db.transaction(async (tx) => {
     const enrollment = await tx.query.enrollments.findFirst({ where: and(eq(enrollments.id, enrollmentId), eq(enrollments.studyId, study.id)) });
     if (!enrollment) throw new InvitationError("reason", "This lab is not in the study.");

@@ -7,11 +7,13 @@ import { db } from "~/db/client.server";
 import { cells, enrollments, materials, queries, responses, studies, studyCoordinators, users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
+import { enrollmentRefusal, writeRefusal } from "~/lib/write-rules";
 import type { Enrollment } from "~/models/results.server";
 
 const queryView = {
   id: queries.id,
   question: queries.question,
+  asksCorrection: queries.asksCorrection,
   statistic: queries.statistic,
   state: queries.state,
   answer: queries.answer,
@@ -48,6 +50,16 @@ export async function openQueriesOfMaterial(enrollment: Enrollment, materialId: 
   return fromQueries().where(and(eq(cells.enrollmentId, enrollment.id), eq(cells.materialId, materialId), eq(queries.state, "open")));
 }
 
+/** The lab's cells of one material that a correction query, not yet closed, lets the lab amend after testing (by response id). */
+export async function correctableResponses(enrollment: Enrollment, materialId: number) {
+  const rows = await db
+    .select({ responseId: cells.responseId })
+    .from(queries)
+    .innerJoin(cells, eq(cells.id, queries.cellId))
+    .where(and(eq(cells.enrollmentId, enrollment.id), eq(cells.materialId, materialId), eq(queries.asksCorrection, true), inArray(queries.state, ["open", "answered"])));
+  return [...new Set(rows.map((r) => r.responseId))];
+}
+
 export class QueryAnswerError extends Error {}
 
 /**
@@ -57,7 +69,7 @@ export class QueryAnswerError extends Error {}
 export async function answerQuery(queryId: number, labIds: number[], answer: string, user: { id: number; name: string }, request: Request | null) {
   const [found] = labIds.length
     ? await db
-        .select({ id: queries.id, state: queries.state, studyId: enrollments.studyId, studyCode: studies.code, ownerId: studies.ownerId, labCode: enrollments.labCode, materialCode: materials.code, responseName: responses.name })
+        .select({ id: queries.id, state: queries.state, studyState: studies.state, enrollmentState: enrollments.state, studyId: enrollments.studyId, studyCode: studies.code, ownerId: studies.ownerId, labCode: enrollments.labCode, materialCode: materials.code, responseName: responses.name })
         .from(queries)
         .innerJoin(cells, eq(cells.id, queries.cellId))
         .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
@@ -68,6 +80,8 @@ export async function answerQuery(queryId: number, labIds: number[], answer: str
     : [];
   if (!found) return null;
   if (found.state === "closed") throw new QueryAnswerError("This query is closed; the coordinator no longer needs an answer.");
+  const refusal = writeRefusal("queryAnswers", found.studyState) ?? enrollmentRefusal(found.enrollmentState);
+  if (refusal) throw new QueryAnswerError(refusal);
   await db.transaction(async (tx) => {
     await tx.update(queries).set({ answer, state: "answered", answeredBy: user.id, answeredAt: new Date() }).where(eq(queries.id, queryId));
     await recordAudit({ actorUserId: user.id, action: "query.answered", entityType: "query", entityId: queryId, studyId: found.studyId, after: { answer } }, tx);

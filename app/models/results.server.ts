@@ -10,8 +10,8 @@ import { amendments, auditEvents, batches, cells, enrollments, labs, materials, 
 import { recordAudit } from "~/server/audit.server";
 import { cellKey, type ResolvedRow, resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { cellStatusOf } from "~/lib/cell-status";
-import { checkResultValue } from "~/lib/results/values";
-import { STATE_LABEL } from "~/lib/state-labels";
+import { checkResultValue, outsidePlausibleRange } from "~/lib/results/values";
+import { enrollmentRefusal, writeRefusal } from "~/lib/write-rules";
 import { IMAGE_TYPES, storeUpload } from "~/server/uploads.server";
 import { bumpDataVersion } from "~/models/analysis.server";
 
@@ -21,13 +21,27 @@ type Actor = { id: number };
 /** A refusal with a message for the person, shown beside the form. */
 export class ResultsError extends Error {}
 
-/** The one place that says when a lab's results may change: the study in testing, and the lab still in it. */
-export function assertResultsEditable(study: Pick<Study, "state">, enrollment: Pick<Enrollment, "state">) {
-  if (study.state !== "testing") {
-    throw new ResultsError(`Results can be changed only while the study is in testing; it is now “${STATE_LABEL[study.state]}”.`);
-  }
-  if (enrollment.state === "withdrawn") throw new ResultsError("Your lab was withdrawn from this study; its results can no longer change.");
-  if (enrollment.state !== "accepted") throw new ResultsError("Your lab has not accepted this study.");
+/** When a lab's results may change (~/lib/write-rules): the study's state allows it, and the lab is still in it. */
+export function assertResultsEditable(study: Pick<Study, "state">, enrollment: Pick<Enrollment, "state">, kind: "results" | "corrections" = "results") {
+  const refusal = writeRefusal(kind, study.state) ?? enrollmentRefusal(enrollment.state);
+  if (refusal) throw new ResultsError(refusal);
+}
+
+/**
+ * The correction query that lets a lab amend a submitted cell after testing:
+ * raised by the coordinator asking for a correction, and not yet closed.
+ * While testing no query is needed (null); after testing without one, refused.
+ */
+export async function correctionQueryFor(study: Pick<Study, "state">, cellId: number): Promise<number | null> {
+  if (study.state === "testing") return null;
+  const [open] = await db
+    .select({ id: queries.id })
+    .from(queries)
+    .where(and(eq(queries.cellId, cellId), eq(queries.asksCorrection, true), inArray(queries.state, ["open", "answered"])))
+    .orderBy(desc(queries.id))
+    .limit(1);
+  if (!open) throw new ResultsError("Testing is over: a submitted result can be corrected only while the coordinator's correction query on this cell is open.");
+  return open.id;
 }
 
 export type { ResultInputRow, RowField, RowProblem } from "~/lib/results/rows";
@@ -41,6 +55,16 @@ async function studyFrame(studyId: number) {
   if (!study) throw new ResultsError("The study no longer exists.");
   return { study, materials: studyMaterials, responses: studyResponses };
 }
+
+/** The first day the lab received materials of the study; tests are not dated before it. */
+export async function receivedOnOf(enrollmentId: number) {
+  const received = await db
+    .select({ on: shipments.receivedOn })
+    .from(shipments)
+    .where(and(eq(shipments.enrollmentId, enrollmentId), eq(shipments.status, "received")))
+    .orderBy(asc(shipments.receivedOn));
+  return received[0]?.on ?? null;
+}
 type StudyFrame = Awaited<ReturnType<typeof studyFrame>>;
 
 async function enrollmentCells(executor: Pick<typeof db, "select">, enrollmentId: number) {
@@ -49,19 +73,46 @@ async function enrollmentCells(executor: Pick<typeof db, "select">, enrollmentId
 }
 
 /** Checks rows against the study and the lab's cells; rows with a problem are left out of `resolved`. */
-function resolveRows(frame: StudyFrame, existingCells: Map<string, typeof cells.$inferSelect>, rows: ResultInputRow[], options: { valueRequired: boolean }) {
+function resolveRows(frame: StudyFrame & { receivedOn: string | null }, existingCells: Map<string, typeof cells.$inferSelect>, rows: ResultInputRow[], options: { valueRequired: boolean }) {
   const submittedCells = new Set([...existingCells].filter(([, c]) => c.status === "submitted").map(([key]) => key));
   return resolveResultRows(
-    { replicatesPerCell: frame.study.replicatesPerCell, materials: frame.materials, responses: frame.responses, submittedCells, studyEnd: frame.study.resultsDue },
+    {
+      replicatesPerCell: frame.study.replicatesPerCell,
+      materials: frame.materials,
+      responses: frame.responses,
+      submittedCells,
+      receivedOn: frame.receivedOn,
+      studyEnd: frame.study.resultsDue,
+    },
     rows,
     options,
   );
 }
 
+async function entryFrame(enrollment: Enrollment) {
+  const [frame, receivedOn] = await Promise.all([studyFrame(enrollment.studyId), receivedOnOf(enrollment.id)]);
+  return { ...frame, receivedOn };
+}
+
 type Change = { material: string; response: string; replicate: number; before: number | null; after: number | null };
 
-/** Writes resolved rows (an empty value clears a draft replicate); returns what actually changed. */
-async function writeRows(tx: Transaction, enrollment: Enrollment, rows: ResolvedRow[]) {
+/** A draft save that found the replicate changed by someone else since it was read: nothing of it was written. */
+export type DraftConflict = { row: number; material: string; response: string; replicate: number; theirValue: number | null; by: string; yourValue: number | null; message: string };
+
+function conflictMessage(row: ResolvedRow, responseName: string, theirValue: number | null, by: string) {
+  const where = `${row.materialCode}, ${responseName.toLowerCase()}, replicate ${row.replicate}`;
+  const theirs = theirValue === null ? "cleared it" : `saved ${theirValue}`;
+  const yours = row.value === null ? "clearing it" : `your ${row.value}`;
+  return `${where}: ${by} ${theirs} after you opened the page, so ${yours} was not saved. The page now shows their value; enter yours again if it is the right one.`;
+}
+
+/**
+ * Writes resolved rows (an empty value clears a draft replicate); returns what
+ * actually changed. A row that names the version it read is written only if
+ * the stored replicate is still at that version; otherwise it is returned as
+ * a conflict with the other person's value, and nothing of it is written.
+ */
+async function writeRows(tx: Transaction, enrollment: Enrollment, rows: ResolvedRow[], user: Actor, responseNames: Map<number, string> = new Map()) {
   let cellByKey = await enrollmentCells(tx, enrollment.id);
   const missing = [...new Set(rows.filter((r) => r.value !== null).map((r) => cellKey(r.materialId, r.responseId)))].filter((k) => !cellByKey.has(k));
   if (missing.length > 0) {
@@ -76,22 +127,28 @@ async function writeRows(tx: Transaction, enrollment: Enrollment, rows: Resolved
   const storedByKey = new Map(stored.map((r) => [`${r.cellId}:${r.replicate}`, r]));
 
   const changes: Change[] = [];
+  const conflicts: DraftConflict[] = [];
   const touchedCells = new Set<number>();
   for (const row of rows) {
     const cell = cellByKey.get(cellKey(row.materialId, row.responseId));
-    if (!cell) continue; // clearing a replicate that was never stored
-    const before = storedByKey.get(`${cell.id}:${row.replicate}`);
+    const before = cell && storedByKey.get(`${cell.id}:${row.replicate}`);
+    const unchanged = before ? before.value === row.value && before.testedOn === row.testedOn && before.operator === row.operator : row.value === null;
+    if (unchanged) continue;
+    if (row.readVersion !== undefined && row.readVersion !== (before?.version ?? 0)) {
+      const by = before?.updatedBy ? ((await tx.query.users.findFirst({ where: eq(users.id, before.updatedBy), columns: { name: true } }))?.name ?? "someone") : "someone";
+      const theirValue = before?.value ?? null;
+      conflicts.push({ row: row.row, material: row.materialCode, response: row.responseKey, replicate: row.replicate, theirValue, by, yourValue: row.value, message: conflictMessage(row, responseNames.get(row.responseId) ?? row.responseKey, theirValue, by) });
+      continue;
+    }
+    if (!cell || (row.value === null && !before)) continue;
     if (row.value === null) {
-      if (!before) continue;
-      await tx.delete(results).where(eq(results.id, before.id));
+      await tx.delete(results).where(eq(results.id, before!.id));
     } else {
-      const unchanged = before && before.value === row.value && before.testedOn === row.testedOn && before.operator === row.operator;
-      if (unchanged) continue;
-      const fields = { value: row.value, testedOn: row.testedOn, operator: row.operator, updatedAt: new Date() };
+      const fields = { value: row.value, testedOn: row.testedOn, operator: row.operator, updatedAt: new Date(), updatedBy: user.id };
       await tx
         .insert(results)
         .values({ cellId: cell.id, replicate: row.replicate, ...fields })
-        .onConflictDoUpdate({ target: [results.cellId, results.replicate], set: fields });
+        .onConflictDoUpdate({ target: [results.cellId, results.replicate], set: { ...fields, version: sql`${results.version} + 1` } });
     }
     touchedCells.add(cell.id);
     changes.push({ material: row.materialCode, response: row.responseKey, replicate: row.replicate, before: before?.value ?? null, after: row.value });
@@ -100,7 +157,7 @@ async function writeRows(tx: Transaction, enrollment: Enrollment, rows: Resolved
     await tx.update(cells).set({ version: sql`${cells.version} + 1` }).where(inArray(cells.id, [...touchedCells]));
     await bumpDataVersion(tx, enrollment.studyId);
   }
-  return changes;
+  return { changes, conflicts };
 }
 
 const changeTrail = (changes: Change[]) => ({
@@ -108,7 +165,7 @@ const changeTrail = (changes: Change[]) => ({
   after: changes.map(({ after, ...where }) => ({ ...where, value: after })),
 });
 
-export type DraftSaveOutcome = { saved: number; problems: RowProblem[] };
+export type DraftSaveOutcome = { saved: number; problems: RowProblem[]; conflicts: DraftConflict[] };
 
 /**
  * Saves draft results; saving the same rows twice changes nothing. Rows with
@@ -116,18 +173,18 @@ export type DraftSaveOutcome = { saved: number; problems: RowProblem[] };
  * are saved, so a half-typed form never blocks the fields already right.
  */
 export async function saveDraftResults(enrollment: Enrollment, rows: ResultInputRow[], user: Actor): Promise<DraftSaveOutcome> {
-  const frame = await studyFrame(enrollment.studyId);
+  const frame = await entryFrame(enrollment);
   assertResultsEditable(frame.study, enrollment);
   return db.transaction(async (tx) => {
     const { problems, resolved } = resolveRows(frame, await enrollmentCells(tx, enrollment.id), rows, { valueRequired: false });
-    const changes = await writeRows(tx, enrollment, resolved);
+    const { changes, conflicts } = await writeRows(tx, enrollment, resolved, user, new Map(frame.responses.map((r) => [r.id, r.name])));
     if (changes.length > 0) {
       await recordAudit(
         { actorUserId: user.id, action: "results.draft_saved", entityType: "enrollment", entityId: enrollment.id, studyId: enrollment.studyId, ...changeTrail(changes) },
         tx,
       );
     }
-    return { saved: changes.length, problems };
+    return { saved: changes.length, problems, conflicts };
   });
 }
 
@@ -139,13 +196,13 @@ export type ImportOutcome = { ok: true; imported: number; changed: number } | { 
  * records nothing.
  */
 export async function importResults(enrollment: Enrollment, rows: ResultInputRow[], user: Actor, fileName = ""): Promise<ImportOutcome> {
-  const frame = await studyFrame(enrollment.studyId);
+  const frame = await entryFrame(enrollment);
   assertResultsEditable(frame.study, enrollment);
   if (rows.length === 0) return { ok: false, problems: [{ row: 1, field: "value", message: "The file has no result rows." }] };
   return db.transaction(async (tx) => {
     const { problems, resolved } = resolveRows(frame, await enrollmentCells(tx, enrollment.id), rows, { valueRequired: true });
     if (problems.length > 0) return { ok: false as const, problems };
-    const changes = await writeRows(tx, enrollment, resolved);
+    const { changes } = await writeRows(tx, enrollment, resolved, user);
     if (changes.length === 0) return { ok: true as const, imported: rows.length, changed: 0 };
     await recordAudit(
       {
@@ -196,8 +253,20 @@ export async function materialEntry(enrollment: Enrollment, materialId: number) 
   };
 }
 
-/** Submits every response of one material: each needs all its replicates, a test date and an operator. */
-export async function submitMaterial(enrollment: Enrollment, materialId: number, user: Actor): Promise<{ ok: true } | { ok: false; problems: string[] }> {
+/** A stored value outside its response's plausible range, listed for the person to confirm before submitting. */
+export type UnusualValue = { response: string; replicate: number; value: number; range: string };
+
+export type SubmitOutcome = { ok: true } | { ok: false; problems: string[]; unusual?: UnusualValue[] };
+
+const rangeText = (r: { plausibleMin: number | null; plausibleMax: number | null; unit: string }) => `${r.plausibleMin ?? "…"} to ${r.plausibleMax ?? "…"}${r.unit ? ` ${r.unit}` : ""}`;
+
+/**
+ * Submits every response of one material: each needs all its replicates, a
+ * test date and an operator. A value outside its plausible range is
+ * submitted only with `confirmedUnusual`; otherwise the values are listed
+ * back for a second look and nothing is submitted.
+ */
+export async function submitMaterial(enrollment: Enrollment, materialId: number, user: Actor, { confirmedUnusual = false } = {}): Promise<SubmitOutcome> {
   const frame = await studyFrame(enrollment.studyId);
   assertResultsEditable(frame.study, enrollment);
   const material = frame.materials.find((m) => m.id === materialId);
@@ -206,6 +275,7 @@ export async function submitMaterial(enrollment: Enrollment, materialId: number,
     const cellByKey = await enrollmentCells(tx, enrollment.id);
     const problems: string[] = [];
     const toSubmit: { cellId: number; values: number[] }[] = [];
+    const unusual: UnusualValue[] = [];
     for (const response of frame.responses) {
       const cell = cellByKey.get(cellKey(material.id, response.id));
       if (cell?.status === "submitted") continue;
@@ -214,11 +284,15 @@ export async function submitMaterial(enrollment: Enrollment, materialId: number,
         const result = stored.find((r) => r.replicate === replicate);
         if (!result) problems.push(`${response.name}, replicate ${replicate}: no value yet.`);
         else if (!result.testedOn || !result.operator) problems.push(`${response.name}, replicate ${replicate}: enter the test date and the operator.`);
+        if (result && outsidePlausibleRange(response, result.value)) unusual.push({ response: response.name, replicate, value: result.value, range: rangeText(response) });
       }
       if (cell) toSubmit.push({ cellId: cell.id, values: stored.map((r) => r.value) });
     }
     if (problems.length > 0) return { ok: false as const, problems };
     if (toSubmit.length === 0) return { ok: false as const, problems: [`${material.code} is already submitted.`] };
+    if (unusual.length > 0 && !confirmedUnusual) {
+      return { ok: false as const, problems: ["Some values are outside their plausible range: check them, then confirm to submit."], unusual };
+    }
     const now = new Date();
     await tx
       .update(cells)
@@ -232,7 +306,7 @@ export async function submitMaterial(enrollment: Enrollment, materialId: number,
         entityType: "enrollment",
         entityId: enrollment.id,
         studyId: enrollment.studyId,
-        after: { material: material.code, cells: toSubmit },
+        after: { material: material.code, cells: toSubmit, ...(unusual.length ? { confirmedUnusual: unusual } : {}) },
       },
       tx,
     );
@@ -240,17 +314,20 @@ export async function submitMaterial(enrollment: Enrollment, materialId: number,
   });
 }
 
-export type AmendmentInput = { responseId: number; replicate: number; value: string; reason: string; expectedVersion: number };
-export type AmendmentOutcome = { ok: true } | { ok: false; field: "value" | "reason" | "form"; message: string };
+export type AmendmentInput = { responseId: number; replicate: number; value: string; reason: string; expectedVersion: number; confirmedUnusual?: boolean };
+export type AmendmentOutcome = { ok: true } | { ok: false; field: "value" | "reason" | "form"; message: string; unusual?: true };
 
 /**
- * Changes one submitted replicate. The cell's version must still be the one
- * the analyst saw: if someone changed it meanwhile, nothing is overwritten
- * and the analyst is told to reload.
+ * Changes one submitted replicate, with its reason. While testing, any
+ * submitted cell; after testing, only a cell with an open correction query,
+ * which the amendment names. The cell's version must still be the one the
+ * analyst saw: if someone changed it meanwhile, nothing is overwritten and
+ * the analyst is told to reload. A value outside the plausible range needs
+ * `confirmedUnusual`.
  */
 export async function amendResult(enrollment: Enrollment, materialId: number, input: AmendmentInput, user: Actor): Promise<AmendmentOutcome> {
   const frame = await studyFrame(enrollment.studyId);
-  assertResultsEditable(frame.study, enrollment);
+  assertResultsEditable(frame.study, enrollment, "corrections");
   const response = frame.responses.find((r) => r.id === input.responseId);
   const material = frame.materials.find((m) => m.id === materialId);
   if (!response || !material) throw new ResultsError("The study has no such material or response.");
@@ -260,6 +337,11 @@ export async function amendResult(enrollment: Enrollment, materialId: number, in
   const check = checkResultValue(response, input.value);
   if (check.status === "empty") return { ok: false, field: "value", message: "Enter the corrected value." };
   if (check.status === "refused") return { ok: false, field: "value", message: check.message };
+  if (outsidePlausibleRange(response, check.value) && !input.confirmedUnusual) {
+    return { ok: false, field: "value", unusual: true, message: `${check.value} is outside the plausible ${rangeText(response)}. Check it, then confirm the amendment.` };
+  }
+  const existing = (await enrollmentCells(db, enrollment.id)).get(cellKey(materialId, response.id));
+  const queryId = existing ? await correctionQueryFor(frame.study, existing.id) : null;
   return db.transaction(async (tx) => {
     const cell = (await enrollmentCells(tx, enrollment.id)).get(cellKey(materialId, response.id));
     if (!cell || cell.status !== "submitted") return { ok: false as const, field: "form" as const, message: "Only submitted results are amended; edit a draft directly." };
@@ -278,12 +360,12 @@ export async function amendResult(enrollment: Enrollment, materialId: number, in
         message: "Someone changed this result after you opened the page. Reload to see the current value, then amend again if still needed.",
       };
     }
-    await tx.update(results).set({ value: check.value, updatedAt: new Date() }).where(eq(results.id, before.id));
-    await tx.insert(amendments).values({ cellId: cell.id, replicate: input.replicate, oldValue: before.value, newValue: check.value, reason, byUserId: user.id });
+    await tx.update(results).set({ value: check.value, updatedAt: new Date(), updatedBy: user.id, version: sql`${results.version} + 1` }).where(eq(results.id, before.id));
+    await tx.insert(amendments).values({ cellId: cell.id, replicate: input.replicate, oldValue: before.value, newValue: check.value, reason, queryId, byUserId: user.id });
     await bumpDataVersion(tx, enrollment.studyId);
     const where = { material: material.code, response: response.key, replicate: input.replicate };
     await recordAudit(
-      { actorUserId: user.id, action: "result.amended", entityType: "cell", entityId: cell.id, studyId: enrollment.studyId, before: { ...where, value: before.value }, after: { ...where, value: check.value }, reason },
+      { actorUserId: user.id, action: "result.amended", entityType: "cell", entityId: cell.id, studyId: enrollment.studyId, before: { ...where, value: before.value }, after: { ...where, value: check.value, ...(queryId ? { queryId } : {}) }, reason },
       tx,
     );
     return { ok: true as const };
@@ -444,5 +526,6 @@ export async function importFrame(enrollment: Enrollment) {
     materials: frame.materials.map((m) => ({ id: m.id, code: m.code })),
     responses: frame.responses.map((r) => ({ id: r.id, key: r.key, name: r.name, unit: r.unit, kind: r.kind, decimals: r.decimals, plausibleMin: r.plausibleMin, plausibleMax: r.plausibleMax })),
     submittedCells: [...labCells].filter(([, c]) => c.status === "submitted").map(([key]) => key),
+    receivedOn: await receivedOnOf(enrollment.id),
   };
 }

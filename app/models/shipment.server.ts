@@ -3,18 +3,26 @@
  * lost`. Marking one shipped e-mails the lab; the lab confirms receipt with the
  * condition, notes and an optional photo.
  */
-import { and, asc, desc, eq, inArray } from "drizzle-orm";
+import { and, asc, count, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { enrollments, labs, materials, mixtureConstituents, shipments, type Study } from "~/db/schema";
+import { cells, enrollments, labs, materials, mixtureConstituents, results, shipments, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { notFound } from "~/server/guards.server";
 import { appUrl, sendEmail } from "~/server/email.server";
 import { shipmentNoticeEmail } from "~/lib/email-templates";
 import { FieldRefusal } from "~/lib/field-refusal";
+import { todayIso } from "~/lib/format";
+import { receiptDateProblem } from "~/lib/plausible-dates";
+import { enrollmentRefusal, type WriteKind, writeRefusal } from "~/lib/write-rules";
 
 type Shipment = typeof shipments.$inferSelect;
 
 export class ShipmentError extends FieldRefusal {}
+
+function assertWritable(kind: WriteKind, study: Study, field = "form") {
+  const refusal = writeRefusal(kind, study.state);
+  if (refusal) throw new ShipmentError(field, refusal);
+}
 
 /** What goes in the box by default: each material with the lots of its constituents. */
 export async function defaultContents(studyId: number) {
@@ -52,6 +60,7 @@ async function shipmentOf(study: Study, shipmentId: number) {
 export type ShipmentInput = { enrollmentId: number; contents: string; carrier: string; trackingNumber: string };
 
 export async function createShipment(study: Study, input: ShipmentInput, actorUserId: number) {
+  assertWritable("shipments", study);
   await enrollmentOf(study, input.enrollmentId);
   return db.transaction(async (tx) => {
     const [row] = await tx.insert(shipments).values(input).returning();
@@ -76,7 +85,9 @@ export async function markShipped(
   actorUserId: number,
   request: Request | null,
 ) {
+  assertWritable("shipments", study);
   const shipment = await shipmentOf(study, input.shipmentId);
+  if (input.shippedOn > todayIso()) throw new ShipmentError("shippedOn", "The shipping date is in the future; mark the shipment shipped on the day it leaves.");
   const { shipmentId: _, ...change } = input;
   await moveShipment(study, shipment, ["preparing"], { ...change, status: "shipped" }, "shipment_shipped", actorUserId);
   const [lab] = await db
@@ -102,6 +113,7 @@ export async function markShipped(
 }
 
 export async function markLost(study: Study, shipmentId: number, actorUserId: number) {
+  assertWritable("shipments", study);
   const shipment = await shipmentOf(study, shipmentId);
   await moveShipment(study, shipment, ["preparing", "shipped"], { status: "lost" }, "shipment_lost", actorUserId);
 }
@@ -109,16 +121,41 @@ export async function markLost(study: Study, shipmentId: number, actorUserId: nu
 export type ReceiptInput = { shipmentId: number; receivedOn: string; condition: "good" | "damaged"; receiptNotes: string; photoAttachmentId: number | null };
 
 /**
- * The lab confirms a shipment of its own enrollment. Any other id, another
- * lab's shipment or one that does not exist, is the same 404, so a lab cannot
- * count the study's shipments or labs.
+ * The lab confirms a shipment of its own enrollment, or corrects its receipt
+ * until the lab records its first result (the test dates are checked against
+ * the date of receipt). Dates in the future or before the shipment left are
+ * refused; a correction keeps the earlier receipt in the audit trail. Any
+ * other id, another lab's shipment or one that does not exist, is the same
+ * 404, so a lab cannot count the study's shipments or labs.
  */
-export async function confirmReceipt(study: Study, enrollmentId: number, input: ReceiptInput, actorUserId: number) {
-  const shipment = await db.query.shipments.findFirst({ where: and(eq(shipments.id, input.shipmentId), eq(shipments.enrollmentId, enrollmentId)) });
+export async function confirmReceipt(study: Study, enrollment: Pick<typeof enrollments.$inferSelect, "id" | "state">, input: ReceiptInput, actorUserId: number) {
+  const shipment = await db.query.shipments.findFirst({ where: and(eq(shipments.id, input.shipmentId), eq(shipments.enrollmentId, enrollment.id)) });
   if (!shipment) notFound();
+  assertWritable("receipts", study);
+  const notEnrolled = enrollmentRefusal(enrollment.state);
+  if (notEnrolled) throw new ShipmentError("form", notEnrolled);
+  const dateProblem = receiptDateProblem(input.receivedOn, { shippedOn: shipment.shippedOn, today: todayIso() });
+  if (dateProblem) throw new ShipmentError("receivedOn", dateProblem);
   if (input.condition === "damaged" && !input.receiptNotes) throw new ShipmentError("receiptNotes", "Describe the damage so the coordinator can decide what to resend.");
   const { shipmentId: _, ...change } = input;
-  await moveShipment(study, shipment, ["shipped"], { ...change, status: "received" }, "shipment_received", actorUserId);
+  if (shipment.status !== "received") {
+    await moveShipment(study, shipment, ["shipped"], { ...change, status: "received" }, "shipment_received", actorUserId);
+    return "confirmed" as const;
+  }
+  if (await hasResults(enrollment.id)) throw new ShipmentError("form", "Your lab has recorded results; the receipt can no longer be corrected. Write to the coordinator instead.");
+  const correction = { ...change, photoAttachmentId: change.photoAttachmentId ?? shipment.photoAttachmentId };
+  await moveShipment(study, shipment, ["received"], correction, "shipment_receipt_corrected", actorUserId);
+  return "corrected" as const;
+}
+
+async function hasResults(enrollmentId: number) {
+  const [row] = await db.select({ n: count() }).from(results).innerJoin(cells, eq(cells.id, results.cellId)).where(eq(cells.enrollmentId, enrollmentId));
+  return (row?.n ?? 0) > 0;
+}
+
+/** Whether the lab may still correct a receipt: no result recorded yet. */
+export async function receiptCorrectable(study: Study, enrollmentId: number) {
+  return writeRefusal("receipts", study.state) === null && !(await hasResults(enrollmentId));
 }
 
 /** Every shipment of the study with its lab, newest first. */

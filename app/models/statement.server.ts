@@ -3,16 +3,16 @@
  * decisions, figures) with draft texts in the E691 and C670 forms, sent to
  * the committee, answered, and published.
  */
-import { and, asc, desc, eq, inArray, isNotNull } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNotNull, isNull } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
-import { enrollments, labs, materials, precisionStatements, responses, studyReviewers, users, votes, type Study } from "~/db/schema";
+import { enrollments, labs, materials, precisionStatements, responses, reviewRounds, roundReviewers, studyCoordinators, studyReviewers, users, votes, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
-import { publicationCheck } from "~/lib/review/publication";
-import { draftingRefusal, reviewRefusal } from "~/lib/review/write-rules";
+import { objectionStage, publicationCheck, QUORUM_SENTENCE } from "~/lib/review/publication";
+import { writeRefusal } from "~/lib/write-rules";
 import { c670Text, e691Text, type StatementSnapshot } from "~/lib/statement-text";
 import { studyAnalysis } from "~/models/analysis.server";
-import { transitionStudy } from "~/models/study-lifecycle.server";
+import { closeOpenRound, transitionStudy } from "~/models/study-lifecycle.server";
 import { FieldRefusal } from "~/lib/field-refusal";
 
 export type Statement = Omit<typeof precisionStatements.$inferSelect, "snapshot"> & { snapshot: StatementSnapshot };
@@ -60,7 +60,7 @@ export async function participatingLabs(studyId: number, analysis: StatementSnap
 
 /** Freezes the current analysis as a new statement version with generated draft texts. */
 export async function freezeStatement(study: Study, actorUserId: number) {
-  const refusal = draftingRefusal(study.state);
+  const refusal = writeRefusal("statements", study.state);
   if (refusal) throw new StatementError(refusal);
   const [analysis, design] = await Promise.all([studyAnalysis(study), studyDesign(study.id)]);
   if (!analysis.groups.some((g) => g.status === "computed")) throw new StatementError("No material has precision statistics yet; nothing to freeze.");
@@ -98,7 +98,7 @@ async function draftOf(study: Study, statementId: number) {
 
 /** Saves the coordinator's wording; the figures stay those of the snapshot. */
 export async function updateStatementText(study: Study, actorUserId: number, statementId: number, text: { textE691: string; textC670: string }) {
-  const refusal = draftingRefusal(study.state);
+  const refusal = writeRefusal("statements", study.state);
   if (refusal) throw new StatementError(refusal);
   const statement = await draftOf(study, statementId);
   if (!statement) return null;
@@ -109,17 +109,35 @@ export async function updateStatementText(study: Study, actorUserId: number, sta
   return statement;
 }
 
+/** The study's reviewers by name, for choosing the chair of a round. */
+export async function reviewersByName(studyId: number) {
+  return db
+    .select({ id: users.id, name: users.name })
+    .from(studyReviewers)
+    .innerJoin(users, eq(users.id, studyReviewers.userId))
+    .where(eq(studyReviewers.studyId, studyId))
+    .orderBy(asc(users.name));
+}
+
 export async function studyReviewerIds(studyId: number) {
   return (await db.select({ id: studyReviewers.userId }).from(studyReviewers).where(eq(studyReviewers.studyId, studyId))).map((r) => r.id);
 }
 
+/** The owner and co-coordinators of a study, who hear of each objection. */
+export async function coordinatorRecipients(study: Pick<Study, "id" | "ownerId">) {
+  const co = (await db.select({ id: studyCoordinators.userId }).from(studyCoordinators).where(eq(studyCoordinators.studyId, study.id))).map((c) => c.id);
+  return db.select({ email: users.email, name: users.name }).from(users).where(inArray(users.id, [study.ownerId, ...co]));
+}
+
 /**
  * Sends the latest draft to the committee: the study moves to in_review, the
- * version to in_review, and every assigned reviewer is e-mailed. Refused when
- * results or decisions changed after the snapshot was frozen.
+ * version to in_review and a round opens with the study's reviewers as they
+ * are now and the chosen chair, all in one transaction; every reviewer of the
+ * round is e-mailed. Refused when results or decisions changed after the
+ * snapshot was frozen.
  */
-export async function sendToReview(study: Study, actorUserId: number, statementId: number, request: Request | null) {
-  const refusal = draftingRefusal(study.state);
+export async function sendToReview(study: Study, actorUserId: number, statementId: number, chairId: number, request: Request | null) {
+  const refusal = writeRefusal("statements", study.state);
   if (refusal) throw new StatementError(refusal);
   const statement = await draftOf(study, statementId);
   if (!statement) return null;
@@ -128,14 +146,19 @@ export async function sendToReview(study: Study, actorUserId: number, statementI
   }
   const reviewerIds = await studyReviewerIds(study.id);
   if (reviewerIds.length === 0) throw new StatementError("No reviewer is assigned to this study.");
+  if (!reviewerIds.includes(chairId)) throw new StatementError("Choose the chair among the study’s reviewers.");
   const moved = await transitionStudy(study, "in_review", actorUserId, {
+    owner: "statement",
     alongside: async (tx) => {
       await tx.update(precisionStatements).set({ state: "in_review", sentAt: new Date() }).where(eq(precisionStatements.id, statementId));
-      await recordAudit({ actorUserId, action: "statement.sent", entityType: "precision_statement", entityId: statementId, studyId: study.id, after: { version: statement.version } }, tx);
+      const [round] = await tx.insert(reviewRounds).values({ statementId, chairId, openedBy: actorUserId }).returning();
+      await tx.insert(roundReviewers).values(reviewerIds.map((userId) => ({ roundId: round!.id, userId })));
+      await recordAudit({ actorUserId, action: "statement.sent", entityType: "precision_statement", entityId: statementId, studyId: study.id, after: { version: statement.version, reviewers: reviewerIds, chairId } }, tx);
     },
   });
   if (!moved.allowed) throw new StatementError(moved.problems.join(" "));
-  const reviewers = await db.select({ email: users.email, name: users.name }).from(users).where(inArray(users.id, reviewerIds));
+  const reviewers = await db.select({ id: users.id, email: users.email, name: users.name }).from(users).where(inArray(users.id, reviewerIds));
+  const chair = reviewers.find((r) => r.id === chairId)!;
   for (const reviewer of reviewers) {
     await sendEmail(
       composeEmail({
@@ -144,7 +167,8 @@ export async function sendToReview(study: Study, actorUserId: number, statementI
         greeting: `Hello ${reviewer.name},`,
         paragraphs: [
           `The coordinator of ${study.code} (${study.title}) has sent version ${statement.version} of the precision statement to the committee.`,
-          "Please read the statement and the blinded analysis, then approve, object with a reason, or abstain. You may change your vote until the round closes.",
+          "Please read the statement and the blinded analysis, then approve, object with a reason, or abstain. You may change your vote until your objection is answered.",
+          `${chair.name} chairs this round and rules on any objection its reviewer maintains after the coordinator's answer. ${QUORUM_SENTENCE}`,
         ],
         action: { label: "Review the statement", url: appUrl(request, `/review/${study.id}`) },
       }),
@@ -160,62 +184,104 @@ export async function statementInReview(studyId: number) {
   return latest?.state === "in_review" ? latest : null;
 }
 
+/** The open round of a study: its statement, chair and fixed reviewers; null when no round is open. */
+export async function openRound(studyId: number) {
+  const statement = await statementInReview(studyId);
+  if (!statement) return null;
+  const round = await db.query.reviewRounds.findFirst({ where: and(eq(reviewRounds.statementId, statement.id), eq(reviewRounds.outcome, "open")) });
+  if (!round) return null;
+  const reviewerIds = (await db.select({ id: roundReviewers.userId }).from(roundReviewers).where(eq(roundReviewers.roundId, round.id))).map((r) => r.id);
+  return { statement, round, reviewerIds };
+}
+
 export type ObjectionAnswer = { voteId: number; answer: "upheld" | "not_upheld"; rationale: string };
 
+/** Returns the version and the study to checking together with whatever `record` writes, or none of it. */
+export async function returnStatement(study: Study, actorUserId: number, record: (tx: Transaction) => Promise<void>) {
+  const moved = await transitionStudy(study, "checking", actorUserId, {
+    owner: "statement",
+    alongside: async (tx) => {
+      await record(tx);
+      await closeOpenRound(tx, study.id, "returned");
+    },
+  });
+  if (!moved.allowed) throw new StatementError(moved.problems.join(" "));
+}
+
 /**
- * Answers one objection. Upheld: the version is returned, the study goes back
- * to checking, and a new version (frozen again) starts a new round. Not upheld:
- * the rationale is kept and shown to every reviewer.
+ * The coordinator answers one objection in writing. Upheld: the version is
+ * returned and the study goes back to checking, so a revised version starts
+ * a new round. Not upheld: the objection goes back to its reviewer, who may
+ * withdraw or maintain it. The objector is e-mailed either way.
  */
-export async function answerObjection(study: Study, actorUserId: number, input: ObjectionAnswer) {
-  const refusal = reviewRefusal(study.state);
+export async function answerObjection(study: Study, actorUserId: number, input: ObjectionAnswer, request: Request | null) {
+  const refusal = writeRefusal("review", study.state);
   if (refusal) throw new StatementError(refusal);
-  const statement = await statementInReview(study.id);
-  if (!statement) throw new StatementError("No statement is in review.");
-  const vote = await db.query.votes.findFirst({ where: and(eq(votes.id, input.voteId), eq(votes.statementId, statement.id)) });
+  const open = await openRound(study.id);
+  if (!open) throw new StatementError("No committee round is open.");
+  const vote = await db.query.votes.findFirst({ where: and(eq(votes.id, input.voteId), eq(votes.statementId, open.statement.id)) });
   if (!vote) return null;
-  if (vote.choice !== "object") throw new StatementError("Only an objection can be answered.");
-  if (vote.answer) throw new StatementError("This objection has already been answered.");
+  const stage = objectionStage(vote);
+  if (stage === null) throw new StatementError("Only an objection can be answered.");
+  if (stage !== "awaiting_answer") throw new StatementError("This objection has already been answered.");
   const recordAnswer = async (tx: Transaction) => {
-    await tx
+    const answered = await tx
       .update(votes)
       .set({ answer: input.answer, answerRationale: input.rationale, answeredBy: actorUserId, answeredAt: new Date() })
-      .where(eq(votes.id, vote.id));
-    if (input.answer === "upheld") await tx.update(precisionStatements).set({ state: "returned" }).where(eq(precisionStatements.id, statement.id));
+      .where(and(eq(votes.id, vote.id), isNull(votes.answer), eq(votes.updatedAt, vote.updatedAt)))
+      .returning({ id: votes.id });
+    if (answered.length === 0) throw new StatementError("The reviewer changed this vote meanwhile; reload and read it again.");
     await recordAudit(
-      { actorUserId, action: "objection.answered", entityType: "vote", entityId: vote.id, studyId: study.id, after: { answer: input.answer, version: statement.version }, reason: input.rationale },
+      { actorUserId, action: "objection.answered", entityType: "vote", entityId: vote.id, studyId: study.id, after: { answer: input.answer, version: open.statement.version }, reason: input.rationale },
       tx,
     );
   };
-  if (input.answer === "upheld") {
-    // The version is returned and the study goes back to checking together, or neither happens.
-    const moved = await transitionStudy(study, "checking", actorUserId, { alongside: recordAnswer });
-    if (!moved.allowed) throw new StatementError(moved.problems.join(" "));
-  } else {
-    await db.transaction(recordAnswer);
+  if (input.answer === "upheld") await returnStatement(study, actorUserId, recordAnswer);
+  else await db.transaction(recordAnswer);
+  const objector = await db.query.users.findFirst({ where: eq(users.id, vote.reviewerId) });
+  if (objector) {
+    await sendEmail(
+      composeEmail({
+        to: objector.email,
+        subject: `${study.code}: your objection was answered (${input.answer === "upheld" ? "upheld" : "not upheld"})`,
+        greeting: `Hello ${objector.name},`,
+        paragraphs: [
+          `The coordinator of ${study.code} answered your objection to version ${open.statement.version}: ${input.answer === "upheld" ? "upheld — the statement will be revised and sent again." : "not upheld."}`,
+          input.rationale,
+          ...(input.answer === "not_upheld" ? ["Please withdraw your objection or maintain it; a maintained objection goes to the chair's ruling."] : []),
+        ],
+        action: { label: "Open the review", url: appUrl(request, `/review/${study.id}`) },
+      }),
+      { studyId: study.id },
+    );
   }
   return vote;
 }
 
-/** Whether the version in review may be published, and what still stands in the way. */
+/** Whether the version in review may be published, the tally, and what still stands in the way. */
 export async function publicationStatus(studyId: number) {
-  const statement = await statementInReview(studyId);
-  const reviewerIds = await studyReviewerIds(studyId);
-  if (!statement) return { statement: null, check: { allowed: false, problems: ["No statement is in review."], awaited: reviewerIds } };
-  const cast = await db.select({ reviewerId: votes.reviewerId, choice: votes.choice, answer: votes.answer }).from(votes).where(eq(votes.statementId, statement.id));
-  return { statement, check: publicationCheck(reviewerIds, cast) };
+  const open = await openRound(studyId);
+  if (!open) {
+    return { statement: null, round: null, check: { allowed: false, problems: ["No committee round is open."], awaited: [], tally: publicationCheck([], []).tally } };
+  }
+  const cast = await db
+    .select({ reviewerId: votes.reviewerId, choice: votes.choice, answer: votes.answer, objectorReply: votes.objectorReply, ruling: votes.ruling })
+    .from(votes)
+    .where(eq(votes.statementId, open.statement.id));
+  return { statement: open.statement, round: { id: open.round.id, chairId: open.round.chairId, reviewerIds: open.reviewerIds }, check: publicationCheck(open.reviewerIds, cast) };
 }
 
-/** Publishes the study with the approved version; from then on every write is refused. */
+/** Publishes the study with the approved version and closes the round; from then on every write is refused. */
 export async function publishStudy(study: Study, actorUserId: number) {
-  const refusal = reviewRefusal(study.state);
+  const refusal = writeRefusal("review", study.state);
   if (refusal) throw new StatementError(refusal);
   const { statement, check } = await publicationStatus(study.id);
   if (!statement || !check.allowed) throw new StatementError(check.problems.join(" "));
   const moved = await transitionStudy(study, "published", actorUserId, {
+    owner: "statement",
     alongside: async (tx) => {
-      await tx.update(precisionStatements).set({ state: "approved" }).where(eq(precisionStatements.id, statement.id));
-      await recordAudit({ actorUserId, action: "statement.approved", entityType: "precision_statement", entityId: statement.id, studyId: study.id, after: { version: statement.version } }, tx);
+      await closeOpenRound(tx, study.id, "published");
+      await recordAudit({ actorUserId, action: "statement.approved", entityType: "precision_statement", entityId: statement.id, studyId: study.id, after: { version: statement.version, tally: check.tally } }, tx);
     },
   });
   if (!moved.allowed) throw new StatementError(moved.problems.join(" "));
@@ -233,11 +299,15 @@ export async function votesOn(statementId: number) {
       reason: votes.reason,
       answer: votes.answer,
       answerRationale: votes.answerRationale,
+      objectorReply: votes.objectorReply,
+      objectorReplyNote: votes.objectorReplyNote,
+      ruling: votes.ruling,
+      rulingReason: votes.rulingReason,
       updatedAt: votes.updatedAt,
     })
     .from(votes)
     .innerJoin(users, eq(users.id, votes.reviewerId))
     .where(eq(votes.statementId, statementId))
     .orderBy(asc(users.name));
-  return rows.map((r) => ({ ...r, updatedAt: r.updatedAt.toISOString() }));
+  return rows.map((r) => ({ ...r, stage: objectionStage(r), updatedAt: r.updatedAt.toISOString() }));
 }

@@ -1,23 +1,15 @@
 /**
  * Moves a study through its states with the guards of ~/lib/study-lifecycle,
- * recording each move in the audit trail. Other parts of the product (the
- * committee review) add their own guards through `extraGuards`.
+ * recording each move in the audit trail. Each move belongs to one page
+ * (`owner`); the committee review adds its own guards through `extraGuards`
+ * and writes the statement and round alongside the move.
  */
-import { and, count, eq } from "drizzle-orm";
+import { and, count, eq, inArray } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
-import { enrollments, materials, studies, type StudyState, type Study } from "~/db/schema";
+import { enrollments, materials, precisionStatements, reviewRounds, studies, type StudyState, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
-import { checkTransition, resultsEditable, type TransitionCheck } from "~/lib/study-lifecycle";
+import { checkTransition, moveOwner, type MoveOwner, type TransitionCheck } from "~/lib/study-lifecycle";
 
-
-export class StudyStateError extends Error {}
-
-/** Refuses result changes unless the study is testing; lab pages call this before every write. */
-export function assertResultsEditable(study: Pick<Study, "state">) {
-  if (!resultsEditable(study.state)) {
-    throw new StudyStateError("Results can be entered or changed only while the study is testing.");
-  }
-}
 
 /** A further condition on a move; returns a problem to show, or null when the move may go ahead. */
 export type TransitionGuard = (study: Study, to: StudyState) => Promise<string | null> | string | null;
@@ -33,8 +25,10 @@ export async function transitionFacts(studyId: number) {
   return { materials: m?.n ?? 0, acceptedLabs: l?.n ?? 0 };
 }
 
-export async function previewTransition(study: Study, to: StudyState, extraGuards: TransitionGuard[] = []): Promise<TransitionCheck> {
+export async function previewTransition(study: Study, to: StudyState, extraGuards: TransitionGuard[] = [], owner: MoveOwner = "setup"): Promise<TransitionCheck> {
   const check = checkTransition(study.state, to, await transitionFacts(study.id));
+  const owning = moveOwner(study.state, to);
+  if (owning && owning !== owner) check.problems.push("This move is made on the statement page, together with the statement and its committee round.");
   for (const guard of extraGuards) {
     const problem = await guard(study, to);
     if (problem) check.problems.push(problem);
@@ -52,9 +46,9 @@ export async function transitionStudy(
   study: Study,
   to: StudyState,
   actorUserId: number,
-  { extraGuards = [], alongside }: { extraGuards?: TransitionGuard[]; alongside?: (tx: Transaction) => Promise<void> } = {},
+  { extraGuards = [], alongside, owner = "setup" }: { extraGuards?: TransitionGuard[]; alongside?: (tx: Transaction) => Promise<void>; owner?: MoveOwner } = {},
 ) {
-  const check = await previewTransition(study, to, extraGuards);
+  const check = await previewTransition(study, to, extraGuards, owner);
   if (!check.allowed) return check;
   const moved = await db.transaction(async (tx) => {
     const updated = await tx
@@ -67,9 +61,25 @@ export async function transitionStudy(
       { actorUserId, action: "study_state_changed", entityType: "study", entityId: study.id, studyId: study.id, before: { state: study.state }, after: { state: to } },
       tx,
     );
+    if (to === "cancelled") await closeOpenRound(tx, study.id, "cancelled");
     await alongside?.(tx);
     return true;
   });
   if (!moved) return { allowed: false, problems: ["Someone else changed the study's state meanwhile; reload and try again."], warnings: [] };
   return check;
+}
+
+/** Ends the study's open committee round (if any) with its statement version, in the transaction of the move that ends it. */
+export async function closeOpenRound(tx: Transaction, studyId: number, outcome: "published" | "returned" | "cancelled") {
+  const open = await tx
+    .select({ roundId: reviewRounds.id, statementId: precisionStatements.id })
+    .from(reviewRounds)
+    .innerJoin(precisionStatements, eq(precisionStatements.id, reviewRounds.statementId))
+    .where(and(eq(precisionStatements.studyId, studyId), eq(reviewRounds.outcome, "open")));
+  if (open.length === 0) return;
+  await tx.update(reviewRounds).set({ outcome, closedAt: new Date() }).where(inArray(reviewRounds.id, open.map((r) => r.roundId)));
+  await tx
+    .update(precisionStatements)
+    .set({ state: outcome === "published" ? "approved" : "returned" })
+    .where(and(inArray(precisionStatements.id, open.map((r) => r.statementId)), eq(precisionStatements.state, "in_review")));
 }

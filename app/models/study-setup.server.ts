@@ -3,15 +3,27 @@
  * protocol, co-coordinators, reviewers and materials. Each change is one
  * transaction with its audit event.
  */
-import { and, asc, count, eq, inArray, ne } from "drizzle-orm";
+import { and, asc, count, eq, gt, inArray, ne } from "drizzle-orm";
 import type { z } from "zod";
 import { db } from "~/db/client.server";
-import { freshPropertyTargets, materials, mixtureConstituents, responses, studies, studyCoordinators, studyReviewers, users, type Study } from "~/db/schema";
+import {
+  cells,
+  freshPropertyTargets,
+  materials,
+  mixtureConstituents,
+  responses,
+  results,
+  studies,
+  studyCoordinators,
+  studyReviewers,
+  users,
+  type Study,
+} from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { AIR_CONTENT_TOLERANCE_POINTS, type Constituent, inToMm, slumpTolerance } from "~/lib/batching";
 import type { freshTargetsSchema, materialSchema, newStudySchema, responseSchema, studyFields } from "~/lib/study-forms";
-import { setupEditable } from "~/lib/study-lifecycle";
+import { type WriteKind, writeRefusal } from "~/lib/write-rules";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import { normaliseEmail } from "~/models/user.server";
 
@@ -20,8 +32,18 @@ type StudyInput = z.infer<typeof studyFields>;
 /** A refusal the page shows beside the named field. */
 export class SetupError extends FieldRefusal {}
 
-function assertSetupEditable(study: Pick<Study, "state">, field = "form") {
-  if (!setupEditable(study.state)) throw new SetupError(field, "Responses and materials are fixed once testing has started.");
+/** Refuses the write, beside `field`, unless the study's state allows this kind of change (~/lib/write-rules). */
+function assertWritable(kind: WriteKind, study: Pick<Study, "state">, field = "form") {
+  const refusal = writeRefusal(kind, study.state);
+  if (refusal) throw new SetupError(field, refusal);
+}
+
+const assertSetupEditable = (study: Pick<Study, "state">, field = "form") => assertWritable("design", study, field);
+
+/** A response or material that already has cells (results) would orphan them if removed. */
+async function assertNoCells(column: typeof cells.responseId | typeof cells.materialId, id: number, what: string) {
+  const [row] = await db.select({ n: count() }).from(cells).where(eq(column, id));
+  if ((row?.n ?? 0) > 0) throw new SetupError("form", `Results are stored for this ${what}; it cannot be removed.`);
 }
 
 async function assertCodeFree(code: string, exceptStudyId?: number) {
@@ -45,7 +67,24 @@ export async function createStudy(ownerId: number, input: z.infer<typeof newStud
   });
 }
 
+/**
+ * Saves the study's details. Replicates per cell follow the design rule and
+ * the significance level the analysis rule; a lower replicate count is
+ * refused while any stored result has a higher replicate number.
+ */
 export async function updateStudy(study: Study, input: StudyInput, actorUserId: number) {
+  assertWritable("details", study);
+  if (input.replicatesPerCell !== study.replicatesPerCell) {
+    assertWritable("design", study, "replicatesPerCell");
+    const [beyond] = await db
+      .select({ n: count() })
+      .from(results)
+      .innerJoin(cells, eq(cells.id, results.cellId))
+      .innerJoin(materials, eq(materials.id, cells.materialId))
+      .where(and(eq(materials.studyId, study.id), gt(results.replicate, input.replicatesPerCell)));
+    if ((beyond?.n ?? 0) > 0) throw new SetupError("replicatesPerCell", `${beyond!.n} stored results have a replicate number above ${input.replicatesPerCell}; they would be orphaned.`);
+  }
+  if (input.significanceLevel !== study.significanceLevel) assertWritable("analysisSettings", study, "significanceLevel");
   await assertCodeFree(input.code, study.id);
   await db.transaction(async (tx) => {
     await tx.update(studies).set(input).where(eq(studies.id, study.id));
@@ -65,6 +104,7 @@ export async function addResponse(study: Study, input: z.infer<typeof responseSc
 
 export async function removeResponse(study: Study, responseId: number, actorUserId: number) {
   assertSetupEditable(study);
+  await assertNoCells(cells.responseId, responseId, "response");
   await db.transaction(async (tx) => {
     const removed = await tx.delete(responses).where(and(eq(responses.id, responseId), eq(responses.studyId, study.id))).returning();
     if (removed.length === 0) throw new SetupError("form", "That response is not part of this study.");
@@ -95,6 +135,7 @@ export async function setFreshTargets(study: Study, input: z.infer<typeof freshT
 }
 
 export async function setProtocol(study: Study, attachmentId: number, actorUserId: number) {
+  assertWritable("protocol", study, "protocol");
   await db.transaction(async (tx) => {
     await tx.update(studies).set({ protocolAttachmentId: attachmentId }).where(eq(studies.id, study.id));
     await recordAudit(
@@ -105,13 +146,14 @@ export async function setProtocol(study: Study, attachmentId: number, actorUserI
 }
 
 const PEOPLE = {
-  coordinator: { table: studyCoordinators, roles: ["coordinator", "admin"] as const, what: "a coordinator" },
-  reviewer: { table: studyReviewers, roles: ["reviewer"] as const, what: "a committee reviewer" },
-};
+  coordinator: { table: studyCoordinators, roles: ["coordinator", "admin"] as const, what: "a coordinator", rule: "coordinators" },
+  reviewer: { table: studyReviewers, roles: ["reviewer"] as const, what: "a committee reviewer", rule: "reviewers" },
+} as const;
 
 /** The study's owner adds a co-coordinator or assigns a reviewer by e-mail. */
 export async function addPerson(study: Study, kind: keyof typeof PEOPLE, email: string, actorUserId: number) {
-  const { table, roles, what } = PEOPLE[kind];
+  const { table, roles, what, rule } = PEOPLE[kind];
+  assertWritable(rule, study, "email");
   const user = await db.query.users.findFirst({ where: eq(users.email, normaliseEmail(email)) });
   if (!user || user.disabledAt) throw new SetupError("email", "No active account has this e-mail.");
   if (!(roles as readonly string[]).includes(user.role)) throw new SetupError("email", `This account is not ${what}.`);
@@ -124,7 +166,8 @@ export async function addPerson(study: Study, kind: keyof typeof PEOPLE, email: 
 }
 
 export async function removePerson(study: Study, kind: keyof typeof PEOPLE, userId: number, actorUserId: number) {
-  const { table } = PEOPLE[kind];
+  const { table, rule } = PEOPLE[kind];
+  assertWritable(rule, study);
   await db.transaction(async (tx) => {
     const removed = await tx.delete(table).where(and(eq(table.studyId, study.id), eq(table.userId, userId))).returning();
     if (removed.length === 0) throw new SetupError("form", "That person is not assigned to this study.");
@@ -145,6 +188,7 @@ export async function addMaterial(study: Study, input: z.infer<typeof materialSc
 
 export async function removeMaterial(study: Study, materialId: number, actorUserId: number) {
   assertSetupEditable(study);
+  await assertNoCells(cells.materialId, materialId, "material");
   await db.transaction(async (tx) => {
     const removed = await tx.delete(materials).where(and(eq(materials.id, materialId), eq(materials.studyId, study.id))).returning();
     if (removed.length === 0) throw new SetupError("form", "That material is not part of this study.");

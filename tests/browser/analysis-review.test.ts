@@ -1,6 +1,6 @@
 import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
-import { DEMO_LABS, DEMO_PASSWORD } from "../../seed/demo-data";
+import { DEMO_LABS, DEMO_PASSWORD, DEMO_PEOPLE } from "../../seed/demo-data";
 import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
 
 const running = useServerAndBrowser();
@@ -24,7 +24,7 @@ const flaggedRow = (page: Page, lab: string, material: string, response: string)
   page.getByRole("table", { name: "Cells flagged by the consistency statistics or the outlier tests" }).getByRole("row").filter({ hasText: lab }).filter({ hasText: material }).filter({ hasText: response });
 
 describe("from the checking study to a published statement, in the browser", () => {
-  it("runs the whole investigation and review", { timeout: 180_000 }, async () => {
+  it("runs the whole investigation and a review round with a maintained objection", { timeout: 180_000 }, async () => {
     const coordinator = await as("coordinator@ringbatch.example");
     await visit(coordinator, `/studies/${STUDY}/analysis`);
     // Both planted outliers, each on its own statistic.
@@ -57,8 +57,9 @@ describe("from the checking study to a published statement, in the browser", () 
     const preview = coordinator.getByRole("table", { name: "Figures of this material and response before and after the decision" });
     await expect.poll(() => preview.getByRole("row").filter({ hasText: "Labs p" }).textContent()).toMatch(/87/);
     await expectAccessible(coordinator);
-    await coordinator.getByLabel("Reason").fill("The lab confirmed a counting error (assignable cause).");
+    await coordinator.getByLabel("Reason", { exact: true }).fill("The lab confirmed a counting error (assignable cause).");
     await coordinator.getByRole("button", { name: "Save decision" }).click();
+    await coordinator.getByRole("dialog").getByRole("button", { name: "Exclude the cell" }).click();
     await coordinator.getByText(/Cell L08:M2:surface excluded/).waitFor();
     const m2Surface = coordinator.getByRole("table", { name: "Precision statistics of Passes to reach the target surface by material" }).getByRole("row").filter({ hasText: "M2" });
     await expect.poll(() => m2Surface.textContent()).not.toBe(sRBefore);
@@ -74,7 +75,11 @@ describe("from the checking study to a published statement, in the browser", () 
     await coordinator.getByText(/Version 1 frozen/).waitFor();
     expect(await coordinator.getByLabel("Statement text, E691 form (r and R)").inputValue()).toContain("lab L08, material M2, surface");
     await expectAccessible(coordinator);
+    // The second reviewer chairs the round; the confirmation names the round's reviewers and the quorum.
+    await coordinator.getByLabel(/Chair of the round/).selectOption({ label: DEMO_PEOPLE.reviewers[1]!.name });
     await coordinator.getByRole("button", { name: "Send version 1 to the committee" }).click();
+    await coordinator.getByRole("dialog").getByText(/two-thirds/).waitFor();
+    await coordinator.getByRole("dialog").getByRole("button", { name: "Send to the committee" }).click();
     await coordinator.getByText(/Sent to the committee/).waitFor();
 
     // Reviewer 1 objects; reviewers never see a lab's name.
@@ -100,11 +105,34 @@ describe("from the checking study to a published statement, in the browser", () 
     await coordinator.getByRole("button", { name: "Record the answer" }).click();
     await coordinator.getByText(/Answer recorded/).waitFor();
 
-    // Every reviewer approves; the others see the answer first, then the objector changes their vote.
-    for (const email of ["reviewer2@ringbatch.example", "reviewer3@ringbatch.example", "reviewer1@ringbatch.example"]) {
-      const reviewer = email === "reviewer1@ringbatch.example" ? reviewer1 : await as(email);
+    // Publishing is refused while the objector has not replied.
+    await visit(coordinator, `/studies/${STUDY}/statement`);
+    await coordinator.getByText(/awaits its reviewer's reply/).waitFor();
+
+    // The objector maintains the objection; the chair (reviewer 2) rules on it with a reason.
+    await reviewer1.goto(`${running.server.url}/review/${STUDY}`);
+    await reviewer1.getByText(/The coordinator answered your objection/).waitFor();
+    await reviewer1.getByLabel("Maintain it").check();
+    await reviewer1.getByRole("button", { name: "Send my reply" }).click();
+    await reviewer1.getByText(/Say why you maintain the objection/).waitFor();
+    await reviewer1.getByLabel("Note").fill("A worksheet in the query answer is not a retest; I maintain it.");
+    await reviewer1.getByLabel("Maintain it").check();
+    await reviewer1.getByRole("button", { name: "Send my reply" }).click();
+    await reviewer1.getByText(/Objection maintained/).waitFor();
+    expect(await reviewer1.getByRole("button", { name: "Record the ruling" }).count()).toBe(0);
+
+    const chair = await as("reviewer2@ringbatch.example");
+    await visit(chair, `/review/${STUDY}`);
+    await chair.getByText(/awaiting the chair's ruling/).waitFor();
+    await chair.getByLabel("Not upheld", { exact: true }).check();
+    await chair.getByLabel(/Reason for the ruling/).fill("An assignable cause documented by the lab is enough under E691; a retest is not required.");
+    await chair.getByRole("button", { name: "Record the ruling" }).click();
+    await chair.getByText(/Ruling recorded: the objection is not upheld/).waitFor();
+    await expectAccessible(chair);
+
+    // Reviewers 2 and 3 approve: 2 of 3 votes cast approve, which meets two-thirds.
+    for (const reviewer of [chair, await as("reviewer3@ringbatch.example")]) {
       await reviewer.goto(`${running.server.url}/review/${STUDY}`);
-      if (email !== "reviewer1@ringbatch.example") await reviewer.getByText(/not upheld/).first().waitFor();
       await reviewer.getByLabel("Approve").check();
       await reviewer.getByRole("button", { name: "Record my vote" }).click();
       await reviewer.getByText(/Your vote is recorded/).waitFor();
@@ -112,10 +140,12 @@ describe("from the checking study to a published statement, in the browser", () 
 
     // Publish; afterwards the pages offer no writes and a forged write is refused.
     await visit(coordinator, `/studies/${STUDY}/statement`);
+    await expect.poll(() => coordinator.getByTestId("tally").textContent()).toMatch(/3 of 3 reviewers voted · 2 approve · 1 object · 0 abstain/);
     await coordinator.getByRole("button", { name: "Publish the study" }).click();
+    await coordinator.getByRole("dialog").getByRole("button", { name: "Publish" }).click();
     await coordinator.getByText(/Published. The study is now read-only./).waitFor();
     await visit(coordinator, `/studies/${STUDY}/analysis?cell=L01:M3:holes`);
-    await coordinator.getByText("This study is published; it is read-only.").first().waitFor();
+    await coordinator.getByText("This study is published; its record is read-only.").first().waitFor();
     expect(await coordinator.getByRole("button", { name: "Save decision" }).count()).toBe(0);
     const forged = await coordinator.evaluate(async (url) => {
       const body = new URLSearchParams({ intent: "decide", lab: "L01", material: "M3", response: "holes", decision: "excluded", reason: "Trying after publication." });

@@ -96,6 +96,9 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
 
     await coordinator.goto(`${running.server.url}/studies/${studyId}/setup`);
     await coordinator.getByRole("button", { name: "Open recruiting" }).click();
+    // A move is explained and confirmed in a dialog before anything happens.
+    await coordinator.getByRole("dialog").getByText("Labs can then be invited.").waitFor();
+    await coordinator.getByRole("dialog").getByRole("button", { name: "Open recruiting" }).click();
     await expect.poll(() => coordinator.getByText("The study is now: Recruiting labs.").count()).toBe(1);
     await coordinator.getByRole("link", { name: "Labs", exact: true }).click();
     await coordinator.waitForURL(`${running.server.url}/studies/${studyId}/labs`);
@@ -183,10 +186,12 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
     await coordinator.goto(`${coordinator.url()}/labs`);
     await coordinator.getByLabel("Lab", { exact: true }).selectOption({ label: `${LAB_SIX} (L07)` });
     await coordinator.getByRole("button", { name: "Withdraw the lab" }).click();
+    await coordinator.getByRole("dialog").getByRole("button", { name: "Withdraw the lab" }).click();
     // Checked in the browser first: no reason, no post, the message beside the field.
     await expect.poll(() => coordinator.getByText("Give the reason for withdrawing the lab.").count()).toBe(1);
     await coordinator.getByLabel("Reason").fill("Its mixer broke down; it cannot batch before the results are due");
     await coordinator.getByRole("button", { name: "Withdraw the lab" }).click();
+    await coordinator.getByRole("dialog").getByRole("button", { name: "Withdraw the lab" }).click();
     await expect.poll(() => coordinator.getByRole("status").first().textContent()).toContain("The lab is withdrawn");
     await expect.poll(() => coordinator.getByRole("row", { name: new RegExp(LAB_SIX) }).textContent()).toContain("Withdrawn");
     expect(await coordinator.getByText(/labs? ha(ve|s) accepted/).textContent()).toBe("7 labs have accepted.");

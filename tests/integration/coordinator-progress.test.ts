@@ -90,7 +90,7 @@ describe("the mixture design editor's save", () => {
         materialId: String(mine.id),
       }),
     );
-    expect(lockedOwn.errors.code).toBe("Responses and materials are fixed once testing has started.");
+    expect(lockedOwn.errors.code).toBe("Replicates, responses and materials are fixed once testing starts.");
     const outsider = await call(materialPage.loader, get(path, await demoCookie("analyst1@ringbatch.example")), { studyId: String(study.id), materialId: String(materialId) });
     expect(outsider.status).toBe(404);
   });
@@ -165,13 +165,13 @@ describe("shipments and receipt", () => {
     const shipment = (await db.query.shipments.findFirst({ where: eq(shipments.enrollmentId, enrollmentId), orderBy: desc(shipments.id) }))!;
     const id = String(shipment.id);
     expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "", carrier: "Kestrel Freight", trackingNumber: "" })).errors.shippedOn).toContain("YYYY-MM-DD");
-    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2027-02-15", carrier: "", trackingNumber: "" })).errors.carrier).toBe("Name the carrier.");
+    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2026-11-16", carrier: "", trackingNumber: "" })).errors.carrier).toBe("Name the carrier.");
     const before = (await db.select().from(emailOutbox)).length;
-    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2027-02-15", carrier: "Kestrel Freight", trackingNumber: "KF-1" })).done).toContain("e-mailed");
+    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2026-11-16", carrier: "Kestrel Freight", trackingNumber: "KF-1" })).done).toContain("e-mailed");
     const [notice] = (await db.select().from(emailOutbox)).slice(before);
     expect(notice).toMatchObject({ to: "analyst1@ringbatch.example" });
     expect(notice!.text).toContain(`/lab/studies/${testing.id}/receipt`);
-    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2027-02-15", carrier: "Kestrel Freight", trackingNumber: "" })).errors.form).toContain("cannot be changed");
+    expect((await ship({ intent: "ship", shipmentId: id, shippedOn: "2026-11-16", carrier: "Kestrel Freight", trackingNumber: "" })).errors.form).toContain("cannot be changed");
     expect((await ship({ intent: "lost", shipmentId: "999999" })).errors.form).toBe("That shipment is not part of this study.");
   });
 
@@ -184,7 +184,7 @@ describe("shipments and receipt", () => {
       if (photo) form.set("photo", photo);
       return call(receipt.action, postMultipart(`/lab/studies/${testing.id}/receipt`, form, cookie), params());
     };
-    const fields = { shipmentId: String(shipment.id), receivedOn: "2027-02-18", condition: "damaged", receiptNotes: "" };
+    const fields = { shipmentId: String(shipment.id), receivedOn: "2026-11-18", condition: "damaged", receiptNotes: "" };
     expect(errorsOf(await confirm(fields)).receiptNotes).toContain("Describe the damage");
     expect(errorsOf(await confirm({ ...fields, condition: "soggy" })).condition).toContain("good condition or damaged");
     expect(errorsOf(await confirm({ ...fields, receivedOn: "18/02/2027" })).receivedOn).toContain("YYYY-MM-DD");
@@ -195,7 +195,7 @@ describe("shipments and receipt", () => {
     const png = new File([Buffer.from("iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg==", "base64")], "bag.png");
     expect(await toastOf(await confirm({ ...fields, receiptNotes: "One fiber carton crushed." }, png))).toBe("Receipt confirmed. Thank you.");
     const stored = (await db.query.shipments.findFirst({ where: eq(shipments.id, shipment.id) }))!;
-    expect(stored).toMatchObject({ status: "received", condition: "damaged", receivedOn: "2027-02-18", receiptNotes: "One fiber carton crushed." });
+    expect(stored).toMatchObject({ status: "received", condition: "damaged", receivedOn: "2026-11-18", receiptNotes: "One fiber carton crushed." });
     expect(stored.photoAttachmentId).not.toBeNull();
     const page = await call(overview.loader, get(`/studies/${testing.id}`, coordinator), params());
     expect(page.data.shipments.damaged.map((s: { receiptNotes: string }) => s.receiptNotes)).toEqual(["One fiber carton crushed."]);

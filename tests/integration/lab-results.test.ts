@@ -10,6 +10,7 @@ import { seedDemo } from "../../seed/seed";
 import { DEMO_LABS } from "../../seed/demo-data";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
+import { entryChanges } from "../support/entry-draft";
 import { call, get, post } from "../support/routes";
 import { errorsOf, toastOf } from "../support/replies";
 
@@ -27,8 +28,9 @@ beforeAll(async () => {
   f2 = String(studyMaterials.find((m) => m.code === "F2")!.id);
 });
 
-const draftOf = (values: Record<string, string>, extra: Partial<Record<"testedOn" | "operator", Record<string, string>>> = {}) =>
-  JSON.stringify({ values, testedOn: extra.testedOn ?? {}, operator: extra.operator ?? {}, fresh: {}, batchedAt: "" });
+/** The changes the page would send for these edits, read as `cookie` from material `materialId`. */
+const draftOf = async (cookie: string, materialId: string, values: Record<string, string>, extra: Partial<Record<"testedOn" | "operator", Record<string, string>>> = {}) =>
+  (await entryChanges(cookie, studyId, materialId, { values, ...extra })).changes;
 
 async function enrollmentOf(labIndex: number) {
   const lab = await db.query.labs.findFirst({ where: eq(labs.name, DEMO_LABS[labIndex]!.name) });
@@ -49,7 +51,7 @@ describe("result entry of the lab's own cells", () => {
     const cookie = await demoCookie("analyst7@ringbatch.example"); // lab index 6, not started
     const params = { studyId, materialId: f2 };
     const path = `/lab/studies/${studyId}/results/${f2}`;
-    const draft = draftOf({ "holes:1": "9", "surface:1": "15" }, { testedOn: { 1: "2026-10-12" }, operator: { 1: "Bo Lindqvar" } });
+    const draft = await draftOf(cookie, f2, { "holes:1": "9", "surface:1": "15" }, { testedOn: { 1: "2026-10-12" }, operator: { 1: "Bo Lindqvar" } });
     const first = await call(entry.action, post(path, { intent: "draft", draft }, cookie), params);
     expect(first.status).toBe(200);
     expect(first.data.problems).toEqual({});
@@ -65,7 +67,7 @@ describe("result entry of the lab's own cells", () => {
   it("refuses an impossible count beside its field and keeps the right ones", async () => {
     const cookie = await demoCookie("analyst7@ringbatch.example");
     const params = { studyId, materialId: f2 };
-    const draft = draftOf({ "holes:1": "9", "holes:2": "-3", "surface:2": "4.5", "surface:3": "16" });
+    const draft = await draftOf(cookie, f2, { "holes:1": "9", "holes:2": "-3", "surface:2": "4.5", "surface:3": "16" });
     const outcome = await call(entry.action, post(`/lab/studies/${studyId}/results/${f2}`, { intent: "draft", draft }, cookie), params);
     expect(outcome.data.problems).toEqual({ "holes:2": "A count cannot be negative.", "surface:2": "A count is a whole number, such as 12." });
     expect((await storedValues(6, f2)).some((r) => r.value === 16 && r.replicate === 3)).toBe(true);
@@ -83,11 +85,11 @@ describe("result entry of the lab's own cells", () => {
     const dates = { 1: "2026-10-12", 2: "2026-10-12", 3: "2026-10-12" };
     const operators = { 1: "Rosalind Quennel", 2: "Rosalind Quennel", 3: "Rosalind Quennel" };
 
-    const incomplete = await call(entry.action, post(path, { intent: "submit", draft: draftOf(values, { testedOn: dates }) }, cookie), params);
+    const incomplete = await call(entry.action, post(path, { intent: "submit", draft: await draftOf(cookie, f1, values, { testedOn: dates }) }, cookie), params);
     expect(incomplete.status).toBe(400);
     expect(incomplete.data.result.error[""]).toContain("Passes to close the preformed holes, replicate 1: enter the test date and the operator.");
 
-    const submitted = await call(entry.action, post(path, { intent: "submit", draft: draftOf(values, { testedOn: dates, operator: operators }) }, cookie), params);
+    const submitted = await call(entry.action, post(path, { intent: "submit", draft: await draftOf(cookie, f1, values, { testedOn: dates, operator: operators }) }, cookie), params);
     expect(await toastOf(submitted)).toBe("F1 is submitted. Thank you.");
     const stored = await storedValues(7, f1);
     expect(stored.every((r) => r.status === "submitted")).toBe(true);
@@ -129,7 +131,7 @@ describe("result entry of the lab's own cells", () => {
 
   it("keeps an out-of-tolerance slump and marks it for the coordinator", async () => {
     const cookie = await demoCookie("analyst7@ringbatch.example");
-    const draft = JSON.stringify({ values: {}, testedOn: {}, operator: {}, fresh: { slump: "120", air_content: "6.5", unit_weight: "9999" }, batchedAt: "2026-10-12T09:30" });
+    const { changes: draft } = await entryChanges(cookie, studyId, f2, { fresh: { slump: "120", air_content: "6.5", unit_weight: "9999" }, batchedAt: "2026-10-12T09:30" });
     const saved = await call(entry.action, post(`/lab/studies/${studyId}/results/${f2}`, { intent: "draft", draft }, cookie), { studyId, materialId: f2 });
     expect(saved.data.problems).toEqual({ "fresh:unit_weight": "Unit weight must be between 500 and 4000 kg/m³." });
     const coordinator = await call(studyResults.loader, get(`/studies/${studyId}/results`, await demoCookie("coordinator@ringbatch.example")), { studyId });
@@ -145,7 +147,7 @@ describe("result entry of the lab's own cells", () => {
   it("bumps the study's data version with every change of results", async () => {
     const before = (await db.query.studies.findFirst({ where: eq(studies.id, Number(studyId)) }))!.dataVersion;
     const cookie = await demoCookie("analyst7@ringbatch.example");
-    await call(entry.action, post(`/lab/studies/${studyId}/results/${f2}`, { intent: "draft", draft: draftOf({ "holes:3": "11" }) }, cookie), { studyId, materialId: f2 });
+    await call(entry.action, post(`/lab/studies/${studyId}/results/${f2}`, { intent: "draft", draft: await draftOf(cookie, f2, { "holes:3": "11" }) }, cookie), { studyId, materialId: f2 });
     expect((await db.query.studies.findFirst({ where: eq(studies.id, Number(studyId)) }))!.dataVersion).toBe(before + 1);
   });
 });

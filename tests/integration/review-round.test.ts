@@ -50,7 +50,7 @@ describe("a review round from freezing to publication", () => {
   it("refuses to send a version whose data changed after freezing", async () => {
     await call(analysisPage.action, post(`/studies/${round.studyId}/analysis`, { intent: "decide", lab: "L08", material: "M2", response: "surface", decision: "retained", reason: "The lab confirmed the counts are right." }, round.coordinator), { studyId: round.studyId });
     const { latest } = await statementNow();
-    const refused = await coordinatorDoes({ intent: "send", statementId: String(latest.id) });
+    const refused = await round.send(latest.id);
     expect(refused.status).toBe(409);
     expect(refused.errors.form).toMatch(/freeze a new version/);
   });
@@ -60,7 +60,7 @@ describe("a review round from freezing to publication", () => {
     const { latest } = await statementNow();
     expect(latest.version).toBe(2);
     const before = (await db.select().from(emailOutbox)).length;
-    expect((await coordinatorDoes({ intent: "send", statementId: String(latest.id) })).status).toBe(302);
+    expect((await round.send(latest.id)).status).toBe(302);
     expect(await studyState()).toBe("in_review");
     const mail = (await db.select().from(emailOutbox)).slice(before);
     expect(mail.map((m) => m.to).sort()).toEqual(["reviewer1@ringbatch.example", "reviewer2@ringbatch.example", "reviewer3@ringbatch.example"]);
@@ -98,8 +98,13 @@ describe("a review round from freezing to publication", () => {
     expect(seenByOther.comments[0].body).toContain("Why is M3");
   });
 
-  it("publishes once every reviewer voted and no objection is unanswered; then every write refuses", async () => {
-    expect((await reviewerDoes(0, { intent: "vote", choice: "approve", reason: "" })).status).toBe(302);
+  it("publishes once every reviewer voted and no objection is unresolved; then every write refuses", async () => {
+    const changeOfVote = await reviewerDoes(0, { intent: "vote", choice: "approve", reason: "" });
+    expect(changeOfVote.status).toBe(409);
+    // A refusal of the whole ballot form (Conform keeps it under the empty field name).
+    expect(errorsOf(changeOfVote)[""]).toMatch(/withdraw or maintain/);
+    expect((await coordinatorDoes({ intent: "publish" })).errors.form).toMatch(/awaits its reviewer's reply/);
+    expect((await reviewerDoes(0, { intent: "reply", reply: "withdrawn", note: "The assignable cause convinces me." })).status).toBe(302);
     expect((await reviewerDoes(1, { intent: "vote", choice: "approve", reason: "" })).status).toBe(302);
     expect((await coordinatorDoes({ intent: "publish" })).status).toBe(409);
     expect((await reviewerDoes(2, { intent: "vote", choice: "abstain", reason: "" })).status).toBe(302);

@@ -24,7 +24,7 @@ describe("an objection upheld", () => {
   it("returns the version, sends the study back to checking, and a new version starts a new round", async () => {
     await coordinatorDoes({ intent: "freeze" });
     const first = (await statementNow()).latest;
-    expect((await coordinatorDoes({ intent: "send", statementId: String(first.id) })).status).toBe(302);
+    expect((await round.send(first.id)).status).toBe(302);
     await reviewerDoes(0, { intent: "vote", choice: "object", reason: "L08 on M2 is far off: ask the lab before publishing." });
     await reviewerDoes(1, { intent: "vote", choice: "approve", reason: "" });
     const objection = (await statementNow()).votes.find((v: { choice: string }) => v.choice === "object");
@@ -40,7 +40,7 @@ describe("an objection upheld", () => {
     const second = (await statementNow()).latest;
     expect(second).toMatchObject({ version: 2, state: "draft" });
     expect(second.textE691).toContain("L08");
-    expect((await coordinatorDoes({ intent: "send", statementId: String(second.id) })).status).toBe(302);
+    expect((await round.send(second.id)).status).toBe(302);
     expect(await studyState()).toBe("in_review");
 
     // The first round's votes do not carry over: publication waits for votes on version 2.

@@ -23,10 +23,10 @@ describe("transitionStudy with writes alongside", () => {
   it("rolls the move back when the writes alongside fail", async () => {
     const study = await checkingStudy();
     const coordinator = (await db.query.users.findFirst({ where: eq(users.email, "coordinator@ringbatch.example") }))!;
-    expect((await previewTransition(study, "testing")).allowed).toBe(true);
+    expect((await previewTransition(study, "cancelled")).allowed).toBe(true);
     const before = await auditCount();
     await expect(
-      transitionStudy(study, "testing", coordinator.id, {
+      transitionStudy(study, "cancelled", coordinator.id, {
         alongside: async () => {
           throw new Error("the statement could not be updated");
         },
@@ -39,13 +39,22 @@ describe("transitionStudy with writes alongside", () => {
   it("commits the move and the writes alongside together", async () => {
     const study = await checkingStudy();
     const coordinator = (await db.query.users.findFirst({ where: eq(users.email, "coordinator@ringbatch.example") }))!;
-    const moved = await transitionStudy(study, "testing", coordinator.id, {
+    const moved = await transitionStudy(study, "cancelled", coordinator.id, {
       alongside: async (tx) => {
-        await tx.update(studies).set({ notes: "reopened for one lab's retest" }).where(eq(studies.id, study.id));
+        await tx.update(studies).set({ notes: "cancelled: the sand lot was contaminated" }).where(eq(studies.id, study.id));
       },
     });
     expect(moved.allowed).toBe(true);
     const after = await checkingStudy();
-    expect([after.state, after.notes]).toEqual(["testing", "reopened for one lab's retest"]);
+    expect([after.state, after.notes]).toEqual(["cancelled", "cancelled: the sand lot was contaminated"]);
+  });
+
+  it("leaves moves into and out of review to the statement page, and never reopens testing", async () => {
+    const study = { ...(await checkingStudy()), state: "checking" as const };
+    expect((await previewTransition(study, "in_review")).problems).toContain("This move is made on the statement page, together with the statement and its committee round.");
+    expect((await previewTransition(study, "testing")).problems).toContain("A study cannot go from checking to testing.");
+    const inReview = { ...study, state: "in_review" as const };
+    expect((await previewTransition(inReview, "checking")).allowed).toBe(false);
+    expect((await previewTransition(inReview, "checking", [], "statement")).allowed).toBe(true);
   });
 });

@@ -77,7 +77,7 @@ describe("withdrawing a lab", () => {
   it("closes the study's pages to the lab, results entry included, and tells it why on the first page", async () => {
     const analyst = await demoCookie("analyst1@ringbatch.example");
     const f1 = (await db.query.materials.findFirst({ where: and(eq(materials.studyId, study.id), eq(materials.code, "F1")) }))!;
-    const draft = JSON.stringify({ values: { "holes:1": "9" }, testedOn: {}, operator: {}, fresh: {}, batchedAt: "" });
+    const draft = JSON.stringify({ rows: [{ response: "holes", replicate: 1, value: "9", testedOn: "", operator: "", readVersion: 0 }], fresh: {} });
     const save = await call(entry.action, post(`/lab/studies/${study.id}/results/${f1.id}`, { intent: "draft", draft }, analyst), { studyId: String(study.id), materialId: String(f1.id) });
     expect(save.status).toBe(404);
     const tasks = await call(labStudy.loader, get(`/lab/studies/${study.id}`, analyst), { studyId: String(study.id) });

@@ -36,8 +36,11 @@ describe("twenty labs submitting at the same moment", () => {
       study.labs.map(async (lab, i) => {
         const values: Record<string, string> = {};
         for (const key of study.responseKeys) for (let replicate = 1; replicate <= study.replicates; replicate++) values[`${key}:${replicate}`] = String(random.int(2, 30));
-        const perReplicate = (value: string) => Object.fromEntries(Array.from({ length: study.replicates }, (_, r) => [String(r + 1), value]));
-        const draft = { values, testedOn: perReplicate("2026-11-20"), operator: perReplicate(`Operator ${i + 1}`), fresh: {}, batchedAt: "" };
+        const rows = Object.entries(values).map(([key, value]) => {
+          const [response, replicate] = key.split(":");
+          return { response: response!, replicate: Number(replicate), value, testedOn: "2026-11-20", operator: `Operator ${i + 1}`, readVersion: 0 };
+        });
+        const draft = { rows, fresh: {} };
         return { ...lab, values, draft, cookie: await signInOverHttp(server.url, lab.email, TEST_PASSWORD) };
       }),
     );

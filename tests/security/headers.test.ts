@@ -200,7 +200,8 @@ describe("cross-site form posts", () => {
   // refusal carries the security headers (the server adds them to every answer).
   it("are refused with a 4xx on every action tried, and nothing is written", async () => {
     const before = await databaseFingerprint(db);
-    const draft = JSON.stringify({ values: { "holes:1": "33" }, testedOn: {}, operator: {}, fresh: {}, batchedAt: "" });
+    // What the entry page sends: the changed replicate with the version it was read at (the demo's draft value, version 1).
+    const draft = JSON.stringify({ rows: [{ response: "holes", replicate: 1, value: "33", testedOn: "", operator: "", readVersion: 1 }], fresh: {} });
     const csv = new FormData();
     csv.set("file", new File(["material,response,replicate,value\nF2,holes,1,9\n"], "results.csv", { type: "text/csv" }));
     const attempts = await Promise.all([

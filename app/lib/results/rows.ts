@@ -3,6 +3,7 @@
  * and the lab's submitted cells. Pure, so the import preview in the browser
  * and the server's import name the same problems for the same rows.
  */
+import { testDateProblem } from "~/lib/plausible-dates";
 import { unsafeCharacterMessage } from "~/lib/text-hygiene";
 import { checkResultValue, checkTestDate, type ResponseRule } from "./values";
 
@@ -16,6 +17,8 @@ export type ResultInputRow = {
   value: string | number | null;
   testedOn?: string | null;
   operator?: string | null;
+  /** The version of the stored replicate the writer read (0: none stored); given, a save that finds another version is refused as a conflict. */
+  readVersion?: number;
 };
 
 export type RowField = "material" | "response" | "replicate" | "value" | "tested_on" | "operator";
@@ -34,6 +37,7 @@ export type ResolvedRow = {
   warning?: string;
   testedOn: string | null;
   operator: string;
+  readVersion?: number;
 };
 
 export type RowFrame = {
@@ -42,6 +46,8 @@ export type RowFrame = {
   responses: (ResponseRule & { id: number; key: string })[];
   /** `materialId:responseId` of the lab's submitted cells. */
   submittedCells: Set<string>;
+  /** When the lab received the materials; no test is dated before it. */
+  receivedOn?: string | null;
   /** The study's last day for results (YYYY-MM-DD): no test date after it. */
   studyEnd?: string | null;
 };
@@ -91,6 +97,8 @@ export function resolveResultRows(frame: RowFrame, rows: ResultInputRow[], { val
     if (check.status === "empty" && valueRequired) return problem("value", "The value is empty.");
     const date = checkTestDate(input.testedOn, new Date(), { studyEnd: frame.studyEnd });
     if (!date.ok) return problem("tested_on", date.message);
+    const beforeReceipt = date.value && testDateProblem(date.value, { receivedOn: frame.receivedOn ?? null });
+    if (beforeReceipt) return problem("tested_on", beforeReceipt);
     const operator = String(input.operator ?? "").trim();
     if (operator.length > 120) return problem("operator", "Keep the operator's name to 120 characters or fewer.");
     const unsafe = unsafeCharacterMessage(operator);
@@ -107,6 +115,7 @@ export function resolveResultRows(frame: RowFrame, rows: ResultInputRow[], { val
       ...(check.status === "ok" && check.warning ? { warning: check.warning } : {}),
       testedOn: date.value,
       operator,
+      ...(input.readVersion !== undefined ? { readVersion: input.readVersion } : {}),
     });
   });
   return { problems, resolved };

@@ -3,15 +3,25 @@
  * to localStorage at once and sent to the route's action through a fetcher
  * after a short pause. If the connection is down the copy stays on the
  * device and is sent when the browser is back online (or on the next visit).
+ *
+ * With `changes`, only what changed since the draft was read is sent (with
+ * whatever the route needs to detect a conflict, such as the version each
+ * field was read at), and with `rebase` each answer's server draft is folded
+ * in: fields the person did not touch take the server's value, and fields in
+ * conflict take the other person's value, so nothing is overwritten silently.
  */
 import { useCallback, useEffect, useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import type { z } from "zod";
 
-export type SaveState = "saved" | "unsaved" | "saving" | "offline" | "problems";
+export type SaveState = "saved" | "unsaved" | "saving" | "offline" | "problems" | "conflict";
 
-/** What the action answers to a draft save; `offline` comes from the route's clientAction when the request never arrived. */
-export type DraftSaveReply = { offline?: boolean; stamp?: string; problems?: Record<string, string> };
+/**
+ * What the action answers to a draft save; `offline` comes from the route's
+ * clientAction when the request never arrived; `conflicts` names fields
+ * someone else changed after this draft was read, with the message to show.
+ */
+export type DraftSaveReply = { offline?: boolean; stamp?: string; problems?: Record<string, string>; conflicts?: Record<string, string> };
 
 type StoredCopy<T> = { draft: T; pending: boolean; stamp: string };
 
@@ -41,7 +51,21 @@ function writeCopy<T>(key: string, copy: StoredCopy<T>) {
  * `schema` is the one the action parses the draft with: a draft it refuses
  * stays on the device, marked, until corrected.
  */
-export function useAutosavedDraft<T>({ storageKey, serverDraft, intent, schema }: { storageKey: string; serverDraft: T; intent: string; schema: z.ZodType<T> }) {
+export function useAutosavedDraft<T>({
+  storageKey,
+  serverDraft,
+  intent,
+  schema,
+  changes,
+  rebase,
+}: {
+  storageKey: string;
+  serverDraft: T;
+  intent: string;
+  schema: z.ZodType<T>;
+  changes?: (base: T, draft: T) => unknown;
+  rebase?: (draft: T, oldBase: T, newBase: T, conflicts: string[]) => T;
+}) {
   const fetcher = useFetcher<DraftSaveReply>({ key: `autosave:${storageKey}` });
   const [draft, setDraft] = useState<T>(serverDraft);
   const [saveState, setSaveState] = useState<SaveState>("saved");
@@ -65,8 +89,9 @@ export function useAutosavedDraft<T>({ storageKey, serverDraft, intent, schema }
     const json = JSON.stringify(latest.current);
     inFlight.current = json;
     setSaveState("saving");
-    fetcher.submit({ intent, draft: json }, { method: "post" });
-  }, [fetcher, intent, schema]);
+    const body = changes ? JSON.stringify(changes(JSON.parse(stamp.current) as T, latest.current)) : json;
+    fetcher.submit({ intent, draft: body }, { method: "post" });
+  }, [fetcher, intent, schema, changes]);
 
   const schedule = useCallback(() => {
     clearTimeout(timer.current);
@@ -114,15 +139,22 @@ export function useAutosavedDraft<T>({ storageKey, serverDraft, intent, schema }
       setSaveState("offline");
       return;
     }
+    const conflicts = Object.keys(reply.conflicts ?? {});
+    const typedMeanwhile = JSON.stringify(latest.current) !== sent;
+    if (reply.stamp && rebase) {
+      const rebased = rebase(latest.current, JSON.parse(stamp.current) as T, JSON.parse(reply.stamp) as T, conflicts);
+      latest.current = rebased;
+      setDraft(rebased);
+    }
     if (reply.stamp) stamp.current = reply.stamp;
-    if (JSON.stringify(latest.current) === sent) {
+    if (!typedMeanwhile) {
       dirty.current = false;
       writeCopy(storageKey, { draft: latest.current, pending: false, stamp: stamp.current });
-      setSaveState(reply.problems && Object.keys(reply.problems).length > 0 ? "problems" : "saved");
+      setSaveState(conflicts.length > 0 ? "conflict" : reply.problems && Object.keys(reply.problems).length > 0 ? "problems" : "saved");
     } else {
       schedule();
     }
-  }, [fetcher.state, fetcher.data, schedule, storageKey]);
+  }, [fetcher.state, fetcher.data, schedule, storageKey, rebase]);
 
   useEffect(() => {
     const retry = setInterval(() => {
@@ -137,7 +169,10 @@ export function useAutosavedDraft<T>({ storageKey, serverDraft, intent, schema }
 
   const forget = useCallback(() => window.localStorage.removeItem(storageKey), [storageKey]);
 
-  return { draft, update, saveState, problems: fetcher.data?.problems ?? {}, forget, flush };
+  /** The server's draft this one was last read from or saved to; what changed is measured against it. */
+  const base = useCallback(() => JSON.parse(stamp.current) as T, []);
+
+  return { draft, update, saveState, problems: fetcher.data?.problems ?? {}, conflicts: fetcher.data?.conflicts ?? {}, forget, flush, base };
 }
 
 export const SAVE_STATE_TEXT: Record<SaveState, string> = {
@@ -146,4 +181,5 @@ export const SAVE_STATE_TEXT: Record<SaveState, string> = {
   saving: "Saving…",
   offline: "Offline: your entries are kept on this device and saved when the connection returns",
   problems: "Not all saved: correct the fields marked below",
+  conflict: "Someone else changed a field you were editing: see the message beside it",
 };

@@ -23,7 +23,7 @@ describe("result values", () => {
   it("keeps a value outside the plausible range with a warning", () => {
     const check = checkResultValue(passes, "55");
     expect(check).toMatchObject({ status: "ok", value: 55 });
-    expect(check.status === "ok" && check.warning).toBe("Unusual: outside the plausible 1 to 40 passes. Check it before you submit.");
+    expect(check.status === "ok" && check.warning).toBe("Unusual: outside the plausible 1 to 40 passes. Check it; submitting asks you to confirm it.");
     expect(checkResultValue(passes, "0")).toMatchObject({ warning: expect.stringContaining("outside the plausible") });
   });
 

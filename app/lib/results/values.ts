@@ -27,6 +27,11 @@ function plausibleRange(rule: ResponseRule) {
   return `${rule.plausibleMin ?? "…"} to ${rule.plausibleMax ?? "…"}${unit}`;
 }
 
+/** Whether a value lies outside the response's plausible range: submitting it asks for a second look. */
+export function outsidePlausibleRange(rule: Pick<ResponseRule, "plausibleMin" | "plausibleMax">, value: number) {
+  return (rule.plausibleMin !== null && value < rule.plausibleMin) || (rule.plausibleMax !== null && value > rule.plausibleMax);
+}
+
 /**
  * Counts are whole numbers of at least 0; anything else is refused. A value
  * outside the study's plausible range is kept with a warning, since a true
@@ -40,9 +45,7 @@ export function checkResultValue(rule: ResponseRule, input: string | number | nu
     if (!Number.isInteger(value)) return { status: "refused", message: "A count is a whole number, such as 12." };
     if (value < 0) return { status: "refused", message: "A count cannot be negative." };
   }
-  const outside =
-    (rule.plausibleMin !== null && value < rule.plausibleMin) || (rule.plausibleMax !== null && value > rule.plausibleMax);
-  if (outside) return { status: "ok", value, warning: `Unusual: outside the plausible ${plausibleRange(rule)}. Check it before you submit.` };
+  if (outsidePlausibleRange(rule, value)) return { status: "ok", value, warning: `Unusual: outside the plausible ${plausibleRange(rule)}. Check it; submitting asks you to confirm it.` };
   if (rule.kind === "continuous" && decimalsOf(input) > rule.decimals) {
     return { status: "ok", value, warning: `The study reports ${rule.name.toLowerCase()} to ${rule.decimals} decimal places.` };
   }

@@ -11,7 +11,7 @@ import { formatDate, todayIso } from "~/lib/format";
 import { SHIPMENT_STATE } from "~/lib/state-labels";
 import { receiptSchema } from "~/lib/study-forms";
 import { studyPageMeta } from "~/lib/study-page-meta";
-import { confirmReceipt, listEnrollmentShipments } from "~/models/shipment.server";
+import { confirmReceipt, listEnrollmentShipments, receiptCorrectable } from "~/models/shipment.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
@@ -25,8 +25,8 @@ export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta("Receipt"
 const PHOTO_MAX_BYTES = 8 * 1024 * 1024;
 
 export async function loader({ context }: Route.LoaderArgs) {
-  const { enrollment } = requireStudy(context, ["analyst"]);
-  return { shipments: await listEnrollmentShipments(enrollment!.id), today: todayIso() };
+  const { study, enrollment } = requireStudy(context, ["analyst"]);
+  return { shipments: await listEnrollmentShipments(enrollment!.id), correctable: await receiptCorrectable(study, enrollment!.id), today: todayIso() };
 }
 
 export async function action({ request, context }: Route.ActionArgs) {
@@ -36,7 +36,7 @@ export async function action({ request, context }: Route.ActionArgs) {
   if (upload.tooLarge) return data({ result: { status: "error", error: { photo: ["The photo is larger than 8 MB."] } } as SubmissionResult<string[]> }, { status: 400 });
   const submission = parseWithZod(upload.formData, { schema: receiptSchema });
   if (submission.status !== "success") return refuse(submission);
-  const confirmed = await withRefusals(submission, async () => {
+  const outcome = await withRefusals(submission, async () => {
     let photoAttachmentId: number | null = null;
     if (upload.file) {
       try {
@@ -46,16 +46,19 @@ export async function action({ request, context }: Route.ActionArgs) {
         throw error;
       }
     }
-    await confirmReceipt(study, enrollment!.id, { ...submission.value, photoAttachmentId }, user.id);
+    return confirmReceipt(study, enrollment!, { ...submission.value, photoAttachmentId }, user.id);
   });
-  if (!confirmed.ok) return confirmed.reply;
-  return redirectWithToast(`/lab/studies/${study.id}/receipt`, "Receipt confirmed. Thank you.");
+  if (!outcome.ok) return outcome.reply;
+  return redirectWithToast(
+    `/lab/studies/${study.id}/receipt`,
+    outcome.value === "confirmed" ? "Receipt confirmed. Thank you." : "Receipt corrected; the earlier entry stays in the audit trail.",
+  );
 }
 
 type Shipment = Route.ComponentProps["loaderData"]["shipments"][number];
 
 export default function Receipt({ loaderData, actionData }: Route.ComponentProps) {
-  const { shipments, today } = loaderData;
+  const { shipments, today, correctable } = loaderData;
   return (
     <div className="flex flex-col gap-6">
       <Notice tone="caution">Bags of cement and aggregate are heavy: lift with help. Cement is caustic when wet: gloves and eye protection.</Notice>
@@ -71,7 +74,9 @@ export default function Receipt({ loaderData, actionData }: Route.ComponentProps
               Received {formatDate(s.receivedOn)}, condition {s.condition}. {s.receiptNotes}
             </p>
           )}
-          {s.status === "shipped" && <ReceiptForm shipment={s} today={today} actionData={actionData} />}
+          {s.status === "received" && correctable && <p className="mt-2 text-basalt-700">Until your lab records its first result you can correct this receipt below; the earlier entry stays in the audit trail.</p>}
+          {s.status === "received" && !correctable && <p className="mt-2 text-basalt-700">The receipt is fixed now that your lab has recorded results; write to the coordinator if it is wrong.</p>}
+          {(s.status === "shipped" || (s.status === "received" && correctable)) && <ReceiptForm shipment={s} today={today} actionData={actionData} />}
         </Card>
       ))}
     </div>
@@ -86,7 +91,8 @@ function ReceiptForm({ shipment, today, actionData }: { shipment: Shipment; toda
   const [form, fields] = useSchemaForm(receiptSchema, {
     reply: mine ? actionData : undefined,
     id: `receipt-${shipment.id}`,
-    defaultValue: { receivedOn: today, condition: "good" },
+    // The condition is not pre-selected: the lab looks at the box before choosing.
+    defaultValue: { receivedOn: shipment.receivedOn ?? today, condition: shipment.condition ?? undefined, receiptNotes: shipment.receiptNotes ?? "" },
   });
   const conditionError = fields.condition.errors?.[0];
   const photoError = form.allErrors.photo?.[0];
@@ -96,7 +102,7 @@ function ReceiptForm({ shipment, today, actionData }: { shipment: Shipment; toda
       <div className="md:col-span-2">
         <FormErrors errors={formWideErrors(form)} />
       </div>
-      <Field label="Received on" type="date" {...fieldProps(fields.receivedOn)} />
+      <Field label="Received on" type="date" max={today} min={shipment.shippedOn ?? undefined} {...fieldProps(fields.receivedOn)} />
       <fieldset className="flex flex-col gap-1" aria-describedby={conditionError ? `${fields.condition.id}-error` : undefined}>
         <legend className="font-semibold text-basalt-800">Condition</legend>
         {(["good", "damaged"] as const).map((c) => (
@@ -117,7 +123,7 @@ function ReceiptForm({ shipment, today, actionData }: { shipment: Shipment; toda
       <Field label="Photo (JPEG, PNG or WebP, optional)" name="photo" id={`receipt-${shipment.id}-photo`} type="file" accept="image/jpeg,image/png,image/webp" error={photoError} />
       <div className="self-end">
         <Button type="submit" disabled={busy}>
-          Confirm receipt
+          {shipment.status === "received" ? "Correct the receipt" : "Confirm receipt"}
         </Button>
       </div>
     </Form>

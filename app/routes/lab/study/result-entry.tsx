@@ -9,13 +9,25 @@ import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/compone
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Badge, Button, Card, Field, Notice } from "~/components/ui";
 import { formatDateTime } from "~/lib/format";
-import { amendSchema, draftProblems, type EntryDraft, entryDraftSchema, photoSchema, resultEntrySchema, submitMaterialSchema } from "~/lib/results/entry-forms";
-import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES } from "~/lib/results/fresh";
+import { draftChanges, rebaseDraft } from "~/lib/results/entry-draft";
+import {
+  amendFreshSchema,
+  amendSchema,
+  type DraftChanges,
+  draftProblems,
+  type EntryDraft,
+  entryDraftSchema,
+  photoSchema,
+  resultEntrySchema,
+  submitMaterialSchema,
+} from "~/lib/results/entry-forms";
+import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
 import { SAVE_STATE_TEXT, useAutosavedDraft } from "~/lib/results/use-autosaved-draft";
 import { checkResultValue, checkTestDate } from "~/lib/results/values";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { freshTargets, getBatch, saveFreshProperties } from "~/models/batch.server";
-import { openQueriesOfMaterial } from "~/models/lab-queries.server";
+import { writeRefusal } from "~/lib/write-rules";
+import { correctableResponses, openQueriesOfMaterial } from "~/models/lab-queries.server";
 import {
   amendResult,
   attachReplicatePhoto,
@@ -25,6 +37,7 @@ import {
   ResultsError,
   type ResultInputRow,
   saveDraftResults,
+  type UnusualValue,
   submitMaterial,
 } from "~/models/results.server";
 import { refuse } from "~/server/form-reply.server";
@@ -55,10 +68,11 @@ const text = (n: number | null | undefined) => (n === null || n === undefined ? 
 
 /** The draft as stored on the server, in the form's shape. */
 function serverDraft(entry: Entry, batch: Batch, replicates: number): EntryDraft {
-  const draft: EntryDraft = { values: {}, testedOn: {}, operator: {}, fresh: {}, batchedAt: batch?.batchedAt ?? "" };
+  const draft: EntryDraft = { values: {}, testedOn: {}, operator: {}, fresh: {}, batchedAt: batch?.batchedAt ?? "", versions: {} };
   for (const response of entry.responses) {
     for (const r of response.results) {
       draft.values[`${response.key}:${r.replicate}`] = text(r.value);
+      draft.versions[`${response.key}:${r.replicate}`] = r.version;
       if (r.testedOn) draft.testedOn[r.replicate] ??= r.testedOn;
       if (r.operator) draft.operator[r.replicate] ??= r.operator;
     }
@@ -73,16 +87,21 @@ function serverDraft(entry: Entry, batch: Batch, replicates: number): EntryDraft
 
 export async function loader({ params, context }: Route.LoaderArgs) {
   const { study, enrollment, entry } = await loadEntry(context, params);
-  const [batch, targets, openQueries] = await Promise.all([
+  const [batch, targets, openQueries, correctable] = await Promise.all([
     getBatch(enrollment.id, entry.material.id),
     freshTargets(study.id),
     openQueriesOfMaterial(enrollment, entry.material.id),
+    correctableResponses(enrollment, entry.material.id),
   ]);
   const photos: Record<number, number> = {};
   for (const response of entry.responses) for (const r of response.results) if (r.photoAttachmentId) photos[r.replicate] = r.photoAttachmentId;
   return {
     study: { id: study.id, state: study.state, replicatesPerCell: study.replicatesPerCell },
-    editable: study.state === "testing",
+    editable: study.state === "testing" && enrollment.state === "accepted",
+    /** Why nothing can be typed here, as the write rules say it. */
+    lockedBecause: writeRefusal("results", study.state),
+    /** After testing, the responses whose cell a correction query lets the lab amend. */
+    correctable: study.state === "checking" && enrollment.state === "accepted" ? correctable : [],
     enrollmentId: enrollment.id,
     material: { id: entry.material.id, code: entry.material.code, description: entry.material.description },
     responses: entry.responses.map(({ results: _results, ...response }) => response),
@@ -94,37 +113,32 @@ export async function loader({ params, context }: Route.LoaderArgs) {
   };
 }
 
-/** Turns the form's draft into result rows; `fieldOf` maps each row number back to the field that shows its problem. */
-function draftRows(entry: Entry, draft: EntryDraft, replicates: number) {
-  const rows: ResultInputRow[] = [];
-  const fieldOf = new Map<number, { value: string; replicate: number }>();
-  for (const response of entry.responses) {
-    if (response.cell?.status === "submitted") continue;
-    for (let replicate = 1; replicate <= replicates; replicate++) {
-      const key = `${response.key}:${replicate}`;
-      const row = rows.length + 1;
-      rows.push({ row, material: entry.material.code, response: response.key, replicate, value: draft.values[key] ?? "", testedOn: draft.testedOn[replicate], operator: draft.operator[replicate] });
-      fieldOf.set(row, { value: key, replicate });
-    }
-  }
-  return { rows, fieldOf };
-}
-
-async function saveDraft(enrollment: Enrollment, entry: Entry, draft: EntryDraft, replicates: number, user: { id: number }) {
-  const { rows, fieldOf } = draftRows(entry, draft, replicates);
+/**
+ * Saves what changed: replicates of cells still in draft (each checked
+ * against the version it was read at) and the changed fresh properties.
+ * Returns the problems and the conflicts keyed by the field that shows them.
+ */
+async function saveChanges(enrollment: Enrollment, entry: Entry, changes: DraftChanges, user: { id: number }) {
+  const submittedKeys = new Set(entry.responses.filter((r) => r.cell?.status === "submitted").map((r) => r.key));
+  const sent = changes.rows.filter((r) => !submittedKeys.has(r.response));
+  const rows: ResultInputRow[] = sent.map((r, i) => ({ row: i + 1, material: entry.material.code, ...r }));
   const outcome = await saveDraftResults(enrollment, rows, user);
   const problems: Record<string, string> = {};
+  const conflicts: Record<string, string> = {};
+  const fieldOf = (row: number) => sent[row - 1]!;
   for (const p of outcome.problems) {
-    const field = fieldOf.get(p.row)!;
-    const key = p.field === "tested_on" ? `testedOn:${field.replicate}` : p.field === "operator" ? `operator:${field.replicate}` : field.value;
+    const { response, replicate } = fieldOf(p.row);
+    const key = p.field === "tested_on" ? `testedOn:${replicate}` : p.field === "operator" ? `operator:${replicate}` : `${response}:${replicate}`;
     problems[key] ??= p.message;
   }
+  for (const c of outcome.conflicts) conflicts[`${fieldOf(c.row).response}:${c.replicate}`] = c.message;
   const locked = entry.responses.every((r) => r.cell?.status === "submitted");
-  if (!locked) {
-    const fresh = await saveFreshProperties(enrollment, entry.material.id, { ...draft.fresh, batchedAt: draft.batchedAt }, user);
+  const freshChanged = Object.keys(changes.fresh).length > 0 || changes.batchedAt !== undefined;
+  if (!locked && freshChanged) {
+    const fresh = await saveFreshProperties(enrollment, entry.material.id, { ...changes.fresh, ...(changes.batchedAt !== undefined ? { batchedAt: changes.batchedAt } : {}) }, user);
     for (const [property, message] of Object.entries(fresh.problems)) problems[`fresh:${property}`] = message;
   }
-  return problems;
+  return { problems, conflicts };
 }
 
 export async function action({ request, params, context }: Route.ActionArgs) {
@@ -138,32 +152,57 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   const input = submission.value;
   switch (input.intent) {
     case "draft": {
-      const problems = await saveDraftOrRefuse(enrollment, entry, input.draft, study.replicatesPerCell, user);
-      if (!problems.ok) return refuse(submission, { form: [problems.message] });
-      const fresh = await materialEntry(enrollment, entry.material.id);
-      const stamp = JSON.stringify(serverDraft(fresh!, await getBatch(enrollment.id, entry.material.id), study.replicatesPerCell));
-      return { problems: problems.value, stamp };
+      const saved = await saveChangesOrRefuse(enrollment, entry, input.draft, user);
+      if (!saved.ok) return refuse(submission, { form: [saved.message] });
+      return { ...saved.value, stamp: await currentStamp(enrollment, entry, study.replicatesPerCell) };
     }
     case "submit": {
-      const problems = await saveDraftOrRefuse(enrollment, entry, input.draft, study.replicatesPerCell, user);
-      if (!problems.ok) return refuse(submission, { form: [problems.message] });
-      if (Object.keys(problems.value).length > 0) {
-        return data({ result: submission.reply({ formErrors: ["Correct the marked fields first."] }), problems: problems.value }, { status: 400 });
+      const saved = await saveChangesOrRefuse(enrollment, entry, input.draft, user);
+      if (!saved.ok) return refuse(submission, { form: [saved.message] });
+      const { problems, conflicts } = saved.value;
+      if (Object.keys(conflicts).length > 0) {
+        return data(
+          {
+            result: submission.reply({ formErrors: ["Someone else changed a value meanwhile; check the marked fields, then submit again."] }),
+            problems,
+            conflicts,
+            stamp: await currentStamp(enrollment, entry, study.replicatesPerCell),
+          },
+          { status: 409 },
+        );
       }
-      const submitted = await submitMaterial(enrollment, entry.material.id, user);
-      if (!submitted.ok) return data({ result: submission.reply({ formErrors: submitted.problems }) }, { status: 400 });
+      if (Object.keys(problems).length > 0) {
+        return data({ result: submission.reply({ formErrors: ["Correct the marked fields first."] }), problems }, { status: 400 });
+      }
+      const submitted = await submitMaterial(enrollment, entry.material.id, user, { confirmedUnusual: input.confirmUnusual === "yes" });
+      if (!submitted.ok) return data({ result: submission.reply({ formErrors: submitted.problems }), unusualValues: submitted.unusual ?? [] }, { status: 400 });
       return redirectWithToast(here, `${entry.material.code} is submitted. Thank you.`);
     }
     case "amend": {
-      const { responseId, replicate, version, value, reason } = input;
+      const { responseId, replicate, version, value, reason, confirmUnusual } = input;
       try {
-        const outcome = await amendResult(enrollment, entry.material.id, { responseId, replicate, value, reason, expectedVersion: version }, user);
-        if (!outcome.ok) return refuse(submission, { [outcome.field]: [outcome.message] }, outcome.field === "form" ? 409 : 400);
+        const outcome = await amendResult(enrollment, entry.material.id, { responseId, replicate, value, reason, expectedVersion: version, confirmedUnusual: confirmUnusual === "yes" }, user);
+        if (!outcome.ok) {
+          return data({ result: submission.reply({ fieldErrors: { [outcome.field]: [outcome.message] } }), unusual: outcome.unusual ?? false }, { status: outcome.field === "form" ? 409 : 400 });
+        }
       } catch (error) {
         if (error instanceof ResultsError) return refuse(submission, { form: [error.message] });
         throw error;
       }
       return redirectWithToast(here, "Amendment recorded. The coordinator sees the old and the new value with your reason.");
+    }
+    case "amend-fresh": {
+      const { intent: _, reason, ...readings } = input;
+      let outcome: Awaited<ReturnType<typeof saveFreshProperties>>;
+      try {
+        outcome = await saveFreshProperties(enrollment, entry.material.id, readings as Partial<Record<FreshProperty, string>>, user, { reason: reason ?? "" });
+      } catch (error) {
+        if (error instanceof ResultsError) return refuse(submission, { form: [error.message] });
+        throw error;
+      }
+      const problems = Object.entries(outcome.problems as Record<string, string>);
+      if (problems.length > 0) return refuse(submission, Object.fromEntries(problems.map(([field, message]) => [field, [message]])));
+      return redirectWithToast(here, "Fresh properties amended. The coordinator sees the old and the new readings with your reason.");
     }
     case "photo":
       try {
@@ -176,10 +215,16 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   }
 }
 
-/** Saves the draft; a study no longer open to changes (a ResultsError) refuses the whole form. */
-async function saveDraftOrRefuse(enrollment: Enrollment, entry: Entry, draft: EntryDraft, replicates: number, user: { id: number }) {
+/** The server's draft after a save, for the page to fold into what is on screen. */
+async function currentStamp(enrollment: Enrollment, entry: Entry, replicates: number) {
+  const current = await materialEntry(enrollment, entry.material.id);
+  return JSON.stringify(serverDraft(current!, await getBatch(enrollment.id, entry.material.id), replicates));
+}
+
+/** Saves the changes; a study no longer open to changes (a ResultsError) refuses the whole form. */
+async function saveChangesOrRefuse(enrollment: Enrollment, entry: Entry, changes: DraftChanges, user: { id: number }) {
   try {
-    return { ok: true as const, value: await saveDraft(enrollment, entry, draft, replicates, user) };
+    return { ok: true as const, value: await saveChanges(enrollment, entry, changes, user) };
   } catch (error) {
     if (error instanceof ResultsError) return { ok: false as const, message: error.message };
     throw error;
@@ -208,15 +253,29 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
   const replicates = Array.from({ length: study.replicatesPerCell }, (_, i) => i + 1);
   const locked = responses.every((r) => r.cell?.status === "submitted");
   const storageKey = `ringbatch:results-draft:${loaderData.enrollmentId}:${material.id}`;
-  const { draft, update, saveState, problems: savedProblems, forget, flush } = useAutosavedDraft({
+  const responseKeys = responses.filter((r) => r.cell?.status !== "submitted").map((r) => r.key);
+  const {
+    draft,
+    update,
+    saveState,
+    problems: savedProblems,
+    conflicts: savedConflicts,
+    forget,
+    flush,
+    base,
+  } = useAutosavedDraft({
     storageKey,
     serverDraft: loaderData.draft,
     intent: "draft",
     schema: entryDraftSchema,
+    changes: (from: EntryDraft, to: EntryDraft) => draftChanges(from, to, responseKeys, study.replicatesPerCell),
+    rebase: rebaseDraft,
   });
   const submitReply = actionData && "result" in actionData && actionData.result?.initialValue?.intent === "submit" ? actionData : undefined;
-  const submitProblems = submitReply && "problems" in submitReply ? submitReply.problems : undefined;
-  const problems: Record<string, string> = { ...savedProblems, ...(submitProblems as Record<string, string> | undefined), ...draftProblems(draft) };
+  const submitProblems = submitReply && "problems" in submitReply ? (submitReply.problems as Record<string, string>) : undefined;
+  const submitConflicts = submitReply && "conflicts" in submitReply ? (submitReply.conflicts as Record<string, string>) : undefined;
+  const unusualValues = submitReply && "unusualValues" in submitReply ? (submitReply.unusualValues as UnusualValue[]) : [];
+  const problems: Record<string, string> = { ...savedProblems, ...savedConflicts, ...submitProblems, ...submitConflicts, ...draftProblems(draft) };
   const [submitForm] = useSchemaForm(submitMaterialSchema, { reply: submitReply, intent: "submit" });
   const submitFormProps = getFormProps(submitForm);
 
@@ -238,7 +297,10 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
       </div>
       <div className="grid gap-6 [&>*]:min-w-0">
         <ConcreteCaution />
-        {!editable && <Notice>Results can be changed only while the study is in testing.</Notice>}
+        {!editable && loaderData.lockedBecause && <Notice>{loaderData.lockedBecause}</Notice>}
+        {loaderData.correctable.length > 0 && (
+          <Notice tone="caution">The coordinator asks your lab to correct a result of this material. Amend the named result below with the reason; the change is kept in the audit trail.</Notice>
+        )}
         {openQueries.length > 0 && (
           <Notice tone="caution">
             The coordinator asks about this material:
@@ -301,9 +363,19 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
           </div>
         </Card>
 
+        {locked && (editable || loaderData.correctable.length > 0) && <AmendFreshForm fresh={loaderData.draft.fresh} actionData={actionData} />}
+
         <Card title={locked ? "Submitted results" : "Results per replicate"}>
           {locked ? (
-            <SubmittedResults responses={responses} replicates={replicates} values={loaderData.submittedValues} actionData={actionData} editable={editable} photos={photos} />
+            <SubmittedResults
+              responses={responses}
+              replicates={replicates}
+              values={loaderData.submittedValues}
+              actionData={actionData}
+              editable={editable}
+              correctable={loaderData.correctable}
+              photos={photos}
+            />
           ) : (
             <div className="relative overflow-x-auto">
               <table className="w-full border-collapse text-left">
@@ -403,10 +475,29 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
               }}
             >
               <FormErrors errors={formWideErrors(submitForm)} />
+              {unusualValues.length > 0 && (
+                <Notice tone="caution">
+                  <p className="font-semibold">Please look again at these values before submitting:</p>
+                  <ul className="ml-5 list-disc" aria-label="Values outside the plausible range">
+                    {unusualValues.map((u) => (
+                      <li key={`${u.response}:${u.replicate}`}>
+                        {u.response}, replicate {u.replicate}: <span className="font-semibold">{u.value}</span> (plausible {u.range})
+                      </li>
+                    ))}
+                  </ul>
+                  <p className="mt-2">If they are what your lab measured, confirm and submit; otherwise correct them above.</p>
+                </Notice>
+              )}
               <input type="hidden" name="intent" value="submit" />
-              <input type="hidden" name="draft" value={JSON.stringify(draft)} />
+              <input type="hidden" name="draft" value={JSON.stringify(draftChanges(base(), draft, responseKeys, study.replicatesPerCell))} />
               <div>
-                <Button type="submit">Submit {material.code}</Button>
+                {unusualValues.length > 0 ? (
+                  <Button type="submit" name="confirmUnusual" value="yes">
+                    Confirm these values and submit {material.code}
+                  </Button>
+                ) : (
+                  <Button type="submit">Submit {material.code}</Button>
+                )}
               </div>
             </Form>
           </Card>
@@ -505,6 +596,7 @@ function SubmittedResults({
   values,
   actionData,
   editable,
+  correctable,
   photos,
 }: {
   responses: ResponseView[];
@@ -512,6 +604,7 @@ function SubmittedResults({
   values: Record<string, number>;
   actionData: ActionData;
   editable: boolean;
+  correctable: number[];
   photos: Record<number, number>;
 }) {
   const answered = actionData && "result" in actionData ? actionData.result?.initialValue : undefined;
@@ -536,7 +629,7 @@ function SubmittedResults({
                       </>
                     )}
                   </span>
-                  {editable && <AmendForm response={response} replicate={replicate} reply={mine ? actionData : undefined} />}
+                  {(editable || correctable.includes(response.id)) && <AmendForm response={response} replicate={replicate} reply={mine ? actionData : undefined} />}
                 </li>
               );
             })}
@@ -550,6 +643,8 @@ function SubmittedResults({
 function AmendForm({ response, replicate, reply }: { response: ResponseView; replicate: number; reply: ActionData }) {
   const target = `${response.id}-${replicate}`;
   const [form, fields] = useSchemaForm(amendSchema, { reply, id: `amend-${target}` });
+  // A value outside the plausible range is refused once, beside the value, and recorded when confirmed.
+  const unusual = reply !== undefined && "unusual" in reply && reply.unusual === true;
   return (
     <details className="flex-1" open={Boolean(reply)}>
       <summary className="cursor-pointer font-semibold text-basalt-700 underline">
@@ -563,9 +658,38 @@ function AmendForm({ response, replicate, reply }: { response: ResponseView; rep
         <FormErrors errors={formWideErrors(form)} />
         <Field label={`Corrected value, ${response.name.toLowerCase()}, replicate ${replicate}`} inputMode="decimal" {...fieldProps(fields.value)} />
         <Field label="Reason for the change" hint="The coordinator sees the reason, the old and the new value." {...fieldProps(fields.reason)} />
-        <Button type="submit">Record amendment</Button>
+        {unusual ? (
+          <Button type="submit" name="confirmUnusual" value="yes">
+            Confirm the value and record the amendment
+          </Button>
+        ) : (
+          <Button type="submit">Record amendment</Button>
+        )}
       </Form>
     </details>
+  );
+}
+
+/** Corrected fresh properties of a submitted material, with the reason the coordinator reads in the audit trail. */
+function AmendFreshForm({ fresh, actionData }: { fresh: EntryDraft["fresh"]; actionData: ActionData }) {
+  const [form, fields] = useSchemaForm(amendFreshSchema, { reply: actionData, intent: "amend-fresh", id: "amend-fresh", defaultValue: fresh });
+  return (
+    <Card title="Amend fresh properties">
+      <p className="mb-3 text-basalt-700">The results are submitted: a corrected reading needs its reason, which the coordinator sees in the audit trail.</p>
+      <Form method="post" className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3" {...getFormProps(form)}>
+        <input type="hidden" name="intent" value="amend-fresh" />
+        <div className="sm:col-span-2 lg:col-span-3">
+          <FormErrors errors={formWideErrors(form)} />
+        </div>
+        {FRESH_PROPERTY_NAMES.map((property) => (
+          <Field key={property} label={`${FRESH_FIELDS[property].label} (${FRESH_FIELDS[property].unit})`} inputMode="decimal" {...fieldProps(fields[property])} />
+        ))}
+        <Field label="Reason for changing the fresh properties" {...fieldProps(fields.reason)} />
+        <div className="self-end">
+          <Button type="submit">Record the amendment</Button>
+        </div>
+      </Form>
+    </Card>
   );
 }
 

@@ -4,19 +4,20 @@ import { data, Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/ballot";
 import { LazyCharts } from "~/components/charts/lazy-charts";
-import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, replyAbout, useSchemaForm } from "~/components/forms";
 import { PrecisionTables } from "~/components/precision-tables";
 import { StateBadge } from "~/components/state-badge";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, TextAreaField } from "~/components/ui";
 import { formatDateTime } from "~/lib/format";
-import { reviewRefusal } from "~/lib/review/write-rules";
+import { OBJECTION_STAGE_TEXT, QUORUM_SENTENCE } from "~/lib/review/publication";
+import { writeRefusal } from "~/lib/write-rules";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { STATEMENT_STATE, VOTE_CHOICE } from "~/lib/state-labels";
 import { studyAnalysis } from "~/models/analysis.server";
-import { addComment, castVote, commentsOn, ReviewError } from "~/models/review.server";
-import { listStatements, studyDesign, votesOn } from "~/models/statement.server";
+import { addComment, castVote, commentsOn, replyToAnswer, ReviewError, ruleOnObjection } from "~/models/review.server";
+import { listStatements, publicationStatus, reviewersByName, studyDesign, votesOn } from "~/models/statement.server";
 import { refuse } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
@@ -29,6 +30,8 @@ export async function loader({ context }: Route.LoaderArgs) {
   // The committee sees only versions that were sent to it, never a coordinator's draft.
   const statement = (await listStatements(study.id)).find((s) => s.sentAt !== null) ?? null;
   const [roundVotes, comments] = statement ? await Promise.all([votesOn(statement.id), commentsOn(statement.id)]) : [[], []];
+  const publication = await publicationStatus(study.id);
+  const isChair = publication.round?.chairId === user.id;
   const own = roundVotes.find((v) => v.reviewerId === user.id) ?? null;
   // Before a version is sent, the committee can follow the blinded figures as they stand.
   const current = statement
@@ -53,10 +56,16 @@ export async function loader({ context }: Route.LoaderArgs) {
       textC670: statement.textC670,
       snapshot: statement.snapshot,
     },
-    votes: roundVotes.map(({ reviewerId: _reviewerId, ...v }) => v),
-    own: own && { choice: own.choice, reason: own.reason },
+    votes: roundVotes.map(({ reviewerId, ...v }) => ({ ...v, ruleable: isChair && reviewerId !== user.id && v.stage === "awaiting_ruling" })),
+    own: own && { choice: own.choice, reason: own.reason, stage: own.stage, answerRationale: own.answerRationale },
+    round: publication.round && {
+      chair: (await reviewersByName(study.id)).find((r) => r.id === publication.round!.chairId)?.name ?? null,
+      isChair,
+      reviewers: publication.round.reviewerIds.length,
+    },
+    tally: publication.check.tally,
     comments,
-    refusal: statement?.state === "in_review" ? reviewRefusal(study.state) : "The round is closed.",
+    refusal: statement?.state === "in_review" ? writeRefusal("review", study.state) : "The round is closed.",
   };
 }
 
@@ -73,12 +82,28 @@ const voteSchema = z
     message: "An objection needs its reason (at least 10 characters).",
   });
 
+const replySchema = z
+  .object({
+    intent: z.literal("reply"),
+    reply: z.enum(["withdrawn", "maintained"], { message: "Choose withdraw or maintain." }),
+    note: z.string().trim().max(4000, "Keep the note under 4000 characters.").optional(),
+  })
+  .refine((v) => v.reply !== "maintained" || (v.note ?? "").length >= 10, { path: ["note"], message: "Say why you maintain the objection (at least 10 characters)." });
+
+const RULING_REASON_TOO_SHORT = "Give the reason for the ruling (at least 10 characters).";
+const rulingSchema = z.object({
+  intent: z.literal("rule"),
+  voteId: z.coerce.number({ message: "Missing id." }).int().positive("Missing id."),
+  ruling: z.enum(["upheld", "not_upheld"], { message: "Choose upheld or not upheld." }),
+  reason: z.string({ message: RULING_REASON_TOO_SHORT }).trim().min(10, RULING_REASON_TOO_SHORT).max(4000, "Keep the reason under 4000 characters."),
+});
+
 const commentSchema = z.object({
   intent: z.literal("comment"),
   body: z.string({ message: "Write the comment." }).trim().min(2, "Write the comment.").max(4000, "Keep the comment under 4000 characters."),
 });
 
-const ballotSchema = z.discriminatedUnion("intent", [voteSchema, commentSchema]);
+const ballotSchema = z.discriminatedUnion("intent", [voteSchema, replySchema, rulingSchema, commentSchema]);
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireStudy(context, ["reviewer"]);
@@ -89,11 +114,20 @@ export async function action({ request, context }: Route.ActionArgs) {
   const input = submission.value;
   try {
     if (input.intent === "vote") {
-      await castVote(study, user.id, {
-        choice: input.choice,
-        reason: input.reason || null,
-      });
-      return redirectWithToast(`/review/${study.id}`, "Your vote is recorded. You may change it until the round closes.");
+      await castVote(study, user.id, { choice: input.choice, reason: input.reason || null }, request);
+      return redirectWithToast(`/review/${study.id}`, "Your vote is recorded. You may change it until the round closes or your objection is answered.");
+    }
+    if (input.intent === "reply") {
+      await replyToAnswer(study, user.id, { reply: input.reply, note: input.note ?? "" }, request);
+      return redirectWithToast(`/review/${study.id}`, input.reply === "withdrawn" ? "Objection withdrawn." : "Objection maintained; the chair will rule on it.");
+    }
+    if (input.intent === "rule") {
+      const { intent: _, ...ruling } = input;
+      if (!(await ruleOnObjection(study, user.id, ruling, request))) return data({ result: submission.reply({ formErrors: ["That vote is not part of this round."] }) }, { status: 404 });
+      return redirectWithToast(
+        `/review/${study.id}`,
+        input.ruling === "upheld" ? "Ruling recorded: the objection is upheld and the statement goes back to the coordinator." : "Ruling recorded: the objection is not upheld.",
+      );
     }
     await addComment(study, user.id, input.body);
     return redirectWithToast(`/review/${study.id}`, "Comment added.");
@@ -110,7 +144,7 @@ const CHOICES = [
 ] as const;
 
 export default function ReviewStudy({ loaderData, actionData }: Route.ComponentProps) {
-  const { statement, current, votes, own, comments, refusal } = loaderData;
+  const { statement, current, votes, own, comments, refusal, round, tally } = loaderData;
   return (
     <div className="flex flex-col gap-6">
       <StatementCaution />
@@ -151,9 +185,19 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
                 {own.reason && <> — “{own.reason}”</>}.
               </p>
             )}
-            {refusal ? <p>{refusal}</p> : <VoteForm own={own} actionData={actionData} />}
+            {own?.stage && <p className="mb-3 text-basalt-700">Your objection: {OBJECTION_STAGE_TEXT[own.stage]}.</p>}
+            {!refusal && own?.stage === "awaiting_objector" && <ReplyForm answerRationale={own.answerRationale} chair={round?.chair ?? null} actionData={actionData} />}
+            {refusal ? <p>{refusal}</p> : own?.stage && own.stage !== "awaiting_answer" ? null : <VoteForm own={own} actionData={actionData} />}
           </Card>
           <Card title="Votes and answers">
+            {round && (
+              <p className="mb-2">
+                Chair of this round: {round.chair ?? "—"}. {QUORUM_SENTENCE}
+              </p>
+            )}
+            <p className="mb-3" data-testid="tally">
+              Tally: {tally.voted} of {tally.reviewers} reviewers voted · {tally.approve} approve · {tally.object} object · {tally.abstain} abstain
+            </p>
             {votes.length === 0 ? (
               <p>No vote yet.</p>
             ) : (
@@ -167,6 +211,18 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
                         Coordinator's answer: <strong>{v.answer === "upheld" ? "upheld" : "not upheld"}</strong> — {v.answerRationale}
                       </p>
                     )}
+                    {v.objectorReply && (
+                      <p className="mt-1">
+                        {v.reviewer} {v.objectorReply === "withdrawn" ? "withdrew" : "maintains"} the objection{v.objectorReplyNote && <> — “{v.objectorReplyNote}”</>}
+                      </p>
+                    )}
+                    {v.ruling && (
+                      <p className="mt-1">
+                        Chair's ruling: <strong>{v.ruling === "upheld" ? "upheld" : "not upheld"}</strong> — {v.rulingReason}
+                      </p>
+                    )}
+                    {v.stage && <p className="mt-1 text-sm text-basalt-700">{OBJECTION_STAGE_TEXT[v.stage]}</p>}
+                    {v.ruleable && !refusal && <RulingForm vote={v} actionData={actionData} />}
                   </li>
                 ))}
               </ul>
@@ -243,6 +299,77 @@ function VoteForm({
       <TextAreaField label="Reason" hint="Required when you object." {...fieldProps(fields.reason)} />
       <div>
         <Button type="submit">Record my vote</Button>
+      </div>
+    </Form>
+  );
+}
+
+/** The objector's reply to a "not upheld" answer: withdraw, or maintain it for the chair's ruling. */
+function ReplyForm({ answerRationale, chair, actionData }: { answerRationale: string | null; chair: string | null; actionData: ActionData }) {
+  const [form, fields] = useSchemaForm(replySchema, { reply: actionData, intent: "reply" });
+  const replyError = fields.reply.errors?.[0];
+  return (
+    <Form method="post" className="mb-4 flex flex-col gap-3 rounded border border-ochre-300 p-3" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="reply" />
+      <FormErrors errors={formWideErrors(form)} />
+      <p>
+        The coordinator answered your objection <strong>not upheld</strong>: “{answerRationale}”. Withdraw the objection, or maintain it and the chair
+        {chair ? ` (${chair})` : ""} will rule on it.
+      </p>
+      <fieldset aria-describedby={replyError ? fields.reply.errorId : undefined}>
+        <legend className="font-semibold text-basalt-800">Your reply</legend>
+        <div className="flex flex-wrap gap-4">
+          <label className="inline-flex min-h-11 items-center gap-2">
+            <input type="radio" name={fields.reply.name} value="withdrawn" className="size-5" defaultChecked={fields.reply.initialValue === "withdrawn"} /> Withdraw my objection
+          </label>
+          <label className="inline-flex min-h-11 items-center gap-2">
+            <input type="radio" name={fields.reply.name} value="maintained" className="size-5" defaultChecked={fields.reply.initialValue === "maintained"} /> Maintain it
+          </label>
+        </div>
+        {replyError && (
+          <p id={fields.reply.errorId} className="text-sm font-semibold text-signal-700">
+            {replyError}
+          </p>
+        )}
+      </fieldset>
+      <TextAreaField label="Note" hint="Required when you maintain the objection." {...fieldProps(fields.note)} />
+      <div>
+        <Button type="submit">Send my reply</Button>
+      </div>
+    </Form>
+  );
+}
+
+type RoundVote = Route.ComponentProps["loaderData"]["votes"][number];
+
+/** The chair's ruling on one maintained objection; the action's answer belongs to it only when it names this vote. */
+function RulingForm({ vote, actionData }: { vote: RoundVote; actionData: ActionData }) {
+  const [form, fields] = useSchemaForm(rulingSchema, { reply: replyAbout(actionData, "voteId", vote.id), intent: "rule", id: `ruling-${vote.id}` });
+  const rulingError = fields.ruling.errors?.[0];
+  return (
+    <Form method="post" className="mt-3 flex flex-col gap-3" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="rule" />
+      <input type="hidden" name="voteId" value={vote.id} />
+      <FormErrors errors={formWideErrors(form)} />
+      <fieldset aria-describedby={rulingError ? fields.ruling.errorId : undefined}>
+        <legend className="font-semibold text-basalt-800">Your ruling as chair on {vote.reviewer}'s maintained objection</legend>
+        <div className="flex flex-wrap gap-4">
+          <label className="inline-flex min-h-11 items-center gap-2">
+            <input type="radio" name={fields.ruling.name} value="upheld" className="size-5" defaultChecked={fields.ruling.initialValue === "upheld"} /> Upheld (the statement goes back for revision)
+          </label>
+          <label className="inline-flex min-h-11 items-center gap-2">
+            <input type="radio" name={fields.ruling.name} value="not_upheld" className="size-5" defaultChecked={fields.ruling.initialValue === "not_upheld"} /> Not upheld
+          </label>
+        </div>
+        {rulingError && (
+          <p id={fields.ruling.errorId} className="text-sm font-semibold text-signal-700">
+            {rulingError}
+          </p>
+        )}
+      </fieldset>
+      <TextAreaField label="Reason for the ruling (recorded and shown to the committee)" {...fieldProps(fields.reason)} />
+      <div>
+        <Button type="submit">Record the ruling</Button>
       </div>
     </Form>
   );

@@ -21,7 +21,8 @@ import { type ComputedGroup, type Finding, isSignificanceLevel, SIGNIFICANCE_LEV
 import { type CellRef, cellKey, parseCellList, sameCell } from "~/lib/review/cells";
 import { flaggedCells, flagStatistic, suggestedQuestion } from "~/lib/review/flags";
 import { ALPHA_LABEL, figureDecimals, formatFigure } from "~/lib/review/format";
-import { decisionRefusal, queryRefusal } from "~/lib/review/write-rules";
+import { writeRefusal } from "~/lib/write-rules";
+import { ConfirmStep } from "~/components/confirm-dialog";
 import { QUERY_STATE } from "~/lib/state-labels";
 import { studyAnalysis, withdrawnLabCodes } from "~/models/analysis.server";
 import { listStudyQueries, raiseQuery } from "~/models/coordinator-queries.server";
@@ -64,8 +65,8 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     flagged: flaggedCells(analysis),
     cell,
     cellEvidence: evidence,
-    decisionRefusal: decisionRefusal(study.state),
-    queryRefusal: queryRefusal(study.state),
+    decisionRefusal: writeRefusal("decisions", study.state),
+    queryRefusal: writeRefusal("queries", study.state),
   };
 }
 
@@ -79,6 +80,8 @@ const askSchema = z.object({
   ...cellFields,
   statistic: z.string().trim().max(800, "Keep the statistic under 800 characters.").default(""),
   question: z.string({ message: QUESTION_TOO_SHORT }).trim().min(10, QUESTION_TOO_SHORT).max(2000, "Keep the question under 2000 characters."),
+  // A checkbox: present means the lab may amend the cell while the query is open.
+  asksCorrection: z.literal("on").optional(),
 });
 
 const decideSchema = z.object({
@@ -100,8 +103,8 @@ export async function action({ request, context }: Route.ActionArgs) {
     submission,
     async () => {
       if (form.intent === "ask") {
-        const { intent: _, ...query } = form;
-        await raiseQuery(study, user.id, query, request);
+        const { intent: _, asksCorrection, ...query } = form;
+        await raiseQuery(study, user.id, { ...query, asksCorrection: asksCorrection === "on" }, request);
         return `Query sent to lab ${query.lab}.`;
       }
       const { intent: _, ...decision } = form;
@@ -356,6 +359,10 @@ function AskTheLab({
       <input type="hidden" name="intent" value="ask" />
       <CellHiddenFields cell={cell} />
       <Field label="Statistic quoted" {...fieldProps(fields.statistic)} />
+      <label className="inline-flex min-h-11 items-center gap-2">
+        <input type="checkbox" name={fields.asksCorrection.name} className="size-5" defaultChecked={fields.asksCorrection.initialValue === "on"} />
+        Ask the lab to correct this cell if it finds a recording error (it may amend this cell, with a reason, until you close the query)
+      </label>
       <TextAreaField label="Question to the lab" {...fieldProps(fields.question)} />
       <div>
         <Button type="submit" disabled={navigation.state === "submitting"}>
@@ -435,7 +442,22 @@ function DecisionForm({
         )}
       </div>
       <div>
-        <Button type="submit">Save decision</Button>
+        {choice === "excluded" && !currentlyExcluded ? (
+          <ConfirmStep
+            label="Save decision"
+            title={`Exclude lab ${cell.lab}, ${cell.material}, ${cell.response}?`}
+            consequences={
+              <>
+                <p>The cell leaves the precision figures; the before-and-after figures are shown on this page. The reason is kept with the decision and shown to the committee.</p>
+                <p>An excluded cell is reported in the statement as left out.</p>
+              </>
+            }
+            confirmLabel="Exclude the cell"
+            variant="danger"
+          />
+        ) : (
+          <Button type="submit">Save decision</Button>
+        )}
       </div>
     </Form>
   );

@@ -10,9 +10,11 @@ import { Button, Card, Notice, SelectField, TextAreaField } from "~/components/u
 import { formatDate } from "~/lib/format";
 import { ENROLLMENT_STATE } from "~/lib/state-labels";
 import { labsForms, labsSchema } from "~/lib/study-forms";
-import { invitationsOpen, RECOMMENDED_MIN_LABS } from "~/lib/study-lifecycle";
+import { RECOMMENDED_MIN_LABS } from "~/lib/study-lifecycle";
+import { mayWrite } from "~/lib/write-rules";
+import { ConfirmStep } from "~/components/confirm-dialog";
 import { studyPageMeta } from "~/lib/study-page-meta";
-import { inviteLab, listStudyEnrollments, WITHDRAWAL_STATES, withdrawEnrollment } from "~/models/invitation.server";
+import { inviteLab, listStudyEnrollments, withdrawEnrollment } from "~/models/invitation.server";
 import { listLabs } from "~/models/lab.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
@@ -40,8 +42,8 @@ export async function loader({ context }: Route.LoaderArgs) {
     study,
     rows,
     accepted: enrolled.filter((e) => e.state === "accepted").length,
-    canInvite: access === "coordinator" && invitationsOpen(study.state),
-    canWithdraw: access === "coordinator" && WITHDRAWAL_STATES.includes(study.state),
+    canInvite: access === "coordinator" && mayWrite("invitations", study.state),
+    canWithdraw: access === "coordinator" && mayWrite("withdrawals", study.state),
   };
 }
 
@@ -155,9 +157,19 @@ function WithdrawalForm({ labs, reply, busy }: { labs: { value: string; label: s
       <SelectField label="Lab" {...fieldProps(fields.enrollmentId)} options={[{ value: "", label: "Choose a lab" }, ...labs]} />
       <TextAreaField label="Reason" rows={2} {...fieldProps(fields.reason)} />
       <div>
-        <Button type="submit" variant="secondary" disabled={busy}>
-          Withdraw the lab
-        </Button>
+        <ConfirmStep
+          label="Withdraw the lab"
+          title="Withdraw the lab from the study?"
+          consequences={
+            <>
+              <p>The lab can no longer enter or change results, and its pending invitation stops working.</p>
+              <p>Its results are kept for the record but leave the analysis. This cannot be undone.</p>
+            </>
+          }
+          confirmLabel="Withdraw the lab"
+          variant="danger"
+          disabled={busy}
+        />
       </div>
     </Form>
   );

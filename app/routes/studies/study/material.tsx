@@ -22,7 +22,7 @@ import {
   type UnitSystem,
 } from "~/lib/mixture-form";
 import { materialEditorSchema } from "~/lib/study-forms";
-import { setupEditable } from "~/lib/study-lifecycle";
+import { mayWrite } from "~/lib/write-rules";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { loadMaterial, saveMaterial } from "~/models/study-setup.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
@@ -44,7 +44,7 @@ async function materialOf(studyId: number, param: string | undefined) {
 export async function loader({ params, context }: Route.LoaderArgs) {
   const { study, access } = requireStudy(context, ["coordinator", "admin", "reviewer"]);
   const { material, constituents } = await materialOf(study.id, params.materialId);
-  return { study, material, constituents, canEdit: access === "coordinator" && setupEditable(study.state) };
+  return { study, material, constituents, canEdit: access === "coordinator" && mayWrite("design", study.state) };
 }
 
 export async function action({ request, params, context }: Route.ActionArgs) {

@@ -13,7 +13,7 @@ import { CELL_STATUS_ORDER } from "~/lib/cell-status";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { formatDate, todayIso } from "~/lib/format";
 import { CELL_STATUS } from "~/lib/state-labels";
-import { resultsEditable } from "~/lib/study-lifecycle";
+import { mayWrite } from "~/lib/write-rules";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { remindLabsWithMissingResults } from "~/models/reminder.server";
 import { listStudyShipments } from "~/models/shipment.server";
@@ -42,7 +42,7 @@ export async function loader({ context }: Route.LoaderArgs) {
       shipped: shipments.filter((s) => s.status === "shipped").length,
       received: shipments.filter((s) => s.status === "received").length,
     },
-    canRemind: access === "coordinator" && resultsEditable(study.state),
+    canRemind: access === "coordinator" && mayWrite("results", study.state),
     today: todayIso(),
   };
 }
@@ -54,7 +54,7 @@ export async function action({ request, context }: Route.ActionArgs) {
   const submission = parseWithZod(await request.formData(), { schema: remindSchema });
   if (submission.status !== "success") return refuse(submission);
   const reminded = await withRefusals(submission, async () => {
-    if (!resultsEditable(study.state)) throw new FieldRefusal("form", "Reminders go out only while the study is testing.");
+    if (!mayWrite("results", study.state)) throw new FieldRefusal("form", "Reminders go out only while the study is testing.");
     return (await remindLabsWithMissingResults(study, user.id, request)).reminded;
   });
   if (!reminded.ok) return reminded.reply;

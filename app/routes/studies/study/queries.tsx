@@ -9,7 +9,7 @@ import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card } from "~/components/ui";
 import { formatDate } from "~/lib/format";
 import { cellKey } from "~/lib/review/cells";
-import { queryRefusal } from "~/lib/review/write-rules";
+import { writeRefusal } from "~/lib/write-rules";
 import { QUERY_STATE } from "~/lib/state-labels";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { closeQuery, listStudyQueries } from "~/models/coordinator-queries.server";
@@ -24,7 +24,7 @@ export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pa
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireStudy(context, ["coordinator", "admin"]);
-  return { study: { id: study.id, code: study.code, title: study.title }, queries: await listStudyQueries(study.id), refusal: queryRefusal(study.state) };
+  return { study: { id: study.id, code: study.code, title: study.title }, queries: await listStudyQueries(study.id), refusal: writeRefusal("queries", study.state) };
 }
 
 const closeSchema = z.object({

@@ -2,6 +2,7 @@ import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/setup";
+import { ConfirmStep } from "~/components/confirm-dialog";
 import { DataTable } from "~/components/data-table";
 import { fieldProps, FormErrors, formWideErrors, refusalOf, useSchemaForm } from "~/components/forms";
 import { StateBadge } from "~/components/state-badge";
@@ -15,7 +16,8 @@ import { FieldRefusal } from "~/lib/field-refusal";
 import { formatDate } from "~/lib/format";
 import { STATE_LABEL, STUDY_STATE } from "~/lib/state-labels";
 import { PROTOCOL_MAX_BYTES, protocolSchema, setupForms, setupSchema } from "~/lib/study-forms";
-import { allowedNextStates, setupEditable } from "~/lib/study-lifecycle";
+import { allowedNextStates, MOVE_CONSEQUENCES } from "~/lib/study-lifecycle";
+import { mayWrite, writeRefusal } from "~/lib/write-rules";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { previewTransition, transitionStudy } from "~/models/study-lifecycle.server";
 import { plannerView } from "~/models/study-planner.server";
@@ -45,17 +47,12 @@ export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pa
 /** Only the study's owner changes who coordinates and reviews it. */
 const OWNER_ONLY = new Set(["coordinator-add", "reviewer-add", "coordinator-remove", "reviewer-remove"]);
 
-/** The review workflow moves a study into and out of committee review; this page does not. */
-const MOVES_FROM_SETUP: StudyState[] = ["draft", "recruiting", "testing", "checking", "cancelled"];
-
 export async function loader({ request, context }: Route.LoaderArgs) {
   const { study, user, access } = requireStudy(context, ["coordinator", "admin", "reviewer"]);
   const planner = access === "reviewer" ? null : await plannerView(user, new URL(request.url).searchParams, study);
   const setup = await loadSetup(study);
   const moves = await Promise.all(
-    allowedNextStates(study.state)
-      .filter((to) => MOVES_FROM_SETUP.includes(to))
-      .map(async (to) => ({ to, ...(await previewTransition(study, to)) })),
+    allowedNextStates(study.state, "setup").map(async (to) => ({ to, ...(await previewTransition(study, to)) })),
   );
   return { study, setup, moves: access === "coordinator" ? moves : [], canEdit: access === "coordinator", isOwner: study.ownerId === user.id, planner };
 }
@@ -69,6 +66,9 @@ export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireStudy(context, ["coordinator"]);
   const setupPage = `/studies/${study.id}/setup`;
   if (request.headers.get("Content-Type")?.startsWith("multipart/form-data")) {
+    // Refused before the file is stored, so a late upload leaves nothing behind.
+    const closed = writeRefusal("protocol", study.state);
+    if (closed) return refuseProtocol(closed);
     const upload = await readUploadForm(request, "protocol", PROTOCOL_MAX_BYTES);
     if (upload.tooLarge) return refuseProtocol("The file is larger than 10 MB.");
     if (!upload.file) return refuseProtocol("Choose a PDF file to upload.");
@@ -86,7 +86,6 @@ export async function action({ request, context }: Route.ActionArgs) {
   const form = submission.value;
   if (OWNER_ONLY.has(form.intent) && study.ownerId !== user.id) notFound();
   const transitionFromSetup = async (to: StudyState) => {
-    if (!MOVES_FROM_SETUP.includes(to)) throw new TransitionRefusal("The committee review moves the study into review and publication.");
     const check = await transitionStudy(study, to, user.id);
     if (!check.allowed) throw new TransitionRefusal(check.problems.join(" "));
     const message = [`The study is now: ${STATE_LABEL[to]}.`, ...check.warnings].join(" ");
@@ -156,20 +155,22 @@ const MOVE_LABEL: Partial<Record<StudyState, string>> = {
 export default function StudySetup({ loaderData, actionData }: Route.ComponentProps) {
   const { study, setup, moves, canEdit, isOwner } = loaderData;
   const busy = useNavigation().state === "submitting";
-  const editable = canEdit && setupEditable(study.state);
+  const editable = canEdit && mayWrite("design", study.state);
+  const designFixed = canEdit && !editable ? writeRefusal("design", study.state) : null;
   const slump = setup.targets.find((t) => t.property === "slump");
   const air = setup.targets.find((t) => t.property === "air_content");
   const transitionRefusal = refusalOf(actionData, "transition");
   return (
     <div className="flex flex-col gap-6">
       <p className="text-basalt-700">
-        The study's details, responses, fresh-property targets, protocol, people and materials. Responses and materials are fixed once testing starts.
+        The study's details, responses, fresh-property targets, protocol, people and materials. Replicates, responses, materials and the protocol are fixed
+        once testing starts.
       </p>
       {moves.length > 0 && (
         <Card title="Study state">
           <p className="mb-3">
-            Now: <StateBadge view={STUDY_STATE[study.state]} />. Results can be entered only while the study is testing; responses and materials are fixed once
-            testing starts.
+            Now: <StateBadge view={STUDY_STATE[study.state]} />. Results can be entered only while the study is testing; replicates, responses, materials and
+            the protocol are fixed once testing starts. Sending to the committee and publishing happen on the statement page.
           </p>
           {transitionRefusal.length > 0 && <Notice tone="error">{transitionRefusal.join(" ")}</Notice>}
           <div className="mt-3 flex flex-wrap gap-4">
@@ -177,9 +178,22 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
               <Form key={move.to} method="post" className="flex max-w-sm flex-col gap-1">
                 <input type="hidden" name="intent" value="transition" />
                 <input type="hidden" name="to" value={move.to} />
-                <Button type="submit" variant={move.to === "cancelled" ? "danger" : "primary"} disabled={busy || !move.allowed}>
-                  {MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}
-                </Button>
+                <ConfirmStep
+                  label={MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}
+                  title={`${MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}?`}
+                  consequences={
+                    <>
+                      <p>{MOVE_CONSEQUENCES[move.to]}</p>
+                      {move.warnings.map((w) => (
+                        <p key={w}>{w}</p>
+                      ))}
+                      <p>This cannot be undone from this page.</p>
+                    </>
+                  }
+                  confirmLabel={MOVE_LABEL[move.to] ?? STATE_LABEL[move.to]}
+                  variant={move.to === "cancelled" ? "danger" : "primary"}
+                  disabled={busy || !move.allowed}
+                />
                 {[...move.problems, ...move.warnings].map((p) => (
                   <p key={p} className="text-sm text-basalt-700">
                     {p}
@@ -192,7 +206,8 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
       )}
 
       <Card title="Study details">
-        {canEdit ? (
+        {canEdit && writeRefusal("details", study.state) && <p className="mb-3 text-basalt-700">{writeRefusal("details", study.state)}</p>}
+        {canEdit && mayWrite("details", study.state) ? (
           <DetailsForm study={study} reply={actionData} busy={busy} />
         ) : (
           <dl className="grid gap-2 md:grid-cols-2">
@@ -237,6 +252,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
           ]}
         />
         <FormErrors errors={refusalOf(actionData, "response-remove")} />
+        {designFixed && <p className="mt-3 text-basalt-700">{designFixed}</p>}
         {editable && <ResponseForm reply={actionData} busy={busy} />}
       </Card>
 
@@ -245,6 +261,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
           Slump: {slump ? `${slump.target} ± ${slump.tolerance} mm (${round(mmToIn(slump.target), 2)} ± ${round(mmToIn(slump.tolerance), 2)} in)` : "no target"}
           . Air content: {air ? `${air.target} ± ${air.tolerance} %` : "no target"}.
         </p>
+        {designFixed && <p className="mt-3 text-basalt-700">{designFixed}</p>}
         {editable && <TargetsForm reply={actionData} busy={busy} slump={slump} air={air} />}
       </Card>
 
@@ -258,7 +275,8 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
             "No protocol attached yet."
           )}
         </p>
-        {canEdit && <ProtocolForm reply={actionData} busy={busy} />}
+        {canEdit && writeRefusal("protocol", study.state) && <p className="text-basalt-700">{writeRefusal("protocol", study.state)}</p>}
+        {canEdit && mayWrite("protocol", study.state) && <ProtocolForm reply={actionData} busy={busy} />}
       </Card>
 
       <div className="grid gap-6 md:grid-cols-2">
@@ -266,7 +284,8 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
           title="Coordinators"
           kind="coordinator"
           people={[{ ...setup.owner, owner: true }, ...setup.coordinators.map((p) => ({ ...p, owner: false }))]}
-          canChange={isOwner}
+          canChange={isOwner && mayWrite("coordinators", study.state)}
+          fixedBecause={isOwner ? writeRefusal("coordinators", study.state) : null}
           reply={actionData}
           busy={busy}
         />
@@ -274,7 +293,8 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
           title="Committee reviewers"
           kind="reviewer"
           people={setup.reviewers.map((p) => ({ ...p, owner: false }))}
-          canChange={isOwner}
+          canChange={isOwner && mayWrite("reviewers", study.state)}
+          fixedBecause={isOwner ? writeRefusal("reviewers", study.state) : null}
           reply={actionData}
           busy={busy}
         />
@@ -303,6 +323,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
           ]}
         />
         <FormErrors errors={refusalOf(actionData, "material-remove")} />
+        {designFixed && <p className="mt-3 text-basalt-700">{designFixed}</p>}
         {editable && <MaterialForm reply={actionData} busy={busy} />}
       </Card>
       {loaderData.planner && (
@@ -342,7 +363,10 @@ function DetailsForm({ study, reply, busy }: FormArgs & { study: SetupStudy }) {
     <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
       <input type="hidden" name="intent" value="study" />
       <FormErrors errors={formWideErrors(form)} />
-      <StudyFields fields={fields} />
+      <StudyFields
+        fields={fields}
+        fixed={{ replicatesPerCell: writeRefusal("design", study.state) ?? undefined, significanceLevel: writeRefusal("analysisSettings", study.state) ?? undefined }}
+      />
       <div>
         <Button type="submit" disabled={busy}>
           Save details
@@ -461,6 +485,7 @@ function PeopleCard({
   kind,
   people,
   canChange,
+  fixedBecause,
   reply,
   busy,
 }: FormArgs & {
@@ -468,10 +493,13 @@ function PeopleCard({
   kind: "coordinator" | "reviewer";
   people: { id: number; name: string; email: string; owner: boolean }[];
   canChange: boolean;
+  /** Why the list cannot change in the study's state (~/lib/write-rules), shown instead of the controls. */
+  fixedBecause: string | null;
 }) {
   const [form, fields] = useSchemaForm(kind === "coordinator" ? setupForms.coordinatorAdd : setupForms.reviewerAdd, { reply, intent: `${kind}-add` });
   return (
     <Card title={title}>
+      {fixedBecause && <p className="mb-3 text-basalt-700">{fixedBecause}</p>}
       <ul className="mb-3 flex flex-col gap-2">
         {people.length === 0 && <li>Nobody yet.</li>}
         {people.map((p) => (

@@ -9,10 +9,13 @@ import { StateBadge } from "~/components/state-badge";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
 import { StatementBundle } from "~/components/statement-bundle";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Button, Card, Notice, SimpleTable, TextAreaField } from "~/components/ui";
+import { ConfirmStep } from "~/components/confirm-dialog";
+import { Button, Card, Notice, SelectField, SimpleTable, TextAreaField } from "~/components/ui";
 import { formatDate, formatDateTime } from "~/lib/format";
-import { draftingRefusal, reviewRefusal } from "~/lib/review/write-rules";
+import { OBJECTION_STAGE_TEXT, QUORUM_SENTENCE } from "~/lib/review/publication";
+import { writeRefusal } from "~/lib/write-rules";
 import { STATEMENT_STATE, VOTE_CHOICE } from "~/lib/state-labels";
+import { MOVE_CONSEQUENCES } from "~/lib/study-lifecycle";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import {
   answerObjection,
@@ -20,6 +23,7 @@ import {
   listStatements,
   publicationStatus,
   publishStudy,
+  reviewersByName,
   sendToReview,
   updateStatementText,
   votesOn,
@@ -37,15 +41,17 @@ export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireStudy(context, ["coordinator", "admin"]);
   const statements = await listStatements(study.id);
   const latest = statements[0] ?? null;
-  const [roundVotes, publication] = await Promise.all([latest ? votesOn(latest.id) : [], publicationStatus(study.id)]);
+  const [roundVotes, publication, reviewers] = await Promise.all([latest ? votesOn(latest.id) : [], publicationStatus(study.id), reviewersByName(study.id)]);
   return {
     study: { id: study.id, code: study.code, title: study.title, state: study.state, dataVersion: study.dataVersion },
     latest,
     earlier: statements.slice(1).map(({ id, version, state, dataVersion, createdAt }) => ({ id, version, state, dataVersion, createdAt: createdAt.toISOString() })),
     votes: roundVotes,
     publication: publication.check,
-    draftingRefusal: draftingRefusal(study.state),
-    reviewRefusal: reviewRefusal(study.state),
+    chair: publication.round ? (reviewers.find((r) => r.id === publication.round!.chairId)?.name ?? null) : null,
+    reviewers,
+    draftingRefusal: writeRefusal("statements", study.state),
+    reviewRefusal: writeRefusal("review", study.state),
   };
 }
 
@@ -60,7 +66,11 @@ const RATIONALE_TOO_SHORT = "Give the rationale the committee will read (at leas
 const statementForms = {
   freeze: z.object({ intent: z.literal("freeze") }),
   saveText: z.object({ intent: z.literal("save-text"), statementId: id, textE691: statementText("E691"), textC670: statementText("C670") }),
-  send: z.object({ intent: z.literal("send"), statementId: id }),
+  send: z.object({
+    intent: z.literal("send"),
+    statementId: id,
+    chairId: z.coerce.number({ message: "Choose the chair of the round." }).int().positive("Choose the chair of the round."),
+  }),
   answer: z.object({
     intent: z.literal("answer"),
     voteId: id,
@@ -94,11 +104,13 @@ export async function action({ request, context }: Route.ActionArgs) {
           if (!(await updateStatementText(study, user.id, form.statementId, form))) notFound();
           return "Text saved.";
         case "send":
-          if (!(await sendToReview(study, user.id, form.statementId, request))) notFound();
+          if (!(await sendToReview(study, user.id, form.statementId, form.chairId, request))) notFound();
           return "Sent to the committee; every reviewer has been e-mailed.";
         case "answer":
-          if (!(await answerObjection(study, user.id, form))) notFound();
-          return form.answer === "upheld" ? "Objection upheld: the statement is back in drafting; freeze a new version for a new round." : "Answer recorded; every reviewer sees it.";
+          if (!(await answerObjection(study, user.id, form, request))) notFound();
+          return form.answer === "upheld"
+            ? "Objection upheld: the statement is back in drafting; freeze a new version for a new round."
+            : "Answer recorded; the reviewer is asked to withdraw or maintain the objection.";
         case "publish":
           await publishStudy(study, user.id);
           return "Published. The study is now read-only.";
@@ -113,8 +125,8 @@ export async function action({ request, context }: Route.ActionArgs) {
 export default function StatementPage({ loaderData, actionData }: Route.ComponentProps) {
   const { study, latest, earlier, votes, publication } = loaderData;
   const stale = latest && latest.dataVersion !== study.dataVersion;
-  // Refusals of the button-only forms (freeze, send, publish) and of the whole page's state.
-  const refusals = ["freeze", "send", "publish"].flatMap((intent) => refusalOf(actionData, intent));
+  // Refusals of the button-only forms (freeze, publish) and of the whole page's state.
+  const refusals = ["freeze", "publish"].flatMap((intent) => refusalOf(actionData, intent));
   return (
     <>
       <div className="flex flex-col gap-6">
@@ -153,13 +165,7 @@ export default function StatementPage({ loaderData, actionData }: Route.Componen
               ) : (
                 <StatementTexts textE691={latest.textE691} textC670={latest.textC670} />
               )}
-              {latest.state === "draft" && !loaderData.draftingRefusal && (
-                <Form method="post" className="mt-4">
-                  <input type="hidden" name="intent" value="send" />
-                  <input type="hidden" name="statementId" value={latest.id} />
-                  <Button type="submit">Send version {latest.version} to the committee</Button>
-                </Form>
-              )}
+              {latest.state === "draft" && !loaderData.draftingRefusal && <SendForm key={latest.id} statement={latest} reviewers={loaderData.reviewers} reply={actionData} />}
             </Card>
             <Card title="Figures of this version">
               <p className="mb-3 text-sm text-basalt-700">These numbers are the frozen snapshot; editing the text does not change them.</p>
@@ -210,6 +216,37 @@ function TextForm({ statement, reply }: { statement: NonNullable<LoaderData["lat
   );
 }
 
+/** Sends a draft version to the committee with the reviewer who chairs the round. */
+function SendForm({ statement, reviewers, reply }: { statement: NonNullable<LoaderData["latest"]>; reviewers: LoaderData["reviewers"]; reply: unknown }) {
+  const [form, fields] = useSchemaForm(statementForms.send, { reply, intent: "send", defaultValue: { statementId: String(statement.id) } });
+  return (
+    <Form method="post" className="mt-4 flex flex-col gap-3" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="send" />
+      <input type="hidden" name="statementId" value={statement.id} />
+      <FormErrors errors={formWideErrors(form)} />
+      <SelectField
+        label="Chair of the round (rules on objections maintained after your answer)"
+        {...fieldProps(fields.chairId)}
+        options={[{ value: "", label: "Choose a reviewer" }, ...reviewers.map((r) => ({ value: String(r.id), label: r.name }))]}
+      />
+      <div>
+        <ConfirmStep
+          label={`Send version ${statement.version} to the committee`}
+          title={`Send version ${statement.version} to the committee?`}
+          consequences={
+            <>
+              <p>{MOVE_CONSEQUENCES.in_review}</p>
+              <p>Reviewers of this round: {reviewers.map((r) => r.name).join(", ") || "none yet"}.</p>
+              <p>{QUORUM_SENTENCE}</p>
+            </>
+          }
+          confirmLabel="Send to the committee"
+        />
+      </div>
+    </Form>
+  );
+}
+
 type Vote = LoaderData["votes"][number];
 
 /** The coordinator's answer to one objection; the action's answer belongs to it only when it names this vote. */
@@ -249,8 +286,15 @@ function AnswerForm({ vote, reply }: { vote: Vote; reply: unknown }) {
 
 function Round({ loaderData, reply, votes, publication }: { loaderData: LoaderData; reply: unknown; votes: LoaderData["votes"]; publication: LoaderData["publication"] }) {
   const canAnswer = !loaderData.reviewRefusal && loaderData.latest?.state === "in_review";
+  const tally = publication.tally;
   return (
     <Card title="Committee round">
+      {loaderData.chair && <p className="mb-2">Chair: {loaderData.chair}.</p>}
+      <p className="mb-2 text-basalt-700">{QUORUM_SENTENCE}</p>
+      <p className="mb-3" data-testid="tally">
+        Tally: {tally.voted} of {tally.reviewers} reviewers voted · {tally.approve} approve · {tally.object} object · {tally.abstain} abstain
+        {tally.withdrawn > 0 && <> (of which {tally.withdrawn} withdrawn objections)</>}
+      </p>
       {votes.length === 0 ? (
         <p>No vote yet.</p>
       ) : (
@@ -266,6 +310,17 @@ function Round({ loaderData, reply, votes, publication }: { loaderData: LoaderDa
                   Answer: <strong>{v.answer === "upheld" ? "upheld" : "not upheld"}</strong> — {v.answerRationale}
                 </p>
               )}
+              {v.objectorReply && (
+                <p className="mt-1">
+                  {v.reviewer} {v.objectorReply === "withdrawn" ? "withdrew" : "maintains"} the objection{v.objectorReplyNote && <> — “{v.objectorReplyNote}”</>}
+                </p>
+              )}
+              {v.ruling && (
+                <p className="mt-1">
+                  Chair's ruling: <strong>{v.ruling === "upheld" ? "upheld" : "not upheld"}</strong> — {v.rulingReason}
+                </p>
+              )}
+              {v.stage && <p className="mt-1 text-sm text-basalt-700">{OBJECTION_STAGE_TEXT[v.stage]}</p>}
               {v.choice === "object" && !v.answer && canAnswer && <AnswerForm vote={v} reply={reply} />}
             </li>
           ))}
@@ -282,9 +337,20 @@ function Round({ loaderData, reply, votes, publication }: { loaderData: LoaderDa
           )}
           <Form method="post">
             <input type="hidden" name="intent" value="publish" />
-            <Button type="submit" disabled={!publication.allowed}>
-              Publish the study
-            </Button>
+            <ConfirmStep
+              label="Publish the study"
+              title="Publish the study?"
+              consequences={
+                <>
+                  <p>{MOVE_CONSEQUENCES.published}</p>
+                  <p>
+                    Tally: {tally.approve} approve, {tally.object} object, {tally.abstain} abstain of {tally.reviewers} reviewers.
+                  </p>
+                </>
+              }
+              confirmLabel="Publish"
+              disabled={!publication.allowed}
+            />
           </Form>
         </div>
       )}
