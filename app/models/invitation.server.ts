@@ -9,7 +9,7 @@ import { db, type Transaction } from "~/db/client.server";
 import { enrollments, invitations, labMembers, labs, studies, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, sendEmail } from "~/server/email.server";
-import { invitationEmail } from "~/lib/email-templates";
+import { invitationEmail } from "~/server/email-templates.server";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { drawLabCode } from "~/server/lab-codes.server";
 import { writeRefusal } from "~/lib/write-rules";

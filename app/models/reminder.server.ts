@@ -4,7 +4,7 @@ import { db } from "~/db/client.server";
 import { enrollments, labs, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, sendEmail } from "~/server/email.server";
-import { missingResultsReminderEmail } from "~/lib/email-templates";
+import { missingResultsReminderEmail } from "~/server/email-templates.server";
 import { studyMatrix } from "~/models/study.server";
 
 export async function remindLabsWithMissingResults(study: Study, actorUserId: number, request: Request | null) {

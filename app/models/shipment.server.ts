@@ -9,7 +9,7 @@ import { cells, enrollments, labs, materials, mixtureConstituents, results, ship
 import { recordAudit } from "~/server/audit.server";
 import { notFound } from "~/server/guards.server";
 import { appUrl, sendEmail } from "~/server/email.server";
-import { shipmentNoticeEmail } from "~/lib/email-templates";
+import { shipmentNoticeEmail } from "~/server/email-templates.server";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { todayIso } from "~/lib/format";
 import { receiptDateProblem } from "~/lib/plausible-dates";

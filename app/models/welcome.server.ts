@@ -9,7 +9,7 @@ import { db } from "~/db/client.server";
 import { labs, passwordTokens, users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, sendEmail } from "~/server/email.server";
-import { colleagueWelcomeEmail } from "~/lib/email-templates";
+import { colleagueWelcomeEmail } from "~/server/email-templates.server";
 import { createUser, hashPassword, type SessionUser } from "~/models/user.server";
 import { hashToken } from "~/server/token-hash.server";
 

@@ -4,7 +4,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { emailOutbox } from "~/db/schema";
 import { sendEmail } from "~/server/email.server";
-import { invitationEmail, missingResultsReminderEmail, queryRaisedEmail, reviewRequestedEmail, shipmentNoticeEmail } from "~/lib/email-templates";
+import { invitationEmail, missingResultsReminderEmail, queryRaisedEmail, reviewRequestedEmail, shipmentNoticeEmail } from "~/server/email-templates.server";
 import { listMessages, mailboxEnabled } from "~/models/mailbox.server";
 import { useFreshDatabase } from "../support/database";
 
