@@ -9,7 +9,7 @@ import { and, eq, inArray } from "drizzle-orm";
 import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
-import { apiTokens, attachments, cells, enrollments, materials, rateLimits, results, setupLinks, shipments, studies, users } from "~/db/schema";
+import { apiTokens, attachments, cells, enrollments, labMembers, materials, queries, rateLimits, results, setupLinks, shipments, studies, users } from "~/db/schema";
 import { resolveResultRows } from "~/lib/results/rows";
 import { activeApiToken, createApiToken } from "~/models/api-token.server";
 import { demoDataPresent, prepareFirstUse } from "~/models/first-use.server";
@@ -23,6 +23,7 @@ import * as setup from "~/routes/auth/setup";
 import * as mailbox from "~/routes/dev/mailbox";
 import * as mailboxMessage from "~/routes/dev/mailbox-message";
 import * as files from "~/routes/files";
+import * as labQueries from "~/routes/lab/queries";
 import * as receipt from "~/routes/lab/study/receipt";
 import * as entry from "~/routes/lab/study/result-entry";
 import * as tasks from "~/routes/lab/study/tasks";
@@ -36,7 +37,7 @@ import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
 import { errorsOf } from "../support/replies";
-import { call, get, post } from "../support/routes";
+import { call, get, post, sessionCookieFor } from "../support/routes";
 import { recordFigure } from "./figures";
 
 // The file store reads its directory when first loaded, so point it at a scratch directory before any import.
@@ -456,6 +457,16 @@ describe("11. text and date hygiene", () => {
       expect(errorsOf(outcome).name, JSON.stringify(name)).toMatch(/^Remove the (control|text-direction) characters/);
     }
     expect((await db.query.users.findFirst({ where: eq(users.email, "analyst1@ringbatch.example") }))!.name).toBe(before);
+    // Free text too: the lab's answer to an open query is refused beside the field and nothing is stored.
+    const open = (await db.query.queries.findFirst({ where: eq(queries.state, "open") }))!;
+    const cell = (await db.query.cells.findFirst({ where: eq(cells.id, open.cellId) }))!;
+    const lab = (await db.query.enrollments.findFirst({ where: eq(enrollments.id, cell.enrollmentId) }))!.labId;
+    const member = (await db.query.labMembers.findFirst({ where: eq(labMembers.labId, lab) }))!;
+    const answerer = await sessionCookieFor(member.userId);
+    const refused = await call(labQueries.action, post("/lab/queries", { queryId: String(open.id), answer: "Checked\u202E the float" }, answerer));
+    expect(refused.status).toBe(400);
+    expect(errorsOf(refused).answer).toMatch(/^Remove the text-direction characters/);
+    expect((await db.query.queries.findFirst({ where: eq(queries.id, open.id) }))!.state).toBe("open");
     checked();
   });
 

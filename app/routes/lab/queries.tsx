@@ -6,6 +6,7 @@ import type { Route } from "./+types/queries";
 import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { StateBadge } from "~/components/state-badge";
 import { Button, Card, PageHeader, TextAreaField } from "~/components/ui";
+import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { QUERY_STATE } from "~/lib/state-labels";
 import { answerQuery, listLabQueries, QueryAnswerError } from "~/models/lab-queries.server";
 import { refuse } from "~/server/form-reply.server";
@@ -23,7 +24,7 @@ const ANSWER_TOO_SHORT = "Write your answer (at least 3 characters).";
 
 const answerSchema = z.object({
   queryId: z.coerce.number().int().positive(),
-  answer: z.string({ message: ANSWER_TOO_SHORT }).trim().min(3, { message: ANSWER_TOO_SHORT }).max(2000, { message: "Keep the answer to 2000 characters or fewer." }),
+  answer: z.string({ message: ANSWER_TOO_SHORT }).trim().min(3, { message: ANSWER_TOO_SHORT }).max(2000, { message: "Keep the answer to 2000 characters or fewer." }).superRefine(refuseUnsafeCharacters({ multiline: true })),
 });
 
 export async function action({ request }: Route.ActionArgs) {

@@ -10,6 +10,7 @@ import { StateBadge } from "~/components/state-badge";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, TextAreaField } from "~/components/ui";
+import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { formatDateTime } from "~/lib/format";
 import { OBJECTION_STAGE_TEXT, QUORUM_SENTENCE } from "~/lib/review/publication";
 import { writeRefusal } from "~/lib/write-rules";
@@ -75,7 +76,7 @@ const voteSchema = z
     choice: z.enum(["approve", "object", "abstain"], {
       message: "Choose approve, object or abstain.",
     }),
-    reason: z.string().trim().max(4000, "Keep the reason under 4000 characters.").optional(),
+    reason: z.string().trim().max(4000, "Keep the reason under 4000 characters.").superRefine(refuseUnsafeCharacters({ multiline: true })).optional(),
   })
   .refine((v) => v.choice !== "object" || (v.reason ?? "").length >= 10, {
     path: ["reason"],
@@ -95,12 +96,12 @@ const rulingSchema = z.object({
   intent: z.literal("rule"),
   voteId: z.coerce.number({ message: "Missing id." }).int().positive("Missing id."),
   ruling: z.enum(["upheld", "not_upheld"], { message: "Choose upheld or not upheld." }),
-  reason: z.string({ message: RULING_REASON_TOO_SHORT }).trim().min(10, RULING_REASON_TOO_SHORT).max(4000, "Keep the reason under 4000 characters."),
+  reason: z.string({ message: RULING_REASON_TOO_SHORT }).trim().min(10, RULING_REASON_TOO_SHORT).max(4000, "Keep the reason under 4000 characters.").superRefine(refuseUnsafeCharacters({ multiline: true })),
 });
 
 const commentSchema = z.object({
   intent: z.literal("comment"),
-  body: z.string({ message: "Write the comment." }).trim().min(2, "Write the comment.").max(4000, "Keep the comment under 4000 characters."),
+  body: z.string({ message: "Write the comment." }).trim().min(2, "Write the comment.").max(4000, "Keep the comment under 4000 characters.").superRefine(refuseUnsafeCharacters({ multiline: true })),
 });
 
 const ballotSchema = z.discriminatedUnion("intent", [voteSchema, replySchema, rulingSchema, commentSchema]);

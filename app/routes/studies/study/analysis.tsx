@@ -12,6 +12,7 @@ import { PrecisionTables } from "~/components/precision-tables";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, Field, Notice, SimpleTable, TextAreaField } from "~/components/ui";
+import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { formatDate, formatDateTime } from "~/lib/format";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { refuse, withRefusals } from "~/server/form-reply.server";
@@ -79,7 +80,7 @@ const askSchema = z.object({
   intent: z.literal("ask"),
   ...cellFields,
   statistic: z.string().trim().max(800, "Keep the statistic under 800 characters.").default(""),
-  question: z.string({ message: QUESTION_TOO_SHORT }).trim().min(10, QUESTION_TOO_SHORT).max(2000, "Keep the question under 2000 characters."),
+  question: z.string({ message: QUESTION_TOO_SHORT }).trim().min(10, QUESTION_TOO_SHORT).max(2000, "Keep the question under 2000 characters.").superRefine(refuseUnsafeCharacters({ multiline: true })),
   // A checkbox: present means the lab may amend the cell while the query is open.
   asksCorrection: z.literal("on").optional(),
 });
@@ -88,7 +89,7 @@ const decideSchema = z.object({
   intent: z.literal("decide"),
   ...cellFields,
   decision: z.enum(["retained", "excluded"], { message: "Choose retain or exclude." }),
-  reason: z.string({ message: REASON_TOO_SHORT }).trim().min(10, REASON_TOO_SHORT).max(2000, "Keep the reason under 2000 characters."),
+  reason: z.string({ message: REASON_TOO_SHORT }).trim().min(10, REASON_TOO_SHORT).max(2000, "Keep the reason under 2000 characters.").superRefine(refuseUnsafeCharacters({ multiline: true })),
 });
 
 const analysisSchema = z.discriminatedUnion("intent", [askSchema, decideSchema], { error: "Unknown action." });

@@ -11,6 +11,7 @@ import { StatementBundle } from "~/components/statement-bundle";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { ConfirmStep } from "~/components/confirm-dialog";
 import { Button, Card, Notice, SelectField, SimpleTable, TextAreaField } from "~/components/ui";
+import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { formatDate, formatDateTime } from "~/lib/format";
 import { OBJECTION_STAGE_TEXT, QUORUM_SENTENCE } from "~/lib/review/publication";
 import { writeRefusal } from "~/lib/write-rules";
@@ -59,7 +60,7 @@ const id = z.coerce.number({ message: "Missing id." }).int().positive("Missing i
 const TEXT_TOO_LONG = "Keep the text under 20,000 characters.";
 const statementText = (form: string) => {
   const tooShort = `The ${form} text needs at least 20 characters.`;
-  return z.string({ message: tooShort }).trim().min(20, tooShort).max(20000, TEXT_TOO_LONG);
+  return z.string({ message: tooShort }).trim().min(20, tooShort).max(20000, TEXT_TOO_LONG).superRefine(refuseUnsafeCharacters({ multiline: true }));
 };
 const RATIONALE_TOO_SHORT = "Give the rationale the committee will read (at least 10 characters).";
 
@@ -75,7 +76,7 @@ const statementForms = {
     intent: z.literal("answer"),
     voteId: id,
     answer: z.enum(["upheld", "not_upheld"], { message: "Choose upheld or not upheld." }),
-    rationale: z.string({ message: RATIONALE_TOO_SHORT }).trim().min(10, RATIONALE_TOO_SHORT).max(4000, "Keep the rationale under 4000 characters."),
+    rationale: z.string({ message: RATIONALE_TOO_SHORT }).trim().min(10, RATIONALE_TOO_SHORT).max(4000, "Keep the rationale under 4000 characters.").superRefine(refuseUnsafeCharacters({ multiline: true })),
   }),
   publish: z.object({ intent: z.literal("publish") }),
 };
