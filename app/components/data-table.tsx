@@ -92,7 +92,7 @@ export function DataTable<T extends RowData>({
           className="min-h-11 rounded-md border border-basalt-200 bg-white px-3 py-2"
         />
       </div>
-      <div className="relative overflow-x-auto">
+      <div className="relative overflow-x-auto" role="region" aria-label={caption} tabIndex={0}>
         <table className="w-full border-collapse text-left">
           <caption className="sr-only">{caption}</caption>
           <thead>

@@ -167,7 +167,8 @@ export function Badge({ children, tone = "neutral" }: { children: ReactNode; ton
 /** A plain table with accessible headers; pages pass header labels and rows. */
 export function SimpleTable({ caption, headers, rows }: { caption: string; headers: string[]; rows: ReactNode[][] }) {
   return (
-    <div className="relative overflow-x-auto">
+    // A wide table scrolls sideways; the region takes focus so a keyboard can scroll it too.
+    <div className="relative overflow-x-auto" role="region" aria-label={caption} tabIndex={0}>
       <table className="w-full border-collapse text-left">
         <caption className="sr-only">{caption}</caption>
         <thead>
