@@ -274,7 +274,7 @@ function Investigation({ loaderData, actionData, cell }: { loaderData: LoaderDat
                   {photos.map((p) => (
                     <li key={p.replicate}>
                       <a href={`/files/${p.photoFileId}`} target="_blank" rel="noreferrer">
-                        <img src={`/files/${p.photoFileId}`} alt={`Surface of replicate ${p.replicate}, lab ${cell.lab}, ${cell.material}`} className="w-full rounded border border-basalt-200" />
+                        <img src={`/files/${p.photoFileId}?thumbnail`} alt={`Surface of replicate ${p.replicate}, lab ${cell.lab}, ${cell.material}`} className="w-full rounded border border-basalt-200" />
                       </a>
                     </li>
                   ))}
