@@ -8,6 +8,7 @@ import { fieldProps, FormErrors, formWideErrors, replyAbout, useSchemaForm } fro
 import { PrecisionTables } from "~/components/precision-tables";
 import { StateBadge } from "~/components/state-badge";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
+import { VoteTrail } from "~/components/vote-trail";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, TextAreaField } from "~/components/ui";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
@@ -205,24 +206,7 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
               <ul className="flex flex-col gap-2">
                 {votes.map((v) => (
                   <li key={v.id} className="rounded border border-basalt-100 p-3">
-                    <strong>{v.reviewer}</strong>: <StateBadge view={VOTE_CHOICE[v.choice]} />
-                    {v.reason && <> — “{v.reason}”</>}
-                    {v.answer && (
-                      <p className="mt-1">
-                        Coordinator's answer: <strong>{v.answer === "upheld" ? "upheld" : "not upheld"}</strong> — {v.answerRationale}
-                      </p>
-                    )}
-                    {v.objectorReply && (
-                      <p className="mt-1">
-                        {v.reviewer} {v.objectorReply === "withdrawn" ? "withdrew" : "maintains"} the objection{v.objectorReplyNote && <> — “{v.objectorReplyNote}”</>}
-                      </p>
-                    )}
-                    {v.ruling && (
-                      <p className="mt-1">
-                        Chair's ruling: <strong>{v.ruling === "upheld" ? "upheld" : "not upheld"}</strong> — {v.rulingReason}
-                      </p>
-                    )}
-                    {v.stage && <p className="mt-1 text-sm text-basalt-700">{OBJECTION_STAGE_TEXT[v.stage]}</p>}
+                    <VoteTrail vote={v} answerLabel="Coordinator's answer" />
                     {v.ruleable && !refusal && <RulingForm vote={v} actionData={actionData} />}
                   </li>
                 ))}

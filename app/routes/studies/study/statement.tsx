@@ -8,14 +8,15 @@ import { PrecisionSummaryTable } from "~/components/precision-tables";
 import { StateBadge } from "~/components/state-badge";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
 import { StatementBundle } from "~/components/statement-bundle";
+import { VoteTrail } from "~/components/vote-trail";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { ConfirmStep } from "~/components/confirm-dialog";
 import { Button, Card, Notice, SelectField, SimpleTable, TextAreaField } from "~/components/ui";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { formatDate, formatDateTime } from "~/lib/format";
-import { OBJECTION_STAGE_TEXT, QUORUM_SENTENCE } from "~/lib/review/publication";
+import { QUORUM_SENTENCE } from "~/lib/review/publication";
 import { writeRefusal } from "~/lib/write-rules";
-import { STATEMENT_STATE, VOTE_CHOICE } from "~/lib/state-labels";
+import { STATEMENT_STATE } from "~/lib/state-labels";
 import { MOVE_CONSEQUENCES } from "~/lib/study-lifecycle";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import {
@@ -302,26 +303,7 @@ function Round({ loaderData, reply, votes, publication }: { loaderData: LoaderDa
         <ul className="flex flex-col gap-3">
           {votes.map((v) => (
             <li key={v.id} className="rounded border border-basalt-100 p-3">
-              <p>
-                <strong>{v.reviewer}</strong>: <StateBadge view={VOTE_CHOICE[v.choice]} />
-                {v.reason && <> — “{v.reason}”</>}
-              </p>
-              {v.answer && (
-                <p className="mt-1">
-                  Answer: <strong>{v.answer === "upheld" ? "upheld" : "not upheld"}</strong> — {v.answerRationale}
-                </p>
-              )}
-              {v.objectorReply && (
-                <p className="mt-1">
-                  {v.reviewer} {v.objectorReply === "withdrawn" ? "withdrew" : "maintains"} the objection{v.objectorReplyNote && <> — “{v.objectorReplyNote}”</>}
-                </p>
-              )}
-              {v.ruling && (
-                <p className="mt-1">
-                  Chair's ruling: <strong>{v.ruling === "upheld" ? "upheld" : "not upheld"}</strong> — {v.rulingReason}
-                </p>
-              )}
-              {v.stage && <p className="mt-1 text-sm text-basalt-700">{OBJECTION_STAGE_TEXT[v.stage]}</p>}
+              <VoteTrail vote={v} answerLabel="Answer" />
               {v.choice === "object" && !v.answer && canAnswer && <AnswerForm vote={v} reply={reply} />}
             </li>
           ))}
