@@ -6,6 +6,7 @@ import { z } from "zod";
 import { RESPONSE_KINDS, STUDY_STATES } from "~/db/values";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { emailField } from "~/lib/validation";
+import { packingListSchema } from "~/lib/packing-list";
 
 // Conform hands a blank field to the schema as undefined; the older forms still send "". Both mean "left blank".
 
@@ -152,9 +153,16 @@ const requiredDate = (what: string) => z.iso.date({ message: `Enter the ${what} 
 /** One of the study's labs, chosen from a list of its enrollments. */
 const enrollmentChoice = z.coerce.number({ message: "Choose a lab." }).int().positive({ message: "Choose a lab." });
 
+/**
+ * A packing list for one lab, or for every accepted lab without a shipment
+ * (`enrollmentId` "every"); `labCount` is how many labs the page offered, so a
+ * list is not copied to a different number of labs than the coordinator confirmed.
+ */
 export const shipmentCreateSchema = z.object({
-  enrollmentId: enrollmentChoice,
-  contents: z.string({ message: "List the materials and lots in the shipment." }).trim().min(1, { message: "List the materials and lots in the shipment." }).max(2000, { message: "Keep the contents to 2000 characters or fewer." }).superRefine(refuseUnsafeCharacters({ multiline: true })),
+  enrollmentId: z.union([z.literal("every"), enrollmentChoice], { message: "Choose a lab." }),
+  labCount: z.coerce.number().int().min(0).optional(),
+  items: packingListSchema,
+  note: optionalText(2000, "note"),
   carrier: optionalText(120, "carrier"),
   trackingNumber: optionalText(120, "tracking number"),
 });

@@ -2,6 +2,7 @@
  * The product's messages, each built with composeEmail so every transport
  * sends exactly the same text. Callers pass absolute links (appUrl).
  */
+import { formatQuantity } from "~/lib/packing-list";
 import { composeEmail } from "~/server/email.server";
 
 type StudyRef = { code: string; title: string };
@@ -24,7 +25,8 @@ export function shipmentNoticeEmail(p: {
   to: string;
   labName: string;
   study: StudyRef;
-  contents: string;
+  items: { description: string; quantity: number; unit: string; lot: string; containerCount: number }[];
+  note: string;
   carrier: string;
   trackingNumber: string;
   shippedOn: string;
@@ -36,7 +38,10 @@ export function shipmentNoticeEmail(p: {
     greeting: `Dear ${p.labName} team,`,
     paragraphs: [
       `The materials for ${p.study.code} left on ${p.shippedOn}${p.carrier ? ` with ${p.carrier}` : ""}${p.trackingNumber ? `, tracking number ${p.trackingNumber}` : ""}.`,
-      `Contents: ${p.contents || "as listed on the packing slip"}.`,
+      p.items.length
+        ? `Contents: ${p.items.map((item) => `${item.description}, ${formatQuantity(item.quantity, item.unit)}${item.lot ? `, lot ${item.lot}` : ""}, ${item.containerCount} ${item.containerCount === 1 ? "container" : "containers"}`).join("; ")}.`
+        : "Contents: as listed on the packing list in the box.",
+      ...(p.note ? [`Note: ${p.note}`] : []),
       "When they arrive, confirm receipt and their condition. Bags of cement and aggregate are heavy: lift with help.",
     ],
     action: { label: "Confirm receipt", url: p.url },

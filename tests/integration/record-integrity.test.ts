@@ -132,7 +132,7 @@ describe("plausible dates", () => {
     call(receiptPage.action, postMultipart(`/lab/studies/${study.studyId}/receipt`, { shipmentId: String(shipmentId), condition: "good", receiptNotes: "", ...fields }, first), { studyId: String(study.studyId) });
 
   beforeAll(async () => {
-    const [shipment] = await db.insert(shipments).values({ enrollmentId: study.labs[0]!.enrollmentId, status: "shipped", contents: "T003 constituents", shippedOn: "2026-10-20" }).returning();
+    const [shipment] = await db.insert(shipments).values({ enrollmentId: study.labs[0]!.enrollmentId, status: "shipped", note: "T003 constituents", shippedOn: "2026-10-20" }).returning();
     shipmentId = shipment!.id;
   });
 
@@ -166,7 +166,7 @@ describe("plausible dates", () => {
     expect(errorsOf(late).form).toMatch(/can no longer be corrected/);
     // A lab without results corrects its receipt.
     const other = await createTestingStudy({ code: "INTEG-2", materialCount: 1, replicates: 2, labCount: 1 });
-    const [shipment] = await db.insert(shipments).values({ enrollmentId: other.labs[0]!.enrollmentId, status: "received", contents: "T001", shippedOn: "2026-10-20", receivedOn: "2026-10-23", condition: "good" }).returning();
+    const [shipment] = await db.insert(shipments).values({ enrollmentId: other.labs[0]!.enrollmentId, status: "received", note: "T001", shippedOn: "2026-10-20", receivedOn: "2026-10-23", condition: "good" }).returning();
     const analyst = await sessionCookieFor((await db.query.users.findFirst({ where: eq(users.email, other.labs[0]!.email) }))!.id);
     const corrected = await call(
       receiptPage.action,

@@ -50,7 +50,7 @@ const ORIGIN = "http://ringbatch.test";
 // A minimal PDF: the upload check judges the type from these bytes.
 const PDF = new TextEncoder().encode("%PDF-1.4\n1 0 obj<<>>endobj\ntrailer<<>>\n%%EOF\n");
 
-type People = { coordinator: number; otherCoordinator: number; analyst: number; reviewers: number[]; spareReviewer: number; spareLab: number; lab: number };
+type People = { coordinator: number; otherCoordinator: number; analyst: number; reviewers: number[]; spareReviewer: number; spareLab: number; awaitingLab: number; lab: number };
 let people: People;
 let fixtureCount = 0;
 
@@ -60,6 +60,7 @@ beforeAll(async () => {
     (await db.insert(users).values({ email, name: email.split("@")[0]!.replace(/-/g, " "), role }).returning())[0]!.id;
   const [lab] = await db.insert(labs).values({ name: "Granite Flats Test Lab" }).returning();
   const [spareLab] = await db.insert(labs).values({ name: "Quarry Bend Materials Lab", contactName: "Wren Okafor", contactEmail: "lab@quarry-bend.example" }).returning();
+  const [awaitingLab] = await db.insert(labs).values({ name: "Millrace Concrete Lab" }).returning();
   const analyst = await person("tess-ferrow@ringbatch.example", "analyst");
   await db.insert(labMembers).values({ labId: lab!.id, userId: analyst, isContact: true });
   people = {
@@ -74,6 +75,7 @@ beforeAll(async () => {
     ],
     spareReviewer: await person("kai-lindqvist@ringbatch.example", "reviewer"),
     spareLab: spareLab!.id,
+    awaitingLab: awaitingLab!.id,
     lab: lab!.id,
   };
 });
@@ -81,6 +83,8 @@ beforeAll(async () => {
 type Fixture = {
   studyId: number;
   enrollmentId: number;
+  /** A second accepted lab, still without a shipment. */
+  awaitingEnrollmentId: number;
   materials: { submitted: number; draft: number };
   shipments: { shipped: number; preparing: number };
   statementId: number | null;
@@ -110,13 +114,19 @@ async function studyIn(state: StudyState): Promise<Fixture> {
       .values({ studyId, key: "holes", name: "Passes to close the preformed holes", unit: "passes", kind: "count", plausibleMin: 1, plausibleMax: 40 })
       .returning();
     const [m1, m2] = await tx.insert(materials).values([{ studyId, code: "M1", sortOrder: 0 }, { studyId, code: "M2", sortOrder: 1 }]).returning();
-    const [enrollment] = await tx.insert(enrollments).values({ studyId, labId: people.lab, labCode: "L01", state: "accepted" }).returning();
+    const [enrollment, awaiting] = await tx
+      .insert(enrollments)
+      .values([
+        { studyId, labId: people.lab, labCode: "L01", state: "accepted" },
+        { studyId, labId: people.awaitingLab, labCode: "L02", state: "accepted" },
+      ])
+      .returning();
     await tx.insert(studyReviewers).values(people.reviewers.map((userId) => ({ studyId, userId })));
     const [shipped, preparing] = await tx
       .insert(shipments)
       .values([
-        { enrollmentId: enrollment!.id, status: "shipped", contents: "M1, M2", carrier: "Ridgeway Freight", shippedOn: "2026-01-05" },
-        { enrollmentId: enrollment!.id, status: "preparing", contents: "Replacement sand" },
+        { enrollmentId: enrollment!.id, status: "shipped", note: "M1, M2", carrier: "Ridgeway Freight", shippedOn: "2026-01-05" },
+        { enrollmentId: enrollment!.id, status: "preparing", note: "Replacement sand" },
       ])
       .returning();
     const [submittedCell, draftCell] = await tx
@@ -171,6 +181,7 @@ async function studyIn(state: StudyState): Promise<Fixture> {
     return {
       studyId,
       enrollmentId: enrollment!.id,
+      awaitingEnrollmentId: awaiting!.id,
       materials: { submitted: m1!.id, draft: m2!.id },
       shipments: { shipped: shipped!.id, preparing: preparing!.id },
       statementId,
@@ -233,7 +244,7 @@ function attempt(write: Write, f: Fixture): { action: (args: never) => unknown; 
     case "labs: withdraw a lab":
       return { action: labsPage.action, path: `${studyPath}/labs`, as: people.coordinator, fields: { intent: "withdraw", enrollmentId: String(f.enrollmentId), reason: "The lab's curing room failed." } };
     case "shipments: create":
-      return { action: shipmentsPage.action, path: `${studyPath}/shipments`, as: people.coordinator, fields: { intent: "create", enrollmentId: String(f.enrollmentId), contents: "Spare cement, lot C-114", carrier: "", trackingNumber: "" } };
+      return { action: shipmentsPage.action, path: `${studyPath}/shipments`, as: people.coordinator, fields: { intent: "create", enrollmentId: String(f.awaitingEnrollmentId), "items[0].description": "Spare cement", "items[0].quantity": "25", "items[0].unit": "kg", "items[0].lot": "C-114", "items[0].containerCount": "1", carrier: "", trackingNumber: "" } };
     case "shipments: mark shipped":
       return { action: shipmentsPage.action, path: `${studyPath}/shipments`, as: people.coordinator, fields: { intent: "ship", shipmentId: String(f.shipments.preparing), shippedOn: today(), carrier: "Ridgeway Freight", trackingNumber: "RF-2231" } };
     case "shipments: mark lost":
