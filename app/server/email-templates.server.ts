@@ -101,3 +101,49 @@ export function colleagueWelcomeEmail(p: { to: string; name: string; labName: st
     action: { label: "Set your password", url: p.url },
   });
 }
+
+const turnOff = (url: string) => `You can turn these notices off on your account page: ${url}`;
+
+export function shipmentProblemEmail(p: { to: string; name: string; study: StudyRef; lab: string; lost: boolean; notes: string; url: string }) {
+  return composeEmail({
+    to: p.to,
+    subject: `${p.study.code}: shipment to ${p.lab} ${p.lost ? "lost" : "arrived damaged"}`,
+    greeting: `Hello ${p.name},`,
+    paragraphs: [
+      p.lost ? `The shipment of ${p.study.code} to ${p.lab} is marked lost in transit.` : `${p.lab} reports that the shipment of ${p.study.code} arrived damaged.`,
+      ...(p.notes ? [`The lab's notes: ${p.notes}`] : []),
+      "Decide whether to send a replacement: the shipments page offers the lab a new packing list once its shipment is marked lost.",
+    ],
+    action: { label: "Open the shipments", url: p.url },
+  });
+}
+
+export function enrollmentAnswerEmail(p: { to: string; name: string; study: StudyRef; labName: string; accepted: boolean; url: string; preferencesUrl: string }) {
+  return composeEmail({
+    to: p.to,
+    subject: `${p.study.code}: ${p.labName} ${p.accepted ? "accepted" : "declined"} the invitation`,
+    greeting: `Hello ${p.name},`,
+    paragraphs: [
+      `${p.labName} ${p.accepted ? "accepted" : "declined"} the invitation to ${p.study.code}, "${p.study.title}".`,
+      ...(p.accepted ? ["Its shipment can be prepared on the shipments page."] : []),
+      turnOff(p.preferencesUrl),
+    ],
+    action: { label: "Open the labs of the study", url: p.url },
+  });
+}
+
+export function resultsDueEmail(p: { to: string; name: string; labName: string; study: StudyRef; missing: string[]; resultsDue: string; overdue: boolean; url: string; preferencesUrl: string }) {
+  return composeEmail({
+    to: p.to,
+    subject: `${p.study.code}: results ${p.overdue ? "overdue since" : "due on"} ${p.resultsDue}`,
+    greeting: `Hello ${p.name},`,
+    paragraphs: [
+      p.overdue
+        ? `Results of ${p.labName} for ${p.study.code} were due on ${p.resultsDue} and are not yet submitted for: ${p.missing.join(", ")}.`
+        : `Results of ${p.labName} for ${p.study.code} are due on ${p.resultsDue}; still to submit: ${p.missing.join(", ")}.`,
+      p.overdue ? "Submit them as soon as you can, or write to the coordinator if something holds your lab up." : "Submitted results can still be amended while the study is testing.",
+      turnOff(p.preferencesUrl),
+    ],
+    action: { label: "Open your study tasks", url: p.url },
+  });
+}
