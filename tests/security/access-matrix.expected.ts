@@ -32,6 +32,7 @@ export const EXPECTED: Record<string, Partial<Record<Method, Record<Persona, num
   "studies/:studyId/materials/:materialId": { GET: row(302, 200, 200, 404, 404, 404, 200, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
   "studies/:studyId/labs": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
   "studies/:studyId/shipments": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
+  "studies/:studyId/shipments/:shipmentId/packing-list": { GET: row(302, 200, 200, 404, 404, 404, 404, 404) },
   "lab/studies/:studyId/receipt": { GET: row(302, 404, 404, 404, 200, 404, 404, 404), POST: row(302, 404, 404, 404, 400, 404, 404, 404) },
   "api/v1/studies/:studyId/progress": { GET: row(401, 200, 200, 404, 200, 404, 404, 404) },
   "invite/:token": { GET: row(404, 404, 404, 404, 404, 404, 404, 404), POST: row(404, 404, 404, 404, 404, 404, 404, 404) },
