@@ -1,6 +1,6 @@
 import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import type { FormEvent } from "react";
+import type { MouseEvent } from "react";
 import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/shipments";
 import { DataTable } from "~/components/data-table";
@@ -198,22 +198,20 @@ function PrepareForm({
   });
   const items = fields.items.getFieldList();
   const labCount = awaiting.length;
-  const confirmEveryLab = (event: FormEvent<HTMLFormElement>) => {
-    const target = new FormData(event.currentTarget).get("enrollmentId");
+  // Asked on the Prepare button only: the add and remove buttons submit the form too, to Conform.
+  const confirmEveryLab = (event: MouseEvent<HTMLButtonElement>) => {
+    const target = event.currentTarget.form?.elements.namedItem("enrollmentId") as HTMLSelectElement | null;
     const question = `Prepare this packing list for all ${labCount} ${labCount === 1 ? "lab" : "labs"} awaiting materials?`;
-    if (target === EVERY_LAB && !window.confirm(question)) event.preventDefault();
+    if (target?.value === EVERY_LAB && !window.confirm(question)) event.preventDefault();
   };
   return (
-    <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)} onSubmit={(event) => {
-      confirmEveryLab(event);
-      if (!event.defaultPrevented) form.onSubmit(event);
-    }}>
+    <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
       <input type="hidden" name="intent" value="create" />
       <input type="hidden" name="labCount" value={labCount} />
       <FormErrors errors={formWideErrors(form)} />
       <div className="grid gap-4 md:grid-cols-3">
         <SelectField
-          label="For"
+          label="Ship to"
           {...fieldProps(fields.enrollmentId)}
           options={[{ value: EVERY_LAB, label: `Every accepted lab awaiting materials (${labCount})` }, ...awaiting]}
         />
@@ -246,7 +244,7 @@ function PrepareForm({
       </fieldset>
       <TextAreaField label="Note for the packing list" rows={2} {...fieldProps(fields.note)} />
       <div>
-        <Button type="submit" disabled={busy}>
+        <Button type="submit" disabled={busy} onClick={confirmEveryLab}>
           Prepare
         </Button>
       </div>
