@@ -209,7 +209,7 @@ function PrepareForm({
       <input type="hidden" name="intent" value="create" />
       <input type="hidden" name="labCount" value={labCount} />
       <FormErrors errors={formWideErrors(form)} />
-      <div className="grid gap-4 md:grid-cols-3">
+      <div className="grid grid-cols-1 gap-4 md:grid-cols-3">
         <SelectField
           label="Ship to"
           {...fieldProps(fields.enrollmentId)}
@@ -224,7 +224,7 @@ function PrepareForm({
         {items.map((item, index) => {
           const line = item.getFieldset();
           return (
-            <div key={item.key} className="grid items-start gap-3 border-b border-basalt-100 pb-3 sm:grid-cols-2 lg:grid-cols-[3fr_1fr_1fr_1fr_1fr_auto]">
+            <div key={item.key} className="grid grid-cols-1 items-start gap-3 border-b border-basalt-100 pb-3 sm:grid-cols-2 lg:grid-cols-[minmax(0,3fr)_repeat(2,minmax(0,1fr))_minmax(0,1.5fr)_minmax(0,1fr)_auto]">
               <Field label={`Item ${index + 1}: material or constituent`} {...fieldProps(line.description)} />
               <Field label="Quantity" inputMode="decimal" {...fieldProps(line.quantity)} />
               <SelectField label="Unit" {...fieldProps(line.unit)} options={UNIT_CHOICES} />
