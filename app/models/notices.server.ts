@@ -51,6 +51,16 @@ const OPTIONAL: Partial<Record<NoticeKind, keyof Pick<Recipient, "resultReminder
   enrollment_declined: "enrollmentAnswers",
 };
 
+/** One notice per recipient about the same subject; `occasion` tells a repeated event apart (a new answer, a new due date). */
+function noticesFor(
+  recipients: Recipient[] | undefined,
+  { kind, studyId, subjectId, occasion }: { kind: NoticeKind; studyId: number; subjectId: number; occasion?: string | number },
+  message: (to: Recipient) => EmailMessage,
+): Notice[] {
+  const key = (email: string) => [kind, subjectId, ...(occasion === undefined ? [] : [occasion]), email].join(":");
+  return (recipients ?? []).map((to) => ({ kind, studyId, subjectId, key: key(to.email), to, message }));
+}
+
 const wanted = (notice: Notice) => {
   const preference = OPTIONAL[notice.kind];
   return preference === undefined || notice.to[preference];
@@ -58,7 +68,7 @@ const wanted = (notice: Notice) => {
 
 /** Preferences default to on: a person without a row gets every notice. */
 const withDefaults = (rows: { email: string; name: string; resultReminders: boolean | null; enrollmentAnswers: boolean | null }[]): Recipient[] =>
-  rows.map((r) => ({ ...r, resultReminders: r.resultReminders ?? true, enrollmentAnswers: r.enrollmentAnswers ?? true }));
+  rows.map(({ email, name, resultReminders, enrollmentAnswers }) => ({ email, name, resultReminders: resultReminders ?? true, enrollmentAnswers: enrollmentAnswers ?? true }));
 
 /** The owner and the co-coordinators of each study, active accounts only. */
 async function coordinatorsOf(database: Database, studyIds: number[]) {
@@ -133,15 +143,9 @@ async function shipmentProblems(database: Database, now: Date): Promise<Notice[]
   const coordinators = await coordinatorsOf(database, problems.map((s) => s.studyId));
   return problems.flatMap((s) => {
     const kind: NoticeKind = s.status === "lost" ? "shipment_lost" : "shipment_damaged";
-    return (coordinators.get(s.studyId) ?? []).map((to) => ({
-      kind,
-      studyId: s.studyId,
-      subjectId: s.id,
-      key: `${kind}:${s.id}:${to.email}`,
-      to,
-      message: (person: Recipient) =>
-        shipmentProblemEmail({ to: person.email, name: person.name, study: s.study, lab: s.labCode ? `${s.labName} (${s.labCode})` : s.labName, lost: kind === "shipment_lost", notes: s.receiptNotes, url: appUrl(null, `/studies/${s.studyId}/shipments`) }),
-    }));
+    return noticesFor(coordinators.get(s.studyId), { kind, studyId: s.studyId, subjectId: s.id }, (person) =>
+      shipmentProblemEmail({ to: person.email, name: person.name, study: s.study, lab: s.labCode ? `${s.labName} (${s.labCode})` : s.labName, lost: kind === "shipment_lost", notes: s.receiptNotes, url: appUrl(null, `/studies/${s.studyId}/shipments`) }),
+    );
   });
 }
 
@@ -163,15 +167,9 @@ async function enrollmentAnswers(database: Database, now: Date): Promise<Notice[
   const coordinators = await coordinatorsOf(database, answered.map((e) => e.studyId));
   return answered.flatMap((e) => {
     const kind: NoticeKind = e.state === "accepted" ? "enrollment_accepted" : "enrollment_declined";
-    return (coordinators.get(e.studyId) ?? []).map((to) => ({
-      kind,
-      studyId: e.studyId,
-      subjectId: e.id,
-      key: `${kind}:${e.id}:${e.respondedAt!.getTime()}:${to.email}`,
-      to,
-      message: (person: Recipient) =>
-        enrollmentAnswerEmail({ to: person.email, name: person.name, study: e.study, labName: e.labName, accepted: kind === "enrollment_accepted", url: appUrl(null, `/studies/${e.studyId}/labs`), preferencesUrl: appUrl(null, "/account") }),
-    }));
+    return noticesFor(coordinators.get(e.studyId), { kind, studyId: e.studyId, subjectId: e.id, occasion: e.respondedAt!.getTime() }, (person) =>
+      enrollmentAnswerEmail({ to: person.email, name: person.name, study: e.study, labName: e.labName, accepted: kind === "enrollment_accepted", url: appUrl(null, `/studies/${e.studyId}/labs`), preferencesUrl: appUrl(null, "/account") }),
+    );
   });
 }
 
@@ -217,15 +215,9 @@ async function resultsDue(database: Database, now: Date): Promise<Notice[]> {
     if (missing.length === 0) return [];
     const overdue = today > study.resultsDue!;
     const kind: NoticeKind = overdue ? "results_overdue" : "results_due_soon";
-    return (people.get(lab.labId) ?? []).map((to) => ({
-      kind,
-      studyId: study.id,
-      subjectId: lab.enrollmentId,
-      key: `${kind}:${lab.enrollmentId}:${study.resultsDue}:${to.email}`,
-      to,
-      message: (person: Recipient) =>
-        resultsDueEmail({ to: person.email, name: person.name, labName: lab.labName, study, missing, resultsDue: study.resultsDue!, overdue, url: appUrl(null, `/lab/studies/${study.id}`), preferencesUrl: appUrl(null, "/account") }),
-    }));
+    return noticesFor(people.get(lab.labId), { kind, studyId: study.id, subjectId: lab.enrollmentId, occasion: study.resultsDue! }, (person) =>
+      resultsDueEmail({ to: person.email, name: person.name, labName: lab.labName, study, missing, resultsDue: study.resultsDue!, overdue, url: appUrl(null, `/lab/studies/${study.id}`), preferencesUrl: appUrl(null, "/account") }),
+    );
   });
 }
 
