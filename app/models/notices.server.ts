@@ -10,7 +10,7 @@
  * same tick at once send each notice once. The scheduler (notice-schedule.server)
  * only calls it.
  */
-import { and, eq, gte, inArray, isNotNull, lte } from "drizzle-orm";
+import { and, eq, gte, inArray, isNotNull, lte, or } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
 import {
   auditEvents,
@@ -70,26 +70,28 @@ const wanted = (notice: Notice) => {
 const withDefaults = (rows: { email: string; name: string; resultReminders: boolean | null; enrollmentAnswers: boolean | null }[]): Recipient[] =>
   rows.map(({ email, name, resultReminders, enrollmentAnswers }) => ({ email, name, resultReminders: resultReminders ?? true, enrollmentAnswers: enrollmentAnswers ?? true }));
 
+/** Who a notice may go to, with their preferences (null when they never chose). */
+const personColumns = {
+  email: users.email,
+  name: users.name,
+  disabledAt: users.disabledAt,
+  resultReminders: noticePreferences.resultReminders,
+  enrollmentAnswers: noticePreferences.enrollmentAnswers,
+};
+
 /** The owner and the co-coordinators of each study, active accounts only. */
 async function coordinatorsOf(database: Database, studyIds: number[]) {
   const byStudy = new Map<number, Recipient[]>();
   if (studyIds.length === 0) return byStudy;
-  const columns = { email: users.email, name: users.name, resultReminders: noticePreferences.resultReminders, enrollmentAnswers: noticePreferences.enrollmentAnswers };
-  const [owners, coordinators] = await Promise.all([
-    database
-      .select({ studyId: studies.id, ...columns, disabledAt: users.disabledAt })
-      .from(studies)
-      .innerJoin(users, eq(users.id, studies.ownerId))
-      .leftJoin(noticePreferences, eq(noticePreferences.userId, users.id))
-      .where(inArray(studies.id, studyIds)),
-    database
-      .select({ studyId: studyCoordinators.studyId, ...columns, disabledAt: users.disabledAt })
-      .from(studyCoordinators)
-      .innerJoin(users, eq(users.id, studyCoordinators.userId))
-      .leftJoin(noticePreferences, eq(noticePreferences.userId, users.id))
-      .where(inArray(studyCoordinators.studyId, studyIds)),
-  ]);
-  for (const { studyId, disabledAt, ...person } of [...owners, ...coordinators]) {
+  // The owner comes once per co-coordinator row; the e-mail address keeps each person once.
+  const rows = await database
+    .select({ studyId: studies.id, ...personColumns })
+    .from(studies)
+    .leftJoin(studyCoordinators, eq(studyCoordinators.studyId, studies.id))
+    .innerJoin(users, or(eq(users.id, studies.ownerId), eq(users.id, studyCoordinators.userId)))
+    .leftJoin(noticePreferences, eq(noticePreferences.userId, users.id))
+    .where(inArray(studies.id, studyIds));
+  for (const { studyId, disabledAt, ...person } of rows) {
     const list = byStudy.get(studyId) ?? [];
     if (!disabledAt && !list.some((p) => p.email === person.email)) list.push(...withDefaults([person]));
     byStudy.set(studyId, list);
@@ -103,7 +105,7 @@ async function labPeopleOf(database: Database, labIds: number[]) {
   if (labIds.length === 0) return byLab;
   const [members, contacts] = await Promise.all([
     database
-      .select({ labId: labMembers.labId, email: users.email, name: users.name, resultReminders: noticePreferences.resultReminders, enrollmentAnswers: noticePreferences.enrollmentAnswers, disabledAt: users.disabledAt })
+      .select({ labId: labMembers.labId, ...personColumns })
       .from(labMembers)
       .innerJoin(users, eq(users.id, labMembers.userId))
       .leftJoin(noticePreferences, eq(noticePreferences.userId, users.id))
