@@ -6,6 +6,7 @@ import { db } from "~/db/client.server";
 import * as schema from "~/db/schema";
 import { emailOutbox, enrollments, labMembers, labs, notices, shipments, studies, users } from "~/db/schema";
 import { DUE_SOON_DAYS, runDueNotices } from "~/models/notices.server";
+import { noticeSchedulePattern, startNoticeSchedule } from "~/server/notice-schedule.server";
 import * as accountPage from "~/routes/account";
 import * as receipt from "~/routes/lab/study/receipt";
 import * as shipmentsPage from "~/routes/studies/study/shipments";
@@ -102,6 +103,28 @@ describe("reminders before and after results are due", () => {
       expect(claims.filter((c) => c.uniqueKey.includes(due)).every((c) => c.emailId !== null)).toBe(true);
     } finally {
       otherInstance.close();
+    }
+  });
+});
+
+describe("the schedule", () => {
+  it("is every five minutes unless NOTICE_SCHEDULE says otherwise, and off turns it off", () => {
+    expect(noticeSchedulePattern({})).toBe("*/5 * * * *");
+    expect(noticeSchedulePattern({ NOTICE_SCHEDULE: "0 * * * *" })).toBe("0 * * * *");
+    expect(noticeSchedulePattern({ NOTICE_SCHEDULE: "off" })).toBeNull();
+    expect(startNoticeSchedule(null)).toBeNull();
+  });
+
+  it("sends the due notices on its own once started", async () => {
+    // Results due in three days from the real clock: the schedule's tick (every second here) finds the reminders.
+    const due = new Date(Date.now() + 3 * DAY).toISOString().slice(0, 10);
+    await db.update(studies).set({ resultsDue: due }).where(eq(studies.id, testing.id));
+    const before = await lastMailId();
+    const job = startNoticeSchedule("* * * * * *")!;
+    try {
+      await expect.poll(async () => (await mailSince(before, `results due on ${due}`)).length, { timeout: 10_000 }).toBe((await peopleOfLabsWithMissingResults()).length);
+    } finally {
+      job.stop();
     }
   });
 });
