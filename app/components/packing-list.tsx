@@ -9,7 +9,13 @@ export function PackingItemsTable({ caption, items, note }: { caption: string; i
         <SimpleTable
           caption={caption}
           headers={["Material or constituent", "Quantity", "Lot", "Containers"]}
-          rows={items.map((item) => [item.description, formatQuantity(item.quantity, item.unit), item.lot || "—", item.containerCount])}
+          // Quantities and lot numbers stay on one line; the description wraps.
+          rows={items.map((item) => [
+            item.description,
+            <span key="quantity" className="whitespace-nowrap">{formatQuantity(item.quantity, item.unit)}</span>,
+            <span key="lot" className="whitespace-nowrap">{item.lot || "—"}</span>,
+            item.containerCount,
+          ])}
         />
       ) : (
         <p>No items listed.</p>
