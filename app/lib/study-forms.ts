@@ -3,7 +3,7 @@
  * and, where a page checks as one types, in the browser.
  */
 import { z } from "zod";
-import { RESPONSE_KINDS, STUDY_STATES } from "~/db/values";
+import { RESPONSE_KINDS, STUDY_STATES, type StudyKind } from "~/db/values";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { emailField } from "~/lib/validation";
 
@@ -43,11 +43,11 @@ const studyFieldsShape = z.object({
     code: studyCodeField,
     title: z.string({ message: "Enter a title." }).trim().min(1, { message: "Enter a title." }).max(200, { message: "Keep the title to 200 characters or fewer." }).superRefine(refuseUnsafeCharacters()),
     testMethod: z.string({ message: "Name the test method." }).trim().min(1, { message: "Name the test method." }).max(200, { message: "Keep the test method to 200 characters or fewer." }).superRefine(refuseUnsafeCharacters()),
-    // E691 needs at least two replicates per cell to estimate repeatability.
+    // How many a study takes depends on its kind: replicatesProblem below.
     replicatesPerCell: z.coerce
       .number({ message: "Enter a whole number of replicates." })
       .int({ message: "Enter a whole number of replicates." })
-      .min(2, { message: "Use at least 2 replicates per cell (repeatability needs two)." })
+      .min(1, { message: "Use at least 1 replicate per cell." })
       .max(10, { message: "Use at most 10 replicates per cell." }),
     significanceLevel: z.coerce
       .number({ message: "Enter the significance level as a number such as 0.005." })
@@ -75,13 +75,35 @@ function datesInOrder(v: z.output<typeof studyFieldsShape>, ctx: z.RefinementCtx
   }
 }
 
+/**
+ * Replicates per cell each kind of study takes: a precision study at least 2
+ * (E691 and ISO 5725-2 estimate repeatability from them); a proficiency round
+ * 1 or 2 (each lab is scored on its average); a ruggedness study 1 or 2
+ * results per run.
+ */
+export const REPLICATES_BY_KIND: Record<StudyKind, { min: number; max: number; message: string }> = {
+  precision: { min: 2, max: 10, message: "Use at least 2 replicates per cell (repeatability needs two)." },
+  proficiency: { min: 1, max: 2, message: "A round takes 1 or 2 replicates per lab and material." },
+  ruggedness: { min: 1, max: 2, message: "A ruggedness study takes 1 or 2 results per run." },
+};
+
+/** The sentence to show beside the replicates field, or null when `n` suits the kind of study. */
+export function replicatesProblem(kind: StudyKind, n: number): string | null {
+  const range = REPLICATES_BY_KIND[kind];
+  return n >= range.min && n <= range.max ? null : range.message;
+}
+
 export const studyFields = studyFieldsShape.superRefine(datesInOrder);
 
 export const STUDY_TEMPLATES = ["float_finishing", "custom"] as const;
 
 export const newStudySchema = studyFieldsShape
   .extend({ template: z.enum(STUDY_TEMPLATES, { message: "Choose a template." }) })
-  .superRefine(datesInOrder);
+  .superRefine(datesInOrder)
+  .superRefine((v, ctx) => {
+    const problem = replicatesProblem("precision", v.replicatesPerCell);
+    if (problem) ctx.addIssue({ code: "custom", path: ["replicatesPerCell"], message: problem });
+  });
 
 export const responseSchema = z
   .object({
