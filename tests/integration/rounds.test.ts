@@ -19,6 +19,7 @@ import * as overview from "~/routes/rounds/round/overview";
 import * as report from "~/routes/rounds/round/report";
 import * as scores from "~/routes/rounds/round/scores";
 import * as setupPage from "~/routes/studies/study/setup";
+import * as studyLayout from "~/routes/studies/study/layout";
 import { ROUND_CHECKS } from "../../seed/rounds-data";
 import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { call, get, post } from "../support/routes";
@@ -314,5 +315,30 @@ describe("replicates of a round on the setup page", () => {
     } finally {
       await db.update(studies).set({ state: study.state }).where(eq(studies.id, study.id));
     }
+  });
+});
+
+describe("starting a round from a published precision study", () => {
+  const frame = async (code: string, cookie: string) => {
+    const study = await demoStudy(code);
+    return call(studyLayout.loader, get(`/studies/${study.id}`, cookie), { studyId: String(study.id) });
+  };
+
+  it("is offered to the coordinator on a published study's pages, and the new-round form starts from it", async () => {
+    const published = await frame("FF-2025-D", coordinator);
+    expect(published.status).toBe(200);
+    expect(published.data.canStartRound).toBe(true);
+    const source = await demoStudy("FF-2025-D");
+    const form = await call(newRound.loader, get(`/rounds/new?from=${source.id}`, coordinator));
+    expect(form.data.from).toBe(String(source.id));
+    expect(form.data.sources.map((s: { id: number }) => s.id)).toContain(source.id);
+  });
+
+  it("is not offered before publication, nor to a reviewer or an admin", async () => {
+    expect((await frame("FF-2026-A", coordinator)).data.canStartRound).toBe(false);
+    expect((await frame("FF-2025-D", await demoCookie("admin@ringbatch.example"))).data.canStartRound).toBe(false);
+    const reviewerView = await frame("FF-2025-D", await demoCookie("reviewer1@ringbatch.example"));
+    expect(reviewerView.status).toBe(200);
+    expect(reviewerView.data.canStartRound).toBe(false);
   });
 });
