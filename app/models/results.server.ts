@@ -13,7 +13,7 @@ import { cellStatusOf } from "~/lib/cell-status";
 import { checkResultValue, outsidePlausibleRange } from "~/lib/results/values";
 import { enrollmentRefusal, writeRefusal } from "~/lib/write-rules";
 import { IMAGE_TYPES, storeUpload } from "~/server/uploads.server";
-import { bumpDataVersion } from "~/models/analysis.server";
+import { bumpDataVersion, studyResultRows } from "~/models/analysis.server";
 
 export type Enrollment = typeof enrollments.$inferSelect;
 type Actor = { id: number };
@@ -256,23 +256,8 @@ export async function importResults(enrollment: Enrollment, rows: ResultInputRow
 
 /** A lab's own stored results with the version of each replicate, for a writer (the API) to name what it read. */
 export async function enrollmentResults(enrollment: Enrollment) {
-  return db
-    .select({
-      material: materials.code,
-      response: responses.key,
-      replicate: results.replicate,
-      value: results.value,
-      testedOn: results.testedOn,
-      operator: results.operator,
-      version: results.version,
-      cellStatus: cells.status,
-    })
-    .from(results)
-    .innerJoin(cells, eq(cells.id, results.cellId))
-    .innerJoin(materials, eq(materials.id, cells.materialId))
-    .innerJoin(responses, eq(responses.id, cells.responseId))
-    .where(eq(cells.enrollmentId, enrollment.id))
-    .orderBy(asc(materials.sortOrder), asc(materials.code), asc(responses.sortOrder), asc(results.replicate));
+  const rows = await studyResultRows(enrollment.studyId, { enrollmentId: enrollment.id });
+  return rows.map(({ material, response, replicate, value, testedOn, operator, version, status }) => ({ material, response, replicate, value, testedOn, operator, version, cellStatus: status }));
 }
 
 /** What a lab sees on one material's result entry page: its own cells only. */
