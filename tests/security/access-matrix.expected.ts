@@ -57,7 +57,7 @@ export const EXPECTED: Record<string, Partial<Record<Method, Record<Persona, num
   "api/v1/studies/:studyId/results": { GET: row(401, 200, 200, 404, 404, 404, 200, 404) },
   "api/v1/studies/:studyId/results.csv": { GET: row(401, 200, 200, 404, 404, 404, 200, 404) },
   "api/v1/studies/:studyId/precision": { GET: row(401, 200, 200, 404, 404, 404, 200, 404) },
-  "api/v1/enrollments/:enrollmentId/results": { POST: row(401, 404, 404, 404, 400, 404, 404, 404) },
+  "api/v1/enrollments/:enrollmentId/results": { GET: row(401, 404, 404, 404, 200, 404, 404, 404), POST: row(401, 404, 404, 404, 400, 404, 404, 404) },
   "studies/:studyId/queries": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
   "studies/:studyId/statement": { GET: row(302, 200, 200, 404, 404, 404, 404, 404), POST: row(302, 404, 400, 404, 404, 404, 404, 404) },
   "studies/:studyId/report": { GET: row(302, 200, 200, 404, 404, 404, 200, 404) },
