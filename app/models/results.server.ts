@@ -12,6 +12,7 @@ import type { TemplateRow } from "~/lib/results/results-template";
 import { cellKey, type ResolvedRow, resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { cellStatusOf } from "~/lib/cell-status";
 import { checkResultValue, outsidePlausibleRange } from "~/lib/results/values";
+import { PHOTO_MAX_BYTES } from "~/lib/results/entry-forms";
 import { enrollmentRefusal, writeRefusal } from "~/lib/write-rules";
 import { IMAGE_TYPES, storeUpload } from "~/server/uploads.server";
 import { bumpDataVersion } from "~/models/analysis.server";
@@ -481,8 +482,6 @@ export async function amendResult(enrollment: Enrollment, materialId: number, in
     return { ok: true as const };
   });
 }
-
-export const PHOTO_MAX_BYTES = 10 * 1024 * 1024;
 
 /** Stores a surface photo (type judged from its bytes) and links it to every result of that replicate. */
 export async function attachReplicatePhoto(enrollment: Enrollment, materialId: number, replicate: number, file: File, user: Actor) {
