@@ -207,7 +207,7 @@ export default function ImportResults({ loaderData, actionData }: Route.Componen
       <Card title="The file">
         <p className="mb-2">
           CSV (comma- or semicolon-separated, decimal point or decimal comma, UTF-8) or an .xlsx workbook, at most {MAX_MB} MB, with a header row naming the columns{" "}
-          <code className="rounded bg-basalt-100 px-1">{REQUIRED_COLUMNS.join(",")}</code> and, if you like, <code className="rounded bg-basalt-100 px-1">{OPTIONAL_COLUMNS.join(",")}</code>. Materials:{" "}
+          <code className="rounded bg-basalt-100 px-1 break-all">{REQUIRED_COLUMNS.join(",")}</code> and, if you like, <code className="rounded bg-basalt-100 px-1 break-all">{OPTIONAL_COLUMNS.join(",")}</code>. Materials:{" "}
           {frame.materials.map((m) => m.code).join(", ")}; responses: {frame.responses.map((r) => `${r.key} (${r.name.toLowerCase()})`).join(", ")}; replicates 1 to{" "}
           {frame.replicatesPerCell}.
         </p>
