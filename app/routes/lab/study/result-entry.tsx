@@ -233,6 +233,7 @@ async function saveChangesOrRefuse(enrollment: Enrollment, entry: Entry, changes
   }
 }
 
+const PHOTO_NOT_SENT = "The photo did not reach the server. Check the connection, then upload it again.";
 const PHOTO_TOO_LARGE_REPLY: SubmissionResult<string[]> = { status: "error", error: { photo: [PHOTO_TOO_LARGE] } };
 
 /**
@@ -551,7 +552,7 @@ function CellInput({
 } & Omit<React.ComponentProps<"input">, "onChange" | "id">) {
   const describedBy = error ? `${id}-error` : warning ? `${id}-warning` : undefined;
   return (
-    <div className="flex flex-col gap-1 sm:min-w-24">
+    <div className="flex flex-col gap-1 sm:min-w-20">
       <label htmlFor={id} className="text-sm font-semibold sm:sr-only">
         {label}
       </label>
@@ -559,7 +560,7 @@ function CellInput({
         id={id}
         aria-invalid={error ? true : undefined}
         aria-describedby={describedBy}
-        className={`min-h-11 rounded-md border bg-white px-2 py-1 ${error ? "border-signal-700" : "border-basalt-200"}`}
+        className={`min-h-11 w-full rounded-md border bg-white px-2 py-1 ${error ? "border-signal-700" : "border-basalt-200"}`}
         onChange={(e) => onChange(e.target.value)}
         {...input}
       />
@@ -590,7 +591,9 @@ function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoI
   // A fetcher of its own, so a refused photo is named beside its replicate and the grid keeps what was typed.
   const fetcher = useFetcher<typeof action>();
   const [form, fields] = useSchemaForm(photoSchema, { reply: fetcher.data, id: `photo-${replicate}` });
-  const error = fields.photo.errors?.[0] ?? formWideErrors(form)[0];
+  // A photo that never reached the server is said so too: an upload never fails without a word.
+  const notSent = fetcher.state === "idle" && fetcher.data && "offline" in fetcher.data ? PHOTO_NOT_SENT : undefined;
+  const error = fields.photo.errors?.[0] ?? formWideErrors(form)[0] ?? notSent;
   const id = fields.photo.id;
   const uploading = fetcher.state !== "idle";
   const describedBy = [`${id}-rule`, error ? `${id}-error` : null].filter(Boolean).join(" ");
@@ -609,7 +612,7 @@ function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoI
             name={fields.photo.name}
             type="file"
             accept="image/jpeg,image/png,image/webp"
-            className="w-full max-w-56 text-sm file:mr-2 file:rounded file:border file:border-basalt-200 file:bg-white file:px-2 file:py-1"
+            className="w-full max-w-44 text-sm file:mr-2 file:rounded file:border file:border-basalt-200 file:bg-white file:px-2 file:py-1"
             aria-invalid={error ? true : undefined}
             aria-describedby={describedBy}
           />
