@@ -247,7 +247,8 @@ export async function clientAction({ serverAction }: Route.ClientActionArgs) {
     return await serverAction();
   } catch (error) {
     if (isRouteErrorResponse(error) && error.status === 413) return { result: PHOTO_TOO_LARGE_REPLY };
-    if (isRouteErrorResponse(error)) throw error;
+    // A redirect (a photo added, a material submitted) and the page's own errors go on as the framework means them.
+    if (error instanceof Response || isRouteErrorResponse(error)) throw error;
     return { offline: true as const };
   }
 }
@@ -582,7 +583,7 @@ function CellInput({
 function PhotoThumbnail({ photoId, replicate }: { photoId: number; replicate: number }) {
   return (
     <a href={`/files/${photoId}`} target="_blank" rel="noreferrer" className="inline-block w-fit rounded focus-visible:outline-2">
-      <img src={`/files/${photoId}?thumbnail`} alt={`Surface photo of replicate ${replicate} (opens the full image)`} className="h-16 w-24 rounded border border-basalt-200 object-cover" loading="lazy" />
+      <img src={`/files/${photoId}?thumbnail`} alt={`Surface photo of replicate ${replicate} (opens the full image)`} className="h-16 w-24 rounded border border-basalt-200 object-cover" />
     </a>
   );
 }
@@ -601,7 +602,8 @@ function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoI
     <div className="flex min-w-0 flex-col gap-1">
       {photoId && <PhotoThumbnail photoId={photoId} replicate={replicate} />}
       {editable && (
-        <fetcher.Form method="post" encType="multipart/form-data" className="flex min-w-0 flex-col gap-1" {...getFormProps(form)}>
+        // Keyed by the stored photo, so the chooser empties once a photo is added.
+        <fetcher.Form key={photoId ?? "none"} method="post" encType="multipart/form-data" className="flex min-w-0 flex-col gap-1" {...getFormProps(form)}>
           <input type="hidden" name="intent" value="photo" />
           <input type="hidden" name="replicate" value={replicate} />
           <label htmlFor={id} className="text-sm font-semibold sm:sr-only">
