@@ -63,6 +63,8 @@ export default [
       route("batch/:materialId", "routes/lab/study/batch-sheet.tsx"),
       route("results/:materialId", "routes/lab/study/result-entry.tsx"),
       route("import", "routes/lab/study/import.tsx"),
+      route("import/template.csv", "routes/lab/study/results-template.ts", { id: "lab-results-template-csv" }),
+      route("import/template.xlsx", "routes/lab/study/results-template.ts", { id: "lab-results-template-xlsx" }),
     ]),
   ]),
 

@@ -39,43 +39,72 @@ const ROLE_LABEL: Record<Role, string> = {
 };
 
 /** The local mailbox, while no real mail provider is set; its messages carry sign-in links. */
-const MAILBOX_LINK = { to: "/dev/mailbox", label: "Mailbox" };
+const MAILBOX_LINK: NavItem = { to: "/dev/mailbox", label: "Mailbox" };
+
+type NavItem = { to: string; label: string };
+
+/** The main menu's links; on a phone they sit in a disclosure, which closes when one is followed. */
+function MainNav({ items, className }: { items: NavItem[]; className: string }) {
+  return (
+    <nav aria-label="Main" className={className}>
+      {items.map((item) => (
+        <NavLink
+          key={item.to}
+          to={item.to}
+          onClick={(event) => event.currentTarget.closest("details")?.removeAttribute("open")}
+          className={({ isActive }) => `rounded px-3 py-2 font-semibold ${isActive ? "bg-basalt-700 text-ochre-300" : "text-basalt-100 hover:bg-basalt-700"}`}
+        >
+          {item.label}
+        </NavLink>
+      ))}
+    </nav>
+  );
+}
+
+function Account({ user }: { user: HeaderUser }) {
+  return (
+    <div className="flex items-center gap-3">
+      <NavLink to="/account" className="rounded px-2 py-1 text-basalt-100 hover:bg-basalt-700">
+        <span className="font-semibold text-white">{user.name}</span>
+        <span className="block text-xs">{ROLE_LABEL[user.role]}</span>
+      </NavLink>
+      <Form method="post" action="/logout">
+        <button type="submit" className="rounded border border-basalt-200 px-3 py-1.5 font-semibold text-white hover:bg-basalt-700">
+          Sign out
+        </button>
+      </Form>
+    </div>
+  );
+}
 
 export function AppHeader({ user, mailbox = false }: { user: HeaderUser | null; mailbox?: boolean }) {
   const nav = user ? [...NAV_BY_ROLE[user.role], ...TOOLKIT_NAV[user.role], ...(mailbox && (user.role === "admin" || user.role === "coordinator") ? [MAILBOX_LINK] : [])] : [];
   return (
-    <header className="no-print bg-basalt-800 text-white">
+    <header className="no-print relative bg-basalt-800 text-white">
       <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
         <a href="/" className="rounded text-white">
           <Wordmark />
         </a>
         {user && (
-          <nav aria-label="Main" className="flex flex-1 flex-wrap gap-1">
-            {nav.map((item) => (
-              <NavLink
-                key={item.to}
-                to={item.to}
-                className={({ isActive }) =>
-                  `rounded px-3 py-1.5 font-semibold ${isActive ? "bg-basalt-700 text-ochre-300" : "text-basalt-100 hover:bg-basalt-700"}`
-                }
-              >
-                {item.label}
-              </NavLink>
-            ))}
-          </nav>
-        )}
-        {user && (
-          <div className="flex items-center gap-3">
-            <NavLink to="/account" className="rounded px-2 py-1 text-basalt-100 hover:bg-basalt-700">
-              <span className="font-semibold text-white">{user.name}</span>
-              <span className="block text-xs">{ROLE_LABEL[user.role]}</span>
-            </NavLink>
-            <Form method="post" action="/logout">
-              <button type="submit" className="rounded border border-basalt-200 px-3 py-1.5 font-semibold text-white hover:bg-basalt-700">
-                Sign out
-              </button>
-            </Form>
-          </div>
+          <>
+            <MainNav items={nav} className="hidden flex-1 flex-wrap gap-1 md:flex" />
+            <div className="hidden md:block">
+              <Account user={user} />
+            </div>
+            {/* Narrow screens: the menu folds into a disclosure, which works without JavaScript. */}
+            <details className="group ml-auto md:hidden">
+              <summary className="flex min-h-11 cursor-pointer list-none items-center gap-2 rounded border border-basalt-200 px-3 font-semibold [&::-webkit-details-marker]:hidden">
+                <span aria-hidden="true" className="text-lg leading-none">
+                  ☰
+                </span>
+                Menu
+              </summary>
+              <div className="absolute right-0 left-0 z-30 mt-3 grid gap-3 bg-basalt-800 px-4 pb-4 shadow-lg">
+                <MainNav items={nav} className="grid gap-1" />
+                <Account user={user} />
+              </div>
+            </details>
+          </>
         )}
       </div>
     </header>

@@ -1,8 +1,8 @@
 /**
- * The one reader of results files, for the lab's import (in the browser's
- * preview and on the server) and for the precision command line: comma-
- * separated, RFC 4180 quoting (papaparse), the first non-blank record is the
- * header. Records are numbered as a spreadsheet numbers rows (the file's
+ * The one reader of results files, for the lab's import and for the
+ * precision command line: comma- or semicolon-separated (a spreadsheet in a
+ * locale with decimal commas saves semicolons), RFC 4180 quoting (papaparse),
+ * the first non-blank record is the header. Records are numbered as a spreadsheet numbers rows (the file's
  * first record is row 1), so a problem can be found in the file. Blank
  * records are skipped. What each caller requires of the columns, and how it
  * words a problem, is its own.
@@ -39,11 +39,27 @@ export function tableFromRecords(records: string[][]): CsvTable | null {
 /** Quoting the parser could not make sense of, by row. */
 export type CsvQuotingProblem = { row: number | undefined; message: string };
 
+export type CsvDelimiter = "," | ";";
+
+/**
+ * The separator the header row uses: semicolons when it has more of them
+ * than commas outside quotes. The header names no number, so a decimal comma
+ * cannot mislead the count.
+ */
+export function headerDelimiter(text: string): CsvDelimiter {
+  const header = text.split(/\r?\n/).find((line) => line.trim() !== "") ?? "";
+  const unquoted = header.replace(/"[^"]*"/g, "");
+  const count = (mark: string) => unquoted.split(mark).length - 1;
+  return count(";") > count(",") ? ";" : ",";
+}
+
 /** Parses the whole text at once (the server's and the command line's way). */
-export function readCsvTable(text: string): { table: CsvTable | null; quoting: CsvQuotingProblem[] } {
-  const parsed = Papa.parse<string[]>(text.replace(/^\uFEFF/, ""), { delimiter: ",", skipEmptyLines: false });
+export function readCsvTable(text: string): { table: CsvTable | null; quoting: CsvQuotingProblem[]; delimiter: CsvDelimiter } {
+  const content = text.replace(/^\uFEFF/, "");
+  const delimiter = headerDelimiter(content);
+  const parsed = Papa.parse<string[]>(content, { delimiter, skipEmptyLines: false });
   const quoting = parsed.errors
     .filter((error) => error.code === "MissingQuotes" || error.code === "InvalidQuotes")
     .map((error) => ({ row: error.row === undefined ? undefined : error.row + 1, message: error.message }));
-  return { table: tableFromRecords(parsed.data), quoting };
+  return { table: tableFromRecords(parsed.data), quoting, delimiter };
 }

@@ -8,9 +8,11 @@ import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
 import { amendments, auditEvents, batches, cells, enrollments, labs, materials, queries, responses, results, shipments, studies, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
+import type { TemplateRow } from "~/lib/results/results-template";
 import { cellKey, type ResolvedRow, resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { cellStatusOf } from "~/lib/cell-status";
 import { checkResultValue, outsidePlausibleRange } from "~/lib/results/values";
+import { PHOTO_MAX_BYTES } from "~/lib/results/entry-forms";
 import { enrollmentRefusal, writeRefusal } from "~/lib/write-rules";
 import { IMAGE_TYPES, storeUpload } from "~/server/uploads.server";
 import { bumpDataVersion, studyResultRows } from "~/models/analysis.server";
@@ -110,11 +112,43 @@ export type DraftConflict = {
   message: string;
 };
 
-function conflictMessage(row: ResolvedRow, responseName: string, theirValue: number | null, by: string) {
+type StoredResult = typeof results.$inferSelect;
+
+/** The lab's cells and their stored replicates, keyed for the rows that name them. */
+async function storedResults(executor: Pick<typeof db, "select">, enrollmentId: number) {
+  const cellByKey = await enrollmentCells(executor, enrollmentId);
+  const cellIds = [...cellByKey.values()].map((c) => c.id);
+  const stored = cellIds.length ? await executor.select().from(results).where(inArray(results.cellId, cellIds)) : [];
+  const storedByKey = new Map(stored.map((r) => [`${r.cellId}:${r.replicate}`, r]));
+  return (row: Pick<ResolvedRow, "materialId" | "responseId" | "replicate">) => {
+    const cell = cellByKey.get(cellKey(row.materialId, row.responseId));
+    return { cell, before: cell && storedByKey.get(`${cell.id}:${row.replicate}`) };
+  };
+}
+
+/** Whether the row would change the stored replicate, and whether that replicate moved on from the version the row was read at. */
+function compareWithStored(row: ResolvedRow, before: StoredResult | undefined) {
+  const unchanged = before ? before.value === row.value && before.testedOn === row.testedOn && before.operator === row.operator : row.value === null;
+  const conflict = !unchanged && row.readVersion !== undefined && row.readVersion !== (before?.version ?? 0);
+  return { unchanged, conflict };
+}
+
+/** Where a conflict's message says the row was read, and what to do now. */
+export type ConflictWording = { since: string; outcome: string };
+
+const PAGE_CONFLICT: ConflictWording = {
+  since: "after you opened the page",
+  outcome: "was not saved. The page now shows their value; enter yours again if it is the right one.",
+};
+
+async function conflictOf(executor: Pick<typeof db, "query">, row: ResolvedRow, before: StoredResult | undefined, responseName: string, wording: ConflictWording): Promise<DraftConflict> {
+  const by = before?.updatedBy ? ((await executor.query.users.findFirst({ where: eq(users.id, before.updatedBy), columns: { name: true } }))?.name ?? "someone") : "someone";
+  const theirValue = before?.value ?? null;
   const where = `${row.materialCode}, ${responseName.toLowerCase()}, replicate ${row.replicate}`;
   const theirs = theirValue === null ? "cleared it" : `saved ${theirValue}`;
   const yours = row.value === null ? "clearing it" : `your ${row.value}`;
-  return `${where}: ${by} ${theirs} after you opened the page, so ${yours} was not saved. The page now shows their value; enter yours again if it is the right one.`;
+  const message = `${where}: ${by} ${theirs} ${wording.since}, so ${yours} ${wording.outcome}`;
+  return { row: row.row, material: row.materialCode, response: row.responseKey, replicate: row.replicate, theirValue, currentVersion: before?.version ?? 0, by, yourValue: row.value, message };
 }
 
 /**
@@ -123,42 +157,26 @@ function conflictMessage(row: ResolvedRow, responseName: string, theirValue: num
  * the stored replicate is still at that version; otherwise it is returned as
  * a conflict with the other person's value, and nothing of it is written.
  */
-async function writeRows(tx: Transaction, enrollment: Enrollment, rows: ResolvedRow[], user: Actor, responseNames: Map<number, string> = new Map()) {
-  let cellByKey = await enrollmentCells(tx, enrollment.id);
-  const missing = [...new Set(rows.filter((r) => r.value !== null).map((r) => cellKey(r.materialId, r.responseId)))].filter((k) => !cellByKey.has(k));
+async function writeRows(tx: Transaction, enrollment: Enrollment, rows: ResolvedRow[], user: Actor, responseNames: Map<number, string> = new Map(), wording = PAGE_CONFLICT) {
+  const existing = await enrollmentCells(tx, enrollment.id);
+  const missing = [...new Set(rows.filter((r) => r.value !== null).map((r) => cellKey(r.materialId, r.responseId)))].filter((k) => !existing.has(k));
   if (missing.length > 0) {
     await tx
       .insert(cells)
       .values(missing.map((k) => ({ enrollmentId: enrollment.id, materialId: Number(k.split(":")[0]), responseId: Number(k.split(":")[1]) })))
       .onConflictDoNothing();
-    cellByKey = await enrollmentCells(tx, enrollment.id);
   }
-  const cellIds = [...cellByKey.values()].map((c) => c.id);
-  const stored = cellIds.length ? await tx.select().from(results).where(inArray(results.cellId, cellIds)) : [];
-  const storedByKey = new Map(stored.map((r) => [`${r.cellId}:${r.replicate}`, r]));
+  const find = await storedResults(tx, enrollment.id);
 
   const changes: Change[] = [];
   const conflicts: DraftConflict[] = [];
   const touchedCells = new Set<number>();
   for (const row of rows) {
-    const cell = cellByKey.get(cellKey(row.materialId, row.responseId));
-    const before = cell && storedByKey.get(`${cell.id}:${row.replicate}`);
-    const unchanged = before ? before.value === row.value && before.testedOn === row.testedOn && before.operator === row.operator : row.value === null;
+    const { cell, before } = find(row);
+    const { unchanged, conflict } = compareWithStored(row, before);
     if (unchanged) continue;
-    if (row.readVersion !== undefined && row.readVersion !== (before?.version ?? 0)) {
-      const by = before?.updatedBy ? ((await tx.query.users.findFirst({ where: eq(users.id, before.updatedBy), columns: { name: true } }))?.name ?? "someone") : "someone";
-      const theirValue = before?.value ?? null;
-      conflicts.push({
-        row: row.row,
-        material: row.materialCode,
-        response: row.responseKey,
-        replicate: row.replicate,
-        theirValue,
-        currentVersion: before?.version ?? 0,
-        by,
-        yourValue: row.value,
-        message: conflictMessage(row, responseNames.get(row.responseId) ?? row.responseKey, theirValue, by),
-      });
+    if (conflict) {
+      conflicts.push(await conflictOf(tx, row, before, responseNames.get(row.responseId) ?? row.responseKey, wording));
       continue;
     }
     if (!cell || (row.value === null && !before)) continue;
@@ -209,31 +227,87 @@ export async function saveDraftResults(enrollment: Enrollment, rows: ResultInput
   });
 }
 
-export type ImportOutcome = { ok: true; imported: number; changed: number } | { ok: false; problems: RowProblem[]; conflicts: DraftConflict[] };
+/** Where the versions an import checks come from: the file's version column (the template's), or the preview of a file without one. */
+export type ImportReadFrom = "template" | "preview" | "api";
 
-/** Thrown inside the import's transaction so that a stale row undoes the rows written before it. */
-class StaleRows extends Error {
+const IMPORT_CONFLICT: Record<ImportReadFrom, ConflictWording> = {
+  template: {
+    since: "after this file's template was downloaded",
+    outcome: "cannot be imported over it. Download a fresh template (it has their value), and enter yours there if it is the right one.",
+  },
+  preview: {
+    since: "after the preview of this file",
+    outcome: "cannot be imported over it. Choose the file again to see the value stored now, and change the file if yours is the right one.",
+  },
+  api: {
+    since: "after the version you read",
+    outcome: "was not written. Read the results again and resend.",
+  },
+};
+
+/** One row of an import's preview: what the row would change. */
+export type PreviewRow = { row: number; storedValue: number | null; readVersion: number; warning?: string };
+
+export type ImportPreview = {
+  problems: RowProblem[];
+  conflicts: DraftConflict[];
+  rows: PreviewRow[];
+};
+
+/**
+ * What an import of these rows would do, without writing: the problems of
+ * each row, the conflicts of rows whose file version is not the stored one,
+ * and the version of every replicate as read now, for the confirmation to
+ * check when the file carries no versions of its own.
+ */
+export async function previewImport(enrollment: Enrollment, rows: ResultInputRow[], readFrom: ImportReadFrom): Promise<ImportPreview> {
+  const frame = await entryFrame(enrollment);
+  const { problems, resolved } = resolveRows(frame, await enrollmentCells(db, enrollment.id), rows, { valueRequired: true });
+  const find = await storedResults(db, enrollment.id);
+  const names = new Map(frame.responses.map((r) => [r.id, r.name]));
+  const conflicts: DraftConflict[] = [];
+  const previewRows: PreviewRow[] = [];
+  for (const row of resolved) {
+    const { before } = find(row);
+    if (compareWithStored(row, before).conflict) conflicts.push(await conflictOf(db, row, before, names.get(row.responseId) ?? row.responseKey, IMPORT_CONFLICT[readFrom]));
+    previewRows.push({ row: row.row, storedValue: before?.value ?? null, readVersion: before?.version ?? 0, ...(row.warning ? { warning: row.warning } : {}) });
+  }
+  return { problems, conflicts, rows: previewRows };
+}
+
+export type ImportOutcome =
+  | { ok: true; imported: number; changed: number; materialIds: number[] }
+  | { ok: false; problems: RowProblem[]; conflicts: DraftConflict[] };
+
+/** Unwinds an import's transaction when a row meets a conflict, so nothing of the file is written. */
+class ImportConflicts extends Error {
   constructor(readonly conflicts: DraftConflict[]) {
-    super("stale rows");
+    super("import conflicts");
   }
 }
 
 /**
  * Checks every row first; imports all of them in one transaction, or none when
- * any row has a problem or names a version of its replicate that is no longer
- * stored. Importing the same rows again changes nothing, and records nothing.
+ * any row has a problem or meets a value changed since the version it was read
+ * at. Importing the same rows again changes nothing, and records nothing.
  */
-export async function importResults(enrollment: Enrollment, rows: ResultInputRow[], user: Actor, fileName = ""): Promise<ImportOutcome> {
+export async function importResults(
+  enrollment: Enrollment,
+  rows: ResultInputRow[],
+  user: Actor,
+  { fileName = "", readFrom = "template" }: { fileName?: string; readFrom?: ImportReadFrom } = {},
+): Promise<ImportOutcome> {
   const frame = await entryFrame(enrollment);
   assertResultsEditable(frame.study, enrollment);
-  if (rows.length === 0) return { ok: false, problems: [{ row: 1, field: "value", message: "The file has no result rows." }], conflicts: [] };
+  if (rows.length === 0) return { ok: false, problems: [{ row: 1, field: "value", message: "The file has no result rows with a value." }], conflicts: [] };
   try {
     return await db.transaction(async (tx) => {
       const { problems, resolved } = resolveRows(frame, await enrollmentCells(tx, enrollment.id), rows, { valueRequired: true });
       if (problems.length > 0) return { ok: false as const, problems, conflicts: [] };
-      const { changes, conflicts } = await writeRows(tx, enrollment, resolved, user, new Map(frame.responses.map((r) => [r.id, r.name])));
-      if (conflicts.length > 0) throw new StaleRows(conflicts);
-      if (changes.length === 0) return { ok: true as const, imported: rows.length, changed: 0 };
+      const { changes, conflicts } = await writeRows(tx, enrollment, resolved, user, new Map(frame.responses.map((r) => [r.id, r.name])), IMPORT_CONFLICT[readFrom]);
+      if (conflicts.length > 0) throw new ImportConflicts(conflicts);
+      const materialIds = [...new Set(resolved.map((r) => r.materialId))];
+      if (changes.length === 0) return { ok: true as const, imported: rows.length, changed: 0, materialIds };
       await recordAudit(
         {
           actorUserId: user.id,
@@ -242,14 +316,14 @@ export async function importResults(enrollment: Enrollment, rows: ResultInputRow
           entityId: enrollment.id,
           studyId: enrollment.studyId,
           ...changeTrail(changes),
-          reason: fileName ? `CSV import of ${fileName} (${rows.length} rows)` : `CSV import (${rows.length} rows)`,
+          reason: fileName ? `Import of ${fileName} (${rows.length} rows)` : `Import (${rows.length} rows)`,
         },
         tx,
       );
-      return { ok: true as const, imported: rows.length, changed: changes.length };
+      return { ok: true as const, imported: rows.length, changed: changes.length, materialIds };
     });
   } catch (error) {
-    if (error instanceof StaleRows) return { ok: false, problems: [], conflicts: error.conflicts };
+    if (error instanceof ImportConflicts) return { ok: false, problems: [], conflicts: error.conflicts };
     throw error;
   }
 }
@@ -258,6 +332,24 @@ export async function importResults(enrollment: Enrollment, rows: ResultInputRow
 export async function enrollmentResults(enrollment: Enrollment) {
   const rows = await studyResultRows(enrollment.studyId, { enrollmentId: enrollment.id });
   return rows.map(({ material, response, replicate, value, testedOn, operator, version, status }) => ({ material, response, replicate, value, testedOn, operator, version, cellStatus: status }));
+}
+
+/** The lab's results template: every replicate of the cells still in draft, with the drafts stored now and their versions. */
+export async function resultsTemplate(enrollment: Enrollment): Promise<{ studyCode: string; labCode: string | null; rows: TemplateRow[] }> {
+  const frame = await studyFrame(enrollment.studyId);
+  const labCells = await enrollmentCells(db, enrollment.id);
+  const find = await storedResults(db, enrollment.id);
+  const rows: TemplateRow[] = [];
+  for (const material of frame.materials) {
+    for (const response of frame.responses) {
+      if (labCells.get(cellKey(material.id, response.id))?.status === "submitted") continue;
+      for (let replicate = 1; replicate <= frame.study.replicatesPerCell; replicate++) {
+        const { before } = find({ materialId: material.id, responseId: response.id, replicate });
+        rows.push({ material: material.code, response: response.key, replicate, value: before?.value ?? null, testedOn: before?.testedOn ?? null, operator: before?.operator || null, version: before?.version ?? 0 });
+      }
+    }
+  }
+  return { studyCode: frame.study.code, labCode: enrollment.labCode, rows };
 }
 
 /** What a lab sees on one material's result entry page: its own cells only. */
@@ -412,8 +504,6 @@ export async function amendResult(enrollment: Enrollment, materialId: number, in
   });
 }
 
-export const PHOTO_MAX_BYTES = 10 * 1024 * 1024;
-
 /** Stores a surface photo (type judged from its bytes) and links it to every result of that replicate. */
 export async function attachReplicatePhoto(enrollment: Enrollment, materialId: number, replicate: number, file: File, user: Actor) {
   const frame = await studyFrame(enrollment.studyId);
@@ -556,16 +646,12 @@ export async function enrollmentWorklist(enrollment: Enrollment) {
   };
 }
 
-/** What the import preview needs to check rows in the browser: the study's codes and rules, and which of the lab's own cells are submitted. */
+/** What the import page names: the study's materials (for links to their entry pages), responses and replicates. */
 export async function importFrame(enrollment: Enrollment) {
   const frame = await studyFrame(enrollment.studyId);
-  const labCells = await enrollmentCells(db, enrollment.id);
   return {
-    study: frame.study,
     replicatesPerCell: frame.study.replicatesPerCell,
     materials: frame.materials.map((m) => ({ id: m.id, code: m.code })),
-    responses: frame.responses.map((r) => ({ id: r.id, key: r.key, name: r.name, unit: r.unit, kind: r.kind, decimals: r.decimals, plausibleMin: r.plausibleMin, plausibleMax: r.plausibleMax })),
-    submittedCells: [...labCells].filter(([, c]) => c.status === "submitted").map(([key]) => key),
-    receivedOn: await receivedOnOf(enrollment.id),
+    responses: frame.responses.map((r) => ({ key: r.key, name: r.name, unit: r.unit })),
   };
 }

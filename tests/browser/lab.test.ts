@@ -104,12 +104,14 @@ describe("an analyst's day in the lab, in the browser", () => {
     await page.getByRole("link", { name: "FF-2026-B" }).click();
     await page.getByRole("link", { name: "Import results from CSV" }).click();
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Import — FF-2026-B");
-    await page.getByLabel("Results file (CSV)").setInputFiles({ name: "f1.csv", mimeType: "text/csv", buffer: Buffer.from("material,response,replicate,value\nF1,holes,1,9\nF7,holes,1,9\n") });
+    // Choosing a file checks it at once; the server names each row's problem.
+    await page.getByLabel("Results file (CSV or .xlsx)").setInputFiles({ name: "f1.csv", mimeType: "text/csv", buffer: Buffer.from("material,response,replicate,value\nF1,holes,1,9\nF7,holes,1,9\n") });
     await expect.poll(() => page.getByRole("table", { name: "Rows of the file, those with problems first" }).textContent()).toContain("already submitted");
     expect(await page.getByRole("table", { name: "Rows of the file, those with problems first" }).textContent()).toContain("The study has no material “F7”");
+    expect(await page.getByRole("button", { name: /^Import \d+ rows?$/ }).count()).toBe(0);
     await expectAccessible(page);
-    // A spreadsheet's Latin-1 export ("Müller" as one byte 0xFC) is refused before any preview, beside the file field.
-    await page.getByLabel("Results file (CSV)").setInputFiles({ name: "latin1.csv", mimeType: "text/csv", buffer: Buffer.from("material,response,replicate,value,operator\nF2,holes,1,9,Müller\n", "latin1") });
+    // A spreadsheet's Latin-1 export ("Müller" as one byte 0xFC) is refused beside the file field, with no preview.
+    await page.getByLabel("Results file (CSV or .xlsx)").setInputFiles({ name: "latin1.csv", mimeType: "text/csv", buffer: Buffer.from("material,response,replicate,value,operator\nF2,holes,1,9,Müller\n", "latin1") });
     await expect.poll(() => page.locator("#import-file-error").textContent()).toContain("not UTF-8 text");
     expect(await page.getByRole("table", { name: "Rows of the file, those with problems first" }).count()).toBe(0);
     await context.close();

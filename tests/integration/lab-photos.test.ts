@@ -70,6 +70,15 @@ describe("surface photos per replicate", () => {
     expect((await call(files.loader, get(url, await demoCookie("analyst1@ringbatch.example")), params)).status).toBe(404);
   });
 
+  it("refuses a photo over 10 MB beside the field, before storing anything", async () => {
+    const cookie = await demoCookie("analyst5@ringbatch.example");
+    const before = (await db.select().from(attachments)).length;
+    const outcome = await call(entry.action, uploadPhoto(new Uint8Array(10 * 1024 * 1024 + 1), "huge.jpg", cookie, "3"), { studyId, materialId: f1 });
+    expect(outcome.status).toBe(413);
+    expect(errorsOf(outcome).photo).toBe("The photo is larger than 10 MB. Choose a smaller one, or save it from the camera at a lower resolution.");
+    expect((await db.select().from(attachments)).length).toBe(before);
+  });
+
   it("asks for a result before a photo of a replicate with none", async () => {
     const cookie = await demoCookie("analyst7@ringbatch.example"); // lab index 6: nothing entered
     const outcome = await call(entry.action, uploadPhoto(PNG, "surface.png", cookie), { studyId, materialId: f1 });

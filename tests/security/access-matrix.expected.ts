@@ -45,6 +45,8 @@ export const EXPECTED: Record<string, Partial<Record<Method, Record<Persona, num
   "lab/studies/:studyId/results/:materialId": { GET: row(302, 404, 404, 404, 200, 404, 404, 404), POST: row(302, 404, 404, 404, 400, 404, 404, 404) },
   "lab/studies/:studyId/batch/:materialId": { GET: row(302, 404, 404, 404, 200, 404, 404, 404), POST: row(302, 404, 404, 404, 400, 404, 404, 404) },
   "lab/studies/:studyId/import": { GET: row(302, 404, 404, 404, 200, 404, 404, 404), POST: row(302, 404, 404, 404, 400, 404, 404, 404) },
+  "lab/studies/:studyId/import/template.csv": { GET: row(302, 404, 404, 404, 200, 404, 404, 404) },
+  "lab/studies/:studyId/import/template.xlsx": { GET: row(302, 404, 404, 404, 200, 404, 404, 404) },
   "lab/queries": { GET: row(302, 404, 404, 404, 200, 200, 404, 404), POST: row(302, 404, 404, 404, 400, 400, 404, 404) },
   "review": { GET: row(302, 404, 404, 404, 404, 404, 200, 200) },
   "admin/users": { GET: row(302, 200, 404, 404, 404, 404, 404, 404), POST: row(302, 400, 404, 404, 404, 404, 404, 404) },

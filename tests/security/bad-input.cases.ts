@@ -7,7 +7,7 @@
  * is always the defect's doing.
  */
 import { MAX_BODY_BYTES } from "~/server/api.server";
-import { IMPORT_MAX_BYTES } from "~/lib/results/import-csv";
+import { IMPORT_MAX_BYTES } from "~/lib/results/import-file";
 import type { Random } from "./support";
 
 export type Frame = { materials: string[]; responses: string[]; replicates: number };
@@ -132,7 +132,7 @@ const dataLineRange = (text: string) => {
 const VALUE_MESSAGE = /Enter a number|A count is a whole number|A count cannot be negative|The value is empty/;
 const HEADER_MESSAGE = /The header row has no/;
 const NOT_UTF8 = /not UTF-8 text/;
-const NOT_TEXT = /not a CSV text file|not UTF-8 text|UTF-16|The header row has no/;
+const NOT_TEXT = /not a CSV text file|not UTF-8 text|UTF-16|The header row has no|could not be read as an \.xlsx workbook/;
 
 const cellDefect = (name: string, column: string, expect: RegExp, values: (r: Random, frame: Frame) => string[]): Defect<Sheet> => ({
   name,
@@ -253,7 +253,8 @@ const CSV_DEFECTS: Defect<Sheet>[] = [
       r.pick(sheet.rows)[sheet.header!.length - r.int(1, blanks)] = r.pick(["12", "late", "=cmd()"]);
     },
   },
-  { name: "semicolons or tabs between fields", expect: HEADER_MESSAGE, model: (sheet, r) => void (sheet.delimiter = r.pick([";", "\t", "|"])) },
+  // Semicolons are read (a spreadsheet in a decimal-comma locale saves them); tabs and bars are not.
+  { name: "tabs or bars between fields", expect: HEADER_MESSAGE, model: (sheet, r) => void (sheet.delimiter = r.pick(["\t", "|"])) },
   { name: "UTF-16 with BOM", expect: /UTF-16/, model: (sheet, r) => void (sheet.encoding = r.pick(["utf-16le", "utf-16be"] as const)) },
   { name: "UTF-16 without BOM", expect: /not a CSV text file/, model: (sheet) => void (sheet.encoding = "utf-16le-no-bom") },
   { name: "only a header row", expect: /no result rows/, model: (sheet, r) => void (sheet.rows = r.chance(0.5) ? [] : [sheet.header!.map(() => "")]) },

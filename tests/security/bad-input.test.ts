@@ -61,8 +61,11 @@ afterAll(() => {
   delete process.env.API_RATE_LIMIT_PER_MINUTE;
 });
 
-function importCsv(bytes: Uint8Array, lab: Lab) {
+/** The import page's check of a file (intent "preview"), or its confirmation with what the check sent back. */
+function importCsv(bytes: Uint8Array, lab: Lab, confirm?: { digest: string; seen: string }) {
   const form = new FormData();
+  form.set("intent", confirm ? "import" : "preview");
+  if (confirm) for (const [key, value] of Object.entries(confirm)) form.set(key, value);
   form.set("file", new File([bytes as BlobPart], "results.csv", { type: "text/csv" }));
   return call(importPage.action, postMultipart(`/lab/studies/${studyId}/import`, form, lab.cookie), { studyId: String(studyId) });
 }
@@ -81,8 +84,8 @@ function postJson(body: Uint8Array, lab: Lab, useToken: boolean, enrollmentParam
 /** Every message the import page shows: the file field's error, its shape problems, and each row's. */
 const importMessages = (data: any): string[] => [
   ...(data?.result?.error?.file ?? []),
-  ...(data?.fileProblems ?? []),
-  ...(data?.problems ?? []).map((p: { message: string }) => p.message),
+  ...(data?.report?.fileProblems ?? []),
+  ...(data?.report?.problems ?? []).map((p: { message: string }) => p.message),
 ];
 
 type Failure = { name: string; status: number; reply: string };
@@ -154,7 +157,8 @@ describe("the same generator's clean inputs", () => {
     const random = randomSource(SEED + 2);
     for (let i = 0; i < 25; i++) {
       const { bytes, rows } = validCsv(random, frame);
-      const outcome = await importCsv(bytes, labs.fresh);
+      const checked = await importCsv(bytes, labs.fresh);
+      const outcome = await importCsv(bytes, labs.fresh, checked.data?.report?.confirm);
       expect(await toastOf(outcome), new TextDecoder().decode(bytes).slice(0, 300)).toBe(`Imported ${rows} results as drafts. Check them on each material's result page, then submit.`);
     }
   });

@@ -7,6 +7,7 @@
  * study's audit trail and rows as they were; an allowed one records itself.
  */
 import { count, eq } from "drizzle-orm";
+import { createHash } from "node:crypto";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import {
@@ -270,13 +271,17 @@ function attempt(write: Write, f: Fixture): { action: (args: never) => unknown; 
       return entry(f.materials.submitted, { intent: "amend", responseId: "", replicate: "2", version: String(f.submittedCellVersion), value: "21", reason: "Transcription error: the log says 21." });
     case "lab: amend fresh properties":
       return entry(f.materials.submitted, { intent: "amend-fresh", slump: "45", reason: "Slump was read on the wrong scale mark." });
-    case "lab: import CSV":
+    case "lab: import CSV": {
+      // The import's confirmation, as the page sends it after its check: the file's digest and the version each row was read at (the fixture's draft replicate 2, version 1).
+      const bytes = new TextEncoder().encode("material,response,replicate,value,tested_on,operator\nM2,holes,2,16,2026-01-10,T. Ferrow\n");
+      const digest = createHash("sha256").update(bytes).digest("hex");
       return {
         action: importPage.action,
         path: `${labPath}/import`,
         as: people.analyst,
-        fields: multipart({}, { field: "file", name: "results.csv", type: "text/csv", bytes: new TextEncoder().encode("material,response,replicate,value,tested_on,operator\nM2,holes,2,16,2026-01-10,T. Ferrow\n") }),
+        fields: multipart({ intent: "import", digest, seen: JSON.stringify({ 2: 1 }) }, { field: "file", name: "results.csv", type: "text/csv", bytes }),
       };
+    }
     case "api: write results":
       return { action: apiResults.action, path: `/api/v1/enrollments/${f.enrollmentId}/results`, as: people.analyst, fields: {}, params: { enrollmentId: String(f.enrollmentId) }, json: { results: [{ material: "M2", response: "holes", replicate: 2, value: 17, testedOn: "2026-01-10", operator: "T. Ferrow" }] } };
     case "lab: answer a query":

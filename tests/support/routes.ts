@@ -11,7 +11,8 @@ import { sessionStorage } from "~/server/session.server";
 type RouteFunction = (args: never) => unknown;
 type Middleware = (args: unknown, next: () => Promise<unknown>) => unknown;
 
-export type RouteOutcome = { status: number; data: any; headers: Headers };
+/** `response`: the Response itself, where the route answered with one (a file download). */
+export type RouteOutcome = { status: number; data: any; headers: Headers; response?: Response };
 
 type ConfigEntry = { file: string; children?: ConfigEntry[] };
 type RouteModule = { loader?: unknown; action?: unknown; middleware?: Middleware[] };
@@ -43,7 +44,7 @@ export async function call(fn: RouteFunction, request: Request, params: Record<s
 
 async function toOutcome(value: unknown): Promise<RouteOutcome> {
   if (value instanceof Response) {
-    return { status: value.status, data: value.headers.get("Content-Type")?.includes("json") ? await value.clone().json() : null, headers: value.headers };
+    return { status: value.status, data: value.headers.get("Content-Type")?.includes("json") ? await value.clone().json() : null, headers: value.headers, response: value };
   }
   if (value && typeof value === "object" && (value as { type?: string }).type === "DataWithResponseInit") {
     const { data, init } = value as { data: unknown; init?: ResponseInit };

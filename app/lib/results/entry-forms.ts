@@ -102,10 +102,20 @@ export const amendFreshSchema = z.object({
   ...(Object.fromEntries(FRESH_PROPERTY_NAMES.map((p) => [p, z.string().max(20, { message: "Enter a number." }).optional()])) as Record<FreshProperty, z.ZodOptional<z.ZodString>>),
 });
 
+/** The largest surface photo the entry page takes; the server's body cap sits a little above it (deployment.server). */
+export const PHOTO_MAX_BYTES = 10 * 1024 * 1024;
+/** What the page says before a photo is chosen. */
+export const PHOTO_RULE = "JPEG, PNG or WebP, at most 10 MB";
+export const PHOTO_TOO_LARGE = "The photo is larger than 10 MB. Choose a smaller one, or save it from the camera at a lower resolution.";
+
 export const photoSchema = z.object({
   intent: z.literal("photo"),
   replicate: z.coerce.number().int().positive(),
-  photo: z.instanceof(File, { message: "Choose a photo to upload." }).refine((file) => file.size > 0, { message: "Choose a photo to upload." }),
+  photo: z
+    .instanceof(File, { message: "Choose a photo to upload." })
+    .refine((file) => file.size > 0, { message: "Choose a photo to upload." })
+    // Checked in the browser too, so a large photo is refused before it is sent.
+    .refine((file) => file.size <= PHOTO_MAX_BYTES, { message: PHOTO_TOO_LARGE }),
 });
 
 export const resultEntrySchema = z.discriminatedUnion("intent", [draftSaveSchema, submitMaterialSchema, amendSchema, amendFreshSchema, photoSchema]);

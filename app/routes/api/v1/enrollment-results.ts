@@ -80,7 +80,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     let outcome;
     try {
-      outcome = await importResults(enrollment, parsed.data.results, user);
+      outcome = await importResults(enrollment, parsed.data.results, user, { readFrom: "api" });
     } catch (error) {
       if (error instanceof ResultsError) throw new ApiError(409, "study_not_in_testing", error.message);
       throw error;

@@ -17,6 +17,9 @@ import {
   draftProblems,
   type EntryDraft,
   entryDraftSchema,
+  PHOTO_MAX_BYTES,
+  PHOTO_RULE,
+  PHOTO_TOO_LARGE,
   photoSchema,
   resultEntrySchema,
   submitMaterialSchema,
@@ -33,7 +36,6 @@ import {
   attachReplicatePhoto,
   type Enrollment,
   materialEntry,
-  PHOTO_MAX_BYTES,
   ResultsError,
   type ResultInputRow,
   saveDraftResults,
@@ -146,7 +148,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   const here = `/lab/studies/${study.id}/results/${entry.material.id}`;
   const upload = await readUploadForm(request, "photo", PHOTO_MAX_BYTES);
   // Only the photo form sends a file; the body was not read past it.
-  if (upload.tooLarge) return data({ result: { status: "error", error: { photo: ["The photo is larger than 10 MB."] } } as SubmissionResult<string[]> }, { status: 400 });
+  if (upload.tooLarge) return data({ result: PHOTO_TOO_LARGE_REPLY }, { status: 413 });
   const submission = parseWithZod(upload.formData, { schema: resultEntrySchema });
   if (submission.status !== "success") return refuse(submission);
   const input = submission.value;
@@ -231,12 +233,22 @@ async function saveChangesOrRefuse(enrollment: Enrollment, entry: Entry, changes
   }
 }
 
-/** A request that never reached the server answers `offline` instead of replacing the page with an error, so nothing typed is lost. */
+const PHOTO_NOT_SENT = "The photo did not reach the server. Check the connection, then upload it again.";
+const PHOTO_TOO_LARGE_REPLY: SubmissionResult<string[]> = { status: "error", error: { photo: [PHOTO_TOO_LARGE] } };
+
+/**
+ * A request that never reached the server answers `offline` instead of
+ * replacing the page with an error, so nothing typed is lost; a photo the
+ * server's body cap refused (413, before the app reads it) is named beside
+ * its replicate like any other refusal of it.
+ */
 export async function clientAction({ serverAction }: Route.ClientActionArgs) {
   try {
     return await serverAction();
   } catch (error) {
-    if (isRouteErrorResponse(error)) throw error;
+    if (isRouteErrorResponse(error) && error.status === 413) return { result: PHOTO_TOO_LARGE_REPLY };
+    // A redirect (a photo added, a material submitted) and the page's own errors go on as the framework means them.
+    if (error instanceof Response || isRouteErrorResponse(error)) throw error;
     return { offline: true as const };
   }
 }
@@ -247,6 +259,9 @@ export function shouldRevalidate({ formData, defaultShouldRevalidate }: ShouldRe
 }
 
 type ActionData = Route.ComponentProps["actionData"];
+
+/** A cell of the entry table; on a phone, one labelled field of the replicate's card. */
+const ENTRY_CELL = "px-2 py-2 max-sm:block max-sm:p-0";
 
 export default function ResultEntry({ loaderData, actionData }: Route.ComponentProps) {
   const { study, material, responses, targets, photos, openQueries, editable } = loaderData;
@@ -291,9 +306,16 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
     <>
       <div className="mb-6 flex flex-wrap items-center justify-between gap-3">
         <p>{material.description}</p>
-        <Link to={`/lab/studies/${study.id}`} className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
-          Back to the tasks
-        </Link>
+        <div className="flex flex-wrap gap-x-4">
+          {editable && !locked && (
+            <Link to={`/lab/studies/${study.id}/import`} className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
+              Fill in a spreadsheet instead
+            </Link>
+          )}
+          <Link to={`/lab/studies/${study.id}`} className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
+            Back to the tasks
+          </Link>
+        </div>
       </div>
       <div className="grid gap-6 [&>*]:min-w-0">
         <ConcreteCaution />
@@ -377,10 +399,11 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
               photos={photos}
             />
           ) : (
-            <div className="relative overflow-x-auto">
-              <table className="w-full border-collapse text-left">
+            // A table on wider screens; on a phone each replicate becomes a card with every field labelled.
+            <div className="relative sm:overflow-x-auto" role="region" aria-label={`Replicate results of ${material.code}`} tabIndex={0} data-testid="entry-table">
+              <table className="w-full border-collapse text-left max-sm:block">
                 <caption className="sr-only">Replicate results of {material.code}</caption>
-                <thead>
+                <thead className="max-sm:hidden">
                   <tr className="border-b-2 border-basalt-200">
                     <th scope="col" className="px-2 py-2">
                       Replicate
@@ -401,19 +424,24 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
                     </th>
                   </tr>
                 </thead>
-                <tbody>
+                <tbody className="max-sm:grid max-sm:gap-3">
                   {replicates.map((replicate) => {
                     const date = checkTestDate(draft.testedOn[replicate]);
                     return (
-                      <tr key={replicate} className="border-b border-basalt-100 align-top">
-                        <th scope="row" className="px-2 py-2">
+                      <tr
+                        key={replicate}
+                        className="border-b border-basalt-100 align-top max-sm:grid max-sm:gap-3 max-sm:rounded-md max-sm:border max-sm:border-basalt-200 max-sm:p-3"
+                        data-testid="replicate-card"
+                      >
+                        <th scope="row" className="px-2 py-2 max-sm:p-0 max-sm:text-lg">
+                          <span className="sm:sr-only">Replicate </span>
                           {replicate}
                         </th>
                         {responses.map((response) => {
                           const key = `${response.key}:${replicate}`;
                           const check = checkResultValue(response, draft.values[key]);
                           return (
-                            <td key={response.id} className="px-2 py-2">
+                            <td key={response.id} className={ENTRY_CELL}>
                               <CellInput
                                 id={`value-${key}`}
                                 label={`${response.name}, replicate ${replicate}`}
@@ -427,7 +455,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
                             </td>
                           );
                         })}
-                        <td className="px-2 py-2">
+                        <td className={ENTRY_CELL}>
                           <CellInput
                             id={`testedOn-${replicate}`}
                             label={`Test date, replicate ${replicate}`}
@@ -438,7 +466,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
                             error={date.ok ? problems[`testedOn:${replicate}`] : date.message}
                           />
                         </td>
-                        <td className="px-2 py-2">
+                        <td className={ENTRY_CELL}>
                           <CellInput
                             id={`operator-${replicate}`}
                             label={`Operator, replicate ${replicate}`}
@@ -448,7 +476,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
                             error={problems[`operator:${replicate}`]}
                           />
                         </td>
-                        <td className="px-2 py-2">
+                        <td className={ENTRY_CELL}>
                           <PhotoCell replicate={replicate} photoId={photos[replicate]} editable={editable} />
                         </td>
                       </tr>
@@ -515,18 +543,25 @@ function CellInput({
   warning,
   onChange,
   ...input
-}: { id: string; label: string; error?: string; warning?: string; onChange: (value: string) => void } & Omit<React.ComponentProps<"input">, "onChange" | "id">) {
+}: {
+  id: string;
+  /** Shown in a replicate's card on a phone; where the table's headers name the column, for assistive technology only. */
+  label: string;
+  error?: string;
+  warning?: string;
+  onChange: (value: string) => void;
+} & Omit<React.ComponentProps<"input">, "onChange" | "id">) {
   const describedBy = error ? `${id}-error` : warning ? `${id}-warning` : undefined;
   return (
-    <div className="flex min-w-28 flex-col gap-1">
-      <label htmlFor={id} className="sr-only">
+    <div className="flex flex-col gap-1 sm:min-w-20">
+      <label htmlFor={id} className="text-sm font-semibold sm:sr-only">
         {label}
       </label>
       <input
         id={id}
         aria-invalid={error ? true : undefined}
         aria-describedby={describedBy}
-        className={`min-h-11 rounded-md border bg-white px-2 py-1 ${error ? "border-signal-700" : "border-basalt-200"}`}
+        className={`min-h-11 w-full rounded-md border bg-white px-2 py-1 ${error ? "border-signal-700" : "border-basalt-200"}`}
         onChange={(e) => onChange(e.target.value)}
         {...input}
       />
@@ -544,39 +579,60 @@ function CellInput({
   );
 }
 
+/** A stored photo's thumbnail, linked to the full image. */
+function PhotoThumbnail({ photoId, replicate }: { photoId: number; replicate: number }) {
+  return (
+    <a href={`/files/${photoId}`} target="_blank" rel="noreferrer" className="inline-block w-fit rounded focus-visible:outline-2">
+      <img src={`/files/${photoId}?thumbnail`} alt={`Surface photo of replicate ${replicate} (opens the full image)`} className="h-16 w-24 rounded border border-basalt-200 object-cover" />
+    </a>
+  );
+}
+
 function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoId?: number; editable: boolean }) {
   // A fetcher of its own, so a refused photo is named beside its replicate and the grid keeps what was typed.
   const fetcher = useFetcher<typeof action>();
   const [form, fields] = useSchemaForm(photoSchema, { reply: fetcher.data, id: `photo-${replicate}` });
-  const error = fields.photo.errors?.[0] ?? formWideErrors(form)[0];
+  // A photo that never reached the server is said so too: an upload never fails without a word.
+  const notSent = fetcher.state === "idle" && fetcher.data && "offline" in fetcher.data ? PHOTO_NOT_SENT : undefined;
+  const error = fields.photo.errors?.[0] ?? formWideErrors(form)[0] ?? notSent;
   const id = fields.photo.id;
+  const uploading = fetcher.state !== "idle";
+  const describedBy = [`${id}-rule`, error ? `${id}-error` : null].filter(Boolean).join(" ");
   return (
-    <div className="flex flex-col gap-1">
-      {photoId && (
-        <a href={`/files/${photoId}`} className="font-semibold text-basalt-700 underline" target="_blank" rel="noreferrer">
-          View photo<span className="sr-only"> of replicate {replicate}</span>
-        </a>
-      )}
+    <div className="flex min-w-0 flex-col gap-1">
+      {photoId && <PhotoThumbnail photoId={photoId} replicate={replicate} />}
       {editable && (
-        <fetcher.Form method="post" encType="multipart/form-data" className="flex flex-col gap-1" {...getFormProps(form)}>
+        // Keyed by the stored photo, so the chooser empties once a photo is added.
+        <fetcher.Form key={photoId ?? "none"} method="post" encType="multipart/form-data" className="flex min-w-0 flex-col gap-1" {...getFormProps(form)}>
           <input type="hidden" name="intent" value="photo" />
           <input type="hidden" name="replicate" value={replicate} />
-          <label htmlFor={id} className="sr-only">
-            Surface photo of replicate {replicate} (JPEG, PNG or WebP, at most 10 MB)
+          <label htmlFor={id} className="text-sm font-semibold sm:sr-only">
+            {photoId ? "Replace the" : "Surface"} photo of replicate {replicate}
           </label>
           <input
             id={id}
             name={fields.photo.name}
             type="file"
             accept="image/jpeg,image/png,image/webp"
-            className="max-w-48 text-sm"
+            className="w-full max-w-44 text-sm file:mr-2 file:rounded file:border file:border-basalt-200 file:bg-white file:px-2 file:py-1"
             aria-invalid={error ? true : undefined}
-            aria-describedby={error ? `${id}-error` : undefined}
+            aria-describedby={describedBy}
           />
-          <Button type="submit" variant="secondary" className="min-h-9 px-2 py-1 text-sm" disabled={fetcher.state !== "idle"}>
-            {fetcher.state !== "idle" ? "Uploading…" : "Upload"}
-            <span className="sr-only"> photo of replicate {replicate}</span>
-          </Button>
+          <p id={`${id}-rule`} className="text-xs text-basalt-700">
+            {PHOTO_RULE}
+          </p>
+          {uploading ? (
+            <div>
+              <label htmlFor={`${id}-progress`} className="text-sm">
+                Uploading the photo…
+              </label>
+              <progress id={`${id}-progress`} className="block h-2 w-full max-w-48" />
+            </div>
+          ) : (
+            <Button type="submit" variant="secondary" className="min-h-9 w-fit px-2 py-1 text-sm">
+              Upload<span className="sr-only"> photo of replicate {replicate}</span>
+            </Button>
+          )}
           {error && (
             <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
               {error}
@@ -622,13 +678,8 @@ function SubmittedResults({
                 <li key={replicate} className="flex flex-wrap items-start gap-3">
                   <span className="min-w-40">
                     Replicate {replicate}: <span className="font-semibold">{values[`${response.key}:${replicate}`] ?? "—"}</span> {response.unit}
-                    {photos[replicate] && (
-                      <>
-                        {" "}
-                        · <a href={`/files/${photos[replicate]}`} className="text-basalt-700 underline">photo</a>
-                      </>
-                    )}
                   </span>
+                  {photos[replicate] && <PhotoThumbnail photoId={photos[replicate]} replicate={replicate} />}
                   {(editable || correctable.includes(response.id)) && <AmendForm response={response} replicate={replicate} reply={mine ? actionData : undefined} />}
                 </li>
               );
