@@ -121,7 +121,12 @@ export async function saveFreshProperties(enrollment: Enrollment, materialId: nu
     else fields.batchedAt = text || null;
   }
   const before = await getBatch(enrollment.id, materialId);
-  const changed = Object.entries(fields).some(([key, value]) => (before as Record<string, unknown> | null)?.[key] !== value && !(before === null && value === null));
+  // Only the readings that differ from what is stored count: an autosave of the same values writes nothing and logs nothing.
+  const stored = (before ?? {}) as Record<string, unknown>;
+  const changedKeys = Object.entries(fields)
+    .filter(([key, value]) => (stored[key] ?? null) !== value)
+    .map(([key]) => key);
+  const changed = changedKeys.length > 0;
   if (changed && submitted && reason.length < 5) problems.reason = "The results of this material are submitted: give the reason for the change (at least 5 characters).";
   if (changed && !problems.reason) {
     await db.transaction(async (tx) => {
@@ -136,8 +141,8 @@ export async function saveFreshProperties(enrollment: Enrollment, materialId: nu
           entityType: "enrollment",
           entityId: enrollment.id,
           studyId: enrollment.studyId,
-          before: before && Object.fromEntries(Object.keys(fields).map((k) => [k, (before as Record<string, unknown>)[k]])),
-          after: queryId ? { ...fields, queryId } : fields,
+          before: Object.fromEntries(changedKeys.map((k) => [k, stored[k] ?? null])),
+          after: { ...Object.fromEntries(changedKeys.map((k) => [k, fields[k as keyof typeof fields]])), ...(queryId ? { queryId } : {}) },
           reason: submitted ? reason : null,
         },
         tx,
