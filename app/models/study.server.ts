@@ -238,3 +238,14 @@ export async function studyProgress(study: Pick<Study, "id" | "code" | "state" |
 }
 
 export type StudyProgress = Awaited<ReturnType<typeof studyProgress>>;
+
+/** The study's protocol file and its coordinator, for the lab's protocol page. */
+export async function studyBrief(study: Study) {
+  const [protocol, coordinator] = await Promise.all([
+    study.protocolAttachmentId
+      ? db.query.attachments.findFirst({ where: (a, { eq: is }) => is(a.id, study.protocolAttachmentId!), columns: { id: true, originalName: true } })
+      : Promise.resolve(undefined),
+    db.query.users.findFirst({ where: (u, { eq: is }) => is(u.id, study.ownerId), columns: { name: true, email: true } }),
+  ]);
+  return { protocol: protocol ?? null, coordinator: coordinator ?? null };
+}

@@ -97,6 +97,8 @@ export async function loader({ params, context }: Route.LoaderArgs) {
   for (const response of entry.responses) for (const r of response.results) if (r.photoAttachmentId) photos[r.replicate] = r.photoAttachmentId;
   return {
     study: { id: study.id, state: study.state, replicatesPerCell: study.replicatesPerCell },
+    // A float finishing study (it has a target surface rating) photographs the finished surface; other methods just a photo.
+    photoLabel: study.targetSurfaceRating === null ? "Photo" : "Surface photo",
     editable: study.state === "testing" && enrollment.state === "accepted",
     /** Why nothing can be typed here, as the write rules say it. */
     lockedBecause: writeRefusal("results", study.state),
@@ -397,7 +399,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
                       Operator
                     </th>
                     <th scope="col" className="px-2 py-2">
-                      Surface photo
+                      {loaderData.photoLabel}
                     </th>
                   </tr>
                 </thead>
@@ -449,7 +451,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
                           />
                         </td>
                         <td className="px-2 py-2">
-                          <PhotoCell replicate={replicate} photoId={photos[replicate]} editable={editable} />
+                          <PhotoCell replicate={replicate} photoId={photos[replicate]} editable={editable} label={loaderData.photoLabel} />
                         </td>
                       </tr>
                     );
@@ -544,7 +546,7 @@ function CellInput({
   );
 }
 
-function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoId?: number; editable: boolean }) {
+function PhotoCell({ replicate, photoId, editable, label }: { replicate: number; photoId?: number; editable: boolean; label: string }) {
   // A fetcher of its own, so a refused photo is named beside its replicate and the grid keeps what was typed.
   const fetcher = useFetcher<typeof action>();
   const [form, fields] = useSchemaForm(photoSchema, { reply: fetcher.data, id: `photo-${replicate}` });
@@ -562,7 +564,7 @@ function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoI
           <input type="hidden" name="intent" value="photo" />
           <input type="hidden" name="replicate" value={replicate} />
           <label htmlFor={id} className="sr-only">
-            Surface photo of replicate {replicate} (JPEG, PNG or WebP, at most 10 MB)
+            {label} of replicate {replicate} (JPEG, PNG or WebP, at most 10 MB)
           </label>
           <input
             id={id}
