@@ -161,8 +161,8 @@ async function writeRows(tx: Transaction, enrollment: Enrollment, rows: Resolved
 }
 
 const changeTrail = (changes: Change[]) => ({
-  before: changes.map(({ before, ...where }) => ({ ...where, value: before })),
-  after: changes.map(({ after, ...where }) => ({ ...where, value: after })),
+  before: changes.map(({ before, after: _after, ...where }) => ({ ...where, value: before })),
+  after: changes.map(({ after, before: _before, ...where }) => ({ ...where, value: after })),
 });
 
 export type DraftSaveOutcome = { saved: number; problems: RowProblem[]; conflicts: DraftConflict[] };

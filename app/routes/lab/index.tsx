@@ -16,7 +16,9 @@ export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, "analyst");
   const { rows, ...page } = await labEnrollmentsPage(user.labIds, requestedPage(new URL(request.url).searchParams));
   const facts = await labTodoFacts(rows);
-  return { enrollments: rows.map((e) => ({ ...e, todo: labTodoItems(facts.get(e.enrollmentId)!) })), page };
+  const enrollments = rows.map((e) => ({ ...e, todo: labTodoItems(facts.get(e.enrollmentId)!) }));
+  // Studies with something waiting come first on the page; the rest keep their order.
+  return { enrollments: [...enrollments.filter((e) => e.todo.length > 0), ...enrollments.filter((e) => e.todo.length === 0)], page };
 }
 
 export default function LabHome({ loaderData }: Route.ComponentProps) {

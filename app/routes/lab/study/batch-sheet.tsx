@@ -13,7 +13,7 @@ import {
   useSchemaForm,
 } from "~/components/forms";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Button, Card, Field, Notice, SimpleTable } from "~/components/ui";
+import { Button, Card, Field, Notice } from "~/components/ui";
 import { type BatchSheetView, computeBatchSheet } from "~/lib/batch-sheet";
 import {
   type Constituent,
@@ -440,43 +440,60 @@ function SheetTable({ view }: { view: BatchSheetView }) {
           ? "One mix."
           : `${split.mixes} equal mixes of ${split.volumePerMixM3.toFixed(4)} m³ (${m3ToFt3(split.volumePerMixM3).toFixed(2)} ft³) each; weigh each mix's amounts separately.`}
       </p>
-      <SimpleTable
-        caption="Batch sheet"
-        headers={[
-          "Constituent",
-          "Lot",
-          split.mixes === 1 ? "Weigh out" : "Whole batch",
-          ...(split.mixes === 1 ? [] : ["Per mix"]),
-          ...mixes.map((m) => (split.mixes === 1 ? "Weighed" : `Mix ${m}`)),
-          "How it is computed",
-        ]}
-        rows={sheet.rows.map((row) => [
-          row.name,
-          row.lot ?? "—",
-          <span
-            key="amount"
-            className="whitespace-nowrap font-semibold tabular-nums"
-            data-testid={`amount-${row.index}`}
-          >
-            {amount(row, 1)}
-          </span>,
-          ...(split.mixes === 1
-            ? []
-            : [
-                <span
-                  key="per-mix"
-                  className="whitespace-nowrap font-semibold tabular-nums"
-                  data-testid={`per-mix-${row.index}`}
-                >
-                  {amount(row, split.fractionPerMix)}
-                </span>,
-              ]),
-          ...mixes.map((m) => <TickBox key={`tick-${m}`} />),
-          <span key="how" className="text-sm">
-            {explain(row, v, sheet.cementitiousKg)}
-          </span>,
-        ])}
-      />
+      {/* Drawn here rather than with SimpleTable: on paper the arithmetic column gives way to the tick boxes. */}
+      <div className="relative overflow-x-auto print:overflow-visible" role="region" aria-label="Batch sheet" tabIndex={0}>
+        <table className="w-full border-collapse text-left">
+          <caption className="sr-only">Batch sheet</caption>
+          <thead>
+            <tr className="border-b-2 border-basalt-200">
+              <th scope="col" className="px-3 py-2">
+                Constituent
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Lot
+              </th>
+              <th scope="col" className="px-3 py-2">
+                {split.mixes === 1 ? "Weigh out" : "Whole batch"}
+              </th>
+              {split.mixes > 1 && (
+                <th scope="col" className="px-3 py-2">
+                  Per mix
+                </th>
+              )}
+              {mixes.map((m) => (
+                <th key={m} scope="col" className="whitespace-nowrap px-2 py-2 text-center">
+                  {split.mixes === 1 ? "Weighed" : `Mix ${m}`}
+                </th>
+              ))}
+              <th scope="col" className="px-3 py-2 print:hidden">
+                How it is computed
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {sheet.rows.map((row) => (
+              <tr key={row.index} className="border-b border-basalt-100 align-top">
+                <td className="px-3 py-2">{row.name}</td>
+                <td className="whitespace-nowrap px-3 py-2">{row.lot ?? "—"}</td>
+                <td className="whitespace-nowrap px-3 py-2 font-semibold tabular-nums" data-testid={`amount-${row.index}`}>
+                  {amount(row, 1)}
+                </td>
+                {split.mixes > 1 && (
+                  <td className="whitespace-nowrap px-3 py-2 font-semibold tabular-nums" data-testid={`per-mix-${row.index}`}>
+                    {amount(row, split.fractionPerMix)}
+                  </td>
+                )}
+                {mixes.map((m) => (
+                  <td key={m} className="px-2 py-2 text-center">
+                    <TickBox />
+                  </td>
+                ))}
+                <td className="px-3 py-2 text-sm print:hidden">{explain(row, v, sheet.cementitiousKg)}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
       <p className="mt-3">
         Total mass weighed:{" "}
         <span className="font-semibold tabular-nums">
