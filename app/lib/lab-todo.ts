@@ -114,7 +114,7 @@ export function labTodoItems(facts: LabStudyFacts): TodoItem[] {
       title: `Answer ${plural(facts.openQueries, "query", "queries")}`,
       detail: "The coordinator asks about your lab's data.",
       due: null,
-      links: [{ to: "/lab/queries", label: "Queries to your lab" }],
+      links: [{ to: "/lab/queries", label: "Answer them on the queries page" }],
     });
   }
   return items;
