@@ -87,6 +87,7 @@ describe("a lab's day, in the browser", () => {
     await page.goto(`${running.server.url}/studies/3/report`);
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Report — FF-2025-D");
     await expect.poll(() => page.locator("input[type=search]").count()).toBeGreaterThan(0);
+    await expectAccessible(page);
     expect(await visibleWhenPrinted(page, "input, button:not(th button), nav, th [aria-hidden=true]")).toBe(0);
 
     const header = await page.getByTestId("print-header").textContent();
@@ -101,5 +102,5 @@ describe("a lab's day, in the browser", () => {
     });
     expect(squeeze(pages.join(" "))).not.toMatch(/Findalab|↕|▲|▼/);
     await context.close();
-  });
+  }, 90_000); // an accessibility pass and a 15-page PDF of the whole report
 });
