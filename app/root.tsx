@@ -48,7 +48,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
           Skip to content
         </a>
         {rootData?.demo && (
-          <p role="note" className="bg-ochre-100 px-4 py-1 text-center text-sm text-basalt-900">
+          <p role="note" className="no-print bg-ochre-100 px-4 py-1 text-center text-sm text-basalt-900">
             Demo data: the people, labs and results here are fictional, and the demo password is published. Do not enter
             real results.
           </p>
@@ -56,7 +56,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
         <AppHeader user={rootData?.user ?? null} mailbox={rootData?.mailbox ?? false} />
         <main id="main" className="mx-auto max-w-6xl px-4 py-8">
           {rootData?.toast && (
-            <div className="mb-4">
+            <div className="no-print mb-4">
               <Notice tone={rootData.toast.tone}>{rootData.toast.message}</Notice>
             </div>
           )}

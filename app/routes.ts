@@ -59,6 +59,7 @@ export default [
     ]),
     route("studies/:studyId", "routes/lab/study/layout.tsx", [
       index("routes/lab/study/tasks.tsx"),
+      route("protocol", "routes/lab/study/protocol.tsx"),
       route("receipt", "routes/lab/study/receipt.tsx"),
       route("batch/:materialId", "routes/lab/study/batch-sheet.tsx"),
       route("results/:materialId", "routes/lab/study/result-entry.tsx"),

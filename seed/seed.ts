@@ -23,6 +23,7 @@ import {
   users,
 } from "~/db/schema";
 import { hashPassword } from "~/models/user.server";
+import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import {
   CHECKING_STUDY_PLANTS,
   CHECKING_STUDY_SEED,
@@ -138,6 +139,8 @@ export async function seedDemo(db: Database) {
           state: spec.state,
           replicatesPerCell: REPLICATES,
           targetSurfaceRating: 2,
+          specimenVolumeM3: FLOAT_FINISHING_TEMPLATE.specimenVolumeM3,
+          wastePercent: FLOAT_FINISHING_TEMPLATE.wastePercent,
           enrollmentDeadline: "2026-08-14",
           shipDate: "2026-09-01",
           resultsDue: spec.resultsDue,

@@ -32,6 +32,7 @@ import { acceptabilityCheck, compareMixtures } from "~/lib/comparison";
 import { analyzeStudy, type ExcludedCell, type ResultRow } from "~/lib/precision";
 import { plackettBurmanDesign, randomRunOrder } from "~/lib/ruggedness";
 import { c670Text, e691Text, type StatementSnapshot } from "~/lib/statement-text";
+import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import { DEMO_LABS, DEMO_MATERIALS, DEMO_PEOPLE, demoPackingList, demoResults, FLOAT_FINISHING_RESPONSES, generator } from "./demo-data";
 
 export const PUBLISHED_STUDY_CODE = "FF-2025-D";
@@ -91,6 +92,8 @@ async function seedPublishedStudy(db: Database) {
         state: "published",
         replicatesPerCell: REPLICATES,
         targetSurfaceRating: 2,
+        specimenVolumeM3: FLOAT_FINISHING_TEMPLATE.specimenVolumeM3,
+        wastePercent: FLOAT_FINISHING_TEMPLATE.wastePercent,
         enrollmentDeadline: "2025-08-15",
         shipDate: "2025-09-02",
         resultsDue: "2025-10-31",

@@ -80,7 +80,8 @@ export function DataTable<T extends RowData>({
   const rows = table.getRowModel().rows;
   return (
     <div className="flex flex-col gap-3">
-      <div className="flex max-w-sm flex-col gap-1">
+      {/* The search box is for the screen; paper gets the whole table. */}
+      <div className="no-print flex max-w-sm flex-col gap-1">
         <label htmlFor={filterId} className="text-sm font-semibold text-basalt-800">
           {filterLabel}
         </label>

@@ -126,7 +126,8 @@ export function LabTable({
     return list;
   }, [group, labAction, d.mean, d.sd, d.ratio]);
   return (
-    <div>
+    // Printed, each material's table starts a page.
+    <div className="print-page-break">
       <Heading className="mb-1 font-semibold text-basalt-800">
         {group.material} · {response.name}
       </Heading>

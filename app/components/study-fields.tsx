@@ -10,6 +10,8 @@ type StudyFieldName =
   | "replicatesPerCell"
   | "significanceLevel"
   | "targetSurfaceRating"
+  | "specimenVolumeM3"
+  | "wastePercent"
   | "enrollmentDeadline"
   | "shipDate"
   | "resultsDue"
@@ -40,6 +42,13 @@ export function StudyFields({ fields, fixed = {} }: { fields: StudyFieldsMeta; f
         hint={fixed.significanceLevel ?? "E691 uses 0.005"}
         {...fieldProps(fields.significanceLevel)}
       />
+      <Field
+        label="Specimen volume (m³)"
+        inputMode="decimal"
+        hint="Concrete in one specimen; the float finishing form, 3 ft × 2 ft × 3 in, takes 0.0425 m³"
+        {...fieldProps(fields.specimenVolumeM3)}
+      />
+      <Field label="Waste allowance (%)" inputMode="decimal" hint="Extra concrete for spillage and what sticks to the mixer" {...fieldProps(fields.wastePercent)} />
       <SelectField
         label="Target surface rating (1–3 visual scale)"
         {...fieldProps(fields.targetSurfaceRating)}

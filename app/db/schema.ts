@@ -88,6 +88,9 @@ export const studies = sqliteTable("studies", {
   significanceLevel: real("significance_level").notNull().default(0.005),
   /** Float finishing test: target surface rating on the 1–3 visual scale. */
   targetSurfaceRating: integer("target_surface_rating"),
+  /** Concrete in one specimen of the test method, m³, and the waste allowance in %; the batch sheet's suggested volume. Null until set. */
+  specimenVolumeM3: real("specimen_volume_m3"),
+  wastePercent: real("waste_percent"),
   enrollmentDeadline: text("enrollment_deadline"),
   shipDate: text("ship_date"),
   resultsDue: text("results_due"),
@@ -217,6 +220,8 @@ export const enrollments = sqliteTable(
     state: text("state", { enum: ENROLLMENT_STATES }).notNull().default("invited"),
     invitedAt: integer("invited_at", { mode: "timestamp_ms" }),
     respondedAt: integer("responded_at", { mode: "timestamp_ms" }),
+    /** The lab's usable mixer capacity, m³, as last entered on a batch sheet: a batch larger than it is split into equal mixes. */
+    mixerCapacityM3: real("mixer_capacity_m3"),
     createdAt: createdAt(),
   },
   (t) => [

@@ -57,6 +57,13 @@ const studyFieldsShape = z.object({
       .enum(["", "1", "2", "3"], { message: "Choose a rating of 1, 2 or 3, or none." })
       .optional()
       .transform((v) => (v ? Number(v) : null)),
+    // What one specimen of the test method takes, for the lab's suggested batch volume; blank until the coordinator knows it.
+    specimenVolumeM3: optionalNumber("Enter the specimen volume in m³, such as 0.0425, or leave it blank.").refine((v) => v === null || (v > 0 && v <= 1), {
+      message: "Enter a specimen volume above 0 and at most 1 m³.",
+    }),
+    wastePercent: optionalNumber("Enter the waste allowance in %, such as 10, or leave it blank.").refine((v) => v === null || (v >= 0 && v <= 100), {
+      message: "Enter a waste allowance from 0 to 100 %.",
+    }),
     enrollmentDeadline: optionalDate,
     shipDate: optionalDate,
     resultsDue: optionalDate,

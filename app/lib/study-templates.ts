@@ -1,5 +1,5 @@
 /** Ready test-method templates a new study can start from. */
-import { AIR_CONTENT_TOLERANCE_POINTS, slumpTolerance } from "~/lib/batching";
+import { AIR_CONTENT_TOLERANCE_POINTS, DEFAULT_WASTE_FRACTION, FLOAT_FINISHING_SPECIMEN_M3, slumpTolerance } from "~/lib/batching";
 
 const SLUMP_TARGET_MM = 75;
 const AIR_TARGET_PERCENT = 6;
@@ -9,6 +9,9 @@ export const FLOAT_FINISHING_TEMPLATE = {
   testMethod: "Float finishing test of fresh concrete",
   replicatesPerCell: 3,
   targetSurfaceRating: 2,
+  // The 3 ft × 2 ft × 3 in form (common practice) and our usual waste allowance.
+  specimenVolumeM3: FLOAT_FINISHING_SPECIMEN_M3,
+  wastePercent: DEFAULT_WASTE_FRACTION * 100,
   responses: [
     { key: "holes", name: "Passes to close the preformed holes", unit: "passes", kind: "count", decimals: 0, plausibleMin: 1, plausibleMax: 40 },
     { key: "surface", name: "Passes to reach the target surface", unit: "passes", kind: "count", decimals: 0, plausibleMin: 1, plausibleMax: 40 },

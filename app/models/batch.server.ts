@@ -5,7 +5,7 @@
  */
 import { and, asc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { batches, cells, freshPropertyTargets, materials, mixtureConstituents, studies } from "~/db/schema";
+import { batches, cells, enrollments, freshPropertyTargets, materials, mixtureConstituents, studies } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { checkTolerance, mixtureDesignSchema } from "~/lib/batching";
 import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
@@ -53,15 +53,25 @@ export async function getBatch(enrollmentId: number, materialId: number) {
   return (await db.query.batches.findFirst({ where: and(eq(batches.enrollmentId, enrollmentId), eq(batches.materialId, materialId)) })) ?? null;
 }
 
-/** Stores the day's moisture contents (% of oven-dry mass) and batch volume; both are checked by the caller's schema. */
-export async function saveBatchInputs(enrollment: Enrollment, materialId: number, input: { batchVolumeM3: number; moistureByConstituentId: Record<string, number> }) {
+/**
+ * Stores the day's moisture contents (% of oven-dry mass) and batch volume, and
+ * the lab's mixer capacity for its next sheets too; all checked by the caller's schema.
+ */
+export async function saveBatchInputs(
+  enrollment: Enrollment,
+  materialId: number,
+  input: { batchVolumeM3: number; moistureByConstituentId: Record<string, number>; mixerCapacityM3: number | null },
+) {
   const study = await db.query.studies.findFirst({ where: eq(studies.id, enrollment.studyId) });
   assertResultsEditable(study!, enrollment);
   const fields = { batchVolumeM3: input.batchVolumeM3, aggregateMoisture: input.moistureByConstituentId };
-  await db
-    .insert(batches)
-    .values({ enrollmentId: enrollment.id, materialId, ...fields })
-    .onConflictDoUpdate({ target: [batches.enrollmentId, batches.materialId], set: fields });
+  await db.transaction(async (tx) => {
+    await tx
+      .insert(batches)
+      .values({ enrollmentId: enrollment.id, materialId, ...fields })
+      .onConflictDoUpdate({ target: [batches.enrollmentId, batches.materialId], set: fields });
+    await tx.update(enrollments).set({ mixerCapacityM3: input.mixerCapacityM3 }).where(eq(enrollments.id, enrollment.id));
+  });
 }
 
 export async function freshTargets(studyId: number) {
@@ -121,7 +131,12 @@ export async function saveFreshProperties(enrollment: Enrollment, materialId: nu
     else fields.batchedAt = text || null;
   }
   const before = await getBatch(enrollment.id, materialId);
-  const changed = Object.entries(fields).some(([key, value]) => (before as Record<string, unknown> | null)?.[key] !== value && !(before === null && value === null));
+  // Only the readings that differ from what is stored count: an autosave of the same values writes nothing and logs nothing.
+  const stored = (before ?? {}) as Record<string, unknown>;
+  const changedKeys = Object.entries(fields)
+    .filter(([key, value]) => (stored[key] ?? null) !== value)
+    .map(([key]) => key);
+  const changed = changedKeys.length > 0;
   if (changed && submitted && reason.length < 5) problems.reason = "The results of this material are submitted: give the reason for the change (at least 5 characters).";
   if (changed && !problems.reason) {
     await db.transaction(async (tx) => {
@@ -136,8 +151,8 @@ export async function saveFreshProperties(enrollment: Enrollment, materialId: nu
           entityType: "enrollment",
           entityId: enrollment.id,
           studyId: enrollment.studyId,
-          before: before && Object.fromEntries(Object.keys(fields).map((k) => [k, (before as Record<string, unknown>)[k]])),
-          after: queryId ? { ...fields, queryId } : fields,
+          before: Object.fromEntries(changedKeys.map((k) => [k, stored[k] ?? null])),
+          after: { ...Object.fromEntries(changedKeys.map((k) => [k, fields[k as keyof typeof fields]])), ...(queryId ? { queryId } : {}) },
           reason: submitted ? reason : null,
         },
         tx,

@@ -200,8 +200,8 @@ async function writeRows(tx: Transaction, enrollment: Enrollment, rows: Resolved
 }
 
 const changeTrail = (changes: Change[]) => ({
-  before: changes.map(({ before, ...where }) => ({ ...where, value: before })),
-  after: changes.map(({ after, ...where }) => ({ ...where, value: after })),
+  before: changes.map(({ before, after: _after, ...where }) => ({ ...where, value: before })),
+  after: changes.map(({ after, before: _before, ...where }) => ({ ...where, value: after })),
 });
 
 export type DraftSaveOutcome = { saved: number; problems: RowProblem[]; conflicts: DraftConflict[] };
@@ -608,7 +608,28 @@ export async function studyAuditTrail(studyId: number, requestedPage: number) {
     .orderBy(desc(auditEvents.createdAt), desc(auditEvents.id))
     .limit(AUDIT_PAGE_SIZE)
     .offset((page - 1) * AUDIT_PAGE_SIZE);
-  return { events, total: total!.n, page, pageCount };
+  const labCodes = await auditLabCodes(studyId, events);
+  return { events: events.map((e) => ({ ...e, labCode: labCodes.get(`${e.entityType}:${e.entityId}`) ?? null })), total: total!.n, page, pageCount };
+}
+
+/** The blind lab code each event concerns, keyed "entityType:entityId": through its enrollment, shipment, cell or query. */
+async function auditLabCodes(studyId: number, events: { entityType: string; entityId: string | null }[]) {
+  const idsOf = (type: string) => [...new Set(events.filter((e) => e.entityType === type && e.entityId !== null).map((e) => Number(e.entityId)))];
+  const codes = new Map<string, string | null>();
+  const study = await db.select({ id: enrollments.id, labCode: enrollments.labCode }).from(enrollments).where(eq(enrollments.studyId, studyId));
+  const codeOf = new Map(study.map((e) => [e.id, e.labCode]));
+  for (const id of idsOf("enrollment")) codes.set(`enrollment:${id}`, codeOf.get(id) ?? null);
+  const [shipmentRows, cellRows, queryRows] = await Promise.all([
+    idsOf("shipment").length ? db.select({ id: shipments.id, enrollmentId: shipments.enrollmentId }).from(shipments).where(inArray(shipments.id, idsOf("shipment"))) : [],
+    idsOf("cell").length ? db.select({ id: cells.id, enrollmentId: cells.enrollmentId }).from(cells).where(inArray(cells.id, idsOf("cell"))) : [],
+    idsOf("query").length
+      ? db.select({ id: queries.id, enrollmentId: cells.enrollmentId }).from(queries).innerJoin(cells, eq(cells.id, queries.cellId)).where(inArray(queries.id, idsOf("query")))
+      : [],
+  ]);
+  for (const [type, rows] of [["shipment", shipmentRows], ["cell", cellRows], ["query", queryRows]] as const) {
+    for (const row of rows) codes.set(`${type}:${row.id}`, codeOf.get(row.enrollmentId) ?? null);
+  }
+  return codes;
 }
 
 /** The lab's to-do list in one study: receipt, and per material its batch, results and open queries. */

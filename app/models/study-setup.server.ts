@@ -56,6 +56,9 @@ async function assertCodeFree(code: string, exceptStudyId?: number) {
 export async function createStudy(ownerId: number, input: z.infer<typeof newStudySchema>) {
   await assertCodeFree(input.code);
   const { template, ...fields } = input;
+  if (template === "custom" && fields.testMethod === FLOAT_FINISHING_TEMPLATE.testMethod) {
+    throw new SetupError("testMethod", "A custom study needs its own test method name; choose the float finishing template for the float finishing test.");
+  }
   return db.transaction(async (tx) => {
     const [study] = await tx.insert(studies).values({ ...fields, ownerId }).returning();
     if (template === "float_finishing") {

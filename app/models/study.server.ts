@@ -1,9 +1,11 @@
-import { and, asc, count, desc, eq, inArray, or } from "drizzle-orm";
+import { and, asc, count, desc, eq, inArray, isNull, or } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { cells, enrollments, labs, materials, queries, responses, studies, studyCoordinators, studyReviewers, type Study, type StudyKind } from "~/db/schema";
+import { batches, cells, enrollments, invitations, labs, materials, queries, responses, results, shipments, studies, studyCoordinators, studyReviewers, type Study, type StudyKind } from "~/db/schema";
 import { CELL_STATUS_ORDER, type CellStatus, cellStatusOf } from "~/lib/cell-status";
 import type { SessionUser } from "~/models/user.server";
 import { readPage } from "~/lib/paging";
+import { formatDate } from "~/lib/format";
+import type { LabStudyFacts } from "~/lib/lab-todo";
 
 
 function coordinatedBy(user: SessionUser, kind: StudyKind | "any") {
@@ -84,15 +86,74 @@ export async function labEnrollmentsPage(labIds: number[], page: number) {
   );
 }
 
-/** Submitted cell counts of the given enrollments (one query), for their own lab's to-do list. */
-export async function submittedCellCounts(enrollmentIds: number[]) {
-  if (enrollmentIds.length === 0) return new Map<number, number>();
-  const rows = await db
-    .select({ enrollmentId: cells.enrollmentId, cells: count() })
-    .from(cells)
-    .where(and(inArray(cells.enrollmentId, enrollmentIds), eq(cells.status, "submitted")))
-    .groupBy(cells.enrollmentId);
-  return new Map(rows.map((r) => [r.enrollmentId, r.cells]));
+/**
+ * The facts behind each enrollment's to-do list on the lab home (~/lib/lab-todo),
+ * a few queries for the whole page: materials, batches, replicate values
+ * (drafts included), submitted cells, open queries, the latest shipment and
+ * a pending invitation.
+ */
+export async function labTodoFacts(rows: { enrollmentId: number; enrollmentState: LabStudyFacts["enrollmentState"]; studyId: number }[]): Promise<Map<number, LabStudyFacts>> {
+  const facts = new Map<number, LabStudyFacts>();
+  if (rows.length === 0) return facts;
+  const enrollmentIds = rows.map((r) => r.enrollmentId);
+  const studyIds = [...new Set(rows.map((r) => r.studyId))];
+  const [studyRows, materialRows, responseCounts, batchRows, valueCounts, submittedCells, openQueries, shipmentRows, invitationRows] = await Promise.all([
+    db.select().from(studies).where(inArray(studies.id, studyIds)),
+    db.select({ id: materials.id, studyId: materials.studyId, code: materials.code }).from(materials).where(inArray(materials.studyId, studyIds)).orderBy(asc(materials.sortOrder), asc(materials.code)),
+    db.select({ studyId: responses.studyId, n: count() }).from(responses).where(inArray(responses.studyId, studyIds)).groupBy(responses.studyId),
+    db.select({ enrollmentId: batches.enrollmentId, materialId: batches.materialId, batchedAt: batches.batchedAt, slumpMm: batches.slumpMm }).from(batches).where(inArray(batches.enrollmentId, enrollmentIds)),
+    db
+      .select({ enrollmentId: cells.enrollmentId, materialId: cells.materialId, n: count() })
+      .from(results)
+      .innerJoin(cells, eq(cells.id, results.cellId))
+      .where(inArray(cells.enrollmentId, enrollmentIds))
+      .groupBy(cells.enrollmentId, cells.materialId),
+    db
+      .select({ enrollmentId: cells.enrollmentId, materialId: cells.materialId, n: count() })
+      .from(cells)
+      .where(and(inArray(cells.enrollmentId, enrollmentIds), eq(cells.status, "submitted")))
+      .groupBy(cells.enrollmentId, cells.materialId),
+    db
+      .select({ enrollmentId: cells.enrollmentId, n: count() })
+      .from(queries)
+      .innerJoin(cells, eq(cells.id, queries.cellId))
+      .where(and(inArray(cells.enrollmentId, enrollmentIds), eq(queries.state, "open")))
+      .groupBy(cells.enrollmentId),
+    db.select().from(shipments).where(inArray(shipments.enrollmentId, enrollmentIds)).orderBy(asc(shipments.createdAt), asc(shipments.id)),
+    db.select().from(invitations).where(and(inArray(invitations.enrollmentId, enrollmentIds), isNull(invitations.usedAt))).orderBy(asc(invitations.createdAt), asc(invitations.id)),
+  ]);
+  const perMaterial = (list: { enrollmentId: number; materialId: number; n: number }[], enrollmentId: number, materialId: number) =>
+    list.find((x) => x.enrollmentId === enrollmentId && x.materialId === materialId)?.n ?? 0;
+  for (const row of rows) {
+    const study = studyRows.find((s) => s.id === row.studyId)!;
+    const shipment = shipmentRows.filter((s) => s.enrollmentId === row.enrollmentId).at(-1);
+    const invitation = invitationRows.filter((i) => i.enrollmentId === row.enrollmentId).at(-1);
+    facts.set(row.enrollmentId, {
+      studyId: study.id,
+      studyState: study.state,
+      enrollmentState: row.enrollmentState,
+      enrollmentDeadline: study.enrollmentDeadline,
+      resultsDue: study.resultsDue,
+      replicatesPerCell: study.replicatesPerCell,
+      responseCount: responseCounts.find((r) => r.studyId === study.id)?.n ?? 0,
+      invitation: invitation && invitation.expiresAt.getTime() > Date.now() ? { email: invitation.email, expiresOn: formatDate(invitation.expiresAt) } : null,
+      shipment: shipment ? { status: shipment.status, shippedOn: shipment.shippedOn } : null,
+      materials: materialRows
+        .filter((m) => m.studyId === study.id)
+        .map((m) => {
+          const batch = batchRows.find((b) => b.enrollmentId === row.enrollmentId && b.materialId === m.id);
+          return {
+            id: m.id,
+            code: m.code,
+            batchRecorded: Boolean(batch && (batch.batchedAt || batch.slumpMm !== null)),
+            valuesEntered: perMaterial(valueCounts, row.enrollmentId, m.id),
+            cellsSubmitted: perMaterial(submittedCells, row.enrollmentId, m.id),
+          };
+        }),
+      openQueries: openQueries.find((q) => q.enrollmentId === row.enrollmentId)?.n ?? 0,
+    });
+  }
+  return facts;
 }
 
 export { CELL_STATUS_ORDER, type CellStatus };
@@ -177,3 +238,14 @@ export async function studyProgress(study: Pick<Study, "id" | "code" | "state" |
 }
 
 export type StudyProgress = Awaited<ReturnType<typeof studyProgress>>;
+
+/** The study's protocol file and its coordinator, for the lab's protocol page. */
+export async function studyBrief(study: Study) {
+  const [protocol, coordinator] = await Promise.all([
+    study.protocolAttachmentId
+      ? db.query.attachments.findFirst({ where: (a, { eq: is }) => is(a.id, study.protocolAttachmentId!), columns: { id: true, originalName: true } })
+      : Promise.resolve(undefined),
+    db.query.users.findFirst({ where: (u, { eq: is }) => is(u.id, study.ownerId), columns: { name: true, email: true } }),
+  ]);
+  return { protocol: protocol ?? null, coordinator: coordinator ?? null };
+}

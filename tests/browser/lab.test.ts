@@ -82,8 +82,7 @@ describe("an analyst's day in the lab, in the browser", () => {
     const studyPath = new URL(studyUrl).pathname.replace("/lab", "");
     await coordinator.goto(`${running.server.url}${studyPath}/results`);
     const trail = coordinator.getByRole("table", { name: "Audit trail of the study" });
-    await expect.poll(() => trail.textContent()).toContain("Result amended");
-    expect(await trail.textContent()).toContain("Recount from the video of specimen 1");
+    await expect.poll(() => trail.textContent()).toContain("L04 amended F1 holes r1: 13 → 12. Reason: Recount from the video of specimen 1");
     expect(await coordinator.getByRole("table", { name: "Amendments of submitted results" }).textContent()).toContain("13 → 12");
     await expectAccessible(coordinator);
     await coordinatorContext.close();

@@ -42,6 +42,7 @@ export const EXPECTED: Record<string, Partial<Record<Method, Record<Persona, num
   "dev/mailbox/:messageId": { GET: row(302, 200, 200, 404, 404, 404, 404, 404) },
   "lab": { GET: row(302, 404, 404, 404, 200, 200, 404, 404) },
   "lab/studies/:studyId": { GET: row(302, 404, 404, 404, 200, 404, 404, 404) },
+  "lab/studies/:studyId/protocol": { GET: row(302, 404, 404, 404, 200, 404, 404, 404) },
   "lab/studies/:studyId/results/:materialId": { GET: row(302, 404, 404, 404, 200, 404, 404, 404), POST: row(302, 404, 404, 404, 400, 404, 404, 404) },
   "lab/studies/:studyId/batch/:materialId": { GET: row(302, 404, 404, 404, 200, 404, 404, 404), POST: row(302, 404, 404, 404, 400, 404, 404, 404) },
   "lab/studies/:studyId/import": { GET: row(302, 404, 404, 404, 200, 404, 404, 404), POST: row(302, 404, 404, 404, 400, 404, 404, 404) },

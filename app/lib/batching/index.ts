@@ -61,3 +61,5 @@ export type {
   ToleranceCheck,
 } from "./tolerance";
 export { constituentSchema, mixtureDesignSchema } from "./schema";
+export { mixingSequence, splitIntoMixes } from "./mixes";
+export type { MixSplit } from "./mixes";

@@ -27,10 +27,14 @@ function boundedNumber(message: string, accepts: (n: number) => boolean) {
 export const batchVolumeAccepted = (m3: number) => m3 > 0 && m3 <= MAX_BATCH_M3;
 export const moistureAccepted = (percent: number) => percent >= 0 && percent <= MAX_MOISTURE_PERCENT;
 
-/** `batchVolume` in m³ and one `moisture-<constituent id>` in % per aggregate. */
+/** A lab mixer's usable capacity, m³: the same wide bounds as a batch. */
+export const mixerCapacityAccepted = batchVolumeAccepted;
+
+/** `batchVolume` in m³, `mixerCapacity` in m³ (blank: one mix), and one `moisture-<constituent id>` in % per aggregate. */
 export function batchInputsSchema(aggregates: { id: number; name: string }[]) {
-  const shape: Record<string, ReturnType<typeof boundedNumber>> = {
+  const shape: Record<string, z.ZodType<number | undefined, string | undefined>> = {
     batchVolume: boundedNumber(`Enter the batch volume in m³, more than 0 and at most ${MAX_BATCH_M3}.`, batchVolumeAccepted),
+    mixerCapacity: boundedNumber(`Enter your mixer's usable capacity in m³, more than 0 and at most ${MAX_BATCH_M3}, or leave it blank.`, mixerCapacityAccepted).optional(),
   };
   for (const a of aggregates) {
     shape[moistureField(a.id)] = boundedNumber(`Enter today's moisture content of ${a.name}, 0 to ${MAX_MOISTURE_PERCENT} % of oven-dry mass.`, moistureAccepted);

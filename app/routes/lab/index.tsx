@@ -1,62 +1,89 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/index";
-import { StateBadge } from "~/components/state-badge";
-import { Card, PageHeader, SimpleTable } from "~/components/ui";
-import { formatDate } from "~/lib/format";
-import { requireRole } from "~/server/guards.server";
 import { Pager } from "~/components/pager";
+import { StateBadge } from "~/components/state-badge";
+import { Card, PageHeader } from "~/components/ui";
+import { formatDate } from "~/lib/format";
+import { labTodoItems } from "~/lib/lab-todo";
 import { requestedPage } from "~/lib/paging";
 import { ENROLLMENT_STATE, STUDY_STATE } from "~/lib/state-labels";
-import { labEnrollmentsPage, submittedCellCounts } from "~/models/study.server";
+import { labEnrollmentsPage, labTodoFacts } from "~/models/study.server";
+import { requireRole } from "~/server/guards.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "My lab · Ringbatch" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, "analyst");
   const { rows, ...page } = await labEnrollmentsPage(user.labIds, requestedPage(new URL(request.url).searchParams));
-  const submitted = await submittedCellCounts(rows.map((e) => e.enrollmentId));
-  return { enrollments: rows.map((e) => ({ ...e, submittedCells: submitted.get(e.enrollmentId) ?? 0 })), page };
+  const facts = await labTodoFacts(rows);
+  const enrollments = rows.map((e) => ({ ...e, todo: labTodoItems(facts.get(e.enrollmentId)!) }));
+  // Studies with something waiting come first on the page; the rest keep their order.
+  return { enrollments: [...enrollments.filter((e) => e.todo.length > 0), ...enrollments.filter((e) => e.todo.length === 0)], page };
 }
 
 export default function LabHome({ loaderData }: Route.ComponentProps) {
+  const { enrollments, page } = loaderData;
   return (
     <>
       <PageHeader
         title="My lab"
-        subtitle="Studies your lab takes part in. You see your own lab's data only."
+        subtitle="What is waiting for your lab in each study. You see your own lab's data only."
         actions={
           <Link to="/lab/queries" className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
             Queries to your lab
           </Link>
         }
       />
-      <Card>
-        {loaderData.enrollments.length === 0 ? (
+      {enrollments.length === 0 ? (
+        <Card>
           <p>Your lab is not enrolled in any study yet.</p>
-        ) : (
-          <SimpleTable
-            caption="Your lab's studies"
-            headers={["Study", "Lab", "Your lab code", "Study state", "Results submitted", "Results due"]}
-            rows={loaderData.enrollments.map((e) => [
-              <span key="s">
-                <Link to={`/lab/studies/${e.studyId}`} className="font-semibold text-basalt-700 underline">
-                  {e.studyCode}
-                </Link>{" "}
-                — {e.studyTitle}
-              </span>,
-              e.labName,
-              e.labCode ?? "—",
-              <span key="state" className="flex flex-wrap gap-1">
-                <StateBadge view={STUDY_STATE[e.studyState]} />
-                {e.enrollmentState === "withdrawn" && <StateBadge view={{ ...ENROLLMENT_STATE.withdrawn, label: "Your lab withdrawn" }} />}
-              </span>,
-              `${e.submittedCells} cells`,
-              formatDate(e.resultsDue),
-            ])}
-          />
-        )}
-        <Pager page={loaderData.page.page} pageCount={loaderData.page.pageCount} label="Your lab's study pages" />
-      </Card>
+        </Card>
+      ) : (
+        <div className="grid gap-4">
+          {enrollments.map((e) => (
+            <section key={e.enrollmentId} aria-labelledby={`study-${e.enrollmentId}`} className="rounded-lg border border-basalt-100 bg-white p-5 shadow-sm">
+              <div className="mb-3 flex flex-wrap items-center justify-between gap-2">
+                <h2 id={`study-${e.enrollmentId}`} className="text-lg font-semibold text-basalt-800">
+                  <Link to={`/lab/studies/${e.studyId}`} className="whitespace-nowrap text-basalt-700 underline">
+                    {e.studyCode}
+                  </Link>{" "}
+                  — {e.studyTitle}
+                </h2>
+                <span className="flex flex-wrap items-center gap-2 text-basalt-700">
+                  <StateBadge view={STUDY_STATE[e.studyState]} />
+                  {e.enrollmentState === "withdrawn" && <StateBadge view={{ ...ENROLLMENT_STATE.withdrawn, label: "Your lab withdrawn" }} />}
+                  <span>
+                    {e.labName} · lab code <span className="whitespace-nowrap font-semibold">{e.labCode ?? "—"}</span>
+                  </span>
+                </span>
+              </div>
+              {e.todo.length === 0 ? (
+                <p className="text-basalt-700">Nothing is waiting for your lab in this study.</p>
+              ) : (
+                <ul className="grid gap-3" aria-label={`Waiting in ${e.studyCode}`}>
+                  {e.todo.map((item) => (
+                    <li key={item.kind} className="grid gap-1 border-l-4 border-ochre-300 pl-3 sm:grid-cols-[1fr_auto]" data-testid={`todo-${item.kind}`}>
+                      <div>
+                        <p className="font-semibold text-basalt-900">{item.title}</p>
+                        <p className="text-basalt-700">{item.detail}</p>
+                        <p className="flex flex-wrap gap-x-4">
+                          {item.links.map((link) => (
+                            <Link key={link.to + link.label} to={link.to} className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
+                              {link.label}
+                            </Link>
+                          ))}
+                        </p>
+                      </div>
+                      {item.due && <p className="whitespace-nowrap tabular-nums text-basalt-700">due {formatDate(item.due)}</p>}
+                    </li>
+                  ))}
+                </ul>
+              )}
+            </section>
+          ))}
+        </div>
+      )}
+      <Pager page={page.page} pageCount={page.pageCount} label="Your lab's study pages" />
     </>
   );
 }

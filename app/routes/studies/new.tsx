@@ -30,18 +30,31 @@ export async function action({ request }: Route.ActionArgs) {
   return redirectWithToast(`/studies/${created.value.id}/setup`, `Study ${created.value.code} created.`);
 }
 
+/** What each template fills in; a custom method starts blank, with nothing of the float finishing test. */
+const TEMPLATE_FIELDS = {
+  float_finishing: {
+    testMethod: FLOAT_FINISHING_TEMPLATE.testMethod,
+    targetSurfaceRating: String(FLOAT_FINISHING_TEMPLATE.targetSurfaceRating),
+    specimenVolumeM3: String(FLOAT_FINISHING_TEMPLATE.specimenVolumeM3),
+    wastePercent: String(FLOAT_FINISHING_TEMPLATE.wastePercent),
+  },
+  custom: { testMethod: "", targetSurfaceRating: "", specimenVolumeM3: "", wastePercent: "" },
+} as const;
+
 const TEMPLATE_DEFAULTS = {
   template: "float_finishing",
-  testMethod: FLOAT_FINISHING_TEMPLATE.testMethod,
   replicatesPerCell: String(FLOAT_FINISHING_TEMPLATE.replicatesPerCell),
   significanceLevel: "0.005",
-  targetSurfaceRating: String(FLOAT_FINISHING_TEMPLATE.targetSurfaceRating),
+  ...TEMPLATE_FIELDS.float_finishing,
 };
 
 export default function NewStudy({ loaderData, actionData }: Route.ComponentProps) {
   const [form, fields] = useSchemaForm(newStudySchema, { reply: actionData, id: "new-study", defaultValue: TEMPLATE_DEFAULTS });
   const template = fields.template.initialValue;
   const busy = useNavigation().state === "submitting";
+  const chooseTemplate = (chosen: keyof typeof TEMPLATE_FIELDS) => {
+    for (const [name, value] of Object.entries(TEMPLATE_FIELDS[chosen])) form.update({ name, value });
+  };
   return (
     <>
       <PageHeader title="New study" subtitle="Start from the float finishing template or set up any other test method." />
@@ -51,7 +64,7 @@ export default function NewStudy({ loaderData, actionData }: Route.ComponentProp
           <fieldset className="flex flex-col gap-2" aria-describedby={fields.template.errors ? fields.template.errorId : undefined}>
             <legend className="mb-1 font-semibold text-basalt-800">Start from</legend>
             <label className="flex items-start gap-2">
-              <input type="radio" name="template" value="float_finishing" defaultChecked={template === "float_finishing"} className="mt-1" />
+              <input type="radio" name="template" value="float_finishing" defaultChecked={template === "float_finishing"} onChange={() => chooseTemplate("float_finishing")} className="mt-1" />
               <span>
                 <span className="font-semibold">Float finishing test of fresh concrete</span>
                 <span className="block text-sm text-basalt-700">
@@ -62,10 +75,10 @@ export default function NewStudy({ loaderData, actionData }: Route.ComponentProp
               </span>
             </label>
             <label className="flex items-start gap-2">
-              <input type="radio" name="template" value="custom" defaultChecked={template === "custom"} className="mt-1" />
+              <input type="radio" name="template" value="custom" defaultChecked={template === "custom"} onChange={() => chooseTemplate("custom")} className="mt-1" />
               <span>
                 <span className="font-semibold">Custom test method</span>
-                <span className="block text-sm text-basalt-700">No responses yet: add them on the setup page.</span>
+                <span className="block text-sm text-basalt-700">Starts blank: name the method, then add its responses, specimen volume and targets on the setup page.</span>
               </span>
             </label>
             {fields.template.errors && (

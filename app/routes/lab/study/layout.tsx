@@ -22,6 +22,7 @@ export default function LabStudyLayout({ loaderData }: Route.ComponentProps) {
           ? [{ to: base, label: "Tasks", end: true }]
           : [
               { to: base, label: "Tasks", end: true },
+              { to: `${base}/protocol`, label: "Protocol and targets" },
               { to: `${base}/receipt`, label: "Receipt" },
               { to: `${base}/import`, label: "Import" },
             ]

@@ -99,6 +99,8 @@ export async function loader({ params, context }: Route.LoaderArgs) {
   for (const response of entry.responses) for (const r of response.results) if (r.photoAttachmentId) photos[r.replicate] = r.photoAttachmentId;
   return {
     study: { id: study.id, state: study.state, replicatesPerCell: study.replicatesPerCell },
+    // A float finishing study (it has a target surface rating) photographs the finished surface; other methods just a photo.
+    photoLabel: study.targetSurfaceRating === null ? "Photo" : "Surface photo",
     editable: study.state === "testing" && enrollment.state === "accepted",
     /** Why nothing can be typed here, as the write rules say it. */
     lockedBecause: writeRefusal("results", study.state),
@@ -390,6 +392,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
         <Card title={locked ? "Submitted results" : "Results per replicate"}>
           {locked ? (
             <SubmittedResults
+              photoLabel={loaderData.photoLabel}
               responses={responses}
               replicates={replicates}
               values={loaderData.submittedValues}
@@ -420,7 +423,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
                       Operator
                     </th>
                     <th scope="col" className="px-2 py-2">
-                      Surface photo
+                      {loaderData.photoLabel}
                     </th>
                   </tr>
                 </thead>
@@ -477,7 +480,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
                           />
                         </td>
                         <td className={ENTRY_CELL}>
-                          <PhotoCell replicate={replicate} photoId={photos[replicate]} editable={editable} />
+                          <PhotoCell replicate={replicate} photoId={photos[replicate]} editable={editable} label={loaderData.photoLabel} />
                         </td>
                       </tr>
                     );
@@ -580,15 +583,15 @@ function CellInput({
 }
 
 /** A stored photo's thumbnail, linked to the full image. */
-function PhotoThumbnail({ photoId, replicate }: { photoId: number; replicate: number }) {
+function PhotoThumbnail({ photoId, replicate, label }: { photoId: number; replicate: number; label: string }) {
   return (
     <a href={`/files/${photoId}`} target="_blank" rel="noreferrer" className="inline-block w-fit rounded focus-visible:outline-2">
-      <img src={`/files/${photoId}?thumbnail`} alt={`Surface photo of replicate ${replicate} (opens the full image)`} className="h-16 w-24 rounded border border-basalt-200 object-cover" />
+      <img src={`/files/${photoId}?thumbnail`} alt={`${label} of replicate ${replicate} (opens the full image)`} className="h-16 w-24 rounded border border-basalt-200 object-cover" />
     </a>
   );
 }
 
-function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoId?: number; editable: boolean }) {
+function PhotoCell({ replicate, photoId, editable, label }: { replicate: number; photoId?: number; editable: boolean; label: string }) {
   // A fetcher of its own, so a refused photo is named beside its replicate and the grid keeps what was typed.
   const fetcher = useFetcher<typeof action>();
   const [form, fields] = useSchemaForm(photoSchema, { reply: fetcher.data, id: `photo-${replicate}` });
@@ -600,14 +603,14 @@ function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoI
   const describedBy = [`${id}-rule`, error ? `${id}-error` : null].filter(Boolean).join(" ");
   return (
     <div className="flex min-w-0 flex-col gap-1">
-      {photoId && <PhotoThumbnail photoId={photoId} replicate={replicate} />}
+      {photoId && <PhotoThumbnail photoId={photoId} replicate={replicate} label={label} />}
       {editable && (
         // Keyed by the stored photo, so the chooser empties once a photo is added.
         <fetcher.Form key={photoId ?? "none"} method="post" encType="multipart/form-data" className="flex min-w-0 flex-col gap-1" {...getFormProps(form)}>
           <input type="hidden" name="intent" value="photo" />
           <input type="hidden" name="replicate" value={replicate} />
           <label htmlFor={id} className="text-sm font-semibold sm:sr-only">
-            {photoId ? "Replace the" : "Surface"} photo of replicate {replicate}
+            {photoId ? `Replace the ${label.toLowerCase()}` : label} of replicate {replicate}
           </label>
           <input
             id={id}
@@ -654,6 +657,7 @@ function SubmittedResults({
   editable,
   correctable,
   photos,
+  photoLabel,
 }: {
   responses: ResponseView[];
   replicates: number[];
@@ -662,6 +666,7 @@ function SubmittedResults({
   editable: boolean;
   correctable: number[];
   photos: Record<number, number>;
+  photoLabel: string;
 }) {
   const answered = actionData && "result" in actionData ? actionData.result?.initialValue : undefined;
   return (
@@ -679,7 +684,7 @@ function SubmittedResults({
                   <span className="min-w-40">
                     Replicate {replicate}: <span className="font-semibold">{values[`${response.key}:${replicate}`] ?? "—"}</span> {response.unit}
                   </span>
-                  {photos[replicate] && <PhotoThumbnail photoId={photos[replicate]} replicate={replicate} />}
+                  {photos[replicate] && <PhotoThumbnail photoId={photos[replicate]} replicate={replicate} label={photoLabel} />}
                   {(editable || correctable.includes(response.id)) && <AmendForm response={response} replicate={replicate} reply={mine ? actionData : undefined} />}
                 </li>
               );

@@ -1,6 +1,7 @@
 import type { Route } from "./+types/report";
 import { LazyCharts } from "~/components/charts/lazy-charts";
 import { PrecisionTables } from "~/components/precision-tables";
+import { PrintFrame } from "~/components/print-frame";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
@@ -40,59 +41,61 @@ export async function loader({ context }: Route.LoaderArgs) {
 export default function Report({ loaderData }: Route.ComponentProps) {
   const { study, statement, labs, named } = loaderData;
   return (
-    <article className="flex flex-col gap-6 print:gap-4">
-      <header>
-        <p className="text-basalt-700">Precision report of {study.testMethod}.</p>
-        <p className="mt-2 print:hidden">
-          <button
-            type="button"
-            onClick={() => window.print()}
-            className="min-h-11 rounded-md border border-basalt-500 bg-white px-4 font-semibold text-basalt-800"
-          >
-            Print the report
-          </button>
-        </p>
-      </header>
-      <StatementCaution />
-      {!statement ? (
-        <Card>
-          <p>No statement version exists yet; freeze one on the statement page first.</p>
-        </Card>
-      ) : (
-        <>
-          <Card title={`Statement, version ${statement.version}`}>
-            <p className="mb-3">
-              <StateBadge view={STATEMENT_STATE[statement.state]} /> {statement.snapshot.labs} labs, {statement.snapshot.materials.length} materials,{" "}
-              {statement.snapshot.replicates} replicates per cell; consistency checked at the {ALPHA_LABEL[statement.snapshot.analysis.alpha]} level; data
-              version {statement.snapshot.dataVersion}.
-            </p>
-            <StatementTexts textE691={statement.textE691} textC670={statement.textC670} />
+    <PrintFrame header={`Precision report · ${study.code} · ${statement ? `statement version ${statement.version}` : "no statement yet"}`}>
+      <article className="flex flex-col gap-6 print:gap-4">
+        <header>
+          <p className="text-basalt-700">Precision report of {study.testMethod}.</p>
+          <p className="mt-2 print:hidden">
+            <button
+              type="button"
+              onClick={() => window.print()}
+              className="min-h-11 rounded-md border border-basalt-500 bg-white px-4 font-semibold text-basalt-800"
+            >
+              Print the report
+            </button>
+          </p>
+        </header>
+        <StatementCaution />
+        {!statement ? (
+          <Card>
+            <p>No statement version exists yet; freeze one on the statement page first.</p>
           </Card>
-          <Card title="Participating labs">
-            <SimpleTable
-              caption="Labs that contributed results"
-              headers={named ? ["Code", "Lab"] : ["Code"]}
-              rows={labs.map((l) => (named ? [l.code, l.name] : [l.code]))}
-            />
-          </Card>
-          <Card title="Materials">
-            <SimpleTable
-              caption="Materials of the study"
-              headers={["Code", "Description"]}
-              rows={statement.snapshot.materials.map((m) => [m.code, m.description])}
-            />
-          </Card>
-          <Card title="Cells left out">
-            <ExcludedCells excluded={statement.snapshot.analysis.excluded} />
-          </Card>
-          <Card title="Tables">
-            <PrecisionTables analysis={statement.snapshot.analysis} responses={statement.snapshot.responses} headingLevel={3} />
-          </Card>
-          <Card title="Plots" className="print:break-before-page">
-            <LazyCharts analysis={statement.snapshot.analysis} responses={statement.snapshot.responses} />
-          </Card>
-        </>
-      )}
-    </article>
+        ) : (
+          <>
+            <Card title={`Statement, version ${statement.version}`}>
+              <p className="mb-3">
+                <StateBadge view={STATEMENT_STATE[statement.state]} /> {statement.snapshot.labs} labs, {statement.snapshot.materials.length} materials,{" "}
+                {statement.snapshot.replicates} replicates per cell; consistency checked at the {ALPHA_LABEL[statement.snapshot.analysis.alpha]} level; data
+                version {statement.snapshot.dataVersion}.
+              </p>
+              <StatementTexts textE691={statement.textE691} textC670={statement.textC670} />
+            </Card>
+            <Card title="Participating labs">
+              <SimpleTable
+                caption="Labs that contributed results"
+                headers={named ? ["Code", "Lab"] : ["Code"]}
+                rows={labs.map((l) => (named ? [l.code, l.name] : [l.code]))}
+              />
+            </Card>
+            <Card title="Materials">
+              <SimpleTable
+                caption="Materials of the study"
+                headers={["Code", "Description"]}
+                rows={statement.snapshot.materials.map((m) => [m.code, m.description])}
+              />
+            </Card>
+            <Card title="Cells left out">
+              <ExcludedCells excluded={statement.snapshot.analysis.excluded} />
+            </Card>
+            <Card title="Tables">
+              <PrecisionTables analysis={statement.snapshot.analysis} responses={statement.snapshot.responses} headingLevel={3} />
+            </Card>
+            <Card title="Plots" className="print:break-before-page">
+              <LazyCharts analysis={statement.snapshot.analysis} responses={statement.snapshot.responses} />
+            </Card>
+          </>
+        )}
+      </article>
+    </PrintFrame>
   );
 }

@@ -4,6 +4,7 @@ import { CellStatusBadge } from "~/components/cell-status-badge";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Badge, Card, SimpleTable } from "~/components/ui";
+import { describeAuditEvent } from "~/lib/audit-sentences";
 import { formatDateTime } from "~/lib/format";
 import { wholeNumberParam } from "~/lib/query-params";
 import { ENROLLMENT_STATE } from "~/lib/state-labels";
@@ -37,36 +38,8 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   };
 }
 
-const ACTION_LABEL: Record<string, string> = {
-  "results.draft_saved": "Draft saved",
-  "results.submitted": "Results submitted",
-  "result.amended": "Result amended",
-  "results.imported": "Results imported",
-  "result.photo_added": "Surface photo added",
-  "batch.fresh_properties_saved": "Fresh properties saved",
-  "query.answered": "Query answered",
-};
-
 /** A link to one page of the results table and one page of the audit trail. */
 const pageLink = (labs: number, page: number) => `?${new URLSearchParams({ labs: String(labs), page: String(page) })}`;
-
-/** A short readable form of an audit event's before/after values. */
-function describeValues(value: unknown): string {
-  if (value === null || value === undefined) return "—";
-  if (Array.isArray(value)) {
-    const shown = value.slice(0, 4).map(describeValues).join("; ");
-    return value.length > 4 ? `${shown}; … (${value.length} in all)` : shown;
-  }
-  if (typeof value === "object") {
-    const v = value as Record<string, unknown>;
-    if ("material" in v && "response" in v && "replicate" in v) return `${v.material} ${v.response} #${v.replicate} = ${v.value ?? "cleared"}`;
-    return Object.entries(v)
-      .filter(([, x]) => typeof x !== "object")
-      .map(([k, x]) => `${k}: ${x}`)
-      .join(", ");
-  }
-  return String(value);
-}
 
 export default function StudyResults({ loaderData }: Route.ComponentProps) {
   const { responses, rows, labsPage, labsPageCount, audit } = loaderData;
@@ -149,14 +122,13 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
         </p>
         <SimpleTable
           caption="Audit trail of the study"
-          headers={["When", "Who", "What", "Before", "After", "Reason"]}
+          headers={["When", "Who", "What happened"]}
           rows={audit.events.map((e) => [
-            formatDateTime(e.createdAt),
+            <span key="when" className="whitespace-nowrap tabular-nums">
+              {formatDateTime(e.createdAt)}
+            </span>,
             e.actorName ?? "—",
-            ACTION_LABEL[e.action] ?? e.action,
-            describeValues(e.before),
-            describeValues(e.after),
-            e.reason ?? "—",
+            describeAuditEvent(e),
           ])}
         />
         <nav aria-label="Audit trail pages" className="mt-3 flex gap-4">

@@ -350,6 +350,8 @@ function detailsDefaults(study: SetupStudy) {
     replicatesPerCell: String(study.replicatesPerCell),
     significanceLevel: String(study.significanceLevel),
     targetSurfaceRating: study.targetSurfaceRating === null ? "" : String(study.targetSurfaceRating),
+    specimenVolumeM3: study.specimenVolumeM3 === null ? "" : String(study.specimenVolumeM3),
+    wastePercent: study.wastePercent === null ? "" : String(study.wastePercent),
     enrollmentDeadline: study.enrollmentDeadline ?? "",
     shipDate: study.shipDate ?? "",
     resultsDue: study.resultsDue ?? "",
