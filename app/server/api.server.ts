@@ -90,8 +90,8 @@ export async function requireApiStudyAccess(request: Request, studyIdParam: stri
   return { ...caller, ...found };
 }
 
-/** What an API read sends: its text and type, and any further headers (a download's file name). */
-export type ApiRepresentation = { body: string; contentType: string; headers?: Record<string, string> };
+/** What an API read sends: its text (or a file's bytes) and type, and any further headers (a download's file name). */
+export type ApiRepresentation = { body: string | Uint8Array<ArrayBuffer>; contentType: string; headers?: Record<string, string> };
 
 /**
  * What makes one caller's view differ from another's for the same URL: the
@@ -107,7 +107,7 @@ const READ_CACHE_CONTROL = "private, no-cache";
 // Ties entity tags to this process's code: after a deployment the same data may be presented differently.
 const DEPLOYMENT_SALT = randomBytes(9).toString("base64url");
 
-const digest = (value: string) => createHash("sha256").update(value).digest("base64url");
+const digest = (value: string | Uint8Array) => createHash("sha256").update(value).digest("base64url");
 
 /** Whether an If-None-Match header names `etag`; weak comparison, as RFC 9110 §13.1.2 prescribes for it. */
 function ifNoneMatchHits(header: string | null, etag: string) {
