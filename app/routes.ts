@@ -102,6 +102,7 @@ export default [
   route("healthz", "routes/healthz.ts"),
   ...prefix("api/v1", [
     route("healthz", "routes/api/v1/healthz.ts"),
+    route("openapi.json", "routes/api/v1/openapi.ts"),
     route("studies", "routes/api/v1/studies.ts"),
     route("studies/:studyId", "routes/api/v1/study.ts"),
     route("studies/:studyId/results", "routes/api/v1/study-results.ts"),

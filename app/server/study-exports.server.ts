@@ -6,7 +6,8 @@
 import { analysisFlatTable, analysisSheets } from "~/lib/exports/analysis-tables";
 import type { ExportTable } from "~/lib/exports/table";
 import { resultsTable, visibleAnalysis } from "~/models/study-export.server";
-import { callerView, conditionalRead, requireApiStudyAccess, significanceParam } from "~/server/api.server";
+import { significanceQuery } from "~/lib/api/schemas";
+import { callerView, conditionalRead, readQuery, requireApiStudyAccess } from "~/server/api.server";
 import { CSV_TYPE, csvOfTable, workbookOfTables, XLSX_TYPE } from "~/server/spreadsheet.server";
 
 export type StudyExport = "results" | "analysis";
@@ -22,7 +23,7 @@ export async function studyExportResponse(request: Request, studyIdParam: string
   if (what === "results") {
     tables = [await resultsTable(study.id, access)];
   } else {
-    const analysis = await visibleAnalysis(study, access, significanceParam(new URL(request.url).searchParams));
+    const analysis = await visibleAnalysis(study, access, readQuery(request, significanceQuery).alpha);
     // A CSV holds one table: the labs' rows with their group's figures beside them.
     tables = format === "csv" ? [analysisFlatTable(analysis)] : analysisSheets(analysis);
   }

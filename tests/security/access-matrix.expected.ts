@@ -51,6 +51,7 @@ export const EXPECTED: Record<string, Partial<Record<Method, Record<Persona, num
   "files/:fileId": { GET: row(302, 200, 200, 404, 200, 404, 200, 404) },
   "healthz": { GET: row(200, 200, 200, 200, 200, 200, 200, 200) },
   "api/v1/healthz": { GET: row(200, 200, 200, 200, 200, 200, 200, 200) },
+  "api/v1/openapi.json": { GET: row(200, 200, 200, 200, 200, 200, 200, 200) },
   "api/v1/studies": { GET: row(401, 200, 200, 200, 200, 200, 200, 200) },
   "api/v1/studies/:studyId": { GET: row(401, 200, 200, 404, 200, 404, 200, 404) },
   "api/v1/studies/:studyId/results": { GET: row(401, 200, 200, 404, 404, 404, 200, 404) },

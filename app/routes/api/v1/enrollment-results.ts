@@ -1,27 +1,10 @@
 import { eq } from "drizzle-orm";
-import { z } from "zod";
 import type { Route } from "./+types/enrollment-results";
 import { db } from "~/db/client.server";
 import { enrollments } from "~/db/schema";
+import { idParam, resultsBody } from "~/lib/api/schemas";
 import { ApiError, apiHandler, notYours, readJsonBody, requireApiCaller } from "~/server/api.server";
 import { importResults, ResultsError } from "~/models/results.server";
-
-// Strict: a field the API does not know (a typo, `__proto__`) is refused rather than dropped.
-const resultsBody = z.strictObject({
-  results: z
-    .array(
-      z.strictObject({
-        material: z.string().min(1).max(40),
-        response: z.string().min(1).max(40),
-        replicate: z.number().int(),
-        value: z.number(),
-        testedOn: z.string().max(20).nullish(),
-        operator: z.string().max(200).nullish(),
-      }),
-    )
-    .min(1, { message: "Send at least one result." })
-    .max(5000, { message: "Send at most 5000 results per request." }),
-});
 
 /**
  * POST /api/v1/enrollments/:enrollmentId/results — a lab writes draft results.
@@ -32,8 +15,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   return apiHandler(async () => {
     if (request.method !== "POST") throw new ApiError(405, "method_not_allowed", "Use POST.");
     const { user, token } = await requireApiCaller(request);
-    const enrollmentId = Number(params.enrollmentId);
-    const enrollment = Number.isSafeInteger(enrollmentId) ? await db.query.enrollments.findFirst({ where: eq(enrollments.id, enrollmentId) }) : undefined;
+    const enrollmentId = idParam.safeParse(params.enrollmentId);
+    const enrollment = enrollmentId.success ? await db.query.enrollments.findFirst({ where: eq(enrollments.id, enrollmentId.data) }) : undefined;
     if (!enrollment || !user.labIds.includes(enrollment.labId)) throw notYours();
     if (token && (token.scope !== "results:write" || token.enrollmentId !== enrollment.id)) throw notYours();
     if (enrollment.state !== "accepted") throw new ApiError(409, "not_enrolled", enrollment.state === "withdrawn" ? "Your lab was withdrawn from this study." : "Your lab has not accepted this study.");
