@@ -15,6 +15,7 @@ export default [
   route("welcome/:token", "routes/auth/welcome.tsx"),
   route("setup/:token", "routes/auth/setup.tsx"),
   route("account", "routes/account.tsx"),
+  route("account/api", "routes/account-api.tsx"),
 
   // Coordinator (admins read)
   ...prefix("studies", [

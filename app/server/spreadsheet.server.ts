@@ -6,7 +6,6 @@
  * gets a leading apostrophe (papaparse's formula escaping), the workbook a
  * string cell, which a spreadsheet never evaluates.
  */
-import ExcelJS from "exceljs";
 import Papa from "papaparse";
 import { type ExportTable, FORMULA_START } from "~/lib/exports/table";
 
@@ -23,6 +22,8 @@ const DOCUMENT_DATE = new Date(Date.UTC(2000, 0, 1));
 
 /** Tables as sheets of one workbook: a bold, frozen header row of column titles, then the rows. */
 export async function workbookOfTables(tables: ExportTable[]): Promise<Uint8Array<ArrayBuffer>> {
+  // Loaded when a workbook is first asked for: the library is large, and most requests never need it.
+  const { default: ExcelJS } = await import("exceljs");
   const workbook = new ExcelJS.Workbook();
   workbook.creator = "Ringbatch";
   workbook.created = DOCUMENT_DATE;

@@ -21,6 +21,7 @@ export const EXPECTED: Record<string, Partial<Record<Method, Record<Persona, num
   "login": { GET: row(200, 302, 302, 302, 302, 302, 302, 302), POST: row(400, 400, 400, 400, 400, 400, 400, 400) },
   "logout": { GET: row(302, 302, 302, 302, 302, 302, 302, 302), POST: row(302, 302, 302, 302, 302, 302, 302, 302) },
   "account": { GET: row(302, 200, 200, 200, 200, 200, 200, 200), POST: row(302, 400, 400, 400, 400, 400, 400, 400) },
+  "account/api": { GET: row(302, 200, 200, 200, 200, 200, 200, 200) },
   "studies": { GET: row(302, 200, 200, 200, 404, 404, 404, 404) },
   "studies/new": { GET: row(302, 404, 200, 200, 404, 404, 404, 404), POST: row(302, 404, 400, 400, 404, 404, 404, 404) },
   "studies/:studyId [layout]": { GET: row(302, 200, 200, 404, 404, 404, 200, 404) },
