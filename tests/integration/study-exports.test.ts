@@ -3,13 +3,13 @@
  * analysis and review pages: status, type, file name, the columns each role
  * gets, and what comes back when the workbook is read with exceljs.
  */
-import { and, eq } from "drizzle-orm";
+import { eq } from "drizzle-orm";
 import ExcelJS from "exceljs";
 import Papa from "papaparse";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { amendments, cells, enrollments, materials, responses, results, users } from "~/db/schema";
-import { saveCellDecision } from "~/models/decisions.server";
+import { amendments, results, users } from "~/db/schema";
+import { findCellId, saveCellDecision } from "~/models/decisions.server";
 import * as analysisCsv from "~/routes/api/v1/study-analysis-csv";
 import * as analysisXlsx from "~/routes/api/v1/study-analysis-xlsx";
 import * as precision from "~/routes/api/v1/study-precision";
@@ -45,16 +45,14 @@ const sheetRows = (sheet: ExcelJS.Worksheet) => {
   return rows;
 };
 
-/** The demo's L01 × M3 × holes cell (the seed's planted within-lab scatter) and one other cell of L01. */
-async function cellOf(labCode: string, material: string, response: string) {
-  const [row] = await db
-    .select({ id: cells.id })
-    .from(cells)
-    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
-    .innerJoin(materials, eq(materials.id, cells.materialId))
-    .innerJoin(responses, eq(responses.id, cells.responseId))
-    .where(and(eq(enrollments.studyId, studyId), eq(enrollments.labCode, labCode), eq(materials.code, material), eq(responses.key, response)));
-  return row!.id;
+/** One cell of the study by lab code, material and response. */
+const cellOf = async (lab: string, material: string, response: string) => (await findCellId(studyId, { lab, material, response }))!;
+
+/** A download's status, type and file name. */
+function expectDownload(outcome: RouteOutcome, contentType: string, fileName: string) {
+  expect(outcome.status).toBe(200);
+  expect(outcome.headers.get("Content-Type")).toBe(contentType);
+  expect(outcome.headers.get("Content-Disposition")).toBe(`attachment; filename="${fileName}"`);
 }
 
 beforeAll(async () => {
@@ -73,9 +71,7 @@ beforeAll(async () => {
 describe("results download", () => {
   it("gives the coordinator every replicate with lab names, cell status, amendments and decisions, as .xlsx", async () => {
     const outcome = await download(resultsXlsx.loader, "results.xlsx", "coordinator@ringbatch.example");
-    expect(outcome.status).toBe(200);
-    expect(outcome.headers.get("Content-Type")).toBe(XLSX_TYPE);
-    expect(outcome.headers.get("Content-Disposition")).toBe('attachment; filename="FF-2026-A-results.xlsx"');
+    expectDownload(outcome, XLSX_TYPE, "FF-2026-A-results.xlsx");
     const sheet = (await workbook(outcome)).getWorksheet("Results")!;
     const [header, ...rows] = sheetRows(sheet);
     expect(header).toEqual(["Lab code", "Lab", "Material", "Response", "Replicate", "Value", "Test date", "Operator", "Cell status", "Amendments", "Cell decision", "Decision reason"]);
@@ -93,9 +89,7 @@ describe("results download", () => {
 
   it("gives the same rows as CSV, headed by the API's keys, and the JSON gains the decision columns", async () => {
     const outcome = await download(resultsCsv.loader, "results.csv", "admin@ringbatch.example");
-    expect(outcome.status).toBe(200);
-    expect(outcome.headers.get("Content-Type")).toBe("text/csv; charset=utf-8");
-    expect(outcome.headers.get("Content-Disposition")).toBe('attachment; filename="FF-2026-A-results.csv"');
+    expectDownload(outcome, "text/csv; charset=utf-8", "FF-2026-A-results.csv");
     const [header, ...rows] = csvRows(outcome);
     expect(header).toEqual(["lab", "labName", "material", "response", "replicate", "value", "testedOn", "operator", "status", "amendments", "decision", "decisionReason"]);
     expect(rows).toHaveLength(192);
@@ -134,9 +128,7 @@ describe("results download", () => {
 describe("analysis download", () => {
   it("gives the precision figures, the labs' statistics with flags and the excluded cells as sheets, equal to the engine's", async () => {
     const outcome = await download(analysisXlsx.loader, "analysis.xlsx", "coordinator@ringbatch.example");
-    expect(outcome.status).toBe(200);
-    expect(outcome.headers.get("Content-Type")).toBe(XLSX_TYPE);
-    expect(outcome.headers.get("Content-Disposition")).toBe('attachment; filename="FF-2026-A-analysis.xlsx"');
+    expectDownload(outcome, XLSX_TYPE, "FF-2026-A-analysis.xlsx");
     const book = await workbook(outcome);
     expect(book.worksheets.map((s) => s.name)).toEqual(["Precision", "Labs", "Excluded cells"]);
     const engine = (await call(precision.loader, get(path("precision"), await demoCookie("coordinator@ringbatch.example")), params())).data;
@@ -157,9 +149,7 @@ describe("analysis download", () => {
 
   it("gives one flat CSV at the chosen significance level, one row per material × response × lab", async () => {
     const outcome = await download(analysisCsv.loader, "analysis.csv", "coordinator@ringbatch.example", "?alpha=0.05");
-    expect(outcome.status).toBe(200);
-    expect(outcome.headers.get("Content-Type")).toBe("text/csv; charset=utf-8");
-    expect(outcome.headers.get("Content-Disposition")).toBe('attachment; filename="FF-2026-A-analysis.csv"');
+    expectDownload(outcome, "text/csv; charset=utf-8", "FF-2026-A-analysis.csv");
     const [header, ...rows] = csvRows(outcome);
     expect(header!.slice(0, 12)).toEqual(["material", "response", "lab", "labN", "mean", "s", "d", "h", "k", "flags", "cochran", "grubbs"]);
     // 4 materials × 2 responses × 8 labs, less the one excluded cell.
