@@ -9,13 +9,13 @@ export function StudyDownloads({ studyId, what, query = "" }: { studyId: number;
   const base = `/api/v1/studies/${studyId}/${what}`;
   const link = "inline-flex min-h-11 items-center font-semibold text-basalt-700 underline";
   return (
-    <p className="mb-2 flex flex-wrap items-center gap-x-4 text-sm">
-      <span className="text-basalt-700">Download:</span>
+    <p className="mb-2 flex flex-wrap items-center gap-x-3 text-sm">
+      <span className="text-basalt-700">Download {LABEL[what].toLowerCase()}:</span>
       <a href={`${base}.xlsx${query}`} download className={link}>
-        {LABEL[what]} as spreadsheet (.xlsx)
+        <span className="sr-only">{LABEL[what]} as </span>spreadsheet (.xlsx)
       </a>
       <a href={`${base}.csv${query}`} download className={link}>
-        {LABEL[what]} as CSV
+        <span className="sr-only">{LABEL[what]} as </span>CSV
       </a>
     </p>
   );

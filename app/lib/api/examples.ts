@@ -76,7 +76,8 @@ export function apiExamples(context: ApiExampleContext): ApiExample[] {
       title: `${entry.studyCode}: your lab sends draft results (all rows or none; the same request twice changes nothing)`,
       command: [
         `curl -s ${AUTH} -X POST -H "Content-Type: application/json" \\`,
-        `  -d '{"results":[${row(1, 10)},${row(2, 11)}]}' \\`,
+        `  -d '{"results":[${row(1, 10)},`,
+        `                  ${row(2, 11)}]}' \\`,
         `  $B/api/v1/enrollments/${entry.enrollmentId}/results`,
       ].join("\n"),
     });
