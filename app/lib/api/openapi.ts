@@ -125,9 +125,17 @@ export const API_ENDPOINTS: ApiEndpoint[] = [
     errors: [404],
   },
   {
+    method: "get",
+    path: "api/v1/enrollments/:enrollmentId/results",
+    summary: "The lab's own stored results, each replicate with its version for a later write to name (readVersion).",
+    who: "Analysts of the enrollment's lab, or their results:write token for it.",
+    answer: { schema: describedObject("{ enrollment: { id, studyId, labCode }, results[] } with each replicate's value and version.") },
+    errors: [404],
+  },
+  {
     method: "post",
     path: "api/v1/enrollments/:enrollmentId/results",
-    summary: "A lab writes draft results: all rows or none; the same request twice changes nothing; rows of submitted cells are refused (409).",
+    summary: "A lab writes draft results: all rows or none; the same request twice changes nothing; rows of submitted cells, and rows whose readVersion is no longer the stored one, are refused (409).",
     who: "Analysts of the enrollment's lab, or their results:write token for it.",
     body: resultsBody,
     answer: { schema: importAnswer },

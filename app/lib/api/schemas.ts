@@ -53,6 +53,12 @@ export const resultsBody = z.strictObject({
         value: z.number(),
         testedOn: z.string().max(20).nullish().meta({ description: "Test date, YYYY-MM-DD." }),
         operator: z.string().max(200).nullish(),
+        readVersion: z
+          .number()
+          .int()
+          .min(0)
+          .optional()
+          .meta({ description: "The replicate's `version` as read from GET (0: nothing stored). Given, the write is refused with 409 if the replicate has changed since." }),
       }),
     )
     .min(1, { message: "Send at least one result." })

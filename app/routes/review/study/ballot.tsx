@@ -19,6 +19,8 @@ import { writeRefusal } from "~/lib/write-rules";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { STATEMENT_STATE, VOTE_CHOICE } from "~/lib/state-labels";
 import { studyAnalysis } from "~/models/analysis.server";
+import { amendedAfterQueryCells } from "~/models/decisions.server";
+import { AmendedCellsNote } from "~/components/amended-badge";
 import { addComment, castVote, commentsOn, replyToAnswer, ReviewError, ruleOnObjection } from "~/models/review.server";
 import { listStatements, publicationStatus, reviewersByName, studyDesign, votesOn } from "~/models/statement.server";
 import { refuse } from "~/server/form-reply.server";
@@ -45,6 +47,7 @@ export async function loader({ context }: Route.LoaderArgs) {
       };
   return {
     current,
+    amendedCells: await amendedAfterQueryCells(study.id),
     study: {
       id: study.id,
       code: study.code,
@@ -147,7 +150,7 @@ const CHOICES = [
 ] as const;
 
 export default function ReviewStudy({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, statement, current, votes, own, comments, refusal, round, tally } = loaderData;
+  const { study, statement, current, votes, own, comments, refusal, round, tally, amendedCells } = loaderData;
   // Blinded like the page: lab codes, submitted results; the figures of the version sent, or the current ones before that.
   const downloads = (
     <>
@@ -174,6 +177,8 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
               <Card title="Current figures">
                 {downloads}
                 <PrecisionTables analysis={current.analysis} responses={current.responses} headingLevel={3} />
+                <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells amended after a correction query</h3>
+                <AmendedCellsNote amended={amendedCells} />
               </Card>
             </>
           )}
@@ -188,6 +193,8 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
             <StatementTexts textE691={statement.textE691} textC670={statement.textC670} />
             <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells left out</h3>
             <ExcludedCells excluded={statement.snapshot.analysis.excluded} />
+            <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells amended after a correction query</h3>
+            <AmendedCellsNote amended={amendedCells} />
             <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Download the figures of this version and the submitted results</h3>
             {downloads}
           </Card>
