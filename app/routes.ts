@@ -15,6 +15,7 @@ export default [
   route("welcome/:token", "routes/auth/welcome.tsx"),
   route("setup/:token", "routes/auth/setup.tsx"),
   route("account", "routes/account.tsx"),
+  route("account/api", "routes/account-api.tsx"),
 
   // Coordinator (admins read)
   ...prefix("studies", [
@@ -106,10 +107,14 @@ export default [
   route("healthz", "routes/healthz.ts"),
   ...prefix("api/v1", [
     route("healthz", "routes/api/v1/healthz.ts"),
+    route("openapi.json", "routes/api/v1/openapi.ts"),
     route("studies", "routes/api/v1/studies.ts"),
     route("studies/:studyId", "routes/api/v1/study.ts"),
     route("studies/:studyId/results", "routes/api/v1/study-results.ts"),
     route("studies/:studyId/results.csv", "routes/api/v1/study-results-csv.ts"),
+    route("studies/:studyId/results.xlsx", "routes/api/v1/study-results-xlsx.ts"),
+    route("studies/:studyId/analysis.csv", "routes/api/v1/study-analysis-csv.ts"),
+    route("studies/:studyId/analysis.xlsx", "routes/api/v1/study-analysis-xlsx.ts"),
     route("studies/:studyId/precision", "routes/api/v1/study-precision.ts"),
     route("studies/:studyId/progress", "routes/api/v1/study-progress.ts"),
     route("studies/:studyId/what-if", "routes/api/v1/study-what-if.ts"),

@@ -5,6 +5,9 @@ import { apiTokens, enrollments, studies } from "~/db/schema";
 import { studyAccessFor } from "~/server/guards.server";
 import { AccountError, type SessionUser } from "~/models/user.server";
 import { hashToken } from "~/server/token-hash.server";
+import type { ApiExampleContext } from "~/lib/api/examples";
+import { studyDesign } from "~/models/statement.server";
+import { listCoordinatedStudies, listLabEnrollments, listReviewedStudies } from "~/models/study.server";
 
 const TOKEN_PREFIX = "rbt_";
 
@@ -82,4 +85,38 @@ export async function activeApiToken(token: string) {
       .where(and(eq(apiTokens.id, row.id), or(isNull(apiTokens.lastUsedAt), lt(apiTokens.lastUsedAt, new Date(now.getTime() - LAST_USE_RESOLUTION_MS)))));
   }
   return row;
+}
+
+// Which of a person's studies the API page's examples use: one with results to read first.
+const EXAMPLE_ORDER = ["checking", "in_review", "published", "testing", "recruiting", "draft", "cancelled"];
+const byExampleOrder = <T extends { state: string }>(rows: T[]) => [...rows].sort((a, b) => EXAMPLE_ORDER.indexOf(a.state) - EXAMPLE_ORDER.indexOf(b.state));
+
+/** The person's own studies, round and lab enrollment that the API page fills its examples with. */
+export async function apiExampleContext(user: SessionUser, origin: string): Promise<ApiExampleContext> {
+  const coordinates = user.role === "admin" || user.role === "coordinator";
+  const reviews = user.role === "reviewer";
+  const [coordinated, reviewed, labStudies] = await Promise.all([
+    coordinates ? listCoordinatedStudies(user, "any") : Promise.resolve([]),
+    reviews ? listReviewedStudies(user.id) : Promise.resolve([]),
+    listLabEnrollments(user.labIds),
+  ]);
+  const readable = byExampleOrder(coordinates ? coordinated.filter((s) => s.kind === "precision") : reviewed);
+  const taking = labStudies.filter((e) => e.enrollmentState === "accepted" && e.studyState === "testing");
+  const entryStudy = taking[0] ?? null;
+  const design = entryStudy ? await studyDesign(entryStudy.studyId) : null;
+  const ownLab = byExampleOrder(labStudies.filter((e) => e.enrollmentState === "accepted").map((e) => ({ id: e.studyId, code: e.studyCode, state: e.studyState })));
+  const pick = (row: { id: number; code: string } | undefined) => (row ? { id: row.id, code: row.code } : null);
+  return {
+    origin,
+    email: user.email,
+    study: pick(readable[0] ?? (entryStudy ? { id: entryStudy.studyId, code: entryStudy.studyCode } : ownLab[0])),
+    coordinates,
+    reviews,
+    published: pick(readable.find((s) => s.state === "published")),
+    round: pick(byExampleOrder(coordinated.filter((s) => s.kind === "proficiency"))[0]),
+    entry:
+      entryStudy && design?.materials[0] && design.responses[0]
+        ? { enrollmentId: entryStudy.enrollmentId, studyCode: entryStudy.studyCode, material: design.materials[0].code, response: design.responses[0].key }
+        : null,
+  };
 }

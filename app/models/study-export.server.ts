@@ -3,12 +3,14 @@
  * admins see lab names; reviewers see lab codes only, never names or operators;
  * an analyst sees only their own lab.
  */
-import { asc, eq, inArray } from "drizzle-orm";
-import Papa from "papaparse";
+import { asc, count, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { enrollments, labs, materials, mixtureConstituents, responses, type Study } from "~/db/schema";
+import { amendments, cellDecisions, cells, enrollments, labs, materials, mixtureConstituents, responses, type Study } from "~/db/schema";
+import { type ExportColumn, type ExportTable, exportTable } from "~/lib/exports/table";
+import type { StudyAnalysis } from "~/lib/precision";
 import type { StudyAccess } from "~/server/guards.server";
-import { studyResultRows } from "~/models/analysis.server";
+import { studyAnalysis, type StudyResultRow, studyResultRows } from "~/models/analysis.server";
+import { listStatements } from "~/models/statement.server";
 
 type Enrollment = typeof enrollments.$inferSelect;
 
@@ -58,21 +60,76 @@ export async function studyDescription(study: Study, access: StudyAccess, ownEnr
   };
 }
 
-/** Results in long form for coordinators (all, with names and status) or reviewers (submitted, by code only). */
-export async function exportedResults(studyId: number, access: StudyAccess) {
+type ExportedResult = StudyResultRow & { amendments: number; decision: "retained" | "excluded" | null; decisionReason: string | null };
+
+const RESULT_COLUMNS: ExportColumn<ExportedResult>[] = [
+  { key: "lab", title: "Lab code", value: (r) => r.labCode },
+  { key: "labName", title: "Lab", value: (r) => r.labName },
+  { key: "material", title: "Material", value: (r) => r.material },
+  { key: "response", title: "Response", value: (r) => r.response },
+  { key: "replicate", title: "Replicate", value: (r) => r.replicate },
+  { key: "value", title: "Value", value: (r) => r.value },
+  { key: "testedOn", title: "Test date", value: (r) => r.testedOn },
+  { key: "operator", title: "Operator", value: (r) => r.operator },
+  { key: "status", title: "Cell status", value: (r) => r.status },
+  { key: "amendments", title: "Amendments", value: (r) => r.amendments },
+  { key: "decision", title: "Cell decision", value: (r) => r.decision },
+  { key: "decisionReason", title: "Decision reason", value: (r) => r.decisionReason },
+];
+
+/**
+ * What reviewers see: blinded (codes, never names or operators) and submitted
+ * cells only, so status and amendments, which only drafts and the labs'
+ * corrections show, stay with the coordinator.
+ */
+const REVIEWER_COLUMNS = new Set(["lab", "material", "response", "replicate", "value", "testedOn", "decision", "decisionReason"]);
+
+/**
+ * The study's results in long form, one row per replicate, with each cell's
+ * status, amendment count and decision: for coordinators and admins every
+ * result with lab names; for reviewers the submitted ones by lab code only.
+ * The results pages, the JSON API and both downloads read this one table.
+ */
+export async function resultsTable(studyId: number, access: StudyAccess): Promise<ExportTable> {
   const named = seesLabNames(access);
-  const rows = await studyResultRows(studyId, { submittedOnly: !named });
-  return rows.map((r) =>
-    named
-      ? { lab: r.labCode, labName: r.labName, material: r.material, response: r.response, replicate: r.replicate, value: r.value, testedOn: r.testedOn, operator: r.operator, status: r.status, amended: r.amended }
-      : { lab: r.labCode, material: r.material, response: r.response, replicate: r.replicate, value: r.value, testedOn: r.testedOn },
-  );
+  const [rows, amendmentCounts, decisions] = await Promise.all([
+    studyResultRows(studyId, { submittedOnly: !named }),
+    db
+      .select({ cellId: amendments.cellId, count: count() })
+      .from(amendments)
+      .innerJoin(cells, eq(cells.id, amendments.cellId))
+      .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+      .where(eq(enrollments.studyId, studyId))
+      .groupBy(amendments.cellId),
+    db
+      .select({ cellId: cellDecisions.cellId, decision: cellDecisions.decision, reason: cellDecisions.reason })
+      .from(cellDecisions)
+      .innerJoin(cells, eq(cells.id, cellDecisions.cellId))
+      .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+      .where(eq(enrollments.studyId, studyId)),
+  ]);
+  const amendmentsOf = new Map(amendmentCounts.map((a) => [a.cellId, a.count]));
+  const decisionOf = new Map(decisions.map((d) => [d.cellId, d]));
+  const exported = rows.map((r) => ({
+    ...r,
+    amendments: amendmentsOf.get(r.cellId) ?? 0,
+    decision: decisionOf.get(r.cellId)?.decision ?? null,
+    decisionReason: decisionOf.get(r.cellId)?.reason ?? null,
+  }));
+  const columns = named ? RESULT_COLUMNS : RESULT_COLUMNS.filter((c) => REVIEWER_COLUMNS.has(c.key));
+  return exportTable("Results", columns, exported);
 }
 
 /**
- * CSV of those rows. Text cells that start with =, +, - or @ get a leading
- * apostrophe so a spreadsheet shows them instead of running them.
+ * The analysis as the caller sees it: coordinators and admins the live
+ * figures at the chosen level; reviewers what the review page shows them,
+ * the figures frozen in the statement sent to the committee, or the live
+ * ones before any was sent.
  */
-export function resultsCsv(rows: Record<string, unknown>[]) {
-  return Papa.unparse(rows, { escapeFormulae: true, newline: "\r\n" });
+export async function visibleAnalysis(study: Study, access: StudyAccess, alpha?: number): Promise<StudyAnalysis> {
+  if (access === "reviewer") {
+    const sent = (await listStatements(study.id)).find((s) => s.sentAt !== null);
+    if (sent) return sent.snapshot.analysis;
+  }
+  return studyAnalysis(study, { alpha });
 }

@@ -1,6 +1,6 @@
 import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { data, Form, redirect, useNavigation } from "react-router";
+import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/account";
 import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { Button, Card, Field, Notice, PageHeader, SelectField, SimpleTable } from "~/components/ui";
@@ -190,7 +190,11 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
       <Card title="API tokens" className="mt-6">
         <p className="mb-4">
           Scripts and lab information systems use a token instead of your password. A token acts as you, for one
-          study only: it either writes your lab's draft results or reads the study. See the API section of the README.
+          study only: it either writes your lab's draft results or reads the study.{" "}
+          <Link to="/account/api" className="font-semibold text-basalt-700 underline">
+            Using the API
+          </Link>{" "}
+          shows the calls with your own studies filled in.
         </p>
         {newToken && (
           <div className="mb-4">

@@ -5,7 +5,8 @@
  * failure. Nothing from inside (a stack trace, a SQL message) ever leaves.
  */
 import { createHash, randomBytes } from "node:crypto";
-import { isSignificanceLevel } from "~/lib/precision";
+import type { z } from "zod";
+import { idParam } from "~/lib/api/schemas";
 import { enrollmentEnded, type StudyAccess, getUser, studyAccessFor } from "~/server/guards.server";
 import { activeApiToken, type ApiToken } from "~/models/api-token.server";
 import { loadSessionUser, type SessionUser } from "~/models/user.server";
@@ -81,8 +82,9 @@ export async function requireApiCaller(request: Request): Promise<ApiCaller> {
  */
 export async function requireApiStudyAccess(request: Request, studyIdParam: string | undefined, allowed: StudyAccess[]) {
   const caller = await requireApiCaller(request);
-  const studyId = Number(studyIdParam);
-  if (!Number.isSafeInteger(studyId) || studyId <= 0) throw notYours();
+  const id = idParam.safeParse(studyIdParam);
+  if (!id.success) throw notYours();
+  const studyId = id.data;
   if (caller.token && (caller.token.scope !== "study:read" || caller.token.studyId !== studyId)) throw notYours();
   const found = await studyAccessFor(caller.user, studyId);
   if (!found || !allowed.includes(found.access)) throw notYours();
@@ -90,8 +92,8 @@ export async function requireApiStudyAccess(request: Request, studyIdParam: stri
   return { ...caller, ...found };
 }
 
-/** What an API read sends: its text and type, and any further headers (a download's file name). */
-export type ApiRepresentation = { body: string; contentType: string; headers?: Record<string, string> };
+/** What an API read sends: its text (or a file's bytes) and type, and any further headers (a download's file name). */
+export type ApiRepresentation = { body: string | Uint8Array<ArrayBuffer>; contentType: string; headers?: Record<string, string> };
 
 /**
  * What makes one caller's view differ from another's for the same URL: the
@@ -107,7 +109,7 @@ const READ_CACHE_CONTROL = "private, no-cache";
 // Ties entity tags to this process's code: after a deployment the same data may be presented differently.
 const DEPLOYMENT_SALT = randomBytes(9).toString("base64url");
 
-const digest = (value: string) => createHash("sha256").update(value).digest("base64url");
+const digest = (value: string | Uint8Array) => createHash("sha256").update(value).digest("base64url");
 
 /** Whether an If-None-Match header names `etag`; weak comparison, as RFC 9110 §13.1.2 prescribes for it. */
 function ifNoneMatchHits(header: string | null, etag: string) {
@@ -148,13 +150,15 @@ export async function conditionalRead(
 
 export const JSON_TYPE = "application/json; charset=utf-8";
 
-/** The `alpha` query parameter: absent (the study's own level) or one of the engine's levels; 422 otherwise. */
-export function significanceParam(searchParams: URLSearchParams): number | undefined {
-  const param = searchParams.get("alpha");
-  if (param === null) return undefined;
-  const alpha = Number(param);
-  if (!isSignificanceLevel(alpha)) throw new ApiError(422, "invalid_alpha", "alpha must be 0.005, 0.01 or 0.05.");
-  return alpha;
+/**
+ * The query string, parsed with the route's schema from ~/lib/api/schemas
+ * (which the OpenAPI document shows too); 422 `invalid_<parameter>` otherwise.
+ */
+export function readQuery<S extends z.ZodType>(request: Request, schema: S): z.output<S> {
+  const parsed = schema.safeParse(Object.fromEntries(new URL(request.url).searchParams));
+  if (parsed.success) return parsed.data;
+  const [first] = parsed.error.issues;
+  throw new ApiError(422, `invalid_${String(first?.path[0] ?? "query")}`, first?.message ?? "The query is not valid.", parsed.error.issues.map((i) => ({ path: i.path.join("."), message: i.message })));
 }
 
 /**

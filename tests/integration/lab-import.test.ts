@@ -57,7 +57,7 @@ async function enrollmentOf(labIndex: number) {
 async function template(cookie: string, format: "csv" | "xlsx") {
   const outcome = await call(templateRoute.loader, get(`/lab/studies/${studyId}/import/template.${format}`, cookie), { studyId });
   expect(outcome.status).toBe(200);
-  return { headers: outcome.headers, bytes: new Uint8Array(await outcome.response!.arrayBuffer()) };
+  return { headers: outcome.headers, bytes: outcome.bytes! };
 }
 
 const HEADER = "material,response,replicate,value,tested_on,operator";

@@ -11,8 +11,8 @@ import { sessionStorage } from "~/server/session.server";
 type RouteFunction = (args: never) => unknown;
 type Middleware = (args: unknown, next: () => Promise<unknown>) => unknown;
 
-/** `response`: the Response itself, where the route answered with one (a file download). */
-export type RouteOutcome = { status: number; data: any; headers: Headers; response?: Response };
+/** `data`: a JSON answer, parsed; `bytes`: any other answer's body (a download). */
+export type RouteOutcome = { status: number; data: any; headers: Headers; bytes?: Uint8Array };
 
 type ConfigEntry = { file: string; children?: ConfigEntry[] };
 type RouteModule = { loader?: unknown; action?: unknown; middleware?: Middleware[] };
@@ -44,7 +44,13 @@ export async function call(fn: RouteFunction, request: Request, params: Record<s
 
 async function toOutcome(value: unknown): Promise<RouteOutcome> {
   if (value instanceof Response) {
-    return { status: value.status, data: value.headers.get("Content-Type")?.includes("json") ? await value.clone().json() : null, headers: value.headers, response: value };
+    const json = value.headers.get("Content-Type")?.includes("json");
+    return {
+      status: value.status,
+      data: json ? await value.clone().json() : null,
+      headers: value.headers,
+      bytes: json || !value.body ? undefined : new Uint8Array(await value.clone().arrayBuffer()),
+    };
   }
   if (value && typeof value === "object" && (value as { type?: string }).type === "DataWithResponseInit") {
     const { data, init } = value as { data: unknown; init?: ResponseInit };

@@ -1,39 +1,16 @@
 import { eq } from "drizzle-orm";
-import { z } from "zod";
 import type { Route } from "./+types/enrollment-results";
 import { db } from "~/db/client.server";
 import { enrollments } from "~/db/schema";
+import { idParam, resultsBody } from "~/lib/api/schemas";
 import { ApiError, apiHandler, JSON_TYPE, notYours, readJsonBody, requireApiCaller } from "~/server/api.server";
 import { type DraftConflict, enrollmentResults, importResults, ResultsError } from "~/models/results.server";
-
-// Strict: a field the API does not know (a typo, `__proto__`) is refused rather than dropped.
-const resultsBody = z.strictObject({
-  results: z
-    .array(
-      z.strictObject({
-        material: z.string().min(1).max(40),
-        response: z.string().min(1).max(40),
-        replicate: z.number().int(),
-        value: z.number(),
-        testedOn: z.string().max(20).nullish(),
-        operator: z.string().max(200).nullish(),
-        readVersion: z
-          .number()
-          .int()
-          .min(0)
-          .optional()
-          .describe("The replicate's `version` as read from GET (0: nothing stored). Given, the write is refused with 409 if the replicate has changed since."),
-      }),
-    )
-    .min(1, { message: "Send at least one result." })
-    .max(5000, { message: "Send at most 5000 results per request." }),
-});
 
 /** The lab's enrollment, when the caller (session or a `results:write` token for it) acts for that lab. */
 async function callersEnrollment(request: Request, enrollmentIdParam: string | undefined) {
   const { user, token } = await requireApiCaller(request);
-  const enrollmentId = Number(enrollmentIdParam);
-  const enrollment = Number.isSafeInteger(enrollmentId) ? await db.query.enrollments.findFirst({ where: eq(enrollments.id, enrollmentId) }) : undefined;
+  const enrollmentId = idParam.safeParse(enrollmentIdParam);
+  const enrollment = enrollmentId.success ? await db.query.enrollments.findFirst({ where: eq(enrollments.id, enrollmentId.data) }) : undefined;
   if (!enrollment || !user.labIds.includes(enrollment.labId)) throw notYours();
   if (token && (token.scope !== "results:write" || token.enrollmentId !== enrollment.id)) throw notYours();
   return { user, enrollment };

@@ -2,8 +2,9 @@ import { and, asc, count, eq, inArray, or } from "drizzle-orm";
 import type { Route } from "./+types/studies";
 import { db } from "~/db/client.server";
 import { enrollments, studies, studyCoordinators, studyReviewers } from "~/db/schema";
-import { readPage, requestedPage } from "~/lib/paging";
-import { apiHandler, callerView, conditionalRead, JSON_TYPE, requireApiCaller } from "~/server/api.server";
+import { pageQuery } from "~/lib/api/schemas";
+import { readPage } from "~/lib/paging";
+import { apiHandler, callerView, conditionalRead, JSON_TYPE, readQuery, requireApiCaller } from "~/server/api.server";
 
 /** Studies per page of the API's list: `?page=2` asks for the next; the answer says how many pages there are. */
 const API_PAGE_SIZE = 100;
@@ -27,7 +28,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     return conditionalRead(request, callerView(caller), null, async () => {
       const where = and(visible, token ? eq(studies.id, token.studyId ?? -1) : undefined);
       const { rows, ...page } = await readPage(
-        requestedPage(new URL(request.url).searchParams),
+        readQuery(request, pageQuery).page ?? 1,
         async () => (await db.select({ total: count() }).from(studies).where(where))[0]!.total,
         (limit, offset) => db.select(columns).from(studies).where(where).orderBy(asc(studies.code)).limit(limit).offset(offset),
         API_PAGE_SIZE,

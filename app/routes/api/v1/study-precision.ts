@@ -1,5 +1,6 @@
 import type { Route } from "./+types/study-precision";
-import { analysisVersion, apiHandler, callerView, conditionalRead, JSON_TYPE, requireApiStudyAccess, significanceParam } from "~/server/api.server";
+import { significanceQuery } from "~/lib/api/schemas";
+import { analysisVersion, apiHandler, callerView, conditionalRead, JSON_TYPE, readQuery, requireApiStudyAccess } from "~/server/api.server";
 import { studyAnalysisJson } from "~/models/analysis.server";
 
 /**
@@ -11,7 +12,7 @@ import { studyAnalysisJson } from "~/models/analysis.server";
 export async function loader({ request, params }: Route.LoaderArgs) {
   return apiHandler(async () => {
     const caller = await requireApiStudyAccess(request, params.studyId, ["admin", "coordinator", "reviewer"]);
-    const alpha = significanceParam(new URL(request.url).searchParams);
+    const { alpha } = readQuery(request, significanceQuery);
     return conditionalRead(request, callerView(caller), analysisVersion(caller.study), async () => ({
       body: await studyAnalysisJson(caller.study, { alpha }),
       contentType: JSON_TYPE,

@@ -1,6 +1,6 @@
 import type { Route } from "./+types/study-what-if";
-import { analysisVersion, ApiError, apiHandler, callerView, conditionalRead, JSON_TYPE, requireApiStudyAccess, significanceParam } from "~/server/api.server";
-import { parseCellList } from "~/lib/review/cells";
+import { whatIfQuery } from "~/lib/api/schemas";
+import { analysisVersion, apiHandler, callerView, conditionalRead, JSON_TYPE, readQuery, requireApiStudyAccess } from "~/server/api.server";
 import { studyAnalysisJson } from "~/models/analysis.server";
 
 /**
@@ -12,11 +12,8 @@ import { studyAnalysisJson } from "~/models/analysis.server";
 export async function loader({ request, params }: Route.LoaderArgs) {
   return apiHandler(async () => {
     const caller = await requireApiStudyAccess(request, params.studyId, ["admin", "coordinator"]);
-    const search = new URL(request.url).searchParams;
-    const alpha = significanceParam(search);
-    const parsed = parseCellList(search.get("exclude"));
-    if ("error" in parsed) throw new ApiError(422, "invalid_exclude", parsed.error);
-    const exclusions = parsed.cells.map((c) => ({ ...c, reason: "what-if" }));
+    const { alpha, exclude } = readQuery(request, whatIfQuery);
+    const exclusions = exclude.map((c) => ({ ...c, reason: "what-if" }));
     // The excluded cells are in the query string, which the tag covers.
     return conditionalRead(request, callerView(caller), analysisVersion(caller.study), async () => ({
       body: await studyAnalysisJson(caller.study, { alpha, exclusions }),

@@ -7,6 +7,7 @@ import { LazyCharts } from "~/components/charts/lazy-charts";
 import { fieldProps, FormErrors, formWideErrors, replyAbout, useSchemaForm } from "~/components/forms";
 import { PrecisionTables } from "~/components/precision-tables";
 import { StateBadge } from "~/components/state-badge";
+import { StudyDownloads } from "~/components/study-downloads";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
 import { VoteTrail } from "~/components/vote-trail";
 import type { StudyPageHandle } from "~/components/study-frame";
@@ -149,7 +150,14 @@ const CHOICES = [
 ] as const;
 
 export default function ReviewStudy({ loaderData, actionData }: Route.ComponentProps) {
-  const { statement, current, votes, own, comments, refusal, round, tally, amendedCells } = loaderData;
+  const { study, statement, current, votes, own, comments, refusal, round, tally, amendedCells } = loaderData;
+  // Blinded like the page: lab codes, submitted results; the figures of the version sent, or the current ones before that.
+  const downloads = (
+    <>
+      <StudyDownloads studyId={study.id} what="analysis" />
+      <StudyDownloads studyId={study.id} what="results" />
+    </>
+  );
   return (
     <div className="flex flex-col gap-6">
       <StatementCaution />
@@ -167,6 +175,7 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
                 <LazyCharts analysis={current.analysis} responses={current.responses} />
               </Card>
               <Card title="Current figures">
+                {downloads}
                 <PrecisionTables analysis={current.analysis} responses={current.responses} headingLevel={3} />
                 <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells amended after a correction query</h3>
                 <AmendedCellsNote amended={amendedCells} />
@@ -186,6 +195,8 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
             <ExcludedCells excluded={statement.snapshot.analysis.excluded} />
             <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells amended after a correction query</h3>
             <AmendedCellsNote amended={amendedCells} />
+            <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Download the figures of this version and the submitted results</h3>
+            {downloads}
           </Card>
           <Card title="Your vote">
             {own && (

@@ -10,6 +10,7 @@ import { PrecisionUncertainty } from "~/components/precision-uncertainty";
 import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { PrecisionTables } from "~/components/precision-tables";
 import { StateBadge } from "~/components/state-badge";
+import { StudyDownloads } from "~/components/study-downloads";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, Field, Notice, SimpleTable, TextAreaField } from "~/components/ui";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
@@ -177,6 +178,7 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
           <LazyCharts analysis={analysis} responses={responses} />
         </Card>
         <Card title="Tables">
+          <StudyDownloads studyId={study.id} what="analysis" query={`?alpha=${alpha}`} />
           <PrecisionTables
             analysis={analysis}
             responses={responses}

@@ -2,6 +2,7 @@ import { Link } from "react-router";
 import type { Route } from "./+types/results";
 import { CellStatusBadge } from "~/components/cell-status-badge";
 import { StateBadge } from "~/components/state-badge";
+import { StudyDownloads } from "~/components/study-downloads";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Badge, Card, SimpleTable } from "~/components/ui";
 import { describeAuditEvent } from "~/lib/audit-sentences";
@@ -42,11 +43,12 @@ export async function loader({ request, context }: Route.LoaderArgs) {
 const pageLink = (labs: number, page: number) => `?${new URLSearchParams({ labs: String(labs), page: String(page) })}`;
 
 export default function StudyResults({ loaderData }: Route.ComponentProps) {
-  const { responses, rows, labsPage, labsPageCount, audit } = loaderData;
+  const { study, responses, rows, labsPage, labsPageCount, audit } = loaderData;
   const amendmentRows = rows.flatMap((r) => r.amendments.map((a) => ({ ...a, labCode: r.labCode, materialCode: r.materialCode })));
   return (
     <div className="grid gap-6 [&>*]:min-w-0">
       <Card title="Results by lab and material">
+        <StudyDownloads studyId={study.id} what="results" />
         <SimpleTable
           caption="Replicate results by lab, material and response, with cell status"
           headers={["Lab code", "Lab", "Material", ...responses.map((r) => r.name), "Fresh properties"]}
