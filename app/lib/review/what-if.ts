@@ -4,7 +4,7 @@
  * one (material, response) at a time, so one material's rows give exactly the
  * figures the whole study's analysis gives for that material.
  */
-import { analyzeStudy, type GroupResult, type ResponseKind, type StudyAnalysis } from "~/lib/precision";
+import { analyzeStudy, type GroupResult, type ResponseKind } from "~/lib/precision";
 import { type CellRef, sameCell } from "./cells";
 
 /** One material's submitted results of the labs still in the study, with what the engine needs besides. */
@@ -26,18 +26,4 @@ export function materialWhatIf(input: MaterialResults, exclusions: readonly Cell
 export function exclusionsWith(saved: readonly CellRef[], cell: CellRef, decision: "retained" | "excluded"): CellRef[] {
   const others = saved.filter((e) => !sameCell(e, cell));
   return decision === "excluded" ? [...others, cell] : others;
-}
-
-/** The material shown by a page: `?material=` when the study has it, otherwise the first. */
-export function shownMaterial(requested: string | null, materials: readonly { code: string }[]): string | null {
-  return materials.find((m) => m.code === requested)?.code ?? materials[0]?.code ?? null;
-}
-
-/**
- * The analysis as a page of one material sends it: every group's precision
- * figures (the summary and level fits span all materials), the labs' cell
- * statistics only for `material`.
- */
-export function labsOfOneMaterial(analysis: StudyAnalysis, material: string | null): StudyAnalysis {
-  return { ...analysis, groups: analysis.groups.map((g) => (g.material === material ? g : { ...g, labs: [] })) };
 }

@@ -23,7 +23,8 @@ import { type ComputedGroup, type Finding, type GroupResult, isSignificanceLevel
 import { type CellRef, cellKey, parseCellList, sameCell } from "~/lib/review/cells";
 import { flaggedCells, flagStatistic, suggestedQuestion } from "~/lib/review/flags";
 import { ALPHA_LABEL, figureDecimals, formatFigure } from "~/lib/review/format";
-import { exclusionsWith, labsOfOneMaterial, materialWhatIf, shownMaterial } from "~/lib/review/what-if";
+import { exclusionsWith, materialWhatIf } from "~/lib/review/what-if";
+import { labsOfOneMaterial, shownMaterial } from "~/lib/shown-material";
 import { writeRefusal } from "~/lib/write-rules";
 import { ConfirmStep } from "~/components/confirm-dialog";
 import { QUERY_STATE } from "~/lib/state-labels";
