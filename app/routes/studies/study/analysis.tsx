@@ -1,6 +1,6 @@
 import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { useState } from "react";
+import { useEffect, useMemo, useState } from "react";
 import { Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/analysis";
@@ -19,11 +19,12 @@ import { studyPageMeta } from "~/lib/study-page-meta";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
-import { type ComputedGroup, type Finding, type GroupResult, isSignificanceLevel, SIGNIFICANCE_LEVELS } from "~/lib/precision";
+// The engine itself is loaded only with the exclusion preview (see useWhatIfEngine): import its parts, not its index.
+import type { ComputedGroup, Finding, GroupResult } from "~/lib/precision";
+import { isSignificanceLevel, SIGNIFICANCE_LEVELS } from "~/lib/precision/significance";
 import { type CellRef, cellKey, parseCellList, sameCell } from "~/lib/review/cells";
 import { flaggedCells, flagStatistic, suggestedQuestion } from "~/lib/review/flags";
 import { ALPHA_LABEL, figureDecimals, formatFigure } from "~/lib/review/format";
-import { exclusionsWith, materialWhatIf } from "~/lib/review/what-if";
 import { labsOfOneMaterial, shownMaterial } from "~/lib/shown-material";
 import { writeRefusal } from "~/lib/write-rules";
 import { ConfirmStep } from "~/components/confirm-dialog";
@@ -197,7 +198,7 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
           />
         </Card>
         <Card title={material ? `Charts of ${material}` : "Charts"}>
-          <LazyCharts analysis={analysis} responses={responses} />
+          <LazyCharts analysis={analysis} responses={responses} tableOnOpen />
         </Card>
         <Card title="Uncertainty of the figures">
           <PrecisionUncertainty analysis={analysis} responses={responses} />
@@ -403,16 +404,18 @@ function DecisionForm({
 }) {
   const [form, fields] = useSchemaForm(decideSchema, { reply: actionData, intent: "decide" });
   const [choice, setChoice] = useState<string>((fields.decision.initialValue as string | undefined) ?? decision?.decision ?? "");
-  const [after, setAfter] = useState<GroupResult[] | null>(null);
+  const engine = useWhatIfEngine();
   const { whatIf, decisionRefusal } = loaderData;
-  if (decisionRefusal || !whatIf) return <Notice>{decisionRefusal}</Notice>;
+  const saved = loaderData.analysis.excluded;
   // The preview is recomputed here, by the engine the server runs; saving recomputes on the server.
-  const preview = (value: "retained" | "excluded") => {
-    setChoice(value);
+  const after = useMemo(() => {
+    if (!engine || !whatIf || (choice !== "retained" && choice !== "excluded")) return null;
     const start = performance.now();
-    setAfter(materialWhatIf(whatIf, exclusionsWith(loaderData.analysis.excluded, cell, value)));
+    const groups = engine.materialWhatIf(whatIf, engine.exclusionsWith(saved, cell, choice));
     performance.measure("what-if recompute", { start, end: performance.now() });
-  };
+    return groups;
+  }, [engine, whatIf, saved, cell, choice]);
+  if (decisionRefusal || !whatIf) return <Notice>{decisionRefusal}</Notice>;
   const decisionError = fields.decision.errors?.[0];
   return (
     <Form method="post" className="flex flex-col gap-3" aria-labelledby="decide-heading" {...getFormProps(form)}>
@@ -432,7 +435,7 @@ function DecisionForm({
         <div className="flex flex-wrap gap-4">
           {(["retained", "excluded"] as const).map((value) => (
             <label key={value} className="inline-flex min-h-11 items-center gap-2">
-              <input type="radio" name={fields.decision.name} value={value} checked={choice === value} onChange={() => preview(value)} className="size-5" />
+              <input type="radio" name={fields.decision.name} value={value} checked={choice === value} onChange={() => setChoice(value)} className="size-5" />
               {value === "retained" ? "Retain the cell" : "Exclude the cell"}
             </label>
           ))}
@@ -474,6 +477,19 @@ function DecisionForm({
       </div>
     </Form>
   );
+}
+
+/** The precision engine, fetched once a cell is open for a decision rather than with the page. */
+function useWhatIfEngine() {
+  const [engine, setEngine] = useState<typeof import("~/lib/review/what-if") | null>(null);
+  useEffect(() => {
+    let current = true;
+    import("~/lib/review/what-if").then((module) => current && setEngine(module));
+    return () => {
+      current = false;
+    };
+  }, []);
+  return engine;
 }
 
 function BeforeAfter({ before, after, decimals, changed }: { before: ReturnType<typeof findGroup>; after: ReturnType<typeof findGroup>; decimals: number; changed: boolean }) {
