@@ -1,26 +1,15 @@
-import { getFormProps, type SubmissionResult } from "@conform-to/react";
+import type { SubmissionResult } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { useEffect } from "react";
-import { data, Form, isRouteErrorResponse, Link, type ShouldRevalidateFunctionArgs, useFetcher } from "react-router";
+import { lazy, Suspense, useEffect } from "react";
+import { data, Form, isRouteErrorResponse, Link, type ShouldRevalidateFunctionArgs } from "react-router";
 import type { Route } from "./+types/result-entry";
 import { CellStatusBadge } from "~/components/cell-status-badge";
 import { ConcreteCaution } from "~/components/cautions";
-import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Badge, Button, Card, Field, Notice } from "~/components/ui";
 import { formatDateTime } from "~/lib/format";
 import { draftChanges, rebaseDraft } from "~/lib/results/entry-draft";
-import {
-  amendFreshSchema,
-  amendSchema,
-  type DraftChanges,
-  draftProblems,
-  type EntryDraft,
-  entryDraftSchema,
-  photoSchema,
-  resultEntrySchema,
-  submitMaterialSchema,
-} from "~/lib/results/entry-forms";
+import { type DraftChanges, draftProblems, type EntryDraft, entryDraftSchema, resultEntrySchema } from "~/lib/results/entry-forms";
 import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
 import { SAVE_STATE_TEXT, useAutosavedDraft } from "~/lib/results/use-autosaved-draft";
 import { checkResultValue, checkTestDate } from "~/lib/results/values";
@@ -46,6 +35,13 @@ import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 import { readUploadForm } from "~/server/upload-form.server";
 import { UploadError } from "~/server/uploads.server";
+
+// The photo and amendment forms bring the form library with them; the grid and its autosave, what an
+// analyst needs first, do without it, so those forms arrive in a chunk of their own after the page.
+const laterForms = () => import("~/components/result-entry-forms");
+const PhotoCell = lazy(() => laterForms().then((module) => ({ default: module.PhotoCell })));
+const AmendForm = lazy(() => laterForms().then((module) => ({ default: module.AmendForm })));
+const AmendFreshForm = lazy(() => laterForms().then((module) => ({ default: module.AmendFreshForm })));
 
 const pageTitle = (data: { material: { code: string } }) => `Results of ${data.material.code}`;
 
@@ -276,8 +272,8 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
   const submitConflicts = submitReply && "conflicts" in submitReply ? (submitReply.conflicts as Record<string, string>) : undefined;
   const unusualValues = submitReply && "unusualValues" in submitReply ? (submitReply.unusualValues as UnusualValue[]) : [];
   const problems: Record<string, string> = { ...savedProblems, ...savedConflicts, ...submitProblems, ...submitConflicts, ...draftProblems(draft) };
-  const [submitForm] = useSchemaForm(submitMaterialSchema, { reply: submitReply, intent: "submit" });
-  const submitFormProps = getFormProps(submitForm);
+  // The submitted draft is the grid's, checked as the analyst types (draftProblems); the action's refusal of the form as a whole shows here.
+  const submitErrors = [...(submitReply?.result?.error?.[""] ?? []), ...(submitReply?.result?.error?.form ?? [])];
 
   useEffect(() => {
     if (locked) forget();
@@ -363,7 +359,11 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
           </div>
         </Card>
 
-        {locked && (editable || loaderData.correctable.length > 0) && <AmendFreshForm fresh={loaderData.draft.fresh} actionData={actionData} />}
+        {locked && (editable || loaderData.correctable.length > 0) && (
+          <Suspense>
+            <AmendFreshForm fresh={loaderData.draft.fresh} actionData={actionData} />
+          </Suspense>
+        )}
 
         <Card title={locked ? "Submitted results" : "Results per replicate"}>
           {locked ? (
@@ -449,7 +449,9 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
                           />
                         </td>
                         <td className="px-2 py-2">
-                          <PhotoCell replicate={replicate} photoId={photos[replicate]} editable={editable} />
+                          <Suspense>
+                            <PhotoCell replicate={replicate} photoId={photos[replicate]} editable={editable} />
+                          </Suspense>
                         </td>
                       </tr>
                     );
@@ -465,16 +467,8 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
             <p className="mb-3">
               Submitting locks every result of {material.code}. After that a change is an amendment with a reason, which the coordinator sees.
             </p>
-            <Form
-              method="post"
-              className="mt-3 grid gap-3"
-              {...submitFormProps}
-              onSubmit={(event) => {
-                flush();
-                submitFormProps.onSubmit(event);
-              }}
-            >
-              <FormErrors errors={formWideErrors(submitForm)} />
+            <Form method="post" className="mt-3 grid gap-3" onSubmit={() => flush()}>
+              {submitErrors.length > 0 && <Notice tone="error">{submitErrors.join(" ")}</Notice>}
               {unusualValues.length > 0 && (
                 <Notice tone="caution">
                   <p className="font-semibold">Please look again at these values before submitting:</p>
@@ -544,50 +538,6 @@ function CellInput({
   );
 }
 
-function PhotoCell({ replicate, photoId, editable }: { replicate: number; photoId?: number; editable: boolean }) {
-  // A fetcher of its own, so a refused photo is named beside its replicate and the grid keeps what was typed.
-  const fetcher = useFetcher<typeof action>();
-  const [form, fields] = useSchemaForm(photoSchema, { reply: fetcher.data, id: `photo-${replicate}` });
-  const error = fields.photo.errors?.[0] ?? formWideErrors(form)[0];
-  const id = fields.photo.id;
-  return (
-    <div className="flex flex-col gap-1">
-      {photoId && (
-        <a href={`/files/${photoId}`} className="font-semibold text-basalt-700 underline" target="_blank" rel="noreferrer">
-          View photo<span className="sr-only"> of replicate {replicate}</span>
-        </a>
-      )}
-      {editable && (
-        <fetcher.Form method="post" encType="multipart/form-data" className="flex flex-col gap-1" {...getFormProps(form)}>
-          <input type="hidden" name="intent" value="photo" />
-          <input type="hidden" name="replicate" value={replicate} />
-          <label htmlFor={id} className="sr-only">
-            Surface photo of replicate {replicate} (JPEG, PNG or WebP, at most 10 MB)
-          </label>
-          <input
-            id={id}
-            name={fields.photo.name}
-            type="file"
-            accept="image/jpeg,image/png,image/webp"
-            className="max-w-48 text-sm"
-            aria-invalid={error ? true : undefined}
-            aria-describedby={error ? `${id}-error` : undefined}
-          />
-          <Button type="submit" variant="secondary" className="min-h-9 px-2 py-1 text-sm" disabled={fetcher.state !== "idle"}>
-            {fetcher.state !== "idle" ? "Uploading…" : "Upload"}
-            <span className="sr-only"> photo of replicate {replicate}</span>
-          </Button>
-          {error && (
-            <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
-              {error}
-            </p>
-          )}
-        </fetcher.Form>
-      )}
-    </div>
-  );
-}
-
 type ResponseView = Route.ComponentProps["loaderData"]["responses"][number];
 
 function SubmittedResults({
@@ -629,7 +579,11 @@ function SubmittedResults({
                       </>
                     )}
                   </span>
-                  {(editable || correctable.includes(response.id)) && <AmendForm response={response} replicate={replicate} reply={mine ? actionData : undefined} />}
+                  {(editable || correctable.includes(response.id)) && (
+                    <Suspense>
+                      <AmendForm response={response} replicate={replicate} reply={mine ? actionData : undefined} />
+                    </Suspense>
+                  )}
                 </li>
               );
             })}
@@ -637,59 +591,6 @@ function SubmittedResults({
         </section>
       ))}
     </div>
-  );
-}
-
-function AmendForm({ response, replicate, reply }: { response: ResponseView; replicate: number; reply: ActionData }) {
-  const target = `${response.id}-${replicate}`;
-  const [form, fields] = useSchemaForm(amendSchema, { reply, id: `amend-${target}` });
-  // A value outside the plausible range is refused once, beside the value, and recorded when confirmed.
-  const unusual = reply !== undefined && "unusual" in reply && reply.unusual === true;
-  return (
-    <details className="flex-1" open={Boolean(reply)}>
-      <summary className="cursor-pointer font-semibold text-basalt-700 underline">
-        Amend<span className="sr-only"> {response.name}, replicate {replicate}</span>
-      </summary>
-      <Form method="post" className="mt-2 grid max-w-xl gap-2" {...getFormProps(form)}>
-        <input type="hidden" name="intent" value="amend" />
-        <input type="hidden" name="responseId" value={response.id} />
-        <input type="hidden" name="replicate" value={replicate} />
-        <input type="hidden" name="version" value={response.cell?.version ?? 0} />
-        <FormErrors errors={formWideErrors(form)} />
-        <Field label={`Corrected value, ${response.name.toLowerCase()}, replicate ${replicate}`} inputMode="decimal" {...fieldProps(fields.value)} />
-        <Field label="Reason for the change" hint="The coordinator sees the reason, the old and the new value." {...fieldProps(fields.reason)} />
-        {unusual ? (
-          <Button type="submit" name="confirmUnusual" value="yes">
-            Confirm the value and record the amendment
-          </Button>
-        ) : (
-          <Button type="submit">Record amendment</Button>
-        )}
-      </Form>
-    </details>
-  );
-}
-
-/** Corrected fresh properties of a submitted material, with the reason the coordinator reads in the audit trail. */
-function AmendFreshForm({ fresh, actionData }: { fresh: EntryDraft["fresh"]; actionData: ActionData }) {
-  const [form, fields] = useSchemaForm(amendFreshSchema, { reply: actionData, intent: "amend-fresh", id: "amend-fresh", defaultValue: fresh });
-  return (
-    <Card title="Amend fresh properties">
-      <p className="mb-3 text-basalt-700">The results are submitted: a corrected reading needs its reason, which the coordinator sees in the audit trail.</p>
-      <Form method="post" className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3" {...getFormProps(form)}>
-        <input type="hidden" name="intent" value="amend-fresh" />
-        <div className="sm:col-span-2 lg:col-span-3">
-          <FormErrors errors={formWideErrors(form)} />
-        </div>
-        {FRESH_PROPERTY_NAMES.map((property) => (
-          <Field key={property} label={`${FRESH_FIELDS[property].label} (${FRESH_FIELDS[property].unit})`} inputMode="decimal" {...fieldProps(fields[property])} />
-        ))}
-        <Field label="Reason for changing the fresh properties" {...fieldProps(fields.reason)} />
-        <div className="self-end">
-          <Button type="submit">Record the amendment</Button>
-        </div>
-      </Form>
-    </Card>
   );
 }
 
