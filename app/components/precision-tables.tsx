@@ -141,17 +141,19 @@ export function LabTable({
   );
 }
 
-/** Every response of the analysis: its summary, then each material's lab table. */
+/** Every response of the analysis: its summary, then each material's lab table (or only `material`'s). */
 export function PrecisionTables({
   analysis,
   responses,
   labAction,
   headingLevel = 2,
+  material,
 }: {
   analysis: StudyAnalysis;
   responses: ResponseInfo[];
   labAction?: (group: GroupResult, lab: LabResult) => ReactNode;
   headingLevel?: 2 | 3;
+  material?: string | null;
 }) {
   const Heading = headingLevel === 2 ? "h2" : "h3";
   return (
@@ -164,7 +166,7 @@ export function PrecisionTables({
           </Heading>
           <PrecisionSummaryTable analysis={analysis} response={response} />
           {analysis.groups
-            .filter((g) => g.response === response.key)
+            .filter((g) => g.response === response.key && (material == null || g.material === material))
             .map((group) => (
               <LabTable key={group.material} group={group} response={response} labAction={labAction} headingLevel={headingLevel === 2 ? 3 : 4} />
             ))}

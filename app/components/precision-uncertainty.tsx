@@ -5,7 +5,8 @@
  * form the statement uses. Shared by the analysis page and the report.
  */
 import { SimpleTable } from "~/components/ui";
-import { formatSignificant, type ComputedGroup, type StudyAnalysis } from "~/lib/precision";
+import type { ComputedGroup, StudyAnalysis } from "~/lib/precision";
+import { formatSignificant } from "~/lib/precision/significant-digits";
 import type { ResponseInfo } from "~/components/precision-tables";
 
 const sig = (x: number | null | undefined) => formatSignificant(x, 3);

@@ -54,14 +54,30 @@ function queued<T>(run: () => Promise<T>): Promise<T> {
 
 const isRead = (statement: InStatement) => /^\s*select\b/i.test(typeof statement === "string" ? statement : statement.sql);
 
+/**
+ * How hard a commit waits for the disk. With WAL, SQLite's NORMAL syncs at
+ * checkpoints instead of on every commit: a commit costs about 0.06 ms instead
+ * of 6 ms on this project's machine, and the database stays consistent after
+ * any crash; a power cut (not a process crash) can undo the last commits
+ * before a checkpoint. `DATABASE_SYNCHRONOUS=FULL` keeps every commit on disk.
+ */
+export function synchronousLevel(env: NodeJS.ProcessEnv = process.env) {
+  return env.DATABASE_SYNCHRONOUS?.toUpperCase() === "FULL" ? "FULL" : "NORMAL";
+}
+
 function queueLocalWrites(client: Client): Client {
+  // The level is a setting of each connection of the driver's pool, and cannot change inside a
+  // transaction: it is set just before each write, on the idle connection the write then borrows
+  // (a no-op where it is already set, a few microseconds).
+  const pragma = `PRAGMA synchronous = ${synchronousLevel()}`;
   return new Proxy(client, {
     get(target, property) {
       const value = Reflect.get(target, property);
       if (typeof value !== "function") return value;
-      const call = (args: unknown[]) => value.apply(target, args);
-      if (property === "execute") return (...args: [InStatement, ...unknown[]]) => (isRead(args[0]) ? call(args) : queued(() => call(args)));
-      if (property === "batch" || property === "migrate" || property === "executeMultiple") return (...args: unknown[]) => queued(() => call(args));
+      const write = (args: unknown[]) => queued(() => target.execute(pragma).then(() => value.apply(target, args)));
+      if (property === "execute") return (...args: [InStatement, ...unknown[]]) => (isRead(args[0]) ? value.apply(target, args) : write(args));
+      if (property === "batch" || property === "migrate" || property === "executeMultiple") return (...args: unknown[]) => write(args);
+      if (property === "transaction") return (...args: unknown[]) => target.execute(pragma).then(() => value.apply(target, args));
       return value.bind(target);
     },
   });

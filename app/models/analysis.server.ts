@@ -8,6 +8,7 @@ import { LRUCache } from "lru-cache";
 import { db, type Transaction } from "~/db/client.server";
 import { cellDecisions, cells, enrollments, labs, materials, responses, results, studies, type Study } from "~/db/schema";
 import { analyzeStudy, type ExcludedCell, type StudyAnalysis } from "~/lib/precision";
+import type { MaterialResults } from "~/lib/review/what-if";
 
 
 export type StudyResultRow = {
@@ -32,7 +33,10 @@ export type StudyResultRow = {
  * the study (their results are kept, but no longer analysed); `enrollmentId`
  * keeps one lab's.
  */
-export async function studyResultRows(studyId: number, { submittedOnly = false, withoutWithdrawn = false, enrollmentId }: { submittedOnly?: boolean; withoutWithdrawn?: boolean; enrollmentId?: number } = {}): Promise<StudyResultRow[]> {
+export async function studyResultRows(
+  studyId: number,
+  { submittedOnly = false, withoutWithdrawn = false, enrollmentId, material }: { submittedOnly?: boolean; withoutWithdrawn?: boolean; enrollmentId?: number; material?: string } = {},
+): Promise<StudyResultRow[]> {
   const rows = await db
     .select({
       cellId: cells.id,
@@ -59,7 +63,8 @@ export async function studyResultRows(studyId: number, { submittedOnly = false, 
         eq(enrollments.studyId, studyId),
         submittedOnly ? eq(cells.status, "submitted") : undefined,
         withoutWithdrawn ? ne(enrollments.state, "withdrawn") : undefined,
-        enrollmentId !== undefined ? eq(enrollments.id, enrollmentId) : undefined,
+        enrollmentId === undefined ? undefined : eq(enrollments.id, enrollmentId),
+        material === undefined ? undefined : eq(materials.code, material),
       ),
     )
     .orderBy(asc(enrollments.labCode), asc(materials.sortOrder), asc(responses.sortOrder), asc(results.replicate));
@@ -97,6 +102,24 @@ export function bumpDataVersion(tx: Transaction, studyId: number) {
   return tx.update(studies).set({ dataVersion: sql`${studies.dataVersion} + 1` }).where(eq(studies.id, studyId));
 }
 
+async function studyResponseKinds(studyId: number) {
+  const kinds = await db.select({ key: responses.key, kind: responses.kind }).from(responses).where(eq(responses.studyId, studyId));
+  return Object.fromEntries(kinds.map((k) => [k.key, k.kind]));
+}
+
+/**
+ * What the analysis reads of one material, for the page to preview an
+ * exclusion itself: the same rows, kinds and significance level as the server's
+ * analysis (see `materialWhatIf`).
+ */
+export async function materialResults(study: Study, material: string, alpha: number): Promise<MaterialResults> {
+  const [rows, responseKinds] = await Promise.all([
+    studyResultRows(study.id, { submittedOnly: true, withoutWithdrawn: true, material }),
+    studyResponseKinds(study.id),
+  ]);
+  return { material, alpha, responseKinds, results: rows.map((r) => ({ lab: r.labCode, response: r.response, replicate: r.replicate, value: r.value })) };
+}
+
 // Analyses are pure functions of (data version, alpha, exclusions): cache them by that key, with
 // their JSON. A stale entry can never be served: any change of results or decisions bumps data_version,
 // so the saved decisions need no lookup on a hit.
@@ -113,14 +136,14 @@ async function cachedAnalysis(study: Study, options: { alpha?: number; exclusion
   const key = cacheKey(study, options);
   const hit = cache.get(key);
   if (hit) return hit;
-  const [rows, kinds, exclusions] = await Promise.all([
+  const [rows, responseKinds, exclusions] = await Promise.all([
     studyResultRows(study.id, { submittedOnly: true, withoutWithdrawn: true }),
-    db.select({ key: responses.key, kind: responses.kind }).from(responses).where(eq(responses.studyId, study.id)),
+    studyResponseKinds(study.id),
     options.exclusions ?? excludedCells(study.id),
   ]);
   const analysis = analyzeStudy(
     rows.map((r) => ({ lab: r.labCode, material: r.material, response: r.response, replicate: r.replicate, value: r.value })),
-    { alpha, excludedCells: exclusions, responseKinds: Object.fromEntries(kinds.map((k) => [k.key, k.kind])) },
+    { alpha, excludedCells: exclusions, responseKinds },
   );
   const entry: CachedAnalysis = { analysis };
   cache.set(key, entry);

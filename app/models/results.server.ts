@@ -11,6 +11,7 @@ import { recordAudit } from "~/server/audit.server";
 import type { TemplateRow } from "~/lib/results/results-template";
 import { cellKey, type ResolvedRow, resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { cellStatusOf } from "~/lib/cell-status";
+import { shownMaterial } from "~/lib/shown-material";
 import { checkResultValue, outsidePlausibleRange } from "~/lib/results/values";
 import { PHOTO_MAX_BYTES } from "~/lib/results/entry-forms";
 import { enrollmentRefusal, writeRefusal } from "~/lib/write-rules";
@@ -542,10 +543,13 @@ function groupBy<T, K>(items: T[], keyOf: (item: T) => K) {
 
 /**
  * The coordinator's view: the study's results by lab and material, with cell
- * status and amendments, ten labs a page so the page stays light as a study grows.
+ * status and amendments, ten labs a page of one material (the requested one,
+ * or the first), so the page stays light as a study grows.
  */
-export async function studyResults(studyId: number, labsPage = 1) {
+export async function studyResults(studyId: number, labsPage = 1, requestedMaterial: string | null = null) {
   const frame = await studyFrame(studyId);
+  const material = shownMaterial(requestedMaterial, frame.materials);
+  const shownMaterials = frame.materials.filter((m) => m.code === material);
   const allEnrollments = await db
     .select({ id: enrollments.id, labCode: enrollments.labCode, labName: labs.name, state: enrollments.state })
     .from(enrollments)
@@ -555,7 +559,12 @@ export async function studyResults(studyId: number, labsPage = 1) {
   const pageCount = Math.max(1, Math.ceil(allEnrollments.length / RESULTS_LABS_PER_PAGE));
   const page = Number.isSafeInteger(labsPage) ? Math.min(Math.max(1, labsPage), pageCount) : 1;
   const pageEnrollments = allEnrollments.slice((page - 1) * RESULTS_LABS_PER_PAGE, page * RESULTS_LABS_PER_PAGE);
-  const studyCells = pageEnrollments.length ? await db.select().from(cells).where(inArray(cells.enrollmentId, pageEnrollments.map((e) => e.id))) : [];
+  const studyCells = pageEnrollments.length
+    ? await db
+        .select()
+        .from(cells)
+        .where(and(inArray(cells.enrollmentId, pageEnrollments.map((e) => e.id)), inArray(cells.materialId, shownMaterials.map((m) => m.id))))
+    : [];
   const cellIds = studyCells.map((c) => c.id);
   const [cellResults, cellAmendments] = cellIds.length
     ? await Promise.all([
@@ -572,7 +581,7 @@ export async function studyResults(studyId: number, labsPage = 1) {
   const resultsByCell = groupBy(cellResults, (r) => r.cellId);
   const amendmentsByCell = groupBy(cellAmendments, (a) => a.cellId);
   const rows = pageEnrollments.flatMap((enrollment) =>
-    frame.materials.map((material) => {
+    shownMaterials.map((material) => {
       const materialCells = frame.responses.map((response) => ({ response, cell: cellByKey.get(`${enrollment.id}:${material.id}:${response.id}`) }));
       return {
         enrollmentId: enrollment.id,
@@ -590,7 +599,7 @@ export async function studyResults(studyId: number, labsPage = 1) {
       };
     }),
   );
-  return { study: frame.study, materials: frame.materials, responses: frame.responses, rows, labsPage: page, labsPageCount: pageCount };
+  return { study: frame.study, materials: frame.materials, material, responses: frame.responses, rows, labsPage: page, labsPageCount: pageCount };
 }
 
 export const AUDIT_PAGE_SIZE = 25;

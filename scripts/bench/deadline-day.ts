@@ -15,6 +15,57 @@ export type Timing = { kind: Kind; ms: number; status: number };
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
+/**
+ * What the result entry's autosave sends (see `draftChanges`): the replicate
+ * that changed, with the version it was read at, which the server checks
+ * so that two people never overwrite each other.
+ */
+function autosaveBody(key: string, value: string, readVersion: number) {
+  const [response, replicate] = key.split(":") as [string, string];
+  const row = { response, replicate: Number(replicate), value, testedOn: "", operator: "", readVersion };
+  return new URLSearchParams({ intent: "draft", draft: JSON.stringify({ rows: [row], fresh: {} }) });
+}
+
+/**
+ * An analyst's view of one material's replicates, keyed `response:replicate`:
+ * the value and version last read (from the database to begin with, a
+ * replicate not stored yet being version 0), moved on by each acknowledged save.
+ */
+export class ReadReplicates {
+  private constructor(private readonly read: Map<string, { value: string; version: number }>) {}
+
+  static async of(enrollmentId: number, materialId: number) {
+    const stored = await db
+      .select({ key: responses.key, replicate: results.replicate, value: results.value, version: results.version })
+      .from(results)
+      .innerJoin(cells, eq(cells.id, results.cellId))
+      .innerJoin(responses, eq(responses.id, cells.responseId))
+      .where(and(eq(cells.enrollmentId, enrollmentId), eq(cells.materialId, materialId)));
+    return new ReadReplicates(new Map(stored.map((r) => [`${r.key}:${r.replicate}`, { value: String(r.value), version: r.version }])));
+  }
+
+  body(key: string, value: string) {
+    return autosaveBody(key, value, this.read.get(key)?.version ?? 0);
+  }
+
+  /** After the server acknowledged `value`: a new value is a new version, the same value again no write at all. */
+  saved(key: string, value: string) {
+    const before = this.read.get(key);
+    if (before?.value !== value) this.read.set(key, { value, version: (before?.version ?? 0) + 1 });
+  }
+}
+
+/** The enrollment in the study of each analyst's lab, by e-mail. */
+async function enrollmentsOf(studyId: number, analysts: string[]) {
+  const rows = await db
+    .select({ email: users.email, enrollmentId: enrollments.id })
+    .from(users)
+    .innerJoin(labMembers, eq(labMembers.userId, users.id))
+    .innerJoin(enrollments, and(eq(enrollments.labId, labMembers.labId), eq(enrollments.studyId, studyId)))
+    .where(inArray(users.email, analysts));
+  return new Map(rows.map((r) => [r.email, r.enrollmentId]));
+}
+
 export async function deadlineDay(options: {
   url: string;
   studyId: number;
@@ -53,25 +104,30 @@ export async function deadlineDay(options: {
 
   /** What each analyst's last acknowledged save held: email → material → "response:replicate" → value. */
   const acknowledged = new Map<string, { materialId: number; values: Record<string, string> }>();
+  const enrollmentOf = await enrollmentsOf(studyId, options.analysts);
   const analyst = async (cookie: string, index: number) => {
     const materialId = materialIds[index % materialIds.length]!;
-    const draft = { values: {} as Record<string, string>, testedOn: {}, operator: {}, fresh: {}, batchedAt: "" };
+    const values: Record<string, string> = {};
+    const replicates = await ReadReplicates.of(enrollmentOf.get(options.analysts[index]!)!, materialId);
     let step = 0;
     await sleep(Math.random() * 2000);
     while (running()) {
       // One more replicate typed (or retyped) per save: both responses, replicates 1–5 in turn.
       const key = `${step % 2 === 0 ? "holes" : "surface"}:${(Math.floor(step / 2) % 5) + 1}`;
-      draft.values[key] = String(8 + ((index + step) % 9));
+      const value = String(8 + ((index + step) % 9));
       step++;
-      const sent = JSON.stringify(draft);
       const response = await timed("autosave", () =>
         fetch(`${url}/lab/studies/${studyId}/results/${materialId}.data`, {
           method: "POST",
           headers: { Cookie: cookie, Origin: url, "Content-Type": "application/x-www-form-urlencoded" },
-          body: new URLSearchParams({ intent: "draft", draft: sent }),
+          body: replicates.body(key, value),
         }),
       );
-      if (response?.ok) acknowledged.set(options.analysts[index]!, { materialId, values: JSON.parse(sent).values });
+      if (response?.ok) {
+        replicates.saved(key, value);
+        values[key] = value;
+        acknowledged.set(options.analysts[index]!, { materialId, values: { ...values } });
+      }
       await sleep(1500 + Math.random() * 1000);
     }
   };
@@ -102,13 +158,7 @@ export async function deadlineDay(options: {
   // Every acknowledged save, looked up where the server keeps it.
   let checked = 0;
   const missing: string[] = [];
-  const labOf = await db
-    .select({ email: users.email, enrollmentId: enrollments.id })
-    .from(users)
-    .innerJoin(labMembers, eq(labMembers.userId, users.id))
-    .innerJoin(enrollments, and(eq(enrollments.labId, labMembers.labId), eq(enrollments.studyId, studyId)))
-    .where(inArray(users.email, options.analysts));
-  for (const { email, enrollmentId } of labOf) {
+  for (const [email, enrollmentId] of enrollmentOf) {
     const saved = acknowledged.get(email);
     if (!saved) continue;
     const stored = await db

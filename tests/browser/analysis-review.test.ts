@@ -53,9 +53,18 @@ describe("from the checking study to a published statement, in the browser", () 
     await coordinator.goto(`${running.server.url}/studies/${STUDY}/analysis?cell=L08:M2:surface#investigate`);
     await coordinator.getByText("Our operator counted the surface passes twice").waitFor();
     const sRBefore = await coordinator.getByRole("table", { name: "Precision statistics of Passes to reach the target surface by material" }).getByRole("row").filter({ hasText: "M2" }).textContent();
+    // The preview is recomputed in the page: no request for data leaves for it (only the page's own code may still load).
+    const asked: string[] = [];
+    const record = (request: { url(): string }) => {
+      const { pathname } = new URL(request.url());
+      if (!pathname.startsWith("/assets/") && pathname !== "/__manifest") asked.push(pathname);
+    };
+    coordinator.on("request", record);
     await coordinator.getByLabel("Exclude the cell").check();
     const preview = coordinator.getByRole("table", { name: "Figures of this material and response before and after the decision" });
     await expect.poll(() => preview.getByRole("row").filter({ hasText: "Labs p" }).textContent()).toMatch(/87/);
+    coordinator.off("request", record);
+    expect(asked).toEqual([]);
     await expectAccessible(coordinator);
     await coordinator.getByLabel("Reason", { exact: true }).fill("The lab confirmed a counting error (assignable cause).");
     await coordinator.getByRole("button", { name: "Save decision" }).click();

@@ -2,6 +2,7 @@ import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { auditEvents, emailOutbox, queries, studies } from "~/db/schema";
+import { exclusionsWith, materialWhatIf } from "~/lib/review/what-if";
 import { answerQuery } from "~/models/lab-queries.server";
 import * as analysisPage from "~/routes/studies/study/analysis";
 import * as queriesPage from "~/routes/studies/study/queries";
@@ -40,6 +41,20 @@ describe("the analysis page", () => {
     const loose = await call(analysisPage.loader, get(page("?alpha=0.05"), coordinator), { studyId });
     expect(loose.data.alpha).toBe(0.05);
     expect(group(loose.data.analysis, "M1", "holes").kCritical).toBeLessThan(group(strict.data.analysis, "M1", "holes").kCritical);
+  });
+
+  it("sends the labs' cell statistics of one material at a time, the first by default, and every material's precision figures", async () => {
+    const labsSentFor = (data: any) => [...new Set(data.analysis.groups.filter((g: any) => g.labs.length > 0).map((g: any) => g.material))];
+    const first = (await call(analysisPage.loader, get(page(), coordinator), { studyId })).data;
+    expect(first.material).toBe("M1");
+    expect(labsSentFor(first)).toEqual(["M1"]);
+    expect(new Set(first.analysis.groups.map((g: any) => g.material))).toEqual(new Set(first.materials.map((m: any) => m.code)));
+    expect(group(first.analysis, "M3", "holes").sR).toBeGreaterThan(0);
+    const third = (await call(analysisPage.loader, get(page("?material=M3"), coordinator), { studyId })).data;
+    expect(labsSentFor(third)).toEqual(["M3"]);
+    expect(labsSentFor((await call(analysisPage.loader, get(page("?material=nonsense"), coordinator), { studyId })).data)).toEqual(["M1"]);
+    // Investigating a cell shows its material, whatever ?material= says.
+    expect((await call(analysisPage.loader, get(page("?material=M1&cell=L08:M2:surface"), coordinator), { studyId })).data.material).toBe("M2");
   });
 
   it("refuses other people with 404 and reviewers too", async () => {
@@ -109,6 +124,18 @@ describe("cell decisions", () => {
     expect(reviewer.status).toBe(404);
   });
 
+  it("computes the preview in the page with the server's engine, and the server's what-if agrees", async () => {
+    const cell = { lab: "L08", material: "M2", response: "surface" };
+    const { data } = await call(analysisPage.loader, get(page("?cell=L08:M2:surface"), coordinator), { studyId });
+    const inPage = (decision: "retained" | "excluded") => JSON.parse(JSON.stringify(materialWhatIf(data.whatIf, exclusionsWith(data.analysis.excluded, cell, decision))));
+    const server = await call(whatIf.loader, get(`/api/v1/studies/${studyId}/what-if?exclude=L08:M2:surface`, coordinator), { studyId });
+    const serverM2 = server.data.groups.filter((g: any) => g.material === "M2");
+    expect(inPage("excluded")).toEqual(serverM2);
+    expect(group({ groups: inPage("excluded") }, "M2", "surface").p).toBe(group(data.analysis, "M2", "surface").p - 1);
+    // Retaining the cell gives back the figures the page already shows.
+    expect(inPage("retained")).toEqual(JSON.parse(JSON.stringify(data.analysis.groups.filter((g: any) => g.material === "M2"))));
+  });
+
   it("requires a decision and a reason", async () => {
     const outcome = await call(analysisPage.action, post(page(), { intent: "decide", lab: "L08", material: "M2", response: "surface", reason: "" }, coordinator), { studyId });
     expect(outcome.status).toBe(400);
@@ -116,7 +143,8 @@ describe("cell decisions", () => {
   });
 
   it("excludes a cell with its reason: the figures change, the data version moves, the trail records it", async () => {
-    const before = (await call(analysisPage.loader, get(page(), coordinator), { studyId })).data;
+    const before = (await call(analysisPage.loader, get(page("?cell=L08:M2:surface"), coordinator), { studyId })).data;
+    const previewed = materialWhatIf(before.whatIf, exclusionsWith(before.analysis.excluded, { lab: "L08", material: "M2", response: "surface" }, "excluded"));
     const reason = "Lab confirmed an operator counting error on that day (query answered).";
     const saved = await call(analysisPage.action, post(page(), { intent: "decide", lab: "L08", material: "M2", response: "surface", decision: "excluded", reason }, coordinator), { studyId });
     expect(saved.status).toBe(302);
@@ -124,6 +152,9 @@ describe("cell decisions", () => {
     expect(after.study.dataVersion).toBe(before.study.dataVersion + 1);
     expect(group(after.analysis, "M2", "surface").p).toBe(group(before.analysis, "M2", "surface").p - 1);
     expect(group(after.analysis, "M2", "surface").sR).toBeLessThan(group(before.analysis, "M2", "surface").sR);
+    // What the server recomputed on saving is what the page previewed.
+    const savedM2 = (await call(analysisPage.loader, get(page("?material=M2"), coordinator), { studyId })).data.analysis.groups.filter((g: any) => g.material === "M2");
+    expect(JSON.parse(JSON.stringify(previewed))).toEqual(JSON.parse(JSON.stringify(savedM2)));
     expect(after.decisions).toEqual([expect.objectContaining({ lab: "L08", material: "M2", response: "surface", decision: "excluded", reason, decidedBy: "Dr. Talia Brennock" })]);
     const trail = await db.select().from(auditEvents).where(eq(auditEvents.action, "cell_decision.saved"));
     expect(trail.at(-1)!.reason).toBe(reason);

@@ -1,6 +1,6 @@
 import { count, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { databaseConfig, db } from "~/db/client.server";
+import { databaseConfig, db, synchronousLevel } from "~/db/client.server";
 import { auditEvents, results, studies, users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import * as healthz from "~/routes/healthz";
@@ -35,6 +35,14 @@ describe("database", () => {
     expect((await db.all<{ foreign_keys: number }>(sql`PRAGMA foreign_keys`))[0]!.foreign_keys).toBe(1);
     expect((await db.all<{ journal_mode: string }>(sql`PRAGMA journal_mode`))[0]!.journal_mode).toBe("wal");
     await expect(db.insert(results).values({ cellId: 999999, replicate: 1, value: 3 })).rejects.toThrow();
+  });
+
+  it("commits with synchronous NORMAL under WAL, in transactions too, unless DATABASE_SYNCHRONOUS=FULL", async () => {
+    // SQLite: 1 is NORMAL, 2 is FULL (the default of a new connection).
+    const inTransaction = await db.transaction(async (tx) => (await tx.all<{ synchronous: number }>(sql`PRAGMA synchronous`))[0]!.synchronous);
+    expect(inTransaction).toBe(1);
+    expect(synchronousLevel({})).toBe("NORMAL");
+    expect(synchronousLevel({ DATABASE_SYNCHRONOUS: "full" })).toBe("FULL");
   });
 
   it("refuses UPDATE and DELETE on the audit trail", async () => {

@@ -134,7 +134,7 @@ describe("result entry of the lab's own cells", () => {
     const { changes: draft } = await entryChanges(cookie, studyId, f2, { fresh: { slump: "120", air_content: "6.5", unit_weight: "9999" }, batchedAt: "2026-10-12T09:30" });
     const saved = await call(entry.action, post(`/lab/studies/${studyId}/results/${f2}`, { intent: "draft", draft }, cookie), { studyId, materialId: f2 });
     expect(saved.data.problems).toEqual({ "fresh:unit_weight": "Unit weight must be between 500 and 4000 kg/m³." });
-    const coordinator = await call(studyResults.loader, get(`/studies/${studyId}/results`, await demoCookie("coordinator@ringbatch.example")), { studyId });
+    const coordinator = await call(studyResults.loader, get(`/studies/${studyId}/results?material=F2`, await demoCookie("coordinator@ringbatch.example")), { studyId });
     const enrollment = await enrollmentOf(6);
     const row = coordinator.data.rows.find((r: { enrollmentId: number; materialCode: string }) => r.enrollmentId === enrollment.id && r.materialCode === "F2");
     // The seeded study targets slump 75 ± 25 mm and air 6 ± 1.5 %: 120 mm is outside, 6.5 % within.

@@ -18,8 +18,27 @@ function useHydrated() {
   return hydrated;
 }
 
-export function ChartFigure({ title, summary, option, children }: { title: string; summary: string; option: ChartOption; children: ReactNode }) {
+/**
+ * A chart with its data as a table under a disclosure. With `tableOnOpen` the
+ * table is built only when someone opens it: a page of many charts then
+ * sends their numbers once, as data, not also as markup (pages meant for
+ * printing keep the table in the page).
+ */
+export function ChartFigure({
+  title,
+  summary,
+  option,
+  children,
+  tableOnOpen = false,
+}: {
+  title: string;
+  summary: string;
+  option: ChartOption;
+  children: ReactNode;
+  tableOnOpen?: boolean;
+}) {
   const hydrated = useHydrated();
+  const [open, setOpen] = useState(false);
   return (
     <figure className="flex flex-col gap-2 break-inside-avoid">
       <figcaption className="font-semibold text-basalt-800">{title}</figcaption>
@@ -31,9 +50,9 @@ export function ChartFigure({ title, summary, option, children }: { title: strin
       ) : (
         <p className="h-80 text-basalt-700">The chart is drawn once the page has loaded; its data are in the table below.</p>
       )}
-      <details>
+      <details onToggle={(event) => setOpen(event.currentTarget.open)}>
         <summary className="cursor-pointer font-semibold text-basalt-700">Chart data as a table</summary>
-        {children}
+        {!tableOnOpen || open ? children : null}
       </details>
     </figure>
   );
@@ -46,7 +65,7 @@ function flaggedSummary(analysis: StudyAnalysis, response: string, statistic: "h
     : `Beyond the critical ${statistic} value: ${flagged.map((p) => `lab ${p.lab.lab} on ${p.material}`).join(", ")}.`;
 }
 
-export function LazyCharts({ analysis, responses }: { analysis: StudyAnalysis; responses: ResponseInfo[] }) {
+export function LazyCharts({ analysis, responses, tableOnOpen = false }: { analysis: StudyAnalysis; responses: ResponseInfo[]; tableOnOpen?: boolean }) {
   return (
     <div className="flex flex-col gap-8">
       {responses.map((response) => {
@@ -59,6 +78,7 @@ export function LazyCharts({ analysis, responses }: { analysis: StudyAnalysis; r
             {(["h", "k"] as const).map((statistic) => (
               <ChartFigure
                 key={statistic}
+                tableOnOpen={tableOnOpen}
                 title={`${statistic} plot — ${response.name}`}
                 summary={flaggedSummary(analysis, response.key, statistic)}
                 option={consistencyOption(analysis, response.key, statistic)}
@@ -77,6 +97,7 @@ export function LazyCharts({ analysis, responses }: { analysis: StudyAnalysis; r
               </ChartFigure>
             ))}
             <ChartFigure
+              tableOnOpen={tableOnOpen}
               title={`Cell averages ± s — ${response.name}`}
               summary="Each lab's cell average with one cell standard deviation either side; the dashed segment is the material's average of cell averages."
               option={cellAveragesOption(analysis, response.key, response.unit)}
@@ -89,6 +110,7 @@ export function LazyCharts({ analysis, responses }: { analysis: StudyAnalysis; r
             </ChartFigure>
             {level && fit && (
               <ChartFigure
+                tableOnOpen={tableOnOpen}
                 title={`s_r and s_R against level — ${response.name}`}
                 summary={
                   `Weighted fit (ISO 5725-2): s_r ${fit.sr.candidates.find((c) => c.relation === fit.sr.chosen)?.formula ?? "none"}, ` +

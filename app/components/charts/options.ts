@@ -2,7 +2,8 @@
  * Chart options built from an analysis, kept free of the charting library so
  * pages can build the text alternatives without loading it.
  */
-import { type GroupResult, type LabResult, type LevelFitReport, predictLevelModel, type StudyAnalysis } from "~/lib/precision";
+import type { GroupResult, LabResult, LevelFitReport, StudyAnalysis } from "~/lib/precision";
+import { predictLevelModel } from "~/lib/precision/level-fit";
 import { CHART_COLOURS } from "./palette";
 
 export type ChartOption = Record<string, unknown>;

@@ -4,7 +4,7 @@
  * an impossible reading is refused, an unusual one is kept with a warning,
  * and a reading outside the study's target ± tolerance is kept and marked.
  */
-import { checkTolerance, type ToleranceCheck } from "~/lib/batching";
+import { checkTolerance, type ToleranceCheck } from "~/lib/batching/tolerance";
 import { parsePlainNumber } from "./values";
 
 export const FRESH_FIELDS = {

@@ -1,28 +1,23 @@
-import { getFormProps, type SubmissionResult } from "@conform-to/react";
+import type { SubmissionResult } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { useEffect } from "react";
-import { data, Form, isRouteErrorResponse, Link, type ShouldRevalidateFunctionArgs, useFetcher } from "react-router";
+import { lazy, Suspense, useEffect } from "react";
+import { data, Form, isRouteErrorResponse, Link, type ShouldRevalidateFunctionArgs } from "react-router";
 import type { Route } from "./+types/result-entry";
 import { CellStatusBadge } from "~/components/cell-status-badge";
 import { ConcreteCaution } from "~/components/cautions";
-import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Badge, Button, Card, Field, Notice } from "~/components/ui";
 import { formatDateTime } from "~/lib/format";
+import { PhotoThumbnail } from "~/components/photo-thumbnail";
 import { draftChanges, rebaseDraft } from "~/lib/results/entry-draft";
 import {
-  amendFreshSchema,
-  amendSchema,
   type DraftChanges,
   draftProblems,
   type EntryDraft,
   entryDraftSchema,
   PHOTO_MAX_BYTES,
-  PHOTO_RULE,
   PHOTO_TOO_LARGE,
-  photoSchema,
   resultEntrySchema,
-  submitMaterialSchema,
 } from "~/lib/results/entry-forms";
 import { checkFreshReading, FRESH_FIELDS, FRESH_PROPERTY_NAMES, type FreshProperty } from "~/lib/results/fresh";
 import { SAVE_STATE_TEXT, useAutosavedDraft } from "~/lib/results/use-autosaved-draft";
@@ -48,6 +43,13 @@ import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 import { readUploadForm } from "~/server/upload-form.server";
 import { UploadError } from "~/server/uploads.server";
+
+// The photo and amendment forms bring the form library with them; the grid and its autosave, what an
+// analyst needs first, do without it, so those forms arrive in a chunk of their own after the page.
+const laterForms = () => import("~/components/result-entry-forms");
+const PhotoCell = lazy(() => laterForms().then((module) => ({ default: module.PhotoCell })));
+const AmendForm = lazy(() => laterForms().then((module) => ({ default: module.AmendForm })));
+const AmendFreshForm = lazy(() => laterForms().then((module) => ({ default: module.AmendFreshForm })));
 
 const pageTitle = (data: { material: { code: string } }) => `Results of ${data.material.code}`;
 
@@ -235,7 +237,6 @@ async function saveChangesOrRefuse(enrollment: Enrollment, entry: Entry, changes
   }
 }
 
-const PHOTO_NOT_SENT = "The photo did not reach the server. Check the connection, then upload it again.";
 const PHOTO_TOO_LARGE_REPLY: SubmissionResult<string[]> = { status: "error", error: { photo: [PHOTO_TOO_LARGE] } };
 
 /**
@@ -293,8 +294,8 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
   const submitConflicts = submitReply && "conflicts" in submitReply ? (submitReply.conflicts as Record<string, string>) : undefined;
   const unusualValues = submitReply && "unusualValues" in submitReply ? (submitReply.unusualValues as UnusualValue[]) : [];
   const problems: Record<string, string> = { ...savedProblems, ...savedConflicts, ...submitProblems, ...submitConflicts, ...draftProblems(draft) };
-  const [submitForm] = useSchemaForm(submitMaterialSchema, { reply: submitReply, intent: "submit" });
-  const submitFormProps = getFormProps(submitForm);
+  // The submitted draft is the grid's, checked as the analyst types (draftProblems); the action's refusal of the form as a whole shows here.
+  const submitErrors = [...(submitReply?.result?.error?.[""] ?? []), ...(submitReply?.result?.error?.form ?? [])];
 
   useEffect(() => {
     if (locked) forget();
@@ -387,7 +388,11 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
           </div>
         </Card>
 
-        {locked && (editable || loaderData.correctable.length > 0) && <AmendFreshForm fresh={loaderData.draft.fresh} actionData={actionData} />}
+        {locked && (editable || loaderData.correctable.length > 0) && (
+          <Suspense>
+            <AmendFreshForm fresh={loaderData.draft.fresh} actionData={actionData} />
+          </Suspense>
+        )}
 
         <Card title={locked ? "Submitted results" : "Results per replicate"}>
           {locked ? (
@@ -480,7 +485,9 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
                           />
                         </td>
                         <td className={ENTRY_CELL}>
-                          <PhotoCell replicate={replicate} photoId={photos[replicate]} editable={editable} label={loaderData.photoLabel} />
+                          <Suspense>
+                            <PhotoCell replicate={replicate} photoId={photos[replicate]} editable={editable} label={loaderData.photoLabel} />
+                          </Suspense>
                         </td>
                       </tr>
                     );
@@ -496,16 +503,8 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
             <p className="mb-3">
               Submitting locks every result of {material.code}. After that a change is an amendment with a reason, which the coordinator sees.
             </p>
-            <Form
-              method="post"
-              className="mt-3 grid gap-3"
-              {...submitFormProps}
-              onSubmit={(event) => {
-                flush();
-                submitFormProps.onSubmit(event);
-              }}
-            >
-              <FormErrors errors={formWideErrors(submitForm)} />
+            <Form method="post" className="mt-3 grid gap-3" onSubmit={() => flush()}>
+              {submitErrors.length > 0 && <Notice tone="error">{submitErrors.join(" ")}</Notice>}
               {unusualValues.length > 0 && (
                 <Notice tone="caution">
                   <p className="font-semibold">Please look again at these values before submitting:</p>
@@ -582,71 +581,6 @@ function CellInput({
   );
 }
 
-/** A stored photo's thumbnail, linked to the full image. */
-function PhotoThumbnail({ photoId, replicate, label }: { photoId: number; replicate: number; label: string }) {
-  return (
-    <a href={`/files/${photoId}`} target="_blank" rel="noreferrer" className="inline-block w-fit rounded focus-visible:outline-2">
-      <img src={`/files/${photoId}?thumbnail`} alt={`${label} of replicate ${replicate} (opens the full image)`} className="h-16 w-24 rounded border border-basalt-200 object-cover" />
-    </a>
-  );
-}
-
-function PhotoCell({ replicate, photoId, editable, label }: { replicate: number; photoId?: number; editable: boolean; label: string }) {
-  // A fetcher of its own, so a refused photo is named beside its replicate and the grid keeps what was typed.
-  const fetcher = useFetcher<typeof action>();
-  const [form, fields] = useSchemaForm(photoSchema, { reply: fetcher.data, id: `photo-${replicate}` });
-  // A photo that never reached the server is said so too: an upload never fails without a word.
-  const notSent = fetcher.state === "idle" && fetcher.data && "offline" in fetcher.data ? PHOTO_NOT_SENT : undefined;
-  const error = fields.photo.errors?.[0] ?? formWideErrors(form)[0] ?? notSent;
-  const id = fields.photo.id;
-  const uploading = fetcher.state !== "idle";
-  const describedBy = [`${id}-rule`, error ? `${id}-error` : null].filter(Boolean).join(" ");
-  return (
-    <div className="flex min-w-0 flex-col gap-1">
-      {photoId && <PhotoThumbnail photoId={photoId} replicate={replicate} label={label} />}
-      {editable && (
-        // Keyed by the stored photo, so the chooser empties once a photo is added.
-        <fetcher.Form key={photoId ?? "none"} method="post" encType="multipart/form-data" className="flex min-w-0 flex-col gap-1" {...getFormProps(form)}>
-          <input type="hidden" name="intent" value="photo" />
-          <input type="hidden" name="replicate" value={replicate} />
-          <label htmlFor={id} className="text-sm font-semibold sm:sr-only">
-            {photoId ? `Replace the ${label.toLowerCase()}` : label} of replicate {replicate}
-          </label>
-          <input
-            id={id}
-            name={fields.photo.name}
-            type="file"
-            accept="image/jpeg,image/png,image/webp"
-            className="w-full max-w-44 text-sm file:mr-2 file:rounded file:border file:border-basalt-200 file:bg-white file:px-2 file:py-1"
-            aria-invalid={error ? true : undefined}
-            aria-describedby={describedBy}
-          />
-          <p id={`${id}-rule`} className="text-xs text-basalt-700">
-            {PHOTO_RULE}
-          </p>
-          {uploading ? (
-            <div>
-              <label htmlFor={`${id}-progress`} className="text-sm">
-                Uploading the photo…
-              </label>
-              <progress id={`${id}-progress`} className="block h-2 w-full max-w-48" />
-            </div>
-          ) : (
-            <Button type="submit" variant="secondary" className="min-h-9 w-fit px-2 py-1 text-sm">
-              Upload<span className="sr-only"> photo of replicate {replicate}</span>
-            </Button>
-          )}
-          {error && (
-            <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
-              {error}
-            </p>
-          )}
-        </fetcher.Form>
-      )}
-    </div>
-  );
-}
-
 type ResponseView = Route.ComponentProps["loaderData"]["responses"][number];
 
 function SubmittedResults({
@@ -685,7 +619,11 @@ function SubmittedResults({
                     Replicate {replicate}: <span className="font-semibold">{values[`${response.key}:${replicate}`] ?? "—"}</span> {response.unit}
                   </span>
                   {photos[replicate] && <PhotoThumbnail photoId={photos[replicate]} replicate={replicate} label={photoLabel} />}
-                  {(editable || correctable.includes(response.id)) && <AmendForm response={response} replicate={replicate} reply={mine ? actionData : undefined} />}
+                  {(editable || correctable.includes(response.id)) && (
+                    <Suspense>
+                      <AmendForm response={response} replicate={replicate} reply={mine ? actionData : undefined} />
+                    </Suspense>
+                  )}
                 </li>
               );
             })}
@@ -693,59 +631,6 @@ function SubmittedResults({
         </section>
       ))}
     </div>
-  );
-}
-
-function AmendForm({ response, replicate, reply }: { response: ResponseView; replicate: number; reply: ActionData }) {
-  const target = `${response.id}-${replicate}`;
-  const [form, fields] = useSchemaForm(amendSchema, { reply, id: `amend-${target}` });
-  // A value outside the plausible range is refused once, beside the value, and recorded when confirmed.
-  const unusual = reply !== undefined && "unusual" in reply && reply.unusual === true;
-  return (
-    <details className="flex-1" open={Boolean(reply)}>
-      <summary className="cursor-pointer font-semibold text-basalt-700 underline">
-        Amend<span className="sr-only"> {response.name}, replicate {replicate}</span>
-      </summary>
-      <Form method="post" className="mt-2 grid max-w-xl gap-2" {...getFormProps(form)}>
-        <input type="hidden" name="intent" value="amend" />
-        <input type="hidden" name="responseId" value={response.id} />
-        <input type="hidden" name="replicate" value={replicate} />
-        <input type="hidden" name="version" value={response.cell?.version ?? 0} />
-        <FormErrors errors={formWideErrors(form)} />
-        <Field label={`Corrected value, ${response.name.toLowerCase()}, replicate ${replicate}`} inputMode="decimal" {...fieldProps(fields.value)} />
-        <Field label="Reason for the change" hint="The coordinator sees the reason, the old and the new value." {...fieldProps(fields.reason)} />
-        {unusual ? (
-          <Button type="submit" name="confirmUnusual" value="yes">
-            Confirm the value and record the amendment
-          </Button>
-        ) : (
-          <Button type="submit">Record amendment</Button>
-        )}
-      </Form>
-    </details>
-  );
-}
-
-/** Corrected fresh properties of a submitted material, with the reason the coordinator reads in the audit trail. */
-function AmendFreshForm({ fresh, actionData }: { fresh: EntryDraft["fresh"]; actionData: ActionData }) {
-  const [form, fields] = useSchemaForm(amendFreshSchema, { reply: actionData, intent: "amend-fresh", id: "amend-fresh", defaultValue: fresh });
-  return (
-    <Card title="Amend fresh properties">
-      <p className="mb-3 text-basalt-700">The results are submitted: a corrected reading needs its reason, which the coordinator sees in the audit trail.</p>
-      <Form method="post" className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3" {...getFormProps(form)}>
-        <input type="hidden" name="intent" value="amend-fresh" />
-        <div className="sm:col-span-2 lg:col-span-3">
-          <FormErrors errors={formWideErrors(form)} />
-        </div>
-        {FRESH_PROPERTY_NAMES.map((property) => (
-          <Field key={property} label={`${FRESH_FIELDS[property].label} (${FRESH_FIELDS[property].unit})`} inputMode="decimal" {...fieldProps(fields[property])} />
-        ))}
-        <Field label="Reason for changing the fresh properties" {...fieldProps(fields.reason)} />
-        <div className="self-end">
-          <Button type="submit">Record the amendment</Button>
-        </div>
-      </Form>
-    </Card>
   );
 }
 

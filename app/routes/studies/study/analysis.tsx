@@ -1,11 +1,12 @@
 import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { useState } from "react";
-import { Form, Link, useFetcher, useNavigation } from "react-router";
+import { useEffect, useMemo, useState } from "react";
+import { Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/analysis";
 import { DesignWarnings, ScreeningSteps, SignificanceEffect } from "~/components/analysis-warnings";
 import { LazyCharts } from "~/components/charts/lazy-charts";
+import { MaterialPicker } from "~/components/material-picker";
 import { PrecisionUncertainty } from "~/components/precision-uncertainty";
 import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { PrecisionTables } from "~/components/precision-tables";
@@ -19,14 +20,17 @@ import { studyPageMeta } from "~/lib/study-page-meta";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
-import { type ComputedGroup, type Finding, isSignificanceLevel, SIGNIFICANCE_LEVELS, type StudyAnalysis } from "~/lib/precision";
+// The engine itself is loaded only with the exclusion preview (see useWhatIfEngine): import its parts, not its index.
+import type { ComputedGroup, Finding, GroupResult } from "~/lib/precision";
+import { isSignificanceLevel, SIGNIFICANCE_LEVELS } from "~/lib/precision/significance";
 import { type CellRef, cellKey, parseCellList, sameCell } from "~/lib/review/cells";
 import { flaggedCells, flagStatistic, suggestedQuestion } from "~/lib/review/flags";
 import { ALPHA_LABEL, figureDecimals, formatFigure } from "~/lib/review/format";
+import { labsOfOneMaterial, shownMaterial } from "~/lib/shown-material";
 import { writeRefusal } from "~/lib/write-rules";
 import { ConfirmStep } from "~/components/confirm-dialog";
 import { QUERY_STATE } from "~/lib/state-labels";
-import { studyAnalysis, withdrawnLabCodes } from "~/models/analysis.server";
+import { materialResults, studyAnalysis, withdrawnLabCodes } from "~/models/analysis.server";
 import { listStudyQueries, raiseQuery } from "~/models/coordinator-queries.server";
 import { amendedAfterQueryCells, cellEvidence, decisionHistory, listCellDecisions, saveCellDecision } from "~/models/decisions.server";
 import { AmendedAfterQueryBadge } from "~/components/amended-badge";
@@ -57,10 +61,14 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     cell ? cellEvidence(study.id, cell) : [],
     amendedAfterQueryCells(study.id),
   ]);
+  // One material's lab tables and charts at a time: a large study's every table at once is too much for a tablet.
+  const material = shownMaterial(cell?.material ?? url.searchParams.get("material"), design.materials);
+  const decisionRefusal = writeRefusal("decisions", study.state);
   return {
     study: { id: study.id, code: study.code, title: study.title, state: study.state, dataVersion: study.dataVersion },
     alpha,
-    analysis,
+    material,
+    analysis: labsOfOneMaterial(analysis, material),
     withdrawn,
     ...design,
     decisions,
@@ -70,7 +78,9 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     cell,
     cellEvidence: evidence,
     amendedCells,
-    decisionRefusal: writeRefusal("decisions", study.state),
+    // The results the page recomputes a decision's effect from, before it is saved.
+    whatIf: cell && !decisionRefusal ? await materialResults(study, cell.material, alpha) : null,
+    decisionRefusal,
     queryRefusal: writeRefusal("queries", study.state),
   };
 }
@@ -127,10 +137,10 @@ type LoaderData = Route.ComponentProps["loaderData"];
 type ActionData = Route.ComponentProps["actionData"];
 type Decision = LoaderData["decisions"][number];
 
-const cellHref = (alpha: number, cell: CellRef) => `?alpha=${alpha}&cell=${encodeURIComponent(cellKey(cell))}#investigate`;
+const cellHref = (alpha: number, cell: CellRef) => `?alpha=${alpha}&material=${encodeURIComponent(cell.material)}&cell=${encodeURIComponent(cellKey(cell))}#investigate`;
 
 export default function Analysis({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, analysis, responses, alpha, decisions, cell } = loaderData;
+  const { study, analysis, responses, alpha, decisions, cell, material, materials } = loaderData;
   const excludedKeys = new Set(decisions.filter((d) => d.decision === "excluded").map(cellKey));
   return (
     <>
@@ -161,6 +171,7 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
                 </label>
               ))}
             </fieldset>
+            {material && <input type="hidden" name="material" value={material} />}
             {cell && <input type="hidden" name="cell" value={cellKey(cell)} />}
             <Button type="submit" variant="secondary">
               Recompute
@@ -170,19 +181,16 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
         </Card>
         <FlaggedCells loaderData={loaderData} excludedKeys={excludedKeys} />
         {cell && <Investigation key={cellKey(cell)} loaderData={loaderData} actionData={actionData} cell={cell} />}
-        <Decisions loaderData={loaderData} />
-        <Card title="Uncertainty of the figures">
-          <PrecisionUncertainty analysis={analysis} responses={responses} />
-        </Card>
-        <Card title="Charts">
-          <LazyCharts analysis={analysis} responses={responses} />
-        </Card>
         <Card title="Tables">
           <StudyDownloads studyId={study.id} what="analysis" query={`?alpha=${alpha}`} />
+          <div className="mb-4">
+            <MaterialPicker materials={materials} shown={material} drop={["cell"]} />
+          </div>
           <PrecisionTables
             analysis={analysis}
             responses={responses}
             headingLevel={3}
+            material={material}
             labAction={(group, lab) => (
               <>
                 <AmendedAfterQueryBadge cell={{ lab: lab.lab, material: group.material, response: group.response }} amended={loaderData.amendedCells} />{" "}
@@ -197,6 +205,13 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
             )}
           />
         </Card>
+        <Card title={material ? `Charts of ${material}` : "Charts"}>
+          <LazyCharts analysis={analysis} responses={responses} tableOnOpen />
+        </Card>
+        <Card title="Uncertainty of the figures">
+          <PrecisionUncertainty analysis={analysis} responses={responses} />
+        </Card>
+        <Decisions loaderData={loaderData} />
       </div>
     </>
   );
@@ -235,14 +250,14 @@ function FlaggedCells({ loaderData, excludedKeys }: { loaderData: LoaderData; ex
   );
 }
 
-function findGroup(analysis: StudyAnalysis, cell: CellRef) {
-  return analysis.groups.find((g) => g.material === cell.material && g.response === cell.response) ?? null;
+function findGroup(groups: readonly GroupResult[], cell: CellRef) {
+  return groups.find((g) => g.material === cell.material && g.response === cell.response) ?? null;
 }
 
 function Investigation({ loaderData, actionData, cell }: { loaderData: LoaderData; actionData: ActionData; cell: CellRef }) {
-  const { analysis, responses, cellEvidence, decisions, queries, study, alpha } = loaderData;
+  const { analysis, responses, cellEvidence, decisions, queries, study } = loaderData;
   const response = responses.find((r) => r.key === cell.response);
-  const group = findGroup(analysis, cell);
+  const group = findGroup(analysis.groups, cell);
   const lab = group?.labs.find((l) => l.lab === cell.lab) ?? null;
   const decision = decisions.find((d) => sameCell(d, cell));
   const excluded = analysis.excluded.some((e) => sameCell(e, cell));
@@ -320,7 +335,7 @@ function Investigation({ loaderData, actionData, cell }: { loaderData: LoaderDat
               </div>
             )}
             <AskTheLab loaderData={loaderData} actionData={actionData} cell={cell} statistic={statistic} findings={lab?.findings ?? []} />
-            <DecisionForm loaderData={loaderData} actionData={actionData} cell={cell} currentlyExcluded={excluded} decision={decision ?? null} alpha={alpha} />
+            <DecisionForm loaderData={loaderData} actionData={actionData} cell={cell} currentlyExcluded={excluded} decision={decision ?? null} />
           </div>
         </div>
       )}
@@ -388,26 +403,27 @@ function DecisionForm({
   cell,
   currentlyExcluded,
   decision,
-  alpha,
 }: {
   loaderData: LoaderData;
   actionData: ActionData;
   cell: CellRef;
   currentlyExcluded: boolean;
   decision: Decision | null;
-  alpha: number;
 }) {
   const [form, fields] = useSchemaForm(decideSchema, { reply: actionData, intent: "decide" });
-  const preview = useFetcher<StudyAnalysis>();
   const [choice, setChoice] = useState<string>((fields.decision.initialValue as string | undefined) ?? decision?.decision ?? "");
-  if (loaderData.decisionRefusal) return <Notice>{loaderData.decisionRefusal}</Notice>;
-  const others = loaderData.analysis.excluded.filter((e) => !sameCell(e, cell));
-  const loadPreview = (value: string) => {
-    setChoice(value);
-    const list = value === "excluded" ? [...others, cell] : others;
-    preview.load(`/api/v1/studies/${loaderData.study.id}/what-if?alpha=${alpha}&exclude=${encodeURIComponent(list.map(cellKey).join(","))}`);
-  };
-  const after = preview.data && "groups" in preview.data ? preview.data : null;
+  const engine = useWhatIfEngine();
+  const { whatIf, decisionRefusal } = loaderData;
+  const saved = loaderData.analysis.excluded;
+  // The preview is recomputed here, by the engine the server runs; saving recomputes on the server.
+  const after = useMemo(() => {
+    if (!engine || !whatIf || (choice !== "retained" && choice !== "excluded")) return null;
+    const start = performance.now();
+    const groups = engine.materialWhatIf(whatIf, engine.exclusionsWith(saved, cell, choice));
+    performance.measure("what-if recompute", { start, end: performance.now() });
+    return groups;
+  }, [engine, whatIf, saved, cell, choice]);
+  if (decisionRefusal || !whatIf) return <Notice>{decisionRefusal}</Notice>;
   const decisionError = fields.decision.errors?.[0];
   return (
     <Form method="post" className="flex flex-col gap-3" aria-labelledby="decide-heading" {...getFormProps(form)}>
@@ -427,7 +443,7 @@ function DecisionForm({
         <div className="flex flex-wrap gap-4">
           {(["retained", "excluded"] as const).map((value) => (
             <label key={value} className="inline-flex min-h-11 items-center gap-2">
-              <input type="radio" name={fields.decision.name} value={value} checked={choice === value} onChange={() => loadPreview(value)} className="size-5" />
+              <input type="radio" name={fields.decision.name} value={value} checked={choice === value} onChange={() => setChoice(value)} className="size-5" />
               {value === "retained" ? "Retain the cell" : "Exclude the cell"}
             </label>
           ))}
@@ -440,10 +456,9 @@ function DecisionForm({
       </fieldset>
       <TextAreaField label="Reason" hint="The assignable cause the lab confirmed, or the statistical justification." {...fieldProps(fields.reason)} />
       <div aria-live="polite">
-        {preview.state === "loading" && <p>Recomputing…</p>}
         {after && choice && (
           <BeforeAfter
-            before={findGroup(loaderData.analysis, cell)}
+            before={findGroup(loaderData.analysis.groups, cell)}
             after={findGroup(after, cell)}
             decimals={loaderData.responses.find((r) => r.key === cell.response)?.decimals ?? 0}
             changed={(choice === "excluded") !== currentlyExcluded}
@@ -470,6 +485,19 @@ function DecisionForm({
       </div>
     </Form>
   );
+}
+
+/** The precision engine, fetched once a cell is open for a decision rather than with the page. */
+function useWhatIfEngine() {
+  const [engine, setEngine] = useState<typeof import("~/lib/review/what-if") | null>(null);
+  useEffect(() => {
+    let current = true;
+    import("~/lib/review/what-if").then((module) => current && setEngine(module));
+    return () => {
+      current = false;
+    };
+  }, []);
+  return engine;
 }
 
 function BeforeAfter({ before, after, decimals, changed }: { before: ReturnType<typeof findGroup>; after: ReturnType<typeof findGroup>; decimals: number; changed: boolean }) {

@@ -1,6 +1,7 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/results";
 import { CellStatusBadge } from "~/components/cell-status-badge";
+import { MaterialPicker } from "~/components/material-picker";
 import { StateBadge } from "~/components/state-badge";
 import { StudyDownloads } from "~/components/study-downloads";
 import type { StudyPageHandle } from "~/components/study-frame";
@@ -23,7 +24,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   const search = new URL(request.url).searchParams;
   const pageParam = (name: string) => wholeNumberParam(search, name) ?? 1;
   const [table, audit, marks] = await Promise.all([
-    studyResults(study.id, pageParam("labs")),
+    studyResults(study.id, pageParam("labs"), search.get("material")),
     studyAuditTrail(study.id, pageParam("page")),
     studyBatchMarks(study.id),
   ]);
@@ -31,6 +32,8 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   const rows = table.rows.map((row) => ({ ...row, fresh: marksByCell.get(`${row.enrollmentId}:${row.materialId}`) ?? [] }));
   return {
     study: { id: study.id, code: study.code, title: study.title },
+    materials: table.materials.map((m) => ({ code: m.code, description: m.description })),
+    material: table.material,
     responses: table.responses.map((r) => ({ key: r.key, name: r.name })),
     rows,
     labsPage: table.labsPage,
@@ -40,15 +43,19 @@ export async function loader({ request, context }: Route.LoaderArgs) {
 }
 
 /** A link to one page of the results table and one page of the audit trail. */
-const pageLink = (labs: number, page: number) => `?${new URLSearchParams({ labs: String(labs), page: String(page) })}`;
+const pageLink = (material: string | null, labs: number, page: number) =>
+  `?${new URLSearchParams({ ...(material ? { material } : {}), labs: String(labs), page: String(page) })}`;
 
 export default function StudyResults({ loaderData }: Route.ComponentProps) {
-  const { study, responses, rows, labsPage, labsPageCount, audit } = loaderData;
+  const { study, responses, rows, labsPage, labsPageCount, audit, materials, material } = loaderData;
   const amendmentRows = rows.flatMap((r) => r.amendments.map((a) => ({ ...a, labCode: r.labCode, materialCode: r.materialCode })));
   return (
     <div className="grid gap-6 [&>*]:min-w-0">
       <Card title="Results by lab and material">
         <StudyDownloads studyId={study.id} what="results" />
+        <div className="mb-3">
+          <MaterialPicker materials={materials} shown={material} drop={["labs"]} />
+        </div>
         <SimpleTable
           caption="Replicate results by lab, material and response, with cell status"
           headers={["Lab code", "Lab", "Material", ...responses.map((r) => r.name), "Fresh properties"]}
@@ -87,12 +94,12 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
               Labs page {labsPage} of {labsPageCount}
             </span>
             {labsPage > 1 && (
-              <Link to={pageLink(labsPage - 1, audit.page)} className="font-semibold text-basalt-700 underline">
+              <Link to={pageLink(material, labsPage - 1, audit.page)} className="font-semibold text-basalt-700 underline">
                 Previous labs
               </Link>
             )}
             {labsPage < labsPageCount && (
-              <Link to={pageLink(labsPage + 1, audit.page)} className="font-semibold text-basalt-700 underline">
+              <Link to={pageLink(material, labsPage + 1, audit.page)} className="font-semibold text-basalt-700 underline">
                 Next labs
               </Link>
             )}
@@ -135,12 +142,12 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
         />
         <nav aria-label="Audit trail pages" className="mt-3 flex gap-4">
           {audit.page > 1 && (
-            <Link to={pageLink(labsPage, audit.page - 1)} className="font-semibold text-basalt-700 underline">
+            <Link to={pageLink(material, labsPage, audit.page - 1)} className="font-semibold text-basalt-700 underline">
               Newer events
             </Link>
           )}
           {audit.page < audit.pageCount && (
-            <Link to={pageLink(labsPage, audit.page + 1)} className="font-semibold text-basalt-700 underline">
+            <Link to={pageLink(material, labsPage, audit.page + 1)} className="font-semibold text-basalt-700 underline">
               Older events
             </Link>
           )}
