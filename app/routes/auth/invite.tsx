@@ -45,7 +45,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       email: found.invitation.email,
       needsPassword: !found.account?.hasPassword,
       signedInAs: user?.email ?? null,
-      signInLink: `/login?redirectTo=${encodeURIComponent(new URL(request.url).pathname + new URL(request.url).search)}`,
+      signInLink: `/login?${new URLSearchParams({ redirectTo: new URL(request.url).pathname + new URL(request.url).search, email: found.invitation.email })}`,
     },
   };
 }
