@@ -29,6 +29,7 @@ function invitationDatesText(d: InvitationDates) {
 function workloadText(w: InvitationWorkload) {
   const tests = w.materials * w.replicates;
   const responses = w.responses.length ? ` recording ${w.responses.join(", ")}` : "";
+  if (w.materials === 0) return `Workload: ${plural(w.replicates, "replicate", "replicates")} of each material${responses}; the coordinator is still choosing the materials.`;
   return `Workload: ${plural(w.materials, "material", "materials")} × ${plural(w.replicates, "replicate", "replicates")} = ${plural(tests, "test", "tests")}${responses}.`;
 }
 
