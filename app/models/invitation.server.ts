@@ -64,7 +64,7 @@ export async function inviteOutsideLab(study: Study, input: { labName: string; c
     return { lab, token: await issueInvitation(tx, study, lab, actorUserId) };
   });
   await sendInvitationEmail(study, lab, token, request);
-  return { token };
+  return { token, lab };
 }
 
 function assertInvitationsOpen(study: Study, field: string) {

@@ -60,8 +60,8 @@ export async function action({ request, context }: Route.ActionArgs) {
       return "Invitation sent to the lab's contact.";
     }
     if (form.intent === "invite-outside") {
-      await inviteOutsideLab(study, form, user.id, request);
-      return `Invitation sent to ${form.contactEmail}. ${form.labName} joins the lab directory when it accepts.`;
+      const { lab } = await inviteOutsideLab(study, form, user.id, request);
+      return `Invitation sent to ${lab.contactEmail}. ${lab.name} joins the lab directory when it accepts.`;
     }
     await withdrawEnrollment(study, form.enrollmentId, form.reason, user.id);
     return "The lab is withdrawn: it can no longer change results, and its results have left the analysis.";
