@@ -94,8 +94,10 @@ describe("searching and filtering accounts", () => {
     // A % typed in the search means itself, not "anything".
     expect((await usersPage("?q=%25")).data.users.total).toBe(0);
     const reviewers = await usersPage("?role=reviewer");
+    // analyst8 is the demo's analyst who also sits on the committee (seed/seed.ts).
     expect(reviewers.data.users.rows.map((u: { email: string }) => u.email).sort()).toEqual([
       "analyst3@ringbatch.example",
+      "analyst8@ringbatch.example",
       "reviewer1@ringbatch.example",
       "reviewer2@ringbatch.example",
       "reviewer3@ringbatch.example",

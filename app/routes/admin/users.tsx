@@ -141,11 +141,24 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
  * own, the last administrator's) is shown ticked and fixed, with why, and still
  * sent with the form.
  */
-function RoleChoices({ legend, field, idPrefix, fixed }: { legend: string; field: FieldMetadata<unknown>; idPrefix: string; fixed?: { role: Role; why: string } }) {
+function RoleChoices({
+  legend,
+  field,
+  idPrefix,
+  fixed,
+  inRow = false,
+}: {
+  legend: string;
+  field: FieldMetadata<unknown>;
+  idPrefix: string;
+  fixed?: { role: Role; why: string };
+  /** In a table row the legend is read out but not shown: the row already names the account. */
+  inRow?: boolean;
+}) {
   const initial = ([] as unknown[]).concat(field.initialValue ?? []);
   return (
-    <fieldset className="flex flex-wrap items-center gap-x-4 gap-y-1" aria-describedby={field.errors ? `${idPrefix}-roles-error` : undefined}>
-      <legend className="mb-1 font-semibold">{legend}</legend>
+    <fieldset className={`flex flex-wrap items-center gap-x-4 gap-y-1 ${inRow ? "" : "md:col-span-2"}`} aria-describedby={field.errors ? `${idPrefix}-roles-error` : undefined}>
+      <legend className={inRow ? "sr-only" : "mb-1 font-semibold"}>{legend}</legend>
       {ROLES.map((role) => {
         const locked = fixed?.role === role;
         return (
@@ -193,7 +206,7 @@ function UpdateUserForm({ user, own, labOptions, reply }: { user: UserRow; own: 
       <input type="hidden" name="intent" value="update" />
       <input type="hidden" name="userId" value={user.id} />
       <FormErrors errors={formWideErrors(form)} />
-      <RoleChoices legend={`Roles of ${user.email}`} field={fields.roles} idPrefix={`user-${user.id}`} fixed={fixedAdminRole(user, own)} />
+      <RoleChoices legend={`Roles of ${user.email}`} field={fields.roles} idPrefix={`user-${user.id}`} fixed={fixedAdminRole(user, own)} inRow />
       <div className="flex flex-wrap items-end gap-2">
         <label className="sr-only" htmlFor={`lab-${user.id}`}>
           Lab of {user.email}
