@@ -27,10 +27,9 @@ function invitationDatesText(d: InvitationDates) {
 }
 
 function workloadText(w: InvitationWorkload) {
-  const tests = w.materials * w.replicates;
-  const responses = w.responses.length ? ` recording ${w.responses.join(", ")}` : "";
-  if (w.materials === 0) return `Workload: ${plural(w.replicates, "replicate", "replicates")} of each material${responses}; the coordinator is still choosing the materials.`;
-  return `Workload: ${plural(w.materials, "material", "materials")} × ${plural(w.replicates, "replicate", "replicates")} = ${plural(tests, "test", "tests")}${responses}.`;
+  const records = w.responses.length ? `; each test records ${w.responses.join(" and ")}` : "";
+  if (w.materials === 0) return `Workload: ${plural(w.replicates, "replicate", "replicates")} of each material${records}. The coordinator is still choosing the materials.`;
+  return `Workload: ${plural(w.materials, "material", "materials")} × ${plural(w.replicates, "replicate", "replicates")} = ${plural(w.materials * w.replicates, "test", "tests")}${records}.`;
 }
 
 export function invitationEmail(p: {

@@ -1,7 +1,7 @@
 import { and, desc, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { auditEvents, emailOutbox, enrollments, labMembers, labs, studies, users } from "~/db/schema";
+import { auditEvents, emailOutbox, enrollments, labMembers, labs, materials, studies, users } from "~/db/schema";
 import { listLabs } from "~/models/lab.server";
 import * as adminLabs from "~/routes/admin/labs";
 import * as invite from "~/routes/auth/invite";
@@ -64,7 +64,7 @@ describe("inviting a lab that is not in the directory", () => {
     expect(text).toContain("Dear Orla Graywick,");
     // The dates of the study made by createStudyAs (tests/support/coordinator.ts).
     expect(text).toContain("Dates: answer by 2027-02-01; materials ship on 2027-02-15; results are due on 2027-04-30.");
-    expect(text).toMatch(/Workload: 3 replicates of each material recording Passes to close the preformed holes \(passes\), Passes to reach the target surface \(passes\)/);
+    expect(text).toContain("Workload: 3 replicates of each material; each test records Passes to close the preformed holes (passes) and Passes to reach the target surface (passes).");
     expect(text).toContain("Coordinator: Dr. Talia Brennock, coordinator@ringbatch.example.");
   });
 
@@ -89,8 +89,13 @@ describe("inviting a lab that is not in the directory", () => {
 
   it("sends a directory lab's sign-in link with the invited address filled in", async () => {
     const quarrow = (await labByName("Quarrow County Materials Lab"))!;
+    await db.insert(materials).values([
+      { studyId: study.id, code: "M1", sortOrder: 0 },
+      { studyId: study.id, code: "M2", sortOrder: 1 },
+    ]);
     expect(await toastOf(await labsAction({ intent: "invite", labId: String(quarrow.id) }))).toBe("Invitation sent to the lab's contact.");
     const link = await invitationLink("analyst1@ringbatch.example");
+    expect(link.text).toContain("Workload: 2 materials × 3 replicates = 6 tests; each test records");
     const opened = await call(invite.loader, get(link.path), { token: link.token });
     const signIn = new URL(opened.data.invitation.signInLink, "http://ringbatch.test");
     expect(signIn.pathname).toBe("/login");
