@@ -94,7 +94,8 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
         </Form>
       </Card>
       <Card title="New account" className="mb-6">
-        <Form method="post" className="grid gap-4 md:grid-cols-3" {...getFormProps(form)}>
+        {/* A new account (one more in the count) starts the form afresh. */}
+        <Form method="post" className="grid gap-4 md:grid-cols-3" key={users.total} {...getFormProps(form)}>
           <input type="hidden" name="intent" value="create" />
           <FormErrors errors={formWideErrors(form)} />
           <Field label="E-mail" type="email" {...fieldProps(fields.email)} />

@@ -161,7 +161,8 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
             The invitation goes to the contact's e-mail address. When the contact accepts, they set their password and the lab joins the directory; an
             administrator checks it is not a lab already listed under another name.
           </p>
-          <OutsideLabForm reply={actionData} busy={busy} />
+          {/* A new row after a sent invitation starts the form afresh. */}
+          <OutsideLabForm key={rows.length} reply={actionData} busy={busy} />
         </Card>
       )}
       {canWithdraw && withdrawable.length > 0 && (
