@@ -3,7 +3,7 @@
  * protocol, co-coordinators, reviewers and materials. Each change is one
  * transaction with its audit event.
  */
-import { and, asc, count, eq, gt, inArray, isNull, ne, notInArray, or } from "drizzle-orm";
+import { and, asc, count, eq, gt, inArray, isNull, ne, notInArray } from "drizzle-orm";
 import type { z } from "zod";
 import { db } from "~/db/client.server";
 import {
@@ -19,7 +19,6 @@ import {
   studies,
   studyCoordinators,
   studyReviewers,
-  userRoles,
   users,
   type Study,
 } from "~/db/schema";
@@ -29,7 +28,7 @@ import { AIR_CONTENT_TOLERANCE_POINTS, type Constituent, inToMm, slumpTolerance 
 import type { freshTargetsSchema, materialSchema, newStudySchema, responseSchema, studyFields } from "~/lib/study-forms";
 import { type WriteKind, writeRefusal } from "~/lib/write-rules";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
-import { loadSessionUser, normaliseEmail } from "~/models/user.server";
+import { holdsRole, loadSessionUser, normaliseEmail } from "~/models/user.server";
 
 type StudyInput = z.infer<typeof studyFields>;
 
@@ -229,7 +228,7 @@ export async function reviewerCandidates(study: Study) {
       and(
         isNull(users.disabledAt),
         notInArray(users.id, assigned),
-        or(eq(users.role, "reviewer"), inArray(users.id, db.select({ id: userRoles.userId }).from(userRoles).where(eq(userRoles.role, "reviewer")))),
+        holdsRole("reviewer"),
       ),
     )
     .orderBy(asc(users.name));

@@ -123,9 +123,7 @@ export async function findUsers(filter: UserFilter, page: number) {
   const search = filter.search.trim().toLowerCase();
   const conditions = [
     search ? or(contains(users.name, search), contains(users.email, search)) : undefined,
-    filter.role
-      ? or(eq(users.role, filter.role), inArray(users.id, db.select({ id: userRoles.userId }).from(userRoles).where(eq(userRoles.role, filter.role))))
-      : undefined,
+    filter.role ? holdsRole(filter.role) : undefined,
     filter.labId ? inArray(users.id, db.select({ id: labMembers.userId }).from(labMembers).where(eq(labMembers.labId, filter.labId))) : undefined,
   ];
   const where = and(...conditions);
@@ -159,6 +157,11 @@ export async function findUsers(filter: UserFilter, page: number) {
   };
 }
 
+/** A query condition: the account holds the role, as its home-page role or another one. */
+export function holdsRole(role: Role) {
+  return or(eq(users.role, role), inArray(users.id, db.select({ id: userRoles.userId }).from(userRoles).where(eq(userRoles.role, role))));
+}
+
 /** Case-insensitive "contains", where `%` and `_` typed in a search mean themselves. */
 function contains(column: typeof users.name | typeof users.email, text: string) {
   const pattern = `%${text.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
@@ -170,7 +173,7 @@ async function activeAdminIds() {
   const rows = await db
     .select({ id: users.id })
     .from(users)
-    .where(and(isNull(users.disabledAt), or(eq(users.role, "admin"), inArray(users.id, db.select({ id: userRoles.userId }).from(userRoles).where(eq(userRoles.role, "admin"))))));
+    .where(and(isNull(users.disabledAt), holdsRole("admin")));
   return rows.map((r) => r.id);
 }
 
