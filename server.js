@@ -21,9 +21,11 @@ app.disable("x-powered-by");
 if (development || process.env.REQUEST_LOG) app.use(morgan("tiny"));
 
 let vite;
+let startNoticeSchedule;
 if (!development) {
   const buildDirectory = resolve(process.env.BUILD_DIR ?? "build");
-  const { frontDoor, requestHandler } = await import(pathToFileURL(`${buildDirectory}/server/index.js`).href);
+  const { frontDoor, requestHandler, startNoticeSchedule: start } = await import(pathToFileURL(`${buildDirectory}/server/index.js`).href);
+  startNoticeSchedule = start;
   app.use(frontDoor);
   app.use("/assets", express.static(`${buildDirectory}/client/assets`, { immutable: true, maxAge: "1y" }));
   // The public files (icons, manifest) are known when the server starts; asking the file system about
@@ -36,6 +38,7 @@ if (!development) {
   vite = await (await import("vite")).createServer({ server: { middlewareMode: true } });
   // Loaded per request: Vite hands back the module it has, or a fresh one after an edit.
   const serverModule = () => vite.ssrLoadModule("./server/app.ts");
+  startNoticeSchedule = async () => (await serverModule()).startNoticeSchedule();
   app.use((request, response, next) => serverModule().then((module) => module.frontDoor(request, response, next), next));
   app.use(vite.middlewares);
   app.use((request, response, next) =>
@@ -49,7 +52,11 @@ if (!development) {
 }
 
 const server = createServer(app);
-server.listen(port, process.env.HOST, () => console.log(`Ringbatch (${development ? "development" : process.env.NODE_ENV === "production" ? "production" : "local"}) on http://localhost:${port}`));
+server.listen(port, process.env.HOST, () => {
+  console.log(`Ringbatch (${development ? "development" : process.env.NODE_ENV === "production" ? "production" : "local"}) on http://localhost:${port}`);
+  // Scheduled notices (NOTICE_SCHEDULE, every 5 minutes unless "off"): safe to run in every instance.
+  startNoticeSchedule();
+});
 for (const signal of ["SIGTERM", "SIGINT"]) {
   process.once(signal, async () => {
     await vite?.close();

@@ -27,6 +27,7 @@ export default [
       route("setup", "routes/studies/study/setup.tsx"),
       route("labs", "routes/studies/study/labs.tsx"),
       route("shipments", "routes/studies/study/shipments.tsx"),
+      route("shipments/:shipmentId/packing-list", "routes/studies/study/packing-list.tsx"),
       route("results", "routes/studies/study/results.tsx"),
       route("materials/:materialId", "routes/studies/study/material.tsx"),
       route("analysis", "routes/studies/study/analysis.tsx"),

@@ -4,6 +4,7 @@
  * address and number here is invented.
  */
 import { DEMO_ADMIN_EMAIL } from "../app/lib/demo";
+import { startingPackingList } from "../app/lib/packing-list";
 
 export const DEMO_PASSWORD = "ringbatch-demo";
 
@@ -217,3 +218,26 @@ export const CHECKING_STUDY_PLANTS: DemoResult[] = [
 ];
 
 export const CHECKING_STUDY_SEED = 20262;
+
+/**
+ * The demo's packing list for a set of materials: the constituent lots of
+ * startingPackingList, with quantities for about 0.12 m³ of each mixture
+ * (enough for the replicates and the fresh-property checks), solids in 25 kg
+ * bags and admixtures in 1 L bottles. Fictional quantities for the demo only.
+ */
+export function demoPackingList(materials: { code: string; constituents: Constituent[] }[], cubicMetres = 0.12) {
+  const perMaterial = (c: Constituent) =>
+    c.kind === "admixture"
+      ? ((c.dosageMlPer100Kg ?? 0) / 100) * 4 * cubicMetres // mL per 100 kg of about 400 kg/m³ cementitious, as litres
+      : c.kind === "fiber"
+        ? ((c.volumeFractionPercent ?? 0) / 100) * (c.fiberDensityKgPerM3 ?? 0) * cubicMetres
+        : (c.ssdMassKgPerM3 ?? 0) * cubicMetres;
+  const totals = new Map<string, number>();
+  for (const m of materials) for (const c of m.constituents) totals.set(`${c.name}\u0000${c.lot ?? ""}`, (totals.get(`${c.name}\u0000${c.lot ?? ""}`) ?? 0) + perMaterial(c));
+  const list = startingPackingList(materials.flatMap((m) => m.constituents.map((c) => ({ materialCode: m.code, kind: c.kind, name: c.name, lot: c.lot ?? "" }))));
+  return list.map((line) => {
+    const key = `${line.description.replace(/ \([^)]*\)$/, "")}\u0000${line.lot}`;
+    const quantity = Math.max(1, Math.ceil(totals.get(key) ?? 1));
+    return { description: line.description, unit: line.unit, lot: line.lot, quantity, containerCount: line.unit === "L" ? quantity : Math.ceil(quantity / 25) };
+  });
+}

@@ -16,6 +16,7 @@ import {
   queries,
   responses,
   results,
+  shipmentItems,
   shipments,
   studies,
   studyReviewers,
@@ -31,6 +32,7 @@ import {
   DEMO_OVERLAY_MATERIALS,
   DEMO_PASSWORD,
   DEMO_PEOPLE,
+  demoPackingList,
   demoResults,
   FLOAT_FINISHING_RESPONSES,
 } from "./demo-data";
@@ -172,14 +174,13 @@ export async function seedDemo(db: Database) {
           .returning();
         enrollmentIds.push(enrollment!.id);
       }
-      const contents = spec.materials.map((m) => `${m.code}: ${m.constituents.filter((c) => c.lot).map((c) => `${c.name} lot ${c.lot}`).join(", ")}`).join("\n");
-      await tx.insert(shipments).values(
+      const packingList = demoPackingList(spec.materials);
+      const shipmentRows = await tx.insert(shipments).values(
         enrollmentIds.map((enrollmentId, labIndex) => {
           const inTransit = spec.inTransitLabs.includes(labIndex);
           const damaged = spec.damagedLab?.labIndex === labIndex;
           return {
             enrollmentId,
-            contents,
             carrier: "Brellwick Freight",
             trackingNumber: `BW-${spec.code.slice(-1)}${String(4101 + labIndex)}`,
             shippedOn: inTransit ? "2026-11-24" : "2026-09-01",
@@ -189,7 +190,8 @@ export async function seedDemo(db: Database) {
             receiptNotes: damaged ? spec.damagedLab!.notes : "",
           };
         }),
-      );
+      ).returning();
+      await tx.insert(shipmentItems).values(shipmentRows.flatMap((shipment) => packingList.map((item, sortOrder) => ({ ...item, shipmentId: shipment.id, sortOrder }))));
       const cellIdOf = new Map<string, number>();
       const values = demoResults(materialRows.map((m) => m.code), REPLICATES, spec.resultSeed, spec.plants);
       for (const labIndex of [...spec.submittedLabs, ...spec.draftLabs]) {

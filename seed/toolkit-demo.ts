@@ -18,6 +18,7 @@ import {
   precisionStatements,
   responses,
   results,
+  shipmentItems,
   shipments,
   ruggednessFactors,
   ruggednessPlans,
@@ -31,7 +32,7 @@ import { acceptabilityCheck, compareMixtures } from "~/lib/comparison";
 import { analyzeStudy, type ExcludedCell, type ResultRow } from "~/lib/precision";
 import { plackettBurmanDesign, randomRunOrder } from "~/lib/ruggedness";
 import { c670Text, e691Text, type StatementSnapshot } from "~/lib/statement-text";
-import { DEMO_LABS, DEMO_MATERIALS, DEMO_PEOPLE, demoResults, FLOAT_FINISHING_RESPONSES, generator } from "./demo-data";
+import { DEMO_LABS, DEMO_MATERIALS, DEMO_PEOPLE, demoPackingList, demoResults, FLOAT_FINISHING_RESPONSES, generator } from "./demo-data";
 
 export const PUBLISHED_STUDY_CODE = "FF-2025-D";
 export const RUGGEDNESS_STUDY_CODE = "RG-2026-1";
@@ -106,21 +107,22 @@ async function seedPublishedStudy(db: Database) {
       await tx.insert(mixtureConstituents).values(m.constituents.map((c, j) => ({ ...c, materialId: material!.id, sortOrder: j })));
       materialIds.set(m.code, material!.id);
     }
+    const packingList = demoPackingList(PUBLISHED_MATERIALS);
     for (const [labIndex, labId] of labIds.entries()) {
       const [enrollment] = await tx
         .insert(enrollments)
         .values({ studyId, labId, labCode: PUBLISHED_LAB_CODES[labIndex], state: "accepted", invitedAt: new Date("2025-07-21"), respondedAt: new Date("2025-07-29") })
         .returning();
-      await tx.insert(shipments).values({
+      const [shipment] = await tx.insert(shipments).values({
         enrollmentId: enrollment!.id,
-        contents: PUBLISHED_MATERIALS.map((m) => `${m.code}: ${m.constituents.filter((c) => c.lot).map((c) => `${c.name} lot ${c.lot}`).join(", ")}`).join("\n"),
         carrier: "Brellwick Freight",
         trackingNumber: `BW-D${4101 + labIndex}`,
         shippedOn: "2025-09-02",
         receivedOn: "2025-09-05",
         status: "received",
         condition: "good",
-      });
+      }).returning();
+      await tx.insert(shipmentItems).values(packingList.map((item, sortOrder) => ({ ...item, shipmentId: shipment!.id, sortOrder })));
       for (const [code, materialId] of materialIds) {
         for (const response of responseRows) {
           const [cell] = await tx

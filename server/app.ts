@@ -15,7 +15,11 @@ import onHeaders from "on-headers";
 import { RouterContextProvider } from "react-router";
 import * as build from "virtual:react-router/server-build";
 import { assertDeploymentConfig, refuseBeforeReading } from "~/server/deployment.server";
+import { startNoticeSchedule } from "~/server/notice-schedule.server";
 import { applySecurityHeaders, cspNonceContext, newCspNonce } from "~/server/security-headers.server";
+
+/** The server entry (server.js) starts the scheduled notices once it listens; see notice-schedule.server. */
+export { startNoticeSchedule };
 
 // A production start without APP_URL or SESSION_SECRET stops here, naming what is missing.
 assertDeploymentConfig();

@@ -15,7 +15,7 @@ import {
   text,
   uniqueIndex,
 } from "drizzle-orm/sqlite-core";
-import { LAB_LISTINGS, PASSWORD_LINK_PURPOSES, ROLES, STUDY_KINDS, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES, COMPARISON_SETTINGS, ASSIGNED_VALUE_METHODS, SIGMA_PT_METHODS, MATERIAL_CHECKS, SCORE_VERDICTS } from "./values";
+import { LAB_LISTINGS, PASSWORD_LINK_PURPOSES, ROLES, STUDY_KINDS, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, SHIPMENT_UNITS, NOTICE_KINDS, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES, COMPARISON_SETTINGS, ASSIGNED_VALUE_METHODS, SIGMA_PT_METHODS, MATERIAL_CHECKS, SCORE_VERDICTS } from "./values";
 
 export * from "./values";
 
@@ -273,7 +273,8 @@ export const shipments = sqliteTable(
       .notNull()
       .references(() => enrollments.id, { onDelete: "cascade" }),
     status: text("status", { enum: SHIPMENT_STATUSES }).notNull().default("preparing"),
-    contents: text("contents").notNull().default(""),
+    /** Anything the items do not say; shipments from before the itemised list keep their free-text contents here. */
+    note: text("note").notNull().default(""),
     carrier: text("carrier").notNull().default(""),
     trackingNumber: text("tracking_number").notNull().default(""),
     shippedOn: text("shipped_on"),
@@ -284,6 +285,24 @@ export const shipments = sqliteTable(
     createdAt: createdAt(),
   },
   (t) => [index("shipments_enrollment").on(t.enrollmentId)],
+);
+
+/** One line of a shipment's packing list: a material or constituent, how much, its lot and how many containers. */
+export const shipmentItems = sqliteTable(
+  "shipment_items",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    shipmentId: integer("shipment_id")
+      .notNull()
+      .references(() => shipments.id, { onDelete: "cascade" }),
+    sortOrder: integer("sort_order").notNull().default(0),
+    description: text("description").notNull(),
+    quantity: real("quantity").notNull(),
+    unit: text("unit", { enum: SHIPMENT_UNITS }).notNull(),
+    lot: text("lot").notNull().default(""),
+    containerCount: integer("container_count").notNull().default(1),
+  },
+  (t) => [index("shipment_items_shipment").on(t.shipmentId)],
 );
 
 /** One batch of a material mixed by a lab, with its fresh properties (SI units). */
@@ -564,6 +583,38 @@ export const emailOutbox = sqliteTable("email_outbox", {
   providerMessageId: text("provider_message_id"),
   error: text("error"),
   createdAt: createdAt(),
+});
+
+/**
+ * Each scheduled e-mail, claimed before it is sent: the unique key (kind,
+ * subject, recipient) makes a second claim fail, so however many app instances
+ * run the schedule, a notice goes out once.
+ */
+export const notices = sqliteTable(
+  "notices",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    kind: text("kind", { enum: NOTICE_KINDS }).notNull(),
+    studyId: integer("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    /** The shipment or enrollment the notice is about. */
+    subjectId: integer("subject_id").notNull(),
+    recipient: text("recipient").notNull(),
+    uniqueKey: text("unique_key").notNull().unique(),
+    emailId: integer("email_id").references(() => emailOutbox.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("notices_study").on(t.studyId)],
+);
+
+/** Which optional notices a person receives; no row means all of them. */
+export const noticePreferences = sqliteTable("notice_preferences", {
+  userId: integer("user_id")
+    .primaryKey()
+    .references(() => users.id, { onDelete: "cascade" }),
+  resultReminders: integer("result_reminders", { mode: "boolean" }).notNull().default(true),
+  enrollmentAnswers: integer("enrollment_answers", { mode: "boolean" }).notNull().default(true),
 });
 
 /** Uploaded files, stored under data/uploads by content hash. */

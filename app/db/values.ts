@@ -53,6 +53,12 @@ export const ENROLLMENT_STATES = ["invited", "accepted", "declined", "withdrawn"
 
 export const SHIPMENT_STATUSES = ["preparing", "shipped", "received", "lost"] as const;
 
+/** How a packing list's quantity is counted. */
+export const SHIPMENT_UNITS = ["kg", "g", "L", "mL", "pieces"] as const;
+
+/** The e-mails sent on a schedule; the optional ones a person may turn off on the account page. */
+export const NOTICE_KINDS = ["shipment_damaged", "shipment_lost", "enrollment_accepted", "enrollment_declined", "results_due_soon", "results_overdue"] as const;
+
 export const CELL_STATUSES = ["draft", "submitted"] as const;
 
 export const QUERY_STATES = ["open", "answered", "closed"] as const;

@@ -48,6 +48,12 @@ export const tokenSchema = z.object({
 
 export const revokeTokenSchema = z.object({ intent: z.literal("revoke-token"), tokenId: idField });
 
+/** A ticked box posts "on"; an unticked one posts nothing, which turns the notice off. */
+const noticeBox = z.literal("on", { message: "Tick the box or leave it empty." }).optional().transform((v) => v === "on");
+
+/** The optional e-mails a person may turn off; notices about damaged or lost shipments always go out. */
+export const noticePreferencesSchema = z.object({ intent: z.literal("notices"), resultReminders: noticeBox, enrollmentAnswers: noticeBox });
+
 export const accountSchema = z.discriminatedUnion("intent", [
   profileSchema,
   passwordChangeSchema,
@@ -56,6 +62,7 @@ export const accountSchema = z.discriminatedUnion("intent", [
   removeColleagueSchema,
   tokenSchema,
   revokeTokenSchema,
+  noticePreferencesSchema,
 ]);
 
 // The administrator's account list. Roles are ticked boxes: one or more.

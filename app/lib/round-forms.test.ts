@@ -15,7 +15,7 @@ describe("newRoundSchema", () => {
   });
   it("refuses four materials, repeated codes and 4 replicates, each beside its field", () => {
     expect(errorsOf(newRoundSchema.safeParse({ code: "PT-1", title: "x", replicatesPerCell: "4", materials: "A\nB\nC\nD" }))).toEqual({
-      replicatesPerCell: "Enter 1, 2 or 3 replicates.",
+      replicatesPerCell: "A round takes 1 or 2 replicates per lab and material.",
       materials: "List one to three materials, one per line.",
     });
     expect(errorsOf(newRoundSchema.safeParse({ code: "PT-1", title: "x", replicatesPerCell: "1", materials: "A one\na two" }))).toEqual({ materials: "Give each material its own code." });

@@ -4,7 +4,9 @@
  */
 import { z } from "zod";
 import { ASSIGNED_VALUE_METHODS, SIGMA_PT_METHODS } from "~/db/values";
-import { studyCodeField } from "~/lib/study-forms";
+import { REPLICATES_BY_KIND, replicatesProblem, studyCodeField } from "~/lib/study-forms";
+
+const ROUND_REPLICATES = REPLICATES_BY_KIND.proficiency.message;
 
 const blankToNull = (v: string) => (v.trim() === "" ? null : v.trim());
 
@@ -48,10 +50,9 @@ export const newRoundSchema = z.object({
     .optional()
     .transform((v) => v ?? ""),
   replicatesPerCell: z.coerce
-    .number({ message: "Enter 1, 2 or 3 replicates." })
-    .int({ message: "Enter 1, 2 or 3 replicates." })
-    .min(1, { message: "Enter 1, 2 or 3 replicates." })
-    .max(3, { message: "Enter 1, 2 or 3 replicates." }),
+    .number({ message: ROUND_REPLICATES })
+    .int({ message: ROUND_REPLICATES })
+    .refine((n) => replicatesProblem("proficiency", n) === null, { message: ROUND_REPLICATES }),
   materials: z
     .string({ message: "List one to three materials, one per line." })
     .transform((text, ctx) => {

@@ -3,9 +3,10 @@
  * and, where a page checks as one types, in the browser.
  */
 import { z } from "zod";
-import { RESPONSE_KINDS, STUDY_STATES } from "~/db/values";
+import { RESPONSE_KINDS, STUDY_STATES, type StudyKind } from "~/db/values";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { emailField, nameField } from "~/lib/validation";
+import { packingListSchema } from "~/lib/packing-list";
 
 // Conform hands a blank field to the schema as undefined; the older forms still send "". Both mean "left blank".
 
@@ -43,11 +44,10 @@ const studyFieldsShape = z.object({
     code: studyCodeField,
     title: z.string({ message: "Enter a title." }).trim().min(1, { message: "Enter a title." }).max(200, { message: "Keep the title to 200 characters or fewer." }).superRefine(refuseUnsafeCharacters()),
     testMethod: z.string({ message: "Name the test method." }).trim().min(1, { message: "Name the test method." }).max(200, { message: "Keep the test method to 200 characters or fewer." }).superRefine(refuseUnsafeCharacters()),
-    // E691 needs at least two replicates per cell to estimate repeatability.
+    // How few a study takes depends on its kind: replicatesProblem below.
     replicatesPerCell: z.coerce
       .number({ message: "Enter a whole number of replicates." })
       .int({ message: "Enter a whole number of replicates." })
-      .min(2, { message: "Use at least 2 replicates per cell (repeatability needs two)." })
       .max(10, { message: "Use at most 10 replicates per cell." }),
     significanceLevel: z.coerce
       .number({ message: "Enter the significance level as a number such as 0.005." })
@@ -75,13 +75,38 @@ function datesInOrder(v: z.output<typeof studyFieldsShape>, ctx: z.RefinementCtx
   }
 }
 
+/**
+ * Replicates per cell each kind of study takes: a precision study at least 2
+ * (E691 and ISO 5725-2 estimate repeatability from them); a proficiency round
+ * 1 or 2 (each lab is scored on its average); a ruggedness study 1 or 2
+ * results per run.
+ */
+export const REPLICATES_BY_KIND: Record<StudyKind, { min: number; max: number; message: string }> = {
+  precision: { min: 2, max: 10, message: "Use at least 2 replicates per cell (repeatability needs two)." },
+  proficiency: { min: 1, max: 2, message: "A round takes 1 or 2 replicates per lab and material." },
+  ruggedness: { min: 1, max: 2, message: "A ruggedness study takes 1 or 2 results per run." },
+};
+
+/** The sentence to show beside the replicates field, or null when `n` suits the kind of study. */
+export function replicatesProblem(kind: StudyKind, n: number): string | null {
+  const range = REPLICATES_BY_KIND[kind];
+  return n >= range.min && n <= range.max ? null : range.message;
+}
+
 export const studyFields = studyFieldsShape.superRefine(datesInOrder);
 
 export const STUDY_TEMPLATES = ["float_finishing", "custom"] as const;
 
+/** Refuses, beside the field, a number of replicates the kind of study does not take. */
+const replicatesFor = (kind: StudyKind) => (v: { replicatesPerCell: number }, ctx: z.RefinementCtx) => {
+  const problem = replicatesProblem(kind, v.replicatesPerCell);
+  if (problem) ctx.addIssue({ code: "custom", path: ["replicatesPerCell"], message: problem });
+};
+
 export const newStudySchema = studyFieldsShape
   .extend({ template: z.enum(STUDY_TEMPLATES, { message: "Choose a template." }) })
-  .superRefine(datesInOrder);
+  .superRefine(datesInOrder)
+  .superRefine(replicatesFor("precision"));
 
 export const responseSchema = z
   .object({
@@ -152,9 +177,16 @@ const requiredDate = (what: string) => z.iso.date({ message: `Enter the ${what} 
 /** One of the study's labs, chosen from a list of its enrollments. */
 const enrollmentChoice = z.coerce.number({ message: "Choose a lab." }).int().positive({ message: "Choose a lab." });
 
+/**
+ * A packing list for one lab, or for every accepted lab without a shipment
+ * (`enrollmentId` "every"); `labCount` is how many labs the page offered, so a
+ * list is not copied to a different number of labs than the coordinator confirmed.
+ */
 export const shipmentCreateSchema = z.object({
-  enrollmentId: enrollmentChoice,
-  contents: z.string({ message: "List the materials and lots in the shipment." }).trim().min(1, { message: "List the materials and lots in the shipment." }).max(2000, { message: "Keep the contents to 2000 characters or fewer." }).superRefine(refuseUnsafeCharacters({ multiline: true })),
+  enrollmentId: z.union([z.literal("every"), enrollmentChoice], { message: "Choose a lab." }),
+  labCount: z.coerce.number().int().min(0).optional(),
+  items: packingListSchema,
+  note: optionalText(2000, "note"),
   carrier: optionalText(120, "carrier"),
   trackingNumber: optionalText(120, "tracking number"),
 });
@@ -186,7 +218,6 @@ const intent = <const Name extends string>(name: Name) => ({ intent: z.literal(n
 
 /** Every form of the setup page, by intent; the action parses them as one union. */
 export const setupForms = {
-  study: studyFields.safeExtend(intent("study")),
   responseAdd: responseSchema.safeExtend(intent("response-add")),
   responseRemove: z.object({ ...intent("response-remove"), id: rowId }),
   targets: freshTargetsSchema.safeExtend(intent("targets")),
@@ -201,23 +232,40 @@ export const setupForms = {
 
 const UNKNOWN_FORM = { error: "Unknown action." };
 
-export const setupSchema = z.discriminatedUnion(
-  "intent",
-  [
-    setupForms.study,
-    setupForms.responseAdd,
-    setupForms.responseRemove,
-    setupForms.targets,
-    setupForms.coordinatorAdd,
-    setupForms.reviewerAdd,
-    setupForms.coordinatorRemove,
-    setupForms.reviewerRemove,
-    setupForms.materialAdd,
-    setupForms.materialRemove,
-    setupForms.transition,
-  ],
-  UNKNOWN_FORM,
-);
+const studyDetailsForm = (kind: StudyKind) => studyFields.safeExtend(intent("study")).superRefine(replicatesFor(kind));
+
+/** The details form of the setup page for each kind of study (precision studies and rounds share the page). */
+export const studyDetailsForms = {
+  precision: studyDetailsForm("precision"),
+  proficiency: studyDetailsForm("proficiency"),
+  ruggedness: studyDetailsForm("ruggedness"),
+} satisfies Record<StudyKind, unknown>;
+
+const setupSchemaOf = (kind: StudyKind) =>
+  z.discriminatedUnion(
+    "intent",
+    [
+      studyDetailsForms[kind],
+      setupForms.responseAdd,
+      setupForms.responseRemove,
+      setupForms.targets,
+      setupForms.coordinatorAdd,
+      setupForms.reviewerAdd,
+      setupForms.coordinatorRemove,
+      setupForms.reviewerRemove,
+      setupForms.materialAdd,
+      setupForms.materialRemove,
+      setupForms.transition,
+    ],
+    UNKNOWN_FORM,
+  );
+
+/** Every form of the setup page, for a study of `kind`. */
+export const setupSchemas = {
+  precision: setupSchemaOf("precision"),
+  proficiency: setupSchemaOf("proficiency"),
+  ruggedness: setupSchemaOf("ruggedness"),
+} satisfies Record<StudyKind, unknown>;
 
 /** The protocol upload, checked in the browser; the server checks the file's bytes too. */
 export const PROTOCOL_MAX_BYTES = 10 * 1024 * 1024;

@@ -2,7 +2,9 @@
  * What may change in each study state: one table for every kind of write,
  * read by the server before each write (pages, API and import alike) and by
  * the pages, which show the same sentence beside a disabled control.
- * Published and cancelled studies are read-only everywhere.
+ * Published and cancelled studies are read-only everywhere. Proficiency
+ * rounds and ruggedness studies are studies too: the shared kinds govern
+ * their setup, labs and results pages, and their own kinds are below.
  */
 import type { StudyState } from "~/db/values";
 
@@ -23,7 +25,13 @@ export type WriteKind =
   | "queryAnswers"
   | "decisions"
   | "statements"
-  | "review";
+  | "review"
+  | "roundChoices"
+  | "roundChecks"
+  | "labUncertainty"
+  | "roundPublication"
+  | "ruggednessDesign"
+  | "ruggednessResults";
 
 type Rule = {
   /** What the write is, for the table the pages show. */
@@ -31,9 +39,18 @@ type Rule = {
   open: readonly StudyState[];
   /** Shown when the study is in another (not final) state. */
   closed: string;
+  /** Said instead of READ_ONLY_SENTENCE where the write belongs to a round. */
+  final?: Partial<Record<StudyState, string>>;
 };
 
 const BEFORE_REVIEW: StudyState[] = ["draft", "recruiting", "testing", "checking"];
+
+const ROUND_BEFORE_PUBLICATION = "A round's choices and checks change only until it is published.";
+
+const ROUND_FINAL: Partial<Record<StudyState, string>> = {
+  published: "This round is published; its report, scores and letters are read-only.",
+  cancelled: "This round was cancelled; nothing more can be changed.",
+};
 
 export const WRITE_RULES: Record<WriteKind, Rule> = {
   details: { what: "Title, code, test method, dates and notes", open: BEFORE_REVIEW, closed: "Study details are fixed once the statement goes to the committee." },
@@ -53,6 +70,12 @@ export const WRITE_RULES: Record<WriteKind, Rule> = {
   decisions: { what: "Cell decisions", open: ["checking"], closed: "Cell decisions can be made only while the study is checking data." },
   statements: { what: "Freezing, editing and sending a statement", open: ["checking"], closed: "A statement can be frozen, edited or sent only while the study is checking data." },
   review: { what: "Votes, comments, answers, replies, rulings, publication", open: ["in_review"], closed: "The committee review is not open for this study." },
+  roundChoices: { what: "A round's assigned values and σ_pt, and their basis", open: BEFORE_REVIEW, closed: ROUND_BEFORE_PUBLICATION, final: ROUND_FINAL },
+  roundChecks: { what: "A round's homogeneity and stability results and their justification", open: BEFORE_REVIEW, closed: ROUND_BEFORE_PUBLICATION, final: ROUND_FINAL },
+  labUncertainty: { what: "A lab's own standard uncertainty in a round", open: ["testing"], closed: "Uncertainties can be entered only while the round is testing.", final: ROUND_FINAL },
+  roundPublication: { what: "Publishing a round's scores and letters", open: ["checking"], closed: "A round publishes from the checking state: close testing first.", final: ROUND_FINAL },
+  ruggednessDesign: { what: "A ruggedness study's factors and run design", open: ["draft"], closed: "The factors and the design are fixed once results are entered." },
+  ruggednessResults: { what: "A ruggedness study's results", open: ["draft", "testing"], closed: "Results are entered only while the study is being run." },
 };
 
 export const READ_ONLY_SENTENCE: Partial<Record<StudyState, string>> = {
@@ -62,9 +85,9 @@ export const READ_ONLY_SENTENCE: Partial<Record<StudyState, string>> = {
 
 /** The sentence to show when `kind` of write is refused in `state`, or null when it is allowed. */
 export function writeRefusal(kind: WriteKind, state: StudyState): string | null {
-  const final = READ_ONLY_SENTENCE[state];
-  if (final) return final;
   const rule = WRITE_RULES[kind];
+  const final = rule.final?.[state] ?? READ_ONLY_SENTENCE[state];
+  if (final) return final;
   return rule.open.includes(state) ? null : rule.closed;
 }
 

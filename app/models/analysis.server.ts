@@ -22,14 +22,17 @@ export type StudyResultRow = {
   operator: string;
   status: "draft" | "submitted";
   amended: boolean;
+  /** The stored replicate's version, which a writer names to refuse overwriting a later value. */
+  version: number;
 };
 
 /**
  * Every result of the study in long form, ordered by lab code, material,
  * response and replicate; `withoutWithdrawn` leaves out labs withdrawn from
- * the study (their results are kept, but no longer analysed).
+ * the study (their results are kept, but no longer analysed); `enrollmentId`
+ * keeps one lab's.
  */
-export async function studyResultRows(studyId: number, { submittedOnly = false, withoutWithdrawn = false } = {}): Promise<StudyResultRow[]> {
+export async function studyResultRows(studyId: number, { submittedOnly = false, withoutWithdrawn = false, enrollmentId }: { submittedOnly?: boolean; withoutWithdrawn?: boolean; enrollmentId?: number } = {}): Promise<StudyResultRow[]> {
   const rows = await db
     .select({
       cellId: cells.id,
@@ -43,6 +46,7 @@ export async function studyResultRows(studyId: number, { submittedOnly = false, 
       operator: results.operator,
       status: cells.status,
       amended: cells.amended,
+      version: results.version,
     })
     .from(results)
     .innerJoin(cells, eq(cells.id, results.cellId))
@@ -55,6 +59,7 @@ export async function studyResultRows(studyId: number, { submittedOnly = false, 
         eq(enrollments.studyId, studyId),
         submittedOnly ? eq(cells.status, "submitted") : undefined,
         withoutWithdrawn ? ne(enrollments.state, "withdrawn") : undefined,
+        enrollmentId !== undefined ? eq(enrollments.id, enrollmentId) : undefined,
       ),
     )
     .orderBy(asc(enrollments.labCode), asc(materials.sortOrder), asc(responses.sortOrder), asc(results.replicate));

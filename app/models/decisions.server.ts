@@ -4,11 +4,12 @@
  * version (so cached analyses are recomputed) and enters the audit trail in
  * the same transaction.
  */
-import { and, asc, desc, eq, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { auditEvents, cellDecisions, cells, enrollments, materials, responses, results, users, type Study } from "~/db/schema";
+import { amendments, auditEvents, cellDecisions, cells, enrollments, materials, queries, responses, results, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import type { CellRef } from "~/lib/review/cells";
+import { cellsAmendedAfterQuery } from "~/lib/review/amended-cells";
 import { writeRefusal } from "~/lib/write-rules";
 import { bumpDataVersion } from "~/models/analysis.server";
 import { FieldRefusal } from "~/lib/field-refusal";
@@ -55,6 +56,31 @@ export async function listCellDecisions(studyId: number) {
     .where(eq(enrollments.studyId, studyId))
     .orderBy(asc(enrollments.labCode), asc(materials.sortOrder), asc(responses.sortOrder));
   return rows.map((r) => ({ ...r, lab: r.lab ?? "—", decidedAt: r.decidedAt.toISOString() }));
+}
+
+/** Cells of the study (by lab code) whose values a lab amended while a correction query on them was open. */
+export async function amendedAfterQueryCells(studyId: number): Promise<CellRef[]> {
+  const studyCells = await db
+    .select({ id: cells.id, lab: enrollments.labCode, material: materials.code, response: responses.key })
+    .from(cells)
+    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+    .innerJoin(materials, eq(materials.id, cells.materialId))
+    .innerJoin(responses, eq(responses.id, cells.responseId))
+    .where(and(eq(enrollments.studyId, studyId), eq(cells.amended, true)));
+  const refs = new Map(studyCells.flatMap((c) => (c.lab === null ? [] : [[c.id, { lab: c.lab, material: c.material, response: c.response }] as const])));
+  if (refs.size === 0) return [];
+  const ids = [...refs.keys()];
+  const [amended, corrections] = await Promise.all([
+    db.select({ cellId: amendments.cellId, at: amendments.createdAt, queryId: amendments.queryId }).from(amendments).where(inArray(amendments.cellId, ids)).orderBy(asc(amendments.createdAt)),
+    db
+      .select({ cellId: queries.cellId, id: queries.id, openedAt: queries.createdAt, closedAt: queries.closedAt })
+      .from(queries)
+      .where(and(inArray(queries.cellId, ids), eq(queries.asksCorrection, true))),
+  ]);
+  return cellsAmendedAfterQuery(
+    amended.map(({ cellId, ...a }) => ({ ...refs.get(cellId)!, ...a })),
+    corrections.map(({ cellId, ...q }) => ({ ...refs.get(cellId)!, ...q })),
+  );
 }
 
 export type CellDecisionInput = CellRef & { decision: "retained" | "excluded"; reason: string };

@@ -13,7 +13,7 @@ import { cellStatusOf } from "~/lib/cell-status";
 import { checkResultValue, outsidePlausibleRange } from "~/lib/results/values";
 import { enrollmentRefusal, writeRefusal } from "~/lib/write-rules";
 import { IMAGE_TYPES, storeUpload } from "~/server/uploads.server";
-import { bumpDataVersion } from "~/models/analysis.server";
+import { bumpDataVersion, studyResultRows } from "~/models/analysis.server";
 
 export type Enrollment = typeof enrollments.$inferSelect;
 type Actor = { id: number };
@@ -97,7 +97,18 @@ async function entryFrame(enrollment: Enrollment) {
 type Change = { material: string; response: string; replicate: number; before: number | null; after: number | null };
 
 /** A draft save that found the replicate changed by someone else since it was read: nothing of it was written. */
-export type DraftConflict = { row: number; material: string; response: string; replicate: number; theirValue: number | null; by: string; yourValue: number | null; message: string };
+export type DraftConflict = {
+  row: number;
+  material: string;
+  response: string;
+  replicate: number;
+  theirValue: number | null;
+  /** The stored replicate's version now (0: none stored), for a writer to read again and resend. */
+  currentVersion: number;
+  by: string;
+  yourValue: number | null;
+  message: string;
+};
 
 function conflictMessage(row: ResolvedRow, responseName: string, theirValue: number | null, by: string) {
   const where = `${row.materialCode}, ${responseName.toLowerCase()}, replicate ${row.replicate}`;
@@ -137,7 +148,17 @@ async function writeRows(tx: Transaction, enrollment: Enrollment, rows: Resolved
     if (row.readVersion !== undefined && row.readVersion !== (before?.version ?? 0)) {
       const by = before?.updatedBy ? ((await tx.query.users.findFirst({ where: eq(users.id, before.updatedBy), columns: { name: true } }))?.name ?? "someone") : "someone";
       const theirValue = before?.value ?? null;
-      conflicts.push({ row: row.row, material: row.materialCode, response: row.responseKey, replicate: row.replicate, theirValue, by, yourValue: row.value, message: conflictMessage(row, responseNames.get(row.responseId) ?? row.responseKey, theirValue, by) });
+      conflicts.push({
+        row: row.row,
+        material: row.materialCode,
+        response: row.responseKey,
+        replicate: row.replicate,
+        theirValue,
+        currentVersion: before?.version ?? 0,
+        by,
+        yourValue: row.value,
+        message: conflictMessage(row, responseNames.get(row.responseId) ?? row.responseKey, theirValue, by),
+      });
       continue;
     }
     if (!cell || (row.value === null && !before)) continue;
@@ -188,36 +209,55 @@ export async function saveDraftResults(enrollment: Enrollment, rows: ResultInput
   });
 }
 
-export type ImportOutcome = { ok: true; imported: number; changed: number } | { ok: false; problems: RowProblem[] };
+export type ImportOutcome = { ok: true; imported: number; changed: number } | { ok: false; problems: RowProblem[]; conflicts: DraftConflict[] };
+
+/** Thrown inside the import's transaction so that a stale row undoes the rows written before it. */
+class StaleRows extends Error {
+  constructor(readonly conflicts: DraftConflict[]) {
+    super("stale rows");
+  }
+}
 
 /**
  * Checks every row first; imports all of them in one transaction, or none when
- * any row has a problem. Importing the same rows again changes nothing, and
- * records nothing.
+ * any row has a problem or names a version of its replicate that is no longer
+ * stored. Importing the same rows again changes nothing, and records nothing.
  */
 export async function importResults(enrollment: Enrollment, rows: ResultInputRow[], user: Actor, fileName = ""): Promise<ImportOutcome> {
   const frame = await entryFrame(enrollment);
   assertResultsEditable(frame.study, enrollment);
-  if (rows.length === 0) return { ok: false, problems: [{ row: 1, field: "value", message: "The file has no result rows." }] };
-  return db.transaction(async (tx) => {
-    const { problems, resolved } = resolveRows(frame, await enrollmentCells(tx, enrollment.id), rows, { valueRequired: true });
-    if (problems.length > 0) return { ok: false as const, problems };
-    const { changes } = await writeRows(tx, enrollment, resolved, user);
-    if (changes.length === 0) return { ok: true as const, imported: rows.length, changed: 0 };
-    await recordAudit(
-      {
-        actorUserId: user.id,
-        action: "results.imported",
-        entityType: "enrollment",
-        entityId: enrollment.id,
-        studyId: enrollment.studyId,
-        ...changeTrail(changes),
-        reason: fileName ? `CSV import of ${fileName} (${rows.length} rows)` : `CSV import (${rows.length} rows)`,
-      },
-      tx,
-    );
-    return { ok: true as const, imported: rows.length, changed: changes.length };
-  });
+  if (rows.length === 0) return { ok: false, problems: [{ row: 1, field: "value", message: "The file has no result rows." }], conflicts: [] };
+  try {
+    return await db.transaction(async (tx) => {
+      const { problems, resolved } = resolveRows(frame, await enrollmentCells(tx, enrollment.id), rows, { valueRequired: true });
+      if (problems.length > 0) return { ok: false as const, problems, conflicts: [] };
+      const { changes, conflicts } = await writeRows(tx, enrollment, resolved, user, new Map(frame.responses.map((r) => [r.id, r.name])));
+      if (conflicts.length > 0) throw new StaleRows(conflicts);
+      if (changes.length === 0) return { ok: true as const, imported: rows.length, changed: 0 };
+      await recordAudit(
+        {
+          actorUserId: user.id,
+          action: "results.imported",
+          entityType: "enrollment",
+          entityId: enrollment.id,
+          studyId: enrollment.studyId,
+          ...changeTrail(changes),
+          reason: fileName ? `CSV import of ${fileName} (${rows.length} rows)` : `CSV import (${rows.length} rows)`,
+        },
+        tx,
+      );
+      return { ok: true as const, imported: rows.length, changed: changes.length };
+    });
+  } catch (error) {
+    if (error instanceof StaleRows) return { ok: false, problems: [], conflicts: error.conflicts };
+    throw error;
+  }
+}
+
+/** A lab's own stored results with the version of each replicate, for a writer (the API) to name what it read. */
+export async function enrollmentResults(enrollment: Enrollment) {
+  const rows = await studyResultRows(enrollment.studyId, { enrollmentId: enrollment.id });
+  return rows.map(({ material, response, replicate, value, testedOn, operator, version, status }) => ({ material, response, replicate, value, testedOn, operator, version, cellStatus: status }));
 }
 
 /** What a lab sees on one material's result entry page: its own cells only. */

@@ -25,6 +25,7 @@ import {
   type MaterialCheck,
 } from "~/db/schema";
 import { FieldRefusal } from "~/lib/field-refusal";
+import { writeRefusal } from "~/lib/write-rules";
 import {
   algorithmA,
   homogeneityCheck,
@@ -71,11 +72,10 @@ function precisionBasis(found: PrecisionAtLevel) {
     : where;
 }
 
-/** A round's choices may change, and its checks be entered, until it is published. */
-function assertNotPublished(study: Pick<Study, "state">) {
-  if (study.state === "published" || study.state === "cancelled") {
-    throw new FieldRefusal("form", "This round is closed; its report and scores no longer change.");
-  }
+/** Refuses a round's write where the one table of write rules (~/lib/write-rules) does, with its sentence beside `field`. */
+function assertRoundWrite(kind: "roundChoices" | "roundChecks" | "labUncertainty", study: Pick<Study, "state">, field = "form") {
+  const refusal = writeRefusal(kind, study.state);
+  if (refusal) throw new FieldRefusal(field, refusal);
 }
 
 /** Rounds the user coordinates (every round for an admin), newest first. */
@@ -250,7 +250,7 @@ export type RoundDesign = Awaited<ReturnType<typeof roundDesign>>;
 
 /** Saves how the assigned value and σ_pt of one material × response are set. */
 export async function saveAssignment(study: Study, actorUserId: number, input: z.infer<typeof assignmentSchema>) {
-  assertNotPublished(study);
+  assertRoundWrite("roundChoices", study);
   const values = {
     assignedMethod: input.assignedMethod,
     referenceValue: input.assignedMethod === "reference" ? input.referenceValue : null,
@@ -272,7 +272,7 @@ export async function saveAssignment(study: Study, actorUserId: number, input: z
 
 /** Replaces the homogeneity and stability results of one material × response, and the justification, in one transaction. */
 export async function saveChecks(study: Study, actorUserId: number, input: z.infer<typeof checksSchema>) {
-  assertNotPublished(study);
+  assertRoundWrite("roundChecks", study);
   const { row: assignment } = await assignmentRowFor(study, input.materialId, input.responseId);
   const rows = [
     ...input.homogeneity.flatMap(([first, second], index) => [
@@ -294,7 +294,7 @@ export async function saveChecks(study: Study, actorUserId: number, input: z.inf
 
 /** A lab's own standard uncertainty for one material × response (blank removes it). */
 export async function saveLabUncertainty(enrollmentId: number, study: Study, actorUserId: number, input: { materialId: number; responseId: number; standardUncertainty: number | null }) {
-  if (study.state !== "testing") throw new FieldRefusal("standardUncertainty", "Uncertainties can be entered only while the round is testing.");
+  assertRoundWrite("labUncertainty", study, "standardUncertainty");
   const material = await db.query.materials.findFirst({ where: and(eq(materials.id, input.materialId), eq(materials.studyId, study.id)) });
   const response = await db.query.responses.findFirst({ where: and(eq(responses.id, input.responseId), eq(responses.studyId, study.id)) });
   if (!material || !response) throw new FieldRefusal("standardUncertainty", "That material and response are not part of this round.");
@@ -438,7 +438,8 @@ export async function scoreRound(study: Study): Promise<RoundGroup[]> {
 /** What stands in the way of publishing, in plain words; empty when the round may publish. */
 export function publicationProblems(study: Pick<Study, "state">, groups: RoundGroup[]): string[] {
   const problems: string[] = [];
-  if (study.state !== "checking") problems.push("A round publishes from the checking state: close testing first.");
+  const refusal = writeRefusal("roundPublication", study.state);
+  if (refusal) problems.push(refusal);
   for (const group of groups) {
     const name = `${group.material.code} · ${group.response.name}`;
     if (group.refusal) problems.push(`${name}: ${group.refusal}`);

@@ -9,6 +9,7 @@ import { and, asc, count, eq, inArray, or } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { responses, ruggednessFactors, ruggednessPlans, ruggednessResults, studies, studyCoordinators } from "~/db/schema";
 import { FieldRefusal } from "~/lib/field-refusal";
+import { type WriteKind, writeRefusal } from "~/lib/write-rules";
 import { analyzeRuggedness, designFor, plackettBurmanDesign, randomRunOrder, type RunCount } from "~/lib/ruggedness";
 import type { FactorsInput } from "~/lib/ruggedness/forms";
 import type { z } from "zod";
@@ -18,6 +19,12 @@ import { recordAudit } from "~/server/audit.server";
 import type { SessionUser } from "~/models/user.server";
 
 type Study = typeof studies.$inferSelect;
+
+/** Refuses a write where the one table of write rules (~/lib/write-rules) does, with its sentence beside `field`. */
+function assertRuggednessWrite(kind: Extract<WriteKind, "ruggednessDesign" | "ruggednessResults">, study: Pick<Study, "state">, field: string) {
+  const refusal = writeRefusal(kind, study.state);
+  if (refusal) throw new FieldRefusal(field, refusal);
+}
 
 /** The ruggedness studies a coordinator owns or coordinates; every one for an admin. */
 export async function listRuggednessStudies(user: SessionUser) {
@@ -82,6 +89,7 @@ export async function ruggednessSetup(studyId: number) {
  * Refused once results are in, since they belong to the design as it was.
  */
 export async function saveFactors(study: Study, actorUserId: number, input: FactorsInput) {
+  assertRuggednessWrite("ruggednessDesign", study, "factors");
   const runs = designFor(input.factors.length);
   if (!runs) throw new FieldRefusal("factors", "At most 11 factors fit the 12-run design.");
   const [{ results }] = (await db.select({ results: count() }).from(ruggednessResults).where(eq(ruggednessResults.studyId, study.id))) as { results: number }[];
@@ -118,6 +126,7 @@ export type ResultEntry = { run: number; replicate: number; responseKey: string;
 
 /** Stores or changes the given results in one transaction; results not given stay as they are. A refusal with no field (key "") belongs to the whole form. */
 export async function saveRuggednessResults(study: Study, actorUserId: number, entries: ResultEntry[]) {
+  assertRuggednessWrite("ruggednessResults", study, "");
   const setup = await ruggednessSetup(study.id);
   if (!setup.plan) throw new FieldRefusal("", "Lay out the design before entering results.");
   if (entries.length === 0) throw new FieldRefusal("", "Enter at least one result.");

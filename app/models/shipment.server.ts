@@ -3,15 +3,16 @@
  * lost`. Marking one shipped e-mails the lab; the lab confirms receipt with the
  * condition, notes and an optional photo.
  */
-import { and, asc, count, desc, eq, inArray } from "drizzle-orm";
+import { and, asc, count, desc, eq, inArray, ne, notExists } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { cells, enrollments, labs, materials, mixtureConstituents, results, shipments, type Study } from "~/db/schema";
+import { cells, enrollments, labs, materials, mixtureConstituents, results, shipmentItems, shipments, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { notFound } from "~/server/guards.server";
 import { appUrl, sendEmail } from "~/server/email.server";
 import { shipmentNoticeEmail } from "~/server/email-templates.server";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { todayIso } from "~/lib/format";
+import { type PackingItem, startingPackingList } from "~/lib/packing-list";
 import { receiptDateProblem } from "~/lib/plausible-dates";
 import { enrollmentRefusal, type WriteKind, writeRefusal } from "~/lib/write-rules";
 
@@ -24,27 +25,33 @@ function assertWritable(kind: WriteKind, study: Study, field = "form") {
   if (refusal) throw new ShipmentError(field, refusal);
 }
 
-/** What goes in the box by default: each material with the lots of its constituents. */
-export async function defaultContents(studyId: number) {
+/** The packing list a new shipment starts from: the study's constituent lots (see startingPackingList). */
+export async function studyStartingPackingList(studyId: number) {
   const rows = await db
-    .select({ code: materials.code, lot: mixtureConstituents.lot, name: mixtureConstituents.name })
-    .from(materials)
-    .leftJoin(mixtureConstituents, eq(mixtureConstituents.materialId, materials.id))
+    .select({ materialCode: materials.code, kind: mixtureConstituents.kind, name: mixtureConstituents.name, lot: mixtureConstituents.lot })
+    .from(mixtureConstituents)
+    .innerJoin(materials, eq(materials.id, mixtureConstituents.materialId))
     .where(eq(materials.studyId, studyId))
     .orderBy(asc(materials.sortOrder), asc(materials.code), asc(mixtureConstituents.sortOrder));
-  const byMaterial = new Map<string, string[]>();
-  for (const r of rows) {
-    const lots = byMaterial.get(r.code) ?? [];
-    if (r.lot && !lots.includes(`${r.name} lot ${r.lot}`)) lots.push(`${r.name} lot ${r.lot}`);
-    byMaterial.set(r.code, lots);
-  }
-  return [...byMaterial].map(([code, lots]) => (lots.length ? `${code}: ${lots.join(", ")}` : code)).join("; ");
+  return startingPackingList(rows);
 }
 
-async function enrollmentOf(study: Study, enrollmentId: number) {
-  const enrollment = await db.query.enrollments.findFirst({ where: and(eq(enrollments.id, enrollmentId), eq(enrollments.studyId, study.id)) });
-  if (!enrollment || enrollment.state !== "accepted") throw new ShipmentError("enrollmentId", "Ship only to labs that have accepted.");
-  return enrollment;
+/**
+ * The accepted labs still waiting for materials: no shipment yet, or only lost
+ * ones (a lost box is replaced). A damaged one is replaced by the coordinator's
+ * decision, not by the "every lab" list.
+ */
+export async function labsAwaitingShipment(studyId: number) {
+  const open = db
+    .select({ id: shipments.id })
+    .from(shipments)
+    .where(and(eq(shipments.enrollmentId, enrollments.id), ne(shipments.status, "lost")));
+  return db
+    .select({ enrollmentId: enrollments.id, labCode: enrollments.labCode, labName: labs.name })
+    .from(enrollments)
+    .innerJoin(labs, eq(labs.id, enrollments.labId))
+    .where(and(eq(enrollments.studyId, studyId), eq(enrollments.state, "accepted"), notExists(open)))
+    .orderBy(asc(enrollments.labCode), asc(labs.name));
 }
 
 async function shipmentOf(study: Study, shipmentId: number) {
@@ -57,15 +64,40 @@ async function shipmentOf(study: Study, shipmentId: number) {
   return row.shipment;
 }
 
-export type ShipmentInput = { enrollmentId: number; contents: string; carrier: string; trackingNumber: string };
+export type ShipmentInput = { enrollmentId: number | "every"; labCount?: number; items: PackingItem[]; note: string; carrier: string; trackingNumber: string };
 
-export async function createShipment(study: Study, input: ShipmentInput, actorUserId: number) {
+/**
+ * Prepares the same packing list for one lab or for every lab awaiting
+ * materials, all in one transaction. Only a lab awaiting a shipment can get
+ * one, so a second box is never prepared by accident; for "every", the number
+ * of labs must still be the one the coordinator confirmed. Returns how many
+ * shipments were prepared.
+ */
+export async function prepareShipments(study: Study, input: ShipmentInput, actorUserId: number) {
   assertWritable("shipments", study);
-  await enrollmentOf(study, input.enrollmentId);
+  const awaiting = await labsAwaitingShipment(study.id);
+  let targets: number[];
+  if (input.enrollmentId === "every") {
+    if (awaiting.length === 0) throw new ShipmentError("enrollmentId", "Every accepted lab already has a shipment.");
+    if (input.labCount !== awaiting.length) {
+      throw new ShipmentError("enrollmentId", `The labs awaiting materials changed meanwhile: ${awaiting.length} now. Check the list and send again.`);
+    }
+    targets = awaiting.map((lab) => lab.enrollmentId);
+  } else {
+    const enrollmentId = input.enrollmentId;
+    if (!awaiting.some((lab) => lab.enrollmentId === enrollmentId)) {
+      throw new ShipmentError("enrollmentId", "Ship only to labs that have accepted and have no shipment yet.");
+    }
+    targets = [enrollmentId];
+  }
+  const { items, note, carrier, trackingNumber } = input;
   return db.transaction(async (tx) => {
-    const [row] = await tx.insert(shipments).values(input).returning();
-    await recordAudit({ actorUserId, action: "shipment_created", entityType: "shipment", entityId: row!.id, studyId: study.id, after: input }, tx);
-    return row!;
+    for (const enrollmentId of targets) {
+      const [row] = await tx.insert(shipments).values({ enrollmentId, note, carrier, trackingNumber }).returning();
+      await tx.insert(shipmentItems).values(items.map((item, sortOrder) => ({ ...item, shipmentId: row!.id, sortOrder })));
+      await recordAudit({ actorUserId, action: "shipment_created", entityType: "shipment", entityId: row!.id, studyId: study.id, after: { enrollmentId, items, note, carrier, trackingNumber } }, tx);
+    }
+    return targets.length;
   });
 }
 
@@ -101,7 +133,8 @@ export async function markShipped(
         to: lab.contactEmail,
         labName: lab.name,
         study,
-        contents: shipment.contents,
+        items: await itemsOf([shipment.id]).then((byShipment) => byShipment.get(shipment.id) ?? []),
+        note: shipment.note,
         carrier: input.carrier,
         trackingNumber: input.trackingNumber,
         shippedOn: input.shippedOn,
@@ -158,31 +191,61 @@ export async function receiptCorrectable(study: Study, enrollmentId: number) {
   return writeRefusal("receipts", study.state) === null && !(await hasResults(enrollmentId));
 }
 
-/** Every shipment of the study with its lab, newest first. */
+type ShipmentItem = Omit<typeof shipmentItems.$inferSelect, "shipmentId" | "sortOrder">;
+
+/** The packing lists of the given shipments, in their order. */
+async function itemsOf(shipmentIds: number[]) {
+  const byShipment = new Map<number, ShipmentItem[]>();
+  if (shipmentIds.length === 0) return byShipment;
+  const rows = await db.select().from(shipmentItems).where(inArray(shipmentItems.shipmentId, shipmentIds)).orderBy(asc(shipmentItems.shipmentId), asc(shipmentItems.sortOrder));
+  for (const { shipmentId, sortOrder: _, ...item } of rows) byShipment.set(shipmentId, [...(byShipment.get(shipmentId) ?? []), item]);
+  return byShipment;
+}
+
+const shipmentColumns = {
+  id: shipments.id,
+  enrollmentId: shipments.enrollmentId,
+  labName: labs.name,
+  labCode: enrollments.labCode,
+  status: shipments.status,
+  note: shipments.note,
+  carrier: shipments.carrier,
+  trackingNumber: shipments.trackingNumber,
+  shippedOn: shipments.shippedOn,
+  receivedOn: shipments.receivedOn,
+  condition: shipments.condition,
+  receiptNotes: shipments.receiptNotes,
+  photoAttachmentId: shipments.photoAttachmentId,
+  createdAt: shipments.createdAt,
+};
+
+/** Every shipment of the study with its lab and packing list, by lab, the latest first within a lab. */
 export async function listStudyShipments(studyId: number) {
-  return db
-    .select({
-      id: shipments.id,
-      enrollmentId: shipments.enrollmentId,
-      labName: labs.name,
-      labCode: enrollments.labCode,
-      status: shipments.status,
-      contents: shipments.contents,
-      carrier: shipments.carrier,
-      trackingNumber: shipments.trackingNumber,
-      shippedOn: shipments.shippedOn,
-      receivedOn: shipments.receivedOn,
-      condition: shipments.condition,
-      receiptNotes: shipments.receiptNotes,
-      photoAttachmentId: shipments.photoAttachmentId,
-    })
+  const rows = await db
+    .select(shipmentColumns)
     .from(shipments)
     .innerJoin(enrollments, eq(enrollments.id, shipments.enrollmentId))
     .innerJoin(labs, eq(labs.id, enrollments.labId))
     .where(eq(enrollments.studyId, studyId))
-    .orderBy(desc(shipments.id));
+    .orderBy(asc(enrollments.labCode), asc(labs.name), desc(shipments.id));
+  const items = await itemsOf(rows.map((row) => row.id));
+  return rows.map((row) => ({ ...row, items: items.get(row.id) ?? [] }));
+}
+
+/** One shipment's packing list with where it goes; 404 when it is not part of the study. */
+export async function packingListOf(studyId: number, shipmentId: number) {
+  const [row] = await db
+    .select({ ...shipmentColumns, address: labs.address, contactName: labs.contactName, contactEmail: labs.contactEmail })
+    .from(shipments)
+    .innerJoin(enrollments, eq(enrollments.id, shipments.enrollmentId))
+    .innerJoin(labs, eq(labs.id, enrollments.labId))
+    .where(and(eq(shipments.id, shipmentId), eq(enrollments.studyId, studyId)));
+  if (!row) notFound();
+  return { ...row, items: (await itemsOf([row.id])).get(row.id) ?? [] };
 }
 
 export async function listEnrollmentShipments(enrollmentId: number) {
-  return db.select().from(shipments).where(eq(shipments.enrollmentId, enrollmentId)).orderBy(desc(shipments.id));
+  const rows = await db.select().from(shipments).where(eq(shipments.enrollmentId, enrollmentId)).orderBy(desc(shipments.id));
+  const items = await itemsOf(rows.map((row) => row.id));
+  return rows.map((row) => ({ ...row, items: items.get(row.id) ?? [] }));
 }

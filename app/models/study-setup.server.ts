@@ -25,7 +25,7 @@ import {
 import { recordAudit } from "~/server/audit.server";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { AIR_CONTENT_TOLERANCE_POINTS, type Constituent, inToMm, slumpTolerance } from "~/lib/batching";
-import type { freshTargetsSchema, materialSchema, newStudySchema, responseSchema, studyFields } from "~/lib/study-forms";
+import { type freshTargetsSchema, type materialSchema, type newStudySchema, replicatesProblem, type responseSchema, type studyFields } from "~/lib/study-forms";
 import { type WriteKind, writeRefusal } from "~/lib/write-rules";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import { holdsRole, loadSessionUser, normaliseEmail } from "~/models/user.server";
@@ -79,6 +79,8 @@ export async function updateStudy(study: Study, input: StudyInput, actorUserId: 
   assertWritable("details", study);
   if (input.replicatesPerCell !== study.replicatesPerCell) {
     assertWritable("design", study, "replicatesPerCell");
+    const unsuited = replicatesProblem(study.kind, input.replicatesPerCell);
+    if (unsuited) throw new SetupError("replicatesPerCell", unsuited);
     const [beyond] = await db
       .select({ n: count() })
       .from(results)

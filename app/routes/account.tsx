@@ -7,6 +7,7 @@ import { Button, Card, Field, Notice, PageHeader, SelectField, SimpleTable } fro
 import {
   accountSchema,
   colleagueSchema,
+  noticePreferencesSchema,
   passwordChangeSchema,
   profileSchema,
   removeColleagueSchema,
@@ -16,7 +17,9 @@ import {
 } from "~/lib/account-forms";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { formatDateTime } from "~/lib/format";
+import { db } from "~/db/client.server";
 import { createApiToken, listApiTokens, revokeApiToken } from "~/models/api-token.server";
+import { noticePreferencesOf, saveNoticePreferences } from "~/models/notices.server";
 import { listColleagues, removeColleague } from "~/models/lab.server";
 import { listCoordinatedStudies, listLabEnrollments, listReviewedStudies } from "~/models/study.server";
 import { changePassword, updateName } from "~/models/user.server";
@@ -49,8 +52,8 @@ async function tokenTargets(user: Awaited<ReturnType<typeof requireUser>>) {
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const contactLabs = await Promise.all(user.contactLabIds.map(async (labId) => ({ labId, colleagues: await listColleagues(labId) })));
-  const [tokens, targets] = await Promise.all([listApiTokens(user.id), tokenTargets(user)]);
-  return { user, contactLabs, tokens, targets };
+  const [tokens, targets, notices] = await Promise.all([listApiTokens(user.id), tokenTargets(user), noticePreferencesOf(db, user.id)]);
+  return { user, contactLabs, tokens, targets, notices };
 }
 
 // Passwords are never sent back into the page, not even after a refusal.
@@ -109,6 +112,11 @@ export async function action({ request }: Route.ActionArgs) {
     case "revoke-token":
       await revokeApiToken(user.id, input.tokenId);
       return redirectWithToast("/account", "Token revoked: it no longer works.");
+    case "notices": {
+      const { intent: _, ...preferences } = input;
+      await saveNoticePreferences(db, user.id, preferences);
+      return redirectWithToast("/account", "Your e-mail notices are saved.");
+    }
   }
 }
 
@@ -121,13 +129,14 @@ async function signOutEverywhere(request: Request, userId: number) {
 type ActionData = Route.ComponentProps["actionData"];
 
 export default function Account({ loaderData, actionData }: Route.ComponentProps) {
-  const { user, contactLabs, tokens, targets } = loaderData;
+  const { user, contactLabs, tokens, targets, notices } = loaderData;
   const busy = useNavigation().state === "submitting";
   const newToken = actionData && "token" in actionData ? actionData.token : null;
   const [profileForm, profileFields] = useSchemaForm(profileSchema, { reply: actionData, intent: "profile", defaultValue: { name: user.name } });
   const [passwordForm, passwordFields] = useSchemaForm(passwordChangeSchema, { reply: actionData, intent: "password" });
   const [signOutForm] = useSchemaForm(signOutEverywhereSchema, { reply: actionData, intent: "sign-out-everywhere" });
   const [tokenForm, tokenFields] = useSchemaForm(tokenSchema, { reply: actionData, intent: "create-token" });
+  const [noticesForm, noticesFields] = useSchemaForm(noticePreferencesSchema, { reply: actionData, intent: "notices" });
   return (
     <>
       <PageHeader title="Your account" subtitle={user.email} />
@@ -154,6 +163,24 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
             />
             <Field label="New password again" type="password" autoComplete="new-password" {...fieldProps(passwordFields.confirmPassword)} />
             <Button type="submit" disabled={busy}>Change password</Button>
+          </Form>
+        </Card>
+        <Card title="E-mail notices">
+          <Form method="post" className="flex flex-col gap-3" {...getFormProps(noticesForm)}>
+            <input type="hidden" name="intent" value="notices" />
+            <FormErrors errors={formWideErrors(noticesForm)} />
+            <label className="flex items-start gap-2">
+              <input type="checkbox" name={noticesFields.resultReminders.name} defaultChecked={notices.resultReminders} className="mt-1 h-5 w-5" />
+              <span>Reminders to my lab a week before results are due, and when they are overdue</span>
+            </label>
+            <label className="flex items-start gap-2">
+              <input type="checkbox" name={noticesFields.enrollmentAnswers.name} defaultChecked={notices.enrollmentAnswers} className="mt-1 h-5 w-5" />
+              <span>A note when a lab accepts or declines an invitation to a study I coordinate</span>
+            </label>
+            <p className="text-sm text-basalt-700">Notices of a damaged or lost shipment always go to the study's coordinators.</p>
+            <div>
+              <Button type="submit" variant="secondary" disabled={busy}>Save notices</Button>
+            </div>
           </Form>
         </Card>
         <Card title="Sessions">

@@ -3,6 +3,7 @@
  * sends exactly the same text. Callers pass absolute links (appUrl).
  */
 import type { Role } from "~/db/values";
+import { formatQuantity } from "~/lib/packing-list";
 import { composeEmail } from "~/server/email.server";
 
 type StudyRef = { code: string; title: string };
@@ -62,7 +63,8 @@ export function shipmentNoticeEmail(p: {
   to: string;
   labName: string;
   study: StudyRef;
-  contents: string;
+  items: { description: string; quantity: number; unit: string; lot: string; containerCount: number }[];
+  note: string;
   carrier: string;
   trackingNumber: string;
   shippedOn: string;
@@ -74,7 +76,10 @@ export function shipmentNoticeEmail(p: {
     greeting: `Dear ${p.labName} team,`,
     paragraphs: [
       `The materials for ${p.study.code} left on ${p.shippedOn}${p.carrier ? ` with ${p.carrier}` : ""}${p.trackingNumber ? `, tracking number ${p.trackingNumber}` : ""}.`,
-      `Contents: ${p.contents || "as listed on the packing slip"}.`,
+      p.items.length
+        ? `Contents: ${p.items.map((item) => `${item.description}, ${formatQuantity(item.quantity, item.unit)}${item.lot ? `, lot ${item.lot}` : ""}, ${item.containerCount} ${item.containerCount === 1 ? "container" : "containers"}`).join("; ")}.`
+        : "Contents: as listed on the packing list in the box.",
+      ...(p.note ? [`Note: ${p.note}`] : []),
       "When they arrive, confirm receipt and their condition. Bags of cement and aggregate are heavy: lift with help.",
     ],
     action: { label: "Confirm receipt", url: p.url },
@@ -163,5 +168,51 @@ export function passwordResetEmail(p: { to: string; name: string; url: string; e
       "If you did not ask, ignore this message: your password stays as it is.",
     ],
     action: { label: "Set a new password", url: p.url },
+  });
+}
+
+const turnOff = (url: string) => `You can turn these notices off on your account page: ${url}`;
+
+export function shipmentProblemEmail(p: { to: string; name: string; study: StudyRef; lab: string; lost: boolean; notes: string; url: string }) {
+  return composeEmail({
+    to: p.to,
+    subject: `${p.study.code}: shipment to ${p.lab} ${p.lost ? "lost" : "arrived damaged"}`,
+    greeting: `Hello ${p.name},`,
+    paragraphs: [
+      p.lost ? `The shipment of ${p.study.code} to ${p.lab} is marked lost in transit.` : `${p.lab} reports that the shipment of ${p.study.code} arrived damaged.`,
+      ...(p.notes ? [`The lab's notes: ${p.notes}`] : []),
+      "Decide whether to send a replacement: the shipments page offers the lab a new packing list once its shipment is marked lost.",
+    ],
+    action: { label: "Open the shipments", url: p.url },
+  });
+}
+
+export function enrollmentAnswerEmail(p: { to: string; name: string; study: StudyRef; labName: string; accepted: boolean; url: string; preferencesUrl: string }) {
+  return composeEmail({
+    to: p.to,
+    subject: `${p.study.code}: ${p.labName} ${p.accepted ? "accepted" : "declined"} the invitation`,
+    greeting: `Hello ${p.name},`,
+    paragraphs: [
+      `${p.labName} ${p.accepted ? "accepted" : "declined"} the invitation to ${p.study.code}, "${p.study.title}".`,
+      ...(p.accepted ? ["Its shipment can be prepared on the shipments page."] : []),
+      turnOff(p.preferencesUrl),
+    ],
+    action: { label: "Open the labs of the study", url: p.url },
+  });
+}
+
+export function resultsDueEmail(p: { to: string; name: string; labName: string; study: StudyRef; missing: string[]; resultsDue: string; overdue: boolean; url: string; preferencesUrl: string }) {
+  return composeEmail({
+    to: p.to,
+    subject: `${p.study.code}: results ${p.overdue ? "overdue since" : "due on"} ${p.resultsDue}`,
+    greeting: `Hello ${p.name},`,
+    paragraphs: [
+      p.overdue
+        ? `Results of ${p.labName} for ${p.study.code} were due on ${p.resultsDue} and are not yet submitted for: ${p.missing.join(", ")}.`
+        : `Results of ${p.labName} for ${p.study.code} are due on ${p.resultsDue}; still to submit: ${p.missing.join(", ")}.`,
+      p.overdue ? "Submit them as soon as you can, or write to the coordinator if something holds your lab up." : "Submitted results can still be amended while the study is testing.",
+      turnOff(p.preferencesUrl),
+    ],
+    action: { label: "Open your study tasks", url: p.url },
   });
 }

@@ -133,8 +133,13 @@ describe("the coordinator's workflow, in the browser", { timeout: 120_000 }, () 
     await coordinator.goto(`${running.server.url}/studies/${studyId}/shipments`);
     await expectAccessible(coordinator);
     await coordinator.getByLabel("Carrier", { exact: true }).first().fill("Kestrel Freight");
-    await coordinator.getByRole("button", { name: "Prepare shipment" }).click();
+    // The packing list starts from the material's constituent lots; the coordinator gives the quantities, for the one lab.
+    const quantities = coordinator.getByLabel("Quantity");
+    for (let i = 0; i < (await quantities.count()); i++) await quantities.nth(i).fill("25");
+    await coordinator.getByLabel("Ship to", { exact: true }).selectOption({ index: 1 });
+    await coordinator.getByRole("button", { name: "Prepare", exact: true }).click();
     await expect.poll(() => coordinator.getByText("Shipment prepared.").count()).toBe(1);
+    await coordinator.locator("summary", { hasText: "Mark shipped" }).click();
     await coordinator.locator('input[id$="-trackingNumber"][id^="ship-"]').fill("KF-20270215");
     await coordinator.getByRole("button", { name: "Mark shipped" }).click();
     await expect.poll(() => coordinator.getByText("Marked shipped; the lab has been e-mailed.").count()).toBe(1);

@@ -63,10 +63,13 @@ async function move(coordinator: Page, to: string) {
 describe("a proficiency round in the browser", { timeout: 180_000 }, () => {
   it("runs from a published study to published letters, and each lab reads only its own", async () => {
     const coordinator = await signedIn("coordinator@ringbatch.example");
-    await coordinator.getByRole("link", { name: "Rounds" }).click();
-    await coordinator.getByRole("link", { name: "New round" }).click();
-    await coordinator.waitForURL(/\/rounds\/new$/);
-    await coordinator.getByLabel("From a published study", { exact: true }).selectOption({ label: "FF-2025-D — Finishability of bridge-deck mixtures" });
+    // The published study's pages offer the round; the form starts from that study.
+    await coordinator.getByRole("link", { name: "Studies" }).click();
+    await coordinator.getByRole("link", { name: /FF-2025-D/ }).first().click();
+    await coordinator.getByRole("link", { name: "Start a proficiency round" }).click();
+    await coordinator.waitForURL(/\/rounds\/new\?from=\d+$/);
+    const source = coordinator.getByLabel("From a published study", { exact: true });
+    expect(await source.locator("option:checked").textContent()).toBe("FF-2025-D — Finishability of bridge-deck mixtures");
     await coordinator.getByLabel("Round code").fill("PT-2027-9");
     await coordinator.getByLabel("Title", { exact: true }).fill("Float finishing proficiency round, spring 2027");
     await coordinator.getByLabel("Materials (one to three)").fill("R1 Reference paving mix, lot 27-A\nR2 Fly ash paving mix, lot 27-B");

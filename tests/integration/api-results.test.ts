@@ -25,6 +25,10 @@ async function enrollmentOf(labIndex: number) {
   return row!.id;
 }
 
+function getResults(enrollmentId: number, headers: Record<string, string>) {
+  return call(post.loader, new Request(`http://ringbatch.test/api/v1/enrollments/${enrollmentId}/results`, { headers }), { enrollmentId: String(enrollmentId) });
+}
+
 function postResults(enrollmentId: number, body: string, headers: Record<string, string>) {
   return call(post.action, new Request(`http://ringbatch.test/api/v1/enrollments/${enrollmentId}/results`, { method: "POST", headers: { "Content-Type": "application/json", ...headers }, body }), { enrollmentId: String(enrollmentId) });
 }
@@ -112,5 +116,55 @@ describe("POST /api/v1/enrollments/:id/results", () => {
     const revoked = await postResults(checkingEnrollment.id, GOOD, { Authorization: `Bearer ${otherWriter.token}` });
     expect(revoked.status).toBe(401);
     expect(revoked.data).toEqual({ error: { code: "unauthenticated", message: "The bearer token is not valid, or it was revoked." } });
+  });
+
+  it("takes the version each replicate was read at: a stale one gets 409 naming the cell and its current value, and nothing is written", async () => {
+    const cookie = await demoCookie("analyst7@ringbatch.example");
+    const read = await getResults(freshEnrollment, { Cookie: cookie });
+    expect(read.status).toBe(200);
+    const holes1 = read.data.results.find((r: { material: string; response: string; replicate: number }) => r.material === "F1" && r.response === "holes" && r.replicate === 1);
+    expect(holes1).toMatchObject({ value: 10, cellStatus: "draft" });
+    const readAt = holes1.version as number;
+
+    // Another person of the lab changes the replicate after it was read (the page's autosave, same model).
+    const colleague = { material: "F1", response: "holes", replicate: 1, value: 12, readVersion: readAt };
+    expect((await postResults(freshEnrollment, JSON.stringify({ results: [colleague] }), { Cookie: cookie })).data).toEqual({ received: 1, changed: 1 });
+
+    const before = await db.select().from(results).where(eq(results.cellId, (await db.select().from(cells).where(eq(cells.enrollmentId, freshEnrollment)))[0]!.id));
+    const stale = JSON.stringify({
+      results: [
+        { material: "F1", response: "surface", replicate: 2, value: 18, readVersion: 0 },
+        { material: "F1", response: "holes", replicate: 1, value: 14, readVersion: readAt },
+      ],
+    });
+    const refused = await postResults(freshEnrollment, stale, { Cookie: cookie });
+    expect(refused.status).toBe(409);
+    expect(refused.data.error.code).toBe("stale_version");
+    expect(refused.data.error.message).toContain("F1 · holes · replicate 1 now holds 12");
+    expect(refused.data.error.details).toEqual([
+      expect.objectContaining({ row: 2, material: "F1", response: "holes", replicate: 1, currentValue: 12, currentVersion: readAt + 1, yourValue: 14 }),
+    ]);
+    // Neither the stale row nor the good row before it was written.
+    const after = await db.select().from(results).where(eq(results.cellId, before[0]!.cellId));
+    expect(after).toEqual(before);
+    expect((await getResults(freshEnrollment, { Cookie: cookie })).data.results.some((r: { response: string; replicate: number }) => r.response === "surface" && r.replicate === 2)).toBe(false);
+
+    // Resent with the current version, it is written.
+    const fresh = JSON.stringify({ results: [{ material: "F1", response: "holes", replicate: 1, value: 14, readVersion: readAt + 1 }] });
+    expect((await postResults(freshEnrollment, fresh, { Cookie: cookie })).data).toEqual({ received: 1, changed: 1 });
+  });
+
+  it("refuses a write to a replicate someone stored after it was read as empty (version 0)", async () => {
+    const cookie = await demoCookie("analyst7@ringbatch.example");
+    const body = JSON.stringify({ results: [{ material: "F1", response: "surface", replicate: 1, value: 30, readVersion: 0 }] });
+    const refused = await postResults(freshEnrollment, body, { Cookie: cookie });
+    expect(refused.status).toBe(409);
+    expect(refused.data.error.details[0]).toMatchObject({ material: "F1", response: "surface", replicate: 1, currentValue: 17 });
+  });
+
+  it("reads only the caller's own lab's results", async () => {
+    expect((await getResults(submittedEnrollment, { Cookie: await demoCookie("analyst7@ringbatch.example") })).status).toBe(404);
+    expect((await getResults(freshEnrollment, { Cookie: await demoCookie("coordinator@ringbatch.example") })).status).toBe(404);
+    expect((await getResults(freshEnrollment, {})).status).toBe(401);
   });
 });

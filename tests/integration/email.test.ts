@@ -105,7 +105,7 @@ describe("e-mail through the local fake transport", () => {
     const url = "http://app.example/x?y=1&z=2";
     const messages = [
       invitation(),
-      shipmentNoticeEmail({ to: "a@b.example", labName: "Quell Lab", study, contents: "M1", carrier: "Kestrel Freight", trackingNumber: "KF-1", shippedOn: "2027-02-01", url }),
+      shipmentNoticeEmail({ to: "a@b.example", labName: "Quell Lab", study, items: [{ description: "Portland cement (M1)", quantity: 50, unit: "kg", lot: "C-1", containerCount: 2 }], note: "", carrier: "Kestrel Freight", trackingNumber: "KF-1", shippedOn: "2027-02-01", url }),
       missingResultsReminderEmail({ to: "a@b.example", labName: "Quell Lab", study, missing: ["M1", "M2"], resultsDue: "2027-04-01", url }),
       queryRaisedEmail({ to: "a@b.example", labName: "Quell Lab", study, materialCode: "M2", responseName: "Passes to reach the target surface", question: "Was replicate 3 run on a second batch?", url }),
       reviewRequestedEmail({ to: "a@b.example", reviewerName: "R. Tamsin", study, statementVersion: 2, url }),

@@ -8,9 +8,10 @@
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { amendments, auditEvents, batches, cells, enrollments, labMembers, responses, results, shipments, studies, users } from "~/db/schema";
+import { amendments, auditEvents, batches, cells, enrollments, labMembers, responses, results, shipments, studies, studyReviewers, users } from "~/db/schema";
 import { hashPassword } from "~/models/user.server";
 import * as analysisPage from "~/routes/studies/study/analysis";
+import * as ballotPage from "~/routes/review/study/ballot";
 import * as queriesPage from "~/routes/studies/study/queries";
 import * as receiptPage from "~/routes/lab/study/receipt";
 import * as entry from "~/routes/lab/study/result-entry";
@@ -21,7 +22,7 @@ import { useFreshDatabase } from "../support/database";
 import { demoCookie } from "../support/demo";
 import { entryChanges } from "../support/entry-draft";
 import { errorsOf, toastOf } from "../support/replies";
-import { call, post, sessionCookieFor } from "../support/routes";
+import { call, get, post, sessionCookieFor } from "../support/routes";
 
 let study: TestingStudy;
 let first: string; // the lab's first analyst
@@ -132,7 +133,7 @@ describe("plausible dates", () => {
     call(receiptPage.action, postMultipart(`/lab/studies/${study.studyId}/receipt`, { shipmentId: String(shipmentId), condition: "good", receiptNotes: "", ...fields }, first), { studyId: String(study.studyId) });
 
   beforeAll(async () => {
-    const [shipment] = await db.insert(shipments).values({ enrollmentId: study.labs[0]!.enrollmentId, status: "shipped", contents: "T003 constituents", shippedOn: "2026-10-20" }).returning();
+    const [shipment] = await db.insert(shipments).values({ enrollmentId: study.labs[0]!.enrollmentId, status: "shipped", note: "T003 constituents", shippedOn: "2026-10-20" }).returning();
     shipmentId = shipment!.id;
   });
 
@@ -166,7 +167,7 @@ describe("plausible dates", () => {
     expect(errorsOf(late).form).toMatch(/can no longer be corrected/);
     // A lab without results corrects its receipt.
     const other = await createTestingStudy({ code: "INTEG-2", materialCount: 1, replicates: 2, labCount: 1 });
-    const [shipment] = await db.insert(shipments).values({ enrollmentId: other.labs[0]!.enrollmentId, status: "received", contents: "T001", shippedOn: "2026-10-20", receivedOn: "2026-10-23", condition: "good" }).returning();
+    const [shipment] = await db.insert(shipments).values({ enrollmentId: other.labs[0]!.enrollmentId, status: "received", note: "T001", shippedOn: "2026-10-20", receivedOn: "2026-10-23", condition: "good" }).returning();
     const analyst = await sessionCookieFor((await db.query.users.findFirst({ where: eq(users.email, other.labs[0]!.email) }))!.id);
     const corrected = await call(
       receiptPage.action,
@@ -235,6 +236,18 @@ describe("after testing", () => {
     const afterClose = await amend(m2, { replicate: "2", value: "11", reason: "One more change after the close." });
     expect(afterClose.status).toBe(400);
     expect(await storedValue(m2, "holes", 2)).toBe(10);
+  });
+
+  it("labels the amended cell \"amended after query\" for the coordinator and the committee, and no other cell", async () => {
+    const reviewer = (await db.query.users.findFirst({ where: eq(users.email, "reviewer1@ringbatch.example") }))!;
+    await db.insert(studyReviewers).values({ studyId: study.studyId, userId: reviewer.id });
+    const amendedCell = [{ lab: "L01", material: "T002", response: "holes" }];
+    const analysis = await call(analysisPage.loader, get(`/studies/${study.studyId}/analysis`, coordinator), { studyId: String(study.studyId) });
+    expect(analysis.status).toBe(200);
+    expect(analysis.data.amendedCells).toEqual(amendedCell);
+    const ballot = await call(ballotPage.loader, get(`/review/${study.studyId}`, await demoCookie("reviewer1@ringbatch.example")), { studyId: String(study.studyId) });
+    expect(ballot.status).toBe(200);
+    expect(ballot.data.amendedCells).toEqual(amendedCell);
   });
 
   it("amends fresh properties of a submitted material only with a reason, and only with a correction query after testing", async () => {

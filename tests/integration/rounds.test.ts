@@ -18,6 +18,8 @@ import * as newRound from "~/routes/rounds/new";
 import * as overview from "~/routes/rounds/round/overview";
 import * as report from "~/routes/rounds/round/report";
 import * as scores from "~/routes/rounds/round/scores";
+import * as setupPage from "~/routes/studies/study/setup";
+import * as studyLayout from "~/routes/studies/study/layout";
 import { ROUND_CHECKS } from "../../seed/rounds-data";
 import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { call, get, post } from "../support/routes";
@@ -268,5 +270,75 @@ describe("a round from the published study, run to publication", () => {
     const precision = await demoStudy("FF-2026-A");
     const wrongKind = await call(report.loader, get(`/rounds/${precision.id}/report`, coordinator), { roundId: String(precision.id) });
     expect(wrongKind.status).toBe(404);
+  });
+});
+
+describe("replicates of a round on the setup page", () => {
+  const details = (round: { code: string; title: string; testMethod: string; significanceLevel: number }, replicatesPerCell: string) => ({
+    intent: "study",
+    code: round.code,
+    title: `${round.title} (renamed)`,
+    testMethod: round.testMethod,
+    replicatesPerCell,
+    significanceLevel: String(round.significanceLevel),
+    targetSurfaceRating: "",
+    enrollmentDeadline: "",
+    shipDate: "",
+    resultsDue: "",
+    notes: "",
+  });
+
+  it("keeps a round of 1 replicate editable, accepts 1–2 and refuses 3 beside the field", async () => {
+    const created = await call(newRound.action, post("/rounds/new", { code: "PT-2027-9", title: "Single-replicate round", sourceStudyId: "", testMethod: "Float finishing test of fresh concrete", replicatesPerCell: "1", materials: "R1", resultsDue: "" }, coordinator));
+    expect(created.status).toBe(302);
+    const round = await demoStudy("PT-2027-9");
+    expect(round.replicatesPerCell).toBe(1);
+    const at = { studyId: String(round.id) };
+    const renamed = await call(setupPage.action, post(`/studies/${round.id}/setup`, details(round, "1"), coordinator), at);
+    expect(renamed.status).toBe(302);
+    expect((await demoStudy("PT-2027-9")).title).toBe("Single-replicate round (renamed)");
+    expect((await call(setupPage.action, post(`/studies/${round.id}/setup`, details(round, "2"), coordinator), at)).status).toBe(302);
+    const three = await call(setupPage.action, post(`/studies/${round.id}/setup`, details(round, "3"), coordinator), at);
+    expect(three.status).toBe(400);
+    expect(three.data.result.error.replicatesPerCell).toEqual(["A round takes 1 or 2 replicates per lab and material."]);
+    expect((await demoStudy("PT-2027-9")).replicatesPerCell).toBe(2);
+  });
+
+  it("still asks a precision study for at least 2, beside the field", async () => {
+    const study = await demoStudy("FF-2026-A");
+    await db.update(studies).set({ state: "draft" }).where(eq(studies.id, study.id));
+    try {
+      const one = await call(setupPage.action, post(`/studies/${study.id}/setup`, details(study, "1"), coordinator), { studyId: String(study.id) });
+      expect(one.status).toBe(400);
+      expect(one.data.result.error.replicatesPerCell).toEqual(["Use at least 2 replicates per cell (repeatability needs two)."]);
+      expect((await demoStudy("FF-2026-A")).replicatesPerCell).toBe(study.replicatesPerCell);
+    } finally {
+      await db.update(studies).set({ state: study.state }).where(eq(studies.id, study.id));
+    }
+  });
+});
+
+describe("starting a round from a published precision study", () => {
+  const frame = async (code: string, cookie: string) => {
+    const study = await demoStudy(code);
+    return call(studyLayout.loader, get(`/studies/${study.id}`, cookie), { studyId: String(study.id) });
+  };
+
+  it("is offered to the coordinator on a published study's pages, and the new-round form starts from it", async () => {
+    const published = await frame("FF-2025-D", coordinator);
+    expect(published.status).toBe(200);
+    expect(published.data.canStartRound).toBe(true);
+    const source = await demoStudy("FF-2025-D");
+    const form = await call(newRound.loader, get(`/rounds/new?from=${source.id}`, coordinator));
+    expect(form.data.from).toBe(String(source.id));
+    expect(form.data.sources.map((s: { id: number }) => s.id)).toContain(source.id);
+  });
+
+  it("is not offered before publication, nor to a reviewer or an admin", async () => {
+    expect((await frame("FF-2026-A", coordinator)).data.canStartRound).toBe(false);
+    expect((await frame("FF-2025-D", await demoCookie("admin@ringbatch.example"))).data.canStartRound).toBe(false);
+    const reviewerView = await frame("FF-2025-D", await demoCookie("reviewer1@ringbatch.example"));
+    expect(reviewerView.status).toBe(200);
+    expect(reviewerView.data.canStartRound).toBe(false);
   });
 });

@@ -109,7 +109,7 @@ describe("a new ruggedness study", () => {
   it("fixes the factors once results are in", async () => {
     const outcome = await call(factors.action, post(`/ruggedness/${studyId}`, { replicates: "1", "factors[0].name": "A", "factors[0].low": "1", "factors[0].high": "2", "factors[1].name": "B", "factors[1].low": "1", "factors[1].high": "2" }, coordinator), at(studyId));
     expect(outcome.status).toBe(400);
-    expect(outcome.data.result.error.factors[0]).toContain("can no longer change");
+    expect(outcome.data.result.error.factors[0]).toBe("The factors and the design are fixed once results are entered.");
   });
 
   it("is not a precision study's page, nor another coordinator's", async () => {

@@ -9,7 +9,7 @@
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { cells, comparisons, enrollments, labs, materials, results, studies } from "~/db/schema";
+import { cells, comparisons, enrollments, labs, materials, results, shipments, studies } from "~/db/schema";
 import { composeEmail, sendEmail } from "~/server/email.server";
 import { storeUpload } from "~/server/uploads.server";
 import routeConfig from "~/routes";
@@ -57,8 +57,10 @@ beforeAll(async () => {
   const message = await sendEmail(composeEmail({ to: "someone@ringbatch.example", subject: "Test", greeting: "Hello", paragraphs: ["Body"] }), { studyId: study.id });
   const ruggednessStudy = (await db.query.studies.findFirst({ where: eq(studies.code, RUGGEDNESS_STUDY_CODE) }))!;
   const comparison = (await db.query.comparisons.findFirst({ where: eq(comparisons.userId, analyst.id) }))!;
+  const shipment = (await db.query.shipments.findFirst({ where: eq(shipments.enrollmentId, own.id) }))!;
   params = {
     studyId: String(study.id),
+    shipmentId: String(shipment.id),
     roundId: String(round.id),
     ruggednessStudyId: String(ruggednessStudy.id),
     comparisonId: String(comparison.id),

@@ -88,3 +88,28 @@ export const ALLOWED_IN: Record<Write, StudyState[]> = {
   "review: reply to an answer": ["in_review"],
   "review: rule on an objection": ["in_review"],
 };
+
+/**
+ * Writes of proficiency rounds and ruggedness studies (their own pages; the
+ * shared setup, labs and results pages follow the table above). Rounds have
+ * no committee review; a ruggedness study runs from draft to testing.
+ */
+export const KIND_WRITES = [
+  "round: choose the assigned value and σ_pt",
+  "round: enter homogeneity and stability results",
+  "round: lab enters its uncertainty",
+  "round: publish",
+  "ruggedness: lay out factors and design",
+  "ruggedness: enter results",
+] as const;
+
+export type KindWrite = (typeof KIND_WRITES)[number];
+
+export const KIND_ALLOWED_IN: Record<KindWrite, StudyState[]> = {
+  "round: choose the assigned value and σ_pt": BEFORE_REVIEW,
+  "round: enter homogeneity and stability results": BEFORE_REVIEW,
+  "round: lab enters its uncertainty": ["testing"],
+  "round: publish": ["checking"],
+  "ruggedness: lay out factors and design": ["draft"],
+  "ruggedness: enter results": ["draft", "testing"],
+};

@@ -22,6 +22,10 @@ import {
   responses,
   results,
   reviewRounds,
+  roundAssignments,
+  roundSettings,
+  ruggednessFactors,
+  ruggednessPlans,
   roundReviewers,
   shipments,
   studies,
@@ -31,6 +35,13 @@ import {
 } from "~/db/schema";
 import { STUDY_STATES, type StudyState } from "~/db/values";
 import * as apiResults from "~/routes/api/v1/enrollment-results";
+import * as labRoundPage from "~/routes/lab/rounds/round/uncertainty";
+import * as assignedValuesPage from "~/routes/rounds/round/assigned-values";
+import * as materialChecksPage from "~/routes/rounds/round/material-checks";
+import * as roundScoresPage from "~/routes/rounds/round/scores";
+import * as ruggednessFactorsPage from "~/routes/ruggedness/study/factors";
+import * as ruggednessResultsPage from "~/routes/ruggedness/study/results";
+import { randomRunOrder } from "~/lib/ruggedness";
 import * as labQueries from "~/routes/lab/queries";
 import * as importPage from "~/routes/lab/study/import";
 import * as receiptPage from "~/routes/lab/study/receipt";
@@ -44,13 +55,13 @@ import * as shipmentsPage from "~/routes/studies/study/shipments";
 import * as statementPage from "~/routes/studies/study/statement";
 import { useFreshDatabase } from "../support/database";
 import { call, sessionCookieFor } from "../support/routes";
-import { ALLOWED_IN, type Write, WRITES } from "./state-matrix.expected";
+import { ALLOWED_IN, KIND_ALLOWED_IN, KIND_WRITES, type KindWrite, type Write, WRITES } from "./state-matrix.expected";
 
 const ORIGIN = "http://ringbatch.test";
 // A minimal PDF: the upload check judges the type from these bytes.
 const PDF = new TextEncoder().encode("%PDF-1.4\n1 0 obj<<>>endobj\ntrailer<<>>\n%%EOF\n");
 
-type People = { coordinator: number; otherCoordinator: number; analyst: number; reviewers: number[]; spareReviewer: number; spareLab: number; lab: number };
+type People = { coordinator: number; otherCoordinator: number; analyst: number; reviewers: number[]; spareReviewer: number; spareLab: number; awaitingLab: number; lab: number };
 let people: People;
 let fixtureCount = 0;
 
@@ -60,6 +71,7 @@ beforeAll(async () => {
     (await db.insert(users).values({ email, name: email.split("@")[0]!.replace(/-/g, " "), role }).returning())[0]!.id;
   const [lab] = await db.insert(labs).values({ name: "Granite Flats Test Lab" }).returning();
   const [spareLab] = await db.insert(labs).values({ name: "Quarry Bend Materials Lab", contactName: "Wren Okafor", contactEmail: "lab@quarry-bend.example" }).returning();
+  const [awaitingLab] = await db.insert(labs).values({ name: "Millrace Concrete Lab" }).returning();
   const analyst = await person("tess-ferrow@ringbatch.example", "analyst");
   await db.insert(labMembers).values({ labId: lab!.id, userId: analyst, isContact: true });
   people = {
@@ -74,6 +86,7 @@ beforeAll(async () => {
     ],
     spareReviewer: await person("kai-lindqvist@ringbatch.example", "reviewer"),
     spareLab: spareLab!.id,
+    awaitingLab: awaitingLab!.id,
     lab: lab!.id,
   };
 });
@@ -81,6 +94,8 @@ beforeAll(async () => {
 type Fixture = {
   studyId: number;
   enrollmentId: number;
+  /** A second accepted lab, still without a shipment. */
+  awaitingEnrollmentId: number;
   materials: { submitted: number; draft: number };
   shipments: { shipped: number; preparing: number };
   statementId: number | null;
@@ -110,13 +125,19 @@ async function studyIn(state: StudyState): Promise<Fixture> {
       .values({ studyId, key: "holes", name: "Passes to close the preformed holes", unit: "passes", kind: "count", plausibleMin: 1, plausibleMax: 40 })
       .returning();
     const [m1, m2] = await tx.insert(materials).values([{ studyId, code: "M1", sortOrder: 0 }, { studyId, code: "M2", sortOrder: 1 }]).returning();
-    const [enrollment] = await tx.insert(enrollments).values({ studyId, labId: people.lab, labCode: "L01", state: "accepted" }).returning();
+    const [enrollment, awaiting] = await tx
+      .insert(enrollments)
+      .values([
+        { studyId, labId: people.lab, labCode: "L01", state: "accepted" },
+        { studyId, labId: people.awaitingLab, labCode: "L02", state: "accepted" },
+      ])
+      .returning();
     await tx.insert(studyReviewers).values(people.reviewers.map((userId) => ({ studyId, userId })));
     const [shipped, preparing] = await tx
       .insert(shipments)
       .values([
-        { enrollmentId: enrollment!.id, status: "shipped", contents: "M1, M2", carrier: "Ridgeway Freight", shippedOn: "2026-01-05" },
-        { enrollmentId: enrollment!.id, status: "preparing", contents: "Replacement sand" },
+        { enrollmentId: enrollment!.id, status: "shipped", note: "M1, M2", carrier: "Ridgeway Freight", shippedOn: "2026-01-05" },
+        { enrollmentId: enrollment!.id, status: "preparing", note: "Replacement sand" },
       ])
       .returning();
     const [submittedCell, draftCell] = await tx
@@ -171,6 +192,7 @@ async function studyIn(state: StudyState): Promise<Fixture> {
     return {
       studyId,
       enrollmentId: enrollment!.id,
+      awaitingEnrollmentId: awaiting!.id,
       materials: { submitted: m1!.id, draft: m2!.id },
       shipments: { shipped: shipped!.id, preparing: preparing!.id },
       statementId,
@@ -235,7 +257,7 @@ function attempt(write: Write, f: Fixture): { action: (args: never) => unknown; 
     case "labs: withdraw a lab":
       return { action: labsPage.action, path: `${studyPath}/labs`, as: people.coordinator, fields: { intent: "withdraw", enrollmentId: String(f.enrollmentId), reason: "The lab's curing room failed." } };
     case "shipments: create":
-      return { action: shipmentsPage.action, path: `${studyPath}/shipments`, as: people.coordinator, fields: { intent: "create", enrollmentId: String(f.enrollmentId), contents: "Spare cement, lot C-114", carrier: "", trackingNumber: "" } };
+      return { action: shipmentsPage.action, path: `${studyPath}/shipments`, as: people.coordinator, fields: { intent: "create", enrollmentId: String(f.awaitingEnrollmentId), "items[0].description": "Spare cement", "items[0].quantity": "25", "items[0].unit": "kg", "items[0].lot": "C-114", "items[0].containerCount": "1", carrier: "", trackingNumber: "" } };
     case "shipments: mark shipped":
       return { action: shipmentsPage.action, path: `${studyPath}/shipments`, as: people.coordinator, fields: { intent: "ship", shipmentId: String(f.shipments.preparing), shippedOn: today(), carrier: "Ridgeway Freight", trackingNumber: "RF-2231" } };
     case "shipments: mark lost":
@@ -309,41 +331,168 @@ async function readyToPublish(f: Fixture) {
   await db.insert(votes).values({ statementId: f.statementId!, reviewerId: people.reviewers[0]!, choice: "approve", updatedAt: now });
 }
 
+type Attempt = ReturnType<typeof attempt>;
+
+/** Tries each write on a fresh fixture in every state; returns the states where it succeeded, checking the record either way. */
+async function statesWhereItSucceeds<W extends string, F extends { studyId: number }>(writes: readonly W[], fixtureIn: (state: StudyState, write: W) => Promise<F>, attemptOf: (write: W, f: F) => Promise<Attempt> | Attempt) {
+  const observed = {} as Record<W, StudyState[]>;
+  const cookies = new Map<number, string>();
+  const cookieOf = async (userId: number) => cookies.get(userId) ?? cookies.set(userId, await sessionCookieFor(userId)).get(userId)!;
+  for (const write of writes) {
+    observed[write] = [];
+    for (const state of STUDY_STATES) {
+      const fixture = await fixtureIn(state, write);
+      const how = await attemptOf(write, fixture);
+      const before = await footprint(fixture.studyId);
+      const request = how.json
+        ? new Request(ORIGIN + how.path, { method: "POST", headers: { Cookie: await cookieOf(how.as), "Content-Type": "application/json" }, body: JSON.stringify(how.json) })
+        : form(how.path, how.fields, await cookieOf(how.as));
+      const outcome = await call(how.action, request, { studyId: String(fixture.studyId), ...how.params });
+      const after = await footprint(fixture.studyId);
+      if (outcome.status < 400) {
+        observed[write].push(state);
+        expect(after, `${write} in ${state} answered ${outcome.status} but recorded nothing`).not.toBe(before);
+      } else {
+        expect(after, `${write} in ${state} was refused (${outcome.status}) but changed the record`).toBe(before);
+      }
+    }
+  }
+  return observed;
+}
+
 describe("every write in every study state", () => {
   it("succeeds exactly where the table says, and elsewhere refuses and changes nothing", async () => {
-    const observed: Record<string, StudyState[]> = {};
-    const cookies = new Map<number, string>();
-    const cookieOf = async (userId: number) => cookies.get(userId) ?? cookies.set(userId, await sessionCookieFor(userId)).get(userId)!;
-    for (const write of WRITES) {
-      observed[write] = [];
-      for (const state of STUDY_STATES) {
+    const observed = await statesWhereItSucceeds(
+      WRITES,
+      async (state, write) => {
         const fixture = await studyIn(state);
         if (write === "statement: publish" && state === "in_review") await readyToPublish(fixture);
+        return fixture;
+      },
+      async (write, fixture) => {
         const how = attempt(write, fixture);
         if (write === "lab: amend a submitted result") {
           const [holes] = await db.select().from(responses).where(eq(responses.studyId, fixture.studyId));
           (how.fields as FormData).set("responseId", String(holes!.id));
         }
-        const before = await footprint(fixture.studyId);
-        const request = how.json
-          ? new Request(ORIGIN + how.path, { method: "POST", headers: { Cookie: await cookieOf(how.as), "Content-Type": "application/json" }, body: JSON.stringify(how.json) })
-          : form(how.path, how.fields, await cookieOf(how.as));
-        const outcome = await call(how.action, request, { studyId: String(fixture.studyId), ...how.params });
-        const after = await footprint(fixture.studyId);
-        const succeeded = outcome.status < 400;
-        if (succeeded) {
-          observed[write].push(state);
-          expect(after, `${write} in ${state} answered ${outcome.status} but recorded nothing`).not.toBe(before);
-        } else {
-          expect(after, `${write} in ${state} was refused (${outcome.status}) but changed the record`).toBe(before);
-        }
-      }
-    }
+        return how;
+      },
+    );
     expect(observed).toEqual(ALLOWED_IN);
   });
 
   it("lets nothing through on a published study", () => {
     for (const write of WRITES) expect(ALLOWED_IN[write], write).not.toContain("published");
     for (const write of WRITES) expect(ALLOWED_IN[write], write).not.toContain("cancelled");
+  });
+});
+
+type KindFixture = { studyId: number; enrollmentId: number; materialId: number; responseId: number };
+
+/**
+ * A proficiency round in `state`: one material, one response, two enrolled
+ * labs with their submitted results, a reference assigned value with a fixed
+ * σ_pt, and a justification for publishing without the material checks.
+ */
+async function roundIn(state: StudyState): Promise<KindFixture> {
+  fixtureCount++;
+  return db.transaction(async (tx) => {
+    const [round] = await tx
+      .insert(studies)
+      .values({ code: `SMR-${fixtureCount}`, title: `State matrix round ${fixtureCount}`, kind: "proficiency", testMethod: "Float finishing test of fresh concrete", state, replicatesPerCell: 1, ownerId: people.coordinator })
+      .returning();
+    const studyId = round!.id;
+    const [holes] = await tx.insert(responses).values({ studyId, key: "holes", name: "Passes to close the preformed holes", unit: "passes", kind: "count", plausibleMin: 1, plausibleMax: 40 }).returning();
+    const [m1] = await tx.insert(materials).values({ studyId, code: "M1", sortOrder: 0 }).returning();
+    const [enrollment, second] = await tx
+      .insert(enrollments)
+      .values([
+        { studyId, labId: people.lab, labCode: "P01", state: "accepted" },
+        { studyId, labId: people.spareLab, labCode: "P02", state: "accepted" },
+      ])
+      .returning();
+    const submitted = { materialId: m1!.id, responseId: holes!.id, status: "submitted" as const, submittedAt: new Date(), submittedBy: people.analyst, version: 1 };
+    const [cell, secondCell] = await tx
+      .insert(cells)
+      .values([
+        { enrollmentId: enrollment!.id, ...submitted },
+        { enrollmentId: second!.id, ...submitted },
+      ])
+      .returning();
+    await tx.insert(results).values([
+      { cellId: cell!.id, replicate: 1, value: 13, testedOn: "2026-01-10", operator: "T. Ferrow" },
+      { cellId: secondCell!.id, replicate: 1, value: 11, testedOn: "2026-01-11", operator: "W. Okafor" },
+    ]);
+    await tx.insert(roundSettings).values({ studyId, precision: { sourceCode: null, analysis: null } });
+    await tx.insert(roundAssignments).values({
+      studyId,
+      materialId: m1!.id,
+      responseId: holes!.id,
+      assignedMethod: "reference",
+      referenceValue: 12,
+      referenceUncertainty: 0.2,
+      sigmaMethod: "fixed",
+      fixedSigma: 2,
+      checkJustification: "One homogenised batch, split by riffling; the checks were waived for this round.",
+    });
+    return { studyId, enrollmentId: enrollment!.id, materialId: m1!.id, responseId: holes!.id };
+  });
+}
+
+/** A ruggedness study in `state` with its design laid out and no results yet. */
+async function ruggednessIn(state: StudyState): Promise<KindFixture> {
+  fixtureCount++;
+  return db.transaction(async (tx) => {
+    const [study] = await tx
+      .insert(studies)
+      .values({ code: `SMG-${fixtureCount}`, title: `State matrix ruggedness ${fixtureCount}`, kind: "ruggedness", testMethod: "Float finishing test of fresh concrete", state, replicatesPerCell: 1, ownerId: people.coordinator })
+      .returning();
+    const studyId = study!.id;
+    const [holes] = await tx.insert(responses).values({ studyId, key: "holes", name: "Passes to close the preformed holes", unit: "passes", kind: "count", plausibleMin: 1, plausibleMax: 40 }).returning();
+    await tx.insert(ruggednessPlans).values({ studyId, runs: 8, replicates: 1, runOrderSeed: 7, runOrder: randomRunOrder(8, 7) });
+    await tx.insert(ruggednessFactors).values({ studyId, column: 1, name: "Float angle", unit: "°", low: "5", high: "10" });
+    return { studyId, enrollmentId: 0, materialId: 0, responseId: holes!.id };
+  });
+}
+
+function kindAttempt(write: KindWrite, f: KindFixture): Attempt {
+  const roundParams = { roundId: String(f.studyId) };
+  const group = { materialId: String(f.materialId), responseId: String(f.responseId) };
+  const ruggednessParams = { ruggednessStudyId: String(f.studyId) };
+  switch (write) {
+    case "round: choose the assigned value and σ_pt":
+      return { action: assignedValuesPage.action, path: `/rounds/${f.studyId}/assigned-values`, as: people.coordinator, params: roundParams, fields: { intent: "assignment", ...group, assignedMethod: "reference", referenceValue: "12.5", referenceUncertainty: "0.2", sigmaMethod: "fixed", fixedSigma: "2" } };
+    case "round: enter homogeneity and stability results":
+      return { action: materialChecksPage.action, path: `/rounds/${f.studyId}/material-checks`, as: people.coordinator, params: roundParams, fields: { intent: "checks", ...group, homogeneity: "12 13\n12 12\n13 13", stability: "12\n13", justification: "" } };
+    case "round: lab enters its uncertainty":
+      return { action: labRoundPage.action, path: `/lab/rounds/${f.studyId}`, as: people.analyst, params: roundParams, fields: { intent: "uncertainty", ...group, standardUncertainty: "0.5" } };
+    case "round: publish":
+      return { action: roundScoresPage.action, path: `/rounds/${f.studyId}/scores`, as: people.coordinator, params: roundParams, fields: { intent: "publish", confirm: "yes" } };
+    case "ruggedness: lay out factors and design":
+      return { action: ruggednessFactorsPage.action, path: `/ruggedness/${f.studyId}`, as: people.coordinator, params: ruggednessParams, fields: {
+          replicates: "2",
+          ...Object.fromEntries(
+            ["Float angle", "Bleed water wait", "Float pressure"].flatMap((name, i) => [
+              [`factors[${i}].name`, name],
+              [`factors[${i}].low`, "low"],
+              [`factors[${i}].high`, "high"],
+            ]),
+          ),
+        },
+      };
+    case "ruggedness: enter results":
+      return { action: ruggednessResultsPage.action, path: `/ruggedness/${f.studyId}/results`, as: people.coordinator, params: ruggednessParams, fields: { r1_1_holes: "12" } };
+  }
+}
+
+describe("every write of a round or a ruggedness study in every state", () => {
+  it("succeeds exactly where the table says, and elsewhere refuses and changes nothing", async () => {
+    const observed = await statesWhereItSucceeds(KIND_WRITES, (state, write) => (write.startsWith("round") ? roundIn(state) : ruggednessIn(state)), kindAttempt);
+    expect(observed).toEqual(KIND_ALLOWED_IN);
+  });
+
+  it("lets nothing through on a published or cancelled round", () => {
+    for (const write of KIND_WRITES) expect(KIND_ALLOWED_IN[write], write).not.toContain("published");
+    for (const write of KIND_WRITES) expect(KIND_ALLOWED_IN[write], write).not.toContain("cancelled");
   });
 });

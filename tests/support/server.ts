@@ -49,6 +49,8 @@ export async function startServer(extraEnv: Record<string, string> = {}, { datab
     SESSION_SECRET: "test-suite-session-secret",
     DEMO: "on",
     MAILBOX: "on",
+    // Scheduled notices would send mail on their own clock in the middle of a test; tests run the tick themselves.
+    NOTICE_SCHEDULE: "off",
     ...extraEnv,
     BUILD_DIR: buildDirectory,
   };

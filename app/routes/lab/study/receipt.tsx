@@ -2,10 +2,11 @@ import { getFormProps, type SubmissionResult } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, useNavigation } from "react-router";
 import type { Route } from "./+types/receipt";
+import { HandlingCaution, PackingItemsTable } from "~/components/packing-list";
 import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Button, Card, Field, Notice, TextAreaField } from "~/components/ui";
+import { Button, Card, Field, TextAreaField } from "~/components/ui";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { formatDate, todayIso } from "~/lib/format";
 import { SHIPMENT_STATE } from "~/lib/state-labels";
@@ -61,14 +62,16 @@ export default function Receipt({ loaderData, actionData }: Route.ComponentProps
   const { shipments, today, correctable } = loaderData;
   return (
     <div className="flex flex-col gap-6">
-      <Notice tone="caution">Bags of cement and aggregate are heavy: lift with help. Cement is caustic when wet: gloves and eye protection.</Notice>
+      <HandlingCaution />
       {shipments.length === 0 && <p>No shipment has been sent to your lab yet.</p>}
       {shipments.map((s) => (
         <Card key={s.id} title={`Shipment ${s.shippedOn ? `of ${formatDate(s.shippedOn)}` : "being prepared"}`}>
           <p className="mb-2">
             <StateBadge view={SHIPMENT_STATE[s.status]} /> {s.carrier && <>· {s.carrier}</>} {s.trackingNumber && <>· tracking {s.trackingNumber}</>}
           </p>
-          <p className="mb-4">Contents: {s.contents}</p>
+          <div className="mb-4">
+            <PackingItemsTable caption={`Contents of shipment ${s.id}`} items={s.items} note={s.note} />
+          </div>
           {s.status === "received" && (
             <p>
               Received {formatDate(s.receivedOn)}, condition {s.condition}. {s.receiptNotes}

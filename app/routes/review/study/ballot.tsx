@@ -18,6 +18,8 @@ import { writeRefusal } from "~/lib/write-rules";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { STATEMENT_STATE, VOTE_CHOICE } from "~/lib/state-labels";
 import { studyAnalysis } from "~/models/analysis.server";
+import { amendedAfterQueryCells } from "~/models/decisions.server";
+import { AmendedCellsNote } from "~/components/amended-badge";
 import { addComment, castVote, commentsOn, replyToAnswer, ReviewError, ruleOnObjection } from "~/models/review.server";
 import { listStatements, publicationStatus, reviewersByName, studyDesign, votesOn } from "~/models/statement.server";
 import { refuse } from "~/server/form-reply.server";
@@ -44,6 +46,7 @@ export async function loader({ context }: Route.LoaderArgs) {
       };
   return {
     current,
+    amendedCells: await amendedAfterQueryCells(study.id),
     study: {
       id: study.id,
       code: study.code,
@@ -146,7 +149,7 @@ const CHOICES = [
 ] as const;
 
 export default function ReviewStudy({ loaderData, actionData }: Route.ComponentProps) {
-  const { statement, current, votes, own, comments, refusal, round, tally } = loaderData;
+  const { statement, current, votes, own, comments, refusal, round, tally, amendedCells } = loaderData;
   return (
     <div className="flex flex-col gap-6">
       <StatementCaution />
@@ -165,6 +168,8 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
               </Card>
               <Card title="Current figures">
                 <PrecisionTables analysis={current.analysis} responses={current.responses} headingLevel={3} />
+                <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells amended after a correction query</h3>
+                <AmendedCellsNote amended={amendedCells} />
               </Card>
             </>
           )}
@@ -179,6 +184,8 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
             <StatementTexts textE691={statement.textE691} textC670={statement.textC670} />
             <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells left out</h3>
             <ExcludedCells excluded={statement.snapshot.analysis.excluded} />
+            <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells amended after a correction query</h3>
+            <AmendedCellsNote amended={amendedCells} />
           </Card>
           <Card title="Your vote">
             {own && (

@@ -12,6 +12,7 @@ import { hasPublishedPrecision, roundDesign, saveAssignment, scoreRound } from "
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { redirectWithToast } from "~/server/toast.server";
+import { writeRefusal } from "~/lib/write-rules";
 
 export const handle: StudyPageHandle = { pageTitle: "Assigned values & σ_pt" };
 export const meta: Route.MetaFunction = () => [{ title: "Assigned values · Ringbatch" }];
@@ -20,7 +21,8 @@ export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireRound(context, ["coordinator", "admin"]);
   const [{ groups, settings }, scored] = await Promise.all([roundDesign(study.id), scoreRound(study)]);
   return {
-    editable: access === "coordinator" && study.state !== "published" && study.state !== "cancelled",
+    editable: access === "coordinator" && writeRefusal("roundChoices", study.state) === null,
+    refusal: writeRefusal("roundChoices", study.state),
     sourceCode: settings.precision.sourceCode,
     groups: groups.map((group, index) => ({
       ...group,
@@ -126,9 +128,10 @@ function AssignmentForm({ group, editable, reply }: { group: Group; editable: bo
 }
 
 export default function AssignedValues({ loaderData, actionData }: Route.ComponentProps) {
-  const { groups, editable, sourceCode } = loaderData;
+  const { groups, editable, sourceCode, refusal } = loaderData;
   return (
     <div className="flex flex-col gap-6">
+      {refusal && <Notice>{refusal}</Notice>}
       <p className="text-basalt-700">
         Each material and response gets an assigned value and a σ_pt; the choice and its basis appear in the round report and in every lab's letter.
         {sourceCode ? ` Published precision comes from study ${sourceCode}.` : " This round was not set up from a published study, so σ_pt comes from the round or a fixed value."}

@@ -13,6 +13,7 @@ import { roundDesign, saveChecks, scoreRound } from "~/models/round.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { redirectWithToast } from "~/server/toast.server";
+import { writeRefusal } from "~/lib/write-rules";
 
 export const handle: StudyPageHandle = { pageTitle: "Homogeneity & stability" };
 export const meta: Route.MetaFunction = () => [{ title: "Homogeneity and stability · Ringbatch" }];
@@ -21,7 +22,8 @@ export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireRound(context, ["coordinator", "admin"]);
   const [{ groups }, scored] = await Promise.all([roundDesign(study.id), scoreRound(study)]);
   return {
-    editable: access === "coordinator" && study.state !== "published" && study.state !== "cancelled",
+    editable: access === "coordinator" && writeRefusal("roundChecks", study.state) === null,
+    refusal: writeRefusal("roundChecks", study.state),
     groups: groups.map((group, index) => ({ ...group, scored: scored[index]! })),
   };
 }
@@ -132,6 +134,7 @@ export default function MaterialChecks({ loaderData, actionData }: Route.Compone
         standard deviation and the stability difference with 0.3·σ_pt.
       </p>
       <ConcreteCaution heavy />
+      {loaderData.refusal && <Notice>{loaderData.refusal}</Notice>}
       {loaderData.groups.map((group) => (
         <ChecksForm key={`${group.material.id}-${group.response.id}`} group={group} editable={loaderData.editable} reply={actionData} />
       ))}

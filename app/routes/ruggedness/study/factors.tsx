@@ -10,13 +10,14 @@ import { ruggednessSetup, saveFactors } from "~/models/ruggedness.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
 import { redirectWithToast } from "~/server/toast.server";
+import { writeRefusal } from "~/lib/write-rules";
 
 export const handle = { pageTitle: "Factors" } satisfies StudyPageHandle;
 export const meta: Route.MetaFunction = () => [{ title: "Ruggedness factors · Ringbatch" }];
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireRuggednessStudy(context, ["coordinator", "admin"]);
-  return { setup: await ruggednessSetup(study.id), canEdit: access === "coordinator" };
+  return { setup: await ruggednessSetup(study.id), canEdit: access === "coordinator", designRefusal: writeRefusal("ruggednessDesign", study.state) };
 }
 
 export async function action({ request, context }: Route.ActionArgs) {
@@ -34,8 +35,8 @@ const REPLICATE_OPTIONS = [
 ];
 
 export default function Factors({ loaderData, actionData }: Route.ComponentProps) {
-  const { setup, canEdit } = loaderData;
-  const locked = setup.resultCount > 0;
+  const { setup, canEdit, designRefusal } = loaderData;
+  const locked = designRefusal !== null || setup.resultCount > 0;
   const rows = Array.from({ length: MAX_FACTORS }, (_, i) => {
     const f = setup.factors[i];
     return f ? { name: f.name, unit: f.unit, low: f.low, high: f.high } : {};
@@ -56,7 +57,7 @@ export default function Factors({ loaderData, actionData }: Route.ComponentProps
           <em>Operator B</em>.
         </p>
       </Card>
-      {locked && <Notice tone="info">Results have been entered for this design, so the factors and the design are fixed.</Notice>}
+      {locked && <Notice tone="info">{designRefusal ?? "Results have been entered for this design, so the factors and the design are fixed."}</Notice>}
       {!canEdit && <Notice tone="info">Admins read this page; the study's coordinator changes it.</Notice>}
       <Card title="Factors and settings">
         <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>

@@ -13,6 +13,7 @@ import { refuse, withRefusals } from "~/server/form-reply.server";
 import { notFound } from "~/server/guards.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
 import { redirectWithToast } from "~/server/toast.server";
+import { writeRefusal } from "~/lib/write-rules";
 
 export const handle = { pageTitle: "Results" } satisfies StudyPageHandle;
 export const meta: Route.MetaFunction = () => [{ title: "Ruggedness results · Ringbatch" }];
@@ -25,7 +26,8 @@ export async function loader({ context }: Route.LoaderArgs) {
     const { rows } = await ruggednessResultsByResponse(study.id, setup.plan.runs);
     for (const r of rows) stored[resultFieldName(r.run, r.replicate, r.key)] = String(r.value);
   }
-  return { studyId: study.id, setup, stored, canEdit: access === "coordinator" };
+  const refusal = writeRefusal("ruggednessResults", study.state);
+  return { studyId: study.id, setup, stored, canEdit: access === "coordinator" && refusal === null, refusal };
 }
 
 export async function action({ request, context }: Route.ActionArgs) {
@@ -48,11 +50,11 @@ export async function action({ request, context }: Route.ActionArgs) {
 }
 
 export default function ResultsPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { studyId, setup, stored, canEdit } = loaderData;
+  const { studyId, setup, stored, canEdit, refusal } = loaderData;
   if (!setup.plan) {
     return <NoDesignYet studyId={studyId} />;
   }
-  return <ResultsForm plan={setup.plan} responses={setup.responses} stored={stored} canEdit={canEdit} actionData={actionData} />;
+  return <ResultsForm plan={setup.plan} responses={setup.responses} stored={stored} canEdit={canEdit} refusal={refusal} actionData={actionData} />;
 }
 
 function ResultsForm({
@@ -60,12 +62,14 @@ function ResultsForm({
   responses,
   stored,
   canEdit,
+  refusal,
   actionData,
 }: {
   plan: NonNullable<Route.ComponentProps["loaderData"]["setup"]["plan"]>;
   responses: Route.ComponentProps["loaderData"]["setup"]["responses"];
   stored: Record<string, string>;
   canEdit: boolean;
+  refusal: string | null;
   actionData: unknown;
 }) {
   const schema = ruggednessResultsSchema(plan.runs, plan.replicates, responses);
@@ -75,7 +79,7 @@ function ResultsForm({
   return (
     <div className="flex flex-col gap-6">
       <ConcreteCaution heavy />
-      {!canEdit && <Notice tone="info">Admins read this page; the study's coordinator enters the results.</Notice>}
+      {!canEdit && <Notice tone="info">{refusal ?? "Admins read this page; the study's coordinator enters the results."}</Notice>}
       <Card title="Results by run, in the order performed">
         <p className="mb-3 text-basalt-700">Leave a box empty until the run is done; a box left empty changes nothing already saved.</p>
         <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>

@@ -27,7 +27,8 @@ import { ConfirmStep } from "~/components/confirm-dialog";
 import { QUERY_STATE } from "~/lib/state-labels";
 import { studyAnalysis, withdrawnLabCodes } from "~/models/analysis.server";
 import { listStudyQueries, raiseQuery } from "~/models/coordinator-queries.server";
-import { cellEvidence, decisionHistory, listCellDecisions, saveCellDecision } from "~/models/decisions.server";
+import { amendedAfterQueryCells, cellEvidence, decisionHistory, listCellDecisions, saveCellDecision } from "~/models/decisions.server";
+import { AmendedAfterQueryBadge } from "~/components/amended-badge";
 import { studyDesign } from "~/models/statement.server";
 
 export const handle = { pageTitle: "Analysis" } satisfies StudyPageHandle;
@@ -45,7 +46,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   const alphaParam = Number(url.searchParams.get("alpha"));
   const alpha = isSignificanceLevel(alphaParam) ? alphaParam : study.significanceLevel;
   const cell = selectedCell(url);
-  const [analysis, withdrawn, design, decisions, history, queries, evidence] = await Promise.all([
+  const [analysis, withdrawn, design, decisions, history, queries, evidence, amendedCells] = await Promise.all([
     studyAnalysis(study, { alpha }),
     withdrawnLabCodes(study.id),
     studyDesign(study.id),
@@ -53,6 +54,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     decisionHistory(study.id),
     listStudyQueries(study.id),
     cell ? cellEvidence(study.id, cell) : [],
+    amendedAfterQueryCells(study.id),
   ]);
   return {
     study: { id: study.id, code: study.code, title: study.title, state: study.state, dataVersion: study.dataVersion },
@@ -66,6 +68,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     flagged: flaggedCells(analysis),
     cell,
     cellEvidence: evidence,
+    amendedCells,
     decisionRefusal: writeRefusal("decisions", study.state),
     queryRefusal: writeRefusal("queries", study.state),
   };
@@ -179,13 +182,16 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
             responses={responses}
             headingLevel={3}
             labAction={(group, lab) => (
-              <Link to={cellHref(alpha, { lab: lab.lab, material: group.material, response: group.response })} className="font-semibold text-basalt-700 underline">
-                {lab.findings.length > 0 ? "Ask the lab / decide" : "Decide"}
-                <span className="sr-only">
-                  {" "}
-                  on lab {lab.lab}, {group.material}, {group.response}
-                </span>
-              </Link>
+              <>
+                <AmendedAfterQueryBadge cell={{ lab: lab.lab, material: group.material, response: group.response }} amended={loaderData.amendedCells} />{" "}
+                <Link to={cellHref(alpha, { lab: lab.lab, material: group.material, response: group.response })} className="font-semibold text-basalt-700 underline">
+                  {lab.findings.length > 0 ? "Ask the lab / decide" : "Decide"}
+                  <span className="sr-only">
+                    {" "}
+                    on lab {lab.lab}, {group.material}, {group.response}
+                  </span>
+                </Link>
+              </>
             )}
           />
         </Card>
@@ -209,7 +215,7 @@ function FlaggedCells({ loaderData, excludedKeys }: { loaderData: LoaderData; ex
             return [
               <span key="lab" className="font-semibold">
                 <span aria-hidden="true">⚑ </span>
-                {f.lab}
+                {f.lab} <AmendedAfterQueryBadge cell={f} amended={loaderData.amendedCells} />
               </span>,
               f.material,
               f.response,
@@ -245,7 +251,7 @@ function Investigation({ loaderData, actionData, cell }: { loaderData: LoaderDat
   return (
     <section id="investigate" aria-labelledby="investigate-heading" className="rounded-lg border-2 border-ochre-600 bg-white p-5 shadow-sm">
       <h2 id="investigate-heading" className="mb-3 text-lg font-semibold text-basalt-800">
-        Investigate lab {cell.lab} · {cell.material} · {response?.name ?? cell.response}
+        Investigate lab {cell.lab} · {cell.material} · {response?.name ?? cell.response} <AmendedAfterQueryBadge cell={cell} amended={loaderData.amendedCells} />
       </h2>
       {!response || cellEvidence.length === 0 ? (
         <p>This lab has no submitted results for that material and response.</p>

@@ -15,7 +15,7 @@ import { mmToIn } from "~/lib/batching";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { formatDate } from "~/lib/format";
 import { STATE_LABEL, STUDY_STATE } from "~/lib/state-labels";
-import { PROTOCOL_MAX_BYTES, protocolSchema, setupForms, setupSchema } from "~/lib/study-forms";
+import { PROTOCOL_MAX_BYTES, protocolSchema, setupForms, setupSchemas, studyDetailsForms } from "~/lib/study-forms";
 import { allowedNextStates, MOVE_CONSEQUENCES } from "~/lib/study-lifecycle";
 import { mayWrite, writeRefusal } from "~/lib/write-rules";
 import { studyPageMeta } from "~/lib/study-page-meta";
@@ -82,7 +82,7 @@ export async function action({ request, context }: Route.ActionArgs) {
       throw error;
     }
   }
-  const submission = parseWithZod(await request.formData(), { schema: setupSchema });
+  const submission = parseWithZod(await request.formData(), { schema: setupSchemas[study.kind] });
   if (submission.status !== "success") return refuse(submission);
   const form = submission.value;
   if (OWNER_ONLY.has(form.intent) && study.ownerId !== user.id) notFound();
@@ -360,7 +360,7 @@ function detailsDefaults(study: SetupStudy) {
 }
 
 function DetailsForm({ study, reply, busy }: FormArgs & { study: SetupStudy }) {
-  const [form, fields] = useSchemaForm(setupForms.study, { reply, intent: "study", defaultValue: detailsDefaults(study) });
+  const [form, fields] = useSchemaForm(studyDetailsForms[study.kind], { reply, intent: "study", defaultValue: detailsDefaults(study) });
   return (
     <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
       <input type="hidden" name="intent" value="study" />

@@ -1,18 +1,20 @@
 import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { Form, useNavigation } from "react-router";
+import type { MouseEvent } from "react";
+import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/shipments";
 import { DataTable } from "~/components/data-table";
 import { fieldProps, FormErrors, formWideErrors, refusalOf, replyAbout, useSchemaForm } from "~/components/forms";
+import { HandlingCaution, PackingItemsTable } from "~/components/packing-list";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Badge, Button, Card, Field, Notice, SelectField, TextAreaField } from "~/components/ui";
+import { Badge, Button, Card, Field, SelectField, TextAreaField } from "~/components/ui";
 import { formatDate, todayIso } from "~/lib/format";
+import { packingSummary, UNIT_CHOICES } from "~/lib/packing-list";
 import { SHIPMENT_STATE } from "~/lib/state-labels";
 import { shipmentForms, shipmentsSchema } from "~/lib/study-forms";
 import { studyPageMeta } from "~/lib/study-page-meta";
-import { listStudyEnrollments } from "~/models/invitation.server";
-import { createShipment, defaultContents, listStudyShipments, markLost, markShipped } from "~/models/shipment.server";
+import { labsAwaitingShipment, listStudyShipments, markLost, markShipped, prepareShipments, studyStartingPackingList } from "~/models/shipment.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
@@ -23,12 +25,12 @@ export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pa
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireStudy(context, ["coordinator", "admin"]);
-  const [enrolled, list, contents] = await Promise.all([listStudyEnrollments(study.id), listStudyShipments(study.id), defaultContents(study.id)]);
+  const [awaiting, list, startingList] = await Promise.all([labsAwaitingShipment(study.id), listStudyShipments(study.id), studyStartingPackingList(study.id)]);
   return {
     study,
-    labs: enrolled.filter((e) => e.state === "accepted").map((e) => ({ value: String(e.id), label: `${e.labCode ?? "—"} · ${e.labName}` })),
+    awaiting: awaiting.map((lab) => ({ value: String(lab.enrollmentId), label: `${lab.labCode ?? "—"} · ${lab.labName}` })),
     shipments: list,
-    defaultContents: contents,
+    startingList,
     canEdit: access === "coordinator",
     today: todayIso(),
   };
@@ -43,8 +45,8 @@ export async function action({ request, context }: Route.ActionArgs) {
     switch (form.intent) {
       case "create": {
         const { intent: _, ...input } = form;
-        await createShipment(study, input, user.id);
-        return "Shipment prepared.";
+        const prepared = await prepareShipments(study, input, user.id);
+        return prepared === 1 ? "Shipment prepared." : `Prepared ${prepared} shipments with the same packing list.`;
       }
       case "ship": {
         const { intent: _, ...input } = form;
@@ -60,24 +62,26 @@ export async function action({ request, context }: Route.ActionArgs) {
   return redirectWithToast(`/studies/${study.id}/shipments`, outcome.value);
 }
 
+type Shipment = Route.ComponentProps["loaderData"]["shipments"][number];
+
 export default function Shipments({ loaderData, actionData }: Route.ComponentProps) {
-  const { labs, shipments, canEdit, today } = loaderData;
+  const { study, awaiting, startingList, shipments, canEdit, today } = loaderData;
   const busy = useNavigation().state === "submitting";
   return (
     <div className="flex flex-col gap-6">
-      <Notice tone="caution">Bags of cement and aggregate are heavy: pack and lift them with help, and mark the weight on each box.</Notice>
+      <HandlingCaution />
       {canEdit && (
-        <Card title="Prepare a shipment">
-          {labs.length === 0 ? (
-            <p>No lab has accepted yet.</p>
+        <Card title="Prepare shipments">
+          {awaiting.length === 0 ? (
+            <p>Every accepted lab has a shipment. Labs appear here once they accept, or when their shipment is marked lost.</p>
           ) : (
-            <PrepareForm labs={labs} defaultContents={loaderData.defaultContents} reply={actionData} busy={busy} />
+            <PrepareForm awaiting={awaiting} startingList={startingList} reply={actionData} busy={busy} />
           )}
         </Card>
       )}
       <Card title="Shipments">
         <DataTable
-          caption="Shipments of the study"
+          caption="Shipments of the study, one row per shipment"
           filterLabel="Filter shipments"
           empty="No shipments yet."
           data={shipments}
@@ -85,7 +89,7 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
             { id: "lab", header: "Lab", value: (s) => `${s.labCode ?? ""} ${s.labName}`.trim() },
             {
               id: "status",
-              header: "Status",
+              header: "State",
               value: (s) => SHIPMENT_STATE[s.status].label,
               cell: (s) => (
                 <>
@@ -98,8 +102,20 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
                 </>
               ),
             },
-            { id: "contents", header: "Contents", value: (s) => s.contents },
             { id: "carrier", header: "Carrier and tracking", value: (s) => [s.carrier, s.trackingNumber].filter(Boolean).join(" · ") || null },
+            {
+              id: "items",
+              header: "Items",
+              value: (s) => s.items.length,
+              cell: (s) => (
+                <details>
+                  <summary className="cursor-pointer font-semibold text-basalt-700">{packingSummary(s.items)}</summary>
+                  <div className="mt-2 min-w-80">
+                    <PackingItemsTable caption={`Items for ${s.labCode ?? s.labName}`} items={s.items} note={s.note} />
+                  </div>
+                </details>
+              ),
+            },
             { id: "shipped", header: "Shipped", value: (s) => s.shippedOn, cell: (s) => formatDate(s.shippedOn) },
             {
               id: "received",
@@ -119,6 +135,17 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
                   "—"
                 ),
             },
+            {
+              id: "packing-list",
+              header: "Packing list",
+              sortable: false,
+              value: () => null,
+              cell: (s) => (
+                <Link to={`/studies/${study.id}/shipments/${s.id}/packing-list`} className="font-semibold text-basalt-700 underline">
+                  Print<span className="sr-only"> the packing list for {s.labCode ?? s.labName}</span>
+                </Link>
+              ),
+            },
             ...(canEdit
               ? [
                   {
@@ -126,7 +153,7 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
                     header: "Next step",
                     sortable: false,
                     value: () => null,
-                    cell: (s: (typeof shipments)[number]) =>
+                    cell: (s: Shipment) =>
                       s.status === "preparing" ? (
                         <ShipForm shipment={s} today={today} reply={actionData} busy={busy} />
                       ) : s.status === "shipped" ? (
@@ -134,7 +161,7 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
                           <input type="hidden" name="intent" value="lost" />
                           <input type="hidden" name="shipmentId" value={s.id} />
                           <Button type="submit" variant="secondary" disabled={busy}>
-                            Mark lost
+                            Mark lost<span className="sr-only"> ({s.labCode ?? s.labName})</span>
                           </Button>
                           <FormErrors errors={refusalOf(replyAbout(actionData, "shipmentId", s.id), "lost")} />
                         </Form>
@@ -151,48 +178,105 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
 
 type FormArgs = { reply: unknown; busy: boolean };
 
-function PrepareForm({ labs, defaultContents, reply, busy }: FormArgs & { labs: { value: string; label: string }[]; defaultContents: string }) {
-  const [form, fields] = useSchemaForm(shipmentForms.create, { reply, intent: "create", defaultValue: { contents: defaultContents } });
+const EVERY_LAB = "every";
+
+/**
+ * One packing list, for one lab or copied to every lab awaiting materials. The
+ * lab list offers only labs awaiting a shipment; choosing all of them asks for
+ * a confirmation that names how many.
+ */
+function PrepareForm({
+  awaiting,
+  startingList,
+  reply,
+  busy,
+}: FormArgs & { awaiting: { value: string; label: string }[]; startingList: Route.ComponentProps["loaderData"]["startingList"] }) {
+  const [form, fields] = useSchemaForm(shipmentForms.create, {
+    reply,
+    intent: "create",
+    defaultValue: { enrollmentId: EVERY_LAB, items: startingList.length ? startingList : [{ unit: "kg", containerCount: "1" }] },
+  });
+  const items = fields.items.getFieldList();
+  const labCount = awaiting.length;
+  // Asked on the Prepare button only: the add and remove buttons submit the form too, to Conform.
+  const confirmEveryLab = (event: MouseEvent<HTMLButtonElement>) => {
+    const target = event.currentTarget.form?.elements.namedItem("enrollmentId") as HTMLSelectElement | null;
+    const question = `Prepare this packing list for all ${labCount} ${labCount === 1 ? "lab" : "labs"} awaiting materials?`;
+    if (target?.value === EVERY_LAB && !window.confirm(question)) event.preventDefault();
+  };
   return (
-    <Form method="post" className="grid gap-4 md:grid-cols-2" {...getFormProps(form)}>
+    <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
       <input type="hidden" name="intent" value="create" />
+      <input type="hidden" name="labCount" value={labCount} />
       <FormErrors errors={formWideErrors(form)} />
-      <SelectField label="Lab" {...fieldProps(fields.enrollmentId)} options={labs} />
-      <Field label="Carrier" {...fieldProps(fields.carrier)} />
-      <div className="md:col-span-2">
-        <TextAreaField label="Materials and lots" {...fieldProps(fields.contents)} />
+      <div className="grid grid-cols-1 gap-4 md:grid-cols-3">
+        <SelectField
+          label="Ship to"
+          {...fieldProps(fields.enrollmentId)}
+          options={[{ value: EVERY_LAB, label: `Every accepted lab awaiting materials (${labCount})` }, ...awaiting]}
+        />
+        <Field label="Carrier" {...fieldProps(fields.carrier)} />
+        <Field label="Tracking number" hint="For one lab; add each lab's when it ships." {...fieldProps(fields.trackingNumber)} />
       </div>
-      <Field label="Tracking number" {...fieldProps(fields.trackingNumber)} />
-      <div className="self-end">
-        <Button type="submit" disabled={busy}>
-          Prepare shipment
+      <fieldset className="flex flex-col gap-3">
+        <legend className="mb-2 font-semibold text-basalt-800">Items</legend>
+        {fields.items.errors && <FormErrors errors={fields.items.errors} />}
+        {items.map((item, index) => {
+          const line = item.getFieldset();
+          return (
+            <div key={item.key} className="grid grid-cols-1 items-start gap-3 border-b border-basalt-100 pb-3 sm:grid-cols-2 lg:grid-cols-[minmax(0,3fr)_repeat(2,minmax(0,1fr))_minmax(0,1.5fr)_minmax(0,1fr)_auto]">
+              <Field label={`Item ${index + 1}: material or constituent`} {...fieldProps(line.description)} />
+              <Field label="Quantity" inputMode="decimal" {...fieldProps(line.quantity)} />
+              <SelectField label="Unit" {...fieldProps(line.unit)} options={UNIT_CHOICES} />
+              <Field label="Lot" {...fieldProps(line.lot)} />
+              <Field label="Containers" inputMode="numeric" {...fieldProps(line.containerCount)} />
+              <Button variant="secondary" className="self-end" {...form.remove.getButtonProps({ name: fields.items.name, index })} disabled={items.length === 1}>
+                Remove<span className="sr-only"> item {index + 1}</span>
+              </Button>
+            </div>
+          );
+        })}
+        <div>
+          <Button variant="secondary" {...form.insert.getButtonProps({ name: fields.items.name, defaultValue: { unit: "kg", containerCount: "1" } })}>
+            Add an item
+          </Button>
+        </div>
+      </fieldset>
+      <TextAreaField label="Note for the packing list" rows={2} {...fieldProps(fields.note)} />
+      <div>
+        <Button type="submit" disabled={busy} onClick={confirmEveryLab}>
+          Prepare
         </Button>
       </div>
     </Form>
   );
 }
 
-type Shipment = Route.ComponentProps["loaderData"]["shipments"][number];
-
-/** One row's "mark shipped" form; the action's answer belongs to it only when it names this shipment. */
+/** One row's "mark shipped" form, folded away until used; the action's answer belongs to it only when it names this shipment. */
 function ShipForm({ shipment, today, reply, busy }: FormArgs & { shipment: Shipment; today: string }) {
+  const mine = replyAbout(reply, "shipmentId", shipment.id);
   const [form, fields] = useSchemaForm(shipmentForms.ship, {
-    reply: replyAbout(reply, "shipmentId", shipment.id),
+    reply: mine,
     intent: "ship",
     id: `ship-${shipment.id}`,
     defaultValue: { shippedOn: today, carrier: shipment.carrier, trackingNumber: shipment.trackingNumber },
   });
   return (
-    <Form method="post" className="flex flex-col gap-2" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="ship" />
-      <input type="hidden" name="shipmentId" value={shipment.id} />
-      <Field label="Ship date" type="date" {...fieldProps(fields.shippedOn)} />
-      <Field label="Carrier" {...fieldProps(fields.carrier)} />
-      <Field label="Tracking number" {...fieldProps(fields.trackingNumber)} />
-      <FormErrors errors={formWideErrors(form)} />
-      <Button type="submit" disabled={busy}>
-        Mark shipped
-      </Button>
-    </Form>
+    <details open={mine !== undefined}>
+      <summary className="cursor-pointer font-semibold text-basalt-700">
+        Mark shipped<span className="sr-only"> ({shipment.labCode ?? shipment.labName})</span>
+      </summary>
+      <Form method="post" className="mt-2 flex min-w-56 flex-col gap-2" {...getFormProps(form)}>
+        <input type="hidden" name="intent" value="ship" />
+        <input type="hidden" name="shipmentId" value={shipment.id} />
+        <Field label="Ship date" type="date" {...fieldProps(fields.shippedOn)} />
+        <Field label="Carrier" {...fieldProps(fields.carrier)} />
+        <Field label="Tracking number" {...fieldProps(fields.trackingNumber)} />
+        <FormErrors errors={formWideErrors(form)} />
+        <Button type="submit" disabled={busy}>
+          Mark shipped
+        </Button>
+      </Form>
+    </details>
   );
 }

@@ -10,6 +10,7 @@ import { uncertaintySchema } from "~/lib/round-forms";
 import { labUncertainties, roundDesign, saveLabUncertainty } from "~/models/round.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
+import { writeRefusal } from "~/lib/write-rules";
 import { redirectWithToast } from "~/server/toast.server";
 
 export const handle: StudyPageHandle = { pageTitle: "Round" };
@@ -20,7 +21,7 @@ export async function loader({ context }: Route.LoaderArgs) {
   const [{ groups }, entered] = await Promise.all([roundDesign(study.id), labUncertainties(enrollment!.id)]);
   return {
     roundId: study.id,
-    testing: study.state === "testing",
+    uncertaintyRefusal: writeRefusal("labUncertainty", study.state),
     published: study.state === "published",
     groups: groups.map((g) => ({ material: g.material, response: g.response, uncertainty: entered[`${g.material.id}:${g.response.id}`] ?? null })),
   };
@@ -63,7 +64,7 @@ function UncertaintyForm({ group, reply }: { group: Group; reply: unknown }) {
 }
 
 export default function LabRound({ loaderData, actionData }: Route.ComponentProps) {
-  const { roundId, testing, published, groups } = loaderData;
+  const { roundId, uncertaintyRefusal, published, groups } = loaderData;
   return (
     <div className="flex flex-col gap-6">
       <Card title="What to do">
@@ -84,7 +85,7 @@ export default function LabRound({ loaderData, actionData }: Route.ComponentProp
           </p>
         )}
       </Card>
-      {testing && (
+      {uncertaintyRefusal === null && (
         <Card title="Your measurement uncertainty (optional)">
           <p className="mb-3 text-basalt-700">If your lab states a standard uncertainty for its result, enter it: your letter then also gives a ζ score.</p>
           <div className="flex flex-col gap-4">

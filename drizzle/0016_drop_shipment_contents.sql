@@ -1,0 +1,1 @@
+ALTER TABLE `shipments` DROP COLUMN `contents`;
