@@ -20,7 +20,7 @@ export const middleware: Route.MiddlewareFunction[] = [guardRequests];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const [user, { toast, headers }, demo] = await Promise.all([getUser(request), takeToast(request), demoDataPresent()]);
-  return data({ user: user && { name: user.name, role: user.role }, mailbox: mailboxEnabled(), demo, toast }, { headers });
+  return data({ user: user && { name: user.name, roles: user.roles }, mailbox: mailboxEnabled(), demo, toast }, { headers });
 }
 
 // The browser's icons and manifest, from public/ (drawn by scripts/make-icons.ts from the mark).

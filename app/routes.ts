@@ -14,6 +14,8 @@ export default [
   route("invite/:token", "routes/auth/invite.tsx"),
   route("welcome/:token", "routes/auth/welcome.tsx"),
   route("setup/:token", "routes/auth/setup.tsx"),
+  route("forgot-password", "routes/auth/forgot-password.tsx"),
+  route("reset-password/:token", "routes/auth/reset-password.tsx"),
   route("account", "routes/account.tsx"),
   route("account/api", "routes/account-api.tsx"),
 

@@ -10,6 +10,7 @@ import {
   freshPropertyTargets,
   labMembers,
   labs,
+  userRoles,
   materials,
   mixtureConstituents,
   queries,
@@ -125,6 +126,9 @@ export async function seedDemo(db: Database) {
     const analystId = await userId(analyst.email, analyst.name, "analyst");
     await db.insert(labMembers).values({ labId: row.id, userId: analystId, isContact: true }).onConflictDoNothing();
   }
+  // One analyst also sits on the committee: the reviewer picker leaves them out of the studies their lab takes part in.
+  const committeeAnalyst = DEMO_PEOPLE.analysts.at(-1)!;
+  await db.insert(userRoles).values({ userId: await userId(committeeAnalyst.email, committeeAnalyst.name, "analyst"), role: "reviewer" }).onConflictDoNothing();
 
   for (const spec of STUDIES) {
     if (await db.query.studies.findFirst({ where: eq(studies.code, spec.code) })) continue;

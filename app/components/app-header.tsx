@@ -2,7 +2,7 @@ import { Form, NavLink } from "react-router";
 import type { Role } from "~/db/schema";
 import { Wordmark } from "./wordmark";
 
-type HeaderUser = { name: string; role: Role };
+type HeaderUser = { name: string; roles: Role[] };
 
 const NAV_BY_ROLE: Record<Role, { to: string; label: string }[]> = {
   admin: [
@@ -66,7 +66,7 @@ function Account({ user }: { user: HeaderUser }) {
     <div className="flex items-center gap-3">
       <NavLink to="/account" className="rounded px-2 py-1 text-basalt-100 hover:bg-basalt-700">
         <span className="font-semibold text-white">{user.name}</span>
-        <span className="block text-xs">{ROLE_LABEL[user.role]}</span>
+        <span className="block text-xs">{user.roles.map((r) => ROLE_LABEL[r]).join(" · ")}</span>
       </NavLink>
       <Form method="post" action="/logout">
         <button type="submit" className="rounded border border-basalt-200 px-3 py-1.5 font-semibold text-white hover:bg-basalt-700">
@@ -77,8 +77,18 @@ function Account({ user }: { user: HeaderUser }) {
   );
 }
 
+/** The links of every role the person holds, each once, in the order of their roles. */
+function navOf(user: HeaderUser, mailbox: boolean) {
+  const links = [
+    ...user.roles.flatMap((r) => NAV_BY_ROLE[r]),
+    ...user.roles.flatMap((r) => TOOLKIT_NAV[r]),
+    ...(mailbox && user.roles.some((r) => r === "admin" || r === "coordinator") ? [MAILBOX_LINK] : []),
+  ];
+  return links.filter((link, i) => links.findIndex((other) => other.to === link.to) === i);
+}
+
 export function AppHeader({ user, mailbox = false }: { user: HeaderUser | null; mailbox?: boolean }) {
-  const nav = user ? [...NAV_BY_ROLE[user.role], ...TOOLKIT_NAV[user.role], ...(mailbox && (user.role === "admin" || user.role === "coordinator") ? [MAILBOX_LINK] : [])] : [];
+  const nav = user ? navOf(user, mailbox) : [];
   return (
     <header className="no-print relative bg-basalt-800 text-white">
       <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">

@@ -6,6 +6,7 @@
  */
 import { sql } from "drizzle-orm";
 import {
+  type AnySQLiteColumn,
   index,
   integer,
   primaryKey,
@@ -14,7 +15,7 @@ import {
   text,
   uniqueIndex,
 } from "drizzle-orm/sqlite-core";
-import { ROLES, STUDY_KINDS, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, SHIPMENT_UNITS, NOTICE_KINDS, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES, COMPARISON_SETTINGS, ASSIGNED_VALUE_METHODS, SIGMA_PT_METHODS, MATERIAL_CHECKS, SCORE_VERDICTS } from "./values";
+import { LAB_LISTINGS, PASSWORD_LINK_PURPOSES, ROLES, STUDY_KINDS, STUDY_STATES, RESPONSE_KINDS, FRESH_PROPERTIES, CONSTITUENT_KINDS, ENROLLMENT_STATES, SHIPMENT_STATUSES, SHIPMENT_UNITS, NOTICE_KINDS, CELL_STATUSES, QUERY_STATES, STATEMENT_STATES, VOTE_CHOICES, API_SCOPES, COMPARISON_SETTINGS, ASSIGNED_VALUE_METHODS, SIGMA_PT_METHODS, MATERIAL_CHECKS, SCORE_VERDICTS } from "./values";
 
 export * from "./values";
 
@@ -34,6 +35,18 @@ export const users = sqliteTable("users", {
   createdAt: createdAt(),
 });
 
+/** Roles a person holds besides `users.role` (an analyst of a lab who also sits on the committee). */
+export const userRoles = sqliteTable(
+  "user_roles",
+  {
+    userId: integer("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    role: text("role", { enum: ROLES }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.userId, t.role] })],
+);
+
 export const labs = sqliteTable("labs", {
   id: integer("id").primaryKey({ autoIncrement: true }),
   name: text("name").notNull().unique(),
@@ -41,6 +54,14 @@ export const labs = sqliteTable("labs", {
   contactName: text("contact_name").notNull().default(""),
   contactEmail: text("contact_email").notNull().default(""),
   accreditationNumber: text("accreditation_number").notNull().default(""),
+  /**
+   * Null for a lab of the directory. A lab a coordinator invited by name and
+   * e-mail is `invited` until it accepts, then `unchecked` until an
+   * administrator has looked for a duplicate of it.
+   */
+  listing: text("listing", { enum: LAB_LISTINGS }),
+  /** The lab this one was merged into; a merged lab leaves the directory and every picker. */
+  mergedIntoId: integer("merged_into_id").references((): AnySQLiteColumn => labs.id),
   createdAt: createdAt(),
 });
 
@@ -68,6 +89,8 @@ export const passwordTokens = sqliteTable(
       .notNull()
       .references(() => users.id, { onDelete: "cascade" }),
     tokenHash: text("token_hash").notNull().unique(),
+    /** A first password (`welcome`, 14 days) or a forgotten one (`reset`, 30 minutes). */
+    purpose: text("purpose", { enum: PASSWORD_LINK_PURPOSES }).notNull().default("welcome"),
     expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
     usedAt: integer("used_at", { mode: "timestamp_ms" }),
     createdAt: createdAt(),

@@ -7,6 +7,12 @@
 export const ROLES = ["admin", "coordinator", "analyst", "reviewer"] as const;
 export type Role = (typeof ROLES)[number];
 
+/** How a lab came into the directory, when not by an administrator (see `labs.listing`). */
+export const LAB_LISTINGS = ["invited", "unchecked"] as const;
+
+export const PASSWORD_LINK_PURPOSES = ["welcome", "reset"] as const;
+export type PasswordLinkPurpose = (typeof PASSWORD_LINK_PURPOSES)[number];
+
 export const STUDY_STATES = [
   "draft",
   "recruiting",

@@ -65,26 +65,38 @@ export const accountSchema = z.discriminatedUnion("intent", [
   noticePreferencesSchema,
 ]);
 
-// The administrator's account list.
-const roleField = z.enum(ROLES, { message: "Choose a role." });
+// The administrator's account list. Roles are ticked boxes: one or more.
+const rolesField = z.array(z.enum(ROLES, { message: "Choose a role." }), { message: "Choose at least one role." }).min(1, { message: "Choose at least one role." });
 const labChoice = idField.optional().transform((v) => v ?? null);
 const contactBox = z.literal("on").optional();
 
+/** A new account has no password: the person sets their own from the e-mailed link. */
 export const createUserSchema = z.object({
   intent: z.literal("create"),
   email: emailField,
   name: nameField,
-  role: roleField,
-  password: newPasswordField,
+  roles: rolesField,
   labId: labChoice,
   isContact: contactBox,
 });
 
-export const updateUserSchema = z.object({ intent: z.literal("update"), userId: idField, role: roleField, labId: labChoice, isContact: contactBox });
+export const updateUserSchema = z.object({ intent: z.literal("update"), userId: idField, roles: rolesField, labId: labChoice, isContact: contactBox });
 
 export const disableUserSchema = z.object({ intent: z.literal("disable"), userId: idField, disabled: z.enum(["true", "false"]) });
 
 export const adminUserSchema = z.discriminatedUnion("intent", [createUserSchema, updateUserSchema, disableUserSchema]);
+
+/** The account list's filter (query parameters); anything unreadable means "any". */
+export const userFilterSchema = z.object({
+  q: z.string().trim().max(254).catch(""),
+  role: z.enum(ROLES).nullable().catch(null),
+  lab: idField.nullable().catch(null),
+});
+
+// "Forgot your password?": the address, then the new password from the e-mailed link.
+export const passwordResetRequestSchema = z.object({
+  email: z.string({ message: "Enter your e-mail address." }).trim().min(1, { message: "Enter your e-mail address." }).max(254, { message: "Enter your e-mail address." }),
+});
 
 // The lab directory. Conform turns an empty field into undefined; the optional fields store "".
 const optionalText = (max: number, message: string) => z.string().trim().max(max, { message }).optional().transform((v) => v ?? "");
@@ -97,3 +109,14 @@ export const labSchema = z.object({
   contactEmail: emailField.optional().transform((v) => v ?? ""),
   accreditationNumber: optionalText(60, "Keep the accreditation number to 60 characters."),
 });
+
+/** Merging a lab into another lab of the directory (its enrollments and people move). */
+export const labMergeSchema = z.object({
+  intent: z.literal("merge"),
+  labId: idField,
+  intoLabId: z.coerce.number({ message: "Choose the lab to merge into." }).int().positive({ message: "Choose the lab to merge into." }),
+});
+
+/** An administrator has looked and found no duplicate: the lab loses its "new" mark. */
+export const labCheckedSchema = z.object({ intent: z.literal("checked"), labId: idField });
+

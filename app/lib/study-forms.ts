@@ -5,7 +5,7 @@
 import { z } from "zod";
 import { RESPONSE_KINDS, STUDY_STATES, type StudyKind } from "~/db/values";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
-import { emailField } from "~/lib/validation";
+import { emailField, nameField } from "~/lib/validation";
 import { packingListSchema } from "~/lib/packing-list";
 
 // Conform hands a blank field to the schema as undefined; the older forms still send "". Both mean "left blank".
@@ -288,8 +288,15 @@ export const protocolSchema = z.object({
 export const labsForms = {
   invite: z.object({ ...intent("invite"), labId: z.coerce.number({ message: "Choose a lab from the directory." }).int().positive({ message: "Choose a lab from the directory." }) }),
   withdraw: withdrawalSchema.extend(intent("withdraw")),
+  /** A lab that is not in the directory yet: it is added when its contact accepts. */
+  inviteOutside: z.object({
+    ...intent("invite-outside"),
+    labName: nameField,
+    contactName: nameField,
+    contactEmail: emailField,
+  }),
 };
-export const labsSchema = z.discriminatedUnion("intent", [labsForms.invite, labsForms.withdraw], UNKNOWN_FORM);
+export const labsSchema = z.discriminatedUnion("intent", [labsForms.invite, labsForms.withdraw, labsForms.inviteOutside], UNKNOWN_FORM);
 
 /** The forms of the shipments page. */
 export const shipmentForms = {

@@ -4,9 +4,9 @@
  * days, and only for the study its link names.
  */
 import { randomBytes } from "node:crypto";
-import { and, eq, isNull } from "drizzle-orm";
+import { and, asc, count, eq, isNull, ne, or, sql } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
-import { enrollments, invitations, labMembers, labs, studies, users, type Study } from "~/db/schema";
+import { enrollments, invitations, labMembers, labs, materials, responses, studies, studyReviewers, userRoles, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, sendEmail } from "~/server/email.server";
 import { invitationEmail } from "~/server/email-templates.server";
@@ -30,36 +30,96 @@ export function invitationPath(token: string, studyId: number) {
 
 /** Invites a lab of the directory: enrollment `invited`, a fresh token, an e-mail to the lab's contact. */
 export async function inviteLab(study: Study, labId: number, actorUserId: number, request: Request | null) {
-  const refusal = writeRefusal("invitations", study.state);
-  if (refusal) throw new InvitationError("labId", refusal);
-  const lab = await db.query.labs.findFirst({ where: eq(labs.id, labId) });
+  assertInvitationsOpen(study, "labId");
+  const lab = await db.query.labs.findFirst({ where: and(eq(labs.id, labId), isNull(labs.mergedIntoId)) });
   if (!lab) throw new InvitationError("labId", "Choose a lab from the directory.");
   if (!lab.contactEmail) throw new InvitationError("labId", "This lab has no contact e-mail; ask an administrator to add one.");
-  const token = randomBytes(32).toString("base64url");
-  const expiresAt = new Date(Date.now() + INVITATION_LIFETIME_MS);
-  await db.transaction(async (tx) => {
-    const existing = await tx.query.enrollments.findFirst({ where: and(eq(enrollments.studyId, study.id), eq(enrollments.labId, labId)) });
-    if (existing?.state === "accepted") throw new InvitationError("labId", "This lab has already accepted.");
-    const enrollmentId = existing
-      ? (await tx.update(enrollments).set({ state: "invited", invitedAt: new Date(), respondedAt: null }).where(eq(enrollments.id, existing.id)).returning())[0]!.id
-      : (await tx.insert(enrollments).values({ studyId: study.id, labId, state: "invited", invitedAt: new Date() }).returning())[0]!.id;
-    // A new invitation retires any earlier link of the same enrollment.
-    await tx.update(invitations).set({ expiresAt: new Date() }).where(and(eq(invitations.enrollmentId, enrollmentId), isNull(invitations.usedAt)));
-    await tx.insert(invitations).values({ enrollmentId, email: normaliseEmail(lab.contactEmail), tokenHash: hashToken(token), expiresAt });
-    await recordAudit({ actorUserId, action: "lab_invited", entityType: "enrollment", entityId: enrollmentId, studyId: study.id, after: { labId, email: lab.contactEmail } }, tx);
+  await refuseReviewersLab(study, lab.id, lab.contactEmail, "labId");
+  const token = await db.transaction((tx) => issueInvitation(tx, study, lab, actorUserId));
+  await sendInvitationEmail(study, lab, token, request);
+  return { token };
+}
+
+/**
+ * Invites a lab that is not in the directory, by its name and its contact's
+ * e-mail. The lab is kept out of the directory until its contact accepts;
+ * then it joins it, marked for an administrator's duplicate check.
+ */
+export async function inviteOutsideLab(study: Study, input: { labName: string; contactName: string; contactEmail: string }, actorUserId: number, request: Request | null) {
+  assertInvitationsOpen(study, "labName");
+  const contactEmail = normaliseEmail(input.contactEmail);
+  const [sameName] = await db.select().from(labs).where(sql`lower(${labs.name}) = ${input.labName.toLowerCase()}`);
+  const sameContact = await db.query.labs.findFirst({ where: and(sql`lower(${labs.contactEmail}) = ${contactEmail}`, isNull(labs.mergedIntoId), or(isNull(labs.listing), ne(labs.listing, "invited"))) });
+  if (sameName && (sameName.listing !== "invited" || normaliseEmail(sameName.contactEmail) !== contactEmail)) {
+    throw new InvitationError("labName", sameName.listing === "invited" ? "A lab of this name is already invited with another contact: check the name with the lab." : "A lab of this name is in the directory: invite it from the list.");
+  }
+  if (sameContact) throw new InvitationError("contactEmail", `This is the contact of ${sameContact.name}, which is in the directory: invite it from the list.`);
+  await refuseReviewersLab(study, sameName?.id ?? null, contactEmail, "contactEmail");
+  const { lab, token } = await db.transaction(async (tx) => {
+    // A lab already invited to another study under this name and contact is the same lab, still waiting.
+    const lab =
+      sameName ??
+      (await tx.insert(labs).values({ name: input.labName, contactName: input.contactName, contactEmail, listing: "invited" }).returning())[0]!;
+    if (!sameName) await recordAudit({ actorUserId, action: "lab_created", entityType: "lab", entityId: lab.id, studyId: study.id, after: { ...input, listing: "invited" } }, tx);
+    return { lab, token: await issueInvitation(tx, study, lab, actorUserId) };
   });
+  await sendInvitationEmail(study, lab, token, request);
+  return { token, lab };
+}
+
+function assertInvitationsOpen(study: Study, field: string) {
+  const refusal = writeRefusal("invitations", study.state);
+  if (refusal) throw new InvitationError(field, refusal);
+}
+
+/** A reviewer never reviews a study in which their own lab takes part, so their lab is not invited to it. */
+async function refuseReviewersLab(study: Study, labId: number | null, contactEmail: string, field: string) {
+  const reviewers = await db
+    .select({ name: users.name, email: users.email, id: users.id })
+    .from(studyReviewers)
+    .innerJoin(users, eq(users.id, studyReviewers.userId))
+    .where(eq(studyReviewers.studyId, study.id));
+  if (reviewers.length === 0) return;
+  const members = labId ? await db.select({ userId: labMembers.userId }).from(labMembers).where(eq(labMembers.labId, labId)) : [];
+  const conflict = reviewers.find((r) => normaliseEmail(r.email) === normaliseEmail(contactEmail) || members.some((m) => m.userId === r.id));
+  if (conflict) throw new InvitationError(field, `${conflict.name}, a reviewer of this study, works at this lab: a reviewer's own lab cannot take part in the study they review.`);
+}
+
+/** Enrollment `invited` (new or again), earlier links retired, a fresh token; returns the token, which only the e-mail carries. */
+async function issueInvitation(tx: Transaction, study: Study, lab: typeof labs.$inferSelect, actorUserId: number) {
+  const token = randomBytes(32).toString("base64url");
+  const existing = await tx.query.enrollments.findFirst({ where: and(eq(enrollments.studyId, study.id), eq(enrollments.labId, lab.id)) });
+  if (existing?.state === "accepted") throw new InvitationError("labId", "This lab has already accepted.");
+  const enrollmentId = existing
+    ? (await tx.update(enrollments).set({ state: "invited", invitedAt: new Date(), respondedAt: null }).where(eq(enrollments.id, existing.id)).returning())[0]!.id
+    : (await tx.insert(enrollments).values({ studyId: study.id, labId: lab.id, state: "invited", invitedAt: new Date() }).returning())[0]!.id;
+  // A new invitation retires any earlier link of the same enrollment.
+  await tx.update(invitations).set({ expiresAt: new Date() }).where(and(eq(invitations.enrollmentId, enrollmentId), isNull(invitations.usedAt)));
+  await tx.insert(invitations).values({ enrollmentId, email: normaliseEmail(lab.contactEmail), tokenHash: hashToken(token), expiresAt: new Date(Date.now() + INVITATION_LIFETIME_MS) });
+  await recordAudit({ actorUserId, action: "lab_invited", entityType: "enrollment", entityId: enrollmentId, studyId: study.id, after: { labId: lab.id, email: lab.contactEmail } }, tx);
+  return token;
+}
+
+/** The invitation e-mail: the study's dates, the workload and whom to ask. */
+async function sendInvitationEmail(study: Study, lab: typeof labs.$inferSelect, token: string, request: Request | null) {
+  const [owner, [materialCount], studyResponses] = await Promise.all([
+    db.query.users.findFirst({ where: eq(users.id, study.ownerId), columns: { name: true, email: true } }),
+    db.select({ n: count() }).from(materials).where(eq(materials.studyId, study.id)),
+    db.select({ name: responses.name, unit: responses.unit }).from(responses).where(eq(responses.studyId, study.id)).orderBy(asc(responses.sortOrder)),
+  ]);
   await sendEmail(
     invitationEmail({
       to: lab.contactEmail,
       contactName: lab.contactName,
       labName: lab.name,
       study,
+      workload: { materials: materialCount!.n, replicates: study.replicatesPerCell, responses: studyResponses.map((r) => (r.unit ? `${r.name} (${r.unit})` : r.name)) },
+      coordinator: owner!,
       url: appUrl(request, invitationPath(token, study.id)),
-      expiresOn: formatDate(expiresAt),
+      expiresOn: formatDate(new Date(Date.now() + INVITATION_LIFETIME_MS)),
     }),
     { studyId: study.id },
   );
-  return { token };
 }
 
 export type InvitationLookup =
@@ -103,10 +163,13 @@ async function claim(tx: Transaction, invitationId: number) {
 /**
  * Accepts: the enrollment gets a random blind lab code unique in the study.
  * A new contact's account (analyst, lab contact) is created in the same
- * transaction; an existing one must be the signed-in user.
+ * transaction; an existing one must be the signed-in user, and becomes an
+ * analyst of the lab besides what else they are. A lab invited from outside
+ * the directory joins it here, marked for an administrator's duplicate check.
  */
 export async function acceptInvitation(found: Valid, who: { signedIn: SessionUser } | { name: string; password: string }) {
   const passwordHash = "password" in who ? await hashPassword(who.password) : null;
+  if (found.account) await refuseReviewerAccepting(found.study.id, found.account.id);
   return db.transaction(async (tx) => {
     if (!(await claim(tx, found.invitation.id))) throw new InvitationError("form", "This invitation has already been used.");
     let userId: number;
@@ -122,6 +185,12 @@ export async function acceptInvitation(found: Valid, who: { signedIn: SessionUse
       userId = created!.id;
     }
     await tx.insert(labMembers).values({ labId: found.lab.id, userId, isContact: true }).onConflictDoNothing();
+    const account = (await tx.query.users.findFirst({ where: eq(users.id, userId) }))!;
+    if (account.role !== "analyst") await tx.insert(userRoles).values({ userId, role: "analyst" }).onConflictDoNothing();
+    if (found.lab.listing === "invited") {
+      await tx.update(labs).set({ listing: "unchecked" }).where(eq(labs.id, found.lab.id));
+      await recordAudit({ actorUserId: userId, action: "lab_joined_directory", entityType: "lab", entityId: found.lab.id, studyId: found.study.id, after: { name: found.lab.name } }, tx);
+    }
     const taken = await tx.select({ code: enrollments.labCode }).from(enrollments).where(eq(enrollments.studyId, found.study.id));
     const labCode = drawLabCode(new Set(taken.map((t) => t.code).filter((c): c is string => c !== null)), taken.length);
     await tx.update(enrollments).set({ state: "accepted", labCode, respondedAt: new Date() }).where(eq(enrollments.id, found.enrollment.id));
@@ -131,6 +200,11 @@ export async function acceptInvitation(found: Valid, who: { signedIn: SessionUse
     );
     return { userId, labCode };
   });
+}
+
+async function refuseReviewerAccepting(studyId: number, userId: number) {
+  const reviews = await db.query.studyReviewers.findFirst({ where: and(eq(studyReviewers.studyId, studyId), eq(studyReviewers.userId, userId)) });
+  if (reviews) throw new InvitationError("form", "You review this study: a reviewer's own lab cannot take part in it. Ask the coordinator to invite another contact of your lab.");
 }
 
 export async function declineInvitation(found: Valid, actorUserId: number | null) {
@@ -168,6 +242,7 @@ export async function withdrawEnrollment(study: Study, enrollmentId: number, rea
 export async function listStudyEnrollments(studyId: number) {
   return db
     .select({
+      lab: labs,
       id: enrollments.id,
       labId: labs.id,
       labName: labs.name,

@@ -27,7 +27,7 @@ export async function requireMailbox(request: Request) {
 /** What the viewer may read: an admin everything, a coordinator the mail of their own studies. */
 async function visibleTo(viewer: SessionUser) {
   const fake = eq(emailOutbox.transport, "fake");
-  if (viewer.role === "admin") return fake;
+  if (viewer.roles.includes("admin")) return fake;
   const owned = await db.select({ id: studies.id }).from(studies).where(eq(studies.ownerId, viewer.id));
   const shared = await db.select({ id: studyCoordinators.studyId }).from(studyCoordinators).where(eq(studyCoordinators.userId, viewer.id));
   const studyIds = [...owned, ...shared].map((s) => s.id);

@@ -87,7 +87,7 @@ export async function listRounds(user: SessionUser) {
     .where(
       and(
         eq(studies.kind, "proficiency"),
-        user.role === "admin" ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated)),
+        user.roles.includes("admin") ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated)),
       ),
     )
     .orderBy(desc(studies.createdAt), desc(studies.id));
@@ -611,7 +611,8 @@ export async function labLetter(studyId: number, enrollment: { id: number; labId
     })
     .from(roundScores)
     .innerJoin(studies, eq(studies.id, roundScores.studyId))
-    .where(and(eq(roundScores.labId, enrollment.labId), eq(studies.testMethod, report.testMethod)))
+    // Published scores never change, so a lab merged into this one keeps its own id there: its history is read alongside.
+    .where(and(or(eq(roundScores.labId, enrollment.labId), inArray(roundScores.labId, db.select({ id: labs.id }).from(labs).where(eq(labs.mergedIntoId, enrollment.labId)))), eq(studies.testMethod, report.testMethod)))
     .orderBy(asc(roundScores.publishedAt), asc(roundScores.materialCode));
   return { report: { code: report.code, title: report.title, testMethod: report.testMethod, sourceCode: report.sourceCode, replicates: report.replicates, publishedAt: report.publishedAt }, labCode: enrollment.labCode, groups, history };
 }

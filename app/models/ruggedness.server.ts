@@ -33,7 +33,7 @@ export async function listRuggednessStudies(user: SessionUser) {
     .select({ id: studies.id, code: studies.code, title: studies.title, state: studies.state, testMethod: studies.testMethod, runs: ruggednessPlans.runs })
     .from(studies)
     .leftJoin(ruggednessPlans, eq(ruggednessPlans.studyId, studies.id))
-    .where(and(eq(studies.kind, "ruggedness"), user.role === "admin" ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated))))
+    .where(and(eq(studies.kind, "ruggedness"), user.roles.includes("admin") ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated))))
     .orderBy(asc(studies.code));
   return rows;
 }

@@ -3,12 +3,15 @@
  * protocol, co-coordinators, reviewers and materials. Each change is one
  * transaction with its audit event.
  */
-import { and, asc, count, eq, gt, inArray, ne } from "drizzle-orm";
+import { and, asc, count, eq, gt, inArray, isNull, ne, notInArray } from "drizzle-orm";
 import type { z } from "zod";
 import { db } from "~/db/client.server";
 import {
   cells,
+  enrollments,
   freshPropertyTargets,
+  labMembers,
+  labs,
   materials,
   mixtureConstituents,
   responses,
@@ -25,7 +28,7 @@ import { AIR_CONTENT_TOLERANCE_POINTS, type Constituent, inToMm, slumpTolerance 
 import { type freshTargetsSchema, type materialSchema, type newStudySchema, replicatesProblem, type responseSchema, type studyFields } from "~/lib/study-forms";
 import { type WriteKind, writeRefusal } from "~/lib/write-rules";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
-import { normaliseEmail } from "~/models/user.server";
+import { holdsRole, loadSessionUser, normaliseEmail } from "~/models/user.server";
 
 type StudyInput = z.infer<typeof studyFields>;
 
@@ -161,8 +164,13 @@ export async function addPerson(study: Study, kind: keyof typeof PEOPLE, email: 
   assertWritable(rule, study, "email");
   const user = await db.query.users.findFirst({ where: eq(users.email, normaliseEmail(email)) });
   if (!user || user.disabledAt) throw new SetupError("email", "No active account has this e-mail.");
-  if (!(roles as readonly string[]).includes(user.role)) throw new SetupError("email", `This account is not ${what}.`);
+  const held = await loadSessionUser(user.id);
+  if (!held?.roles.some((r) => (roles as readonly string[]).includes(r))) throw new SetupError("email", `This account is not ${what}.`);
   if (user.id === study.ownerId) throw new SetupError("email", "The owner already coordinates this study.");
+  if (kind === "reviewer") {
+    const [conflict] = await participatingLabsOf(study.id, [user.id]);
+    if (conflict) throw new SetupError("email", `${user.name} works at a participating lab (${conflict.labName}): a reviewer never reviews a study their own lab takes part in.`);
+  }
   await db.transaction(async (tx) => {
     const added = await tx.insert(table).values({ studyId: study.id, userId: user.id }).onConflictDoNothing().returning();
     if (added.length === 0) throw new SetupError("email", `This person is already ${what} of the study.`);
@@ -199,6 +207,41 @@ export async function removeMaterial(study: Study, materialId: number, actorUser
     if (removed.length === 0) throw new SetupError("form", "That material is not part of this study.");
     await recordAudit({ actorUserId, action: "material_removed", entityType: "material", entityId: materialId, studyId: study.id, before: removed[0] }, tx);
   });
+}
+
+/** Labs taking part in the study (invited or enrolled) that these people belong to. */
+async function participatingLabsOf(studyId: number, userIds: number[]) {
+  if (userIds.length === 0) return [];
+  return db
+    .select({ userId: labMembers.userId, labName: labs.name })
+    .from(labMembers)
+    .innerJoin(labs, eq(labs.id, labMembers.labId))
+    .innerJoin(enrollments, and(eq(enrollments.labId, labMembers.labId), eq(enrollments.studyId, studyId)))
+    .where(and(inArray(labMembers.userId, userIds), inArray(enrollments.state, ["invited", "accepted"])));
+}
+
+/**
+ * Who the reviewer picker offers: active reviewers not yet assigned, less
+ * those who work at a lab taking part in the study, who are listed with why.
+ */
+export async function reviewerCandidates(study: Study) {
+  const assigned = db.select({ id: studyReviewers.userId }).from(studyReviewers).where(eq(studyReviewers.studyId, study.id));
+  const reviewers = await db
+    .select({ id: users.id, name: users.name, email: users.email })
+    .from(users)
+    .where(
+      and(
+        isNull(users.disabledAt),
+        notInArray(users.id, assigned),
+        holdsRole("reviewer"),
+      ),
+    )
+    .orderBy(asc(users.name));
+  const conflicts = await participatingLabsOf(study.id, reviewers.map((r) => r.id));
+  return {
+    offered: reviewers.filter((r) => !conflicts.some((c) => c.userId === r.id)),
+    leftOut: reviewers.flatMap((r) => conflicts.filter((c) => c.userId === r.id).map((c) => ({ ...r, labName: c.labName }))),
+  };
 }
 
 /** Everything the setup page shows. */

@@ -12,7 +12,7 @@ function coordinatedBy(user: SessionUser, kind: StudyKind | "any") {
   const coordinated = db.select({ id: studyCoordinators.studyId }).from(studyCoordinators).where(eq(studyCoordinators.userId, user.id));
   return and(
     kind === "any" ? undefined : eq(studies.kind, kind),
-    user.role === "admin" ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated)),
+    user.roles.includes("admin") ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated)),
   );
 }
 

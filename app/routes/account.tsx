@@ -23,7 +23,7 @@ import { noticePreferencesOf, saveNoticePreferences } from "~/models/notices.ser
 import { listColleagues, removeColleague } from "~/models/lab.server";
 import { listCoordinatedStudies, listLabEnrollments, listReviewedStudies } from "~/models/study.server";
 import { changePassword, updateName } from "~/models/user.server";
-import { inviteColleague } from "~/models/welcome.server";
+import { inviteColleague } from "~/models/password-link.server";
 import { recordAudit } from "~/server/audit.server";
 import { withRefusals } from "~/server/form-reply.server";
 import { requireLabMember, requireUser } from "~/server/guards.server";
@@ -34,15 +34,19 @@ export const meta: Route.MetaFunction = () => [{ title: "Account · Ringbatch" }
 
 /** What the user's tokens may be made for: their lab's enrollments (write results) and the studies they see (read). */
 async function tokenTargets(user: Awaited<ReturnType<typeof requireUser>>) {
-  const [labStudies, studies] = await Promise.all([
+  const coordinates = user.roles.includes("admin") || user.roles.includes("coordinator");
+  const [labStudies, reviewed, coordinated] = await Promise.all([
     listLabEnrollments(user.labIds),
-    user.role === "reviewer" ? listReviewedStudies(user.id) : user.role === "analyst" ? Promise.resolve([]) : listCoordinatedStudies(user, "any"),
+    user.roles.includes("reviewer") ? listReviewedStudies(user.id) : Promise.resolve([]),
+    coordinates ? listCoordinatedStudies(user, "any") : Promise.resolve([]),
   ]);
-  return [
+  const targets = [
     ...labStudies.map((e) => ({ value: `enrollment:${e.enrollmentId}`, label: `Write results: ${e.studyCode} (${e.labName})` })),
     ...labStudies.map((e) => ({ value: `study:${e.studyId}`, label: `Read: ${e.studyCode}` })),
-    ...studies.map((s) => ({ value: `study:${s.id}`, label: `Read: ${s.code}` })),
+    ...[...reviewed, ...coordinated].map((s) => ({ value: `study:${s.id}`, label: `Read: ${s.code}` })),
   ];
+  // Someone with several roles may reach one study two ways; offer it once.
+  return targets.filter((t, i) => targets.findIndex((other) => other.value === t.value) === i);
 }
 
 export async function loader({ request }: Route.LoaderArgs) {

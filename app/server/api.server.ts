@@ -100,7 +100,7 @@ export type ApiRepresentation = { body: string | Uint8Array<ArrayBuffer>; conten
  * caller's access to the study (or role), and a token's scope and target.
  */
 export function callerView(caller: ApiCaller & { access?: StudyAccess }) {
-  return [caller.access ?? caller.user.role, caller.token ? [caller.token.scope, caller.token.studyId, caller.token.enrollmentId] : "session"];
+  return [caller.access ?? caller.user.roles.join("+"), caller.token ? [caller.token.scope, caller.token.studyId, caller.token.enrollmentId] : "session"];
 }
 
 /** Private: answers differ per caller; no-cache: a stored answer is used only after the server confirms it. */

@@ -2,18 +2,56 @@
  * The product's messages, each built with composeEmail so every transport
  * sends exactly the same text. Callers pass absolute links (appUrl).
  */
+import type { Role } from "~/db/values";
 import { formatQuantity } from "~/lib/packing-list";
 import { composeEmail } from "~/server/email.server";
 
 type StudyRef = { code: string; title: string };
 
-export function invitationEmail(p: { to: string; contactName: string; labName: string; study: StudyRef; url: string; expiresOn: string }) {
+/** What a lab is asked to do, for the invitation: materials × replicates of each response. */
+export type InvitationWorkload = { materials: number; replicates: number; responses: string[] };
+
+export type InvitationDates = { enrollmentDeadline: string | null; shipDate: string | null; resultsDue: string | null };
+
+function plural(n: number, one: string, many: string) {
+  return `${n} ${n === 1 ? one : many}`;
+}
+
+/** "Materials ship on …; results are due on …", from whichever dates the study has. */
+function invitationDatesText(d: InvitationDates) {
+  const parts = [
+    d.enrollmentDeadline && `answer by ${d.enrollmentDeadline}`,
+    d.shipDate && `materials ship on ${d.shipDate}`,
+    d.resultsDue && `results are due on ${d.resultsDue}`,
+  ].filter(Boolean);
+  return parts.length ? `Dates: ${parts.join("; ")}.` : "The coordinator will tell you the testing dates.";
+}
+
+function workloadText(w: InvitationWorkload) {
+  const records = w.responses.length ? `; each test records ${w.responses.join(" and ")}` : "";
+  if (w.materials === 0) return `Workload: ${plural(w.replicates, "replicate", "replicates")} of each material${records}. The coordinator is still choosing the materials.`;
+  return `Workload: ${plural(w.materials, "material", "materials")} × ${plural(w.replicates, "replicate", "replicates")} = ${plural(w.materials * w.replicates, "test", "tests")}${records}.`;
+}
+
+export function invitationEmail(p: {
+  to: string;
+  contactName: string;
+  labName: string;
+  study: StudyRef & InvitationDates;
+  workload: InvitationWorkload;
+  coordinator: { name: string; email: string };
+  url: string;
+  expiresOn: string;
+}) {
   return composeEmail({
     to: p.to,
     subject: `Invitation to interlaboratory study ${p.study.code}`,
     greeting: `Dear ${p.contactName || "lab contact"},`,
     paragraphs: [
       `${p.labName} is invited to take part in ${p.study.code}, "${p.study.title}".`,
+      invitationDatesText(p.study),
+      workloadText(p.workload),
+      `Coordinator: ${p.coordinator.name}, ${p.coordinator.email}. Write to them with any question about the study.`,
       "Open the link to accept or decline. If you have no Ringbatch account yet, you set your password there.",
       `The link works once and expires on ${p.expiresOn}. Do not forward it: whoever opens it acts for your lab.`,
     ],
@@ -99,6 +137,37 @@ export function colleagueWelcomeEmail(p: { to: string; name: string; labName: st
       `The link works once and expires on ${p.expiresOn}.`,
     ],
     action: { label: "Set your password", url: p.url },
+  });
+}
+
+const ROLE_WORDS: Record<Role, string> = { admin: "an administrator", coordinator: "a study coordinator", analyst: "a lab analyst", reviewer: "a committee reviewer" };
+
+export function accountWelcomeEmail(p: { to: string; name: string; roles: readonly Role[]; addedBy: string; url: string; expiresOn: string }) {
+  const roles = p.roles.map((r) => ROLE_WORDS[r]);
+  return composeEmail({
+    to: p.to,
+    subject: "Your Ringbatch account",
+    greeting: `Dear ${p.name},`,
+    paragraphs: [
+      `${p.addedBy} made you a Ringbatch account as ${roles.join(" and ")}.`,
+      "Open the link to set your password; you then sign in with this e-mail address and that password.",
+      `The link works once and expires on ${p.expiresOn}.`,
+    ],
+    action: { label: "Set your password", url: p.url },
+  });
+}
+
+export function passwordResetEmail(p: { to: string; name: string; url: string; expiresAt: string }) {
+  return composeEmail({
+    to: p.to,
+    subject: "Set a new Ringbatch password",
+    greeting: `Dear ${p.name},`,
+    paragraphs: [
+      "Someone (we hope you) asked to set a new password for your Ringbatch account.",
+      `The link works once, for 30 minutes (until ${p.expiresAt}). Setting a new password signs you out everywhere else.`,
+      "If you did not ask, ignore this message: your password stays as it is.",
+    ],
+    action: { label: "Set a new password", url: p.url },
   });
 }
 

@@ -40,7 +40,7 @@ export async function requireUser(request: Request): Promise<SessionUser> {
 
 export async function requireRole(request: Request, ...roles: Role[]): Promise<SessionUser> {
   const user = await requireUser(request);
-  if (!roles.includes(user.role)) notFound();
+  if (!roles.some((role) => user.roles.includes(role))) notFound();
   return user;
 }
 
@@ -50,7 +50,7 @@ export type StudyAccess = "admin" | "coordinator" | "reviewer" | "analyst";
 export async function studyAccessFor(user: SessionUser, studyId: number) {
   const study = await db.query.studies.findFirst({ where: eq(studies.id, studyId) });
   if (!study) return null;
-  if (user.role === "admin") return { study, access: "admin" as const, enrollment: null };
+  if (user.roles.includes("admin")) return { study, access: "admin" as const, enrollment: null };
   const coordinates =
     study.ownerId === user.id ||
     (await db.query.studyCoordinators.findFirst({

@@ -15,6 +15,14 @@ export const ADDRESS_SIGN_IN_FAILURES: RateLimit = { bucket: "sign-in-address", 
 /** Unknown invitation and first-password links per address: guessing tokens is slowed down. */
 export const LINK_MISSES: RateLimit = { bucket: "link", max: 20, windowMs: 15 * 60 * 1000 };
 
+/**
+ * "Forgot your password?" requests: per address, like failed sign-ins, so one
+ * address cannot mail many accounts; per account, so no one's mailbox is
+ * flooded (past it the page answers the same, and nothing is sent).
+ */
+export const ADDRESS_RESET_REQUESTS: RateLimit = { bucket: "reset-address", max: 10, windowMs: 15 * 60 * 1000 };
+export const ACCOUNT_RESET_REQUESTS: RateLimit = { bucket: "reset-account", max: 3, windowMs: 15 * 60 * 1000 };
+
 /** API requests per caller per minute (`API_RATE_LIMIT_PER_MINUTE` overrides the maximum). */
 export const API_REQUESTS: RateLimit = { bucket: "api", max: 600, windowMs: 60_000 };
 

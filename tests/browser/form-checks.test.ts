@@ -46,12 +46,11 @@ describe("forms check their input in the browser with the server's schema", () =
     await page.waitForURL(`${running.server.url}/admin/users`);
     const counter = countPosts(page);
 
-    await page.getByLabel("E-mail").fill("new.analyst@ringbatch.example");
+    await page.getByLabel("E-mail", { exact: true }).fill("new.analyst at ringbatch");
     await page.getByLabel("Name", { exact: true }).fill("New Analyst");
-    await page.getByLabel("First password").fill("short");
     await page.getByRole("button", { name: "Create account" }).click();
     await expect.poll(() => page.locator("[aria-invalid=true]").count()).toBe(1);
-    expect(await page.getByLabel("First password").getAttribute("aria-invalid")).toBe("true");
+    expect(await page.getByLabel("E-mail", { exact: true }).getAttribute("aria-invalid")).toBe("true");
     expect(counter.posts).toBe(0);
     await expectAccessible(page);
 

@@ -97,12 +97,15 @@ describe("account page", () => {
 describe("admin pages", () => {
   it("creates an account, with a message beside each bad field", async () => {
     const admin = await demoCookie("admin@ringbatch.example");
-    const bad = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "x", name: "", role: "wizard", password: "short", labId: "" }, admin));
+    const bad = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "x", name: "", roles: "wizard", labId: "" }, admin));
     expect(bad.status).toBe(400);
-    expect(Object.keys(errorsOf(bad)).sort()).toEqual(["email", "name", "password", "role"]);
-    const noLab = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "new@lab.example", name: "New Analyst", role: "analyst", password: "long-enough-pw", labId: "" }, admin));
+    expect(Object.keys(errorsOf(bad)).sort()).toEqual(["email", "name", "roles[0]"]);
+    const noRole = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "new@lab.example", name: "New Analyst", labId: "" }, admin));
+    expect(errorsOf(noRole).roles).toBe("Choose at least one role.");
+    const noLab = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "new@lab.example", name: "New Analyst", roles: "analyst", labId: "" }, admin));
     expect(errorsOf(noLab).labId).toMatch(/choose one/);
-    const ok = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "coord2@ringbatch.example", name: "Second Coordinator", role: "coordinator", password: "long-enough-pw", labId: "" }, admin));
+    expect(valuesOf(noLab).email).toBe("new@lab.example");
+    const ok = await call(adminUsers.action, post("/admin/users", { intent: "create", email: "coord2@ringbatch.example", name: "Second Coordinator", roles: "coordinator", labId: "" }, admin));
     expect(await toastOf(ok)).toMatch(/created/);
   });
 
@@ -120,10 +123,10 @@ describe("admin pages", () => {
   it("adds a lab to the directory and refuses a duplicate name", async () => {
     const admin = await demoCookie("admin@ringbatch.example");
     const lab = { name: "Norrow Field Lab", address: "1 Test Road", contactName: "", contactEmail: "", accreditationNumber: "" };
-    expect(await toastOf(await call(adminLabs.action, post("/admin/labs", lab, admin)))).toMatch(/Norrow/);
-    const again = await call(adminLabs.action, post("/admin/labs", lab, admin));
+    expect(await toastOf(await call(adminLabs.action, post("/admin/labs", { intent: "save", ...lab }, admin)))).toMatch(/Norrow/);
+    const again = await call(adminLabs.action, post("/admin/labs", { intent: "save", ...lab }, admin));
     expect(errorsOf(again).name).toBe("A lab with this name already exists.");
-    const badEmail = await call(adminLabs.action, post("/admin/labs", { ...lab, name: "Other", contactEmail: "nope" }, admin));
+    const badEmail = await call(adminLabs.action, post("/admin/labs", { intent: "save", ...lab, name: "Other", contactEmail: "nope" }, admin));
     expect(errorsOf(badEmail).contactEmail).toMatch(/e-mail/);
   });
 
@@ -132,7 +135,7 @@ describe("admin pages", () => {
     const norrow = (await db.query.labs.findFirst({ where: eq(labs.name, "Norrow Field Lab") }))!;
     const page = await call(adminLabs.loader, get(`/admin/labs?edit=${norrow.id}`, admin));
     expect(page.data.editing.name).toBe("Norrow Field Lab");
-    const entry = { labId: String(norrow.id), name: "Norrow Field Lab", address: "1 Test Road", contactName: "Ada Quill", contactEmail: "ada@norrow.example", accreditationNumber: "QA-0001" };
+    const entry = { intent: "save", labId: String(norrow.id), name: "Norrow Field Lab", address: "1 Test Road", contactName: "Ada Quill", contactEmail: "ada@norrow.example", accreditationNumber: "QA-0001" };
     const saved = await call(adminLabs.action, post("/admin/labs", entry, admin));
     expect(await toastOf(saved)).toBe("Norrow Field Lab saved.");
     expect((await db.query.labs.findFirst({ where: eq(labs.id, norrow.id) }))!.contactEmail).toBe("ada@norrow.example");

@@ -42,9 +42,18 @@ afterEach(() => {
 
 afterAll(() => new Promise<void>((resolve) => server.close(() => resolve())));
 
-const study = { code: "FF-2027-X", title: "Finishability check" };
+const study = { code: "FF-2027-X", title: "Finishability check", enrollmentDeadline: "2027-02-20", shipDate: "2027-03-10", resultsDue: "2027-04-15" };
 const invitation = () =>
-  invitationEmail({ to: "contact@lab.example", contactName: "Ada Quell", labName: "Quell Lab", study, url: "http://app.example/invite/abc?study=1", expiresOn: "2027-03-01" });
+  invitationEmail({
+    to: "contact@lab.example",
+    contactName: "Ada Quell",
+    labName: "Quell Lab",
+    study,
+    workload: { materials: 3, replicates: 2, responses: ["Holes"] },
+    coordinator: { name: "Ivo Brandt", email: "ivo@ringbatch.example" },
+    url: "http://app.example/invite/abc?study=1",
+    expiresOn: "2027-03-01",
+  });
 
 describe("e-mail through the provider (resend SDK against a local stand-in)", () => {
   it("posts the composed message with the key and records the provider's id", async () => {
@@ -83,7 +92,7 @@ describe("e-mail through the local fake transport", () => {
     expect(received).toHaveLength(0);
     const stored = await db.query.emailOutbox.findFirst({ where: eq(emailOutbox.id, row.id) });
     expect(stored).toMatchObject({ ...message, transport: "fake" });
-    const admin = { id: 0, email: "admin@ringbatch.example", name: "Admin", role: "admin" as const, labIds: [], contactLabIds: [] };
+    const admin = { id: 0, email: "admin@ringbatch.example", name: "Admin", role: "admin" as const, roles: ["admin" as const], labIds: [], contactLabIds: [] };
     const listed = (await listMessages(admin)).map((m) => m.id);
     expect(listed).toContain(row.id);
     // Messages that went to the provider (the tests above) are not part of the local mailbox.

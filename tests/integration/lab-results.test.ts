@@ -156,7 +156,7 @@ describe("scope: a lab sees only its own enrollment", () => {
   it("answers 404 to an analyst on pages of a study their lab is not in, and to a coordinator on the lab pages", async () => {
     const outsider = await db.insert(labs).values({ name: "Unenrolled Test Lab" }).returning();
     const { createUser } = await import("~/models/user.server");
-    await createUser({ email: "outsider@ringbatch.example", name: "Outsider", password: "outsider-password-1", role: "analyst", labId: outsider[0]!.id });
+    await createUser({ email: "outsider@ringbatch.example", name: "Outsider", password: "outsider-password-1", roles: ["analyst"], labId: outsider[0]!.id });
     const cookie = await demoCookie("outsider@ringbatch.example");
     expect((await call(labStudy.loader, get(`/lab/studies/${studyId}`, cookie), { studyId })).status).toBe(404);
     expect((await call(entry.loader, get("/", cookie), { studyId, materialId: f1 })).status).toBe(404);

@@ -39,6 +39,8 @@ export const EXPECTED: Record<string, Partial<Record<Method, Record<Persona, num
   "invite/:token": { GET: row(404, 404, 404, 404, 404, 404, 404, 404), POST: row(404, 404, 404, 404, 404, 404, 404, 404) },
   "welcome/:token": { GET: row(404, 404, 404, 404, 404, 404, 404, 404), POST: row(404, 404, 404, 404, 404, 404, 404, 404) },
   "setup/:token": { GET: row(404, 404, 404, 404, 404, 404, 404, 404), POST: row(404, 404, 404, 404, 404, 404, 404, 404) },
+  "forgot-password": { GET: row(200, 302, 302, 302, 302, 302, 302, 302), POST: row(400, 400, 400, 400, 400, 400, 400, 400) },
+  "reset-password/:token": { GET: row(404, 404, 404, 404, 404, 404, 404, 404), POST: row(404, 404, 404, 404, 404, 404, 404, 404) },
   "dev/mailbox": { GET: row(302, 200, 200, 200, 404, 404, 404, 404) },
   "dev/mailbox/:messageId": { GET: row(302, 200, 200, 404, 404, 404, 404, 404) },
   "lab": { GET: row(302, 404, 404, 404, 200, 200, 404, 404) },

@@ -253,6 +253,8 @@ function attempt(write: Write, f: Fixture): { action: (args: never) => unknown; 
       return setup({ intent: "transition", to: "cancelled" });
     case "labs: invite a lab":
       return { action: labsPage.action, path: `${studyPath}/labs`, as: people.coordinator, fields: { intent: "invite", labId: String(people.spareLab) } };
+    case "labs: invite a lab from outside the directory":
+      return { action: labsPage.action, path: `${studyPath}/labs`, as: people.coordinator, fields: { intent: "invite-outside", labName: `Saltmarsh Test Lab ${studyPath}`, contactName: "Ada Saltmarsh", contactEmail: `ada${studyPath.replace(/\D/g, "")}@saltmarsh.example` } };
     case "labs: withdraw a lab":
       return { action: labsPage.action, path: `${studyPath}/labs`, as: people.coordinator, fields: { intent: "withdraw", enrollmentId: String(f.enrollmentId), reason: "The lab's curing room failed." } };
     case "shipments: create":

@@ -66,11 +66,12 @@ export function get(path: string, cookie?: string) {
   return new Request(ORIGIN + path, { headers: cookie ? { Cookie: cookie } : {} });
 }
 
-export function post(path: string, fields: Record<string, string>, cookie?: string) {
+/** A form post; a list value is sent as the same field repeated (ticked boxes). */
+export function post(path: string, fields: Record<string, string | string[]>, cookie?: string) {
   return new Request(ORIGIN + path, {
     method: "POST",
     headers: { "Content-Type": "application/x-www-form-urlencoded", Origin: ORIGIN, ...(cookie ? { Cookie: cookie } : {}) },
-    body: new URLSearchParams(fields),
+    body: new URLSearchParams(Object.entries(fields).flatMap(([name, value]) => (Array.isArray(value) ? value : [value]).map((v) => [name, v]))),
   });
 }
 

@@ -1,15 +1,19 @@
-import { getFormProps } from "@conform-to/react";
+import { type FieldMetadata, getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { data, Form, useNavigation } from "react-router";
+import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/users";
-import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, replyAbout, useSchemaForm } from "~/components/forms";
+import { Pager } from "~/components/pager";
 import { Badge, Button, Card, Field, PageHeader, SelectField, SimpleTable } from "~/components/ui";
-import { ROLES } from "~/db/values";
-import { FieldRefusal } from "~/lib/field-refusal";
-import { adminUserSchema, createUserSchema, disableUserSchema, updateUserSchema } from "~/lib/account-forms";
+import { type Role, ROLES } from "~/db/values";
+import { adminUserSchema, createUserSchema, disableUserSchema, updateUserSchema, userFilterSchema } from "~/lib/account-forms";
+import { requestedPage } from "~/lib/paging";
+import { wholeNumberParam } from "~/lib/query-params";
 import { listLabs } from "~/models/lab.server";
-import { createUser, listUsersWithLabs, setDisabled, setLabMembership, setRole } from "~/models/user.server";
+import { createAccountWithWelcome } from "~/models/password-link.server";
+import { AccountError, findUsers, setDisabled, updateAccount } from "~/models/user.server";
 import { recordAudit } from "~/server/audit.server";
+import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRole } from "~/server/guards.server";
 import { endAllSessions } from "~/server/session.server";
 import { redirectWithToast } from "~/server/toast.server";
@@ -17,154 +21,232 @@ import { redirectWithToast } from "~/server/toast.server";
 export const meta: Route.MetaFunction = () => [{ title: "Users · Ringbatch" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  await requireRole(request, "admin");
-  const [users, labs] = await Promise.all([listUsersWithLabs(), listLabs()]);
-  return { users, labs: labs.map((l) => ({ id: l.id, name: l.name })) };
+  const admin = await requireRole(request, "admin");
+  const params = new URL(request.url).searchParams;
+  const filter = userFilterSchema.parse({ q: params.get("q") ?? "", role: params.get("role") || null, lab: wholeNumberParam(params, "lab") });
+  const [users, labs] = await Promise.all([findUsers({ search: filter.q, role: filter.role, labId: filter.lab }, requestedPage(params)), listLabs()]);
+  return { users, filter, adminId: admin.id, labs: labs.map((l) => ({ id: l.id, name: l.name })) };
 }
 
 export async function action({ request }: Route.ActionArgs) {
   const admin = await requireRole(request, "admin");
   const submission = parseWithZod(await request.formData(), { schema: adminUserSchema });
-  // A first password typed for someone else is never sent back into the page.
-  const refusal = (fieldErrors?: Record<string, string[]>) => data({ result: submission.reply({ hideFields: ["password"], ...(fieldErrors && { fieldErrors }) }) }, { status: 400 });
-  if (submission.status !== "success") return refusal();
+  if (submission.status !== "success") return refuse(submission);
   const input = submission.value;
-  switch (input.intent) {
-    case "create": {
-      if (input.role === "analyst" && !input.labId) return refusal({ labId: ["An analyst belongs to a lab: choose one."] });
-      let user: Awaited<ReturnType<typeof createUser>>;
-      try {
-        user = await createUser({ ...input, isContact: input.isContact === "on" });
-      } catch (error) {
-        if (error instanceof FieldRefusal) return refusal({ [error.field]: [error.message] });
-        throw error;
+  // Back to the same filtered page the administrator was on.
+  const back = `/admin/users${new URL(request.url).search}`;
+  const outcome = await withRefusals(submission, async () => {
+    switch (input.intent) {
+      case "create": {
+        if (input.roles.includes("analyst") && !input.labId) throw new AccountError("labId", "An analyst belongs to a lab: choose one.");
+        const user = await createAccountWithWelcome({ ...input, isContact: input.isContact === "on" }, admin, request);
+        return `Account for ${user.email} created; a link to set the password is on its way.`;
       }
-      await recordAudit({ actorUserId: admin.id, action: "user_created", entityType: "user", entityId: user.id, after: { email: user.email, role: user.role } });
-      return redirectWithToast("/admin/users", `Account for ${user.email} created.`);
+      case "update": {
+        const change = { userId: input.userId, roles: input.roles, labId: input.labId, isContact: input.isContact === "on" };
+        await updateAccount(change, admin.id);
+        await recordAudit({ actorUserId: admin.id, action: "user_updated", entityType: "user", entityId: input.userId, after: change });
+        return "Account updated.";
+      }
+      case "disable": {
+        const disabled = input.disabled === "true";
+        await setDisabled(input.userId, disabled, admin.id);
+        if (disabled) await endAllSessions(input.userId);
+        await recordAudit({ actorUserId: admin.id, action: disabled ? "user_disabled" : "user_enabled", entityType: "user", entityId: input.userId });
+        return disabled ? "Account disabled; its sessions have ended." : "Account enabled.";
+      }
     }
-    case "update": {
-      const { intent: _intent, ...change } = input;
-      await setRole(change.userId, change.role);
-      await setLabMembership(change.userId, change.labId, change.isContact === "on");
-      await recordAudit({ actorUserId: admin.id, action: "user_updated", entityType: "user", entityId: change.userId, after: change });
-      return redirectWithToast("/admin/users", "Account updated.");
-    }
-    case "disable": {
-      if (input.userId === admin.id) return refusal({ form: ["You cannot disable your own account."] });
-      const disabled = input.disabled === "true";
-      await setDisabled(input.userId, disabled);
-      if (disabled) await endAllSessions(input.userId);
-      await recordAudit({ actorUserId: admin.id, action: disabled ? "user_disabled" : "user_enabled", entityType: "user", entityId: input.userId });
-      return redirectWithToast("/admin/users", disabled ? "Account disabled; its sessions have ended." : "Account enabled.");
-    }
-  }
+  });
+  if (!outcome.ok) return outcome.reply;
+  return redirectWithToast(back, outcome.value);
 }
 
-const ROLE_OPTIONS = ROLES.map((r) => ({ value: r, label: r[0]!.toUpperCase() + r.slice(1) }));
+const ROLE_NAME: Record<Role, string> = { admin: "Administrator", coordinator: "Coordinator", analyst: "Analyst", reviewer: "Reviewer" };
 
-type ActionData = Route.ComponentProps["actionData"];
+type LoaderData = Route.ComponentProps["loaderData"];
+type UserRow = LoaderData["users"]["rows"][number];
 type LabOption = { value: string; label: string };
 
-/** The reply, if it answers the form of this account. */
-function replyFor(actionData: ActionData, intent: string, userId: number) {
-  const initial = actionData?.result?.initialValue;
-  return initial?.intent === intent && initial.userId === String(userId) ? actionData : undefined;
-}
-
 export default function AdminUsers({ loaderData, actionData }: Route.ComponentProps) {
-  const { users, labs } = loaderData;
+  const { users, labs, filter, adminId } = loaderData;
   const busy = useNavigation().state === "submitting";
-  const [form, fields] = useSchemaForm(createUserSchema, { reply: actionData, intent: "create", defaultValue: { role: "analyst" } });
+  const [form, fields] = useSchemaForm(createUserSchema, { reply: actionData, intent: "create", defaultValue: { roles: ["analyst"] } });
   const labOptions: LabOption[] = [{ value: "", label: "No lab" }, ...labs.map((l) => ({ value: String(l.id), label: l.name }))];
+  const filtered = filter.q !== "" || filter.role !== null || filter.lab !== null;
   return (
     <>
       <PageHeader title="Users" subtitle="Accounts, roles and lab membership." />
-      <Card title="New account" className="my-6">
-        <Form method="post" className="grid gap-4 md:grid-cols-3" {...getFormProps(form)}>
+      <Card title="Find accounts" className="my-6">
+        <Form method="get" className="grid items-end gap-4 md:grid-cols-4">
+          <Field label="Name or e-mail contains" name="q" type="search" defaultValue={filter.q} />
+          <SelectField label="Role" name="role" defaultValue={filter.role ?? ""} options={[{ value: "", label: "Any role" }, ...ROLES.map((r) => ({ value: r, label: ROLE_NAME[r] }))]} />
+          <SelectField label="Lab" name="lab" defaultValue={filter.lab ? String(filter.lab) : ""} options={[{ value: "", label: "Any lab" }, ...labOptions.slice(1)]} />
+          <div className="flex items-center gap-4 pb-1">
+            <Button type="submit" variant="secondary">
+              Search
+            </Button>
+            {filtered && (
+              <Link to="/admin/users" className="font-semibold text-basalt-700 underline">
+                Show all
+              </Link>
+            )}
+          </div>
+        </Form>
+      </Card>
+      <Card title="New account" className="mb-6">
+        {/* A new account (one more in the count) starts the form afresh. */}
+        <Form method="post" className="grid gap-4 md:grid-cols-3" key={users.total} {...getFormProps(form)}>
           <input type="hidden" name="intent" value="create" />
           <FormErrors errors={formWideErrors(form)} />
           <Field label="E-mail" type="email" {...fieldProps(fields.email)} />
           <Field label="Name" {...fieldProps(fields.name)} />
-          <SelectField label="Role" options={ROLE_OPTIONS} {...fieldProps(fields.role)} />
-          <Field label="First password" type="password" autoComplete="new-password" hint="At least 12 characters." {...fieldProps(fields.password)} />
           <SelectField label="Lab" options={labOptions} {...fieldProps(fields.labId)} />
+          <RoleChoices legend="Roles" field={fields.roles} idPrefix="new" />
           <label className="flex items-center gap-2 self-end pb-3 font-semibold">
             <input type="checkbox" name={fields.isContact.name} className="h-5 w-5" defaultChecked={fields.isContact.initialValue === "on"} /> Lab contact
           </label>
+          <p className="text-basalt-700 md:col-span-3">The person gets an e-mail with a link to set their own password; the link works once, for 14 days.</p>
           <div className="md:col-span-3">
-            <Button type="submit" disabled={busy}>Create account</Button>
+            <Button type="submit" disabled={busy}>
+              Create account
+            </Button>
           </div>
         </Form>
       </Card>
       <Card title="Accounts">
+        <p className="mb-3">
+          {users.total} {users.total === 1 ? "account" : "accounts"}
+          {filtered ? " match" : ""}.
+        </p>
         <SimpleTable
-          caption="All accounts"
-          headers={["Name", "E-mail", "Role and lab", "Status"]}
-          rows={users.map((u) => [
-            u.name,
+          caption={filtered ? "Accounts matching the search" : "All accounts"}
+          headers={["Name", "E-mail", "Roles and lab", "Status"]}
+          rows={users.rows.map((u) => [
+            <span key="name">
+              {u.name}
+              {!u.hasPassword && <span className="block text-sm text-basalt-700">Password not set yet</span>}
+            </span>,
             u.email,
-            <UpdateUserForm key="update" user={u} labOptions={labOptions} reply={replyFor(actionData, "update", u.id)} />,
-            <DisableUserForm key="disable" user={u} reply={replyFor(actionData, "disable", u.id)} />,
+            <UpdateUserForm key="update" user={u} own={u.id === adminId} labOptions={labOptions} reply={replyAbout(actionData, "userId", u.id)} />,
+            <AccountStatus key="status" user={u} own={u.id === adminId} reply={replyAbout(actionData, "userId", u.id)} />,
           ])}
         />
+        <Pager page={users.page} pageCount={users.pageCount} label="Pages of accounts" />
       </Card>
     </>
   );
 }
 
-type UserRow = Route.ComponentProps["loaderData"]["users"][number];
+/**
+ * One box per role. A role that may not be taken away here (an administrator's
+ * own, the last administrator's) is shown ticked and fixed, with why, and still
+ * sent with the form.
+ */
+function RoleChoices({
+  legend,
+  field,
+  idPrefix,
+  fixed,
+  inRow = false,
+}: {
+  legend: string;
+  field: FieldMetadata<unknown>;
+  idPrefix: string;
+  fixed?: { role: Role; why: string };
+  /** In a table row the legend is read out but not shown: the row already names the account. */
+  inRow?: boolean;
+}) {
+  const initial = ([] as unknown[]).concat(field.initialValue ?? []);
+  return (
+    <fieldset className={`flex flex-wrap items-center gap-x-4 gap-y-1 ${inRow ? "" : "md:col-span-2"}`} aria-describedby={field.errors ? `${idPrefix}-roles-error` : undefined}>
+      <legend className={inRow ? "sr-only" : "mb-1 font-semibold"}>{legend}</legend>
+      {ROLES.map((role) => {
+        const locked = fixed?.role === role;
+        return (
+          <label key={role} className="flex min-h-11 items-center gap-1">
+            <input
+              type="checkbox"
+              name={locked ? undefined : field.name}
+              value={role}
+              defaultChecked={locked || initial.includes(role)}
+              disabled={locked}
+              className="h-5 w-5"
+            />
+            {locked && <input type="hidden" name={field.name} value={role} />}
+            {ROLE_NAME[role]}
+          </label>
+        );
+      })}
+      {fixed && <span className="w-full text-sm text-basalt-700">{fixed.why}</span>}
+      {field.errors && (
+        <span id={`${idPrefix}-roles-error`} className="w-full font-semibold text-signal-700">
+          {field.errors[0]}
+        </span>
+      )}
+    </fieldset>
+  );
+}
 
-function UpdateUserForm({ user, labOptions, reply }: { user: UserRow; labOptions: LabOption[]; reply: ActionData }) {
+/** Why the administrator role of this row cannot be taken away here, if it cannot. */
+function fixedAdminRole(user: UserRow, own: boolean) {
+  if (!user.roles.includes("admin")) return undefined;
+  if (own) return { role: "admin" as const, why: "Your own administrator role stays: another administrator can change it." };
+  if (user.onlyAdmin) return { role: "admin" as const, why: "The only administrator keeps the role until there is another." };
+  return undefined;
+}
+
+function UpdateUserForm({ user, own, labOptions, reply }: { user: UserRow; own: boolean; labOptions: LabOption[]; reply: unknown }) {
   const [form, fields] = useSchemaForm(updateUserSchema, {
     reply,
+    intent: "update",
     id: `update-user-${user.id}`,
-    defaultValue: { role: user.role, labId: user.labIds[0] ? String(user.labIds[0]) : "", isContact: user.isContact ? "on" : undefined },
+    defaultValue: { roles: user.roles, labId: user.labIds[0] ? String(user.labIds[0]) : "", isContact: user.isContact ? "on" : undefined },
   });
   return (
-    <Form method="post" className="flex flex-wrap items-end gap-2" {...getFormProps(form)}>
+    <Form method="post" className="flex flex-col gap-2" {...getFormProps(form)}>
       <input type="hidden" name="intent" value="update" />
       <input type="hidden" name="userId" value={user.id} />
       <FormErrors errors={formWideErrors(form)} />
-      <CompactSelect label={`Role of ${user.email}`} id={`role-${user.id}`} name={fields.role.name} defaultValue={fields.role.initialValue as string} options={ROLE_OPTIONS} />
-      <CompactSelect label={`Lab of ${user.email}`} id={`lab-${user.id}`} name={fields.labId.name} defaultValue={(fields.labId.initialValue as string) ?? ""} options={labOptions} />
-      <label className="flex items-center gap-1">
-        <input type="checkbox" name={fields.isContact.name} defaultChecked={fields.isContact.initialValue === "on"} className="h-5 w-5" /> Contact
-      </label>
-      <Button type="submit" variant="secondary" aria-label={`Save role and lab of ${user.email}`}>Save</Button>
+      <RoleChoices legend={`Roles of ${user.email}`} field={fields.roles} idPrefix={`user-${user.id}`} fixed={fixedAdminRole(user, own)} inRow />
+      <div className="flex flex-wrap items-end gap-2">
+        <label className="sr-only" htmlFor={`lab-${user.id}`}>
+          Lab of {user.email}
+        </label>
+        <select id={`lab-${user.id}`} name={fields.labId.name} defaultValue={(fields.labId.initialValue as string) ?? ""} className="min-h-11 rounded-md border border-basalt-200 px-2">
+          {labOptions.map((o) => (
+            <option key={o.value} value={o.value}>
+              {o.label}
+            </option>
+          ))}
+        </select>
+        <label className="flex min-h-11 items-center gap-1">
+          <input type="checkbox" name={fields.isContact.name} defaultChecked={fields.isContact.initialValue === "on"} className="h-5 w-5" /> Contact
+        </label>
+        <Button type="submit" variant="secondary" aria-label={`Save roles and lab of ${user.email}`}>
+          Save
+        </Button>
+      </div>
+      {fields.labId.errors && <span className="font-semibold text-signal-700">{fields.labId.errors[0]}</span>}
     </Form>
   );
 }
 
-function DisableUserForm({ user, reply }: { user: UserRow; reply: ActionData }) {
-  const [form] = useSchemaForm(disableUserSchema, { reply, id: `disable-user-${user.id}` });
+/** Active or disabled, with the one action that will be accepted: none on your own row or the last administrator's. */
+function AccountStatus({ user, own, reply }: { user: UserRow; own: boolean; reply: unknown }) {
+  const [form] = useSchemaForm(disableUserSchema, { reply, intent: "disable", id: `disable-user-${user.id}` });
+  const badge = user.disabled ? <Badge tone="signal">Disabled</Badge> : <Badge tone="leaf">Active</Badge>;
+  if (own) return <span className="flex flex-wrap items-center gap-2">{badge} Your account</span>;
+  if (user.onlyAdmin && !user.disabled) return <span className="flex flex-wrap items-center gap-2">{badge} The only administrator</span>;
   return (
     <Form method="post" className="flex flex-wrap items-center gap-2" {...getFormProps(form)}>
       <input type="hidden" name="intent" value="disable" />
       <input type="hidden" name="userId" value={user.id} />
       <input type="hidden" name="disabled" value={user.disabled ? "false" : "true"} />
-      {user.disabled ? <Badge tone="signal">Disabled</Badge> : <Badge tone="leaf">Active</Badge>}
+      {badge}
       <Button type="submit" variant="secondary" aria-label={`${user.disabled ? "Enable" : "Disable"} ${user.email}`}>
         {user.disabled ? "Enable" : "Disable"}
       </Button>
       <FormErrors errors={formWideErrors(form)} />
     </Form>
-  );
-}
-
-/** A select inside a table row, its label read out but not shown. */
-function CompactSelect({ label, id, name, defaultValue, options }: { label: string; id: string; name: string; defaultValue: string; options: LabOption[] }) {
-  return (
-    <>
-      <label className="sr-only" htmlFor={id}>
-        {label}
-      </label>
-      <select id={id} name={name} defaultValue={defaultValue} className="min-h-11 rounded-md border border-basalt-200 px-2">
-        {options.map((o) => (
-          <option key={o.value} value={o.value}>
-            {o.label}
-          </option>
-        ))}
-      </select>
-    </>
   );
 }

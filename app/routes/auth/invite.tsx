@@ -41,11 +41,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       studyTitle: found.study.title,
       testMethod: found.study.testMethod,
       resultsDue: found.study.resultsDue,
+      shipDate: found.study.shipDate,
       labName: found.lab.name,
+      joinsDirectory: found.lab.listing === "invited",
       email: found.invitation.email,
       needsPassword: !found.account?.hasPassword,
       signedInAs: user?.email ?? null,
-      signInLink: `/login?redirectTo=${encodeURIComponent(new URL(request.url).pathname + new URL(request.url).search)}`,
+      signInLink: `/login?${new URLSearchParams({ redirectTo: new URL(request.url).pathname + new URL(request.url).search, email: found.invitation.email })}`,
     },
   };
 }
@@ -98,8 +100,10 @@ export default function Invitation({ loaderData, actionData }: Route.ComponentPr
       <h1 className="text-2xl font-bold">Invitation to {inv.studyCode}</h1>
       <p>
         <span className="font-semibold">{inv.labName}</span> is invited to take part in “{inv.studyTitle}” ({inv.testMethod})
+        {inv.shipDate && <>, materials ship {formatDate(inv.shipDate)}</>}
         {inv.resultsDue && <>, results due {formatDate(inv.resultsDue)}</>}. This invitation is for {inv.email}.
       </p>
+      {inv.joinsDirectory && <p>Accepting adds {inv.labName} to the Ringbatch lab directory, with you as its contact.</p>}
       <Card title="Accept">
         {inv.needsPassword ? (
           <NewAccountForm email={inv.email} actionData={actionData} busy={busy} />

@@ -1,6 +1,6 @@
 import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { data, Form, redirect, useNavigation, useSearchParams } from "react-router";
+import { data, Form, Link, redirect, useNavigation, useSearchParams } from "react-router";
 import type { Route } from "./+types/login";
 import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
 import { Button, Card, Field } from "~/components/ui";
@@ -35,7 +35,9 @@ export default function Login({ actionData }: Route.ComponentProps) {
   const navigation = useNavigation();
   const [searchParams] = useSearchParams();
   const redirectTo = searchParams.get("redirectTo");
-  const [form, fields] = useSchemaForm(signInSchema, { reply: actionData, id: "sign-in" });
+  // An invitation's link brings the invited address along (`?email=`).
+  const invitedEmail = searchParams.get("email") ?? undefined;
+  const [form, fields] = useSchemaForm(signInSchema, { reply: actionData, id: "sign-in", defaultValue: { email: invitedEmail } });
   return (
     <div className="mx-auto max-w-md">
       <h1 className="mb-2 text-2xl font-bold">Sign in</h1>
@@ -58,6 +60,11 @@ export default function Login({ actionData }: Route.ComponentProps) {
           </Button>
         </Form>
       </Card>
+      <p className="mt-4">
+        <Link to={invitedEmail ? `/forgot-password?email=${encodeURIComponent(invitedEmail)}` : "/forgot-password"} className="font-semibold text-basalt-700 underline">
+          Forgot your password?
+        </Link>
+      </p>
     </div>
   );
 }

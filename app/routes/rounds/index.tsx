@@ -11,7 +11,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Proficiency rounds · R
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, "coordinator", "admin");
-  return { rounds: await listRounds(user), canCreate: user.role === "coordinator" };
+  return { rounds: await listRounds(user), canCreate: user.roles.includes("coordinator") };
 }
 
 export default function Rounds({ loaderData }: Route.ComponentProps) {

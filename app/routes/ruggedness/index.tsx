@@ -10,7 +10,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Ruggedness studies · R
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, "coordinator", "admin");
-  return { studies: await listRuggednessStudies(user), canCreate: user.role === "coordinator" };
+  return { studies: await listRuggednessStudies(user), canCreate: user.roles.includes("coordinator") };
 }
 
 export default function RuggednessStudies({ loaderData }: Route.ComponentProps) {

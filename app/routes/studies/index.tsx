@@ -14,7 +14,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Studies · Ringbatch" }
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, "coordinator", "admin");
   const { rows, ...page } = await coordinatedStudiesPage(user, requestedPage(new URL(request.url).searchParams));
-  return { studies: rows, page, everyStudy: user.role === "admin" };
+  return { studies: rows, page, everyStudy: user.roles.includes("admin") };
 }
 
 export default function Studies({ loaderData }: Route.ComponentProps) {

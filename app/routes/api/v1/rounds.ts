@@ -9,7 +9,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   return apiHandler(async () => {
     const { user, token } = await requireApiCaller(request);
     const visible =
-      user.role === "admin"
+      user.roles.includes("admin")
         ? undefined
         : or(
             eq(studies.ownerId, user.id),

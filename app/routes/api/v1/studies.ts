@@ -16,7 +16,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     const { user, token } = caller;
     const columns = { id: studies.id, code: studies.code, title: studies.title, kind: studies.kind, state: studies.state };
     const visible =
-      user.role === "admin"
+      user.roles.includes("admin")
         ? undefined
         : or(
             eq(studies.ownerId, user.id),

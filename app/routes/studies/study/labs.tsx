@@ -6,7 +6,7 @@ import { DataTable } from "~/components/data-table";
 import { fieldProps, FormErrors, formWideErrors, refusalOf, useSchemaForm } from "~/components/forms";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Button, Card, Notice, SelectField, TextAreaField } from "~/components/ui";
+import { Badge, Button, Card, Field, Notice, SelectField, TextAreaField } from "~/components/ui";
 import { formatDate } from "~/lib/format";
 import { ENROLLMENT_STATE } from "~/lib/state-labels";
 import { labsForms, labsSchema } from "~/lib/study-forms";
@@ -14,7 +14,7 @@ import { RECOMMENDED_MIN_LABS } from "~/lib/study-lifecycle";
 import { mayWrite } from "~/lib/write-rules";
 import { ConfirmStep } from "~/components/confirm-dialog";
 import { studyPageMeta } from "~/lib/study-page-meta";
-import { inviteLab, listStudyEnrollments, withdrawEnrollment } from "~/models/invitation.server";
+import { inviteLab, inviteOutsideLab, listStudyEnrollments, withdrawEnrollment } from "~/models/invitation.server";
 import { listLabs } from "~/models/lab.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
@@ -28,7 +28,9 @@ export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireStudy(context, ["coordinator", "admin"]);
   const [directory, enrolled] = await Promise.all([listLabs(), listStudyEnrollments(study.id)]);
   const byLab = new Map(enrolled.map((e) => [e.labId, e]));
-  const rows = directory.map((lab) => {
+  // Labs invited from outside the directory are listed too, until their contact answers.
+  const outside = enrolled.filter((e) => !directory.some((lab) => lab.id === e.labId)).map((e) => e.lab);
+  const rows = [...directory, ...outside].map((lab) => {
     const e = byLab.get(lab.id);
     return {
       ...lab,
@@ -56,6 +58,10 @@ export async function action({ request, context }: Route.ActionArgs) {
     if (form.intent === "invite") {
       await inviteLab(study, form.labId, user.id, request);
       return "Invitation sent to the lab's contact.";
+    }
+    if (form.intent === "invite-outside") {
+      const { lab } = await inviteOutsideLab(study, form, user.id, request);
+      return `Invitation sent to ${lab.contactEmail}. ${lab.name} joins the lab directory when it accepts.`;
     }
     await withdrawEnrollment(study, form.enrollmentId, form.reason, user.id);
     return "The lab is withdrawn: it can no longer change results, and its results have left the analysis.";
@@ -85,7 +91,21 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
           filterLabel="Filter labs"
           data={rows}
           columns={[
-            { id: "name", header: "Lab", value: (l) => l.name },
+            {
+              id: "name",
+              header: "Lab",
+              value: (l) => l.name,
+              cell: (l) => (
+                <>
+                  {l.name}
+                  {l.listing === "invited" && (
+                    <span className="block">
+                      <Badge>Not in the directory yet</Badge>
+                    </span>
+                  )}
+                </>
+              ),
+            },
             { id: "address", header: "Address", value: (l) => l.address || null },
             {
               id: "contact",
@@ -135,6 +155,16 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
           ]}
         />
       </Card>
+      {canInvite && (
+        <Card title="Invite a lab that is not in the directory">
+          <p className="mb-4">
+            The invitation goes to the contact's e-mail address. When the contact accepts, they set their password and the lab joins the directory; an
+            administrator checks it is not a lab already listed under another name.
+          </p>
+          {/* A new row after a sent invitation starts the form afresh. */}
+          <OutsideLabForm key={rows.length} reply={actionData} busy={busy} />
+        </Card>
+      )}
       {canWithdraw && withdrawable.length > 0 && (
         <Card title="Withdraw a lab">
           <p className="mb-4">
@@ -145,6 +175,24 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
         </Card>
       )}
     </div>
+  );
+}
+
+function OutsideLabForm({ reply, busy }: { reply: unknown; busy: boolean }) {
+  const [form, fields] = useSchemaForm(labsForms.inviteOutside, { reply, intent: "invite-outside" });
+  return (
+    <Form method="post" className="grid gap-4 md:grid-cols-3" {...getFormProps(form)}>
+      <input type="hidden" name="intent" value="invite-outside" />
+      <FormErrors errors={formWideErrors(form)} />
+      <Field label="Lab name" autoComplete="organization" {...fieldProps(fields.labName)} />
+      <Field label="Contact name" autoComplete="off" {...fieldProps(fields.contactName)} />
+      <Field label="Contact e-mail" type="email" autoComplete="off" {...fieldProps(fields.contactEmail)} />
+      <div className="md:col-span-3">
+        <Button type="submit" disabled={busy}>
+          Send the invitation
+        </Button>
+      </div>
+    </Form>
   );
 }
 

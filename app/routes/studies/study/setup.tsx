@@ -26,6 +26,7 @@ import {
   addPerson,
   addResponse,
   loadSetup,
+  reviewerCandidates,
   removeMaterial,
   removePerson,
   removeResponse,
@@ -50,11 +51,11 @@ const OWNER_ONLY = new Set(["coordinator-add", "reviewer-add", "coordinator-remo
 export async function loader({ request, context }: Route.LoaderArgs) {
   const { study, user, access } = requireStudy(context, ["coordinator", "admin", "reviewer"]);
   const planner = access === "reviewer" ? null : await plannerView(user, new URL(request.url).searchParams, study);
-  const setup = await loadSetup(study);
+  const [setup, reviewerChoice] = await Promise.all([loadSetup(study), study.ownerId === user.id ? reviewerCandidates(study) : null]);
   const moves = await Promise.all(
     allowedNextStates(study.state, "setup").map(async (to) => ({ to, ...(await previewTransition(study, to)) })),
   );
-  return { study, setup, moves: access === "coordinator" ? moves : [], canEdit: access === "coordinator", isOwner: study.ownerId === user.id, planner };
+  return { study, setup, moves: access === "coordinator" ? moves : [], canEdit: access === "coordinator", isOwner: study.ownerId === user.id, planner, reviewerChoice };
 }
 
 /** A refused protocol upload, in the same shape as a refused form, beside the file field. */
@@ -153,7 +154,7 @@ const MOVE_LABEL: Partial<Record<StudyState, string>> = {
 };
 
 export default function StudySetup({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, setup, moves, canEdit, isOwner } = loaderData;
+  const { study, setup, moves, canEdit, isOwner, reviewerChoice } = loaderData;
   const busy = useNavigation().state === "submitting";
   const editable = canEdit && mayWrite("design", study.state);
   const designFixed = canEdit && !editable ? writeRefusal("design", study.state) : null;
@@ -293,6 +294,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
           title="Committee reviewers"
           kind="reviewer"
           people={setup.reviewers.map((p) => ({ ...p, owner: false }))}
+          candidates={reviewerChoice}
           canChange={isOwner && mayWrite("reviewers", study.state)}
           fixedBecause={isOwner ? writeRefusal("reviewers", study.state) : null}
           reply={actionData}
@@ -490,9 +492,12 @@ function PeopleCard({
   fixedBecause,
   reply,
   busy,
+  candidates,
 }: FormArgs & {
   title: string;
   kind: "coordinator" | "reviewer";
+  /** Whom the e-mail field suggests, and who is left out and why (reviewers of a participating lab). */
+  candidates?: { offered: { email: string; name: string }[]; leftOut: { email: string; name: string; labName: string }[] } | null;
   people: { id: number; name: string; email: string; owner: boolean }[];
   canChange: boolean;
   /** Why the list cannot change in the study's state (~/lib/write-rules), shown instead of the controls. */
@@ -525,11 +530,34 @@ function PeopleCard({
       {canChange && (
         <Form method="post" className="flex flex-wrap items-end gap-3" {...getFormProps(form)}>
           <input type="hidden" name="intent" value={`${kind}-add`} />
-          <Field label={`Add ${kind === "coordinator" ? "co-coordinator" : "reviewer"} by e-mail`} type="email" {...fieldProps(fields.email)} />
+          <Field
+            label={`Add ${kind === "coordinator" ? "co-coordinator" : "reviewer"} by e-mail`}
+            type="email"
+            list={candidates ? `${kind}-candidates` : undefined}
+            {...fieldProps(fields.email)}
+          />
+          {candidates && (
+            <datalist id={`${kind}-candidates`}>
+              {candidates.offered.map((c) => (
+                <option key={c.email} value={c.email}>
+                  {c.name}
+                </option>
+              ))}
+            </datalist>
+          )}
           <Button type="submit" disabled={busy}>
             Add
           </Button>
         </Form>
+      )}
+      {canChange && candidates && candidates.leftOut.length > 0 && (
+        <ul className="mt-3 text-sm text-basalt-700">
+          {candidates.leftOut.map((c) => (
+            <li key={c.email}>
+              Not offered: {c.name} works at a participating lab ({c.labName}).
+            </li>
+          ))}
+        </ul>
       )}
     </Card>
   );
