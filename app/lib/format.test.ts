@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { formatDate, formatDateTime, todayIso } from "./format";
+import { countOf, formatDate, formatDateTime, formatFixed, todayIso } from "./format";
 
 // ISO 8601 calendar dates (YYYY-MM-DD) and 24-hour times: the reference is the standard's own notation.
 describe("dates on screen", () => {
@@ -21,5 +21,24 @@ describe("dates on screen", () => {
 
   it("knows today's UTC date", () => {
     expect(todayIso(new Date("2026-02-28T23:59:59Z"))).toBe("2026-02-28");
+  });
+});
+
+describe("numbers and counts", () => {
+  it("never writes a negative zero (IEEE 754 keeps the sign of zero; a reader should not see it)", () => {
+    expect(formatFixed(-0.04, 1)).toBe("0.0");
+    expect(formatFixed(-0, 2)).toBe("0.00");
+    expect(formatFixed(-0.4, 0)).toBe("0");
+    expect(formatFixed(-0.05, 1)).toBe("-0.1");
+    expect(formatFixed(-1.25, 2)).toBe("-1.25");
+    expect(formatFixed(0.04, 1)).toBe("0.0");
+  });
+
+  it("puts the noun in the plural unless the count is one", () => {
+    expect(countOf(1, "row")).toBe("1 row");
+    expect(countOf(0, "row")).toBe("0 rows");
+    expect(countOf(3, "decimal place")).toBe("3 decimal places");
+    expect(countOf(1, "decimal place")).toBe("1 decimal place");
+    expect(countOf(2, "analysis", "analyses")).toBe("2 analyses");
   });
 });

@@ -29,3 +29,17 @@ export function formatDateTime(when: When | null | undefined): string {
 export function todayIso(now: Date = new Date()): string {
   return dateParts.format(now);
 }
+
+/**
+ * A number with fixed decimals that never reads "-0.0": a value that rounds
+ * to zero is zero, whatever its sign.
+ */
+export function formatFixed(value: number, decimals: number): string {
+  const text = value.toFixed(decimals);
+  return /^-0(\.0*)?$/.test(text) ? text.slice(1) : text;
+}
+
+/** "1 row", "3 rows": a count with its noun, plural when the count is not one (irregular plurals passed in). */
+export function countOf(count: number, singular: string, plural = `${singular}s`): string {
+  return `${count} ${count === 1 ? singular : plural}`;
+}

@@ -13,6 +13,7 @@ import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, Field, Notice, SimpleTable, TextAreaField } from "~/components/ui";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
+import { blindingRefusals } from "~/lib/blinding";
 import { formatDate, formatDateTime } from "~/lib/format";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { refuse, withRefusals } from "~/server/form-reply.server";
@@ -29,6 +30,7 @@ import { studyAnalysis, withdrawnLabCodes } from "~/models/analysis.server";
 import { listStudyQueries, raiseQuery } from "~/models/coordinator-queries.server";
 import { cellEvidence, decisionHistory, listCellDecisions, saveCellDecision } from "~/models/decisions.server";
 import { studyDesign } from "~/models/statement.server";
+import { studyIdentities } from "~/models/blinding.server";
 
 export const handle = { pageTitle: "Analysis" } satisfies StudyPageHandle;
 
@@ -99,6 +101,10 @@ export async function action({ request, context }: Route.ActionArgs) {
   const submission = parseWithZod(await request.formData(), { schema: analysisSchema });
   if (submission.status !== "success") return refuse(submission);
   const form = submission.value;
+  // The committee reads reasons and queries word for word: refuse any that would unblind a lab.
+  const texts: Record<string, string> = form.intent === "ask" ? { question: form.question, statistic: form.statistic } : { reason: form.reason };
+  const unblinding = blindingRefusals(texts, await studyIdentities(study.id));
+  if (unblinding) return refuse(submission, unblinding);
   // A refusal here is a conflict with the study's state or data (409), shown above the form.
   const outcome = await withRefusals(
     submission,

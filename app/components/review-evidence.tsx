@@ -1,0 +1,116 @@
+/**
+ * The evidence a committee reviewer weighs before voting, blinded: every cell
+ * decision with its reason, and one material at a time every lab's replicate
+ * values, cell statistics and findings with their critical values.
+ */
+import { Link } from "react-router";
+import type { ResponseInfo } from "~/components/precision-tables";
+import { StateBadge } from "~/components/state-badge";
+import { SimpleTable } from "~/components/ui";
+import { formatDate } from "~/lib/format";
+import type { CellRecord, DecisionOnRecord, ResponseRecord } from "~/lib/review/evidence";
+import { figureDecimals, formatFigure } from "~/lib/review/format";
+import { CELL_DECISION } from "~/lib/state-labels";
+
+export function DecisionsOnRecord({ decisions }: { decisions: DecisionOnRecord[] }) {
+  return decisions.length === 0 ? (
+    <p>The coordinator has recorded no cell decision: every submitted cell is in the analysis.</p>
+  ) : (
+    <SimpleTable
+      caption="Cell decisions, retained and excluded, with their reasons"
+      headers={["Lab", "Material", "Response", "Decision", "Reason", "Decided"]}
+      rows={decisions.map((d) => [
+        <span key="lab" className="code">{d.lab}</span>,
+        <span key="material" className="code">{d.material}</span>,
+        d.response,
+        <StateBadge key="decision" view={CELL_DECISION[d.decision]} />,
+        d.reason,
+        <span key="at" className="code">{formatDate(d.decidedAt)}</span>,
+      ])}
+    />
+  );
+}
+
+export function MaterialPicker({ materials, selected }: { materials: { code: string; description: string }[]; selected: string }) {
+  return (
+    <nav aria-label="Materials" className="flex flex-wrap gap-2">
+      {materials.map((m) => (
+        <Link
+          key={m.code}
+          to={`?material=${encodeURIComponent(m.code)}`}
+          preventScrollReset
+          aria-current={m.code === selected ? "page" : undefined}
+          title={m.description}
+          className={`code inline-flex min-h-11 items-center rounded-md border px-3 font-semibold ${
+            m.code === selected ? "border-basalt-800 bg-basalt-800 text-white" : "border-basalt-200 bg-white text-basalt-800 underline"
+          }`}
+        >
+          {m.code}
+        </Link>
+      ))}
+    </nav>
+  );
+}
+
+function statisticsOf(cell: CellRecord, decimals: ReturnType<typeof figureDecimals>) {
+  if (!cell.stats) {
+    const why = cell.standing === "excluded" ? "left out of the analysis" : "not in the analysis (lab withdrawn)";
+    return [<span key="why" className="text-basalt-700">{why}</span>, "", "", "", ""];
+  }
+  const { mean, sd, h, k, findings } = cell.stats;
+  return [
+    formatFigure(mean, decimals.mean),
+    formatFigure(sd, decimals.sd),
+    formatFigure(h, decimals.ratio),
+    formatFigure(k, decimals.ratio),
+    findings.length === 0 ? "none" : (
+      <strong key="findings" className="text-signal-700">
+        <span aria-hidden="true">⚑ </span>
+        {findings.map((f) => f.text).join("; ")}
+      </strong>
+    ),
+  ];
+}
+
+export function MaterialEvidence({ material, records, responses }: { material: string; records: ResponseRecord[]; responses: ResponseInfo[] }) {
+  return (
+    <div className="flex flex-col gap-6">
+      {records.map((record) => {
+        const response = responses.find((r) => r.key === record.response)!;
+        const decimals = figureDecimals(response.decimals);
+        const { criteria } = record;
+        return (
+          <section key={record.response} aria-labelledby={`evidence-${record.response}`}>
+            <h3 id={`evidence-${record.response}`} className="mb-1 font-semibold text-basalt-800">
+              <span className="code">{material}</span> · {response.name}
+              {response.unit && <span className="font-normal text-basalt-700"> ({response.unit})</span>}
+            </h3>
+            <p className="mb-2 text-sm text-basalt-700">
+              {criteria === null
+                ? "No submitted results."
+                : criteria.hCritical !== null && criteria.kCritical !== null
+                  ? `${criteria.p} labs in the analysis. A lab is flagged when |h| > ${formatFigure(criteria.hCritical, 2)} or k > ${formatFigure(criteria.kCritical, 2)}.`
+                  : `Cell statistics only: ${criteria.notComputed.join("; ")}`}
+            </p>
+            <SimpleTable
+              caption={`Cells of ${material}, ${response.name}, by lab code`}
+              headers={["Lab", "Replicate results", "Cell average", "s", "h", "k", "Findings", "Decision"]}
+              rows={record.cells.map((cell) => [
+                <span key="lab" className="code font-semibold">{cell.lab}</span>,
+                cell.values.map((v) => formatFigure(v.value, response.decimals)).join(", "),
+                ...statisticsOf(cell, decimals),
+                cell.decision ? (
+                  <span key="decision">
+                    <StateBadge view={CELL_DECISION[cell.decision.decision]} /> {cell.decision.reason}
+                  </span>
+                ) : (
+                  "—"
+                ),
+              ])}
+            />
+          </section>
+        );
+      })}
+    </div>
+  );
+}
