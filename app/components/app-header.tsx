@@ -1,4 +1,4 @@
-import { Form, NavLink } from "react-router";
+import { Form, Link, NavLink, useLocation } from "react-router";
 import type { Role } from "~/db/schema";
 import { Wordmark } from "./wordmark";
 
@@ -41,8 +41,15 @@ const ROLE_LABEL: Record<Role, string> = {
 /** The local mailbox, while no real mail provider is set; its messages carry sign-in links. */
 const MAILBOX_LINK = { to: "/dev/mailbox", label: "Mailbox" };
 
+/** The one menu item for the page: the longest that leads to it, so "/studies/new" lights "New study" and not "Studies" as well. */
+function currentItem(pathname: string, items: { to: string }[]) {
+  const leading = items.filter((item) => pathname === item.to || pathname.startsWith(`${item.to}/`));
+  return leading.reduce<string | null>((best, item) => (best === null || item.to.length > best.length ? item.to : best), null);
+}
+
 export function AppHeader({ user, mailbox = false }: { user: HeaderUser | null; mailbox?: boolean }) {
   const nav = user ? [...NAV_BY_ROLE[user.role], ...TOOLKIT_NAV[user.role], ...(mailbox && (user.role === "admin" || user.role === "coordinator") ? [MAILBOX_LINK] : [])] : [];
+  const current = currentItem(useLocation().pathname, nav);
   return (
     <header className="no-print bg-basalt-800 text-white">
       <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
@@ -52,15 +59,14 @@ export function AppHeader({ user, mailbox = false }: { user: HeaderUser | null; 
         {user && (
           <nav aria-label="Main" className="flex flex-1 flex-wrap gap-1">
             {nav.map((item) => (
-              <NavLink
+              <Link
                 key={item.to}
                 to={item.to}
-                className={({ isActive }) =>
-                  `rounded px-3 py-1.5 font-semibold ${isActive ? "bg-basalt-700 text-ochre-300" : "text-basalt-100 hover:bg-basalt-700"}`
-                }
+                aria-current={item.to === current ? "page" : undefined}
+                className={`rounded px-3 py-1.5 font-semibold ${item.to === current ? "bg-basalt-700 text-ochre-300" : "text-basalt-100 hover:bg-basalt-700"}`}
               >
                 {item.label}
-              </NavLink>
+              </Link>
             ))}
           </nav>
         )}

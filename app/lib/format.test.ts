@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { countOf, formatDate, formatDateTime, formatFixed, todayIso } from "./format";
+import { countOf, formatDate, formatDateTime, formatFixed, formatSigned, readsAsOneWord, todayIso } from "./format";
 
 // ISO 8601 calendar dates (YYYY-MM-DD) and 24-hour times: the reference is the standard's own notation.
 describe("dates on screen", () => {
@@ -40,5 +40,24 @@ describe("numbers and counts", () => {
     expect(countOf(3, "decimal place")).toBe("3 decimal places");
     expect(countOf(1, "decimal place")).toBe("1 decimal place");
     expect(countOf(2, "analysis", "analyses")).toBe("2 analyses");
+  });
+});
+
+describe("signed figures", () => {
+  it("writes the sign, with a true minus (U+2212), and none for a zero", () => {
+    expect(formatSigned(1.254, 2)).toBe("+1.25");
+    expect(formatSigned(-0.4, 2)).toBe("−0.40");
+    expect(formatSigned(-0.001, 2)).toBe("0.00");
+    expect(formatSigned(0, 1)).toBe("0.0");
+  });
+});
+
+describe("cells that read as one word", () => {
+  it("keeps codes, ISO dates and date-times whole, and lets sentences wrap", () => {
+    expect(readsAsOneWord("FF-2026-A")).toBe(true);
+    expect(readsAsOneWord("2026-09-04")).toBe(true);
+    expect(readsAsOneWord("2026-09-04 14:05 UTC")).toBe(true);
+    expect(readsAsOneWord("L07")).toBe(true);
+    expect(readsAsOneWord("Finishability of bridge-deck mixtures")).toBe(false);
   });
 });

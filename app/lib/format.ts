@@ -43,3 +43,18 @@ export function formatFixed(value: number, decimals: number): string {
 export function countOf(count: number, singular: string, plural = `${singular}s`): string {
   return `${count} ${count === 1 ? singular : plural}`;
 }
+
+/**
+ * Whether a table cell's text is one word that must not split: a code
+ * ("FF-2026-A", "L07"), an ISO date or a date and time. Longer text wraps as usual.
+ */
+export function readsAsOneWord(text: string): boolean {
+  return /^\d{4}-\d{2}-\d{2}( \d{2}:\d{2} UTC)?$/.test(text) || (!/\s/.test(text) && text.length <= 24);
+}
+
+/** A signed figure, "+1.25" or "−0.40" (a true minus sign), and "0.00" without a sign when it rounds to zero. */
+export function formatSigned(value: number, decimals: number): string {
+  const text = formatFixed(Math.abs(value), decimals);
+  if (Number(text) === 0) return text;
+  return `${value > 0 ? "+" : "−"}${text}`;
+}

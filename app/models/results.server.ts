@@ -10,6 +10,7 @@ import { amendments, auditEvents, batches, cells, enrollments, labs, materials, 
 import { recordAudit } from "~/server/audit.server";
 import { cellKey, type ResolvedRow, resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { cellStatusOf } from "~/lib/cell-status";
+import { countOf } from "~/lib/format";
 import { checkResultValue, outsidePlausibleRange } from "~/lib/results/values";
 import { enrollmentRefusal, writeRefusal } from "~/lib/write-rules";
 import { IMAGE_TYPES, storeUpload } from "~/server/uploads.server";
@@ -212,7 +213,7 @@ export async function importResults(enrollment: Enrollment, rows: ResultInputRow
         entityId: enrollment.id,
         studyId: enrollment.studyId,
         ...changeTrail(changes),
-        reason: fileName ? `CSV import of ${fileName} (${rows.length} rows)` : `CSV import (${rows.length} rows)`,
+        reason: `CSV import${fileName ? ` of ${fileName}` : ""} (${countOf(rows.length, "row")})`,
       },
       tx,
     );

@@ -2,7 +2,7 @@ import { Link } from "react-router";
 import type { Route } from "./+types/index";
 import { StateBadge } from "~/components/state-badge";
 import { Card, PageHeader, SimpleTable } from "~/components/ui";
-import { formatDate } from "~/lib/format";
+import { countOf, formatDate } from "~/lib/format";
 import { requireRole } from "~/server/guards.server";
 import { Pager } from "~/components/pager";
 import { requestedPage } from "~/lib/paging";
@@ -39,7 +39,7 @@ export default function LabHome({ loaderData }: Route.ComponentProps) {
             headers={["Study", "Lab", "Your lab code", "Study state", "Results submitted", "Results due"]}
             rows={loaderData.enrollments.map((e) => [
               <span key="s">
-                <Link to={`/lab/studies/${e.studyId}`} className="font-semibold text-basalt-700 underline">
+                <Link to={`/lab/studies/${e.studyId}`} className="keep-whole font-semibold text-basalt-700 underline">
                   {e.studyCode}
                 </Link>{" "}
                 — {e.studyTitle}
@@ -50,7 +50,7 @@ export default function LabHome({ loaderData }: Route.ComponentProps) {
                 <StateBadge view={STUDY_STATE[e.studyState]} />
                 {e.enrollmentState === "withdrawn" && <StateBadge view={{ ...ENROLLMENT_STATE.withdrawn, label: "Your lab withdrawn" }} />}
               </span>,
-              `${e.submittedCells} cells`,
+              countOf(e.submittedCells, "cell"),
               formatDate(e.resultsDue),
             ])}
           />

@@ -11,6 +11,7 @@ import { Button, Card, Notice, SimpleTable } from "~/components/ui";
 import { decodeCsvText, IMPORT_MAX_BYTES, OPTIONAL_COLUMNS, parseImportCsv, recordsToRows, REQUIRED_COLUMNS } from "~/lib/results/import-csv";
 import { resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { studyPageMeta } from "~/lib/study-page-meta";
+import { countOf } from "~/lib/format";
 import { importFrame, importResults, ResultsError } from "~/models/results.server";
 import { requireStudy } from "~/server/study-context.server";
 import { readUploadForm } from "~/server/upload-form.server";
@@ -162,7 +163,7 @@ export default function ImportResults({ loaderData, actionData }: Route.Componen
           )}
           <div>
             <Button type="submit" disabled={!study.editable || navigation.state !== "idle" || (parsed !== null && blocked)}>
-              {navigation.state === "submitting" ? "Importing…" : parsed ? `Import ${parsed.rows.length} rows` : "Import"}
+              {navigation.state === "submitting" ? "Importing…" : parsed ? `Import ${countOf(parsed.rows.length, "row")}` : "Import"}
             </Button>
           </div>
         </Form>
@@ -187,7 +188,7 @@ export default function ImportResults({ loaderData, actionData }: Route.Componen
       {parsed && preview && (
         <Card title="Preview">
           <p className="mb-3" role="status">
-            {parsed.rows.length} rows read;{" "}
+            {countOf(parsed.rows.length, "row")} read;{" "}
             {preview.problems.length === 0 && parsed.fileProblems.length === 0
               ? "no problems found."
               : `${preview.problems.length + parsed.fileProblems.length} with problems — fix the file and choose it again.`}
@@ -221,7 +222,7 @@ export default function ImportResults({ loaderData, actionData }: Route.Componen
           />
           {parsed.rows.length > PREVIEW_ROWS && (
             <p className="mt-2 text-basalt-700">
-              Showing {PREVIEW_ROWS} of {parsed.rows.length} rows.
+              Showing {PREVIEW_ROWS} of {countOf(parsed.rows.length, "row")}.
             </p>
           )}
         </Card>

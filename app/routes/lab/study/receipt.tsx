@@ -5,7 +5,8 @@ import type { Route } from "./+types/receipt";
 import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Button, Card, Field, Notice, TextAreaField } from "~/components/ui";
+import { Button, Card, Field, TextAreaField } from "~/components/ui";
+import { MaterialsCaution } from "~/components/cautions";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { formatDate, todayIso } from "~/lib/format";
 import { SHIPMENT_STATE } from "~/lib/state-labels";
@@ -61,7 +62,7 @@ export default function Receipt({ loaderData, actionData }: Route.ComponentProps
   const { shipments, today, correctable } = loaderData;
   return (
     <div className="flex flex-col gap-6">
-      <Notice tone="caution">Bags of cement and aggregate are heavy: lift with help. Cement is caustic when wet: gloves and eye protection.</Notice>
+      <MaterialsCaution packing={false} />
       {shipments.length === 0 && <p>No shipment has been sent to your lab yet.</p>}
       {shipments.map((s) => (
         <Card key={s.id} title={`Shipment ${s.shippedOn ? `of ${formatDate(s.shippedOn)}` : "being prepared"}`}>

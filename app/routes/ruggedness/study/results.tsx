@@ -13,9 +13,10 @@ import { refuse, withRefusals } from "~/server/form-reply.server";
 import { notFound } from "~/server/guards.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
 import { redirectWithToast } from "~/server/toast.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
 
 export const handle = { pageTitle: "Results" } satisfies StudyPageHandle;
-export const meta: Route.MetaFunction = () => [{ title: "Ruggedness results · Ringbatch" }];
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireRuggednessStudy(context, ["coordinator", "admin"]);

@@ -25,6 +25,7 @@ import { flaggedCells, flagStatistic, suggestedQuestion } from "~/lib/review/fla
 import { ALPHA_LABEL, figureDecimals, formatFigure } from "~/lib/review/format";
 import { writeRefusal } from "~/lib/write-rules";
 import { ConfirmStep } from "~/components/confirm-dialog";
+import { Caution } from "~/components/cautions";
 import { QUERY_STATE } from "~/lib/state-labels";
 import { studyAnalysis, withdrawnLabCodes } from "~/models/analysis.server";
 import { listStudyQueries, raiseQuery } from "~/models/coordinator-queries.server";
@@ -138,12 +139,11 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
     <>
       <div className="flex flex-col gap-6">
         <p className="text-basalt-700">Data version {study.dataVersion}.</p>
-        <Notice tone="caution">
-          <strong>Before leaving any result out:</strong> a flag only starts an investigation. Exclude a cell only when there is an assignable
-          cause (a batching, testing or recording fault the lab confirms) or a clear statistical justification, give that reason, and look at the
-          flags again after every exclusion — removing one cell changes the critical values and statistics of the others. These figures support the
-          committee's judgement; they do not replace it.
-        </Notice>
+        <Caution id="exclusion" summary="Before leaving any result out: a flag only starts an investigation">
+          Exclude a cell only when there is an assignable cause (a batching, testing or recording fault the lab confirms) or a clear statistical
+          justification, give that reason, and look at the flags again after every exclusion — removing one cell changes the critical values and
+          statistics of the others. These figures support the committee's judgement; they do not replace it.
+        </Caution>
         <DesignWarnings warnings={analysis.warnings} />
         {loaderData.withdrawn.length > 0 && (
           <Notice>

@@ -6,7 +6,8 @@ import { DataTable } from "~/components/data-table";
 import { fieldProps, FormErrors, formWideErrors, refusalOf, replyAbout, useSchemaForm } from "~/components/forms";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Badge, Button, Card, Field, Notice, SelectField, TextAreaField } from "~/components/ui";
+import { Badge, Button, Card, Field, SelectField, TextAreaField } from "~/components/ui";
+import { MaterialsCaution } from "~/components/cautions";
 import { formatDate, todayIso } from "~/lib/format";
 import { SHIPMENT_STATE } from "~/lib/state-labels";
 import { shipmentForms, shipmentsSchema } from "~/lib/study-forms";
@@ -65,7 +66,7 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
   const busy = useNavigation().state === "submitting";
   return (
     <div className="flex flex-col gap-6">
-      <Notice tone="caution">Bags of cement and aggregate are heavy: pack and lift them with help, and mark the weight on each box.</Notice>
+      <MaterialsCaution packing />
       {canEdit && (
         <Card title="Prepare a shipment">
           {labs.length === 0 ? (
