@@ -16,18 +16,21 @@ export function DecisionsOnRecord({ decisions }: { decisions: DecisionOnRecord[]
   return decisions.length === 0 ? (
     <p>The coordinator has recorded no cell decision: every submitted cell is in the analysis.</p>
   ) : (
-    <SimpleTable
-      caption="Cell decisions, retained and excluded, with their reasons"
-      headers={["Lab", "Material", "Response", "Decision", "Reason", "Decided"]}
-      rows={decisions.map((d) => [
-        <span key="lab" className="code">{d.lab}</span>,
-        <span key="material" className="code">{d.material}</span>,
-        d.response,
-        <StateBadge key="decision" view={CELL_DECISION[d.decision]} />,
-        d.reason,
-        <span key="at" className="code">{formatDate(d.decidedAt)}</span>,
-      ])}
-    />
+    // A list rather than a table: each reason reads as a paragraph, on a phone too.
+    <ul aria-label="Cell decisions, retained and excluded, with their reasons" className="flex flex-col gap-2">
+      {decisions.map((d) => (
+        <li key={`${d.lab}:${d.material}:${d.response}`} className="rounded border border-basalt-100 p-3">
+          <p className="flex flex-wrap items-center gap-x-2 font-semibold text-basalt-800">
+            <span>
+              Lab <span className="keep-whole">{d.lab}</span> · <span className="keep-whole">{d.material}</span> · {d.response}
+            </span>
+            <StateBadge view={CELL_DECISION[d.decision]} />
+            <span className="keep-whole text-sm font-normal text-basalt-700">decided {formatDate(d.decidedAt)}</span>
+          </p>
+          <p className="mt-1">{d.reason}</p>
+        </li>
+      ))}
+    </ul>
   );
 }
 
@@ -41,7 +44,7 @@ export function MaterialPicker({ materials, selected }: { materials: { code: str
           preventScrollReset
           aria-current={m.code === selected ? "page" : undefined}
           title={m.description}
-          className={`code inline-flex min-h-11 items-center rounded-md border px-3 font-semibold ${
+          className={`keep-whole inline-flex min-h-11 items-center rounded-md border px-3 font-semibold ${
             m.code === selected ? "border-basalt-800 bg-basalt-800 text-white" : "border-basalt-200 bg-white text-basalt-800 underline"
           }`}
         >
@@ -82,7 +85,7 @@ export function MaterialEvidence({ material, records, responses }: { material: s
         return (
           <section key={record.response} aria-labelledby={`evidence-${record.response}`}>
             <h3 id={`evidence-${record.response}`} className="mb-1 font-semibold text-basalt-800">
-              <span className="code">{material}</span> · {response.name}
+              <span className="keep-whole">{material}</span> · {response.name}
               {response.unit && <span className="font-normal text-basalt-700"> ({response.unit})</span>}
             </h3>
             <p className="mb-2 text-sm text-basalt-700">
@@ -96,16 +99,11 @@ export function MaterialEvidence({ material, records, responses }: { material: s
               caption={`Cells of ${material}, ${response.name}, by lab code`}
               headers={["Lab", "Replicate results", "Cell average", "s", "h", "k", "Findings", "Decision"]}
               rows={record.cells.map((cell) => [
-                <span key="lab" className="code font-semibold">{cell.lab}</span>,
+                <span key="lab" className="keep-whole font-semibold">{cell.lab}</span>,
                 cell.values.map((v) => formatFigure(v.value, response.decimals)).join(", "),
                 ...statisticsOf(cell, decimals),
-                cell.decision ? (
-                  <span key="decision">
-                    <StateBadge view={CELL_DECISION[cell.decision.decision]} /> {cell.decision.reason}
-                  </span>
-                ) : (
-                  "—"
-                ),
+                // The reason is in the list of decisions above, where it reads as a paragraph.
+                cell.decision ? <StateBadge key="decision" view={CELL_DECISION[cell.decision.decision]} /> : "—",
               ])}
             />
           </section>

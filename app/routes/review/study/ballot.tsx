@@ -16,7 +16,7 @@ import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { countOf, formatDate, formatDateTime } from "~/lib/format";
 import { withheldIdentities } from "~/lib/blinding";
 import { materialRecord } from "~/lib/review/evidence";
-import { OBJECTION_STAGE_TEXT, QUORUM_SENTENCE } from "~/lib/review/publication";
+import { OBJECTION_STAGE_TEXT, publicationCheck, QUORUM_SENTENCE } from "~/lib/review/publication";
 import { writeRefusal } from "~/lib/write-rules";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { STATEMENT_STATE, VOTE_CHOICE } from "~/lib/state-labels";
@@ -83,7 +83,8 @@ export async function loader({ request, context }: Route.LoaderArgs) {
       isChair,
       reviewers: publication.round.reviewerIds.length,
     },
-    tally: publication.check.tally,
+    // Once the round is closed, the tally of the votes this version received.
+    tally: publication.round ? publication.check.tally : publicationCheck([...new Set(roundVotes.map((v) => v.reviewerId))], roundVotes).tally,
     comments,
     refusal: statement?.state === "in_review" ? writeRefusal("review", study.state) : "The round is closed.",
   };
@@ -236,8 +237,8 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
                 What you are voting on
               </h3>
               <p className="mb-3">
-                Version {statement.version} of the precision statement of <span className="code">{loaderData.study.code}</span>, frozen{" "}
-                <span className="code">{formatDate(statement.frozenAt)}</span> from data version {statement.dataVersion}:{" "}
+                Version {statement.version} of the precision statement of <span className="keep-whole">{loaderData.study.code}</span>, frozen{" "}
+                <span className="keep-whole">{formatDate(statement.frozenAt)}</span> from data version {statement.dataVersion}:{" "}
                 {countOf(loaderData.decisions.filter((d) => d.decision === "excluded").length, "cell")} left out,{" "}
                 {countOf(loaderData.decisions.filter((d) => d.decision === "retained").length, "cell")} retained after investigation.
               </p>
