@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { countOf, formatDate, formatDateTime, formatFixed, formatSigned, readsAsOneWord, todayIso } from "./format";
+import { asSentence, countOf, formatDate, formatDateTime, formatFixed, formatSigned, readsAsOneWord, todayIso } from "./format";
 
 // ISO 8601 calendar dates (YYYY-MM-DD) and 24-hour times: the reference is the standard's own notation.
 describe("dates on screen", () => {
@@ -59,5 +59,14 @@ describe("cells that read as one word", () => {
     expect(readsAsOneWord("2026-09-04 14:05 UTC")).toBe(true);
     expect(readsAsOneWord("L07")).toBe(true);
     expect(readsAsOneWord("Finishability of bridge-deck mixtures")).toBe(false);
+  });
+});
+
+describe("sentences", () => {
+  it("adds a full stop only where the text has none", () => {
+    expect(asSentence("What prompted it: h = 2.5")).toBe("What prompted it: h = 2.5.");
+    expect(asSentence("What prompted it: h = 2.5. ")).toBe("What prompted it: h = 2.5.");
+    expect(asSentence("Is it right?")).toBe("Is it right?");
+    expect(asSentence("She said “yes.”")).toBe("She said “yes.”");
   });
 });

@@ -58,3 +58,9 @@ export function formatSigned(value: number, decimals: number): string {
   if (Number(text) === 0) return text;
   return `${value > 0 ? "+" : "−"}${text}`;
 }
+
+/** Text as a sentence: its own closing stop kept, one added only when it has none (never a doubled full stop). */
+export function asSentence(text: string): string {
+  const trimmed = text.trim();
+  return /[.!?…]["”’)]*$/.test(trimmed) ? trimmed : `${trimmed}.`;
+}

@@ -224,8 +224,7 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
               </h2>
               {own && (
                 <p className="mb-3">
-                  You voted <strong>{VOTE_CHOICE[own.choice].label.toLowerCase()}</strong>
-                  {own.reason && <> — “{own.reason}”</>}.
+                  You voted <strong>{VOTE_CHOICE[own.choice].label.toLowerCase()}</strong>.{own.reason && <> Your reason: “{own.reason}”</>}
                 </p>
               )}
               {own?.stage && <p className="mb-3 text-basalt-700">Your objection: {OBJECTION_STAGE_TEXT[own.stage]}.</p>}
