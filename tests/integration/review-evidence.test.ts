@@ -4,6 +4,7 @@ import { db } from "~/db/client.server";
 import { cellDecisions, cells, enrollments, materials, responses, users } from "~/db/schema";
 import * as reviewPage from "~/routes/review/study/ballot";
 import * as analysisPage from "~/routes/studies/study/analysis";
+import * as statementPage from "~/routes/studies/study/statement";
 import { DEMO_LABS, DEMO_PEOPLE } from "../../seed/demo-data";
 import { PUBLISHED_STUDY_CODE } from "../../seed/toolkit-demo";
 import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
@@ -124,5 +125,19 @@ describe("text that would unblind a lab", () => {
     const page = await reviewerPage(checking);
     expect(page.decisions.find((d: { lab: string }) => d.lab === "L02").reason).toBe("Checked with [withheld] by phone.");
     expectBlinded(page);
+  });
+});
+
+describe("a statement text that would unblind a lab", () => {
+  it("is refused beside the text, and the stored text stays as it was", async () => {
+    const statementPath = `/studies/${checking}/statement`;
+    const coordinatorDoes = (fields: Record<string, string>) => call(statementPage.action, post(statementPath, fields, coordinator), { studyId: checking });
+    expect((await coordinatorDoes({ intent: "freeze" })).status).toBe(302);
+    const { latest } = (await call(statementPage.loader, get(statementPath, coordinator), { studyId: checking })).data;
+    const refused = await coordinatorDoes({ intent: "save-text", statementId: String(latest.id), textE691: `${latest.textE691}\nThanks to ${DEMO_LABS[0].name}.`, textC670: latest.textC670 });
+    expect(refused.status).toBe(400);
+    expect(errorsOf(refused).textE691).toMatch(/Quarrow County Materials Lab/);
+    const after = (await call(statementPage.loader, get(statementPath, coordinator), { studyId: checking })).data.latest;
+    expect(after.textE691).toBe(latest.textE691);
   });
 });
