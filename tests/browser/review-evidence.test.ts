@@ -1,22 +1,11 @@
-import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
-import { DEMO_LABS, DEMO_PASSWORD, DEMO_PEOPLE } from "../../seed/demo-data";
-import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
+import { DEMO_LABS, DEMO_PEOPLE } from "../../seed/demo-data";
+import { demoVisitor, expectAccessible, useServerAndBrowser } from "../support/browser";
 
 const running = useServerAndBrowser();
 const STUDY = 1; // FF-2026-A, the seeded study in checking
 
-async function as(email: string) {
-  const page = await (await running.browser.newContext()).newPage();
-  await signInAs(page, running.server.url, email, DEMO_PASSWORD);
-  await page.waitForURL((url) => url.pathname !== "/login");
-  return page;
-}
-
-async function visit(page: Page, path: string) {
-  const response = await page.goto(running.server.url + path);
-  expect(response?.status(), path).toBe(200);
-}
+const { as, visit } = demoVisitor(running);
 
 describe("the committee's evidence, in the browser", () => {
   it("shows a reviewer the retained cell and its reason, the values by lab code, and the vote after the evidence", { timeout: 120_000 }, async () => {
