@@ -6,6 +6,7 @@
  */
 import { Notice, SimpleTable } from "~/components/ui";
 import type { ComputedGroup, ScreeningStep, StudyWarning } from "~/lib/precision";
+import { formatFixed } from "~/lib/format";
 
 export function DesignWarnings({ warnings }: { warnings: readonly StudyWarning[] | undefined }) {
   if (!warnings || warnings.length === 0) return null;
@@ -38,7 +39,7 @@ const OUTCOME_LABEL: Record<ScreeningStep["outcome"], string> = {
   "not-run": "not run",
 };
 
-const fixed = (x: number | null, digits: number) => (x === null ? "—" : x.toFixed(digits));
+const fixed = (x: number | null, digits: number) => (x === null ? "—" : formatFixed(x, digits));
 
 /** The ISO 5725-2 §7.3 screening of one group, in the order the practice runs it. */
 export function ScreeningSteps({ group }: { group: ComputedGroup }) {

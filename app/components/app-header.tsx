@@ -1,4 +1,4 @@
-import { Form, NavLink } from "react-router";
+import { Form, Link, NavLink, useLocation } from "react-router";
 import type { Role } from "~/db/schema";
 import { Wordmark } from "./wordmark";
 
@@ -45,17 +45,19 @@ type NavItem = { to: string; label: string };
 
 /** The main menu's links; on a phone they sit in a disclosure, which closes when one is followed. */
 function MainNav({ items, className }: { items: NavItem[]; className: string }) {
+  const current = currentItem(useLocation().pathname, items);
   return (
     <nav aria-label="Main" className={className}>
       {items.map((item) => (
-        <NavLink
+        <Link
           key={item.to}
           to={item.to}
+          aria-current={item.to === current ? "page" : undefined}
           onClick={(event) => event.currentTarget.closest("details")?.removeAttribute("open")}
-          className={({ isActive }) => `rounded px-3 py-2 font-semibold ${isActive ? "bg-basalt-700 text-ochre-300" : "text-basalt-100 hover:bg-basalt-700"}`}
+          className={`rounded px-3 py-2 font-semibold ${item.to === current ? "bg-basalt-700 text-ochre-300" : "text-basalt-100 hover:bg-basalt-700"}`}
         >
           {item.label}
-        </NavLink>
+        </Link>
       ))}
     </nav>
   );
@@ -85,6 +87,12 @@ function navOf(user: HeaderUser, mailbox: boolean) {
     ...(mailbox && user.roles.some((r) => r === "admin" || r === "coordinator") ? [MAILBOX_LINK] : []),
   ];
   return links.filter((link, i) => links.findIndex((other) => other.to === link.to) === i);
+}
+
+/** The one menu item for the page: the longest that leads to it, so "/studies/new" lights "New study" and not "Studies" as well. */
+function currentItem(pathname: string, items: { to: string }[]) {
+  const leading = items.filter((item) => pathname === item.to || pathname.startsWith(`${item.to}/`));
+  return leading.reduce<string | null>((best, item) => (best === null || item.to.length > best.length ? item.to : best), null);
 }
 
 export function AppHeader({ user, mailbox = false }: { user: HeaderUser | null; mailbox?: boolean }) {

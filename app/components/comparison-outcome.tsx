@@ -2,8 +2,9 @@
 import { acceptabilityVerdict, comparisonVerdict } from "~/lib/comparison";
 import type { ComparisonOutcome } from "~/models/comparison.server";
 import { Notice, SimpleTable } from "~/components/ui";
+import { formatFixed } from "~/lib/format";
 
-const two = (x: number) => x.toFixed(2);
+const two = (x: number) => formatFixed(x, 2);
 
 export function ComparisonOutcomeView({ outcome, unit }: { outcome: ComparisonOutcome; unit: string }) {
   const { comparison, reference, trial } = outcome;

@@ -17,6 +17,7 @@ import {
   useTable,
 } from "@tanstack/react-table";
 import { type ReactNode, useId, useMemo } from "react";
+import { oneWordCell } from "~/components/ui";
 
 const features = tableFeatures({
   rowSortingFeature,
@@ -134,7 +135,7 @@ export function DataTable<T extends RowData>({
               rows.map((row) => (
                 <tr key={row.id} className="border-b border-basalt-100">
                   {row.getAllCells().map((cell) => (
-                    <td key={cell.id} className="px-3 py-2 align-top">
+                    <td key={cell.id} className={`px-3 py-2 align-top ${oneWordCell(cell.getValue() as ReactNode) ? "keep-whole" : ""}`}>
                       <table.FlexRender cell={cell} />
                     </td>
                   ))}

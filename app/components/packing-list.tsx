@@ -1,4 +1,4 @@
-import { Notice, SimpleTable } from "~/components/ui";
+import { SimpleTable } from "~/components/ui";
 import { formatQuantity, type PackingItem } from "~/lib/packing-list";
 
 /** A shipment's items as a table: on the shipments page, the printed packing list and the lab's receipt page. */
@@ -22,15 +22,5 @@ export function PackingItemsTable({ caption, items, note }: { caption: string; i
       )}
       {note && <p className="mt-2 whitespace-pre-line">Note: {note}</p>}
     </>
-  );
-}
-
-/** The cautions for whoever packs, lifts or opens the boxes, shown once on each page about shipments. */
-export function HandlingCaution() {
-  return (
-    <Notice tone="caution">
-      Bags of cement and aggregate are heavy: lift with help and mark the weight on each box. Cement is caustic when wet: wear gloves and eye protection when
-      opening bags. Local codes, specifications and your safety officer govern.
-    </Notice>
   );
 }

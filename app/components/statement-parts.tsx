@@ -1,11 +1,14 @@
+import { Caution } from "~/components/cautions";
 import { SimpleTable } from "~/components/ui";
 
 export function StatementCaution() {
   return (
-    <p className="rounded-md border-l-4 border-ochre-600 bg-ochre-100 px-4 py-3 text-ochre-800">
-      A precision statement from Ringbatch supports, and does not replace, the procedures of the standards body and the judgement of licensed
-      engineers; local codes and specifications govern the acceptance of concrete.
-    </p>
+    <Caution id="statement" summary="A precision statement supports the committee; it does not replace it">
+      <p>
+        A precision statement from Ringbatch supports, and does not replace, the procedures of the standards body and the judgement of licensed
+        engineers; local codes and specifications govern the acceptance of concrete.
+      </p>
+    </Caution>
   );
 }
 

@@ -1,5 +1,6 @@
 /** Small shared building blocks, styled once so every page looks alike. */
 import type { ComponentProps, ReactNode } from "react";
+import { readsAsOneWord } from "~/lib/format";
 
 export function PageHeader({ title, subtitle, actions }: { title: string; subtitle?: ReactNode; actions?: ReactNode }) {
   return (
@@ -164,6 +165,9 @@ export function Badge({ children, tone = "neutral" }: { children: ReactNode; ton
   return <span className={`inline-block rounded px-2 py-0.5 text-sm font-semibold ${styles}`}>{children}</span>;
 }
 
+/** A cell that is a code, a date or a figure keeps to one line. */
+export const oneWordCell = (cell: ReactNode) => (typeof cell === "string" || typeof cell === "number") && readsAsOneWord(String(cell));
+
 /** A plain table with accessible headers; pages pass header labels and rows. */
 export function SimpleTable({ caption, headers, rows }: { caption: string; headers: string[]; rows: ReactNode[][] }) {
   return (
@@ -184,7 +188,7 @@ export function SimpleTable({ caption, headers, rows }: { caption: string; heade
           {rows.map((row, i) => (
             <tr key={i} className="border-b border-basalt-100">
               {row.map((cell, j) => (
-                <td key={j} className="px-3 py-2 align-top">
+                <td key={j} className={`px-3 py-2 align-top ${oneWordCell(cell) ? "keep-whole" : ""}`}>
                   {cell}
                 </td>
               ))}

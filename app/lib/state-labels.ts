@@ -63,5 +63,10 @@ export const CELL_STATUS: Record<CellStatus, StateView> = {
   queried: view("Queried", "signal"),
 };
 
+export const CELL_DECISION = {
+  retained: view("Retained", "leaf"),
+  excluded: view("Excluded", "signal"),
+} as const satisfies Record<string, StateView>;
+
 /** Kept for the many places that only need a study state's words. */
 export const STATE_LABEL = Object.fromEntries(Object.entries(STUDY_STATE).map(([state, v]) => [state, v.label])) as Record<StudyState, string>;

@@ -12,6 +12,7 @@ import type { CellRef } from "~/lib/review/cells";
 import { writeRefusal } from "~/lib/write-rules";
 import { findCellId } from "~/models/decisions.server";
 import { FieldRefusal } from "~/lib/field-refusal";
+import { asSentence } from "~/lib/format";
 
 
 /** A refusal of the whole form, shown above it. */
@@ -57,7 +58,7 @@ export async function raiseQuery(study: Study, actorUserId: number, input: Raise
         paragraphs: [
           `The coordinator of ${study.code} has a question about your lab's results for material ${input.material}, response ${input.response}.`,
           input.question,
-          ...(input.statistic ? [`What prompted it: ${input.statistic}.`] : []),
+          ...(input.statistic ? [asSentence(`What prompted it: ${input.statistic}`)] : []),
           ...(input.asksCorrection ? ["If a recording error is confirmed, you may amend this cell, with the reason, on its result entry page until the query is closed."] : []),
           "Nothing has been removed from the study; your answer helps decide whether the results stand.",
         ],

@@ -134,9 +134,8 @@ export async function decisionHistory(studyId: number) {
   }));
 }
 
-/** The replicate values and surface photos of each submitted cell, by lab code only, to show beside a flag. */
-/** The submitted results (and their surface photos) of one lab × material × response cell. */
-export async function cellEvidence(studyId: number, cell: { lab: string; material: string; response: string }) {
+/** Submitted results (and their surface photos) by lab code, of one material, narrowed to one lab and response when given. */
+async function submittedResults(studyId: number, where: { material: string; lab?: string; response?: string }) {
   const rows = await db
     .select({
       lab: enrollments.labCode,
@@ -155,11 +154,21 @@ export async function cellEvidence(studyId: number, cell: { lab: string; materia
       and(
         eq(enrollments.studyId, studyId),
         eq(cells.status, "submitted"),
-        eq(enrollments.labCode, cell.lab),
-        eq(materials.code, cell.material),
-        eq(responses.key, cell.response),
+        eq(materials.code, where.material),
+        where.lab === undefined ? undefined : eq(enrollments.labCode, where.lab),
+        where.response === undefined ? undefined : eq(responses.key, where.response),
       ),
     )
-    .orderBy(asc(results.replicate));
+    .orderBy(asc(enrollments.labCode), asc(responses.sortOrder), asc(results.replicate));
   return rows.map((r) => ({ ...r, lab: r.lab ?? "—" }));
+}
+
+/** The submitted results (and their surface photos) of one lab × material × response cell. */
+export function cellEvidence(studyId: number, cell: CellRef) {
+  return submittedResults(studyId, cell);
+}
+
+/** Every submitted replicate value of one material, by lab code only, as the committee reads them (no photos). */
+export async function submittedResultsOfMaterial(studyId: number, material: string) {
+  return (await submittedResults(studyId, { material })).map(({ photoFileId: _, ...r }) => r);
 }

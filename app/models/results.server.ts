@@ -12,6 +12,7 @@ import type { TemplateRow } from "~/lib/results/results-template";
 import { cellKey, type ResolvedRow, resolveResultRows, type ResultInputRow, type RowProblem } from "~/lib/results/rows";
 import { cellStatusOf } from "~/lib/cell-status";
 import { shownMaterial } from "~/lib/shown-material";
+import { countOf } from "~/lib/format";
 import { checkResultValue, outsidePlausibleRange } from "~/lib/results/values";
 import { PHOTO_MAX_BYTES } from "~/lib/results/entry-forms";
 import { enrollmentRefusal, writeRefusal } from "~/lib/write-rules";
@@ -317,7 +318,7 @@ export async function importResults(
           entityId: enrollment.id,
           studyId: enrollment.studyId,
           ...changeTrail(changes),
-          reason: fileName ? `Import of ${fileName} (${rows.length} rows)` : `Import (${rows.length} rows)`,
+          reason: `Import${fileName ? ` of ${fileName}` : ""} (${countOf(rows.length, "row")})`,
         },
         tx,
       );

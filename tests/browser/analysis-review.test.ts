@@ -1,24 +1,12 @@
 import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
-import { DEMO_LABS, DEMO_PASSWORD, DEMO_PEOPLE } from "../../seed/demo-data";
-import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
+import { DEMO_LABS, DEMO_PEOPLE } from "../../seed/demo-data";
+import { demoVisitor, expectAccessible, useServerAndBrowser } from "../support/browser";
 
 const running = useServerAndBrowser();
 const STUDY = 1; // FF-2026-A, the seeded study in checking
 
-
-async function as(email: string) {
-  const page = await (await running.browser.newContext()).newPage();
-  await signInAs(page, running.server.url, email, DEMO_PASSWORD);
-  await page.waitForURL((url) => url.pathname !== "/login");
-  return page;
-}
-
-async function visit(page: Page, path: string) {
-  const response = await page.goto(running.server.url + path);
-  expect(response?.status(), path).toBe(200);
-  await expectAccessible(page);
-}
+const { as, visit } = demoVisitor(running);
 
 const flaggedRow = (page: Page, lab: string, material: string, response: string) =>
   page.getByRole("table", { name: "Cells flagged by the consistency statistics or the outlier tests" }).getByRole("row").filter({ hasText: lab }).filter({ hasText: material }).filter({ hasText: response });

@@ -11,10 +11,10 @@ const decide = (fields: Record<string, string>) => call(analysisPage.action, pos
 
 describe("the committee before a statement is sent", () => {
   it("sees the current blinded figures, with the planted outlier flagged and no lab named", async () => {
-    const page = await call(reviewPage.loader, get(`/review/${round.studyId}`, round.reviewers[0]), { studyId: round.studyId });
+    const page = await call(reviewPage.loader, get(`/review/${round.studyId}?material=M2`, round.reviewers[0]), { studyId: round.studyId });
     expect(page.data.statement).toBeNull();
-    const m2surface = page.data.current.analysis.groups.find((g: { material: string; response: string }) => g.material === "M2" && g.response === "surface");
-    expect(m2surface.labs.find((l: { lab: string }) => l.lab === "L08").flags).toEqual(["h"]);
+    const m2surface = page.data.evidence.find((r: { response: string }) => r.response === "surface");
+    expect(m2surface.cells.find((c: { lab: string }) => c.lab === "L08").stats.flags).toEqual(["h"]);
     const text = JSON.stringify(page.data);
     for (const lab of DEMO_LABS) expect(text).not.toContain(lab.name);
   });

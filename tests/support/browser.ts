@@ -1,6 +1,7 @@
 import AxeBuilder from "@axe-core/playwright";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, expect } from "vitest";
+import { DEMO_PASSWORD } from "../../seed/demo-data";
 import { launchBrowser } from "./chromium";
 import { type RunningServer, startServer } from "./server";
 
@@ -31,4 +32,21 @@ export function useServerAndBrowser() {
     await running.server?.stop();
   });
   return running;
+}
+
+/** A page in a fresh browser context, signed in with a demo account, and a visit that checks the answer and accessibility. */
+export function demoVisitor(running: { server: RunningServer; browser: Browser }) {
+  return {
+    as: async (email: string) => {
+      const page = await (await running.browser.newContext()).newPage();
+      await signInAs(page, running.server.url, email, DEMO_PASSWORD);
+      await page.waitForURL((url) => url.pathname !== "/login");
+      return page;
+    },
+    visit: async (page: Page, path: string) => {
+      const response = await page.goto(running.server.url + path);
+      expect(response?.status(), path).toBe(200);
+      await expectAccessible(page);
+    },
+  };
 }

@@ -1,7 +1,8 @@
+import { formatFixed } from "~/lib/format";
 import type { AcceptabilityCheck } from "./acceptability";
 import type { MixtureComparison } from "./compare-mixtures";
 
-const one = (x: number) => x.toFixed(1);
+const one = (x: number) => formatFixed(x, 1);
 
 /**
  * The comparison in plain words: the observed difference, the smallest

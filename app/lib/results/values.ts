@@ -4,6 +4,7 @@
  * refuse the same values with the same words.
  */
 import { parsePlainNumber } from "~/lib/plain-number";
+import { countOf } from "~/lib/format";
 
 export type ResponseRule = {
   name: string;
@@ -47,7 +48,7 @@ export function checkResultValue(rule: ResponseRule, input: string | number | nu
   }
   if (outsidePlausibleRange(rule, value)) return { status: "ok", value, warning: `Unusual: outside the plausible ${plausibleRange(rule)}. Check it; submitting asks you to confirm it.` };
   if (rule.kind === "continuous" && decimalsOf(input) > rule.decimals) {
-    return { status: "ok", value, warning: `The study reports ${rule.name.toLowerCase()} to ${rule.decimals} decimal places.` };
+    return { status: "ok", value, warning: `The study reports ${rule.name.toLowerCase()} to ${countOf(rule.decimals, "decimal place")}.` };
   }
   return { status: "ok", value };
 }

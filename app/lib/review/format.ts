@@ -1,9 +1,10 @@
 /** How figures read on pages and in statement texts. */
+import { formatFixed } from "~/lib/format";
 
 /** A number with fixed decimals, or a dash when there is none. */
 export function formatFigure(value: number | null | undefined, decimals: number) {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
-  return value.toFixed(decimals);
+  return formatFixed(value, decimals);
 }
 
 /**

@@ -1,3 +1,4 @@
+import { formatSigned } from "~/lib/format";
 import type { EffectTest } from "./significance";
 
 export interface FactorSettings {
@@ -7,7 +8,7 @@ export interface FactorSettings {
   high: string;
 }
 
-const signed = (x: number) => `${x > 0 ? "+" : x < 0 ? "−" : ""}${Math.abs(x).toFixed(2)}`;
+const signed = (x: number) => formatSigned(x, 2);
 /** A setting with its unit, as the trade writes it: "20 min", "10°", "Operator A". */
 export function settingText(value: string, unit: string): string {
   if (!unit) return value;

@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/index";
 import { ListPage } from "~/components/list-page";
-import { formatDateTime } from "~/lib/format";
+import { formatDateTime, formatFixed } from "~/lib/format";
 import { listComparisons } from "~/models/comparison.server";
 import { requireUser } from "~/server/guards.server";
 
@@ -12,7 +12,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { comparisons: await listComparisons(user.id) };
 }
 
-const one = (x: number) => x.toFixed(1);
+const one = (x: number) => formatFixed(x, 1);
 
 export default function ComparisonHistory({ loaderData }: Route.ComponentProps) {
   const { comparisons } = loaderData;

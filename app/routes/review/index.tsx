@@ -27,7 +27,7 @@ export default function ReviewHome({ loaderData }: Route.ComponentProps) {
             caption="Studies assigned to you"
             headers={["Code", "Title", "State", "Your vote"]}
             rows={loaderData.studies.map((s) => [
-              <Link key="code" to={`/review/${s.id}`} className="font-semibold text-basalt-700 underline">
+              <Link key="code" to={`/review/${s.id}`} className="keep-whole font-semibold text-basalt-700 underline">
                 {s.code}
               </Link>,
               s.title,

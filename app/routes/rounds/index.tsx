@@ -25,7 +25,7 @@ export default function Rounds({ loaderData }: Route.ComponentProps) {
       caption="Proficiency rounds"
       headers={["Code", "Title", "State", "Results due"]}
       rows={rounds.map((round) => [
-        <Link key="code" to={`/rounds/${round.id}`} className="font-semibold text-basalt-700 underline">
+        <Link key="code" to={`/rounds/${round.id}`} className="keep-whole font-semibold text-basalt-700 underline">
           {round.code}
         </Link>,
         round.title,

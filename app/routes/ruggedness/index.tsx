@@ -24,7 +24,7 @@ export default function RuggednessStudies({ loaderData }: Route.ComponentProps) 
       caption="Ruggedness studies"
       headers={["Code", "Title", "Test method", "Design", "State"]}
       rows={studies.map((s) => [
-        <Link key="code" to={`/ruggedness/${s.id}`} className="font-semibold underline">
+        <Link key="code" to={`/ruggedness/${s.id}`} className="keep-whole font-semibold underline">
           {s.code}
         </Link>,
         s.title,

@@ -33,10 +33,10 @@ export default function Studies({ loaderData }: Route.ComponentProps) {
           <p>No studies yet.</p>
         ) : (
           <SimpleTable
-            caption="Studies you coordinate"
+            caption={loaderData.everyStudy ? "All studies" : "Studies you coordinate"}
             headers={["Code", "Title", "Test method", "State", "Results due"]}
             rows={loaderData.studies.map((s) => [
-              <Link key="code" to={`/studies/${s.id}`} className="font-semibold text-basalt-700 underline">
+              <Link key="code" to={`/studies/${s.id}`} className="keep-whole font-semibold text-basalt-700 underline">
                 {s.code}
               </Link>,
               s.title,

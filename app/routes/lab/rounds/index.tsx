@@ -22,7 +22,7 @@ export default function LabRounds({ loaderData }: Route.ComponentProps) {
       caption="Your lab's proficiency rounds"
       headers={["Round", "Title", "Your lab code", "State", "Letter"]}
       rows={loaderData.rounds.map((round) => [
-        <Link key="code" to={`/lab/rounds/${round.id}`} className="font-semibold text-basalt-700 underline">
+        <Link key="code" to={`/lab/rounds/${round.id}`} className="keep-whole font-semibold text-basalt-700 underline">
           {round.code}
         </Link>,
         round.title,

@@ -13,6 +13,7 @@ import type { RowProblem } from "~/lib/results/rows";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { type DraftConflict, type ImportPreview, importFrame, importResults, previewImport, ResultsError } from "~/models/results.server";
 import { refuse } from "~/server/form-reply.server";
+import { countOf } from "~/lib/format";
 import { readWorkbookRecords } from "~/server/results-workbook.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
@@ -295,7 +296,7 @@ function ImportReportView({ report, formId, errors, editable, busy }: { report: 
       {report.confirm && (
         <div className="my-4">
           <Button type="submit" form={formId} name="intent" value="import" disabled={!editable || busy}>
-            Import {report.confirm.rows} {report.confirm.rows === 1 ? "row" : "rows"}
+            Import {countOf(report.confirm.rows, "row")}
           </Button>
         </div>
       )}

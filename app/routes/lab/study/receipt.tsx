@@ -2,11 +2,12 @@ import { getFormProps, type SubmissionResult } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, useNavigation } from "react-router";
 import type { Route } from "./+types/receipt";
-import { HandlingCaution, PackingItemsTable } from "~/components/packing-list";
+import { PackingItemsTable } from "~/components/packing-list";
 import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, Field, TextAreaField } from "~/components/ui";
+import { MaterialsCaution } from "~/components/cautions";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { formatDate, todayIso } from "~/lib/format";
 import { SHIPMENT_STATE } from "~/lib/state-labels";
@@ -62,7 +63,7 @@ export default function Receipt({ loaderData, actionData }: Route.ComponentProps
   const { shipments, today, correctable } = loaderData;
   return (
     <div className="flex flex-col gap-6">
-      <HandlingCaution />
+      <MaterialsCaution packing={false} />
       {shipments.length === 0 && <p>No shipment has been sent to your lab yet.</p>}
       {shipments.map((s) => (
         <Card key={s.id} title={`Shipment ${s.shippedOn ? `of ${formatDate(s.shippedOn)}` : "being prepared"}`}>

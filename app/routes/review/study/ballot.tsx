@@ -5,23 +5,28 @@ import { z } from "zod";
 import type { Route } from "./+types/ballot";
 import { LazyCharts } from "~/components/charts/lazy-charts";
 import { fieldProps, FormErrors, formWideErrors, replyAbout, useSchemaForm } from "~/components/forms";
-import { PrecisionTables } from "~/components/precision-tables";
-import { StateBadge } from "~/components/state-badge";
+import { PrecisionSummaryTable } from "~/components/precision-tables";
+import { MaterialPicker } from "~/components/material-picker";
+import { DecisionsOnRecord, MaterialEvidence } from "~/components/review-evidence";
 import { StudyDownloads } from "~/components/study-downloads";
-import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
+import { StateBadge } from "~/components/state-badge";
+import { StatementCaution, StatementTexts } from "~/components/statement-parts";
 import { VoteTrail } from "~/components/vote-trail";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, TextAreaField } from "~/components/ui";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
-import { formatDateTime } from "~/lib/format";
-import { OBJECTION_STAGE_TEXT, QUORUM_SENTENCE } from "~/lib/review/publication";
+import { countOf, formatDate, formatDateTime } from "~/lib/format";
+import { withheldIdentities } from "~/lib/blinding";
+import { materialRecord } from "~/lib/review/evidence";
+import { OBJECTION_STAGE_TEXT, publicationCheck, QUORUM_SENTENCE } from "~/lib/review/publication";
 import { writeRefusal } from "~/lib/write-rules";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { STATEMENT_STATE, VOTE_CHOICE } from "~/lib/state-labels";
 import { studyAnalysis } from "~/models/analysis.server";
-import { amendedAfterQueryCells } from "~/models/decisions.server";
 import { AmendedCellsNote } from "~/components/amended-badge";
 import { addComment, castVote, commentsOn, replyToAnswer, ReviewError, ruleOnObjection } from "~/models/review.server";
+import { studyIdentities } from "~/models/blinding.server";
+import { amendedAfterQueryCells, listCellDecisions, submittedResultsOfMaterial } from "~/models/decisions.server";
 import { listStatements, publicationStatus, reviewersByName, studyDesign, votesOn } from "~/models/statement.server";
 import { refuse } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
@@ -30,38 +35,52 @@ import { redirectWithToast } from "~/server/toast.server";
 export const handle = { pageTitle: "Review" } satisfies StudyPageHandle;
 
 export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta("Review", matches);
-export async function loader({ context }: Route.LoaderArgs) {
+export async function loader({ request, context }: Route.LoaderArgs) {
   const { study, user } = requireStudy(context, ["reviewer"]);
   // The committee sees only versions that were sent to it, never a coordinator's draft.
   const statement = (await listStatements(study.id)).find((s) => s.sentAt !== null) ?? null;
-  const [roundVotes, comments] = statement ? await Promise.all([votesOn(statement.id), commentsOn(statement.id)]) : [[], []];
-  const publication = await publicationStatus(study.id);
+  const [roundVotes, comments, publication, design, identities, decisions, amendedCells] = await Promise.all([
+    statement ? votesOn(statement.id) : [],
+    statement ? commentsOn(statement.id) : [],
+    publicationStatus(study.id),
+    studyDesign(study.id),
+    studyIdentities(study.id),
+    listCellDecisions(study.id),
+    amendedAfterQueryCells(study.id),
+  ]);
   const isChair = publication.round?.chairId === user.id;
   const own = roundVotes.find((v) => v.reviewerId === user.id) ?? null;
-  // Before a version is sent, the committee can follow the blinded figures as they stand.
-  const current = statement
-    ? null
-    : {
-        analysis: await studyAnalysis(study),
-        responses: (await studyDesign(study.id)).responses,
-      };
+  // The frozen figures of the version sent; before one is sent, the blinded figures as they stand.
+  const analysis = statement ? statement.snapshot.analysis : await studyAnalysis(study);
+  const responses = statement ? statement.snapshot.responses : design.responses;
+  const materials = statement ? statement.snapshot.materials : design.materials;
+  // One material at a time keeps a large study's page light.
+  const requested = new URL(request.url).searchParams.get("material");
+  const material = materials.find((m) => m.code === requested) ?? materials[0] ?? null;
+  // Reasons recorded before the naming check are shown with any lab or person withheld.
+  const blinded = decisions.map((d) => ({ lab: d.lab, material: d.material, response: d.response, decision: d.decision, reason: withheldIdentities(d.reason, identities), decidedAt: d.decidedAt }));
+  const results = material ? await submittedResultsOfMaterial(study.id, material.code) : [];
   return {
-    current,
-    amendedCells: await amendedAfterQueryCells(study.id),
-    study: {
-      id: study.id,
-      code: study.code,
-      title: study.title,
-      testMethod: study.testMethod,
-      state: study.state,
-    },
+    study: { id: study.id, code: study.code },
     statement: statement && {
       version: statement.version,
       state: statement.state,
       textE691: statement.textE691,
       textC670: statement.textC670,
-      snapshot: statement.snapshot,
+      frozenAt: statement.snapshot.frozenAt,
+      dataVersion: statement.snapshot.dataVersion,
+      labs: statement.snapshot.labs,
+      replicates: statement.snapshot.replicates,
     },
+    responses,
+    materials,
+    material: material?.code ?? null,
+    decisions: blinded,
+    amendedCells,
+    evidence: material ? materialRecord({ material: material.code, responses, groups: analysis.groups, excluded: analysis.excluded, results, decisions: blinded }) : [],
+    // The charts draw the chosen material; the summary keeps every material's figures without the labs' rows.
+    materialAnalysis: { ...analysis, groups: analysis.groups.filter((g) => g.material === material?.code), excluded: [] },
+    overview: { ...analysis, groups: analysis.groups.map((g) => ({ ...g, labs: [] })), excluded: [] },
     votes: roundVotes.map(({ reviewerId, ...v }) => ({ ...v, ruleable: isChair && reviewerId !== user.id && v.stage === "awaiting_ruling" })),
     own: own && { choice: own.choice, reason: own.reason, stage: own.stage, answerRationale: own.answerRationale },
     round: publication.round && {
@@ -69,7 +88,8 @@ export async function loader({ context }: Route.LoaderArgs) {
       isChair,
       reviewers: publication.round.reviewerIds.length,
     },
-    tally: publication.check.tally,
+    // Once the round is closed, the tally of the votes this version received.
+    tally: publication.round ? publication.check.tally : publicationCheck([...new Set(roundVotes.map((v) => v.reviewerId))], roundVotes).tally,
     comments,
     refusal: statement?.state === "in_review" ? writeRefusal("review", study.state) : "The round is closed.",
   };
@@ -150,74 +170,100 @@ const CHOICES = [
 ] as const;
 
 export default function ReviewStudy({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, statement, current, votes, own, comments, refusal, round, tally, amendedCells } = loaderData;
-  // Blinded like the page: lab codes, submitted results; the figures of the version sent, or the current ones before that.
-  const downloads = (
-    <>
-      <StudyDownloads studyId={study.id} what="analysis" />
-      <StudyDownloads studyId={study.id} what="results" />
-    </>
-  );
+  const { statement, votes, own, comments, refusal, round, tally, responses, material } = loaderData;
   return (
     <div className="flex flex-col gap-6">
       <StatementCaution />
-      {!statement ? (
-        <>
-          <Card title="No statement yet">
-            <p>
-              The coordinator has not sent a statement to the committee yet. Below are the figures as they stand now, from the submitted results and the
-              coordinator's decisions so far; they may still change before a version is frozen and sent to you.
-            </p>
-          </Card>
-          {current && (
-            <>
-              <Card title="Current consistency and precision charts">
-                <LazyCharts analysis={current.analysis} responses={current.responses} />
-              </Card>
-              <Card title="Current figures">
-                {downloads}
-                <PrecisionTables analysis={current.analysis} responses={current.responses} headingLevel={3} />
-                <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells amended after a correction query</h3>
-                <AmendedCellsNote amended={amendedCells} />
-              </Card>
-            </>
-          )}
-        </>
+      {statement ? (
+        <Card title={`Statement version ${statement.version}`}>
+          <p className="mb-3">
+            <StateBadge view={STATEMENT_STATE[statement.state]} /> · {countOf(statement.labs, "lab")}, {countOf(loaderData.materials.length, "material")},{" "}
+            {countOf(statement.replicates, "replicate")} · data version {statement.dataVersion}
+            {statement.state === "in_review" && !refusal && (
+              <>
+                {" "}
+                · <a href="#vote" className="font-semibold text-basalt-700 underline">Go to your vote</a>
+              </>
+            )}
+          </p>
+          <StatementTexts textE691={statement.textE691} textC670={statement.textC670} />
+        </Card>
       ) : (
+        <Card title="No statement yet">
+          <p>
+            The coordinator has not sent a statement to the committee yet. Below are the figures as they stand now, from the submitted results and the
+            coordinator's decisions so far; they may still change before a version is frozen and sent to you.
+          </p>
+        </Card>
+      )}
+      <Card title="Cell decisions">
+        <DecisionsOnRecord decisions={loaderData.decisions} />
+        <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells amended after a correction query</h3>
+        <AmendedCellsNote amended={loaderData.amendedCells} />
+      </Card>
+      <Card title="Downloads">
+        {/* Blinded like the page: lab codes, submitted results; the figures of the version sent, or the current ones before that. */}
+        <StudyDownloads studyId={loaderData.study.id} what="analysis" />
+        <StudyDownloads studyId={loaderData.study.id} what="results" />
+      </Card>
+      {material && (
+        <Card title={`Results by lab code — ${material}`}>
+          <div className="flex flex-col gap-4">
+            <p>Every lab's replicate results on one material, with the cell statistics, the findings of the consistency and outlier tests, and the decision on the cell. Choose the material:</p>
+            <MaterialPicker materials={loaderData.materials} shown={material} />
+            <MaterialEvidence material={material} records={loaderData.evidence} responses={responses} />
+          </div>
+        </Card>
+      )}
+      {material && (
+        <Card title={`Consistency charts — ${material}`}>
+          <LazyCharts analysis={loaderData.materialAnalysis} responses={responses} />
+        </Card>
+      )}
+      <Card title="Precision figures by material">
+        <div className="flex flex-col gap-4">
+          {responses.map((response) => (
+            <PrecisionSummaryTable key={response.key} analysis={loaderData.overview} response={response} />
+          ))}
+        </div>
+      </Card>
+      {statement && (
         <>
-          <Card title={`Statement version ${statement.version}`}>
-            <p className="mb-3">
-              <StateBadge view={STATEMENT_STATE[statement.state]} /> · {statement.snapshot.labs} labs, {statement.snapshot.materials.length} materials,{" "}
-              {statement.snapshot.replicates} replicates · data version {statement.snapshot.dataVersion}
-            </p>
-            <StatementTexts textE691={statement.textE691} textC670={statement.textC670} />
-            <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells left out</h3>
-            <ExcludedCells excluded={statement.snapshot.analysis.excluded} />
-            <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells amended after a correction query</h3>
-            <AmendedCellsNote amended={amendedCells} />
-            <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Download the figures of this version and the submitted results</h3>
-            {downloads}
-          </Card>
-          <Card title="Your vote">
-            {own && (
+          <section id="vote" aria-labelledby="vote-heading" className="grid gap-6 lg:grid-cols-3">
+            <div className="rounded-lg bg-white p-5 shadow-sm lg:col-span-2">
+              <h2 id="vote-heading" className="mb-3 text-lg font-semibold text-basalt-800">
+                Your vote
+              </h2>
+              {own && (
+                <p className="mb-3">
+                  You voted <strong>{VOTE_CHOICE[own.choice].label.toLowerCase()}</strong>.{own.reason && <> Your reason: “{own.reason}”</>}
+                </p>
+              )}
+              {own?.stage && <p className="mb-3 text-basalt-700">Your objection: {OBJECTION_STAGE_TEXT[own.stage]}.</p>}
+              {!refusal && own?.stage === "awaiting_objector" && <ReplyForm answerRationale={own.answerRationale} chair={round?.chair ?? null} actionData={actionData} />}
+              {refusal ? <p>{refusal}</p> : own?.stage && own.stage !== "awaiting_answer" ? null : <VoteForm own={own} actionData={actionData} />}
+            </div>
+            <aside aria-labelledby="vote-summary-heading" className="rounded-lg border border-basalt-200 bg-basalt-50 p-5">
+              <h3 id="vote-summary-heading" className="mb-2 font-semibold text-basalt-800">
+                What you are voting on
+              </h3>
               <p className="mb-3">
-                You voted <strong>{VOTE_CHOICE[own.choice].label.toLowerCase()}</strong>
-                {own.reason && <> — “{own.reason}”</>}.
+                Version {statement.version} of the precision statement of <span className="keep-whole">{loaderData.study.code}</span>, frozen{" "}
+                <span className="keep-whole">{formatDate(statement.frozenAt)}</span> from data version {statement.dataVersion}:{" "}
+                {countOf(loaderData.decisions.filter((d) => d.decision === "excluded").length, "cell")} left out,{" "}
+                {countOf(loaderData.decisions.filter((d) => d.decision === "retained").length, "cell")} retained after investigation.
               </p>
-            )}
-            {own?.stage && <p className="mb-3 text-basalt-700">Your objection: {OBJECTION_STAGE_TEXT[own.stage]}.</p>}
-            {!refusal && own?.stage === "awaiting_objector" && <ReplyForm answerRationale={own.answerRationale} chair={round?.chair ?? null} actionData={actionData} />}
-            {refusal ? <p>{refusal}</p> : own?.stage && own.stage !== "awaiting_answer" ? null : <VoteForm own={own} actionData={actionData} />}
-          </Card>
+              <p className="mb-2" data-testid="tally">
+                Tally: {tally.voted} of {tally.reviewers} reviewers voted · {tally.approve} approve · {tally.object} object · {tally.abstain} abstain
+              </p>
+              {round && (
+                <p className="text-sm text-basalt-700">
+                  Chair of this round: {round.chair ?? "—"}. {QUORUM_SENTENCE}
+                </p>
+              )}
+            </aside>
+          </section>
           <Card title="Votes and answers">
-            {round && (
-              <p className="mb-2">
-                Chair of this round: {round.chair ?? "—"}. {QUORUM_SENTENCE}
-              </p>
-            )}
-            <p className="mb-3" data-testid="tally">
-              Tally: {tally.voted} of {tally.reviewers} reviewers voted · {tally.approve} approve · {tally.object} object · {tally.abstain} abstain
-            </p>
             {votes.length === 0 ? (
               <p>No vote yet.</p>
             ) : (
@@ -248,12 +294,6 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
             )}
             {/* Keyed by the number of comments, so the box is empty again once a comment is added. */}
             {!refusal && <CommentForm key={comments.length} actionData={actionData} />}
-          </Card>
-          <Card title="Charts">
-            <LazyCharts analysis={statement.snapshot.analysis} responses={statement.snapshot.responses} />
-          </Card>
-          <Card title="Tables">
-            <PrecisionTables analysis={statement.snapshot.analysis} responses={statement.snapshot.responses} headingLevel={3} />
           </Card>
         </>
       )}

@@ -13,9 +13,10 @@ import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 import { writeRefusal } from "~/lib/write-rules";
+import { studyPageMeta } from "~/lib/study-page-meta";
 
-export const handle: StudyPageHandle = { pageTitle: "Assigned values & σ_pt" };
-export const meta: Route.MetaFunction = () => [{ title: "Assigned values · Ringbatch" }];
+export const handle = { pageTitle: "Assigned values & σ_pt" } satisfies StudyPageHandle;
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireRound(context, ["coordinator", "admin"]);

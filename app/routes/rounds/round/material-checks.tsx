@@ -14,9 +14,10 @@ import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 import { writeRefusal } from "~/lib/write-rules";
+import { studyPageMeta } from "~/lib/study-page-meta";
 
-export const handle: StudyPageHandle = { pageTitle: "Homogeneity & stability" };
-export const meta: Route.MetaFunction = () => [{ title: "Homogeneity and stability · Ringbatch" }];
+export const handle = { pageTitle: "Homogeneity & stability" } satisfies StudyPageHandle;
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireRound(context, ["coordinator", "admin"]);

@@ -15,9 +15,10 @@ import { statusCountsByMaterial, studyMatrix } from "~/models/study.server";
 import { refuse } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { redirectWithToast } from "~/server/toast.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
 
-export const handle: StudyPageHandle = { pageTitle: "Round" };
-export const meta: Route.MetaFunction = () => [{ title: "Round · Ringbatch" }];
+export const handle = { pageTitle: "Round" } satisfies StudyPageHandle;
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 /** The moves this page offers; publication goes through the scores page and its checks. */
 const ROUND_MOVES = ["recruiting", "testing", "checking"] as const;

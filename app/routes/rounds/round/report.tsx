@@ -6,9 +6,10 @@ import { formatDate } from "~/lib/format";
 import { figureDecimals, formatFigure } from "~/lib/review/format";
 import { methodPerformance, roundReport } from "~/models/round.server";
 import { requireRound } from "~/server/round-context.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
 
-export const handle: StudyPageHandle = { pageTitle: "Round report" };
-export const meta: Route.MetaFunction = () => [{ title: "Round report · Ringbatch" }];
+export const handle = { pageTitle: "Round report" } satisfies StudyPageHandle;
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireRound(context, ["coordinator", "admin"]);

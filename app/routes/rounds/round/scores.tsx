@@ -12,9 +12,10 @@ import { publicationProblems, publishedRound, publishRound, scoreRound } from "~
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { redirectWithToast } from "~/server/toast.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
 
-export const handle: StudyPageHandle = { pageTitle: "Scores" };
-export const meta: Route.MetaFunction = () => [{ title: "Scores · Ringbatch" }];
+export const handle = { pageTitle: "Scores" } satisfies StudyPageHandle;
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireRound(context, ["coordinator", "admin"]);

@@ -4,9 +4,10 @@ import type { StudyPageHandle } from "~/components/study-frame";
 import { Card, Notice } from "~/components/ui";
 import { ruggednessAnalysis } from "~/models/ruggedness.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
 
 export const handle = { pageTitle: "Conclusions" } satisfies StudyPageHandle;
-export const meta: Route.MetaFunction = () => [{ title: "Ruggedness conclusions · Ringbatch" }];
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireRuggednessStudy(context, ["coordinator", "admin"]);

@@ -6,9 +6,10 @@ import { Card, SimpleTable } from "~/components/ui";
 import { plackettBurmanDesign, settingText } from "~/lib/ruggedness";
 import { ruggednessSetup } from "~/models/ruggedness.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
 
 export const handle = { pageTitle: "Design & run sheet" } satisfies StudyPageHandle;
-export const meta: Route.MetaFunction = () => [{ title: "Ruggedness design · Ringbatch" }];
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireRuggednessStudy(context, ["coordinator", "admin"]);

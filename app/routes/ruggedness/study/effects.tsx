@@ -6,9 +6,11 @@ import type { StudyPageHandle } from "~/components/study-frame";
 import { Card, Notice, SimpleTable } from "~/components/ui";
 import { ruggednessAnalysis } from "~/models/ruggedness.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
+import { formatFixed, formatSigned } from "~/lib/format";
 
 export const handle = { pageTitle: "Effects" } satisfies StudyPageHandle;
-export const meta: Route.MetaFunction = () => [{ title: "Ruggedness effects · Ringbatch" }];
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireRuggednessStudy(context, ["coordinator", "admin"]);
@@ -16,7 +18,6 @@ export async function loader({ context }: Route.LoaderArgs) {
   return { studyId: study.id, planned: setup.plan !== null, responses };
 }
 
-const signed = (x: number) => `${x > 0 ? "+" : x < 0 ? "−" : ""}${Math.abs(x).toFixed(2)}`;
 
 export default function EffectsPage({ loaderData }: Route.ComponentProps) {
   const { studyId, planned, responses } = loaderData;
@@ -50,8 +51,8 @@ export default function EffectsPage({ loaderData }: Route.ComponentProps) {
                 rows={analysis.columns.map((c) => [
                   c.column,
                   c.label,
-                  signed(c.effect),
-                  c.test?.t == null ? "—" : c.test.t.toFixed(2),
+                  formatSigned(c.effect, 2),
+                  c.test?.t == null ? "—" : formatFixed(c.test.t, 2),
                   c.test ? c.test.critical.toFixed(2) : "—",
                   c.test ? (c.test.significant ? <strong key="yes" className="text-signal-700">yes</strong> : "no") : "—",
                 ])}

@@ -11,9 +11,10 @@ import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 import { writeRefusal } from "~/lib/write-rules";
+import { studyPageMeta } from "~/lib/study-page-meta";
 
 export const handle = { pageTitle: "Factors" } satisfies StudyPageHandle;
-export const meta: Route.MetaFunction = () => [{ title: "Ruggedness factors · Ringbatch" }];
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireRuggednessStudy(context, ["coordinator", "admin"]);

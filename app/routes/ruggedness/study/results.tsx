@@ -14,9 +14,10 @@ import { notFound } from "~/server/guards.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 import { writeRefusal } from "~/lib/write-rules";
+import { studyPageMeta } from "~/lib/study-page-meta";
 
 export const handle = { pageTitle: "Results" } satisfies StudyPageHandle;
-export const meta: Route.MetaFunction = () => [{ title: "Ruggedness results · Ringbatch" }];
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, access } = requireRuggednessStudy(context, ["coordinator", "admin"]);

@@ -15,6 +15,7 @@ import { StudyDownloads } from "~/components/study-downloads";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, Field, Notice, SimpleTable, TextAreaField } from "~/components/ui";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
+import { blindingRefusals } from "~/lib/blinding";
 import { formatDate, formatDateTime } from "~/lib/format";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { refuse, withRefusals } from "~/server/form-reply.server";
@@ -29,12 +30,14 @@ import { ALPHA_LABEL, figureDecimals, formatFigure } from "~/lib/review/format";
 import { labsOfOneMaterial, shownMaterial } from "~/lib/shown-material";
 import { writeRefusal } from "~/lib/write-rules";
 import { ConfirmStep } from "~/components/confirm-dialog";
+import { Caution } from "~/components/cautions";
 import { QUERY_STATE } from "~/lib/state-labels";
 import { materialResults, studyAnalysis, withdrawnLabCodes } from "~/models/analysis.server";
 import { listStudyQueries, raiseQuery } from "~/models/coordinator-queries.server";
 import { amendedAfterQueryCells, cellEvidence, decisionHistory, listCellDecisions, saveCellDecision } from "~/models/decisions.server";
 import { AmendedAfterQueryBadge } from "~/components/amended-badge";
 import { studyDesign } from "~/models/statement.server";
+import { studyIdentities } from "~/models/blinding.server";
 
 export const handle = { pageTitle: "Analysis" } satisfies StudyPageHandle;
 
@@ -113,6 +116,10 @@ export async function action({ request, context }: Route.ActionArgs) {
   const submission = parseWithZod(await request.formData(), { schema: analysisSchema });
   if (submission.status !== "success") return refuse(submission);
   const form = submission.value;
+  // The committee reads reasons and queries word for word: refuse any that would unblind a lab.
+  const texts: Record<string, string> = form.intent === "ask" ? { question: form.question, statistic: form.statistic } : { reason: form.reason };
+  const unblinding = blindingRefusals(texts, await studyIdentities(study.id));
+  if (unblinding) return refuse(submission, unblinding);
   // A refusal here is a conflict with the study's state or data (409), shown above the form.
   const outcome = await withRefusals(
     submission,
@@ -146,12 +153,11 @@ export default function Analysis({ loaderData, actionData }: Route.ComponentProp
     <>
       <div className="flex flex-col gap-6">
         <p className="text-basalt-700">Data version {study.dataVersion}.</p>
-        <Notice tone="caution">
-          <strong>Before leaving any result out:</strong> a flag only starts an investigation. Exclude a cell only when there is an assignable
-          cause (a batching, testing or recording fault the lab confirms) or a clear statistical justification, give that reason, and look at the
-          flags again after every exclusion — removing one cell changes the critical values and statistics of the others. These figures support the
-          committee's judgement; they do not replace it.
-        </Notice>
+        <Caution id="exclusion" summary="Before leaving any result out: a flag only starts an investigation">
+          Exclude a cell only when there is an assignable cause (a batching, testing or recording fault the lab confirms) or a clear statistical
+          justification, give that reason, and look at the flags again after every exclusion — removing one cell changes the critical values and
+          statistics of the others. These figures support the committee's judgement; they do not replace it.
+        </Caution>
         <DesignWarnings warnings={analysis.warnings} />
         {loaderData.withdrawn.length > 0 && (
           <Notice>

@@ -102,10 +102,7 @@ export default function MaterialPage({ loaderData, actionData }: Route.Component
           Back to setup
         </Link>
       </p>
-      <Notice tone="caution">
-        Fresh concrete is caustic: wear gloves and eye protection and keep it off the skin. Batches are heavy: lift with help. Local codes, specifications and
-        licensed engineers govern the mixture; these checks support, not replace, their judgement.
-      </Notice>
+      <p className="text-basalt-700">Local codes, specifications and licensed engineers govern the mixture; these checks support, not replace, their judgement.</p>
       <Form method="post" className="flex flex-col gap-6" {...getFormProps(form)}>
         <FormErrors errors={formWideErrors(form)} />
         <Card title="Material">

@@ -1,5 +1,6 @@
 import type { Route } from "./+types/packing-list";
-import { HandlingCaution, PackingItemsTable } from "~/components/packing-list";
+import { MaterialsCaution } from "~/components/cautions";
+import { PackingItemsTable } from "~/components/packing-list";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card } from "~/components/ui";
@@ -58,7 +59,7 @@ export default function PackingList({ loaderData }: Route.ComponentProps) {
         </dl>
       </Card>
       <PackingItemsTable caption={`Packing list for ${lab}`} items={shipment.items} note={shipment.note} />
-      <HandlingCaution />
+      <MaterialsCaution packing />
       <p className="text-sm text-basalt-700">On arrival, check each line against the boxes and confirm receipt and condition on the study's receipt page.</p>
     </article>
   );

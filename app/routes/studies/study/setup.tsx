@@ -259,8 +259,8 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
 
       <Card title="Fresh-property targets">
         <p className="mb-3">
-          Slump: {slump ? `${slump.target} ± ${slump.tolerance} mm (${round(mmToIn(slump.target), 2)} ± ${round(mmToIn(slump.tolerance), 2)} in)` : "no target"}
-          . Air content: {air ? `${air.target} ± ${air.tolerance} %` : "no target"}.
+          Slump: {slump ? `${slump.target} ± ${slump.tolerance} mm (${round(mmToIn(slump.target), 2)} ± ${round(mmToIn(slump.tolerance), 2)} in)` : "no target"}. Air
+          content: {air ? `${air.target} ± ${air.tolerance} %` : "no target"}.
         </p>
         {designFixed && <p className="mt-3 text-basalt-700">{designFixed}</p>}
         {editable && <TargetsForm reply={actionData} busy={busy} slump={slump} air={air} />}

@@ -5,10 +5,11 @@ import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/shipments";
 import { DataTable } from "~/components/data-table";
 import { fieldProps, FormErrors, formWideErrors, refusalOf, replyAbout, useSchemaForm } from "~/components/forms";
-import { HandlingCaution, PackingItemsTable } from "~/components/packing-list";
+import { PackingItemsTable } from "~/components/packing-list";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Badge, Button, Card, Field, SelectField, TextAreaField } from "~/components/ui";
+import { MaterialsCaution } from "~/components/cautions";
 import { formatDate, todayIso } from "~/lib/format";
 import { packingSummary, UNIT_CHOICES } from "~/lib/packing-list";
 import { SHIPMENT_STATE } from "~/lib/state-labels";
@@ -69,7 +70,7 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
   const busy = useNavigation().state === "submitting";
   return (
     <div className="flex flex-col gap-6">
-      <HandlingCaution />
+      <MaterialsCaution packing />
       {canEdit && (
         <Card title="Prepare shipments">
           {awaiting.length === 0 ? (

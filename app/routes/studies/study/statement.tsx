@@ -13,6 +13,7 @@ import type { StudyPageHandle } from "~/components/study-frame";
 import { ConfirmStep } from "~/components/confirm-dialog";
 import { Button, Card, Notice, SelectField, SimpleTable, TextAreaField } from "~/components/ui";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
+import { blindingRefusals } from "~/lib/blinding";
 import { formatDate, formatDateTime } from "~/lib/format";
 import { QUORUM_SENTENCE } from "~/lib/review/publication";
 import { writeRefusal } from "~/lib/write-rules";
@@ -30,6 +31,7 @@ import {
   updateStatementText,
   votesOn,
 } from "~/models/statement.server";
+import { studyIdentities } from "~/models/blinding.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { notFound } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
@@ -93,6 +95,11 @@ export async function action({ request, context }: Route.ActionArgs) {
   const submission = parseWithZod(await request.formData(), { schema: statementSchema });
   if (submission.status !== "success") return refuse(submission);
   const form = submission.value;
+  // The committee reads the statement's text: it must not name a lab or its people.
+  if (form.intent === "save-text") {
+    const unblinding = blindingRefusals({ textE691: form.textE691, textC670: form.textC670 }, await studyIdentities(study.id));
+    if (unblinding) return refuse(submission, unblinding);
+  }
   // The models refuse what the study's state or the round does not allow (409), shown above the forms.
   const outcome = await withRefusals(
     submission,

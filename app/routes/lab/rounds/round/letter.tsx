@@ -9,9 +9,10 @@ import { VERDICT_ADVICE } from "~/lib/proficiency";
 import { figureDecimals, formatFigure } from "~/lib/review/format";
 import { labLetter } from "~/models/round.server";
 import { requireRound } from "~/server/round-context.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
 
-export const handle: StudyPageHandle = { pageTitle: "Letter" };
-export const meta: Route.MetaFunction = () => [{ title: "Round letter · Ringbatch" }];
+export const handle = { pageTitle: "Letter" } satisfies StudyPageHandle;
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, enrollment } = requireRound(context, ["analyst"]);

@@ -12,9 +12,10 @@ import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { writeRefusal } from "~/lib/write-rules";
 import { redirectWithToast } from "~/server/toast.server";
+import { studyPageMeta } from "~/lib/study-page-meta";
 
-export const handle: StudyPageHandle = { pageTitle: "Round" };
-export const meta: Route.MetaFunction = () => [{ title: "Round · Ringbatch" }];
+export const handle = { pageTitle: "Round" } satisfies StudyPageHandle;
+export const meta: Route.MetaFunction = ({ matches }) => studyPageMeta(handle.pageTitle, matches);
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study, enrollment } = requireRound(context, ["analyst"]);
