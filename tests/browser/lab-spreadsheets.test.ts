@@ -99,7 +99,8 @@ describe("spreadsheets in and out, photos and phones, in the browser", () => {
         `Surface photo of replicate ${replicate}`,
       ]) {
         const field = card.getByLabel(label);
-        expect(await field.isVisible(), label).toBe(true);
+        // The photo chooser arrives with the page's later chunk: wait for it rather than read it once.
+        await field.waitFor({ state: "visible", timeout: 10_000 });
         const box = (await field.boundingBox())!;
         expect(box.x, label).toBeGreaterThanOrEqual(0);
         expect(box.x + box.width, label).toBeLessThanOrEqual(390);

@@ -295,7 +295,7 @@ describe("uploads", () => {
     const big = new Uint8Array(10 * 1024 * 1024 + 1);
     big.set(PNG);
     const response = await uploadPhoto(big, "big.png", "image/png");
-    expect(response.status).toBe(400);
+    expect(response.status).toBe(413);
     expect(await response.text()).toContain("The photo is larger than 10 MB.");
     expect(await attachmentCount()).toBe(rowsBefore);
     expect(storedFiles()).toEqual(filesBefore);
