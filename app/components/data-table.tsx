@@ -16,7 +16,7 @@ import {
   tableFeatures,
   useTable,
 } from "@tanstack/react-table";
-import { type ReactNode, useId, useMemo } from "react";
+import { type ReactNode, useId, useMemo, useRef } from "react";
 import { oneWordCell } from "~/components/ui";
 
 const features = tableFeatures({
@@ -56,20 +56,29 @@ export function DataTable<T extends RowData>({
   empty?: string;
 }) {
   const filterId = useId();
+  // Pages pass their columns inline, so each render brings new functions. The table's column
+  // definitions stay the same objects (reading the latest columns through a ref): a new cell
+  // function would remount its cell, closing an open disclosure and dropping what was typed in it.
+  const latestColumns = useRef(columns);
+  latestColumns.current = columns;
+  const columnIds = columns.map((c) => c.id).join("\n");
   const tableColumns = useMemo(
     () =>
-      columns.map(
-        (c): ColumnDef<typeof features, T> => ({
+      latestColumns.current.map(
+        (c, i): ColumnDef<typeof features, T> => ({
           id: c.id,
           header: c.header,
-          accessorFn: (row: T) => c.value(row),
-          cell: c.cell ? ({ row }) => c.cell!(row.original) : ({ row }) => c.value(row.original) ?? "—",
+          accessorFn: (row: T) => latestColumns.current[i]!.value(row),
+          cell: ({ row }) => {
+            const column = latestColumns.current[i]!;
+            return column.cell ? column.cell(row.original) : (column.value(row.original) ?? "—");
+          },
           enableSorting: c.sortable ?? true,
           sortFn: "alphanumeric",
           sortUndefined: "last",
         }),
       ),
-    [columns],
+    [columnIds],
   );
   const table = useTable({
     features,
