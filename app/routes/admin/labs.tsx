@@ -91,6 +91,10 @@ export default function AdminLabs({ loaderData, actionData }: Route.ComponentPro
         </Form>
       </Card>
       <Card title="Directory">
+        <p className="mb-4">
+          A lab a coordinator invites from outside the directory joins it when its contact accepts, marked "New — check for duplicates". Until then, and for
+          good if the contact declines, it stays out of the directory and every list of labs; only that study's labs page shows it.
+        </p>
         <FormErrors errors={checkRefusal} />
         <SimpleTable
           caption="All labs"

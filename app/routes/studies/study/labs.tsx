@@ -100,7 +100,7 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
                   {l.name}
                   {l.listing === "invited" && (
                     <span className="block">
-                      <Badge>Not in the directory yet</Badge>
+                      <Badge>{l.enrollmentState === "declined" ? "Declined: stays out of the directory" : "Not in the directory yet"}</Badge>
                     </span>
                   )}
                 </>
@@ -159,7 +159,8 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
         <Card title="Invite a lab that is not in the directory">
           <p className="mb-4">
             The invitation goes to the contact's e-mail address. When the contact accepts, they set their password and the lab joins the directory; an
-            administrator checks it is not a lab already listed under another name.
+            administrator checks it is not a lab already listed under another name. If the contact declines, the lab stays out of the directory and
+            keeps its row here, so you can invite it again.
           </p>
           {/* A new row after a sent invitation starts the form afresh. */}
           <OutsideLabForm key={rows.length} reply={actionData} busy={busy} />
