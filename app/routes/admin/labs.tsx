@@ -92,8 +92,9 @@ export default function AdminLabs({ loaderData, actionData }: Route.ComponentPro
       </Card>
       <Card title="Directory">
         <p className="mb-4">
-          A lab a coordinator invites from outside the directory joins it when its contact accepts, marked "New — check for duplicates". Until then, and for
-          good if the contact declines, it stays out of the directory and every list of labs; only that study's labs page shows it.
+          A lab a coordinator invites from outside the directory joins it only when its contact accepts, and then shows here marked "New — check for
+          duplicates". Until then, and after a decline, it is in no list of labs: only the labs page of the study that invited it shows it, from where the
+          coordinator may invite it again.
         </p>
         <FormErrors errors={checkRefusal} />
         <SimpleTable
