@@ -116,7 +116,7 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
                 s.carrier || s.trackingNumber ? (
                   <>
                     {s.carrier}
-                    {s.trackingNumber && <span className="block whitespace-nowrap">{s.trackingNumber}</span>}
+                    {s.trackingNumber && <span className="keep-whole block">{s.trackingNumber}</span>}
                   </>
                 ) : (
                   "—"
