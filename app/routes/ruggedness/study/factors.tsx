@@ -35,6 +35,9 @@ const REPLICATE_OPTIONS = [
   { value: "1", label: "One result per run (effects tested against the dummy columns)" },
 ];
 
+/** The table's input columns, in order; each field's label reads "Factor 2 unit". */
+const FACTOR_FIELDS = ["name", "unit", "low", "high"] as const;
+
 export default function Factors({ loaderData, actionData }: Route.ComponentProps) {
   const { setup, canEdit, designRefusal } = loaderData;
   const locked = designRefusal !== null || setup.resultCount > 0;
@@ -88,18 +91,11 @@ export default function Factors({ loaderData, actionData }: Route.ComponentProps
                         <th scope="row" className="px-2 py-2 font-semibold">
                           {i + 1}
                         </th>
-                        <td className="px-2 py-1">
-                          <Field label={`Factor ${i + 1} name`} {...fieldProps(f.name)} />
-                        </td>
-                        <td className="px-2 py-1">
-                          <Field label={`Factor ${i + 1} unit`} {...fieldProps(f.unit)} />
-                        </td>
-                        <td className="px-2 py-1">
-                          <Field label={`Factor ${i + 1} low`} {...fieldProps(f.low)} />
-                        </td>
-                        <td className="px-2 py-1">
-                          <Field label={`Factor ${i + 1} high`} {...fieldProps(f.high)} />
-                        </td>
+                        {FACTOR_FIELDS.map((key) => (
+                          <td key={key} className="px-2 py-1">
+                            <Field label={`Factor ${i + 1} ${key}`} {...fieldProps(f[key])} />
+                          </td>
+                        ))}
                       </tr>
                     );
                   })}
