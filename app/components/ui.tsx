@@ -53,9 +53,10 @@ export function Button({
 }
 
 /** What every form control shares: its label above, then its hint and its error message below. */
+// min-w-0 here and w-full on a select let a field narrow with its column: a select is otherwise as wide as its longest option, which pushed phone pages sideways.
 function FieldFrame({ id, label, hint, error, children }: { id: string; label: string; hint?: string; error?: string; children: ReactNode }) {
   return (
-    <div className="flex flex-col gap-1">
+    <div className="flex min-w-0 flex-col gap-1">
       <label htmlFor={id} className="font-semibold text-basalt-800">
         {label}
       </label>
@@ -129,7 +130,7 @@ export function SelectField({
   const id = select.id ?? `field-${name}`;
   return (
     <FieldFrame id={id} label={label} error={error}>
-      <select {...controlProps(id, name, error)} className={`min-h-11 rounded-md border bg-white px-3 py-2 ${borderFor(error)}`} {...select}>
+      <select {...controlProps(id, name, error)} className={`min-h-11 w-full rounded-md border bg-white px-3 py-2 ${borderFor(error)}`} {...select}>
         {options.map((o) => (
           <option key={o.value} value={o.value}>
             {o.label}

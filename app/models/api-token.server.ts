@@ -1,7 +1,7 @@
 import { randomBytes } from "node:crypto";
-import { and, desc, eq, isNull, lt, or } from "drizzle-orm";
+import { and, asc, desc, eq, isNull, lt, or } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { apiTokens, enrollments, studies } from "~/db/schema";
+import { apiTokens, cells, enrollments, materials, responses, studies } from "~/db/schema";
 import { studyAccessFor } from "~/server/guards.server";
 import { AccountError, type SessionUser } from "~/models/user.server";
 import { hashToken } from "~/server/token-hash.server";
@@ -87,6 +87,20 @@ export async function activeApiToken(token: string) {
   return row;
 }
 
+/** The study's first submitted cell as the what-if query writes it (L03:F1:holes), or null before any lab submits. */
+async function firstSubmittedCell(studyId: number) {
+  const [cell] = await db
+    .select({ lab: enrollments.labCode, material: materials.code, response: responses.key })
+    .from(cells)
+    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+    .innerJoin(materials, eq(materials.id, cells.materialId))
+    .innerJoin(responses, eq(responses.id, cells.responseId))
+    .where(and(eq(enrollments.studyId, studyId), eq(cells.status, "submitted")))
+    .orderBy(asc(enrollments.labCode), asc(materials.sortOrder), asc(responses.sortOrder))
+    .limit(1);
+  return cell?.lab ? `${cell.lab}:${cell.material}:${cell.response}` : null;
+}
+
 // Which of a person's studies the API page's examples use: one with results to read first.
 const EXAMPLE_ORDER = ["checking", "in_review", "published", "testing", "recruiting", "draft", "cancelled"];
 const byExampleOrder = <T extends { state: string }>(rows: T[]) => [...rows].sort((a, b) => EXAMPLE_ORDER.indexOf(a.state) - EXAMPLE_ORDER.indexOf(b.state));
@@ -106,11 +120,13 @@ export async function apiExampleContext(user: SessionUser, origin: string): Prom
   const design = entryStudy ? await studyDesign(entryStudy.studyId) : null;
   const ownLab = byExampleOrder(labStudies.filter((e) => e.enrollmentState === "accepted").map((e) => ({ id: e.studyId, code: e.studyCode, state: e.studyState })));
   const pick = (row: { id: number; code: string } | undefined) => (row ? { id: row.id, code: row.code } : null);
+  const study = pick(readable[0] ?? (entryStudy ? { id: entryStudy.studyId, code: entryStudy.studyCode } : ownLab[0]));
   return {
     origin,
     email: user.email,
-    study: pick(readable[0] ?? (entryStudy ? { id: entryStudy.studyId, code: entryStudy.studyCode } : ownLab[0])),
+    study,
     coordinates,
+    whatIfCell: coordinates && study ? await firstSubmittedCell(study.id) : null,
     reviews,
     published: pick(readable.find((s) => s.state === "published")),
     round: pick(byExampleOrder(coordinated.filter((s) => s.kind === "proficiency"))[0]),

@@ -51,7 +51,7 @@ export async function inviteOutsideLab(study: Study, input: { labName: string; c
   const [sameName] = await db.select().from(labs).where(sql`lower(${labs.name}) = ${input.labName.toLowerCase()}`);
   const sameContact = await db.query.labs.findFirst({ where: and(sql`lower(${labs.contactEmail}) = ${contactEmail}`, isNull(labs.mergedIntoId), or(isNull(labs.listing), ne(labs.listing, "invited"))) });
   if (sameName && (sameName.listing !== "invited" || normaliseEmail(sameName.contactEmail) !== contactEmail)) {
-    throw new InvitationError("labName", sameName.listing === "invited" ? "A lab of this name is already invited with another contact: check the name with the lab." : "A lab of this name is in the directory: invite it from the list.");
+    throw new InvitationError("labName", sameName.listing === "invited" ? "A lab of this name was invited with another contact and has not joined the directory: check the name and the contact with the lab." : "A lab of this name is in the directory: invite it from the list.");
   }
   if (sameContact) throw new InvitationError("contactEmail", `This is the contact of ${sameContact.name}, which is in the directory: invite it from the list.`);
   await refuseReviewersLab(study, sameName?.id ?? null, contactEmail, "contactEmail");

@@ -9,6 +9,7 @@ import { DUE_SOON_DAYS, runDueNotices } from "~/models/notices.server";
 import { noticeSchedulePattern, startNoticeSchedule } from "~/server/notice-schedule.server";
 import * as accountPage from "~/routes/account";
 import * as receipt from "~/routes/lab/study/receipt";
+import * as setup from "~/routes/studies/study/setup";
 import * as shipmentsPage from "~/routes/studies/study/shipments";
 import { postMultipart } from "../support/coordinator";
 import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
@@ -199,5 +200,40 @@ describe("notices to the coordinator", () => {
     expect(sent.filter((m) => m.subject.includes("invitation") || m.subject.includes("shipment"))).toEqual([]);
     const demoAnswers = await db.select({ id: notices.id }).from(notices).where(inArray(notices.kind, ["enrollment_accepted", "enrollment_declined"]));
     expect(demoAnswers).toHaveLength(2);
+  });
+});
+
+describe("notices to a co-coordinator", () => {
+  it("reach every coordinator of the study once each, as each one's own settings say, and never a disabled account", async () => {
+    await db.insert(users).values([
+      { email: "coord-b@ringbatch.example", name: "Ines Marlowe", role: "coordinator" },
+      { email: "coord-c@ringbatch.example", name: "Pell Ardington", role: "coordinator" },
+    ]);
+    for (const email of ["coord-b@ringbatch.example", "coord-c@ringbatch.example"]) {
+      const added = await readReply(await call(setup.action, post(`/studies/${testing.id}/setup`, { intent: "coordinator-add", email }, coordinator), { studyId: String(testing.id) }));
+      expect(added.done).toBe(`${email} added.`);
+    }
+    // The second co-coordinator keeps result reminders but turns answers off; the third account is then disabled.
+    const secondCookie = await demoCookie("coord-b@ringbatch.example");
+    await call(accountPage.action, post("/account", { intent: "notices", resultReminders: "on" }, secondCookie));
+    await db.update(users).set({ disabledAt: new Date() }).where(eq(users.email, "coord-c@ringbatch.example"));
+
+    const [lab] = await db.insert(labs).values({ name: "Orrin Vale Test House" }).returning();
+    const now = new Date();
+    await db.insert(enrollments).values({ studyId: testing.id, labId: lab!.id, state: "accepted", labCode: "L10", respondedAt: now });
+    const before = await lastMailId();
+    await runDueNotices(db, new Date(now.getTime() + 60_000));
+    await runDueNotices(db, new Date(now.getTime() + 120_000));
+    const about = (await mailSince(before, "Orrin Vale Test House accepted the invitation")).map((m) => m.to);
+    expect(about).toEqual(["coordinator@ringbatch.example"]);
+
+    // With answers back on, the co-coordinator gets the same notice on the next tick, once; the owner is not told twice.
+    await call(accountPage.action, post("/account", { intent: "notices", resultReminders: "on", enrollmentAnswers: "on" }, secondCookie));
+    const again = await lastMailId();
+    await runDueNotices(db, new Date(now.getTime() + 180_000));
+    await runDueNotices(db, new Date(now.getTime() + 240_000));
+    const notice = await mailSince(again, "Orrin Vale Test House accepted the invitation");
+    expect(notice.map((m) => m.to)).toEqual(["coord-b@ringbatch.example"]);
+    expect(notice[0]!.text).toContain(`${APP_URL}/studies/${testing.id}/labs`);
   });
 });

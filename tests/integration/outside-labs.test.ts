@@ -4,6 +4,7 @@ import { db } from "~/db/client.server";
 import { auditEvents, emailOutbox, enrollments, labMembers, labs, materials, studies, users } from "~/db/schema";
 import { listLabs } from "~/models/lab.server";
 import * as adminLabs from "~/routes/admin/labs";
+import * as adminUsers from "~/routes/admin/users";
 import * as invite from "~/routes/auth/invite";
 import * as labStudy from "~/routes/lab/study/tasks";
 import * as labsPage from "~/routes/studies/study/labs";
@@ -149,5 +150,37 @@ describe("merging a duplicate lab", () => {
     expect((await labByName("Kestrel Pour Lab"))!.listing).toBeNull();
     const twice = await adminAction({ intent: "checked", labId: String(fresh!.id) });
     expect(errorsOf(twice).form).toBe("That lab is not waiting for a check.");
+  });
+});
+
+describe("an outside lab whose contact declines", () => {
+  const DECLINING = { intent: "invite-outside", labName: "Fallowmere Concrete Bench", contactName: "Ansel Fallowmere", contactEmail: "ansel@fallowmere.example" };
+
+  it("never joins the directory or any picker, and the study keeps its declined row", async () => {
+    await labsAction(DECLINING);
+    const link = await invitationLink("ansel@fallowmere.example");
+    const declined = await call(invite.action, post(link.path, { intent: "decline" }), { token: link.token });
+    expect(declined.data).toEqual({ declined: true });
+    const lab = (await labByName(DECLINING.labName))!;
+    expect(lab.listing).toBe("invited");
+    expect((await listLabs()).map((l) => l.id)).not.toContain(lab.id);
+    const directory = await call(adminLabs.loader, get("/admin/labs", admin), {});
+    expect(directory.data.labs.map((l: { id: number }) => l.id)).not.toContain(lab.id);
+    const people = await call(adminUsers.loader, get("/admin/users", admin), {});
+    expect(people.data.labs.map((l: { id: number }) => l.id)).not.toContain(lab.id);
+    // The study's labs page keeps the declined row, so the coordinator can invite the lab again from there.
+    const page = await call(labsPage.loader, get(`/studies/${study.id}/labs`, coordinator), { studyId: String(study.id) });
+    expect(page.data.rows.find((r: { id: number }) => r.id === lab.id)).toMatchObject({ listing: "invited", enrollmentState: "declined" });
+  });
+
+  it("is invited again under the same name and contact, and a different contact under that name is told why not", async () => {
+    const lab = (await labByName(DECLINING.labName))!;
+    const other = await createStudyAs(coordinator, { code: "FF-2027-P" });
+    await db.update(studies).set({ state: "recruiting" }).where(eq(studies.id, other.id));
+    const inviteTo = (fields: Record<string, string>) => call(labsPage.action, post(`/studies/${other.id}/labs`, fields, coordinator), { studyId: String(other.id) });
+    const elsewhere = await readReply(await inviteTo({ ...DECLINING, contactEmail: "someone@fallowmere.example" }));
+    expect(elsewhere.errors.labName).toBe("A lab of this name was invited with another contact and has not joined the directory: check the name and the contact with the lab.");
+    expect(await toastOf(await inviteTo(DECLINING))).toMatch(/^Invitation sent to ansel@fallowmere\.example\./);
+    expect((await db.select().from(labs).where(eq(labs.name, DECLINING.labName))).map((l) => l.id)).toEqual([lab.id]);
   });
 });

@@ -10,6 +10,7 @@ import { db } from "~/db/client.server";
 import { enrollments, labs, shipmentItems, shipments, studies } from "~/db/schema";
 import * as packingList from "~/routes/studies/study/packing-list";
 import * as shipmentsPage from "~/routes/studies/study/shipments";
+import * as labsPage from "~/routes/studies/study/labs";
 import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
 import { readReply } from "../support/replies";
 import { call, get, post } from "../support/routes";
@@ -112,6 +113,21 @@ describe("preparing one packing list for every lab awaiting materials", () => {
     const foreign = (await db.select({ id: shipments.id }).from(shipments).innerJoin(enrollments, eq(enrollments.id, shipments.enrollmentId)).where(eq(enrollments.studyId, other.id)))[0]!;
     expect((await open(coordinator, String(foreign.id))).status).toBe(404);
     expect((await open(coordinator, "nonsense")).status).toBe(404);
+  });
+});
+
+describe("a study past its shipping", () => {
+  it("offers the coordinator no shipment or invitation controls, and says why; the admin reads without the reason", async () => {
+    const published = await demoStudy("FF-2025-D");
+    const at = (path: string, cookie: string) => get(`/studies/${published.id}/${path}`, cookie);
+    const shipping = await call(shipmentsPage.loader, at("shipments", coordinator), { studyId: String(published.id) });
+    expect(shipping.data).toMatchObject({ canEdit: false, closedBecause: expect.stringMatching(/published/i) });
+    const open = await call(shipmentsPage.loader, get(`/studies/${testing.id}/shipments`, coordinator), params());
+    expect(open.data).toMatchObject({ canEdit: true, closedBecause: null });
+    const admin = await call(shipmentsPage.loader, at("shipments", await demoCookie("admin@ringbatch.example")), { studyId: String(published.id) });
+    expect(admin.data).toMatchObject({ canEdit: false, closedBecause: null });
+    const inviting = await call(labsPage.loader, get(`/studies/${testing.id}/labs`, coordinator), params());
+    expect(inviting.data).toMatchObject({ canInvite: false, invitationsClosedBecause: "Labs can be invited only while the study is recruiting." });
   });
 });
 

@@ -14,6 +14,8 @@ export type ApiExampleContext = {
   study: ExampleStudy | null;
   /** coordinators and admins: previews and progress; analysts: progress of their own lab */
   coordinates: boolean;
+  /** coordinators and admins: a submitted cell of `study`, written lab code:material code:response key, for the what-if preview */
+  whatIfCell: string | null;
   reviews: boolean;
   /** a published study of theirs, for the statement's bundle */
   published: ExampleStudy | null;
@@ -57,8 +59,11 @@ export function apiExamples(context: ApiExampleContext): ApiExample[] {
         { title: `${study.code}: the analysis tables as a spreadsheet`, command: `curl -s ${AUTH} -o ${study.code}-analysis.xlsx ${base}/analysis.xlsx` },
       );
     }
-    if (context.coordinates) {
-      examples.push({ title: `${study.code}: what the figures would be with one cell left out (nothing is saved)`, command: `curl -s ${AUTH} "${base}/what-if?exclude=LAB:MATERIAL:RESPONSE"` });
+    if (context.whatIfCell) {
+      examples.push({
+        title: `${study.code}: what the figures would be with cell ${context.whatIfCell} left out (nothing is saved)`,
+        command: `curl -s ${AUTH} "${base}/what-if?exclude=${context.whatIfCell}"`,
+      });
     }
   }
   if (published && (context.coordinates || context.reviews)) {

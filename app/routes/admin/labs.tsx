@@ -91,6 +91,11 @@ export default function AdminLabs({ loaderData, actionData }: Route.ComponentPro
         </Form>
       </Card>
       <Card title="Directory">
+        <p className="mb-4">
+          A lab a coordinator invites from outside the directory joins it only when its contact accepts, and then shows here marked "New — check for
+          duplicates". Until then, and after a decline, it is in no list of labs: only the labs page of the study that invited it shows it, from where the
+          coordinator may invite it again.
+        </p>
         <FormErrors errors={checkRefusal} />
         <SimpleTable
           caption="All labs"

@@ -35,6 +35,9 @@ const REPLICATE_OPTIONS = [
   { value: "1", label: "One result per run (effects tested against the dummy columns)" },
 ];
 
+/** The table's input columns, in order; each field's label reads "Factor 2 unit". */
+const FACTOR_FIELDS = ["name", "unit", "low", "high"] as const;
+
 export default function Factors({ loaderData, actionData }: Route.ComponentProps) {
   const { setup, canEdit, designRefusal } = loaderData;
   const locked = designRefusal !== null || setup.resultCount > 0;
@@ -63,52 +66,48 @@ export default function Factors({ loaderData, actionData }: Route.ComponentProps
       <Card title="Factors and settings">
         <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
           <FormErrors errors={[...(form.errors ?? []), ...(fields.factors.errors ?? [])]} />
-          <fieldset disabled={locked || !canEdit} className="flex flex-col gap-4">
-            <div className="max-w-xl">
-              <SelectField label="Results per run" options={REPLICATE_OPTIONS} {...fieldProps(fields.replicates)} />
-            </div>
-            <table className="w-full border-collapse text-left">
-              <caption className="sr-only">Factors, one per design column</caption>
-              <thead>
-                <tr className="border-b-2 border-basalt-200">
-                  {["Column", "Factor", "Unit", "Low setting (−)", "High setting (+)"].map((h) => (
-                    <th key={h} scope="col" className="px-2 py-2 font-semibold text-basalt-800">
-                      {h}
-                    </th>
-                  ))}
-                </tr>
-              </thead>
-              <tbody>
-                {fields.factors.getFieldList().map((row, i) => {
-                  const f = row.getFieldset();
-                  return (
-                    <tr key={row.key} className="border-b border-basalt-100 align-top">
-                      <th scope="row" className="px-2 py-2 font-semibold">
-                        {i + 1}
+          {/* On a phone the factor table scrolls sideways inside the card; the region sits outside the fieldset, which may be disabled, so a keyboard can always scroll it. */}
+          <div className="overflow-x-auto" role="region" aria-label="Factors, one per design column" tabIndex={0}>
+            <fieldset disabled={locked || !canEdit} className="flex min-w-0 flex-col gap-4">
+              <div className="max-w-xl">
+                <SelectField label="Results per run" options={REPLICATE_OPTIONS} {...fieldProps(fields.replicates)} />
+              </div>
+              <table className="w-full border-collapse text-left">
+                <caption className="sr-only">Factors, one per design column</caption>
+                <thead>
+                  <tr className="border-b-2 border-basalt-200">
+                    {["Column", "Factor", "Unit", "Low setting (−)", "High setting (+)"].map((h) => (
+                      <th key={h} scope="col" className="px-2 py-2 font-semibold text-basalt-800">
+                        {h}
                       </th>
-                      <td className="px-2 py-1">
-                        <Field label={`Factor ${i + 1} name`} {...fieldProps(f.name)} />
-                      </td>
-                      <td className="px-2 py-1">
-                        <Field label={`Factor ${i + 1} unit`} {...fieldProps(f.unit)} />
-                      </td>
-                      <td className="px-2 py-1">
-                        <Field label={`Factor ${i + 1} low`} {...fieldProps(f.low)} />
-                      </td>
-                      <td className="px-2 py-1">
-                        <Field label={`Factor ${i + 1} high`} {...fieldProps(f.high)} />
-                      </td>
-                    </tr>
-                  );
-                })}
-              </tbody>
-            </table>
-            <div>
-              <Button type="submit" disabled={busy}>
-                {busy ? "Laying out…" : setup.plan ? "Save and lay out the design again" : "Save and lay out the design"}
-              </Button>
-            </div>
-          </fieldset>
+                    ))}
+                  </tr>
+                </thead>
+                <tbody>
+                  {fields.factors.getFieldList().map((row, i) => {
+                    const f = row.getFieldset();
+                    return (
+                      <tr key={row.key} className="border-b border-basalt-100 align-top">
+                        <th scope="row" className="px-2 py-2 font-semibold">
+                          {i + 1}
+                        </th>
+                        {FACTOR_FIELDS.map((key) => (
+                          <td key={key} className="px-2 py-1">
+                            <Field label={`Factor ${i + 1} ${key}`} {...fieldProps(f[key])} />
+                          </td>
+                        ))}
+                      </tr>
+                    );
+                  })}
+                </tbody>
+              </table>
+              <div>
+                <Button type="submit" disabled={busy}>
+                  {busy ? "Laying out…" : setup.plan ? "Save and lay out the design again" : "Save and lay out the design"}
+                </Button>
+              </div>
+            </fieldset>
+          </div>
         </Form>
       </Card>
     </div>

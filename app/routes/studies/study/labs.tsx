@@ -11,7 +11,7 @@ import { formatDate } from "~/lib/format";
 import { ENROLLMENT_STATE } from "~/lib/state-labels";
 import { labsForms, labsSchema } from "~/lib/study-forms";
 import { RECOMMENDED_MIN_LABS } from "~/lib/study-lifecycle";
-import { mayWrite } from "~/lib/write-rules";
+import { mayWrite, writeRefusal } from "~/lib/write-rules";
 import { ConfirmStep } from "~/components/confirm-dialog";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { inviteLab, inviteOutsideLab, listStudyEnrollments, withdrawEnrollment } from "~/models/invitation.server";
@@ -45,6 +45,7 @@ export async function loader({ context }: Route.LoaderArgs) {
     rows,
     accepted: enrolled.filter((e) => e.state === "accepted").length,
     canInvite: access === "coordinator" && mayWrite("invitations", study.state),
+    invitationsClosedBecause: access === "coordinator" && study.state !== "draft" ? writeRefusal("invitations", study.state) : null,
     canWithdraw: access === "coordinator" && mayWrite("withdrawals", study.state),
   };
 }
@@ -71,7 +72,7 @@ export async function action({ request, context }: Route.ActionArgs) {
 }
 
 export default function StudyLabs({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, rows, accepted, canInvite, canWithdraw } = loaderData;
+  const { study, rows, accepted, canInvite, invitationsClosedBecause, canWithdraw } = loaderData;
   const inviteRefusal = refusalOf(actionData, "invite");
   const withdrawable = rows
     .filter((l) => l.enrollmentState === "invited" || l.enrollmentState === "accepted")
@@ -81,6 +82,7 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
     <div className="flex flex-col gap-4">
       <FormErrors errors={inviteRefusal} />
       {!canInvite && study.state === "draft" && <Notice>Open recruiting on the setup page to invite labs.</Notice>}
+      {invitationsClosedBecause && <Notice>{invitationsClosedBecause}</Notice>}
       <p>
         {accepted} {accepted === 1 ? "lab has" : "labs have"} accepted.
         {accepted < RECOMMENDED_MIN_LABS && ` A precision statement usually needs at least ${RECOMMENDED_MIN_LABS} labs.`}
@@ -100,7 +102,7 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
                   {l.name}
                   {l.listing === "invited" && (
                     <span className="block">
-                      <Badge>Not in the directory yet</Badge>
+                      <Badge>{l.enrollmentState === "declined" ? "Declined: stays out of the directory" : "Not in the directory yet"}</Badge>
                     </span>
                   )}
                 </>
@@ -159,7 +161,8 @@ export default function StudyLabs({ loaderData, actionData }: Route.ComponentPro
         <Card title="Invite a lab that is not in the directory">
           <p className="mb-4">
             The invitation goes to the contact's e-mail address. When the contact accepts, they set their password and the lab joins the directory; an
-            administrator checks it is not a lab already listed under another name.
+            administrator checks it is not a lab already listed under another name. If the contact declines, the lab stays out of the directory and
+            keeps its row here, so you can invite it again.
           </p>
           {/* A new row after a sent invitation starts the form afresh. */}
           <OutsideLabForm key={rows.length} reply={actionData} busy={busy} />

@@ -125,21 +125,27 @@ export default function StudyResults({ loaderData }: Route.ComponentProps) {
         )}
       </Card>
       <Card title="Audit trail">
-        <p className="mb-2 text-basalt-700">
-          Every submission, amendment, import and answer, newest first. {audit.total} {audit.total === 1 ? "event" : "events"}; page {audit.page} of{" "}
-          {audit.pageCount}.
-        </p>
-        <SimpleTable
-          caption="Audit trail of the study"
-          headers={["When", "Who", "What happened"]}
-          rows={audit.events.map((e) => [
-            <span key="when" className="whitespace-nowrap tabular-nums">
-              {formatDateTime(e.createdAt)}
-            </span>,
-            e.actorName ?? "—",
-            describeAuditEvent(e),
-          ])}
-        />
+        {audit.total === 0 ? (
+          <p className="text-basalt-700">Every submission, amendment, import and answer is listed here, newest first. Nothing has been recorded yet.</p>
+        ) : (
+          <>
+            <p className="mb-2 text-basalt-700">
+              Every submission, amendment, import and answer, newest first. {audit.total} {audit.total === 1 ? "event" : "events"}; page {audit.page} of{" "}
+              {audit.pageCount}.
+            </p>
+            <SimpleTable
+              caption="Audit trail of the study"
+              headers={["When", "Who", "What happened"]}
+              rows={audit.events.map((e) => [
+                <span key="when" className="whitespace-nowrap tabular-nums">
+                  {formatDateTime(e.createdAt)}
+                </span>,
+                e.actorName ?? "—",
+                describeAuditEvent(e),
+              ])}
+            />
+          </>
+        )}
         <nav aria-label="Audit trail pages" className="mt-3 flex gap-4">
           {audit.page > 1 && (
             <Link to={pageLink(material, labsPage, audit.page - 1)} className="font-semibold text-basalt-700 underline">

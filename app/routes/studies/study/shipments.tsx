@@ -8,13 +8,14 @@ import { fieldProps, FormErrors, formWideErrors, refusalOf, replyAbout, useSchem
 import { PackingItemsTable } from "~/components/packing-list";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Badge, Button, Card, Field, SelectField, TextAreaField } from "~/components/ui";
+import { Badge, Button, Card, Field, Notice, SelectField, TextAreaField } from "~/components/ui";
 import { MaterialsCaution } from "~/components/cautions";
 import { formatDate, todayIso } from "~/lib/format";
 import { packingSummary, UNIT_CHOICES } from "~/lib/packing-list";
 import { SHIPMENT_STATE } from "~/lib/state-labels";
 import { shipmentForms, shipmentsSchema } from "~/lib/study-forms";
 import { studyPageMeta } from "~/lib/study-page-meta";
+import { mayWrite, writeRefusal } from "~/lib/write-rules";
 import { labsAwaitingShipment, listStudyShipments, markLost, markShipped, prepareShipments, studyStartingPackingList } from "~/models/shipment.server";
 import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
@@ -32,7 +33,9 @@ export async function loader({ context }: Route.LoaderArgs) {
     awaiting: awaiting.map((lab) => ({ value: String(lab.enrollmentId), label: `${lab.labCode ?? "—"} · ${lab.labName}` })),
     shipments: list,
     startingList,
-    canEdit: access === "coordinator",
+    canEdit: access === "coordinator" && mayWrite("shipments", study.state),
+    // Why a coordinator sees no shipment controls in this state; admins read only and are told nothing.
+    closedBecause: access === "coordinator" ? writeRefusal("shipments", study.state) : null,
     today: todayIso(),
   };
 }
@@ -66,11 +69,12 @@ export async function action({ request, context }: Route.ActionArgs) {
 type Shipment = Route.ComponentProps["loaderData"]["shipments"][number];
 
 export default function Shipments({ loaderData, actionData }: Route.ComponentProps) {
-  const { study, awaiting, startingList, shipments, canEdit, today } = loaderData;
+  const { study, awaiting, startingList, shipments, canEdit, closedBecause, today } = loaderData;
   const busy = useNavigation().state === "submitting";
   return (
     <div className="flex flex-col gap-6">
       <MaterialsCaution packing />
+      {closedBecause && <Notice>{closedBecause}</Notice>}
       {canEdit && (
         <Card title="Prepare shipments">
           {awaiting.length === 0 ? (
@@ -103,7 +107,21 @@ export default function Shipments({ loaderData, actionData }: Route.ComponentPro
                 </>
               ),
             },
-            { id: "carrier", header: "Carrier and tracking", value: (s) => [s.carrier, s.trackingNumber].filter(Boolean).join(" · ") || null },
+            {
+              id: "carrier",
+              header: "Carrier and tracking",
+              value: (s) => [s.carrier, s.trackingNumber].filter(Boolean).join(" · ") || null,
+              // The tracking number on its own line, whole: a number split at its hyphen cannot be read out to the carrier.
+              cell: (s) =>
+                s.carrier || s.trackingNumber ? (
+                  <>
+                    {s.carrier}
+                    {s.trackingNumber && <span className="keep-whole block">{s.trackingNumber}</span>}
+                  </>
+                ) : (
+                  "—"
+                ),
+            },
             {
               id: "items",
               header: "Items",
