@@ -1,5 +1,4 @@
 import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/assigned-values";
 import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
@@ -9,7 +8,7 @@ import { Button, Card, Field, Notice, SelectField } from "~/components/ui";
 import { figureDecimals, formatFigure } from "~/lib/review/format";
 import { assignmentSchema } from "~/lib/round-forms";
 import { hasPublishedPrecision, roundDesign, saveAssignment, scoreRound } from "~/models/round.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 import { writeRefusal } from "~/lib/write-rules";
@@ -35,11 +34,7 @@ export async function loader({ context }: Route.LoaderArgs) {
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireRound(context, ["coordinator"]);
-  const submission = parseWithZod(await request.formData(), { schema: assignmentSchema });
-  if (submission.status !== "success") return refuse(submission);
-  const saved = await withRefusals(submission, () => saveAssignment(study, user.id, submission.value));
-  if (!saved.ok) return saved.reply;
-  return redirectWithToast(`/rounds/${study.id}/assigned-values`, "Choice saved.");
+  return submitForm(request, assignmentSchema, (value) => saveAssignment(study, user.id, value), () => redirectWithToast(`/rounds/${study.id}/assigned-values`, "Choice saved."));
 }
 
 type Group = Route.ComponentProps["loaderData"]["groups"][number];

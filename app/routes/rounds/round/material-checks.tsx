@@ -1,5 +1,4 @@
 import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/material-checks";
 import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
@@ -10,7 +9,7 @@ import { Badge, Button, Card, Notice, TextAreaField } from "~/components/ui";
 import { figureDecimals, formatFigure } from "~/lib/review/format";
 import { checksSchema } from "~/lib/round-forms";
 import { roundDesign, saveChecks, scoreRound } from "~/models/round.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 import { writeRefusal } from "~/lib/write-rules";
@@ -31,11 +30,7 @@ export async function loader({ context }: Route.LoaderArgs) {
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireRound(context, ["coordinator"]);
-  const submission = parseWithZod(await request.formData(), { schema: checksSchema });
-  if (submission.status !== "success") return refuse(submission);
-  const saved = await withRefusals(submission, () => saveChecks(study, user.id, submission.value));
-  if (!saved.ok) return saved.reply;
-  return redirectWithToast(`/rounds/${study.id}/material-checks`, "Check results saved.");
+  return submitForm(request, checksSchema, (value) => saveChecks(study, user.id, value), () => redirectWithToast(`/rounds/${study.id}/material-checks`, "Check results saved."));
 }
 
 type Group = Route.ComponentProps["loaderData"]["groups"][number];
