@@ -11,7 +11,7 @@ import * as newStudy from "~/routes/studies/new";
 import * as setupPage from "~/routes/studies/study/setup";
 import * as studyResults from "~/routes/studies/study/results";
 import { DEMO_LABS } from "../../seed/demo-data";
-import { demoCookie, demoEnrollment, demoStudy, materialIdsByCode, useDemoDatabase } from "../support/demo";
+import { demoCookie, demoEnrollment, demoStudy, useDemoStudyInTesting } from "../support/demo";
 import { entryChanges } from "../support/entry-draft";
 import { errorsOf, toastOf } from "../support/replies";
 import { call, get, post } from "../support/routes";
@@ -21,10 +21,7 @@ let f1: string;
 let f2: string;
 
 beforeAll(async () => {
-  await useDemoDatabase();
-  const study = await demoStudy("FF-2026-B");
-  studyId = String(study.id);
-  ({ F1: f1, F2: f2 } = (await materialIdsByCode(study.id)) as Record<"F1" | "F2", string>);
+  ({ studyId, f1, f2 } = await useDemoStudyInTesting());
 });
 
 const enrollmentOf = (labIndex: number) => demoEnrollment(Number(studyId), labIndex);

@@ -7,7 +7,7 @@ import * as labStudyFrame from "~/routes/lab/study/layout";
 import * as entry from "~/routes/lab/study/result-entry";
 import * as studyResults from "~/routes/studies/study/results";
 import { DEMO_LABS } from "../../seed/demo-data";
-import { demoCookie, demoEnrollment, demoStudy, materialIdsByCode, useDemoDatabase } from "../support/demo";
+import { demoCookie, demoEnrollment, useDemoStudyInTesting } from "../support/demo";
 import { entryChanges } from "../support/entry-draft";
 import { call, get, post } from "../support/routes";
 import { errorsOf, toastOf } from "../support/replies";
@@ -17,10 +17,7 @@ let f1: string;
 let f2: string;
 
 beforeAll(async () => {
-  await useDemoDatabase();
-  const study = await demoStudy("FF-2026-B");
-  studyId = String(study.id);
-  ({ F1: f1, F2: f2 } = (await materialIdsByCode(study.id)) as Record<"F1" | "F2", string>);
+  ({ studyId, f1, f2 } = await useDemoStudyInTesting());
 });
 
 /** The changes the page would send for these edits, read as `cookie` from material `materialId`. */

@@ -32,6 +32,17 @@ export async function materialIdsByCode(studyId: number) {
   return Object.fromEntries(rows.map((m) => [m.code, String(m.id)]));
 }
 
+/**
+ * The demo database with FF-2026-B, the study in testing, as the lab pages'
+ * tests use it: its id and the ids of its materials F1 and F2, as route params.
+ */
+export async function useDemoStudyInTesting() {
+  await useDemoDatabase();
+  const study = await demoStudy("FF-2026-B");
+  const ids = await materialIdsByCode(study.id);
+  return { studyId: String(study.id), f1: ids.F1!, f2: ids.F2! };
+}
+
 /** The enrollment in a study of the demo lab `DEMO_LABS[labIndex]`. */
 export async function demoEnrollment(studyId: number, labIndex: number) {
   const lab = await db.query.labs.findFirst({ where: eq(labs.name, DEMO_LABS[labIndex]!.name) });
