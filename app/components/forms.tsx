@@ -60,29 +60,40 @@ export function NewPasswordFields({ label, password, confirm }: { label: string;
 }
 
 /**
- * A page's form that posts to its action: the form-wide errors first, the
- * fields, then the submit button, which waits (and may say so) while the
- * request is on its way.
+ * A page's form that posts to its action: hidden fields (an intent, the ids
+ * it is about), the form-wide errors, the fields, then the submit button,
+ * which waits (and may say so) while the request is on its way. In a grid,
+ * `errorsClassName` and `submitClassName` place the errors and the button.
  */
 export function PostForm<Fields extends Record<string, unknown>>({
   form,
   submitLabel,
   busyLabel = submitLabel,
   className = "flex flex-col gap-4",
+  hidden = {},
+  errorsClassName,
+  submitClassName,
   children,
 }: {
   form: FormMetadata<Fields, string[]>;
   submitLabel: string;
   busyLabel?: string;
   className?: string;
+  hidden?: Record<string, string | number>;
+  errorsClassName?: string;
+  submitClassName?: string;
   children: ReactNode;
 }) {
   const busy = useNavigation().state === "submitting";
+  const errors = <FormErrors errors={form.errors} />;
   return (
     <Form method="post" className={className} {...getFormProps(form)}>
-      <FormErrors errors={form.errors} />
+      {Object.entries(hidden).map(([name, value]) => (
+        <input key={name} type="hidden" name={name} value={value} />
+      ))}
+      {errorsClassName ? <div className={errorsClassName}>{errors}</div> : errors}
       {children}
-      <div>
+      <div className={submitClassName}>
         <Button type="submit" disabled={busy}>
           {busy ? busyLabel : submitLabel}
         </Button>

@@ -1,10 +1,8 @@
-import { getFormProps } from "@conform-to/react";
-import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/assigned-values";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, PostForm, useSchemaForm } from "~/components/forms";
 import { replyFor } from "~/components/round-parts";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Button, Card, Field, Notice, SelectField } from "~/components/ui";
+import { Card, Field, Notice, SelectField } from "~/components/ui";
 import { figureDecimals, formatFigure } from "~/lib/review/format";
 import { assignmentSchema } from "~/lib/round-forms";
 import { hasPublishedPrecision, roundDesign, saveAssignment, scoreRound } from "~/models/round.server";
@@ -52,7 +50,6 @@ function AssignmentForm({ group, editable, reply }: { group: Group; editable: bo
       fixedSigma: assignment?.fixedSigma?.toString() ?? "",
     },
   });
-  const busy = useNavigation().state === "submitting";
   const d = figureDecimals(response.decimals);
   const unit = response.unit ? ` ${response.unit}` : "";
   return (
@@ -85,13 +82,14 @@ function AssignmentForm({ group, editable, reply }: { group: Group; editable: bo
         <Notice tone="caution">u(x_pt) exceeds 0.3·σ_pt (ISO 13528 9.2.1): labs are judged by z′, which allows for it.</Notice>
       )}
       {editable && (
-        <Form method="post" className="mt-4 grid gap-3 sm:grid-cols-2" {...getFormProps(form)}>
-          <input type="hidden" name="intent" value="assignment" />
-          <input type="hidden" name="materialId" value={material.id} />
-          <input type="hidden" name="responseId" value={response.id} />
-          <div className="sm:col-span-2">
-            <FormErrors errors={form.errors} />
-          </div>
+        <PostForm
+          form={form}
+          submitLabel="Save choice"
+          className="mt-4 grid gap-3 sm:grid-cols-2"
+          hidden={{ intent: "assignment", materialId: material.id, responseId: response.id }}
+          errorsClassName="sm:col-span-2"
+          submitClassName="self-end"
+        >
           <SelectField
             label="Assigned value"
             {...fieldProps(fields.assignedMethod)}
@@ -112,12 +110,7 @@ function AssignmentForm({ group, editable, reply }: { group: Group; editable: bo
           <Field label="Reference value" inputMode="decimal" hint="Only with a reference value." {...fieldProps(fields.referenceValue)} />
           <Field label="Its standard uncertainty" inputMode="decimal" {...fieldProps(fields.referenceUncertainty)} />
           <Field label="Fixed σ_pt" inputMode="decimal" hint="Only with a fixed value." {...fieldProps(fields.fixedSigma)} />
-          <div className="self-end">
-            <Button type="submit" disabled={busy}>
-              Save choice
-            </Button>
-          </div>
-        </Form>
+        </PostForm>
       )}
     </Card>
   );

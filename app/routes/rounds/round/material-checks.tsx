@@ -1,11 +1,9 @@
-import { getFormProps } from "@conform-to/react";
-import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/material-checks";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, PostForm, useSchemaForm } from "~/components/forms";
 import { ConcreteCaution } from "~/components/cautions";
 import { replyFor } from "~/components/round-parts";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Badge, Button, Card, Notice, TextAreaField } from "~/components/ui";
+import { Badge, Card, Notice, TextAreaField } from "~/components/ui";
 import { figureDecimals, formatFigure } from "~/lib/review/format";
 import { checksSchema } from "~/lib/round-forms";
 import { roundDesign, saveChecks, scoreRound } from "~/models/round.server";
@@ -50,7 +48,6 @@ function ChecksForm({ group, editable, reply }: { group: Group; editable: boolea
       justification: scored.justification,
     },
   });
-  const busy = useNavigation().state === "submitting";
   const d = figureDecimals(response.decimals);
   const { homogeneity, stability } = scored;
   return (
@@ -84,13 +81,13 @@ function ChecksForm({ group, editable, reply }: { group: Group; editable: boolea
         <Notice tone="caution">Scores cannot be published until both checks meet their criteria or a justification is recorded below.</Notice>
       )}
       {editable && (
-        <Form method="post" className="mt-4 grid gap-3 md:grid-cols-2" {...getFormProps(form)}>
-          <input type="hidden" name="intent" value="checks" />
-          <input type="hidden" name="materialId" value={material.id} />
-          <input type="hidden" name="responseId" value={response.id} />
-          <div className="md:col-span-2">
-            <FormErrors errors={form.errors} />
-          </div>
+        <PostForm
+          form={form}
+          submitLabel="Save check results"
+          className="mt-4 grid gap-3 md:grid-cols-2"
+          hidden={{ intent: "checks", materialId: material.id, responseId: response.id }}
+          errorsClassName="md:col-span-2"
+        >
           <TextAreaField
             label="Homogeneity: two results per sample"
             rows={8}
@@ -111,12 +108,7 @@ function ChecksForm({ group, editable, reply }: { group: Group; editable: boolea
               {...fieldProps(fields.justification)}
             />
           </div>
-          <div>
-            <Button type="submit" disabled={busy}>
-              Save check results
-            </Button>
-          </div>
-        </Form>
+        </PostForm>
       )}
     </Card>
   );
