@@ -1,6 +1,6 @@
 import type { Route } from "./+types/assigned-values";
 import { fieldProps, PostForm, useSchemaForm } from "~/components/forms";
-import { replyFor } from "~/components/round-parts";
+import { groupFields, replyFor } from "~/components/round-parts";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Card, Field, Notice, SelectField } from "~/components/ui";
 import { figureDecimals, formatFigure } from "~/lib/review/format";
@@ -82,14 +82,7 @@ function AssignmentForm({ group, editable, reply }: { group: Group; editable: bo
         <Notice tone="caution">u(x_pt) exceeds 0.3·σ_pt (ISO 13528 9.2.1): labs are judged by z′, which allows for it.</Notice>
       )}
       {editable && (
-        <PostForm
-          form={form}
-          submitLabel="Save choice"
-          className="mt-4 grid gap-3 sm:grid-cols-2"
-          hidden={{ intent: "assignment", materialId: material.id, responseId: response.id }}
-          errorsClassName="sm:col-span-2"
-          submitClassName="self-end"
-        >
+        <PostForm form={form} submitLabel="Save choice" hidden={groupFields("assignment", group)} className="mt-4 grid gap-3 sm:grid-cols-2" errorsClassName="sm:col-span-2" submitClassName="self-end">
           <SelectField
             label="Assigned value"
             {...fieldProps(fields.assignedMethod)}

@@ -1,7 +1,7 @@
 import type { Route } from "./+types/material-checks";
 import { fieldProps, PostForm, useSchemaForm } from "~/components/forms";
 import { ConcreteCaution } from "~/components/cautions";
-import { replyFor } from "~/components/round-parts";
+import { groupFields, replyFor } from "~/components/round-parts";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Badge, Card, Notice, TextAreaField } from "~/components/ui";
 import { figureDecimals, formatFigure } from "~/lib/review/format";
@@ -81,13 +81,7 @@ function ChecksForm({ group, editable, reply }: { group: Group; editable: boolea
         <Notice tone="caution">Scores cannot be published until both checks meet their criteria or a justification is recorded below.</Notice>
       )}
       {editable && (
-        <PostForm
-          form={form}
-          submitLabel="Save check results"
-          className="mt-4 grid gap-3 md:grid-cols-2"
-          hidden={{ intent: "checks", materialId: material.id, responseId: response.id }}
-          errorsClassName="md:col-span-2"
-        >
+        <PostForm form={form} submitLabel="Save check results" hidden={groupFields("checks", group)} className="mt-4 grid gap-3 md:grid-cols-2" errorsClassName="md:col-span-2">
           <TextAreaField
             label="Homogeneity: two results per sample"
             rows={8}
