@@ -3,10 +3,12 @@
  * schema its action parses, errors appear beside their fields, and what was
  * typed stays after a refusal.
  */
-import { type DefaultValue, type FieldMetadata, type SubmissionResult, useForm } from "@conform-to/react";
+import { type DefaultValue, type FieldMetadata, type FormMetadata, getFormProps, type SubmissionResult, useForm } from "@conform-to/react";
 import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
+import type { ReactNode } from "react";
+import { Form, useNavigation } from "react-router";
 import type { z } from "zod";
-import { Field, Notice } from "~/components/ui";
+import { Button, Field, Notice } from "~/components/ui";
 
 /** What an action returns when it refuses a form (see `refuse` in form-reply.server). */
 export type FormReply = { result?: SubmissionResult<string[]> } | undefined | null;
@@ -54,6 +56,49 @@ export function NewPasswordFields({ label, password, confirm }: { label: string;
       <Field label={label} type="password" autoComplete="new-password" hint="At least 12 characters" {...fieldProps(password)} />
       <Field label="Repeat the password" type="password" autoComplete="new-password" {...fieldProps(confirm)} />
     </>
+  );
+}
+
+/**
+ * A page's form that posts to its action: hidden fields (an intent, the ids
+ * it is about), the form-wide errors, the fields, then the submit button,
+ * which waits (and may say so) while the request is on its way. In a grid,
+ * `errorsClassName` and `submitClassName` place the errors and the button.
+ */
+export function PostForm<Fields extends Record<string, unknown>>({
+  form,
+  submitLabel,
+  busyLabel = submitLabel,
+  className = "flex flex-col gap-4",
+  hidden = {},
+  errorsClassName,
+  submitClassName,
+  children,
+}: {
+  form: FormMetadata<Fields, string[]>;
+  submitLabel: string;
+  busyLabel?: string;
+  className?: string;
+  hidden?: Record<string, string | number>;
+  errorsClassName?: string;
+  submitClassName?: string;
+  children: ReactNode;
+}) {
+  const busy = useNavigation().state === "submitting";
+  const errors = <FormErrors errors={form.errors} />;
+  return (
+    <Form method="post" className={className} {...getFormProps(form)}>
+      {Object.entries(hidden).map(([name, value]) => (
+        <input key={name} type="hidden" name={name} value={value} />
+      ))}
+      {errorsClassName ? <div className={errorsClassName}>{errors}</div> : errors}
+      {children}
+      <div className={submitClassName}>
+        <Button type="submit" disabled={busy}>
+          {busy ? busyLabel : submitLabel}
+        </Button>
+      </div>
+    </Form>
   );
 }
 

@@ -1,6 +1,9 @@
 import type { ReactNode } from "react";
 import { Link } from "react-router";
+import { StateBadge } from "~/components/state-badge";
 import { Card, PageHeader, SimpleTable } from "~/components/ui";
+import type { StudyState } from "~/db/values";
+import { STUDY_STATE } from "~/lib/state-labels";
 
 /**
  * A page that lists one kind of record: heading, an optional link to start a new
@@ -39,4 +42,18 @@ export function ListPage({
       <Card>{rows.length === 0 ? <p>{empty}</p> : <SimpleTable caption={caption} headers={headers} rows={rows} />}</Card>
     </>
   );
+}
+
+/** A row's first cell: what names the record (its code), linking to its page. */
+export function recordLink(to: string, text: string) {
+  return (
+    <Link key="record" to={to} className="keep-whole font-semibold text-basalt-700 underline">
+      {text}
+    </Link>
+  );
+}
+
+/** A row's cell for a study's (or round's) state. */
+export function stateCell(state: StudyState) {
+  return <StateBadge key="state" view={STUDY_STATE[state]} />;
 }

@@ -26,3 +26,8 @@ export function replyFor(reply: unknown, materialId: number, responseId: number)
   const initial = (reply as FormReply)?.result?.initialValue as Record<string, unknown> | undefined;
   return initial?.materialId === String(materialId) && initial?.responseId === String(responseId) ? (reply as FormReply) : undefined;
 }
+
+/** The hidden fields of a form about one material × response of the round: the action's intent and the cell's ids. */
+export function groupFields(intent: string, { material, response }: { material: { id: number }; response: { id: number } }) {
+  return { intent, materialId: material.id, responseId: response.id };
+}

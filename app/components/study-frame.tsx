@@ -22,6 +22,16 @@ export function frameStudy({ id, code, title, state }: { id: number; code: strin
   return { id, code, title, state };
 }
 
+/**
+ * The whole component of a parent route whose loader returns `{ study: frameStudy(…) }`
+ * and whose tabs are fixed: `pages` under `${base}/${study.id}`.
+ */
+export function framedStudyLayout(base: string, pages: [path: string, label: string][]) {
+  return function FramedStudyLayout({ loaderData }: { loaderData: { study: ReturnType<typeof frameStudy> } }) {
+    return <StudyFrame study={loaderData.study} tabs={tabsUnder(`${base}/${loaderData.study.id}`, pages)} />;
+  };
+}
+
 /** The name of the deepest page that gives one, for the heading "Results — FF-2026-A". */
 function usePageTitle() {
   const matches = useMatches();

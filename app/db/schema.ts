@@ -19,6 +19,11 @@ import { LAB_LISTINGS, PASSWORD_LINK_PURPOSES, ROLES, STUDY_KINDS, STUDY_STATES,
 
 export * from "./values";
 
+/** The owner's id in a row that goes with its study, user or enrollment when that is deleted. */
+const studyIdColumn = () => integer("study_id").notNull().references(() => studies.id, { onDelete: "cascade" });
+const userIdColumn = () => integer("user_id").notNull().references(() => users.id, { onDelete: "cascade" });
+const enrollmentIdColumn = () => integer("enrollment_id").notNull().references(() => enrollments.id, { onDelete: "cascade" });
+
 const createdAt = () =>
   integer("created_at", { mode: "timestamp_ms" })
     .notNull()
@@ -39,9 +44,7 @@ export const users = sqliteTable("users", {
 export const userRoles = sqliteTable(
   "user_roles",
   {
-    userId: integer("user_id")
-      .notNull()
-      .references(() => users.id, { onDelete: "cascade" }),
+    userId: userIdColumn(),
     role: text("role", { enum: ROLES }).notNull(),
   },
   (t) => [primaryKey({ columns: [t.userId, t.role] })],
@@ -71,9 +74,7 @@ export const labMembers = sqliteTable(
     labId: integer("lab_id")
       .notNull()
       .references(() => labs.id, { onDelete: "cascade" }),
-    userId: integer("user_id")
-      .notNull()
-      .references(() => users.id, { onDelete: "cascade" }),
+    userId: userIdColumn(),
     /** The lab's contact receives invitations and may add colleagues. */
     isContact: integer("is_contact", { mode: "boolean" }).notNull().default(false),
   },
@@ -85,9 +86,7 @@ export const passwordTokens = sqliteTable(
   "password_tokens",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    userId: integer("user_id")
-      .notNull()
-      .references(() => users.id, { onDelete: "cascade" }),
+    userId: userIdColumn(),
     tokenHash: text("token_hash").notNull().unique(),
     /** A first password (`welcome`, 14 days) or a forgotten one (`reset`, 30 minutes). */
     purpose: text("purpose", { enum: PASSWORD_LINK_PURPOSES }).notNull().default("welcome"),
@@ -132,12 +131,8 @@ export type Study = typeof studies.$inferSelect;
 export const studyCoordinators = sqliteTable(
   "study_coordinators",
   {
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
-    userId: integer("user_id")
-      .notNull()
-      .references(() => users.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
+    userId: userIdColumn(),
   },
   (t) => [primaryKey({ columns: [t.studyId, t.userId] }), index("study_coordinators_user").on(t.userId)],
 );
@@ -145,12 +140,8 @@ export const studyCoordinators = sqliteTable(
 export const studyReviewers = sqliteTable(
   "study_reviewers",
   {
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
-    userId: integer("user_id")
-      .notNull()
-      .references(() => users.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
+    userId: userIdColumn(),
   },
   (t) => [primaryKey({ columns: [t.studyId, t.userId] }), index("study_reviewers_user").on(t.userId)],
 );
@@ -159,9 +150,7 @@ export const responses = sqliteTable(
   "responses",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
     /** Short key used in CSV files and the API, e.g. `holes`. */
     key: text("key").notNull(),
     name: text("name").notNull(),
@@ -178,9 +167,7 @@ export const responses = sqliteTable(
 export const freshPropertyTargets = sqliteTable(
   "fresh_property_targets",
   {
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
     property: text("property", { enum: FRESH_PROPERTIES }).notNull(),
     /** SI values: mm, %, kg/m³, °C. */
     target: real("target").notNull(),
@@ -193,9 +180,7 @@ export const materials = sqliteTable(
   "materials",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
     code: text("code").notNull(),
     description: text("description").notNull().default(""),
     sortOrder: integer("sort_order").notNull().default(0),
@@ -232,9 +217,7 @@ export const enrollments = sqliteTable(
   "enrollments",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
     labId: integer("lab_id")
       .notNull()
       .references(() => labs.id),
@@ -258,9 +241,7 @@ export const invitations = sqliteTable(
   "invitations",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    enrollmentId: integer("enrollment_id")
-      .notNull()
-      .references(() => enrollments.id, { onDelete: "cascade" }),
+    enrollmentId: enrollmentIdColumn(),
     email: text("email").notNull(),
     /** SHA-256 of the token; the token itself exists only in the e-mail. */
     tokenHash: text("token_hash").notNull().unique(),
@@ -274,9 +255,7 @@ export const shipments = sqliteTable(
   "shipments",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    enrollmentId: integer("enrollment_id")
-      .notNull()
-      .references(() => enrollments.id, { onDelete: "cascade" }),
+    enrollmentId: enrollmentIdColumn(),
     status: text("status", { enum: SHIPMENT_STATUSES }).notNull().default("preparing"),
     /** Anything the items do not say; shipments from before the itemised list keep their free-text contents here. */
     note: text("note").notNull().default(""),
@@ -315,9 +294,7 @@ export const batches = sqliteTable(
   "batches",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    enrollmentId: integer("enrollment_id")
-      .notNull()
-      .references(() => enrollments.id, { onDelete: "cascade" }),
+    enrollmentId: enrollmentIdColumn(),
     materialId: integer("material_id")
       .notNull()
       .references(() => materials.id, { onDelete: "cascade" }),
@@ -340,9 +317,7 @@ export const cells = sqliteTable(
   "cells",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    enrollmentId: integer("enrollment_id")
-      .notNull()
-      .references(() => enrollments.id, { onDelete: "cascade" }),
+    enrollmentId: enrollmentIdColumn(),
     materialId: integer("material_id")
       .notNull()
       .references(() => materials.id, { onDelete: "cascade" }),
@@ -471,9 +446,7 @@ export const precisionStatements = sqliteTable(
   "precision_statements",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
     version: integer("version").notNull(),
     state: text("state", { enum: STATEMENT_STATES }).notNull().default("draft"),
     /** Statement text in the E691 form (r and R). */
@@ -600,9 +573,7 @@ export const notices = sqliteTable(
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
     kind: text("kind", { enum: NOTICE_KINDS }).notNull(),
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
     /** The shipment or enrollment the notice is about. */
     subjectId: integer("subject_id").notNull(),
     recipient: text("recipient").notNull(),
@@ -654,9 +625,7 @@ export const apiTokens = sqliteTable(
   "api_tokens",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    userId: integer("user_id")
-      .notNull()
-      .references(() => users.id, { onDelete: "cascade" }),
+    userId: userIdColumn(),
     name: text("name").notNull(),
     tokenHash: text("token_hash").notNull().unique(),
     scope: text("scope", { enum: API_SCOPES }).notNull(),
@@ -712,9 +681,7 @@ export const ruggednessFactors = sqliteTable(
   "ruggedness_factors",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
     column: integer("column").notNull(),
     name: text("name").notNull(),
     unit: text("unit").notNull().default(""),
@@ -729,9 +696,7 @@ export const ruggednessResults = sqliteTable(
   "ruggedness_results",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
     /** design row number, 1-based */
     run: integer("run").notNull(),
     responseId: integer("response_id")
@@ -756,9 +721,7 @@ export const comparisons = sqliteTable(
   "comparisons",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    userId: integer("user_id")
-      .notNull()
-      .references(() => users.id, { onDelete: "cascade" }),
+    userId: userIdColumn(),
     statementId: integer("statement_id")
       .notNull()
       .references(() => precisionStatements.id),
@@ -801,9 +764,7 @@ export const roundAssignments = sqliteTable(
   "round_assignments",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
     materialId: integer("material_id")
       .notNull()
       .references(() => materials.id, { onDelete: "cascade" }),
@@ -828,9 +789,7 @@ export const roundCheckResults = sqliteTable(
   "round_check_results",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
     materialId: integer("material_id")
       .notNull()
       .references(() => materials.id, { onDelete: "cascade" }),
@@ -849,9 +808,7 @@ export const roundCheckResults = sqliteTable(
 export const roundLabUncertainties = sqliteTable(
   "round_lab_uncertainties",
   {
-    enrollmentId: integer("enrollment_id")
-      .notNull()
-      .references(() => enrollments.id, { onDelete: "cascade" }),
+    enrollmentId: enrollmentIdColumn(),
     materialId: integer("material_id")
       .notNull()
       .references(() => materials.id, { onDelete: "cascade" }),
@@ -868,9 +825,7 @@ export const roundScores = sqliteTable(
   "round_scores",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    studyId: integer("study_id")
-      .notNull()
-      .references(() => studies.id, { onDelete: "cascade" }),
+    studyId: studyIdColumn(),
     labId: integer("lab_id")
       .notNull()
       .references(() => labs.id),

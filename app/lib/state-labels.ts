@@ -10,63 +10,24 @@ import type { StudyState } from "~/db/values";
 export type Tone = "neutral" | "ochre" | "leaf" | "signal";
 export type StateView = { label: string; tone: Tone };
 
-const view = (label: string, tone: Tone): StateView => ({ label, tone });
+/** One table of views from `state: [label, tone]` pairs, so each vocabulary reads on one line. */
+function views<K extends string>(table: Record<K, readonly [label: string, tone: Tone]>): Record<K, StateView> {
+  return Object.fromEntries(Object.entries<readonly [string, Tone]>(table).map(([key, [label, tone]]) => [key, { label, tone }])) as Record<K, StateView>;
+}
 
-export const STUDY_STATE: Record<StudyState, StateView> = {
-  draft: view("Draft", "neutral"),
-  recruiting: view("Recruiting labs", "ochre"),
-  testing: view("Testing", "ochre"),
-  checking: view("Checking data", "ochre"),
-  in_review: view("In committee review", "ochre"),
-  published: view("Published", "leaf"),
-  cancelled: view("Cancelled", "neutral"),
-};
-
-export const ENROLLMENT_STATE = {
-  invited: view("Invited", "ochre"),
-  accepted: view("Accepted", "leaf"),
-  declined: view("Declined", "neutral"),
-  withdrawn: view("Withdrawn", "signal"),
-} as const satisfies Record<string, StateView>;
-
-export const SHIPMENT_STATE = {
-  preparing: view("Being prepared", "neutral"),
-  shipped: view("On its way", "ochre"),
-  received: view("Received", "leaf"),
-  lost: view("Lost in transit", "signal"),
-} as const satisfies Record<string, StateView>;
-
-export const QUERY_STATE = {
-  open: view("Open", "signal"),
-  answered: view("Answered", "ochre"),
-  closed: view("Closed", "neutral"),
-} as const satisfies Record<string, StateView>;
-
-export const STATEMENT_STATE = {
-  draft: view("Draft", "neutral"),
-  in_review: view("In review", "ochre"),
-  approved: view("Approved", "leaf"),
-  returned: view("Returned", "signal"),
-} as const satisfies Record<string, StateView>;
-
-export const VOTE_CHOICE = {
-  approve: view("Approve", "leaf"),
-  object: view("Object", "signal"),
-  abstain: view("Abstain", "neutral"),
-} as const satisfies Record<string, StateView>;
-
-export const CELL_STATUS: Record<CellStatus, StateView> = {
-  not_started: view("Not started", "neutral"),
-  draft: view("Draft", "ochre"),
-  submitted: view("Submitted", "leaf"),
-  amended: view("Amended", "leaf"),
-  queried: view("Queried", "signal"),
-};
-
-export const CELL_DECISION = {
-  retained: view("Retained", "leaf"),
-  excluded: view("Excluded", "signal"),
-} as const satisfies Record<string, StateView>;
+export const STUDY_STATE = views<StudyState>({
+  draft: ["Draft", "neutral"], recruiting: ["Recruiting labs", "ochre"], testing: ["Testing", "ochre"], checking: ["Checking data", "ochre"],
+  in_review: ["In committee review", "ochre"], published: ["Published", "leaf"], cancelled: ["Cancelled", "neutral"],
+});
+export const ENROLLMENT_STATE = views({ invited: ["Invited", "ochre"], accepted: ["Accepted", "leaf"], declined: ["Declined", "neutral"], withdrawn: ["Withdrawn", "signal"] });
+export const SHIPMENT_STATE = views({ preparing: ["Being prepared", "neutral"], shipped: ["On its way", "ochre"], received: ["Received", "leaf"], lost: ["Lost in transit", "signal"] });
+export const QUERY_STATE = views({ open: ["Open", "signal"], answered: ["Answered", "ochre"], closed: ["Closed", "neutral"] });
+export const STATEMENT_STATE = views({ draft: ["Draft", "neutral"], in_review: ["In review", "ochre"], approved: ["Approved", "leaf"], returned: ["Returned", "signal"] });
+export const VOTE_CHOICE = views({ approve: ["Approve", "leaf"], object: ["Object", "signal"], abstain: ["Abstain", "neutral"] });
+export const CELL_STATUS = views<CellStatus>({
+  not_started: ["Not started", "neutral"], draft: ["Draft", "ochre"], submitted: ["Submitted", "leaf"], amended: ["Amended", "leaf"], queried: ["Queried", "signal"],
+});
+export const CELL_DECISION = views({ retained: ["Retained", "leaf"], excluded: ["Excluded", "signal"] });
 
 /** Kept for the many places that only need a study state's words. */
 export const STATE_LABEL = Object.fromEntries(Object.entries(STUDY_STATE).map(([state, v]) => [state, v.label])) as Record<StudyState, string>;

@@ -7,6 +7,7 @@ import { and, asc, eq, ne, sql } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import { db, type Transaction } from "~/db/client.server";
 import { cellDecisions, cells, enrollments, labs, materials, responses, results, studies, type Study } from "~/db/schema";
+import { cellNames, withCellContext } from "~/models/cell-context.server";
 import { analyzeStudy, type ExcludedCell, type StudyAnalysis } from "~/lib/precision";
 import type { MaterialResults } from "~/lib/review/what-if";
 
@@ -37,27 +38,27 @@ export async function studyResultRows(
   studyId: number,
   { submittedOnly = false, withoutWithdrawn = false, enrollmentId, material }: { submittedOnly?: boolean; withoutWithdrawn?: boolean; enrollmentId?: number; material?: string } = {},
 ): Promise<StudyResultRow[]> {
-  const rows = await db
-    .select({
-      cellId: cells.id,
-      labCode: enrollments.labCode,
-      labName: labs.name,
-      material: materials.code,
-      response: responses.key,
-      replicate: results.replicate,
-      value: results.value,
-      testedOn: results.testedOn,
-      operator: results.operator,
-      status: cells.status,
-      amended: cells.amended,
-      version: results.version,
-    })
-    .from(results)
-    .innerJoin(cells, eq(cells.id, results.cellId))
-    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+  const rows = await withCellContext(
+    db
+      .select({
+        cellId: cells.id,
+        labCode: enrollments.labCode,
+        labName: labs.name,
+        material: materials.code,
+        response: responses.key,
+        replicate: results.replicate,
+        value: results.value,
+        testedOn: results.testedOn,
+        operator: results.operator,
+        status: cells.status,
+        amended: cells.amended,
+        version: results.version,
+      })
+      .from(results)
+      .innerJoin(cells, eq(cells.id, results.cellId))
+      .$dynamic(),
+  )
     .innerJoin(labs, eq(labs.id, enrollments.labId))
-    .innerJoin(materials, eq(materials.id, cells.materialId))
-    .innerJoin(responses, eq(responses.id, cells.responseId))
     .where(
       and(
         eq(enrollments.studyId, studyId),
@@ -83,13 +84,13 @@ export async function withdrawnLabCodes(studyId: number) {
 
 /** The study's excluded cells, by lab code, as the engine takes them. */
 export async function excludedCells(studyId: number): Promise<ExcludedCell[]> {
-  const rows = await db
-    .select({ lab: enrollments.labCode, material: materials.code, response: responses.key, reason: cellDecisions.reason })
-    .from(cellDecisions)
-    .innerJoin(cells, eq(cells.id, cellDecisions.cellId))
-    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
-    .innerJoin(materials, eq(materials.id, cells.materialId))
-    .innerJoin(responses, eq(responses.id, cells.responseId))
+  const rows = await withCellContext(
+    db
+      .select({ ...cellNames, reason: cellDecisions.reason })
+      .from(cellDecisions)
+      .innerJoin(cells, eq(cells.id, cellDecisions.cellId))
+      .$dynamic(),
+  )
     .where(and(eq(enrollments.studyId, studyId), eq(cellDecisions.decision, "excluded")));
   return rows.map((r) => ({ ...r, lab: r.lab ?? "—" }));
 }

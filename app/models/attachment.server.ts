@@ -1,5 +1,6 @@
 import { asc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
+import { withCellContext } from "~/models/cell-context.server";
 import { attachments, cells, enrollments, materials, responses, results, shipments, studies } from "~/db/schema";
 import { type StudyAccess, studyAccessFor } from "~/server/guards.server";
 import type { SessionUser } from "~/models/user.server";
@@ -26,21 +27,21 @@ export async function readableAttachment(user: SessionUser, attachmentId: number
     return found.access;
   };
 
-  const resultLinks = await db
-    .select({
-      studyId: enrollments.studyId,
-      enrollmentId: enrollments.id,
-      labCode: enrollments.labCode,
-      material: materials.code,
-      response: responses.key,
-      replicate: results.replicate,
-      cellStatus: cells.status,
-    })
-    .from(results)
-    .innerJoin(cells, eq(cells.id, results.cellId))
-    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
-    .innerJoin(materials, eq(materials.id, cells.materialId))
-    .innerJoin(responses, eq(responses.id, cells.responseId))
+  const resultLinks = await withCellContext(
+    db
+      .select({
+        studyId: enrollments.studyId,
+        enrollmentId: enrollments.id,
+        labCode: enrollments.labCode,
+        material: materials.code,
+        response: responses.key,
+        replicate: results.replicate,
+        cellStatus: cells.status,
+      })
+      .from(results)
+      .innerJoin(cells, eq(cells.id, results.cellId))
+      .$dynamic(),
+  )
     .where(eq(results.photoAttachmentId, attachmentId))
     .orderBy(asc(responses.sortOrder));
   const resultLink = resultLinks[0];

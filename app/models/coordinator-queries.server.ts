@@ -5,7 +5,8 @@
  */
 import { and, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { cells, enrollments, labMembers, labs, materials, queries, responses, users, type Study } from "~/db/schema";
+import { cellNames, withCellContext } from "~/models/cell-context.server";
+import { cells, enrollments, labMembers, labs, queries, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import type { CellRef } from "~/lib/review/cells";
@@ -72,28 +73,26 @@ export async function raiseQuery(study: Study, actorUserId: number, input: Raise
 
 /** Every query of the study, newest first, with the lab's code and name (coordinators only). */
 export async function listStudyQueries(studyId: number) {
-  const rows = await db
-    .select({
-      id: queries.id,
-      lab: enrollments.labCode,
-      labName: labs.name,
-      material: materials.code,
-      response: responses.key,
-      statistic: queries.statistic,
-      question: queries.question,
-      asksCorrection: queries.asksCorrection,
-      state: queries.state,
-      answer: queries.answer,
-      createdAt: queries.createdAt,
-      answeredAt: queries.answeredAt,
-      closedAt: queries.closedAt,
-    })
-    .from(queries)
-    .innerJoin(cells, eq(cells.id, queries.cellId))
-    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+  const rows = await withCellContext(
+    db
+      .select({
+        id: queries.id,
+        ...cellNames,
+        labName: labs.name,
+        statistic: queries.statistic,
+        question: queries.question,
+        asksCorrection: queries.asksCorrection,
+        state: queries.state,
+        answer: queries.answer,
+        createdAt: queries.createdAt,
+        answeredAt: queries.answeredAt,
+        closedAt: queries.closedAt,
+      })
+      .from(queries)
+      .innerJoin(cells, eq(cells.id, queries.cellId))
+      .$dynamic(),
+  )
     .innerJoin(labs, eq(labs.id, enrollments.labId))
-    .innerJoin(materials, eq(materials.id, cells.materialId))
-    .innerJoin(responses, eq(responses.id, cells.responseId))
     .where(eq(enrollments.studyId, studyId))
     .orderBy(desc(queries.createdAt), desc(queries.id));
   const iso = (d: Date | null) => d?.toISOString() ?? null;

@@ -6,6 +6,7 @@
  */
 import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
+import { cellNames, withCellContext } from "~/models/cell-context.server";
 import { amendments, auditEvents, cellDecisions, cells, enrollments, materials, queries, responses, results, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import type { CellRef } from "~/lib/review/cells";
@@ -24,34 +25,32 @@ export class DecisionError extends FieldRefusal {
 
 /** The database id of a cell named by lab code, material code and response key, or null. */
 export async function findCellId(studyId: number, cell: CellRef) {
-  const [row] = await db
-    .select({ id: cells.id })
-    .from(cells)
-    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
-    .innerJoin(materials, eq(materials.id, cells.materialId))
-    .innerJoin(responses, eq(responses.id, cells.responseId))
+  const [row] = await withCellContext(
+    db
+      .select({ id: cells.id })
+      .from(cells)
+      .$dynamic(),
+  )
     .where(and(eq(enrollments.studyId, studyId), eq(enrollments.labCode, cell.lab), eq(materials.code, cell.material), eq(responses.key, cell.response)));
   return row?.id ?? null;
 }
 
 /** Every decision of the study, retained or excluded, with who made it. */
 export async function listCellDecisions(studyId: number) {
-  const rows = await db
-    .select({
-      cellId: cellDecisions.cellId,
-      lab: enrollments.labCode,
-      material: materials.code,
-      response: responses.key,
-      decision: cellDecisions.decision,
-      reason: cellDecisions.reason,
-      decidedBy: users.name,
-      decidedAt: cellDecisions.decidedAt,
-    })
-    .from(cellDecisions)
-    .innerJoin(cells, eq(cells.id, cellDecisions.cellId))
-    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
-    .innerJoin(materials, eq(materials.id, cells.materialId))
-    .innerJoin(responses, eq(responses.id, cells.responseId))
+  const rows = await withCellContext(
+    db
+      .select({
+        cellId: cellDecisions.cellId,
+        ...cellNames,
+        decision: cellDecisions.decision,
+        reason: cellDecisions.reason,
+        decidedBy: users.name,
+        decidedAt: cellDecisions.decidedAt,
+      })
+      .from(cellDecisions)
+      .innerJoin(cells, eq(cells.id, cellDecisions.cellId))
+      .$dynamic(),
+  )
     .innerJoin(users, eq(users.id, cellDecisions.decidedBy))
     .where(eq(enrollments.studyId, studyId))
     .orderBy(asc(enrollments.labCode), asc(materials.sortOrder), asc(responses.sortOrder));
@@ -60,12 +59,12 @@ export async function listCellDecisions(studyId: number) {
 
 /** Cells of the study (by lab code) whose values a lab amended while a correction query on them was open. */
 export async function amendedAfterQueryCells(studyId: number): Promise<CellRef[]> {
-  const studyCells = await db
-    .select({ id: cells.id, lab: enrollments.labCode, material: materials.code, response: responses.key })
-    .from(cells)
-    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
-    .innerJoin(materials, eq(materials.id, cells.materialId))
-    .innerJoin(responses, eq(responses.id, cells.responseId))
+  const studyCells = await withCellContext(
+    db
+      .select({ id: cells.id, ...cellNames })
+      .from(cells)
+      .$dynamic(),
+  )
     .where(and(eq(enrollments.studyId, studyId), eq(cells.amended, true)));
   const refs = new Map(studyCells.flatMap((c) => (c.lab === null ? [] : [[c.id, { lab: c.lab, material: c.material, response: c.response }] as const])));
   if (refs.size === 0) return [];
@@ -136,20 +135,18 @@ export async function decisionHistory(studyId: number) {
 
 /** Submitted results (and their surface photos) by lab code, of one material, narrowed to one lab and response when given. */
 async function submittedResults(studyId: number, where: { material: string; lab?: string; response?: string }) {
-  const rows = await db
-    .select({
-      lab: enrollments.labCode,
-      material: materials.code,
-      response: responses.key,
-      replicate: results.replicate,
-      value: results.value,
-      photoFileId: results.photoAttachmentId,
-    })
-    .from(results)
-    .innerJoin(cells, eq(cells.id, results.cellId))
-    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
-    .innerJoin(materials, eq(materials.id, cells.materialId))
-    .innerJoin(responses, eq(responses.id, cells.responseId))
+  const rows = await withCellContext(
+    db
+      .select({
+        ...cellNames,
+        replicate: results.replicate,
+        value: results.value,
+        photoFileId: results.photoAttachmentId,
+      })
+      .from(results)
+      .innerJoin(cells, eq(cells.id, results.cellId))
+      .$dynamic(),
+  )
     .where(
       and(
         eq(enrollments.studyId, studyId),

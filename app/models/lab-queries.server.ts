@@ -4,6 +4,7 @@
  */
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
+import { withCellContext } from "~/models/cell-context.server";
 import { cells, enrollments, materials, queries, responses, studies, studyCoordinators, users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
@@ -28,14 +29,14 @@ const queryView = {
 };
 
 function fromQueries() {
-  return db
-    .select(queryView)
-    .from(queries)
-    .innerJoin(cells, eq(cells.id, queries.cellId))
-    .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
-    .innerJoin(studies, eq(studies.id, enrollments.studyId))
-    .innerJoin(materials, eq(materials.id, cells.materialId))
-    .innerJoin(responses, eq(responses.id, cells.responseId));
+  return withCellContext(
+    db
+      .select(queryView)
+      .from(queries)
+      .innerJoin(cells, eq(cells.id, queries.cellId))
+      .$dynamic(),
+  )
+    .innerJoin(studies, eq(studies.id, enrollments.studyId));
 }
 
 /** Every query to the user's labs, open ones first. */
@@ -68,14 +69,14 @@ export class QueryAnswerError extends Error {}
  */
 export async function answerQuery(queryId: number, labIds: number[], answer: string, user: { id: number; name: string }, request: Request | null) {
   const [found] = labIds.length
-    ? await db
-        .select({ id: queries.id, state: queries.state, studyState: studies.state, enrollmentState: enrollments.state, studyId: enrollments.studyId, studyCode: studies.code, ownerId: studies.ownerId, labCode: enrollments.labCode, materialCode: materials.code, responseName: responses.name })
-        .from(queries)
-        .innerJoin(cells, eq(cells.id, queries.cellId))
-        .innerJoin(enrollments, eq(enrollments.id, cells.enrollmentId))
+    ? await withCellContext(
+        db
+          .select({ id: queries.id, state: queries.state, studyState: studies.state, enrollmentState: enrollments.state, studyId: enrollments.studyId, studyCode: studies.code, ownerId: studies.ownerId, labCode: enrollments.labCode, materialCode: materials.code, responseName: responses.name })
+          .from(queries)
+          .innerJoin(cells, eq(cells.id, queries.cellId))
+          .$dynamic(),
+      )
         .innerJoin(studies, eq(studies.id, enrollments.studyId))
-        .innerJoin(materials, eq(materials.id, cells.materialId))
-        .innerJoin(responses, eq(responses.id, cells.responseId))
         .where(and(eq(queries.id, queryId), inArray(enrollments.labId, labIds)))
     : [];
   if (!found) return null;

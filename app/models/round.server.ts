@@ -21,7 +21,6 @@ import {
   roundScores,
   roundSettings,
   studies,
-  studyCoordinators,
   type MaterialCheck,
 } from "~/db/schema";
 import { FieldRefusal } from "~/lib/field-refusal";
@@ -43,6 +42,7 @@ import type { StatementSnapshot } from "~/lib/statement-text";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import type { assignmentSchema, checksSchema, newRoundSchema } from "~/lib/round-forms";
 import type { SessionUser } from "~/models/user.server";
+import { coordinatedBy } from "~/models/study.server";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import type { z } from "zod";
@@ -80,16 +80,10 @@ function assertRoundWrite(kind: "roundChoices" | "roundChecks" | "labUncertainty
 
 /** Rounds the user coordinates (every round for an admin), newest first. */
 export async function listRounds(user: SessionUser) {
-  const coordinated = db.select({ id: studyCoordinators.studyId }).from(studyCoordinators).where(eq(studyCoordinators.userId, user.id));
   return db
     .select({ id: studies.id, code: studies.code, title: studies.title, state: studies.state, resultsDue: studies.resultsDue, createdAt: studies.createdAt })
     .from(studies)
-    .where(
-      and(
-        eq(studies.kind, "proficiency"),
-        user.roles.includes("admin") ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated)),
-      ),
-    )
+    .where(coordinatedBy(user, "proficiency"))
     .orderBy(desc(studies.createdAt), desc(studies.id));
 }
 

@@ -5,9 +5,9 @@
  * is entered; results are kept per run, response and replicate.
  */
 import { randomInt } from "node:crypto";
-import { and, asc, count, eq, inArray, or } from "drizzle-orm";
+import { asc, count, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { responses, ruggednessFactors, ruggednessPlans, ruggednessResults, studies, studyCoordinators } from "~/db/schema";
+import { responses, ruggednessFactors, ruggednessPlans, ruggednessResults, studies } from "~/db/schema";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { type WriteKind, writeRefusal } from "~/lib/write-rules";
 import { analyzeRuggedness, designFor, plackettBurmanDesign, randomRunOrder, type RunCount } from "~/lib/ruggedness";
@@ -17,6 +17,7 @@ import type { newRuggednessSchema } from "~/lib/ruggedness/forms";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import { recordAudit } from "~/server/audit.server";
 import type { SessionUser } from "~/models/user.server";
+import { coordinatedBy } from "~/models/study.server";
 
 type Study = typeof studies.$inferSelect;
 
@@ -28,12 +29,11 @@ function assertRuggednessWrite(kind: Extract<WriteKind, "ruggednessDesign" | "ru
 
 /** The ruggedness studies a coordinator owns or coordinates; every one for an admin. */
 export async function listRuggednessStudies(user: SessionUser) {
-  const coordinated = db.select({ id: studyCoordinators.studyId }).from(studyCoordinators).where(eq(studyCoordinators.userId, user.id));
   const rows = await db
     .select({ id: studies.id, code: studies.code, title: studies.title, state: studies.state, testMethod: studies.testMethod, runs: ruggednessPlans.runs })
     .from(studies)
     .leftJoin(ruggednessPlans, eq(ruggednessPlans.studyId, studies.id))
-    .where(and(eq(studies.kind, "ruggedness"), user.roles.includes("admin") ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated))))
+    .where(coordinatedBy(user, "ruggedness"))
     .orderBy(asc(studies.code));
   return rows;
 }

@@ -8,11 +8,26 @@ import { formatDate } from "~/lib/format";
 import type { LabStudyFacts } from "~/lib/lab-todo";
 
 
-function coordinatedBy(user: SessionUser, kind: StudyKind | "any") {
+/** Studies of `kind` that the user owns or coordinates; every one for an admin. */
+export function coordinatedBy(user: SessionUser, kind: StudyKind | "any") {
   const coordinated = db.select({ id: studyCoordinators.studyId }).from(studyCoordinators).where(eq(studyCoordinators.userId, user.id));
   return and(
     kind === "any" ? undefined : eq(studies.kind, kind),
     user.roles.includes("admin") ? undefined : or(eq(studies.ownerId, user.id), inArray(studies.id, coordinated)),
+  );
+}
+
+/**
+ * Studies the user may read through the API: those they coordinate, review
+ * (unless `reviewed` is false: rounds have no reviewers) or have a lab
+ * enrolled in; every one for an admin.
+ */
+export function readableThroughApi(user: SessionUser, { reviewed = true }: { reviewed?: boolean } = {}) {
+  if (user.roles.includes("admin")) return undefined;
+  return or(
+    coordinatedBy(user, "any"),
+    reviewed ? inArray(studies.id, db.select({ id: studyReviewers.studyId }).from(studyReviewers).where(eq(studyReviewers.userId, user.id))) : undefined,
+    user.labIds.length ? inArray(studies.id, db.select({ id: enrollments.studyId }).from(enrollments).where(inArray(enrollments.labId, user.labIds))) : undefined,
   );
 }
 

@@ -3,6 +3,8 @@
  * errors beside their fields and the values as typed, and status 400.
  */
 import type { Submission } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
+import type { z, ZodType } from "zod";
 import { data } from "react-router";
 import { FieldRefusal } from "~/lib/field-refusal";
 
@@ -21,4 +23,22 @@ export async function withRefusals<T>(submission: Submission<unknown>, change: (
     if (error instanceof FieldRefusal) return { ok: false as const, reply: refuse(submission, { [error.field]: [error.message] }, status) };
     throw error;
   }
+}
+
+/**
+ * The whole action of a page with one form: parse the form with its schema,
+ * refuse it beside the fields, or run the model's change and answer with what
+ * `done` makes of its result (usually a redirect with a toast).
+ */
+export async function submitForm<Schema extends ZodType, T>(
+  request: Request,
+  schema: Schema,
+  change: (value: z.output<Schema>) => Promise<T>,
+  done: (saved: T) => Response | Promise<Response>,
+) {
+  const submission = parseWithZod(await request.formData(), { schema });
+  if (submission.status !== "success") return refuse(submission);
+  const saved = await withRefusals(submission, () => change(submission.value));
+  if (!saved.ok) return saved.reply;
+  return done(saved.value);
 }

@@ -44,6 +44,12 @@ export async function requireRole(request: Request, ...roles: Role[]): Promise<S
   return user;
 }
 
+/** The lists of studies, rounds and ruggedness studies: coordinators and admins read them; only coordinators start new ones. */
+export async function requireStudyListReader(request: Request) {
+  const user = await requireRole(request, "coordinator", "admin");
+  return { user, canCreate: user.roles.includes("coordinator") };
+}
+
 export type StudyAccess = "admin" | "coordinator" | "reviewer" | "analyst";
 
 /** How a user may see a study, or null when the study is none of theirs. */

@@ -1,7 +1,7 @@
 import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
 import { DEMO_PASSWORD } from "../../seed/demo-data";
-import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
+import { expectAccessible, signedIn, signInAs, useServerAndBrowser } from "../support/browser";
 
 const running = useServerAndBrowser();
 
@@ -75,10 +75,7 @@ describe("an analyst's day in the lab, in the browser", () => {
     await expectAccessible(page);
     await context.close();
 
-    const coordinatorContext = await running.browser.newContext();
-    const coordinator = await coordinatorContext.newPage();
-    await signInAs(coordinator, running.server.url, "coordinator@ringbatch.example", DEMO_PASSWORD);
-    await coordinator.waitForURL(`${running.server.url}/studies`);
+    const { context: coordinatorContext, page: coordinator } = await signedIn(running, "coordinator@ringbatch.example", "/studies");
     const studyPath = new URL(studyUrl).pathname.replace("/lab", "");
     await coordinator.goto(`${running.server.url}${studyPath}/results`);
     const trail = coordinator.getByRole("table", { name: "Audit trail of the study" });
@@ -89,10 +86,7 @@ describe("an analyst's day in the lab, in the browser", () => {
   });
 
   it("shows the import and queries pages accessibly", async () => {
-    const context = await running.browser.newContext();
-    const page = await context.newPage();
-    await signInAs(page, running.server.url, "analyst1@ringbatch.example", DEMO_PASSWORD);
-    await page.waitForURL(`${running.server.url}/lab`);
+    const { context, page } = await signedIn(running, "analyst1@ringbatch.example", "/lab");
     await page.getByRole("link", { name: "Queries to your lab" }).click();
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Queries");
     await expectAccessible(page);

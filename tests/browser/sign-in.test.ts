@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { DEMO_PASSWORD } from "../../seed/demo-data";
-import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
+import { expectAccessible, signedIn, signInAs, useServerAndBrowser } from "../support/browser";
 
 const running = useServerAndBrowser();
 
@@ -49,10 +49,7 @@ describe("signing in, in the browser", () => {
   });
 
   it("answers 404 when an analyst opens the coordinator's studies", async () => {
-    const context = await running.browser.newContext();
-    const page = await context.newPage();
-    await signInAs(page, running.server.url, "analyst2@ringbatch.example", DEMO_PASSWORD);
-    await page.waitForURL(`${running.server.url}/lab`);
+    const { context, page } = await signedIn(running, "analyst2@ringbatch.example", "/lab");
     const response = await page.goto(`${running.server.url}/studies`);
     expect(response?.status()).toBe(404);
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Not found");
@@ -60,10 +57,7 @@ describe("signing in, in the browser", () => {
   });
 
   it("ends the session at sign-out: the old cookie no longer works", async () => {
-    const context = await running.browser.newContext();
-    const page = await context.newPage();
-    await signInAs(page, running.server.url, "coordinator@ringbatch.example", DEMO_PASSWORD);
-    await page.waitForURL(`${running.server.url}/studies`);
+    const { context, page } = await signedIn(running, "coordinator@ringbatch.example", "/studies");
     const [sessionCookie] = (await context.cookies()).filter((c) => c.name === "__ringbatch_session");
     expect(sessionCookie?.httpOnly).toBe(true);
     await page.getByRole("button", { name: "Sign out" }).click();

@@ -1,17 +1,13 @@
 import { createHash } from "node:crypto";
 import { describe, expect, it } from "vitest";
 import { plackettBurmanDesign } from "~/lib/ruggedness";
-import { DEMO_PASSWORD } from "../../seed/demo-data";
-import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
+import { expectAccessible, signedIn, useServerAndBrowser } from "../support/browser";
 
 const running = useServerAndBrowser();
 
 describe("mixture comparison, in the browser", () => {
   it("refuses a bad result beside its field, then compares, keeps the comparison in the history and prints its sheet", async () => {
-    const context = await running.browser.newContext();
-    const page = await context.newPage();
-    await signInAs(page, running.server.url, "analyst2@ringbatch.example", DEMO_PASSWORD);
-    await page.waitForURL(`${running.server.url}/lab`);
+    const { context, page } = await signedIn(running, "analyst2@ringbatch.example", "/lab");
     await page.getByRole("link", { name: "Compare mixtures" }).click();
     await page.waitForURL(`${running.server.url}/compare`);
     await expect.poll(() => page.getByText("No comparisons yet.").isVisible()).toBe(true);
@@ -52,10 +48,7 @@ async function optionLabel(page: import("playwright-core").Page, containing: str
 
 describe("ruggedness study, in the browser", () => {
   it("shows the demo study's design, run sheet, effects with the half-normal plot, and the factor that matters", async () => {
-    const context = await running.browser.newContext();
-    const page = await context.newPage();
-    await signInAs(page, running.server.url, "coordinator@ringbatch.example", DEMO_PASSWORD);
-    await page.waitForURL(`${running.server.url}/studies`);
+    const { context, page } = await signedIn(running, "coordinator@ringbatch.example", "/studies");
     await page.getByRole("link", { name: "Ruggedness" }).click();
     await page.waitForURL(`${running.server.url}/ruggedness`);
     await page.getByRole("link", { name: "RG-2026-1" }).click();
@@ -87,10 +80,7 @@ describe("ruggedness study, in the browser", () => {
 
 describe("a new ruggedness study, in the browser", () => {
   it("goes from factors to a laid-out design, refuses a bad result beside its box, takes the results and concludes", async () => {
-    const context = await running.browser.newContext();
-    const page = await context.newPage();
-    await signInAs(page, running.server.url, "coordinator@ringbatch.example", DEMO_PASSWORD);
-    await page.waitForURL(`${running.server.url}/studies`);
+    const { context, page } = await signedIn(running, "coordinator@ringbatch.example", "/studies");
     await page.goto(`${running.server.url}/ruggedness/new`);
     await page.getByLabel("Code").fill("RG-2027-9");
     await page.getByLabel("Title").fill("Screening of the float test before round 3");
@@ -135,10 +125,7 @@ describe("a new ruggedness study, in the browser", () => {
 
 describe("the published statement's bundle, in the browser", () => {
   it("shows the SHA-256 of the zip it downloads", async () => {
-    const context = await running.browser.newContext();
-    const page = await context.newPage();
-    await signInAs(page, running.server.url, "coordinator@ringbatch.example", DEMO_PASSWORD);
-    await page.waitForURL(`${running.server.url}/studies`);
+    const { context, page } = await signedIn(running, "coordinator@ringbatch.example", "/studies");
     await page.getByRole("link", { name: "FF-2025-D" }).click();
     await page.getByRole("link", { name: "Statement" }).click();
     const shown = (await page.getByTestId("bundle-sha256").textContent({ timeout: 15_000 }))!;

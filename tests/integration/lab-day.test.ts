@@ -1,7 +1,7 @@
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { auditEvents, enrollments, labs, materials, studies } from "~/db/schema";
+import { auditEvents, enrollments, labs, studies } from "~/db/schema";
 import { saveFreshProperties } from "~/models/batch.server";
 import * as labHome from "~/routes/lab/index";
 import * as batchPage from "~/routes/lab/study/batch-sheet";
@@ -11,7 +11,7 @@ import * as newStudy from "~/routes/studies/new";
 import * as setupPage from "~/routes/studies/study/setup";
 import * as studyResults from "~/routes/studies/study/results";
 import { DEMO_LABS } from "../../seed/demo-data";
-import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
+import { demoCookie, demoEnrollment, demoStudy, useDemoStudyInTesting } from "../support/demo";
 import { entryChanges } from "../support/entry-draft";
 import { errorsOf, toastOf } from "../support/replies";
 import { call, get, post } from "../support/routes";
@@ -21,18 +21,10 @@ let f1: string;
 let f2: string;
 
 beforeAll(async () => {
-  await useDemoDatabase();
-  const study = await demoStudy("FF-2026-B");
-  studyId = String(study.id);
-  const rows = await db.select().from(materials).where(eq(materials.studyId, study.id));
-  f1 = String(rows.find((m) => m.code === "F1")!.id);
-  f2 = String(rows.find((m) => m.code === "F2")!.id);
+  ({ studyId, f1, f2 } = await useDemoStudyInTesting());
 });
 
-async function enrollmentOf(labIndex: number) {
-  const lab = await db.query.labs.findFirst({ where: eq(labs.name, DEMO_LABS[labIndex]!.name) });
-  return (await db.query.enrollments.findFirst({ where: and(eq(enrollments.studyId, Number(studyId)), eq(enrollments.labId, lab!.id)) }))!;
-}
+const enrollmentOf = (labIndex: number) => demoEnrollment(Number(studyId), labIndex);
 
 type Todo = { kind: string; title: string; detail: string; due: string | null; links: { to: string; label: string }[] };
 

@@ -1,10 +1,10 @@
-import { and, eq, isNotNull } from "drizzle-orm";
+import { eq, isNotNull } from "drizzle-orm";
 import { beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
-import { attachments, materials, results } from "~/db/schema";
+import { attachments, results } from "~/db/schema";
 import * as files from "~/routes/files";
 import * as entry from "~/routes/lab/study/result-entry";
-import { demoCookie, demoStudy, useDemoDatabase } from "../support/demo";
+import { demoCookie, useDemoStudyInTesting } from "../support/demo";
 import { call, get } from "../support/routes";
 import { errorsOf, toastOf, valuesOf } from "../support/replies";
 
@@ -17,10 +17,7 @@ let studyId: string;
 let f1: string;
 
 beforeAll(async () => {
-  await useDemoDatabase();
-  const study = await demoStudy("FF-2026-B");
-  studyId = String(study.id);
-  f1 = String((await db.query.materials.findFirst({ where: and(eq(materials.studyId, study.id), eq(materials.code, "F1")) }))!.id);
+  ({ studyId, f1 } = await useDemoStudyInTesting());
 });
 
 // A 1 × 1 pixel PNG: the 8-byte PNG signature (89 50 4E 47 0D 0A 1A 0A, PNG specification) and its chunks.

@@ -1,15 +1,13 @@
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { amendments, auditEvents, cells, enrollments, labs, materials, results, studies } from "~/db/schema";
+import { amendments, auditEvents, cells, labs, materials, results, studies } from "~/db/schema";
 import * as labStudy from "~/routes/lab/study/tasks";
 import * as labStudyFrame from "~/routes/lab/study/layout";
 import * as entry from "~/routes/lab/study/result-entry";
 import * as studyResults from "~/routes/studies/study/results";
-import { seedDemo } from "../../seed/seed";
 import { DEMO_LABS } from "../../seed/demo-data";
-import { useFreshDatabase } from "../support/database";
-import { demoCookie } from "../support/demo";
+import { demoCookie, demoEnrollment, useDemoStudyInTesting } from "../support/demo";
 import { entryChanges } from "../support/entry-draft";
 import { call, get, post } from "../support/routes";
 import { errorsOf, toastOf } from "../support/replies";
@@ -19,23 +17,14 @@ let f1: string;
 let f2: string;
 
 beforeAll(async () => {
-  await useFreshDatabase();
-  await seedDemo(db);
-  const study = await db.query.studies.findFirst({ where: eq(studies.code, "FF-2026-B") });
-  studyId = String(study!.id);
-  const studyMaterials = await db.select().from(materials).where(eq(materials.studyId, study!.id));
-  f1 = String(studyMaterials.find((m) => m.code === "F1")!.id);
-  f2 = String(studyMaterials.find((m) => m.code === "F2")!.id);
+  ({ studyId, f1, f2 } = await useDemoStudyInTesting());
 });
 
 /** The changes the page would send for these edits, read as `cookie` from material `materialId`. */
 const draftOf = async (cookie: string, materialId: string, values: Record<string, string>, extra: Partial<Record<"testedOn" | "operator", Record<string, string>>> = {}) =>
   (await entryChanges(cookie, studyId, materialId, { values, ...extra })).changes;
 
-async function enrollmentOf(labIndex: number) {
-  const lab = await db.query.labs.findFirst({ where: eq(labs.name, DEMO_LABS[labIndex]!.name) });
-  return (await db.query.enrollments.findFirst({ where: and(eq(enrollments.studyId, Number(studyId)), eq(enrollments.labId, lab!.id)) }))!;
-}
+const enrollmentOf = (labIndex: number) => demoEnrollment(Number(studyId), labIndex);
 
 async function storedValues(labIndex: number, materialId: string) {
   const enrollment = await enrollmentOf(labIndex);

@@ -9,7 +9,7 @@
 import { count, eq } from "drizzle-orm";
 import { createHash } from "node:crypto";
 import { beforeAll, describe, expect, it } from "vitest";
-import { db } from "~/db/client.server";
+import { db, type Transaction } from "~/db/client.server";
 import {
   auditEvents,
   batches,
@@ -144,8 +144,8 @@ async function studyIn(state: StudyState): Promise<Fixture> {
     const [submittedCell, draftCell] = await tx
       .insert(cells)
       .values([
-        { enrollmentId: enrollment!.id, materialId: m1!.id, responseId: holes!.id, status: "submitted", submittedAt: new Date(), submittedBy: people.analyst, version: 1 },
-        { enrollmentId: enrollment!.id, materialId: m2!.id, responseId: holes!.id },
+        { enrollmentId: enrollment!.id, materialId: m1!.id, responseId: holes.id, status: "submitted", submittedAt: new Date(), submittedBy: people.analyst, version: 1 },
+        { enrollmentId: enrollment!.id, materialId: m2!.id, responseId: holes.id },
       ])
       .returning();
     const tested = { testedOn: "2026-01-10", operator: "T. Ferrow" };
@@ -378,7 +378,7 @@ describe("every write in every study state", () => {
         const how = attempt(write, fixture);
         if (write === "lab: amend a submitted result") {
           const [holes] = await db.select().from(responses).where(eq(responses.studyId, fixture.studyId));
-          (how.fields as FormData).set("responseId", String(holes!.id));
+          (how.fields as FormData).set("responseId", String(holes.id));
         }
         return how;
       },
@@ -394,6 +394,17 @@ describe("every write in every study state", () => {
 
 type KindFixture = { studyId: number; enrollmentId: number; materialId: number; responseId: number };
 
+/** A float finishing study of `kind` in `state`, one replicate a cell, with its one response (holes). */
+async function insertStudyWithHoles(tx: Transaction, study: { code: string; title: string; kind: "proficiency" | "ruggedness"; state: StudyState }) {
+  const [row] = await tx
+    .insert(studies)
+    .values({ ...study, testMethod: "Float finishing test of fresh concrete", replicatesPerCell: 1, ownerId: people.coordinator })
+    .returning();
+  const studyId = row!.id;
+  const [holes] = await tx.insert(responses).values({ studyId, key: "holes", name: "Passes to close the preformed holes", unit: "passes", kind: "count", plausibleMin: 1, plausibleMax: 40 }).returning();
+  return { studyId, holes: holes! };
+}
+
 /**
  * A proficiency round in `state`: one material, one response, two enrolled
  * labs with their submitted results, a reference assigned value with a fixed
@@ -402,12 +413,7 @@ type KindFixture = { studyId: number; enrollmentId: number; materialId: number; 
 async function roundIn(state: StudyState): Promise<KindFixture> {
   fixtureCount++;
   return db.transaction(async (tx) => {
-    const [round] = await tx
-      .insert(studies)
-      .values({ code: `SMR-${fixtureCount}`, title: `State matrix round ${fixtureCount}`, kind: "proficiency", testMethod: "Float finishing test of fresh concrete", state, replicatesPerCell: 1, ownerId: people.coordinator })
-      .returning();
-    const studyId = round!.id;
-    const [holes] = await tx.insert(responses).values({ studyId, key: "holes", name: "Passes to close the preformed holes", unit: "passes", kind: "count", plausibleMin: 1, plausibleMax: 40 }).returning();
+    const { studyId, holes } = await insertStudyWithHoles(tx, { code: `SMR-${fixtureCount}`, title: `State matrix round ${fixtureCount}`, kind: "proficiency", state });
     const [m1] = await tx.insert(materials).values({ studyId, code: "M1", sortOrder: 0 }).returning();
     const [enrollment, second] = await tx
       .insert(enrollments)
@@ -416,7 +422,7 @@ async function roundIn(state: StudyState): Promise<KindFixture> {
         { studyId, labId: people.spareLab, labCode: "P02", state: "accepted" },
       ])
       .returning();
-    const submitted = { materialId: m1!.id, responseId: holes!.id, status: "submitted" as const, submittedAt: new Date(), submittedBy: people.analyst, version: 1 };
+    const submitted = { materialId: m1!.id, responseId: holes.id, status: "submitted" as const, submittedAt: new Date(), submittedBy: people.analyst, version: 1 };
     const [cell, secondCell] = await tx
       .insert(cells)
       .values([
@@ -432,7 +438,7 @@ async function roundIn(state: StudyState): Promise<KindFixture> {
     await tx.insert(roundAssignments).values({
       studyId,
       materialId: m1!.id,
-      responseId: holes!.id,
+      responseId: holes.id,
       assignedMethod: "reference",
       referenceValue: 12,
       referenceUncertainty: 0.2,
@@ -440,7 +446,7 @@ async function roundIn(state: StudyState): Promise<KindFixture> {
       fixedSigma: 2,
       checkJustification: "One homogenised batch, split by riffling; the checks were waived for this round.",
     });
-    return { studyId, enrollmentId: enrollment!.id, materialId: m1!.id, responseId: holes!.id };
+    return { studyId, enrollmentId: enrollment!.id, materialId: m1!.id, responseId: holes.id };
   });
 }
 
@@ -448,15 +454,10 @@ async function roundIn(state: StudyState): Promise<KindFixture> {
 async function ruggednessIn(state: StudyState): Promise<KindFixture> {
   fixtureCount++;
   return db.transaction(async (tx) => {
-    const [study] = await tx
-      .insert(studies)
-      .values({ code: `SMG-${fixtureCount}`, title: `State matrix ruggedness ${fixtureCount}`, kind: "ruggedness", testMethod: "Float finishing test of fresh concrete", state, replicatesPerCell: 1, ownerId: people.coordinator })
-      .returning();
-    const studyId = study!.id;
-    const [holes] = await tx.insert(responses).values({ studyId, key: "holes", name: "Passes to close the preformed holes", unit: "passes", kind: "count", plausibleMin: 1, plausibleMax: 40 }).returning();
+    const { studyId, holes } = await insertStudyWithHoles(tx, { code: `SMG-${fixtureCount}`, title: `State matrix ruggedness ${fixtureCount}`, kind: "ruggedness", state });
     await tx.insert(ruggednessPlans).values({ studyId, runs: 8, replicates: 1, runOrderSeed: 7, runOrder: randomRunOrder(8, 7) });
     await tx.insert(ruggednessFactors).values({ studyId, column: 1, name: "Float angle", unit: "°", low: "5", high: "10" });
-    return { studyId, enrollmentId: 0, materialId: 0, responseId: holes!.id };
+    return { studyId, enrollmentId: 0, materialId: 0, responseId: holes.id };
   });
 }
 

@@ -34,15 +34,21 @@ export function useServerAndBrowser() {
   return running;
 }
 
+type Running = { server: RunningServer; browser: Browser };
+
+/** A fresh browser context signed in with a demo account, once it has landed on `landing` (any page but the sign-in one by default). */
+export async function signedIn(running: Running, email: string, landing?: string) {
+  const context = await running.browser.newContext();
+  const page = await context.newPage();
+  await signInAs(page, running.server.url, email, DEMO_PASSWORD);
+  await page.waitForURL(landing === undefined ? (url) => url.pathname !== "/login" : `${running.server.url}${landing}`);
+  return { context, page };
+}
+
 /** A page in a fresh browser context, signed in with a demo account, and a visit that checks the answer and accessibility. */
-export function demoVisitor(running: { server: RunningServer; browser: Browser }) {
+export function demoVisitor(running: Running) {
   return {
-    as: async (email: string) => {
-      const page = await (await running.browser.newContext()).newPage();
-      await signInAs(page, running.server.url, email, DEMO_PASSWORD);
-      await page.waitForURL((url) => url.pathname !== "/login");
-      return page;
-    },
+    as: async (email: string) => (await signedIn(running, email)).page,
     visit: async (page: Page, path: string) => {
       const response = await page.goto(running.server.url + path);
       expect(response?.status(), path).toBe(200);

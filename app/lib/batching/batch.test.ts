@@ -1,12 +1,5 @@
 import { describe, expect, it } from "vitest";
-import {
-  admixtureVolumeMl,
-  batchSheet,
-  fiberMassKg,
-  freeWaterKg,
-  ovenDryMassKg,
-  wetBatchMassKg,
-} from "./batch";
+import { admixtureVolumeMl, batchSheet, fiberMassKg, freeWaterKg, ovenDryMassKg, wetBatchMassKg } from "./batch";
 import { inventedPavingMix } from "./paving.fixture";
 
 describe("moisture correction", () => {

@@ -1,12 +1,5 @@
 import { describe, expect, it } from "vitest";
-import {
-  absoluteVolume,
-  checkMixtureDesign,
-  constituentAbsoluteVolumeM3,
-  scmReplacementPercent,
-  totalCementitiousKgPerM3,
-  waterCementitiousRatio,
-} from "./design";
+import { absoluteVolume, checkMixtureDesign, constituentAbsoluteVolumeM3, scmReplacementPercent, totalCementitiousKgPerM3, waterCementitiousRatio } from "./design";
 import { inventedPavingMix } from "./paving.fixture";
 import type { MixtureDesign } from "./types";
 

@@ -1,20 +1,5 @@
 import { describe, expect, it } from "vitest";
-import {
-  celsiusToFahrenheit,
-  fahrenheitToCelsius,
-  flOzPerCwtToMlPer100kg,
-  ft3ToM3,
-  inToMm,
-  kgPerM3ToLbPerFt3,
-  kgPerM3ToLbPerYd3,
-  lbPerFt3ToKgPerM3,
-  lbPerYd3ToKgPerM3,
-  m3ToFt3,
-  m3ToYd3,
-  mlPer100kgToFlOzPerCwt,
-  mmToIn,
-  yd3ToM3,
-} from "./units";
+import { celsiusToFahrenheit, fahrenheitToCelsius, flOzPerCwtToMlPer100kg, ft3ToM3, inToMm, kgPerM3ToLbPerFt3, kgPerM3ToLbPerYd3, lbPerFt3ToKgPerM3, lbPerYd3ToKgPerM3, m3ToFt3, m3ToYd3, mlPer100kgToFlOzPerCwt, mmToIn, yd3ToM3 } from "./units";
 
 describe("unit definitions", () => {
   it("converts lb/yd³ to kg/m³", () => {

@@ -1,10 +1,4 @@
-import {
-  averageOfCellAverages,
-  averageReplicates,
-  mostFrequentReplicates,
-  replicateWeightedMean,
-  standardDeviationOfCellAverages,
-} from "./cell-averages";
+import { averageOfCellAverages, averageReplicates, mostFrequentReplicates, replicateWeightedMean, standardDeviationOfCellAverages } from "./cell-averages";
 import { cellStatistics, type CellStatistics } from "./cell-statistics";
 import { repeatabilityInterval, reproducibilityInterval } from "./confidence-intervals";
 import { hCritical, hStatistic, kCritical, kStatistic } from "./consistency";
@@ -12,13 +6,7 @@ import type { GroupAccumulator } from "./group-rows";
 import { repeatabilityUncertainty, reproducibilityUncertainty } from "./iso-uncertainty";
 import { c670Limits, coefficientOfVariation, precisionLimit } from "./limits";
 import { pooledRepeatabilityStandardDeviation, repeatabilityStandardDeviation } from "./repeatability";
-import {
-  betweenCellVariance,
-  betweenLabStandardDeviation,
-  betweenLabVariance,
-  generalBetweenLabVariance,
-  reproducibilityStandardDeviation,
-} from "./reproducibility";
+import { betweenCellVariance, betweenLabStandardDeviation, betweenLabVariance, generalBetweenLabVariance, reproducibilityStandardDeviation } from "./reproducibility";
 import { screenCells } from "./screening";
 import type { SignificanceLevel } from "./significance";
 import { significanceDescription } from "./significance-text";

@@ -1,15 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { analyzeStudy } from "./analyze-study";
 import { hCritical, kCritical } from "./consistency";
+import { CLEAN_CELLS, type Cells, L03_WIDE, L05_HIGH, toRows } from "./planted-outliers.fixture";
 import type { ComputedGroup, GroupResult, ResultRow, UncomputedGroup } from "./types";
-
-type Cells = Record<string, number[]>;
-
-function toRows(cells: Cells, material = "M1", response = "slump"): ResultRow[] {
-  return Object.entries(cells).flatMap(([lab, values]) =>
-    values.map((value, index) => ({ lab, material, response, replicate: index + 1, value })),
-  );
-}
 
 function computed(group: GroupResult | undefined): ComputedGroup {
   expect(group?.status).toBe("computed");
@@ -21,25 +14,13 @@ function uncomputed(group: GroupResult | undefined): UncomputedGroup {
   return group as UncomputedGroup;
 }
 
-// Invented planted-outlier data: 8 labs × 3 replicates around 100 with lab spreads of about 0.3.
-const BASE: Cells = {
-  L01: [100.1, 99.8, 100.3],
-  L02: [99.9, 100.2, 99.6],
-  L03: [100.4, 100.0, 100.2],
-  L04: [99.7, 100.1, 99.9],
-  L05: [100.3, 100.0, 100.5],
-  L06: [100.0, 99.6, 100.3],
-  L07: [100.2, 100.5, 99.9],
-  L08: [99.8, 100.0, 100.4],
-};
-// Invented: lab L05 planted about 5 units high (between-lab outlier).
-const PLANTED_BETWEEN: Cells = { ...BASE, L05: [105.2, 104.9, 105.4] };
+const BASE = CLEAN_CELLS;
+const PLANTED_BETWEEN: Cells = { ...BASE, ...L05_HIGH };
 // Invented: lab L06 planted about 5 units low (between-lab outlier on the other side).
 const PLANTED_LOW: Cells = { ...BASE, L06: [95.1, 94.8, 95.3] };
 // Invented: labs L02 and L07 planted together about 1.5 units high (a pair for the double Grubbs test).
 const PLANTED_PAIR: Cells = { ...BASE, L02: [101.4, 101.7, 101.1], L07: [101.7, 102.0, 101.4] };
-// Invented: lab L03 planted with a spread of about 3 (within-lab outlier), same average.
-const PLANTED_WITHIN: Cells = { ...BASE, L03: [97.0, 100.4, 103.1] };
+const PLANTED_WITHIN: Cells = { ...BASE, ...L03_WIDE };
 
 function flagged(group: ComputedGroup) {
   return group.labs.filter((lab) => lab.flags.length > 0).map((lab) => ({ lab: lab.lab, flags: lab.flags }));

@@ -1,12 +1,6 @@
 import { mean, sampleStandardDeviation } from "simple-statistics";
 import { describe, expect, it } from "vitest";
-import {
-  averageOfCellAverages,
-  averageReplicates,
-  mostFrequentReplicates,
-  replicateWeightedMean,
-  standardDeviationOfCellAverages,
-} from "./cell-averages";
+import { averageOfCellAverages, averageReplicates, mostFrequentReplicates, replicateWeightedMean, standardDeviationOfCellAverages } from "./cell-averages";
 
 describe("cell averages", () => {
   const means = [10.2, 9.8, 10.5, 10.1];

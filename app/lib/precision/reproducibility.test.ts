@@ -1,11 +1,5 @@
 import { describe, expect, it } from "vitest";
-import {
-  betweenCellVariance,
-  betweenLabStandardDeviation,
-  betweenLabVariance,
-  generalBetweenLabVariance,
-  reproducibilityStandardDeviation,
-} from "./reproducibility";
+import { betweenCellVariance, betweenLabStandardDeviation, betweenLabVariance, generalBetweenLabVariance, reproducibilityStandardDeviation } from "./reproducibility";
 
 describe("between-lab and reproducibility", () => {
   it("ASTM E691: s_L² = s_x̄² − s_r²/n; by hand, 0.5² − 0.6²/4 = 0.16", () => {

@@ -1,19 +1,11 @@
 import { describe, expect, it } from "vitest";
-import { analyzeStudy, type ComputedGroup, type Finding, type ResultRow } from "~/lib/precision";
+import { analyzeStudy, type ComputedGroup, type Finding } from "~/lib/precision";
+import { CLEAN_CELLS, L03_WIDE, L05_HIGH, toRows } from "~/lib/precision/planted-outliers.fixture";
 import { flaggedCells, labClasses, suggestedQuestion } from "./flags";
 
-// Invented: 8 labs × 3 replicates around 100; L05 planted 5 units high, L03 with a wide scatter.
-const CELLS: Record<string, number[]> = {
-  L01: [100.1, 99.8, 100.3],
-  L02: [99.9, 100.2, 99.6],
-  L03: [97.0, 100.4, 103.1],
-  L04: [99.7, 100.1, 99.9],
-  L05: [105.2, 104.9, 105.4],
-  L06: [100.0, 99.6, 100.3],
-  L07: [100.2, 100.5, 99.9],
-  L08: [99.8, 100.0, 100.4],
-};
-const rows: ResultRow[] = Object.entries(CELLS).flatMap(([lab, values]) => values.map((value, i) => ({ lab, material: "M1", response: "slump", replicate: i + 1, value })));
+// Invented: the clean 8 labs × 3 replicates with L05 planted 5 units high and L03 with a wide scatter.
+const CELLS = { ...CLEAN_CELLS, ...L03_WIDE, ...L05_HIGH };
+const rows = toRows(CELLS);
 const analysis = analyzeStudy(rows);
 const group = analysis.groups[0] as ComputedGroup;
 

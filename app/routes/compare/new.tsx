@@ -1,13 +1,11 @@
-import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
-import { Form, Link, useNavigation } from "react-router";
+import { Link } from "react-router";
 import type { Route } from "./+types/new";
 import { StatementCaution } from "~/components/statement-parts";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
-import { Button, Card, Field, PageHeader, SelectField, TextAreaField } from "~/components/ui";
+import { fieldProps, PostForm, useSchemaForm } from "~/components/forms";
+import { Card, Field, PageHeader, SelectField, TextAreaField } from "~/components/ui";
 import { comparisonSchema } from "~/lib/comparison/form";
 import { publishedStatements, saveComparison } from "~/models/comparison.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireUser } from "~/server/guards.server";
 import { redirectWithToast } from "~/server/toast.server";
 
@@ -20,11 +18,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
-  const submission = parseWithZod(await request.formData(), { schema: comparisonSchema });
-  if (submission.status !== "success") return refuse(submission);
-  const saved = await withRefusals(submission, () => saveComparison(user.id, submission.value));
-  if (!saved.ok) return saved.reply;
-  return redirectWithToast(`/compare/${saved.value}`, "Comparison saved to your history.");
+  return submitForm(request, comparisonSchema, (value) => saveComparison(user.id, value), (id) => redirectWithToast(`/compare/${id}`, "Comparison saved to your history."));
 }
 
 const SETTINGS = [
@@ -35,7 +29,6 @@ const SETTINGS = [
 export default function NewComparison({ loaderData, actionData }: Route.ComponentProps) {
   const { statements } = loaderData;
   const [form, fields] = useSchemaForm(comparisonSchema, { reply: actionData, id: "comparison", defaultValue: { setting: "same-lab" } });
-  const busy = useNavigation().state === "submitting";
   const options = statements.flatMap((s) =>
     s.responses.map((r) => ({
       value: `${s.id}:${r.key}`,
@@ -60,8 +53,7 @@ export default function NewComparison({ loaderData, actionData }: Route.Componen
           </Card>
         ) : (
           <Card>
-            <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
-              <FormErrors errors={form.errors} />
+            <PostForm form={form} submitLabel="Compare" busyLabel="Comparing…">
               <SelectField
                 label="Precision statement and response"
                 options={[{ value: "", label: "Choose…" }, ...options]}
@@ -81,12 +73,7 @@ export default function NewComparison({ loaderData, actionData }: Route.Componen
                 </fieldset>
               </div>
               <TextAreaField label="Notes (optional)" rows={3} {...fieldProps(fields.notes)} />
-              <div>
-                <Button type="submit" disabled={busy}>
-                  {busy ? "Comparing…" : "Compare"}
-                </Button>
-              </div>
-            </Form>
+            </PostForm>
           </Card>
         )}
         <StatementCaution />

@@ -1,17 +1,14 @@
-import { Link } from "react-router";
 import type { Route } from "./+types/index";
-import { StateBadge } from "~/components/state-badge";
-import { ListPage } from "~/components/list-page";
+import { ListPage, recordLink, stateCell } from "~/components/list-page";
 import { formatDate } from "~/lib/format";
-import { STUDY_STATE } from "~/lib/state-labels";
 import { listRounds } from "~/models/round.server";
-import { requireRole } from "~/server/guards.server";
+import { requireStudyListReader } from "~/server/guards.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Proficiency rounds · Ringbatch" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireRole(request, "coordinator", "admin");
-  return { rounds: await listRounds(user), canCreate: user.roles.includes("coordinator") };
+  const { user, canCreate } = await requireStudyListReader(request);
+  return { rounds: await listRounds(user), canCreate };
 }
 
 export default function Rounds({ loaderData }: Route.ComponentProps) {
@@ -25,11 +22,9 @@ export default function Rounds({ loaderData }: Route.ComponentProps) {
       caption="Proficiency rounds"
       headers={["Code", "Title", "State", "Results due"]}
       rows={rounds.map((round) => [
-        <Link key="code" to={`/rounds/${round.id}`} className="keep-whole font-semibold text-basalt-700 underline">
-          {round.code}
-        </Link>,
+        recordLink(`/rounds/${round.id}`, round.code),
         round.title,
-        <StateBadge key="state" view={STUDY_STATE[round.state]} />,
+        stateCell(round.state),
         formatDate(round.resultsDue),
       ])}
     />

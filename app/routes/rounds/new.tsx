@@ -1,12 +1,9 @@
-import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
-import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/new";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
-import { Button, Card, Field, PageHeader, SelectField, TextAreaField } from "~/components/ui";
+import { fieldProps, PostForm, useSchemaForm } from "~/components/forms";
+import { Card, Field, PageHeader, SelectField, TextAreaField } from "~/components/ui";
 import { newRoundSchema } from "~/lib/round-forms";
 import { createRound, publishedPrecisionStudies } from "~/models/round.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireRole } from "~/server/guards.server";
 import { redirectWithToast } from "~/server/toast.server";
 
@@ -20,11 +17,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireRole(request, "coordinator");
-  const submission = parseWithZod(await request.formData(), { schema: newRoundSchema });
-  if (submission.status !== "success") return refuse(submission);
-  const created = await withRefusals(submission, () => createRound(user.id, submission.value));
-  if (!created.ok) return created.reply;
-  return redirectWithToast(`/rounds/${created.value.id}`, `Round ${created.value.code} created. Invite the labs next.`);
+  return submitForm(request, newRoundSchema, (value) => createRound(user.id, value), (created) => redirectWithToast(`/rounds/${created.id}`, `Round ${created.code} created. Invite the labs next.`));
 }
 
 export default function NewRound({ loaderData, actionData }: Route.ComponentProps) {
@@ -34,13 +27,11 @@ export default function NewRound({ loaderData, actionData }: Route.ComponentProp
     id: "new-round",
     defaultValue: { sourceStudyId: from, replicatesPerCell: "2", materials: "R1 \nR2 " },
   });
-  const busy = useNavigation().state === "submitting";
   return (
     <>
       <PageHeader title="New proficiency round" subtitle="Lab codes are drawn afresh for every round, as labs accept their invitations." />
       <Card>
-        <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
-          <FormErrors errors={form.errors} />
+        <PostForm form={form} submitLabel="Create round">
           <SelectField
             label="From a published study"
             {...fieldProps(fields.sourceStudyId)}
@@ -60,12 +51,7 @@ export default function NewRound({ loaderData, actionData }: Route.ComponentProp
             {...fieldProps(fields.materials)}
           />
           <Field label="Results due" type="date" {...fieldProps(fields.resultsDue)} />
-          <div>
-            <Button type="submit" disabled={busy}>
-              Create round
-            </Button>
-          </div>
-        </Form>
+        </PostForm>
       </Card>
     </>
   );

@@ -1,16 +1,13 @@
-import { Link } from "react-router";
 import type { Route } from "./+types/index";
-import { StateBadge } from "~/components/state-badge";
-import { ListPage } from "~/components/list-page";
-import { STUDY_STATE } from "~/lib/state-labels";
+import { ListPage, recordLink, stateCell } from "~/components/list-page";
 import { listRuggednessStudies } from "~/models/ruggedness.server";
-import { requireRole } from "~/server/guards.server";
+import { requireStudyListReader } from "~/server/guards.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Ruggedness studies · Ringbatch" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireRole(request, "coordinator", "admin");
-  return { studies: await listRuggednessStudies(user), canCreate: user.roles.includes("coordinator") };
+  const { user, canCreate } = await requireStudyListReader(request);
+  return { studies: await listRuggednessStudies(user), canCreate };
 }
 
 export default function RuggednessStudies({ loaderData }: Route.ComponentProps) {
@@ -24,13 +21,11 @@ export default function RuggednessStudies({ loaderData }: Route.ComponentProps) 
       caption="Ruggedness studies"
       headers={["Code", "Title", "Test method", "Design", "State"]}
       rows={studies.map((s) => [
-        <Link key="code" to={`/ruggedness/${s.id}`} className="keep-whole font-semibold underline">
-          {s.code}
-        </Link>,
+        recordLink(`/ruggedness/${s.id}`, s.code),
         s.title,
         s.testMethod,
         s.runs ? `${s.runs} runs` : "not laid out",
-        <StateBadge key="state" view={STUDY_STATE[s.state]} />,
+        stateCell(s.state),
       ])}
     />
   );

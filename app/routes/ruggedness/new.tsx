@@ -1,12 +1,9 @@
-import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
-import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/new";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
-import { Button, Card, Field, PageHeader, SelectField, TextAreaField } from "~/components/ui";
+import { fieldProps, PostForm, useSchemaForm } from "~/components/forms";
+import { Card, Field, PageHeader, SelectField, TextAreaField } from "~/components/ui";
 import { newRuggednessSchema } from "~/lib/ruggedness/forms";
 import { createRuggednessStudy } from "~/models/ruggedness.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireRole } from "~/server/guards.server";
 import { redirectWithToast } from "~/server/toast.server";
 
@@ -19,11 +16,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireRole(request, "coordinator");
-  const submission = parseWithZod(await request.formData(), { schema: newRuggednessSchema });
-  if (submission.status !== "success") return refuse(submission);
-  const created = await withRefusals(submission, () => createRuggednessStudy(user.id, submission.value));
-  if (!created.ok) return created.reply;
-  return redirectWithToast(`/ruggedness/${created.value.id}`, `Ruggedness study ${created.value.code} created; now name its factors.`);
+  return submitForm(request, newRuggednessSchema, (value) => createRuggednessStudy(user.id, value), (created) => redirectWithToast(`/ruggedness/${created.id}`, `Ruggedness study ${created.code} created; now name its factors.`));
 }
 
 const TEMPLATES = [
@@ -33,13 +26,11 @@ const TEMPLATES = [
 
 export default function NewRuggednessStudy({ actionData }: Route.ComponentProps) {
   const [form, fields] = useSchemaForm(newRuggednessSchema, { reply: actionData, id: "new-ruggedness", defaultValue: { template: "float_finishing" } });
-  const busy = useNavigation().state === "submitting";
   return (
     <>
       <PageHeader title="New ruggedness study" subtitle="A single-lab screening of the procedure's details; you lay out the factors next." />
       <Card>
-        <Form method="post" className="flex max-w-2xl flex-col gap-4" {...getFormProps(form)}>
-          <FormErrors errors={form.errors} />
+        <PostForm form={form} submitLabel="Create the study" busyLabel="Creating…" className="flex max-w-2xl flex-col gap-4">
           <Field label="Code" hint="2–30 letters, digits and hyphens, such as RG-2027-1" {...fieldProps(fields.code)} />
           <Field label="Title" {...fieldProps(fields.title)} />
           <SelectField label="Test method" options={TEMPLATES} {...fieldProps(fields.template)} />
@@ -50,12 +41,7 @@ export default function NewRuggednessStudy({ actionData }: Route.ComponentProps)
             <Field label="Response unit" hint="e.g. mm" {...fieldProps(fields.responseUnit)} />
           </fieldset>
           <TextAreaField label="Notes (optional)" rows={3} {...fieldProps(fields.notes)} />
-          <div>
-            <Button type="submit" disabled={busy}>
-              {busy ? "Creating…" : "Create the study"}
-            </Button>
-          </div>
-        </Form>
+        </PostForm>
       </Card>
     </>
   );

@@ -1,16 +1,13 @@
-import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
-import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/new";
-import { FormErrors, useSchemaForm } from "~/components/forms";
+import { PostForm, useSchemaForm } from "~/components/forms";
 import { StudyFields } from "~/components/study-fields";
 import { StudyPlanner } from "~/components/study-planner";
-import { Button, Card, PageHeader } from "~/components/ui";
+import { Card, PageHeader } from "~/components/ui";
 import { newStudySchema } from "~/lib/study-forms";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import { createStudy } from "~/models/study-setup.server";
 import { plannerView } from "~/models/study-planner.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireRole } from "~/server/guards.server";
 import { redirectWithToast } from "~/server/toast.server";
 
@@ -23,11 +20,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireRole(request, "coordinator");
-  const submission = parseWithZod(await request.formData(), { schema: newStudySchema });
-  if (submission.status !== "success") return refuse(submission);
-  const created = await withRefusals(submission, () => createStudy(user.id, submission.value));
-  if (!created.ok) return created.reply;
-  return redirectWithToast(`/studies/${created.value.id}/setup`, `Study ${created.value.code} created.`);
+  return submitForm(request, newStudySchema, (value) => createStudy(user.id, value), (created) => redirectWithToast(`/studies/${created.id}/setup`, `Study ${created.code} created.`));
 }
 
 /** What each template fills in; a custom method starts blank, with nothing of the float finishing test. */
@@ -51,7 +44,6 @@ const TEMPLATE_DEFAULTS = {
 export default function NewStudy({ loaderData, actionData }: Route.ComponentProps) {
   const [form, fields] = useSchemaForm(newStudySchema, { reply: actionData, id: "new-study", defaultValue: TEMPLATE_DEFAULTS });
   const template = fields.template.initialValue;
-  const busy = useNavigation().state === "submitting";
   const chooseTemplate = (chosen: keyof typeof TEMPLATE_FIELDS) => {
     for (const [name, value] of Object.entries(TEMPLATE_FIELDS[chosen])) form.update({ name, value });
   };
@@ -59,8 +51,7 @@ export default function NewStudy({ loaderData, actionData }: Route.ComponentProp
     <>
       <PageHeader title="New study" subtitle="Start from the float finishing template or set up any other test method." />
       <Card>
-        <Form method="post" className="flex flex-col gap-6" {...getFormProps(form)}>
-          <FormErrors errors={form.errors} />
+        <PostForm form={form} submitLabel="Create study" className="flex flex-col gap-6">
           <fieldset className="flex flex-col gap-2" aria-describedby={fields.template.errors ? fields.template.errorId : undefined}>
             <legend className="mb-1 font-semibold text-basalt-800">Start from</legend>
             <label className="flex items-start gap-2">
@@ -88,12 +79,7 @@ export default function NewStudy({ loaderData, actionData }: Route.ComponentProp
             )}
           </fieldset>
           <StudyFields fields={fields} />
-          <div>
-            <Button type="submit" disabled={busy}>
-              Create study
-            </Button>
-          </div>
-        </Form>
+        </PostForm>
       </Card>
       <Card className="mt-6">
         <StudyPlanner view={loaderData.planner} askMaterials />

@@ -1,21 +1,15 @@
-import { and, asc, eq, inArray, or } from "drizzle-orm";
+import { and, asc, eq } from "drizzle-orm";
 import type { Route } from "./+types/rounds";
 import { db } from "~/db/client.server";
-import { enrollments, studies, studyCoordinators } from "~/db/schema";
+import { studies } from "~/db/schema";
+import { readableThroughApi } from "~/models/study.server";
 import { apiHandler, requireApiCaller } from "~/server/api.server";
 
 /** GET /api/v1/rounds — the proficiency rounds the caller may see: coordinated ones, or those its labs took part in (a token: its one round). */
 export async function loader({ request }: Route.LoaderArgs) {
   return apiHandler(async () => {
     const { user, token } = await requireApiCaller(request);
-    const visible =
-      user.roles.includes("admin")
-        ? undefined
-        : or(
-            eq(studies.ownerId, user.id),
-            inArray(studies.id, db.select({ id: studyCoordinators.studyId }).from(studyCoordinators).where(eq(studyCoordinators.userId, user.id))),
-            user.labIds.length ? inArray(studies.id, db.select({ id: enrollments.studyId }).from(enrollments).where(inArray(enrollments.labId, user.labIds))) : undefined,
-          );
+    const visible = readableThroughApi(user, { reviewed: false });
     const rows = await db
       .select({ id: studies.id, code: studies.code, title: studies.title, testMethod: studies.testMethod, state: studies.state })
       .from(studies)

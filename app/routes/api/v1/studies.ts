@@ -1,9 +1,10 @@
-import { and, asc, count, eq, inArray, or } from "drizzle-orm";
+import { and, asc, count, eq } from "drizzle-orm";
 import type { Route } from "./+types/studies";
 import { db } from "~/db/client.server";
-import { enrollments, studies, studyCoordinators, studyReviewers } from "~/db/schema";
+import { studies } from "~/db/schema";
 import { pageQuery } from "~/lib/api/schemas";
 import { readPage } from "~/lib/paging";
+import { readableThroughApi } from "~/models/study.server";
 import { apiHandler, callerView, conditionalRead, JSON_TYPE, readQuery, requireApiCaller } from "~/server/api.server";
 
 /** Studies per page of the API's list: `?page=2` asks for the next; the answer says how many pages there are. */
@@ -15,15 +16,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     const caller = await requireApiCaller(request);
     const { user, token } = caller;
     const columns = { id: studies.id, code: studies.code, title: studies.title, kind: studies.kind, state: studies.state };
-    const visible =
-      user.roles.includes("admin")
-        ? undefined
-        : or(
-            eq(studies.ownerId, user.id),
-            inArray(studies.id, db.select({ id: studyCoordinators.studyId }).from(studyCoordinators).where(eq(studyCoordinators.userId, user.id))),
-            inArray(studies.id, db.select({ id: studyReviewers.studyId }).from(studyReviewers).where(eq(studyReviewers.userId, user.id))),
-            user.labIds.length ? inArray(studies.id, db.select({ id: enrollments.studyId }).from(enrollments).where(inArray(enrollments.labId, user.labIds))) : undefined,
-          );
+    const visible = readableThroughApi(user);
     // The list has no version of its own: its tag is a digest of what it lists.
     return conditionalRead(request, callerView(caller), null, async () => {
       const where = and(visible, token ? eq(studies.id, token.studyId ?? -1) : undefined);

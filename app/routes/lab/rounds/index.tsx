@@ -1,8 +1,6 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/index";
-import { StateBadge } from "~/components/state-badge";
-import { ListPage } from "~/components/list-page";
-import { STUDY_STATE } from "~/lib/state-labels";
+import { ListPage, recordLink, stateCell } from "~/components/list-page";
 import { labRounds } from "~/models/round.server";
 import { requireRole } from "~/server/guards.server";
 
@@ -22,12 +20,10 @@ export default function LabRounds({ loaderData }: Route.ComponentProps) {
       caption="Your lab's proficiency rounds"
       headers={["Round", "Title", "Your lab code", "State", "Letter"]}
       rows={loaderData.rounds.map((round) => [
-        <Link key="code" to={`/lab/rounds/${round.id}`} className="keep-whole font-semibold text-basalt-700 underline">
-          {round.code}
-        </Link>,
+        recordLink(`/lab/rounds/${round.id}`, round.code),
         round.title,
         round.labCode ?? "—",
-        <StateBadge key="state" view={STUDY_STATE[round.state]} />,
+        stateCell(round.state),
         round.state === "published" ? (
           <Link key="letter" to={`/lab/rounds/${round.id}/letter`} className="font-semibold text-basalt-700 underline">
             Read the letter

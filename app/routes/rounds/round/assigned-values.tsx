@@ -1,15 +1,12 @@
-import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
-import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/assigned-values";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
-import { replyFor } from "~/components/round-parts";
+import { fieldProps, PostForm, useSchemaForm } from "~/components/forms";
+import { groupFields, replyFor } from "~/components/round-parts";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Button, Card, Field, Notice, SelectField } from "~/components/ui";
+import { Card, Field, Notice, SelectField } from "~/components/ui";
 import { figureDecimals, formatFigure } from "~/lib/review/format";
 import { assignmentSchema } from "~/lib/round-forms";
 import { hasPublishedPrecision, roundDesign, saveAssignment, scoreRound } from "~/models/round.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 import { writeRefusal } from "~/lib/write-rules";
@@ -35,11 +32,7 @@ export async function loader({ context }: Route.LoaderArgs) {
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireRound(context, ["coordinator"]);
-  const submission = parseWithZod(await request.formData(), { schema: assignmentSchema });
-  if (submission.status !== "success") return refuse(submission);
-  const saved = await withRefusals(submission, () => saveAssignment(study, user.id, submission.value));
-  if (!saved.ok) return saved.reply;
-  return redirectWithToast(`/rounds/${study.id}/assigned-values`, "Choice saved.");
+  return submitForm(request, assignmentSchema, (value) => saveAssignment(study, user.id, value), () => redirectWithToast(`/rounds/${study.id}/assigned-values`, "Choice saved."));
 }
 
 type Group = Route.ComponentProps["loaderData"]["groups"][number];
@@ -57,7 +50,6 @@ function AssignmentForm({ group, editable, reply }: { group: Group; editable: bo
       fixedSigma: assignment?.fixedSigma?.toString() ?? "",
     },
   });
-  const busy = useNavigation().state === "submitting";
   const d = figureDecimals(response.decimals);
   const unit = response.unit ? ` ${response.unit}` : "";
   return (
@@ -90,13 +82,7 @@ function AssignmentForm({ group, editable, reply }: { group: Group; editable: bo
         <Notice tone="caution">u(x_pt) exceeds 0.3·σ_pt (ISO 13528 9.2.1): labs are judged by z′, which allows for it.</Notice>
       )}
       {editable && (
-        <Form method="post" className="mt-4 grid gap-3 sm:grid-cols-2" {...getFormProps(form)}>
-          <input type="hidden" name="intent" value="assignment" />
-          <input type="hidden" name="materialId" value={material.id} />
-          <input type="hidden" name="responseId" value={response.id} />
-          <div className="sm:col-span-2">
-            <FormErrors errors={form.errors} />
-          </div>
+        <PostForm form={form} submitLabel="Save choice" hidden={groupFields("assignment", group)} className="mt-4 grid gap-3 sm:grid-cols-2" errorsClassName="sm:col-span-2" submitClassName="self-end">
           <SelectField
             label="Assigned value"
             {...fieldProps(fields.assignedMethod)}
@@ -117,12 +103,7 @@ function AssignmentForm({ group, editable, reply }: { group: Group; editable: bo
           <Field label="Reference value" inputMode="decimal" hint="Only with a reference value." {...fieldProps(fields.referenceValue)} />
           <Field label="Its standard uncertainty" inputMode="decimal" {...fieldProps(fields.referenceUncertainty)} />
           <Field label="Fixed σ_pt" inputMode="decimal" hint="Only with a fixed value." {...fieldProps(fields.fixedSigma)} />
-          <div className="self-end">
-            <Button type="submit" disabled={busy}>
-              Save choice
-            </Button>
-          </div>
-        </Form>
+        </PostForm>
       )}
     </Card>
   );

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/layout";
-import { StudyFrame, frameStudy, tabsUnder } from "~/components/study-frame";
+import { frameStudy, framedStudyLayout } from "~/components/study-frame";
 import { requireRound, roundAccessMiddleware } from "~/server/round-context.server";
 
 // Coordinators run the round; admins read it.
@@ -7,18 +7,13 @@ export const middleware: Route.MiddlewareFunction[] = [roundAccessMiddleware(["c
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { study } = requireRound(context, ["coordinator", "admin"]);
-  return { round: frameStudy(study) };
+  return { study: frameStudy(study) };
 }
 
-const TABS: [path: string, label: string][] = [
+export default framedStudyLayout("/rounds", [
   ["", "Overview"],
   ["/assigned-values", "Assigned values & σ_pt"],
   ["/material-checks", "Homogeneity & stability"],
   ["/scores", "Scores"],
   ["/report", "Round report"],
-];
-
-export default function RoundLayout({ loaderData }: Route.ComponentProps) {
-  const { round } = loaderData;
-  return <StudyFrame study={round} tabs={tabsUnder(`/rounds/${round.id}`, TABS)} />;
-}
+]);

@@ -1,16 +1,13 @@
-import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
-import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/material-checks";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, PostForm, useSchemaForm } from "~/components/forms";
 import { ConcreteCaution } from "~/components/cautions";
-import { replyFor } from "~/components/round-parts";
+import { groupFields, replyFor } from "~/components/round-parts";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Badge, Button, Card, Notice, TextAreaField } from "~/components/ui";
+import { Badge, Card, Notice, TextAreaField } from "~/components/ui";
 import { figureDecimals, formatFigure } from "~/lib/review/format";
 import { checksSchema } from "~/lib/round-forms";
 import { roundDesign, saveChecks, scoreRound } from "~/models/round.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 import { writeRefusal } from "~/lib/write-rules";
@@ -31,11 +28,7 @@ export async function loader({ context }: Route.LoaderArgs) {
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireRound(context, ["coordinator"]);
-  const submission = parseWithZod(await request.formData(), { schema: checksSchema });
-  if (submission.status !== "success") return refuse(submission);
-  const saved = await withRefusals(submission, () => saveChecks(study, user.id, submission.value));
-  if (!saved.ok) return saved.reply;
-  return redirectWithToast(`/rounds/${study.id}/material-checks`, "Check results saved.");
+  return submitForm(request, checksSchema, (value) => saveChecks(study, user.id, value), () => redirectWithToast(`/rounds/${study.id}/material-checks`, "Check results saved."));
 }
 
 type Group = Route.ComponentProps["loaderData"]["groups"][number];
@@ -55,7 +48,6 @@ function ChecksForm({ group, editable, reply }: { group: Group; editable: boolea
       justification: scored.justification,
     },
   });
-  const busy = useNavigation().state === "submitting";
   const d = figureDecimals(response.decimals);
   const { homogeneity, stability } = scored;
   return (
@@ -89,13 +81,7 @@ function ChecksForm({ group, editable, reply }: { group: Group; editable: boolea
         <Notice tone="caution">Scores cannot be published until both checks meet their criteria or a justification is recorded below.</Notice>
       )}
       {editable && (
-        <Form method="post" className="mt-4 grid gap-3 md:grid-cols-2" {...getFormProps(form)}>
-          <input type="hidden" name="intent" value="checks" />
-          <input type="hidden" name="materialId" value={material.id} />
-          <input type="hidden" name="responseId" value={response.id} />
-          <div className="md:col-span-2">
-            <FormErrors errors={form.errors} />
-          </div>
+        <PostForm form={form} submitLabel="Save check results" hidden={groupFields("checks", group)} className="mt-4 grid gap-3 md:grid-cols-2" errorsClassName="md:col-span-2">
           <TextAreaField
             label="Homogeneity: two results per sample"
             rows={8}
@@ -116,12 +102,7 @@ function ChecksForm({ group, editable, reply }: { group: Group; editable: boolea
               {...fieldProps(fields.justification)}
             />
           </div>
-          <div>
-            <Button type="submit" disabled={busy}>
-              Save check results
-            </Button>
-          </div>
-        </Form>
+        </PostForm>
       )}
     </Card>
   );

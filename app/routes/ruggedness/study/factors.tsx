@@ -1,5 +1,4 @@
 import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, useNavigation } from "react-router";
 import type { Route } from "./+types/factors";
 import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
@@ -7,7 +6,7 @@ import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, Field, Notice, SelectField } from "~/components/ui";
 import { factorsSchema, MAX_FACTORS } from "~/lib/ruggedness/forms";
 import { ruggednessSetup, saveFactors } from "~/models/ruggedness.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireRuggednessStudy } from "~/server/ruggedness-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 import { writeRefusal } from "~/lib/write-rules";
@@ -23,11 +22,7 @@ export async function loader({ context }: Route.LoaderArgs) {
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireRuggednessStudy(context, ["coordinator"]);
-  const submission = parseWithZod(await request.formData(), { schema: factorsSchema });
-  if (submission.status !== "success") return refuse(submission);
-  const saved = await withRefusals(submission, () => saveFactors(study, user.id, submission.value));
-  if (!saved.ok) return saved.reply;
-  return redirectWithToast(`/ruggedness/${study.id}/design`, `Design laid out: ${saved.value.runs} runs in a random order.`);
+  return submitForm(request, factorsSchema, (value) => saveFactors(study, user.id, value), (saved) => redirectWithToast(`/ruggedness/${study.id}/design`, `Design laid out: ${saved.runs} runs in a random order.`));
 }
 
 const REPLICATE_OPTIONS = [

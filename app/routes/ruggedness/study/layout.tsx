@@ -1,5 +1,5 @@
 import type { Route } from "./+types/layout";
-import { StudyFrame, frameStudy, tabsUnder } from "~/components/study-frame";
+import { frameStudy, framedStudyLayout } from "~/components/study-frame";
 import { requireRuggednessStudy, ruggednessAccessMiddleware } from "~/server/ruggedness-context.server";
 
 // A ruggedness study is its coordinator's own work in one lab; admins read it.
@@ -10,15 +10,10 @@ export async function loader({ context }: Route.LoaderArgs) {
   return { study: frameStudy(study) };
 }
 
-const TABS: [path: string, label: string][] = [
+export default framedStudyLayout("/ruggedness", [
   ["", "Factors"],
   ["/design", "Design & run sheet"],
   ["/results", "Results"],
   ["/effects", "Effects"],
   ["/conclusions", "Conclusions"],
-];
-
-export default function RuggednessLayout({ loaderData }: Route.ComponentProps) {
-  const { study } = loaderData;
-  return <StudyFrame study={study} tabs={tabsUnder(`/ruggedness/${study.id}`, TABS)} />;
-}
+]);

@@ -3,6 +3,7 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { useMemo, useState } from "react";
 import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/material";
+import { DetailList } from "~/components/detail-list";
 import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, Field, Notice } from "~/components/ui";
@@ -197,28 +198,18 @@ export default function MaterialPage({ loaderData, actionData }: Route.Component
         <Card title="Checks">
           {check ? (
             <div aria-live="polite" className="flex flex-col gap-3">
-              <dl className="grid gap-3 md:grid-cols-4">
-                <div>
-                  <dt className="font-semibold">Absolute volume</dt>
-                  <dd>
-                    {check.absoluteVolume.totalM3.toFixed(3)} m³ per m³ ({(check.absoluteVolume.totalM3 * (M3_PER_YD3 / M3_PER_FT3)).toFixed(2)} ft³ per yd³)
-                  </dd>
-                </div>
-                <div>
-                  <dt className="font-semibold">w/cm</dt>
-                  <dd>{fixed(check.waterCementitiousRatio, 3)}</dd>
-                </div>
-                <div>
-                  <dt className="font-semibold">SCM replacement</dt>
-                  <dd>{fixed(check.scmReplacementPercent, 1)} % of cementitious</dd>
-                </div>
-                <div>
-                  <dt className="font-semibold">Cementitious</dt>
-                  <dd>
-                    {check.totalCementitiousKgPerM3.toFixed(0)} kg/m³ ({kgPerM3ToLbPerYd3(check.totalCementitiousKgPerM3).toFixed(0)} lb/yd³)
-                  </dd>
-                </div>
-              </dl>
+              <DetailList
+                className="grid gap-3 md:grid-cols-4"
+                items={[
+                  [
+                    "Absolute volume",
+                    `${check.absoluteVolume.totalM3.toFixed(3)} m³ per m³ (${(check.absoluteVolume.totalM3 * (M3_PER_YD3 / M3_PER_FT3)).toFixed(2)} ft³ per yd³)`,
+                  ],
+                  ["w/cm", fixed(check.waterCementitiousRatio, 3)],
+                  ["SCM replacement", `${fixed(check.scmReplacementPercent, 1)} % of cementitious`],
+                  ["Cementitious", `${check.totalCementitiousKgPerM3.toFixed(0)} kg/m³ (${kgPerM3ToLbPerYd3(check.totalCementitiousKgPerM3).toFixed(0)} lb/yd³)`],
+                ]}
+              />
               {check.warnings.map((w) => (
                 <Notice key={w.code} tone="caution">
                   {w.message}

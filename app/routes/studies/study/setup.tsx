@@ -2,6 +2,7 @@ import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/setup";
+import { DetailList } from "~/components/detail-list";
 import { ConfirmStep } from "~/components/confirm-dialog";
 import { DataTable } from "~/components/data-table";
 import { fieldProps, FormErrors, formWideErrors, refusalOf, useSchemaForm } from "~/components/forms";
@@ -211,24 +212,14 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
         {canEdit && mayWrite("details", study.state) ? (
           <DetailsForm study={study} reply={actionData} busy={busy} />
         ) : (
-          <dl className="grid gap-2 md:grid-cols-2">
-            <div>
-              <dt className="font-semibold">Test method</dt>
-              <dd>{study.testMethod}</dd>
-            </div>
-            <div>
-              <dt className="font-semibold">Replicates per cell</dt>
-              <dd>{study.replicatesPerCell}</dd>
-            </div>
-            <div>
-              <dt className="font-semibold">Results due</dt>
-              <dd>{formatDate(study.resultsDue)}</dd>
-            </div>
-            <div>
-              <dt className="font-semibold">Notes</dt>
-              <dd>{study.notes || "—"}</dd>
-            </div>
-          </dl>
+          <DetailList
+            items={[
+              ["Test method", study.testMethod],
+              ["Replicates per cell", study.replicatesPerCell],
+              ["Results due", formatDate(study.resultsDue)],
+              ["Notes", study.notes || "—"],
+            ]}
+          />
         )}
       </Card>
 

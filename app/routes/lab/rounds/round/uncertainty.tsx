@@ -1,5 +1,4 @@
 import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/uncertainty";
 import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
@@ -8,7 +7,7 @@ import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, Field } from "~/components/ui";
 import { uncertaintySchema } from "~/lib/round-forms";
 import { labUncertainties, roundDesign, saveLabUncertainty } from "~/models/round.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireRound } from "~/server/round-context.server";
 import { writeRefusal } from "~/lib/write-rules";
 import { redirectWithToast } from "~/server/toast.server";
@@ -30,11 +29,7 @@ export async function loader({ context }: Route.LoaderArgs) {
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, enrollment, user } = requireRound(context, ["analyst"]);
-  const submission = parseWithZod(await request.formData(), { schema: uncertaintySchema });
-  if (submission.status !== "success") return refuse(submission);
-  const saved = await withRefusals(submission, () => saveLabUncertainty(enrollment!.id, study, user.id, submission.value));
-  if (!saved.ok) return saved.reply;
-  return redirectWithToast(`/lab/rounds/${study.id}`, "Uncertainty saved.");
+  return submitForm(request, uncertaintySchema, (value) => saveLabUncertainty(enrollment!.id, study, user.id, value), () => redirectWithToast(`/lab/rounds/${study.id}`, "Uncertainty saved."));
 }
 
 type Group = Route.ComponentProps["loaderData"]["groups"][number];
