@@ -152,5 +152,5 @@ describe("access-control matrix", () => {
     expect(leaks).toEqual([]);
     expect(observed).toEqual(EXPECTED);
     expect(ownLabCode).toMatch(/^L\d\d$/);
-  });
+  }, 180_000); // every route × method × persona through the real modules: well over the default on a 2-core machine
 });
