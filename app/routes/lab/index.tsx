@@ -71,7 +71,7 @@ export default function LabHome({ loaderData, actionData }: Route.ComponentProps
                   <StateBadge view={STUDY_STATE[e.studyState]} />
                   {e.enrollmentState === "withdrawn" && <StateBadge view={{ ...ENROLLMENT_STATE.withdrawn, label: "Your lab withdrawn" }} />}
                   <span>
-                    {e.labName} · lab code <span className="whitespace-nowrap font-semibold">{e.labCode ?? "—"}</span>
+                    {e.labName} · <span className="whitespace-nowrap">lab code <span className="font-semibold">{e.labCode ?? "—"}</span></span>
                   </span>
                 </span>
               </div>
