@@ -66,6 +66,7 @@ export default [
       route("receipt", "routes/lab/study/receipt.tsx"),
       route("batch/:materialId", "routes/lab/study/batch-sheet.tsx"),
       route("results/:materialId", "routes/lab/study/result-entry.tsx"),
+      route("results/:materialId/photo", "routes/lab/study/result-photo.ts"),
       route("import", "routes/lab/study/import.tsx"),
       route("import/template.csv", "routes/lab/study/results-template.ts", { id: "lab-results-template-csv" }),
       route("import/template.xlsx", "routes/lab/study/results-template.ts", { id: "lab-results-template-xlsx" }),

@@ -19,6 +19,8 @@ export const firstPasswordSchema = z.object(passwordTwice).refine(samePassword, 
 export const acceptInvitationSchema = z.object({ intent: z.literal("accept") });
 export const declineInvitationSchema = z.object({ intent: z.literal("decline") });
 export const invitationAnswerSchema = z.discriminatedUnion("intent", [acceptInvitationSchema, declineInvitationSchema]);
+/** A signed-in analyst answers their lab's invitation on the lab home; the buttons carry the intent. */
+export const labInvitationAnswerSchema = z.object({ intent: z.enum(["accept", "decline"]), enrollmentId: z.coerce.number().int().positive() });
 export const invitationAccountSchema = z.object({ intent: z.literal("accept"), name: nameField, ...passwordTwice }).refine(samePassword, PASSWORDS_DIFFER);
 
 // The account page: one form per intent, told apart by the hidden `intent` field.

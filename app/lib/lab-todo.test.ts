@@ -26,7 +26,7 @@ describe("what is waiting for a lab", () => {
       {
         kind: "accept",
         title: "Accept the invitation",
-        detail: "Use the link in the invitation sent to lab@example.org; it works until 2026-08-20.",
+        detail: "Answer here, or with the link in the invitation sent to lab@example.org; either works until 2026-08-20.",
         due: "2026-08-14",
         links: [{ to: "/lab/studies/2", label: "About the study" }],
       },

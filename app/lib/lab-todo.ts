@@ -54,7 +54,7 @@ export function labTodoItems(facts: LabStudyFacts): TodoItem[] {
         kind: "accept",
         title: "Accept the invitation",
         detail: facts.invitation
-          ? `Use the link in the invitation sent to ${facts.invitation.email}; it works until ${facts.invitation.expiresOn}.`
+          ? `Answer here, or with the link in the invitation sent to ${facts.invitation.email}; either works until ${facts.invitation.expiresOn}.`
           : "Ask the coordinator for a new invitation link.",
         due: facts.enrollmentDeadline,
         links: [{ to: base, label: "About the study" }],

@@ -4,7 +4,7 @@
  * days, and only for the study its link names.
  */
 import { randomBytes } from "node:crypto";
-import { and, asc, count, eq, isNull, ne, or, sql } from "drizzle-orm";
+import { and, asc, count, desc, eq, gt, isNull, ne, or, sql } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
 import { enrollments, invitations, labMembers, labs, materials, responses, studies, studyReviewers, userRoles, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
@@ -213,6 +213,29 @@ export async function declineInvitation(found: Valid, actorUserId: number | null
     await tx.update(enrollments).set({ state: "declined", respondedAt: new Date() }).where(eq(enrollments.id, found.enrollment.id));
     await recordAudit({ actorUserId, action: "invitation_declined", entityType: "enrollment", entityId: found.enrollment.id, studyId: found.study.id }, tx);
   });
+}
+
+/**
+ * A signed-in analyst of the invited lab answers from the lab home, without
+ * the e-mail's link: the enrollment's pending invitation is answered as the
+ * link would answer it, so it too is used once and only while it is valid.
+ */
+export async function answerInvitationInApp(user: SessionUser, enrollmentId: number, answer: "accept" | "decline") {
+  const enrollment = await db.query.enrollments.findFirst({ where: eq(enrollments.id, enrollmentId) });
+  if (!enrollment || !user.labIds.includes(enrollment.labId)) throw new InvitationError("form", "Your lab has no invitation to answer here.");
+  if (enrollment.state !== "invited") throw new InvitationError("form", "This invitation has already been answered.");
+  const invitation = await db.query.invitations.findFirst({
+    where: and(eq(invitations.enrollmentId, enrollmentId), isNull(invitations.usedAt), gt(invitations.expiresAt, new Date())),
+    orderBy: desc(invitations.id),
+  });
+  if (!invitation) throw new InvitationError("form", "This invitation has expired. Ask the study coordinator to invite your lab again.");
+  const [study, lab] = await Promise.all([
+    db.query.studies.findFirst({ where: eq(studies.id, enrollment.studyId) }),
+    db.query.labs.findFirst({ where: eq(labs.id, enrollment.labId) }),
+  ]);
+  const found: Valid = { status: "valid", invitation, enrollment, study: study!, lab: lab!, account: { id: user.id, hasPassword: true } };
+  if (answer === "decline") return declineInvitation(found, user.id);
+  await acceptInvitation(found, { signedIn: user });
 }
 
 /**

@@ -16,7 +16,7 @@ import { countOf } from "~/lib/format";
 import { checkResultValue, outsidePlausibleRange } from "~/lib/results/values";
 import { PHOTO_MAX_BYTES } from "~/lib/results/entry-forms";
 import { enrollmentRefusal, writeRefusal } from "~/lib/write-rules";
-import { IMAGE_TYPES, storeUpload } from "~/server/uploads.server";
+import { IMAGE_TYPES, storeUpload, UploadError } from "~/server/uploads.server";
 import { bumpDataVersion, studyResultRows } from "~/models/analysis.server";
 
 export type Enrollment = typeof enrollments.$inferSelect;
@@ -527,6 +527,17 @@ export async function attachReplicatePhoto(enrollment: Enrollment, materialId: n
     );
   });
   return attachment;
+}
+
+/** Stores the photo, or says why not (study closed, material submitted, not an image), to show beside its replicate. */
+export async function attachReplicatePhotoOrRefusal(enrollment: Enrollment, materialId: number, replicate: number, file: File, user: Actor) {
+  try {
+    await attachReplicatePhoto(enrollment, materialId, replicate, file, user);
+    return null;
+  } catch (error) {
+    if (error instanceof ResultsError || error instanceof UploadError) return error.message;
+    throw error;
+  }
 }
 
 export const RESULTS_LABS_PER_PAGE = 10;

@@ -11,12 +11,17 @@ const toastStorage = createCookieSessionStorage<Record<string, never>, { toast: 
   cookie: { name: "__ringbatch_toast", httpOnly: true, sameSite: "lax", path: "/", secure: process.env.NODE_ENV === "production", secrets: sessionSecrets },
 });
 
-/** Redirects to `to` with a message the next page shows once. */
-export async function redirectWithToast(to: string, message: string, tone: Toast["tone"] = "success", init: ResponseInit = {}) {
+/** The cookie that carries a message the next page load shows once (after a redirect, or a reload the page asks for). */
+export async function toastCookie(message: string, tone: Toast["tone"] = "success") {
   const session = await toastStorage.getSession();
   session.flash("toast", { message, tone });
+  return toastStorage.commitSession(session);
+}
+
+/** Redirects to `to` with a message the next page shows once. */
+export async function redirectWithToast(to: string, message: string, tone: Toast["tone"] = "success", init: ResponseInit = {}) {
   const headers = new Headers(init.headers);
-  headers.append("Set-Cookie", await toastStorage.commitSession(session));
+  headers.append("Set-Cookie", await toastCookie(message, tone));
   return redirect(to, { ...init, headers });
 }
 

@@ -76,6 +76,14 @@ describe("a lab's day, in the browser", () => {
     expect(all).toContain(squeeze("Mixing sequence"));
     expect(all).not.toContain(squeeze("Save batch sheet"));
     expect(all).not.toContain(squeeze("Saved: this sheet is kept"));
+
+    // Opened again, the caution is folded to its summary on screen; on paper it still prints, summary and advice.
+    await page.reload();
+    const caution = page.locator("details", { hasText: "Safety: caustic concrete, heavy batches" });
+    await expect.poll(() => caution.evaluate((d) => (d as HTMLDetailsElement).open)).toBe(false);
+    const folded = squeeze(pdfPageTexts(await page.pdf({ format: "Letter" })).join(" "));
+    expect(folded).toContain(squeeze("Safety: caustic concrete, heavy batches"));
+    expect(folded).toContain(squeeze("Fresh concrete is caustic: wear gloves and eye protection"));
     await context.close();
   });
 

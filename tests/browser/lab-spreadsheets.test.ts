@@ -1,5 +1,6 @@
 import { readFile } from "node:fs/promises";
 import type { Page } from "playwright-core";
+import sharp from "sharp";
 import { describe, expect, it } from "vitest";
 import { DEMO_PASSWORD } from "../../seed/demo-data";
 import { expectAccessible, signInAs, useServerAndBrowser } from "../support/browser";
@@ -75,6 +76,37 @@ describe("spreadsheets in and out, photos and phones, in the browser", () => {
     await expectAccessible(page);
     await context.close();
   });
+
+  it("shows the bytes sent while a photo uploads, then its thumbnail; a file the server refuses is named beside its replicate", async () => {
+    const { context, page } = await signedIn("analyst5@ringbatch.example");
+    await page.getByRole("link", { name: "Enter results for F1" }).click();
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Results of F1 — FF-2026-B");
+    // About 4 MB of noise as a JPEG, sent over an upload link slowed to 1 MB/s, so the progress can be read on the way.
+    const noise = Buffer.alloc(2400 * 1800 * 3).map(() => Math.floor(Math.random() * 256));
+    const surface = await sharp(noise, { raw: { width: 2400, height: 1800, channels: 3 } }).jpeg({ quality: 95 }).toBuffer();
+    const cdp = await context.newCDPSession(page);
+    await cdp.send("Network.emulateNetworkConditions", { offline: false, latency: 20, downloadThroughput: -1, uploadThroughput: 1_000_000 });
+    await page.getByLabel("Surface photo of replicate 1").setInputFiles({ name: "surface.jpg", mimeType: "image/jpeg", buffer: surface });
+    await page.getByRole("button", { name: "Upload photo of replicate 1" }).click();
+    // The total is the whole request: the photo and the form's few other fields.
+    await expect.poll(() => page.getByText(/^Uploading: /).textContent(), { timeout: 10_000 }).toMatch(/^Uploading: \d+\.\d of \d+\.\d MB \(\d+ %\)$/);
+    const bar = await page.locator("progress").evaluate((p) => ({ value: (p as HTMLProgressElement).value, max: (p as HTMLProgressElement).max }));
+    expect(bar.max).toBeGreaterThanOrEqual(surface.length);
+    expect(bar.value).toBeGreaterThan(0);
+    await expectAccessible(page);
+    await cdp.send("Network.emulateNetworkConditions", { offline: false, latency: 0, downloadThroughput: -1, uploadThroughput: -1 });
+    await expect.poll(() => page.getByText("Photo of replicate 1 added.").count(), { timeout: 30_000 }).toBe(1);
+    await expect.poll(() => page.locator("progress").count()).toBe(0);
+    expect(await page.getByRole("img", { name: /replicate 1/ }).count()).toBe(1);
+
+    // Text named .png passes the browser's check of type and size; the server judges the bytes and refuses it.
+    const photo = page.getByLabel("Surface photo of replicate 3");
+    await photo.setInputFiles({ name: "notes.png", mimeType: "image/png", buffer: Buffer.from("just some notes, not a picture") });
+    await page.getByRole("button", { name: "Upload photo of replicate 3" }).click();
+    const error = page.locator(`#${await photo.getAttribute("id")}-error`);
+    await expect.poll(() => error.textContent()).toBe("This file is not a JPG, PNG, WEBP file (judged from its contents, not its name).");
+    await context.close();
+  }, 60_000);
 
   it("lays result entry out as one card per replicate on a phone, and cuts no column off at 1280 px", async () => {
     const phone = await signedIn("analyst5@ringbatch.example", { width: 390, height: 844 });

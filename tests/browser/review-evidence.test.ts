@@ -11,6 +11,17 @@ describe("the committee's evidence, in the browser", () => {
   it("shows a reviewer the retained cell and its reason, the values by lab code, and the vote after the evidence", { timeout: 120_000 }, async () => {
     const coordinator = await as("coordinator@ringbatch.example");
     await visit(coordinator, `/studies/${STUDY}/analysis?cell=L08:M2:surface#investigate`);
+    // The query behind the decision; L08 is demo lab index 4 in FF-2026-A, whose analyst answers naming a colleague.
+    await coordinator.getByLabel("Question to the lab").fill("Please re-count the passes on M2 from your video.");
+    await coordinator.getByRole("button", { name: "Send the query" }).click();
+    await coordinator.getByText("Query sent to lab L08.").waitFor();
+    const analyst = await as("analyst5@ringbatch.example");
+    await visit(analyst, "/lab/queries");
+    const colleague = DEMO_PEOPLE.analysts[4]!.name;
+    await analyst.getByLabel("Your answer").first().fill(`${colleague} re-counted them from the video; the counts stand.`);
+    await analyst.getByRole("button", { name: "Send answer" }).first().click();
+    await analyst.getByText("Answer sent to the coordinator.").waitFor();
+    await visit(coordinator, `/studies/${STUDY}/analysis?cell=L08:M2:surface#investigate`);
     await coordinator.getByLabel("Retain the cell").check();
     // A reason naming the lab is refused beside the field, before it can reach the committee.
     await coordinator.getByLabel("Reason", { exact: true }).fill(`${DEMO_LABS[4].name} re-counted the passes; the counts stand.`);
@@ -34,6 +45,10 @@ describe("the committee's evidence, in the browser", () => {
     await reviewer.getByRole("heading", { name: "Review — FF-2026-A", level: 1 }).waitFor();
     const decisions = reviewer.getByRole("list", { name: /Cell decisions/ });
     await expect.poll(() => decisions.textContent()).toMatch(/Lab L08 · M2 · surface\s*Retained.*The lab re-counted the passes from its video/);
+    // The query and the lab's answer under the decision, the colleague's name withheld from the committee.
+    await expect.poll(() => decisions.getByRole("list", { name: "Queries on this cell" }).textContent()).toMatch(
+      /Please re-count the passes on M2 from your video\.\s*Lab L08 answered \d{4}-\d{2}-\d{2}: \[withheld\] re-counted them from the video; the counts stand\./,
+    );
 
     await reviewer.getByRole("navigation", { name: "Materials" }).getByRole("link", { name: "M2" }).click();
     await reviewer.waitForURL(/material=M2/);
@@ -52,5 +67,6 @@ describe("the committee's evidence, in the browser", () => {
     await expectAccessible(reviewer);
     const html = await reviewer.content();
     for (const lab of DEMO_LABS) expect(html).not.toContain(lab.name);
+    for (const person of DEMO_PEOPLE.analysts) expect(html).not.toContain(person.name);
   });
 });

@@ -1,7 +1,9 @@
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { auditEvents, enrollments, labs, studies } from "~/db/schema";
+import { auditEvents, enrollments, invitations, labMembers, labs, studies, users } from "~/db/schema";
+import { INVITATION_LIFETIME_MS } from "~/models/invitation.server";
+import { hashToken } from "~/server/token-hash.server";
 import { saveFreshProperties } from "~/models/batch.server";
 import * as labHome from "~/routes/lab/index";
 import * as batchPage from "~/routes/lab/study/batch-sheet";
@@ -56,6 +58,41 @@ describe("the lab home as a to-do list", () => {
   it("shows nothing waiting in a published study", async () => {
     const home = await call(labHome.loader, get("/lab", await demoCookie("analyst5@ringbatch.example")));
     expect(home.data.enrollments.find((e: { studyCode: string }) => e.studyCode === "FF-2025-D").todo).toEqual([]);
+  });
+});
+
+describe("answering an invitation on the lab home", () => {
+  // analyst10's lab takes no part in FF-2026-B (seed/seed.ts enrolls the first eight labs).
+  const ANALYST = "analyst10@ringbatch.example";
+  async function invitedLab() {
+    const [lab] = await db.select({ id: labMembers.labId }).from(labMembers).innerJoin(users, eq(users.id, labMembers.userId)).where(eq(users.email, ANALYST));
+    // As the coordinator's invitation leaves it (inviting is open only while recruiting; no demo study recruits): enrollment invited, a link for 14 days.
+    const [enrollment] = await db.insert(enrollments).values({ studyId: Number(studyId), labId: lab!.id, state: "invited", invitedAt: new Date() }).returning();
+    await db.insert(invitations).values({ enrollmentId: enrollment!.id, email: ANALYST, tokenHash: hashToken("lab-home-answer"), expiresAt: new Date(Date.now() + INVITATION_LIFETIME_MS) });
+    return enrollment!;
+  }
+
+  it("lets a signed-in analyst of the invited lab accept in the app, with a lab code drawn as the e-mail link would", async () => {
+    const enrollment = await invitedLab();
+    const cookie = await demoCookie(ANALYST);
+    const home = await call(labHome.loader, get("/lab", cookie));
+    const study = home.data.enrollments.find((e: { studyCode: string }) => e.studyCode === "FF-2026-B");
+    expect(study.todo.map((t: Todo) => t.kind)).toEqual(["accept"]);
+    expect(study.todo[0].detail).toMatch(/^Answer here, or with the link in the invitation sent to /);
+
+    // Another lab's analyst cannot answer it.
+    const stranger = await call(labHome.action, post("/lab", { intent: "accept", enrollmentId: String(enrollment.id) }, await demoCookie("analyst1@ringbatch.example")));
+    expect(stranger.status).toBe(409);
+    expect(errorsOf(stranger).form).toBe("Your lab has no invitation to answer here.");
+
+    const accepted = await call(labHome.action, post("/lab", { intent: "accept", enrollmentId: String(enrollment.id) }, cookie));
+    expect(await toastOf(accepted)).toBe("Invitation accepted. Your lab code is shown beside the study.");
+    const after = (await db.query.enrollments.findFirst({ where: eq(enrollments.id, enrollment.id) }))!;
+    expect(after.state).toBe("accepted");
+    expect(after.labCode).toMatch(/^L\d{2}$/);
+
+    const again = await call(labHome.action, post("/lab", { intent: "decline", enrollmentId: String(enrollment.id) }, cookie));
+    expect(errorsOf(again).form).toBe("This invitation has already been answered.");
   });
 });
 

@@ -5,6 +5,7 @@ import { attachments, results } from "~/db/schema";
 import * as files from "~/routes/files";
 import * as entry from "~/routes/lab/study/result-entry";
 import { demoCookie, useDemoStudyInTesting } from "../support/demo";
+import * as photoUpload from "~/routes/lab/study/result-photo";
 import { call, get } from "../support/routes";
 import { errorsOf, toastOf, valuesOf } from "../support/replies";
 
@@ -23,12 +24,12 @@ beforeAll(async () => {
 // A 1 × 1 pixel PNG: the 8-byte PNG signature (89 50 4E 47 0D 0A 1A 0A, PNG specification) and its chunks.
 const PNG = Uint8Array.from(atob("iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg=="), (c) => c.charCodeAt(0));
 
-function uploadPhoto(bytes: Uint8Array, name: string, cookie: string, replicate = "1") {
+function uploadPhoto(bytes: Uint8Array, name: string, cookie: string, replicate = "1", path = "") {
   const form = new FormData();
   form.set("intent", "photo");
   form.set("replicate", replicate);
   form.set("photo", new File([bytes as BlobPart], name, { type: "image/jpeg" }));
-  return new Request(`http://ringbatch.test/lab/studies/${studyId}/results/${f1}`, { method: "POST", headers: { Origin: "http://ringbatch.test", Cookie: cookie }, body: form });
+  return new Request(`http://ringbatch.test/lab/studies/${studyId}/results/${f1}${path}`, { method: "POST", headers: { Origin: "http://ringbatch.test", Cookie: cookie }, body: form });
 }
 
 describe("surface photos per replicate", () => {
@@ -82,4 +83,40 @@ describe("surface photos per replicate", () => {
     expect(outcome.status).toBe(400);
     expect(errorsOf(outcome).photo).toBe("Enter a result of replicate 1 before adding its photo.");
   });
+});
+
+// The page's script sends the photo here to show its progress; the answer is JSON for the script to place beside the replicate.
+describe("the photo upload that reports its progress", () => {
+  const send = (bytes: Uint8Array, name: string, cookie: string, replicate: string) => call(photoUpload.action, uploadPhoto(bytes, name, cookie, replicate, "/photo"), { studyId, materialId: f1 });
+
+  it("stores the photo, links it to the replicate and carries the page's confirmation for the reload", async () => {
+    const cookie = await demoCookie("analyst5@ringbatch.example");
+    const outcome = await send(PNG, "surface.png", cookie, "2");
+    expect(outcome.status).toBe(200);
+    expect(outcome.data).toEqual({ stored: true });
+    const toastCookie = outcome.headers.get("Set-Cookie")!;
+    expect(toastCookie).toMatch(/^__ringbatch_toast=/);
+    const attachment = (await db.select().from(attachments)).at(-1)!;
+    const linked = await db.select().from(results).where(eq(results.photoAttachmentId, attachment.id));
+    expect(linked.map((r) => r.replicate)).toEqual([2, 2]);
+  });
+
+  it("answers an oversize photo with the size message and 413, storing nothing", async () => {
+    const cookie = await demoCookie("analyst5@ringbatch.example");
+    const before = (await db.select().from(attachments)).length;
+    const outcome = await send(new Uint8Array(10 * 1024 * 1024 + 1), "huge.jpg", cookie, "3");
+    expect(outcome.status).toBe(413);
+    expect(outcome.data).toEqual({ refusal: "The photo is larger than 10 MB. Choose a smaller one, or save it from the camera at a lower resolution." });
+    expect((await db.select().from(attachments)).length).toBe(before);
+  });
+
+  it("answers a file that is no image, and a replicate without a result, with the model's words", async () => {
+    const cookie = await demoCookie("analyst5@ringbatch.example");
+    const notImage = await send(new TextEncoder().encode("just some notes, not a picture"), "notes.png", cookie, "2");
+    expect(notImage.status).toBe(400);
+    expect(notImage.data).toEqual({ refusal: "This file is not a JPG, PNG, WEBP file (judged from its contents, not its name)." });
+    const empty = await send(PNG, "surface.png", await demoCookie("analyst7@ringbatch.example"), "1");
+    expect(empty.data).toEqual({ refusal: "Enter a result of replicate 1 before adding its photo." });
+  });
+
 });

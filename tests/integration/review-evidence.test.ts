@@ -1,7 +1,8 @@
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { cellDecisions, cells, enrollments, materials, responses, users } from "~/db/schema";
+import { cellDecisions, cells, enrollments, materials, queries, responses, users } from "~/db/schema";
+import * as labQueries from "~/routes/lab/queries";
 import * as reviewPage from "~/routes/review/study/ballot";
 import * as analysisPage from "~/routes/studies/study/analysis";
 import * as statementPage from "~/routes/studies/study/statement";
@@ -124,6 +125,27 @@ describe("text that would unblind a lab", () => {
     await db.insert(cellDecisions).values({ cellId: l02!.id, decision: "retained", reason: `Checked with ${DEMO_PEOPLE.analysts[1]!.name} by phone.`, decidedBy: coordinatorRow!.id, decidedAt: new Date() });
     const page = await reviewerPage(checking);
     expect(page.decisions.find((d: { lab: string }) => d.lab === "L02").reason).toBe("Checked with [withheld] by phone.");
+    expectBlinded(page);
+  });
+});
+
+describe("the queries behind the decisions, on the reviewer's page", () => {
+  it("shows the coordinator's question and the lab's answer by lab code, with the lab's own people withheld", async () => {
+    const cell = { lab: "L04", material: "M2", response: "surface" };
+    const asked = await call(analysisPage.action, post(`/studies/${checking}/analysis`, { intent: "ask", ...cell, statistic: "h = 2.31", question: "Please check the float angle used on M2." }, coordinator), { studyId: checking });
+    expect(asked.status).toBe(302);
+    const [query] = await db.select({ id: queries.id }).from(queries).orderBy(queries.id).all().then((rows) => rows.slice(-1));
+    // Demo lab index 7 holds L04 in FF-2026-A (seed/seed.ts); its analyst answers naming a colleague, which the coordinator may read.
+    const answer = `${DEMO_PEOPLE.analysts[7]!.name} re-ran the float at 8 degrees; see ${DEMO_PEOPLE.analysts[7]!.email}.`;
+    const answered = await call(labQueries.action, post("/lab/queries", { queryId: String(query!.id), answer }, await demoCookie("analyst8@ringbatch.example")));
+    expect(answered.status).toBe(302);
+
+    const page = await reviewerPage(checking);
+    const shown = page.queries.filter((q: { lab: string; material: string }) => q.lab === "L04" && q.material === "M2");
+    expect(shown).toEqual([
+      expect.objectContaining({ response: "surface", statistic: "h = 2.31", question: "Please check the float angle used on M2.", answer: "[withheld] re-ran the float at 8 degrees; see [withheld].", state: "answered" }),
+    ]);
+    expect(Object.keys(shown[0])).not.toContain("labName");
     expectBlinded(page);
   });
 });

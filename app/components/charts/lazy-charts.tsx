@@ -3,7 +3,8 @@
  * data as a table for screen readers and print. The chart drawing itself is
  * loaded lazily, in the browser only, after hydration.
  */
-import { lazy, type ReactNode, Suspense, useEffect, useState } from "react";
+import { lazy, type ReactNode, Suspense, useState } from "react";
+import { useHydrated } from "~/components/use-hydrated";
 import type { ResponseInfo } from "~/components/precision-tables";
 import { SimpleTable } from "~/components/ui";
 import type { StudyAnalysis } from "~/lib/precision";
@@ -11,12 +12,6 @@ import { figureDecimals, formatFigure } from "~/lib/review/format";
 import { cellAveragesOption, type ChartOption, consistencyOption, labPoints, levelOption } from "./options";
 
 const EChart = lazy(() => import("./e-chart"));
-
-function useHydrated() {
-  const [hydrated, setHydrated] = useState(false);
-  useEffect(() => setHydrated(true), []);
-  return hydrated;
-}
 
 /**
  * A chart with its data as a table under a disclosure. With `tableOnOpen` the

@@ -108,6 +108,11 @@ export const PHOTO_MAX_BYTES = 10 * 1024 * 1024;
 export const PHOTO_RULE = "JPEG, PNG or WebP, at most 10 MB";
 export const PHOTO_TOO_LARGE = "The photo is larger than 10 MB. Choose a smaller one, or save it from the camera at a lower resolution.";
 
+/** What the photo upload route answers the page's script. */
+export type PhotoUploadReply = { stored: true } | { refusal: string };
+
+export const photoAdded = (replicate: number) => `Photo of replicate ${replicate} added.`;
+
 export const photoSchema = z.object({
   intent: z.literal("photo"),
   replicate: z.coerce.number().int().positive(),

@@ -3,6 +3,7 @@
  * by code — its replicate values, its statistics in the analysis (or why it
  * is not there) and the coordinator's decision with its reason.
  */
+import { type Identity, withheldIdentities } from "~/lib/blinding";
 import type { ExcludedCellReport, GroupResult, LabResult } from "~/lib/precision";
 
 export type DecisionOnRecord = { lab: string; material: string; response: string; decision: "retained" | "excluded"; reason: string; decidedAt: string };
@@ -15,6 +16,41 @@ export type CellRecord = {
   standing: "analysed" | "excluded" | "not-analysed";
   decision: DecisionOnRecord | null;
 };
+
+/** A query the coordinator asked about a cell and the lab's answer, as the committee reads them: lab by code, names withheld. */
+export type QueryOnRecord = {
+  lab: string;
+  material: string;
+  response: string;
+  statistic: string;
+  question: string;
+  answer: string | null;
+  state: "open" | "answered" | "closed";
+  askedAt: string;
+  answeredAt: string | null;
+};
+
+type StoredQuery = Omit<QueryOnRecord, "askedAt"> & { createdAt: string };
+
+/**
+ * The queries as reviewers may read them. A lab's answer may name its own
+ * people (the coordinator reads it as written), and text stored before the
+ * naming check may name anyone: every name of the study is withheld here.
+ */
+export function blindedQueries(queries: readonly StoredQuery[], identities: readonly Identity[]): QueryOnRecord[] {
+  const blind = (text: string) => withheldIdentities(text, identities);
+  return queries.map((q) => ({
+    lab: q.lab,
+    material: q.material,
+    response: q.response,
+    statistic: blind(q.statistic),
+    question: blind(q.question),
+    answer: q.answer === null ? null : blind(q.answer),
+    state: q.state,
+    askedAt: q.createdAt,
+    answeredAt: q.answeredAt,
+  }));
+}
 
 /** How the group was judged: its size and the critical values of h and k, or why no precision statistics were computed. */
 export type GroupCriteria = { p: number; n: number; hCritical: number | null; kCritical: number | null; notComputed: string[] };

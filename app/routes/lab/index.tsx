@@ -1,14 +1,21 @@
-import { Link } from "react-router";
+import { getFormProps } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
+import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/index";
 import { Pager } from "~/components/pager";
 import { StateBadge } from "~/components/state-badge";
-import { Card, PageHeader } from "~/components/ui";
+import { FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
+import { Button, Card, PageHeader } from "~/components/ui";
+import { labInvitationAnswerSchema } from "~/lib/account-forms";
 import { formatDate } from "~/lib/format";
 import { labTodoItems } from "~/lib/lab-todo";
 import { requestedPage } from "~/lib/paging";
 import { ENROLLMENT_STATE, STUDY_STATE } from "~/lib/state-labels";
 import { labEnrollmentsPage, labTodoFacts } from "~/models/study.server";
+import { answerInvitationInApp } from "~/models/invitation.server";
+import { refuse, withRefusals } from "~/server/form-reply.server";
 import { requireRole } from "~/server/guards.server";
+import { redirectWithToast } from "~/server/toast.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "My lab · Ringbatch" }];
 
@@ -21,7 +28,18 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { enrollments: [...enrollments.filter((e) => e.todo.length > 0), ...enrollments.filter((e) => e.todo.length === 0)], page };
 }
 
-export default function LabHome({ loaderData }: Route.ComponentProps) {
+/** Accepts or declines the lab's invitation, as the e-mail's link would. */
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireRole(request, "analyst");
+  const submission = parseWithZod(await request.formData(), { schema: labInvitationAnswerSchema });
+  if (submission.status !== "success") return refuse(submission);
+  const { intent, enrollmentId } = submission.value;
+  const answered = await withRefusals(submission, () => answerInvitationInApp(user, enrollmentId, intent), 409);
+  if (!answered.ok) return answered.reply;
+  return redirectWithToast("/lab", intent === "accept" ? "Invitation accepted. Your lab code is shown beside the study." : "Invitation declined. The coordinator is told.");
+}
+
+export default function LabHome({ loaderData, actionData }: Route.ComponentProps) {
   const { enrollments, page } = loaderData;
   return (
     <>
@@ -53,7 +71,7 @@ export default function LabHome({ loaderData }: Route.ComponentProps) {
                   <StateBadge view={STUDY_STATE[e.studyState]} />
                   {e.enrollmentState === "withdrawn" && <StateBadge view={{ ...ENROLLMENT_STATE.withdrawn, label: "Your lab withdrawn" }} />}
                   <span>
-                    {e.labName} · lab code <span className="whitespace-nowrap font-semibold">{e.labCode ?? "—"}</span>
+                    {e.labName} · <span className="whitespace-nowrap">lab code <span className="font-semibold">{e.labCode ?? "—"}</span></span>
                   </span>
                 </span>
               </div>
@@ -66,6 +84,7 @@ export default function LabHome({ loaderData }: Route.ComponentProps) {
                       <div>
                         <p className="font-semibold text-basalt-900">{item.title}</p>
                         <p className="text-basalt-700">{item.detail}</p>
+                        {item.kind === "accept" && <InvitationAnswer enrollmentId={e.enrollmentId} studyCode={e.studyCode} reply={actionData} />}
                         <p className="flex flex-wrap gap-x-4">
                           {item.links.map((link) => (
                             <Link key={link.to + link.label} to={link.to} className="inline-flex min-h-11 items-center font-semibold text-basalt-700 underline">
@@ -85,5 +104,26 @@ export default function LabHome({ loaderData }: Route.ComponentProps) {
       )}
       <Pager page={page.page} pageCount={page.pageCount} label="Your lab's study pages" />
     </>
+  );
+}
+
+/** Accept and decline buttons for one study's invitation; a refusal (used or expired meanwhile) is said above them. */
+function InvitationAnswer({ enrollmentId, studyCode, reply }: { enrollmentId: number; studyCode: string; reply: Route.ComponentProps["actionData"] }) {
+  const answering = useNavigation().formData?.get("enrollmentId") === String(enrollmentId);
+  const mine = (reply && "result" in reply ? reply.result.initialValue?.enrollmentId : undefined) === String(enrollmentId);
+  const [form] = useSchemaForm(labInvitationAnswerSchema, { reply: mine ? reply : undefined, id: `invitation-${enrollmentId}` });
+  return (
+    <Form method="post" className="my-2 flex flex-col gap-2" {...getFormProps(form)}>
+      <FormErrors errors={formWideErrors(form)} />
+      <input type="hidden" name="enrollmentId" value={enrollmentId} />
+      <div className="flex flex-wrap gap-3">
+        <Button type="submit" name="intent" value="accept" disabled={answering}>
+          Accept<span className="sr-only"> the invitation to {studyCode}</span>
+        </Button>
+        <Button type="submit" name="intent" value="decline" variant="secondary" disabled={answering}>
+          Decline<span className="sr-only"> the invitation to {studyCode}</span>
+        </Button>
+      </div>
+    </Form>
   );
 }

@@ -2,6 +2,7 @@ import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { createHash } from "node:crypto";
 import { useRef, useState } from "react";
+import { useHydrated } from "~/components/use-hydrated";
 import { data, Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/import";
@@ -270,6 +271,8 @@ export default function ImportResults({ loaderData, actionData }: Route.Componen
 }
 
 function ImportReportView({ report, formId, errors, editable, busy }: { report: ImportReport; formId: string; errors: string[]; editable: boolean; busy: boolean }) {
+  // Scripts keep the chosen file in its field after the check; a page served without them comes back with the field empty.
+  const hydrated = useHydrated();
   const troubles = report.fileProblems.length + report.problems.length + report.conflicts.length;
   return (
     <Card title={`Preview of ${report.fileName}`}>
@@ -294,8 +297,14 @@ function ImportReportView({ report, formId, errors, editable, busy }: { report: 
         </Notice>
       )}
       {report.confirm && (
-        <div className="my-4">
-          <Button type="submit" form={formId} name="intent" value="import" disabled={!editable || busy}>
+        <div className="my-4 grid gap-2">
+          {!hydrated && (
+            <p className="text-basalt-700" data-testid="choose-again">
+              Your browser runs this page without JavaScript, so it forgot the chosen file after the check: choose the same file again under “The file”, then
+              import. The import is refused if the file differs from the one checked.
+            </p>
+          )}
+          <Button type="submit" form={formId} name="intent" value="import" disabled={!editable || busy} className="w-fit">
             Import {countOf(report.confirm.rows, "row")}
           </Button>
         </div>

@@ -28,7 +28,7 @@ import { writeRefusal } from "~/lib/write-rules";
 import { correctableResponses, openQueriesOfMaterial } from "~/models/lab-queries.server";
 import {
   amendResult,
-  attachReplicatePhoto,
+  attachReplicatePhotoOrRefusal,
   type Enrollment,
   materialEntry,
   ResultsError,
@@ -41,8 +41,8 @@ import { refuse } from "~/server/form-reply.server";
 import { notFound } from "~/server/guards.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
+import { photoAdded } from "~/lib/results/entry-forms";
 import { readUploadForm } from "~/server/upload-form.server";
-import { UploadError } from "~/server/uploads.server";
 
 // The photo and amendment forms bring the form library with them; the grid and its autosave, what an
 // analyst needs first, do without it, so those forms arrive in a chunk of their own after the page.
@@ -210,14 +210,12 @@ export async function action({ request, params, context }: Route.ActionArgs) {
       if (problems.length > 0) return refuse(submission, Object.fromEntries(problems.map(([field, message]) => [field, [message]])));
       return redirectWithToast(here, "Fresh properties amended. The coordinator sees the old and the new readings with your reason.");
     }
-    case "photo":
-      try {
-        await attachReplicatePhoto(enrollment, entry.material.id, input.replicate, input.photo, user);
-      } catch (error) {
-        if (error instanceof ResultsError || error instanceof UploadError) return refuse(submission, { photo: [error.message] });
-        throw error;
-      }
-      return redirectWithToast(here, `Photo of replicate ${input.replicate} added.`);
+    case "photo": {
+      // Without scripts the photo comes here; with them it goes to the upload route beside this page, which shows its progress.
+      const refusal = await attachReplicatePhotoOrRefusal(enrollment, entry.material.id, input.replicate, input.photo, user);
+      if (refusal) return refuse(submission, { photo: [refusal] });
+      return redirectWithToast(here, photoAdded(input.replicate));
+    }
   }
 }
 

@@ -17,7 +17,7 @@ import { Button, Card, TextAreaField } from "~/components/ui";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { countOf, formatDate, formatDateTime } from "~/lib/format";
 import { withheldIdentities } from "~/lib/blinding";
-import { materialRecord } from "~/lib/review/evidence";
+import { blindedQueries, materialRecord } from "~/lib/review/evidence";
 import { OBJECTION_STAGE_TEXT, publicationCheck, QUORUM_SENTENCE } from "~/lib/review/publication";
 import { writeRefusal } from "~/lib/write-rules";
 import { studyPageMeta } from "~/lib/study-page-meta";
@@ -26,6 +26,7 @@ import { studyAnalysis } from "~/models/analysis.server";
 import { AmendedCellsNote } from "~/components/amended-badge";
 import { addComment, castVote, commentsOn, replyToAnswer, ReviewError, ruleOnObjection } from "~/models/review.server";
 import { studyIdentities } from "~/models/blinding.server";
+import { listStudyQueries } from "~/models/coordinator-queries.server";
 import { amendedAfterQueryCells, listCellDecisions, submittedResultsOfMaterial } from "~/models/decisions.server";
 import { listStatements, publicationStatus, reviewersByName, studyDesign, votesOn } from "~/models/statement.server";
 import { refuse } from "~/server/form-reply.server";
@@ -39,7 +40,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   const { study, user } = requireStudy(context, ["reviewer"]);
   // The committee sees only versions that were sent to it, never a coordinator's draft.
   const statement = (await listStatements(study.id)).find((s) => s.sentAt !== null) ?? null;
-  const [roundVotes, comments, publication, design, identities, decisions, amendedCells] = await Promise.all([
+  const [roundVotes, comments, publication, design, identities, decisions, amendedCells, queries] = await Promise.all([
     statement ? votesOn(statement.id) : [],
     statement ? commentsOn(statement.id) : [],
     publicationStatus(study.id),
@@ -47,6 +48,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     studyIdentities(study.id),
     listCellDecisions(study.id),
     amendedAfterQueryCells(study.id),
+    listStudyQueries(study.id),
   ]);
   const isChair = publication.round?.chairId === user.id;
   const own = roundVotes.find((v) => v.reviewerId === user.id) ?? null;
@@ -76,6 +78,8 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     materials,
     material: material?.code ?? null,
     decisions: blinded,
+    // The queries behind the decisions, by lab code; the lab's name in the coordinator's list stays on the server.
+    queries: blindedQueries(queries, identities),
     amendedCells,
     evidence: material ? materialRecord({ material: material.code, responses, groups: analysis.groups, excluded: analysis.excluded, results, decisions: blinded }) : [],
     // The charts draw the chosen material; the summary keeps every material's figures without the labs' rows.
@@ -196,8 +200,8 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
           </p>
         </Card>
       )}
-      <Card title="Cell decisions">
-        <DecisionsOnRecord decisions={loaderData.decisions} />
+      <Card title="Cell decisions and the queries behind them">
+        <DecisionsOnRecord decisions={loaderData.decisions} queries={loaderData.queries} />
         <h3 className="mb-1 mt-4 font-semibold text-basalt-800">Cells amended after a correction query</h3>
         <AmendedCellsNote amended={loaderData.amendedCells} />
       </Card>
