@@ -476,6 +476,7 @@ export default function ResultEntry({ loaderData, actionData }: Route.ComponentP
                           <CellInput
                             id={`operator-${replicate}`}
                             label={`Operator, replicate ${replicate}`}
+                            wide
                             value={draft.operator[replicate] ?? ""}
                             disabled={!editable}
                             onChange={(v) => setReplicateField("operator", replicate, v)}
@@ -542,9 +543,12 @@ function CellInput({
   error,
   warning,
   onChange,
+  wide = false,
   ...input
 }: {
   id: string;
+  /** A name rather than a figure: room for one on a wide screen. */
+  wide?: boolean;
   /** Shown in a replicate's card on a phone; where the table's headers name the column, for assistive technology only. */
   label: string;
   error?: string;
@@ -553,7 +557,7 @@ function CellInput({
 } & Omit<React.ComponentProps<"input">, "onChange" | "id">) {
   const describedBy = error ? `${id}-error` : warning ? `${id}-warning` : undefined;
   return (
-    <div className="flex flex-col gap-1 sm:min-w-20">
+    <div className={`flex flex-col gap-1 ${wide ? "sm:min-w-36" : "sm:min-w-20"}`}>
       <label htmlFor={id} className="text-sm font-semibold sm:sr-only">
         {label}
       </label>
