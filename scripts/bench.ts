@@ -25,7 +25,7 @@ import { benchPrecisionEngine } from "./bench-precision";
 import { pageOnTablet, whatIfInBrowser } from "./bench/chromium";
 import { deadlineDay, ReadReplicates } from "./bench/deadline-day";
 import { buildMinimalApp, startMinimalApp } from "./bench/minimal-app";
-import { compareStacks } from "./bench/stack";
+import { compareStacks, type StackRatio } from "./bench/stack";
 
 const BUILD_DIR = process.env.BUILD_DIR ?? "build-bench";
 const figures: string[] = [];
@@ -37,6 +37,8 @@ const percentile = (values: number[], p: number) => {
   return sorted.length ? sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)]! : NaN;
 };
 const ms = (n: number) => `${n.toFixed(1)} ms`;
+const cpuNote = (stack: StackRatio) =>
+  `CPU per answer ${stack.cpuOurs.toFixed(2)} ms ours, ${stack.cpuMinimal.toFixed(2)} ms minimal = ${stack.cpuRatio.toFixed(2)} (steadier than req/s when others load the machine)`;
 const step = (text: string) => console.log(`[${new Date().toISOString().slice(11, 19)}] ${text}`);
 
 console.log(`Ringbatch benchmark — ${new Date().toISOString()} — node ${process.version}`);
@@ -49,6 +51,9 @@ step(`building the app into ${BUILD_DIR}/ and the minimal framework app`);
 const build = spawnSync("npm", ["run", "-s", "build"], { env: { ...process.env, BUILD_DIR }, encoding: "utf8" });
 if (build.status !== 0) throw new Error(`build failed:\n${build.stderr}`);
 const minimalFolder = buildMinimalApp();
+// For scale: the same yardstick with as many routes as ours (the framework's own cost grows with the table).
+const ourRouteCount = Object.keys(routeManifest().routes).length;
+const minimalSizedFolder = buildMinimalApp(ourRouteCount - 3);
 
 step("preparing the database: demo, large study, deadline-day study, ten-year archive");
 const databaseFile = join(mkdtempSync(join(tmpdir(), "ringbatch-bench-")), "bench.db");
@@ -76,6 +81,7 @@ closeDatabase();
 // The per-caller API limit (600 a minute) would refuse most of the pollers' load as 429s: lift it for the run.
 const server = await startServer({ BUILD_DIR, API_RATE_LIMIT_PER_MINUTE: "100000000" }, { databaseUrl: process.env.DATABASE_URL });
 const minimal = await startMinimalApp(minimalFolder);
+const minimalSized = await startMinimalApp(minimalSizedFolder);
 try {
   const signIn = async (email: string) => {
     const response = await fetch(`${server.url}/login`, {
@@ -108,14 +114,16 @@ try {
   const page = (path: string, cookie: string) => () => fetch(`${server.url}${path}`, { headers: { Cookie: cookie, "Accept-Encoding": "gzip" } });
 
   step("our stack against the minimal app, in turns");
-  const health = await compareStacks(`${server.url}/healthz`, `${minimal.url}/healthz`);
-  const signInPage = await compareStacks(`${server.url}/login`, `${minimal.url}/page`);
+  const health = await compareStacks(server, minimal, ["/healthz", "/healthz"]);
+  const signInPage = await compareStacks(server, minimal, ["/login", "/page"]);
   line("/healthz ÷ minimal app's resource route, req/s", `${health.ours.toFixed(0)} / ${health.minimal.toFixed(0)} = ${health.ratio.toFixed(2)}`, "≥ 0.5", health.ratio >= 0.5 && health.notOk === 0);
-  note(`per turn ${health.ratios.map((r) => r.toFixed(2)).join(", ")}; ${health.notOk} answers not 2xx`);
+  note(`per turn ${health.ratios.map((r) => r.toFixed(2)).join(", ")}; ${health.notOk} answers not 2xx; ${cpuNote(health)}`);
   line("/login ÷ minimal app's page, req/s", `${signInPage.ours.toFixed(0)} / ${signInPage.minimal.toFixed(0)} = ${signInPage.ratio.toFixed(2)}`, "≥ 0.5", signInPage.ratio >= 0.5 && signInPage.notOk === 0);
-  note(`per turn ${signInPage.ratios.map((r) => r.toFixed(2)).join(", ")}; ${signInPage.notOk} answers not 2xx; autocannon, 10 connections, no Accept-Encoding`);
-  const gzipped = await compareStacks(`${server.url}/login`, `${minimal.url}/page`, { turns: 1, headers: { "Accept-Encoding": "gzip" } });
+  note(`per turn ${signInPage.ratios.map((r) => r.toFixed(2)).join(", ")}; ${signInPage.notOk} answers not 2xx; autocannon, 10 connections, no Accept-Encoding; ${cpuNote(signInPage)}`);
+  const gzipped = await compareStacks(server, minimal, ["/login", "/page"], { turns: 1, headers: { "Accept-Encoding": "gzip" } });
   note(`for scale: the same with Accept-Encoding: gzip, as browsers ask (only ours compresses): ${gzipped.ours.toFixed(0)} / ${gzipped.minimal.toFixed(0)} = ${gzipped.ratio.toFixed(2)}`);
+  const sized = await compareStacks(server, minimalSized, ["/login", "/page"], { turns: 1 });
+  note(`for scale: /login ÷ the minimal page with ${ourRouteCount} routes like ours: ${sized.ours.toFixed(0)} / ${sized.minimal.toFixed(0)} = ${sized.ratio.toFixed(2)} req/s; ${cpuNote(sized)}`);
 
   step("analysis loader and single-user autosave");
   const analysis = await timeRequests(200, () => fetch(`${server.url}/studies/${large.id}/analysis.data`, { headers: { Cookie: coordinator } }));
@@ -220,7 +228,7 @@ try {
   const onTablet = await whatIfInBrowser(`${server.url}/studies/${large.id}/analysis`, coordinator, 4);
   note(`the same at 4× CPU slowdown: median ${ms(onTablet.medianMs)}, slowest ${ms(onTablet.maxMs)}, first ${ms(onTablet.firstMs)}`);
 } finally {
-  await Promise.all([server.stop(), minimal.stop()]);
+  await Promise.all([server.stop(), minimal.stop(), minimalSized.stop()]);
 }
 
 step("JavaScript per page from the build's manifest");
@@ -237,6 +245,16 @@ note(`heaviest page up front: ${heaviest.route}, ${(heaviest.gzipBytes / 1024).t
 
 console.log(`\nfigures — ${new Date().toISOString()}\n${figures.join("\n")}`);
 
+/** The build's route manifest, as React Router sends it to the browser. */
+function routeManifest() {
+  const assets = join(BUILD_DIR, "client", "assets");
+  const text = readFileSync(join(assets, readdirSync(assets).find((f) => /^manifest-.*\.js$/.test(f))!), "utf8");
+  return JSON.parse(text.slice(text.indexOf("{"), text.lastIndexOf("}") + 1)) as {
+    entry: { module: string; imports: string[] };
+    routes: Record<string, { module: string; imports?: string[] }>;
+  };
+}
+
 /**
  * Gzipped JavaScript each route loads up front (entry, root, route module and
  * their imports), from the build's route manifest, and whether the page can
@@ -244,12 +262,7 @@ console.log(`\nfigures — ${new Date().toISOString()}\n${figures.join("\n")}`);
  */
 function javascriptPerPage() {
   const assets = join(BUILD_DIR, "client");
-  const manifestFile = readdirSync(join(assets, "assets")).find((f) => /^manifest-.*\.js$/.test(f))!;
-  const text = readFileSync(join(assets, "assets", manifestFile), "utf8");
-  const manifest = JSON.parse(text.slice(text.indexOf("{"), text.lastIndexOf("}") + 1)) as {
-    entry: { module: string; imports: string[] };
-    routes: Record<string, { module: string; imports?: string[] }>;
-  };
+  const manifest = routeManifest();
   const content = (file: string) => readFileSync(join(assets, file));
   // echarts' renderer library is bundled into the chart chunk; no other code carries its name.
   const chartChunks = readdirSync(join(assets, "assets"))

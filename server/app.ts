@@ -44,12 +44,14 @@ function worthCompressing(request: express.Request, response: express.Response) 
   return /^text\/(html|x-script)/.test(String(response.getHeader("Content-Type") ?? ""));
 }
 
+const trustProxy = trustedProxies();
 export const frontDoor = express();
 frontDoor.disable("x-powered-by");
-frontDoor.set("trust proxy", trustedProxies());
+frontDoor.set("trust proxy", trustProxy);
 // The rate limits key on X-Forwarded-For: replace whatever the client sent with the address express trusts.
+// Trusting no proxy, that is the peer's own address; asking express for it would parse X-Forwarded-For anyway.
 frontDoor.use((request, _response, next) => {
-  request.headers["x-forwarded-for"] = request.ip;
+  request.headers["x-forwarded-for"] = trustProxy === false ? request.socket.remoteAddress : request.ip;
   next();
 });
 // The fastest level: pages stream in many small chunks, each flushed through zlib as it comes, where a

@@ -7,7 +7,6 @@
  */
 import { createHash } from "node:crypto";
 import { asc, and, eq } from "drizzle-orm";
-import { ZipArchive } from "archiver";
 import { db } from "~/db/client.server";
 import { precisionStatements, responses, studies } from "~/db/schema";
 import { decisionsCsv } from "~/lib/bundle/decisions-csv";
@@ -33,7 +32,9 @@ function recomputeCommand(alpha: number, countResponses: readonly string[]) {
   return `npm run -s precision -- bundle/results.csv --alpha ${alpha}${counts} --decisions bundle/decisions.csv`;
 }
 
-function zip(entries: { name: string; content: Buffer }[], date: Date): Promise<Buffer> {
+async function zip(entries: { name: string; content: Buffer }[], date: Date): Promise<Buffer> {
+  // Loaded on the first bundle: most requests never need it.
+  const { ZipArchive } = await import("archiver");
   return new Promise((resolve, reject) => {
     const archive = new ZipArchive({ zlib: { level: 9 } });
     const chunks: Buffer[] = [];

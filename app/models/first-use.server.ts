@@ -5,7 +5,7 @@
  */
 import { randomBytes } from "node:crypto";
 import { and, count, eq, gt, isNull } from "drizzle-orm";
-import { db, type Database } from "~/db/client.server";
+import { db, type Database, preparedOnce } from "~/db/client.server";
 import { setupLinks, users } from "~/db/schema";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { DEMO_ADMIN_EMAIL } from "~/lib/demo";
@@ -26,10 +26,12 @@ export async function accountCount(database: Database = db) {
   return row?.n ?? 0;
 }
 
+// Asked on every page (the root's demo notice).
+const demoAdmin = preparedOnce((database) => database.query.users.findFirst({ columns: { id: true }, where: eq(users.email, DEMO_ADMIN_EMAIL) }).prepare());
+
 /** Whether the demo's accounts (and so its published password) are in the database. */
-export async function demoDataPresent(database: Database = db) {
-  const row = await database.query.users.findFirst({ columns: { id: true }, where: eq(users.email, DEMO_ADMIN_EMAIL) });
-  return Boolean(row);
+export async function demoDataPresent() {
+  return Boolean(await demoAdmin().execute());
 }
 
 

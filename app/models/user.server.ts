@@ -1,6 +1,6 @@
 import argon2 from "argon2";
 import { and, asc, count, eq, inArray, isNull, or, sql } from "drizzle-orm";
-import { db, type Transaction } from "~/db/client.server";
+import { db, preparedOnce, type Transaction } from "~/db/client.server";
 import { labMembers, type Role, ROLES, userRoles, users } from "~/db/schema";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { readPage } from "~/lib/paging";
@@ -37,13 +37,21 @@ export async function verifyLogin(email: string, password: string) {
   return (await argon2.verify(user.passwordHash, password)) ? user.id : null;
 }
 
+// The signed-in person is read on every request.
+const sessionUserQueries = preparedOnce((database) => {
+  const userId = sql.placeholder("userId");
+  return {
+    user: database.query.users.findFirst({ where: eq(users.id, userId) }).prepare(),
+    memberships: database.select().from(labMembers).where(eq(labMembers.userId, userId)).prepare(),
+    extraRoles: database.select({ role: userRoles.role }).from(userRoles).where(eq(userRoles.userId, userId)).prepare(),
+  };
+});
+
 export async function loadSessionUser(userId: number): Promise<SessionUser | null> {
-  const user = await db.query.users.findFirst({ where: eq(users.id, userId) });
+  const { user: userById, memberships: membershipsOf, extraRoles: extraRolesOf } = sessionUserQueries();
+  const user = await userById.execute({ userId });
   if (!user || user.disabledAt) return null;
-  const [memberships, extraRoles] = await Promise.all([
-    db.select().from(labMembers).where(eq(labMembers.userId, userId)),
-    db.select({ role: userRoles.role }).from(userRoles).where(eq(userRoles.userId, userId)),
-  ]);
+  const [memberships, extraRoles] = await Promise.all([membershipsOf.execute({ userId }), extraRolesOf.execute({ userId })]);
   return {
     id: user.id,
     email: user.email,

@@ -2,9 +2,9 @@
  * Every loader and action checks access here. Someone outside a study or lab
  * gets 404, not 403, so the existence of a study does not leak.
  */
-import { and, eq } from "drizzle-orm";
+import { and, eq, sql } from "drizzle-orm";
 import { data, redirect } from "react-router";
-import { db } from "~/db/client.server";
+import { preparedOnce } from "~/db/client.server";
 import { enrollments, type Role, studies, studyCoordinators, studyReviewers } from "~/db/schema";
 import { sessionStorage } from "~/server/session.server";
 import { loadSessionUser, type SessionUser } from "~/models/user.server";
@@ -52,25 +52,30 @@ export async function requireStudyListReader(request: Request) {
 
 export type StudyAccess = "admin" | "coordinator" | "reviewer" | "analyst";
 
+// Every study page asks these before anything else.
+const accessQueries = preparedOnce((database) => {
+  const studyId = sql.placeholder("studyId");
+  const userId = sql.placeholder("userId");
+  return {
+    study: database.query.studies.findFirst({ where: eq(studies.id, studyId) }).prepare(),
+    coordinator: database.query.studyCoordinators.findFirst({ where: and(eq(studyCoordinators.studyId, studyId), eq(studyCoordinators.userId, userId)) }).prepare(),
+    reviewer: database.query.studyReviewers.findFirst({ where: and(eq(studyReviewers.studyId, studyId), eq(studyReviewers.userId, userId)) }).prepare(),
+    enrollment: database.query.enrollments.findFirst({ where: and(eq(enrollments.studyId, studyId), eq(enrollments.labId, sql.placeholder("labId"))) }).prepare(),
+  };
+});
+
 /** How a user may see a study, or null when the study is none of theirs. */
 export async function studyAccessFor(user: SessionUser, studyId: number) {
-  const study = await db.query.studies.findFirst({ where: eq(studies.id, studyId) });
+  const queries = accessQueries();
+  const study = await queries.study.execute({ studyId });
   if (!study) return null;
   if (user.roles.includes("admin")) return { study, access: "admin" as const, enrollment: null };
-  const coordinates =
-    study.ownerId === user.id ||
-    (await db.query.studyCoordinators.findFirst({
-      where: and(eq(studyCoordinators.studyId, studyId), eq(studyCoordinators.userId, user.id)),
-    }));
+  const coordinates = study.ownerId === user.id || (await queries.coordinator.execute({ studyId, userId: user.id }));
   if (coordinates) return { study, access: "coordinator" as const, enrollment: null };
-  const reviews = await db.query.studyReviewers.findFirst({
-    where: and(eq(studyReviewers.studyId, studyId), eq(studyReviewers.userId, user.id)),
-  });
+  const reviews = await queries.reviewer.execute({ studyId, userId: user.id });
   if (reviews) return { study, access: "reviewer" as const, enrollment: null };
   for (const labId of user.labIds) {
-    const enrollment = await db.query.enrollments.findFirst({
-      where: and(eq(enrollments.studyId, studyId), eq(enrollments.labId, labId)),
-    });
+    const enrollment = await queries.enrollment.execute({ studyId, labId });
     if (enrollment) return { study, access: "analyst" as const, enrollment };
   }
   return null;

@@ -3,15 +3,21 @@
  * workbook the lab sends back, with exceljs. Server only: exceljs is far too
  * large for the browser, and a workbook is read where it is checked.
  */
-import ExcelJS from "exceljs";
+import type ExcelJS from "exceljs";
 import { formatDate } from "~/lib/format";
 import { TEMPLATE_COLUMNS, type TemplateRow } from "~/lib/results/results-template";
+
+/** Loaded on first use: the library is large, and most requests never need it. */
+async function newWorkbook() {
+  const { default: excel } = await import("exceljs");
+  return new excel.Workbook();
+}
 
 export type TemplateNotes = { studyCode: string; labCode: string | null; responses: { key: string; name: string; unit: string | null }[] };
 
 /** The template workbook: a "Results" sheet in the import's columns, and an "About" sheet saying how to fill it in. */
 export async function templateWorkbook(rows: TemplateRow[], notes: TemplateNotes): Promise<ArrayBuffer> {
-  const workbook = new ExcelJS.Workbook();
+  const workbook = await newWorkbook();
   workbook.creator = "Ringbatch";
   const sheet = workbook.addWorksheet("Results", { views: [{ state: "frozen", ySplit: 1 }] });
   sheet.columns = TEMPLATE_COLUMNS.map((name) => ({ header: name, key: name, width: name === "operator" ? 24 : name === "response" ? 14 : 12 }));
@@ -44,7 +50,7 @@ const MAX_ROWS = 20_000;
  * first, as the sheet numbers rows; or why it cannot be read.
  */
 export async function readWorkbookRecords(bytes: Uint8Array): Promise<{ ok: true; records: string[][] } | { ok: false; message: string }> {
-  const workbook = new ExcelJS.Workbook();
+  const workbook = await newWorkbook();
   try {
     await workbook.xlsx.load(bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength) as ArrayBuffer);
   } catch {

@@ -1,7 +1,7 @@
 import { randomBytes } from "node:crypto";
-import { and, eq, isNull } from "drizzle-orm";
+import { and, eq, isNull, sql } from "drizzle-orm";
 import { createCookie, createSessionStorage } from "react-router";
-import { db } from "~/db/client.server";
+import { db, preparedOnce } from "~/db/client.server";
 import { apiTokens, sessions } from "~/db/schema";
 import { assertDeploymentConfig } from "~/server/deployment.server";
 
@@ -34,6 +34,9 @@ function expiryFrom(expires: Date | undefined) {
   return expires ?? new Date(Date.now() + SESSION_LIFETIME_SECONDS * 1000);
 }
 
+// Read on every signed-in request.
+const sessionById = preparedOnce((database) => database.query.sessions.findFirst({ where: eq(sessions.id, sql.placeholder("id")) }).prepare());
+
 /** Sessions live in the database, so any number of app instances can serve a user. */
 export const sessionStorage = createSessionStorage<{ userId: number }>({
   cookie: sessionCookie,
@@ -48,7 +51,7 @@ export const sessionStorage = createSessionStorage<{ userId: number }>({
     return id;
   },
   async readData(id) {
-    const row = await db.query.sessions.findFirst({ where: eq(sessions.id, id) });
+    const row = await sessionById().execute({ id });
     if (!row) return null;
     if (row.expiresAt.getTime() < Date.now()) {
       await db.delete(sessions).where(eq(sessions.id, id));

@@ -11,7 +11,6 @@
 import { createHash } from "node:crypto";
 import { resolve } from "node:path";
 import { createFsFileStorage } from "@remix-run/file-storage/fs";
-import sharp from "sharp";
 import { db } from "~/db/client.server";
 import { attachments } from "~/db/schema";
 
@@ -51,6 +50,8 @@ export const THUMBNAIL_SIDE = 480;
  * orientation tag goes with the rest), and its thumbnail.
  */
 async function cleanImage(bytes: Uint8Array, type: Exclude<StoredType, "application/pdf">) {
+  // Loaded on the first photo: the library is large, and most requests never need it.
+  const { default: sharp } = await import("sharp");
   const source = () => sharp(bytes, { limitInputPixels: MAX_IMAGE_PIXELS, failOn: "error" }).rotate();
   try {
     const encoded = type === "image/jpeg" ? source().jpeg({ quality: 90 }) : type === "image/png" ? source().png() : source().webp({ quality: 90 });

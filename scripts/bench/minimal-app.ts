@@ -21,7 +21,7 @@ const files: Record<string, string> = {
   }),
   "react-router.config.ts": `export default { ssr: true, future: { v8_middleware: true } };`,
   "vite.config.ts": `import { reactRouter } from "@react-router/dev/vite";\nimport { defineConfig } from "vite";\nexport default defineConfig({ plugins: [reactRouter()] });`,
-  "app/routes.ts": `import { route } from "@react-router/dev/routes";\nexport default [route("page", "routes/page.tsx"), route("healthz", "routes/healthz.ts")];`,
+
   "app/root.tsx": `import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 export function Layout({ children }: { children: React.ReactNode }) {
   return (
@@ -40,6 +40,7 @@ export default function Page() {
 }
 `,
   "app/routes/healthz.ts": `export function loader() { return Response.json({ status: "ok" }); }\n`,
+  "app/routes/filler.tsx": `export function loader() { return null; }\nexport default function Filler() { return <p>Filler</p>; }\n`,
   "server.mjs": `import express from "express";
 import { createRequestHandler } from "@react-router/express";
 const build = await import("./build/server/index.js");
@@ -51,10 +52,22 @@ const server = app.listen(0, "127.0.0.1", () => console.log(server.address().por
 `,
 };
 
-/** Writes and builds the minimal app; returns its folder. */
-export function buildMinimalApp() {
+/**
+ * The routes: the page, the resource route and `fillerRoutes` more pages that
+ * no request asks for. React Router's server matches every request against
+ * the whole route table and rebuilds the server routes for every page it
+ * renders, so its own cost grows with the table; the fillers give the
+ * yardstick as many routes as ours, for scale.
+ */
+function routesFile(fillerRoutes: number) {
+  const fillers = Array.from({ length: fillerRoutes }, (_, i) => `route("filler-${i}/:id", "routes/filler.tsx", { id: "filler-${i}" })`);
+  return `import { route } from "@react-router/dev/routes";\nexport default [${[...fillers, `route("page", "routes/page.tsx")`, `route("healthz", "routes/healthz.ts")`].join(", ")}];`;
+}
+
+/** Writes and builds the minimal app (with `fillerRoutes` unused routes besides its two); returns its folder. */
+export function buildMinimalApp(fillerRoutes = 0) {
   const folder = mkdtempSync(join(tmpdir(), "minimal-react-router-"));
-  for (const [name, text] of Object.entries(files)) {
+  for (const [name, text] of Object.entries({ ...files, "app/routes.ts": routesFile(fillerRoutes) })) {
     mkdirSync(join(folder, name, ".."), { recursive: true });
     writeFileSync(join(folder, name), text);
   }
@@ -70,6 +83,7 @@ export async function startMinimalApp(folder: string) {
   const port = await new Promise<string>((done) => child.stdout!.once("data", (chunk: Buffer) => done(chunk.toString().trim())));
   return {
     url: `http://127.0.0.1:${port}`,
+    pid: child.pid!,
     stop: () => new Promise<void>((done) => (child.exitCode !== null ? done() : (child.once("exit", () => done()), child.kill()))),
   };
 }

@@ -1,8 +1,10 @@
-import { count, sql } from "drizzle-orm";
+import { count, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { databaseConfig, db, synchronousLevel } from "~/db/client.server";
 import { auditEvents, results, studies, users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
+import { demoDataPresent } from "~/models/first-use.server";
+import { loadSessionUser } from "~/models/user.server";
 import * as healthz from "~/routes/healthz";
 import { seedDemo } from "../../seed/seed";
 import { useFreshDatabase } from "../support/database";
@@ -68,5 +70,20 @@ describe("database", () => {
     const outcome = await call(healthz.loader, get("/healthz"));
     expect(outcome.status).toBe(200);
     expect(outcome.data).toEqual({ status: "ok", database: "reachable" });
+  });
+
+  // Last: it switches to another database.
+  it("runs the per-request reads prepared once per connection, with each call's values, and follows a new connection", async () => {
+    const [analyst] = await db.select().from(users).where(eq(users.email, "analyst1@ringbatch.example"));
+    const [reviewer] = await db.select().from(users).where(eq(users.email, "reviewer1@ringbatch.example"));
+    expect(await demoDataPresent()).toBe(true);
+    const analystUser = await loadSessionUser(analyst!.id);
+    expect(analystUser).toMatchObject({ email: "analyst1@ringbatch.example", roles: ["analyst"] });
+    expect(analystUser!.labIds.length).toBeGreaterThan(0);
+    expect(await loadSessionUser(reviewer!.id)).toMatchObject({ email: "reviewer1@ringbatch.example", roles: ["reviewer"], labIds: [] });
+    // A new database (the old connection closed): the reads are prepared again on the new one.
+    await useFreshDatabase();
+    expect(await demoDataPresent()).toBe(false);
+    expect(await loadSessionUser(analyst!.id)).toBeNull();
   });
 });

@@ -21,6 +21,8 @@ async function freePort() {
 
 export type RunningServer = {
   url: string;
+  /** The server process's id (the benchmark reads its CPU time). */
+  pid: number;
   databaseUrl: string;
   stop: () => Promise<void>;
   /** Ends the process at once (SIGKILL), as a crash or a power cut would: no shutdown code runs. */
@@ -80,5 +82,5 @@ export async function startServer(extraEnv: Record<string, string> = {}, { datab
       child.once("exit", () => resolve());
       child.kill(signal);
     });
-  return { url, databaseUrl, stop: () => end("SIGTERM"), kill: () => end("SIGKILL"), output: () => output };
+  return { url, pid: child.pid!, databaseUrl, stop: () => end("SIGTERM"), kill: () => end("SIGKILL"), output: () => output };
 }
