@@ -42,12 +42,13 @@ export default function StudyLayout({ loaderData }: Route.ComponentProps) {
         </Link>
       </>
     ) : canStartRound ? (
-      <>
+      // An offer for the screen, not part of a printed report.
+      <span className="no-print">
         {" · "}
         <Link to={`/rounds/new?from=${study.id}`} className="font-semibold text-basalt-700 underline">
           Start a proficiency round
         </Link>
-      </>
+      </span>
     ) : null;
   return <StudyFrame study={study} tabs={tabs} detail={roundLink} />;
 }
