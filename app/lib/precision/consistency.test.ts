@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import { ASTM_E691_TABLES, ISO_5725_TABLES } from "../../../tests/fixtures/reference-tables";
 import { hCritical, hStatistic, kCritical, kStatistic } from "./consistency";
 
 // Published tables as listed in the shared reference critical-values.md ("from memory"):
@@ -6,33 +7,10 @@ import { hCritical, hStatistic, kCritical, kStatistic } from "./consistency";
 const TWO_DECIMALS = 0.006;
 
 // ASTM E691 table, from memory: p, h, k (n = 2), k (n = 3) at the 0.5 % significance level.
-const E691_TABLE: [number, number, number, number][] = [
-  [3, 1.15, 1.72, 1.67],
-  [4, 1.49, 1.95, 1.82],
-  [5, 1.72, 2.11, 1.92],
-  [6, 1.87, 2.22, 1.98],
-  [7, 1.98, 2.3, 2.03],
-  [8, 2.06, 2.36, 2.06],
-  [9, 2.13, 2.41, 2.09],
-  [10, 2.18, 2.45, 2.11],
-  [11, 2.22, 2.49, 2.13],
-  [12, 2.25, 2.51, 2.14],
-  [13, 2.27, 2.54, 2.15],
-  [14, 2.3, 2.56, 2.16],
-  [15, 2.32, 2.57, 2.17],
-];
+const E691_TABLE = ASTM_E691_TABLES.hk;
 
 // ISO 5725-2 Mandel's h table, from memory: p, h at 1 %, h at 5 %.
-const ISO_H_TABLE: [number, number, number][] = [
-  [3, 1.15, 1.15],
-  [4, 1.49, 1.42],
-  [5, 1.72, 1.57],
-  [6, 1.87, 1.66],
-  [7, 1.98, 1.71],
-  [8, 2.06, 1.75],
-  [9, 2.13, 1.78],
-  [10, 2.18, 1.8],
-];
+const ISO_H_TABLE = ISO_5725_TABLES.mandelH;
 
 describe("h and k critical values", () => {
   it.each(E691_TABLE)("p = %i matches the ASTM E691 table (from memory) at 0.5 %%", (p, h, k2, k3) => {

@@ -1,17 +1,15 @@
-import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { grubbsDoubleCritical } from "./grubbs-double-critical";
 import precomputed from "./grubbs-double-table.json";
+import { ISO_5725_TABLES } from "../../../tests/fixtures/reference-tables";
 
 // ISO 5725-2 Table 5 as typed in reference/critical-values.md (copied to tests/fixtures/iso-5725-tables.json).
-const tables = JSON.parse(readFileSync(new URL("../../../tests/fixtures/iso-5725-tables.json", import.meta.url), "utf8")) as {
-  doubleGrubbs: [number, number, number][];
-};
+const ISO_TABLE_5 = ISO_5725_TABLES.doubleGrubbs;
 
 describe("grubbsDoubleCritical", () => {
   // The old 100 000-sample simulation missed the table by up to 0.003
   // (p = 20, 1 %: 0.3558 against 0.3585); the values must now match within ±0.0015.
-  it.each(tables.doubleGrubbs)("p = %i matches the published ISO 5725-2 table within ±0.0015", (p, at1, at5) => {
+  it.each(ISO_TABLE_5)("p = %i matches the published ISO 5725-2 table within ±0.0015", (p, at1, at5) => {
     const critical = grubbsDoubleCritical(p);
     expect(critical?.source).toBe("published");
     expect(Math.abs((critical?.critical1 ?? Number.NaN) - at1)).toBeLessThanOrEqual(0.0015);

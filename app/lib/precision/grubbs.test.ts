@@ -1,26 +1,12 @@
 import { mean, sampleStandardDeviation } from "simple-statistics";
 import { describe, expect, it } from "vitest";
+import { ISO_5725_TABLES } from "../../../tests/fixtures/reference-tables";
 import { grubbsDouble, grubbsSingle, grubbsSingleCritical } from "./grubbs";
 
 // ISO 5725-2 Grubbs' single-outlier table, from memory (as listed in the shared reference
 // critical-values.md): three-decimal entries agree with the formula within ±0.002.
 const THREE_DECIMALS = 0.002;
-const ISO_GRUBBS_TABLE: [number, number, number][] = [
-  // p, 1 %, 5 %
-  [3, 1.155, 1.155],
-  [4, 1.496, 1.481],
-  [5, 1.764, 1.715],
-  [6, 1.973, 1.887],
-  [7, 2.139, 2.02],
-  [8, 2.274, 2.126],
-  [9, 2.387, 2.215],
-  [10, 2.482, 2.29],
-  [12, 2.636, 2.412],
-  [15, 2.806, 2.549],
-  [20, 3.001, 2.709],
-  [30, 3.236, 2.908],
-  [40, 3.381, 3.036],
-];
+const ISO_GRUBBS_TABLE = ISO_5725_TABLES.singleGrubbs; // p, 1 %, 5 %
 
 describe("grubbsSingleCritical", () => {
   it.each(ISO_GRUBBS_TABLE)("p = %i matches the ISO 5725-2 table (from memory)", (p, at1, at5) => {

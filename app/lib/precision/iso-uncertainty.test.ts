@@ -1,21 +1,18 @@
-import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
+import { ISO_5725_TABLES } from "../../../tests/fixtures/reference-tables";
 import { repeatabilityUncertainty, reproducibilityUncertainty } from "./iso-uncertainty";
 
 // ISO 5725-1 check values from reference/critical-values.md (copied to tests/fixtures/iso-5725-tables.json).
-const tables = JSON.parse(readFileSync(new URL("../../../tests/fixtures/iso-5725-tables.json", import.meta.url), "utf8")) as {
-  Ar: { p: number; n: number; value: number }[];
-  AR: { p: number; n: number; gamma: number; value: number }[];
-};
+const { Ar, AR } = ISO_5725_TABLES;
 
 describe("ISO 5725-1 A_r and A_R", () => {
-  it.each(tables.Ar)("A_r(p = $p, n = $n) = $value", ({ p, n, value }) => {
+  it.each(Ar)("A_r(p = $p, n = $n) = $value", ({ p, n, value }) => {
     expect(repeatabilityUncertainty(p, n)).toBeCloseTo(value, 3);
   });
 
   // The reference's three-decimal check values hold within ±0.002 (its preamble); p = 20, n = 3, γ = 2
   // works out by hand as 1.96·√(2038/109440) = 0.26747, which the file rounds to 0.268.
-  it.each(tables.AR)("A_R(p = $p, n = $n, γ = $gamma) = $value", ({ p, n, gamma, value }) => {
+  it.each(AR)("A_R(p = $p, n = $n, γ = $gamma) = $value", ({ p, n, gamma, value }) => {
     expect(Math.abs(reproducibilityUncertainty(p, n, gamma) - value)).toBeLessThanOrEqual(0.002);
   });
 
