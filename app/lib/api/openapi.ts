@@ -35,23 +35,26 @@ export type ApiEndpoint = {
   query?: z.ZodObject;
   body?: z.ZodType;
   answer: Answer;
-  /** failures besides 401 and 429, which every authenticated call can meet */
-  errors: number[];
+  /** failures besides 401 and 429, which every authenticated call can meet, and 404, which every id in the path can */
+  errors?: number[];
 };
 
+const SIGNED_IN = "Everyone signed in.";
 const STUDY_READERS = "The study's coordinators and admins (lab names), its reviewers (lab codes, submitted results only).";
+const BUNDLE_READERS = "Coordinators, admins, reviewers; published studies only.";
+const LAB_WRITERS = "Analysts of the enrollment's lab, or their results:write token for it.";
+const ROUND_READERS = "Coordinators, admins, analysts of an enrolled lab.";
 
 export const API_ENDPOINTS: ApiEndpoint[] = [
-  { method: "get", path: "api/v1/healthz", summary: "Process up and database reachable (503 with the same shape when it is not).", who: null, answer: { schema: healthAnswer }, errors: [] },
-  { method: "get", path: "api/v1/openapi.json", summary: "This document.", who: null, answer: { schema: describedObject("An OpenAPI 3.1 document.") }, errors: [] },
+  { method: "get", path: "api/v1/healthz", summary: "Process up and database reachable (503 with the same shape when it is not).", who: null, answer: { schema: healthAnswer } },
+  { method: "get", path: "api/v1/openapi.json", summary: "This document.", who: null, answer: { schema: describedObject("An OpenAPI 3.1 document.") } },
   {
     method: "get",
     path: "api/v1/studies",
     summary: "The studies the caller may see (a token: the one study it was made for), by code, 100 a page.",
-    who: "Everyone signed in.",
+    who: SIGNED_IN,
     query: pageQuery,
     answer: { schema: studyListAnswer },
-    errors: [],
   },
   {
     method: "get",
@@ -59,7 +62,6 @@ export const API_ENDPOINTS: ApiEndpoint[] = [
     summary: "Setup, responses, materials with mixture designs, and labs, blinded as the caller's role requires.",
     who: "Coordinators, admins, reviewers (lab codes), analysts of an enrolled lab (their own lab only).",
     answer: { schema: describedObject("{ study, responses[], materials[], labs[] }") },
-    errors: [404],
   },
   {
     method: "get",
@@ -67,11 +69,10 @@ export const API_ENDPOINTS: ApiEndpoint[] = [
     summary: "Cell status per lab × material, and counts per material.",
     who: "Coordinators and admins (every lab), analysts (their own lab's row).",
     answer: { schema: describedObject("{ labs[], materials[] } with each cell's status.") },
-    errors: [404],
   },
-  { method: "get", path: "api/v1/studies/:studyId/results", summary: "Results in long form, one row per replicate, with each cell's status and decision.", who: STUDY_READERS, answer: { schema: resultsAnswer }, errors: [404] },
-  { method: "get", path: "api/v1/studies/:studyId/results.csv", summary: "The same rows as CSV, headed by the JSON's keys.", who: STUDY_READERS, answer: { file: "text/csv" }, errors: [404] },
-  { method: "get", path: "api/v1/studies/:studyId/results.xlsx", summary: "The same rows as a spreadsheet.", who: STUDY_READERS, answer: { file: "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet" }, errors: [404] },
+  { method: "get", path: "api/v1/studies/:studyId/results", summary: "Results in long form, one row per replicate, with each cell's status and decision.", who: STUDY_READERS, answer: { schema: resultsAnswer } },
+  { method: "get", path: "api/v1/studies/:studyId/results.csv", summary: "The same rows as CSV, headed by the JSON's keys.", who: STUDY_READERS, answer: { file: "text/csv" } },
+  { method: "get", path: "api/v1/studies/:studyId/results.xlsx", summary: "The same rows as a spreadsheet.", who: STUDY_READERS, answer: { file: "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet" } },
   {
     method: "get",
     path: "api/v1/studies/:studyId/analysis.csv",
@@ -79,7 +80,7 @@ export const API_ENDPOINTS: ApiEndpoint[] = [
     who: STUDY_READERS,
     query: significanceQuery,
     answer: { file: "text/csv" },
-    errors: [404, 422],
+    errors: [422],
   },
   {
     method: "get",
@@ -88,7 +89,7 @@ export const API_ENDPOINTS: ApiEndpoint[] = [
     who: STUDY_READERS,
     query: significanceQuery,
     answer: { file: "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet" },
-    errors: [404, 422],
+    errors: [422],
   },
   {
     method: "get",
@@ -97,7 +98,7 @@ export const API_ENDPOINTS: ApiEndpoint[] = [
     who: "Coordinators, admins, reviewers.",
     query: significanceQuery,
     answer: { schema: describedObject("{ alpha, groups[] (per material × response: p, n, mean, s_r, s_R, r, R, labs[] with h, k, flags), excluded[], problems[], levelFits[], warnings[] }") },
-    errors: [404, 422],
+    errors: [422],
   },
   {
     method: "get",
@@ -106,57 +107,52 @@ export const API_ENDPOINTS: ApiEndpoint[] = [
     who: "Coordinators and admins.",
     query: whatIfQuery,
     answer: { schema: describedObject("The same shape as …/precision.") },
-    errors: [404, 422],
+    errors: [422],
   },
   {
     method: "get",
     path: "api/v1/studies/:studyId/bundle",
     summary: "The published statement's bundle: its SHA-256 and each file's.",
-    who: "Coordinators, admins, reviewers; published studies only.",
+    who: BUNDLE_READERS,
     answer: { schema: bundleSummaryAnswer },
-    errors: [404],
   },
   {
     method: "get",
     path: "api/v1/studies/:studyId/bundle.zip",
     summary: "Everything behind the published statement, to recompute it: results by lab code, decisions, design, figures, text, README, SHA256SUMS.",
-    who: "Coordinators, admins, reviewers; published studies only.",
+    who: BUNDLE_READERS,
     answer: { file: "application/zip" },
-    errors: [404],
   },
   {
     method: "get",
     path: "api/v1/enrollments/:enrollmentId/results",
     summary: "The lab's own stored results, each replicate with its version for a later write to name (readVersion).",
-    who: "Analysts of the enrollment's lab, or their results:write token for it.",
+    who: LAB_WRITERS,
     answer: { schema: describedObject("{ enrollment: { id, studyId, labCode }, results[] } with each replicate's value and version.") },
-    errors: [404],
   },
   {
     method: "post",
     path: "api/v1/enrollments/:enrollmentId/results",
     summary: "A lab writes draft results: all rows or none; the same request twice changes nothing; rows of submitted cells, and rows whose readVersion is no longer the stored one, are refused (409).",
-    who: "Analysts of the enrollment's lab, or their results:write token for it.",
+    who: LAB_WRITERS,
     body: resultsBody,
     answer: { schema: importAnswer },
-    errors: [400, 404, 405, 409, 413, 422],
+    errors: [400, 405, 409, 413, 422],
   },
-  { method: "get", path: "api/v1/rounds", summary: "The proficiency rounds the caller may see.", who: "Everyone signed in.", answer: { schema: roundListAnswer }, errors: [] },
+  { method: "get", path: "api/v1/rounds", summary: "The proficiency rounds the caller may see.", who: SIGNED_IN, answer: { schema: roundListAnswer } },
   {
     method: "get",
     path: "api/v1/rounds/:roundId",
     summary: "Per material × response the assigned value, σ_pt and their basis (a lab: once the round is published). No lab scores, never lab names.",
-    who: "Coordinators, admins, analysts of an enrolled lab.",
+    who: ROUND_READERS,
     answer: { schema: describedObject("{ round, figures[] }") },
-    errors: [404],
   },
   {
     method: "get",
     path: "api/v1/rounds/:roundId/scores",
     summary: "Every lab's scores by code; a lab: its own scores and its history across rounds.",
-    who: "Coordinators, admins, analysts of an enrolled lab.",
+    who: ROUND_READERS,
     answer: { schema: describedObject("{ published, scores[] } and, for a lab, { labCode, history[] }") },
-    errors: [404],
   },
 ];
 
@@ -181,18 +177,22 @@ function jsonSchema(schema: z.ZodType, io: "input" | "output") {
 /** `api/v1/studies/:studyId` → `/api/v1/studies/{studyId}` */
 export const openApiPath = (routePath: string) => "/" + routePath.replace(/:(\w+)/g, "{$1}");
 
+const pathIds = (endpoint: ApiEndpoint) => [...endpoint.path.matchAll(/:(\w+)/g)].map((m) => m[1] as PathId);
+
+/** 401 and 429 for every authenticated call, 404 for an id in the path, then the endpoint's own. */
+const failureStatuses = (endpoint: ApiEndpoint) =>
+  [...(endpoint.who ? [401, 429] : []), ...(pathIds(endpoint).length ? [404] : []), ...(endpoint.errors ?? [])].sort((a, b) => a - b);
+
 function operation(endpoint: ApiEndpoint) {
-  const pathIds = [...endpoint.path.matchAll(/:(\w+)/g)].map((m) => m[1] as PathId);
   const querySchema = endpoint.query ? jsonSchema(endpoint.query, "input") : null;
   const queryProperties = (querySchema?.properties ?? {}) as Record<string, { description?: string }>;
   const parameters = [
-    ...pathIds.map((name) => ({ name, in: "path", required: true, schema: jsonSchema(idParam, "input") })),
+    ...pathIds(endpoint).map((name) => ({ name, in: "path", required: true, schema: jsonSchema(idParam, "input") })),
     ...Object.entries(queryProperties).map(([name, schema]) => ({ name, in: "query", required: false, description: schema.description, schema })),
   ];
   const success = "file" in endpoint.answer
     ? { description: "The file, as a download (Content-Disposition names it).", content: { [endpoint.answer.file]: { schema: { type: "string", contentMediaType: endpoint.answer.file } } } }
     : { description: "Success.", content: { "application/json": { schema: jsonSchema(endpoint.answer.schema, "output") } } };
-  const failures = [...(endpoint.who ? [401, 429] : []), ...endpoint.errors].sort((a, b) => a - b);
   return {
     summary: endpoint.summary,
     description: endpoint.who ? `Who: ${endpoint.who}` : "Anyone; no credentials needed.",
@@ -202,7 +202,7 @@ function operation(endpoint: ApiEndpoint) {
     responses: {
       200: success,
       ...(endpoint.method === "get" ? { 304: { description: "Not modified: the If-None-Match tag is still current." } } : {}),
-      ...Object.fromEntries(failures.map((status) => [String(status), { $ref: `#/components/responses/Error${status}` }])),
+      ...Object.fromEntries(failureStatuses(endpoint).map((status) => [String(status), { $ref: `#/components/responses/Error${status}` }])),
     },
   };
 }
@@ -211,7 +211,7 @@ function operation(endpoint: ApiEndpoint) {
 export function openApiDocument(origin: string) {
   const paths: Record<string, Record<string, ReturnType<typeof operation>>> = {};
   for (const endpoint of API_ENDPOINTS) (paths[openApiPath(endpoint.path)] ??= {})[endpoint.method] = operation(endpoint);
-  const statuses = [...new Set(API_ENDPOINTS.flatMap((e) => [...(e.who ? [401, 429] : []), ...e.errors]))].sort((a, b) => a - b);
+  const statuses = [...new Set(API_ENDPOINTS.flatMap(failureStatuses))].sort((a, b) => a - b);
   return {
     openapi: "3.1.0",
     info: {
