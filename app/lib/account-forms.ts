@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { ROLES } from "~/db/values";
-import { emailField, idField, nameField, newPasswordField } from "~/lib/validation";
+import { emailField, idField, nameField, newPasswordField, optionalText } from "~/lib/validation";
 
 /** The sign-in form. Lengths are capped so a huge post is refused before any password hashing. */
 export const signInSchema = z.object({
@@ -100,9 +100,7 @@ export const passwordResetRequestSchema = z.object({
   email: z.string({ message: "Enter your e-mail address." }).trim().min(1, { message: "Enter your e-mail address." }).max(254, { message: "Enter your e-mail address." }),
 });
 
-// The lab directory. Conform turns an empty field into undefined; the optional fields store "".
-const optionalText = (max: number, message: string) => z.string().trim().max(max, { message }).optional().transform((v) => v ?? "");
-
+// The lab directory.
 export const labSchema = z.object({
   labId: idField.optional(),
   name: nameField,

@@ -5,6 +5,7 @@
 import { z } from "zod";
 import { ASSIGNED_VALUE_METHODS, SIGMA_PT_METHODS } from "~/db/values";
 import { REPLICATES_BY_KIND, replicatesProblem, studyCodeField } from "~/lib/study-forms";
+import { optionalText } from "~/lib/validation";
 
 const ROUND_REPLICATES = REPLICATES_BY_KIND.proficiency.message;
 
@@ -43,12 +44,7 @@ export const newRoundSchema = z.object({
       }
       return id;
     }),
-  testMethod: z
-    .string()
-    .trim()
-    .max(200, { message: "Keep the test method to 200 characters or fewer." })
-    .optional()
-    .transform((v) => v ?? ""),
+  testMethod: optionalText(200, "Keep the test method to 200 characters or fewer."),
   replicatesPerCell: z.coerce
     .number({ message: ROUND_REPLICATES })
     .int({ message: ROUND_REPLICATES })
@@ -143,12 +139,7 @@ export const checksSchema = z.object({
       }
       return values;
     }),
-  justification: z
-    .string()
-    .trim()
-    .max(2000, { message: "Keep the justification to 2000 characters or fewer." })
-    .optional()
-    .transform((v) => v ?? ""),
+  justification: optionalText(2000, "Keep the justification to 2000 characters or fewer."),
 });
 
 export const roundTransitionSchema = z.object({

@@ -16,3 +16,6 @@ export const newPasswordField = z
   .max(256, { message: "Keep the password to 256 characters or fewer." });
 
 export const idField = z.coerce.number().int().positive();
+
+/** Text a form may leave out: Conform turns an empty field into undefined, which is stored as "". */
+export const optionalText = (max: number, message: string) => z.string().trim().max(max, { message }).optional().transform((v) => v ?? "");
