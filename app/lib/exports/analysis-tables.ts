@@ -10,7 +10,15 @@ import { type ExportColumn, exportTable } from "./table";
 type GroupRow = { group: GroupResult };
 type LabRow = GroupRow & { lab: LabResult };
 
-const computed = (group: GroupResult): ComputedGroup | null => (group.status === "computed" ? group : null);
+/** The fields of a computed group that hold one figure. */
+type Figure = { [K in keyof ComputedGroup]: ComputedGroup[K] extends number | null ? K : never }[keyof ComputedGroup];
+
+/** A precision figure of the group; blank where the group was not computed. */
+const figureColumn = (field: Figure, title: string, key: string = field): ExportColumn<GroupRow> => ({
+  key,
+  title,
+  value: ({ group }) => (group.status === "computed" ? group[field] : null),
+});
 
 const GROUP_KEYS: ExportColumn<GroupRow>[] = [
   { key: "material", title: "Material", value: ({ group }) => group.material },
@@ -20,18 +28,18 @@ const GROUP_KEYS: ExportColumn<GroupRow>[] = [
 const PRECISION_COLUMNS: ExportColumn<GroupRow>[] = [
   { key: "p", title: "p (labs)", value: ({ group }) => group.p },
   { key: "n", title: "n (replicates)", value: ({ group }) => group.n },
-  { key: "grandMean", title: "x̿", value: ({ group }) => computed(group)?.mean ?? null },
-  { key: "sx", title: "s_x̄", value: ({ group }) => computed(group)?.sx ?? null },
-  { key: "sr", title: "s_r", value: ({ group }) => computed(group)?.sr ?? null },
-  { key: "sL", title: "s_L", value: ({ group }) => computed(group)?.sL ?? null },
-  { key: "sR", title: "s_R", value: ({ group }) => computed(group)?.sR ?? null },
-  { key: "r", title: "r", value: ({ group }) => computed(group)?.r ?? null },
-  { key: "R", title: "R", value: ({ group }) => computed(group)?.R ?? null },
-  { key: "cvr", title: "CV_r %", value: ({ group }) => computed(group)?.cvr ?? null },
-  { key: "cvR", title: "CV_R %", value: ({ group }) => computed(group)?.cvR ?? null },
-  { key: "alpha", title: "Significance level", value: ({ group }) => computed(group)?.alpha ?? null },
-  { key: "hCritical", title: "h critical", value: ({ group }) => computed(group)?.hCritical ?? null },
-  { key: "kCritical", title: "k critical", value: ({ group }) => computed(group)?.kCritical ?? null },
+  figureColumn("mean", "x̿", "grandMean"),
+  figureColumn("sx", "s_x̄"),
+  figureColumn("sr", "s_r"),
+  figureColumn("sL", "s_L"),
+  figureColumn("sR", "s_R"),
+  figureColumn("r", "r"),
+  figureColumn("R", "R"),
+  figureColumn("cvr", "CV_r %"),
+  figureColumn("cvR", "CV_R %"),
+  figureColumn("alpha", "Significance level"),
+  figureColumn("hCritical", "h critical"),
+  figureColumn("kCritical", "k critical"),
   { key: "notComputed", title: "Not computed because", value: ({ group }) => (group.status === "not-computed" ? group.reasons.join("; ") : null) },
 ];
 
