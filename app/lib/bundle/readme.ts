@@ -2,10 +2,11 @@
  * The plain-words README of a statement's bundle: what each file holds, how
  * each published figure is computed, and the command that recomputes them.
  */
-export type BundleReadmeInput = {
-  study: { code: string; title: string; testMethod: string };
+import type { StatementSnapshot } from "~/lib/statement-text";
+
+/** The snapshot's study and freezing date, and what the bundle adds to them. */
+export type BundleReadmeInput = Pick<StatementSnapshot, "study" | "frozenAt"> & {
   statementVersion: number;
-  frozenAt: string;
   alpha: number;
   command: string;
   files: { name: string; about: string }[];
