@@ -5,11 +5,8 @@ import { mayWrite, WRITE_RULES, type WriteKind, writeRefusal } from "./write-rul
 
 describe("study lifecycle rules", () => {
   it("follows draft → recruiting → testing → checking → in_review → published, with cancel before published", () => {
-    expect(allowedNextStates("draft")).toContain("recruiting");
-    expect(allowedNextStates("recruiting")).toContain("testing");
-    expect(allowedNextStates("testing")).toContain("checking");
-    expect(allowedNextStates("checking")).toContain("in_review");
-    expect(allowedNextStates("in_review")).toContain("published");
+    const forward = ["draft", "recruiting", "testing", "checking", "in_review", "published"] as const;
+    for (let i = 1; i < forward.length; i++) expect(allowedNextStates(forward[i - 1]!)).toContain(forward[i]);
     for (const state of STUDY_STATES.filter((s) => s !== "published" && s !== "cancelled")) expect(allowedNextStates(state)).toContain("cancelled");
     expect(allowedNextStates("published")).toEqual([]);
     expect(allowedNextStates("cancelled")).toEqual([]);

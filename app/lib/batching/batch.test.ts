@@ -57,23 +57,26 @@ describe("batch sheet of the invented paving mixture", () => {
     expect(sheet.cementitiousKg).toBeCloseTo(36.225, 6);
   });
 
-  it("weighs the aggregates wet and credits their free water", () => {
+  it.each([
     // common practice arithmetic, coarse: SSD 1100 × 0.1035 = 113.85 kg;
     // wet 113.85 × 1.015/1.008 = 114.6406 kg; free 113.85 × 0.007/1.008 = 0.7906 kg
-    const coarse = row("No. 57 crushed limestone");
-    expect(coarse.amount).toBeCloseTo(114.6406, 4);
-    expect(coarse.aggregate).toMatchObject({
+    { name: "No. 57 crushed limestone", wetKg: 114.6406, freeWaterKg: 0.7906 },
+    // fine: SSD 720 × 0.1035 = 74.52 kg; wet 74.52 × 1.04/1.012 = 76.5818 kg;
+    // free 74.52 × 0.028/1.012 = 2.0618 kg
+    { name: "Natural concrete sand", wetKg: 76.5818, freeWaterKg: 2.0618 },
+  ])("weighs the $name wet and credits its free water", ({ name, wetKg, freeWaterKg }) => {
+    expect(row(name).amount).toBeCloseTo(wetKg, 4);
+    expect(row(name).aggregate?.freeWaterKg).toBeCloseTo(freeWaterKg, 4);
+  });
+
+  it("keeps the aggregate's SSD and oven-dry masses and its moisture on the sheet", () => {
+    // common practice arithmetic, coarse: SSD 1100 × 0.1035 = 113.85 kg; OD 113.85/1.008 = 112.9464 kg
+    expect(row("No. 57 crushed limestone").aggregate).toMatchObject({
       ssdMassKg: expect.closeTo(113.85, 6),
       ovenDryMassKg: expect.closeTo(112.9464, 4),
-      freeWaterKg: expect.closeTo(0.7906, 4),
       moistureContentPercent: 1.5,
       absorptionPercent: 0.8,
     });
-    // fine: SSD 720 × 0.1035 = 74.52 kg; wet 74.52 × 1.04/1.012 = 76.5818 kg;
-    // free 74.52 × 0.028/1.012 = 2.0618 kg
-    const fine = row("Natural concrete sand");
-    expect(fine.amount).toBeCloseTo(76.5818, 4);
-    expect(fine.aggregate?.freeWaterKg).toBeCloseTo(2.0618, 4);
   });
 
   it("takes the free water off the batch water", () => {
