@@ -28,6 +28,8 @@ beforeAll(async () => {
 
 const update = (fields: Record<string, string | string[]>) => call(adminUsers.action, post("/admin/users", { intent: "update", labId: "", ...fields }, admin));
 const usersPage = (query = "") => call(adminUsers.loader, get(`/admin/users${query}`, admin));
+/** The e-mail addresses of the accounts page's rows, in sorted order. */
+const listedEmails = async (query: string) => (await usersPage(query)).data.users.rows.map((u: { email: string }) => u.email).sort();
 
 describe("a person with several roles", () => {
   it("is granted a second role on the admin's users page, and reaches both roles' pages and links", async () => {
@@ -82,29 +84,14 @@ describe("the admin's users page offers no action that would be refused", () => 
 
 describe("searching and filtering accounts", () => {
   it("finds by part of the name or e-mail, by role (also a second role), by lab, one page at a time", async () => {
-    const byName = await usersPage("?q=brennock");
-    expect(byName.data.users.rows.map((u: { email: string }) => u.email)).toEqual(["coordinator@ringbatch.example"]);
-    const byEmail = await usersPage("?q=ANALYST1");
-    expect(byEmail.data.users.rows.map((u: { email: string }) => u.email).sort()).toEqual([
-      "analyst1@ringbatch.example",
-      "analyst10@ringbatch.example",
-      "analyst11@ringbatch.example",
-      "analyst12@ringbatch.example",
-    ].sort());
+    expect(await listedEmails("?q=brennock")).toEqual(["coordinator@ringbatch.example"]);
+    expect(await listedEmails("?q=ANALYST1")).toEqual(["analyst1@ringbatch.example", "analyst10@ringbatch.example", "analyst11@ringbatch.example", "analyst12@ringbatch.example"].sort());
     // A % typed in the search means itself, not "anything".
     expect((await usersPage("?q=%25")).data.users.total).toBe(0);
-    const reviewers = await usersPage("?role=reviewer");
     // analyst8 is the demo's analyst who also sits on the committee (seed/seed.ts).
-    expect(reviewers.data.users.rows.map((u: { email: string }) => u.email).sort()).toEqual([
-      "analyst3@ringbatch.example",
-      "analyst8@ringbatch.example",
-      "reviewer1@ringbatch.example",
-      "reviewer2@ringbatch.example",
-      "reviewer3@ringbatch.example",
-    ].sort());
+    expect(await listedEmails("?role=reviewer")).toEqual(["analyst3@ringbatch.example", "analyst8@ringbatch.example", "reviewer1@ringbatch.example", "reviewer2@ringbatch.example", "reviewer3@ringbatch.example"].sort());
     const vantoller = await labId("Vantoller Testing Services");
-    const inLab = await usersPage(`?lab=${vantoller}&role=analyst`);
-    expect(inLab.data.users.rows.map((u: { email: string }) => u.email)).toEqual(["analyst3@ringbatch.example"]);
+    expect(await listedEmails(`?lab=${vantoller}&role=analyst`)).toEqual(["analyst3@ringbatch.example"]);
     // Nonsense in the query means "any".
     const nonsense = await usersPage("?role=wizard&lab=abc");
     expect(nonsense.data.filter).toEqual({ q: "", role: null, lab: null });

@@ -126,13 +126,10 @@ async function studyIn(state: StudyState): Promise<Fixture> {
       .values({ studyId, key: "holes", name: "Passes to close the preformed holes", unit: "passes", kind: "count", plausibleMin: 1, plausibleMax: 40 })
       .returning();
     const [m1, m2] = await tx.insert(materials).values([{ studyId, code: "M1", sortOrder: 0 }, { studyId, code: "M2", sortOrder: 1 }]).returning();
-    const [enrollment, awaiting] = await tx
-      .insert(enrollments)
-      .values([
-        { studyId, labId: people.lab, labCode: "L01", state: "accepted" },
-        { studyId, labId: people.awaitingLab, labCode: "L02", state: "accepted" },
-      ])
-      .returning();
+    const [enrollment, awaiting] = await acceptLabs(tx, studyId, [
+      [people.lab, "L01"],
+      [people.awaitingLab, "L02"],
+    ]);
     await tx.insert(studyReviewers).values(people.reviewers.map((userId) => ({ studyId, userId })));
     const [shipped, preparing] = await tx
       .insert(shipments)
@@ -394,6 +391,14 @@ describe("every write in every study state", () => {
 
 type KindFixture = { studyId: number; enrollmentId: number; materialId: number; responseId: number };
 
+/** The labs enrolled in the study and accepted, each under its lab code. */
+function acceptLabs(tx: Transaction, studyId: number, labsWithCodes: [labId: number, labCode: string][]) {
+  return tx
+    .insert(enrollments)
+    .values(labsWithCodes.map(([labId, labCode]) => ({ studyId, labId, labCode, state: "accepted" as const })))
+    .returning();
+}
+
 /** A float finishing study of `kind` in `state`, one replicate a cell, with its one response (holes). */
 async function insertStudyWithHoles(tx: Transaction, study: { code: string; title: string; kind: "proficiency" | "ruggedness"; state: StudyState }) {
   const [row] = await tx
@@ -415,13 +420,10 @@ async function roundIn(state: StudyState): Promise<KindFixture> {
   return db.transaction(async (tx) => {
     const { studyId, holes } = await insertStudyWithHoles(tx, { code: `SMR-${fixtureCount}`, title: `State matrix round ${fixtureCount}`, kind: "proficiency", state });
     const [m1] = await tx.insert(materials).values({ studyId, code: "M1", sortOrder: 0 }).returning();
-    const [enrollment, second] = await tx
-      .insert(enrollments)
-      .values([
-        { studyId, labId: people.lab, labCode: "P01", state: "accepted" },
-        { studyId, labId: people.spareLab, labCode: "P02", state: "accepted" },
-      ])
-      .returning();
+    const [enrollment, second] = await acceptLabs(tx, studyId, [
+      [people.lab, "P01"],
+      [people.spareLab, "P02"],
+    ]);
     const submitted = { materialId: m1!.id, responseId: holes.id, status: "submitted" as const, submittedAt: new Date(), submittedBy: people.analyst, version: 1 };
     const [cell, secondCell] = await tx
       .insert(cells)
