@@ -1,5 +1,4 @@
 import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
 import { z } from "zod";
 import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/labs";
@@ -10,7 +9,7 @@ import { labCheckedSchema, labMergeSchema, labSchema } from "~/lib/account-forms
 import { wholeNumberParam } from "~/lib/query-params";
 import { createLab, listLabsForAdmin, markLabChecked, mergeLab, updateLab } from "~/models/lab.server";
 import { recordAudit } from "~/server/audit.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireRole } from "~/server/guards.server";
 import { redirectWithToast } from "~/server/toast.server";
 
@@ -31,10 +30,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const admin = await requireRole(request, "admin");
-  const submission = parseWithZod(await request.formData(), { schema: adminLabsSchema });
-  if (submission.status !== "success") return refuse(submission);
-  const input = submission.value;
-  const outcome = await withRefusals(submission, async () => {
+  const change = async (input: z.output<typeof adminLabsSchema>) => {
     switch (input.intent) {
       case "save": {
         const { labId, intent: _intent, ...entry } = input;
@@ -51,45 +47,22 @@ export async function action({ request }: Route.ActionArgs) {
         return { to: null, message: "Marked as checked: no duplicate." };
       }
     }
-  });
-  if (!outcome.ok) return outcome.reply;
+  };
   const { pathname, search } = new URL(request.url);
-  return redirectWithToast(outcome.value.to ?? pathname + search, outcome.value.message);
+  return submitForm(request, adminLabsSchema, change, ({ to, message }) => redirectWithToast(to ?? pathname + search, message));
 }
 
 type LabRow = Route.ComponentProps["loaderData"]["labs"][number];
 
 export default function AdminLabs({ loaderData, actionData }: Route.ComponentProps) {
   const { editing, merging, labs } = loaderData;
-  const [form, fields] = useSchemaForm(saveLabSchema, { reply: actionData, intent: "save", id: `lab-${editing?.id ?? "new"}`, defaultValue: editing ? labValues(editing) : undefined });
   const busy = useNavigation().state === "submitting";
   const checkRefusal = refusalOf(actionData, "checked");
   return (
     <>
       <PageHeader title="Labs" subtitle="The lab directory: every laboratory that can be invited to a study." />
       {merging && <MergeCard lab={merging} labs={labs} reply={actionData} busy={busy} />}
-      <Card title={editing ? `Edit ${editing.name}` : "New lab"} className="my-6">
-        <Form method="post" className="grid gap-4 md:grid-cols-2" key={editing?.id ?? "new"} {...getFormProps(form)}>
-          <input type="hidden" name="intent" value="save" />
-          {editing && <input type="hidden" name="labId" value={editing.id} />}
-          <FormErrors errors={formWideErrors(form)} />
-          <Field label="Name" {...fieldProps(fields.name)} />
-          <Field label="Address" {...fieldProps(fields.address)} />
-          <Field label="Contact name" {...fieldProps(fields.contactName)} />
-          <Field label="Contact e-mail" type="email" {...fieldProps(fields.contactEmail)} />
-          <Field label="Accreditation number" {...fieldProps(fields.accreditationNumber)} />
-          <div className="md:col-span-2">
-            <Button type="submit" disabled={busy}>
-              {editing ? "Save lab" : "Add lab"}
-            </Button>
-            {editing && (
-              <Link to="/admin/labs" className="ml-4 font-semibold text-basalt-700 underline">
-                Cancel
-              </Link>
-            )}
-          </div>
-        </Form>
-      </Card>
+      <LabEntryCard key={editing?.id ?? "new"} lab={editing} reply={actionData} busy={busy} />
       <Card title="Directory">
         <p className="mb-4">
           A lab a coordinator invites from outside the directory joins it only when its contact accepts, and then shows here marked "New — check for
@@ -120,6 +93,35 @@ export default function AdminLabs({ loaderData, actionData }: Route.ComponentPro
         />
       </Card>
     </>
+  );
+}
+
+/** A new lab for the directory, or the entry of `lab` when one is being edited. */
+function LabEntryCard({ lab, reply, busy }: { lab: LabRow | null; reply: unknown; busy: boolean }) {
+  const [form, fields] = useSchemaForm(saveLabSchema, { reply, intent: "save", id: `lab-${lab?.id ?? "new"}`, defaultValue: lab ? labValues(lab) : undefined });
+  return (
+    <Card title={lab ? `Edit ${lab.name}` : "New lab"} className="my-6">
+      <Form method="post" className="grid gap-4 md:grid-cols-2" {...getFormProps(form)}>
+        <input type="hidden" name="intent" value="save" />
+        {lab && <input type="hidden" name="labId" value={lab.id} />}
+        <FormErrors errors={formWideErrors(form)} />
+        <Field label="Name" {...fieldProps(fields.name)} />
+        <Field label="Address" {...fieldProps(fields.address)} />
+        <Field label="Contact name" {...fieldProps(fields.contactName)} />
+        <Field label="Contact e-mail" type="email" {...fieldProps(fields.contactEmail)} />
+        <Field label="Accreditation number" {...fieldProps(fields.accreditationNumber)} />
+        <div className="md:col-span-2">
+          <Button type="submit" disabled={busy}>
+            {lab ? "Save lab" : "Add lab"}
+          </Button>
+          {lab && (
+            <Link to="/admin/labs" className="ml-4 font-semibold text-basalt-700 underline">
+              Cancel
+            </Link>
+          )}
+        </div>
+      </Form>
+    </Card>
   );
 }
 

@@ -1,6 +1,6 @@
 import { type FieldMetadata, getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, Link, useNavigation } from "react-router";
+import type { z } from "zod";
 import type { Route } from "./+types/users";
 import { fieldProps, FormErrors, formWideErrors, replyAbout, useSchemaForm } from "~/components/forms";
 import { Pager } from "~/components/pager";
@@ -13,7 +13,7 @@ import { listLabs } from "~/models/lab.server";
 import { createAccountWithWelcome } from "~/models/password-link.server";
 import { AccountError, findUsers, setDisabled, updateAccount } from "~/models/user.server";
 import { recordAudit } from "~/server/audit.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireRole } from "~/server/guards.server";
 import { endAllSessions } from "~/server/session.server";
 import { redirectWithToast } from "~/server/toast.server";
@@ -30,12 +30,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const admin = await requireRole(request, "admin");
-  const submission = parseWithZod(await request.formData(), { schema: adminUserSchema });
-  if (submission.status !== "success") return refuse(submission);
-  const input = submission.value;
-  // Back to the same filtered page the administrator was on.
-  const back = `/admin/users${new URL(request.url).search}`;
-  const outcome = await withRefusals(submission, async () => {
+  const change = async (input: z.output<typeof adminUserSchema>) => {
     switch (input.intent) {
       case "create": {
         if (input.roles.includes("analyst") && !input.labId) throw new AccountError("labId", "An analyst belongs to a lab: choose one.");
@@ -43,9 +38,9 @@ export async function action({ request }: Route.ActionArgs) {
         return `Account for ${user.email} created; a link to set the password is on its way.`;
       }
       case "update": {
-        const change = { userId: input.userId, roles: input.roles, labId: input.labId, isContact: input.isContact === "on" };
-        await updateAccount(change, admin.id);
-        await recordAudit({ actorUserId: admin.id, action: "user_updated", entityType: "user", entityId: input.userId, after: change });
+        const account = { userId: input.userId, roles: input.roles, labId: input.labId, isContact: input.isContact === "on" };
+        await updateAccount(account, admin.id);
+        await recordAudit({ actorUserId: admin.id, action: "user_updated", entityType: "user", entityId: input.userId, after: account });
         return "Account updated.";
       }
       case "disable": {
@@ -56,9 +51,9 @@ export async function action({ request }: Route.ActionArgs) {
         return disabled ? "Account disabled; its sessions have ended." : "Account enabled.";
       }
     }
-  });
-  if (!outcome.ok) return outcome.reply;
-  return redirectWithToast(back, outcome.value);
+  };
+  // Back to the same filtered page the administrator was on.
+  return submitForm(request, adminUserSchema, change, (message) => redirectWithToast(`/admin/users${new URL(request.url).search}`, message));
 }
 
 const ROLE_NAME: Record<Role, string> = { admin: "Administrator", coordinator: "Coordinator", analyst: "Analyst", reviewer: "Reviewer" };
@@ -70,49 +65,14 @@ type LabOption = { value: string; label: string };
 export default function AdminUsers({ loaderData, actionData }: Route.ComponentProps) {
   const { users, labs, filter, adminId } = loaderData;
   const busy = useNavigation().state === "submitting";
-  const [form, fields] = useSchemaForm(createUserSchema, { reply: actionData, intent: "create", defaultValue: { roles: ["analyst"] } });
   const labOptions: LabOption[] = [{ value: "", label: "No lab" }, ...labs.map((l) => ({ value: String(l.id), label: l.name }))];
   const filtered = filter.q !== "" || filter.role !== null || filter.lab !== null;
   return (
     <>
       <PageHeader title="Users" subtitle="Accounts, roles and lab membership." />
-      <Card title="Find accounts" className="my-6">
-        <Form method="get" className="grid items-end gap-4 md:grid-cols-4">
-          <Field label="Name or e-mail contains" name="q" type="search" defaultValue={filter.q} />
-          <SelectField label="Role" name="role" defaultValue={filter.role ?? ""} options={[{ value: "", label: "Any role" }, ...ROLES.map((r) => ({ value: r, label: ROLE_NAME[r] }))]} />
-          <SelectField label="Lab" name="lab" defaultValue={filter.lab ? String(filter.lab) : ""} options={[{ value: "", label: "Any lab" }, ...labOptions.slice(1)]} />
-          <div className="flex items-center gap-4 pb-1">
-            <Button type="submit" variant="secondary">
-              Search
-            </Button>
-            {filtered && (
-              <Link to="/admin/users" className="font-semibold text-basalt-700 underline">
-                Show all
-              </Link>
-            )}
-          </div>
-        </Form>
-      </Card>
-      <Card title="New account" className="mb-6">
-        {/* A new account (one more in the count) starts the form afresh. */}
-        <Form method="post" className="grid gap-4 md:grid-cols-3" key={users.total} {...getFormProps(form)}>
-          <input type="hidden" name="intent" value="create" />
-          <FormErrors errors={formWideErrors(form)} />
-          <Field label="E-mail" type="email" {...fieldProps(fields.email)} />
-          <Field label="Name" {...fieldProps(fields.name)} />
-          <SelectField label="Lab" options={labOptions} {...fieldProps(fields.labId)} />
-          <RoleChoices legend="Roles" field={fields.roles} idPrefix="new" />
-          <label className="flex items-center gap-2 self-end pb-3 font-semibold">
-            <input type="checkbox" name={fields.isContact.name} className="h-5 w-5" defaultChecked={fields.isContact.initialValue === "on"} /> Lab contact
-          </label>
-          <p className="text-basalt-700 md:col-span-3">The person gets an e-mail with a link to set their own password; the link works once, for 14 days.</p>
-          <div className="md:col-span-3">
-            <Button type="submit" disabled={busy}>
-              Create account
-            </Button>
-          </div>
-        </Form>
-      </Card>
+      <FindAccountsCard filter={filter} filtered={filtered} labOptions={labOptions} />
+      {/* A new account (one more in the count) starts the form afresh. */}
+      <NewAccountCard key={users.total} labOptions={labOptions} reply={actionData} busy={busy} />
       <Card title="Accounts">
         <p className="mb-3">
           {users.total} {users.total === 1 ? "account" : "accounts"}
@@ -134,6 +94,54 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
         <Pager page={users.page} pageCount={users.pageCount} label="Pages of accounts" />
       </Card>
     </>
+  );
+}
+
+/** The search over accounts: a GET form, so a filtered list has its own address. */
+function FindAccountsCard({ filter, filtered, labOptions }: { filter: LoaderData["filter"]; filtered: boolean; labOptions: LabOption[] }) {
+  return (
+    <Card title="Find accounts" className="my-6">
+      <Form method="get" className="grid items-end gap-4 md:grid-cols-4">
+        <Field label="Name or e-mail contains" name="q" type="search" defaultValue={filter.q} />
+        <SelectField label="Role" name="role" defaultValue={filter.role ?? ""} options={[{ value: "", label: "Any role" }, ...ROLES.map((r) => ({ value: r, label: ROLE_NAME[r] }))]} />
+        <SelectField label="Lab" name="lab" defaultValue={filter.lab ? String(filter.lab) : ""} options={[{ value: "", label: "Any lab" }, ...labOptions.slice(1)]} />
+        <div className="flex items-center gap-4 pb-1">
+          <Button type="submit" variant="secondary">
+            Search
+          </Button>
+          {filtered && (
+            <Link to="/admin/users" className="font-semibold text-basalt-700 underline">
+              Show all
+            </Link>
+          )}
+        </div>
+      </Form>
+    </Card>
+  );
+}
+
+function NewAccountCard({ labOptions, reply, busy }: { labOptions: LabOption[]; reply: unknown; busy: boolean }) {
+  const [form, fields] = useSchemaForm(createUserSchema, { reply, intent: "create", defaultValue: { roles: ["analyst"] } });
+  return (
+    <Card title="New account" className="mb-6">
+      <Form method="post" className="grid gap-4 md:grid-cols-3" {...getFormProps(form)}>
+        <input type="hidden" name="intent" value="create" />
+        <FormErrors errors={formWideErrors(form)} />
+        <Field label="E-mail" type="email" {...fieldProps(fields.email)} />
+        <Field label="Name" {...fieldProps(fields.name)} />
+        <SelectField label="Lab" options={labOptions} {...fieldProps(fields.labId)} />
+        <RoleChoices legend="Roles" field={fields.roles} idPrefix="new" />
+        <label className="flex items-center gap-2 self-end pb-3 font-semibold">
+          <input type="checkbox" name={fields.isContact.name} className="h-5 w-5" defaultChecked={fields.isContact.initialValue === "on"} /> Lab contact
+        </label>
+        <p className="text-basalt-700 md:col-span-3">The person gets an e-mail with a link to set their own password; the link works once, for 14 days.</p>
+        <div className="md:col-span-3">
+          <Button type="submit" disabled={busy}>
+            Create account
+          </Button>
+        </div>
+      </Form>
+    </Card>
   );
 }
 

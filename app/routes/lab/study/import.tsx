@@ -171,40 +171,8 @@ export default function ImportResults({ loaderData, actionData }: Route.Componen
 
   return (
     <div className="grid gap-6 [&>*]:min-w-0">
-      {imported.length > 0 && (
-        <Card title="Check and submit">
-          <p className="mb-2">The results are stored as drafts. Look at each material's page, then submit it there:</p>
-          <ul className="ml-5 list-disc" aria-label="Imported materials">
-            {imported.map((m) => (
-              <li key={m.id}>
-                <Link to={`${base}/results/${m.id}`} className="font-semibold text-basalt-700 underline">
-                  Results of {m.code}
-                </Link>
-              </li>
-            ))}
-          </ul>
-        </Card>
-      )}
-
-      <Card title="Results template">
-        <p className="mb-3">
-          One row per replicate of every material you have not submitted yet, with the drafts already stored. Fill in the value, test date (YYYY-MM-DD) and operator,
-          and import it below; rows left without a value are skipped.
-        </p>
-        <div className="mb-3 flex flex-wrap gap-3">
-          <a href={`${base}/import/template.xlsx`} download className="inline-flex min-h-11 items-center rounded-md bg-basalt-800 px-4 font-semibold text-white">
-            Download template (.xlsx)
-          </a>
-          <a href={`${base}/import/template.csv`} download className="inline-flex min-h-11 items-center rounded-md border border-basalt-700 px-4 font-semibold text-basalt-800">
-            Download template (CSV)
-          </a>
-        </div>
-        <p className="text-basalt-700">
-          <strong>Why the version column:</strong> it records which saved value each row was read at. If someone in your lab saves a different value after you download
-          the template, the import names that result and their value and imports nothing, so no one's work is overwritten. A file of your own without a version column
-          works too: then the check below records the values stored at that moment, and the import is refused if any of them changes before you confirm.
-        </p>
-      </Card>
+      {imported.length > 0 && <CheckAndSubmitCard base={base} imported={imported} />}
+      <ResultsTemplateCard base={base} />
 
       <Card title="The file">
         <p className="mb-2">
@@ -267,6 +235,48 @@ export default function ImportResults({ loaderData, actionData }: Route.Componen
 
       {report && <ImportReportView report={report} formId={form.id} errors={formWideErrors(form)} editable={study.editable} busy={busy} />}
     </div>
+  );
+}
+
+/** After an import: each material it touched, linked to the entry page where its drafts are checked and submitted. */
+function CheckAndSubmitCard({ base, imported }: { base: string; imported: { id: number; code: string }[] }) {
+  return (
+    <Card title="Check and submit">
+      <p className="mb-2">The results are stored as drafts. Look at each material's page, then submit it there:</p>
+      <ul className="ml-5 list-disc" aria-label="Imported materials">
+        {imported.map((m) => (
+          <li key={m.id}>
+            <Link to={`${base}/results/${m.id}`} className="font-semibold text-basalt-700 underline">
+              Results of {m.code}
+            </Link>
+          </li>
+        ))}
+      </ul>
+    </Card>
+  );
+}
+
+function ResultsTemplateCard({ base }: { base: string }) {
+  return (
+    <Card title="Results template">
+      <p className="mb-3">
+        One row per replicate of every material you have not submitted yet, with the drafts already stored. Fill in the value, test date (YYYY-MM-DD) and operator,
+        and import it below; rows left without a value are skipped.
+      </p>
+      <div className="mb-3 flex flex-wrap gap-3">
+        <a href={`${base}/import/template.xlsx`} download className="inline-flex min-h-11 items-center rounded-md bg-basalt-800 px-4 font-semibold text-white">
+          Download template (.xlsx)
+        </a>
+        <a href={`${base}/import/template.csv`} download className="inline-flex min-h-11 items-center rounded-md border border-basalt-700 px-4 font-semibold text-basalt-800">
+          Download template (CSV)
+        </a>
+      </div>
+      <p className="text-basalt-700">
+        <strong>Why the version column:</strong> it records which saved value each row was read at. If someone in your lab saves a different value after you download
+        the template, the import names that result and their value and imports nothing, so no one's work is overwritten. A file of your own without a version column
+        works too: then the check below records the values stored at that moment, and the import is refused if any of them changes before you confirm.
+      </p>
+    </Card>
   );
 }
 

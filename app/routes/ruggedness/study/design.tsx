@@ -1,6 +1,7 @@
 import type { Route } from "./+types/design";
 import { ConcreteCaution } from "~/components/cautions";
 import { NoDesignYet } from "~/components/no-design-yet";
+import { RunHeading } from "~/components/run-heading";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Card, SimpleTable } from "~/components/ui";
 import { plackettBurmanDesign, settingText } from "~/lib/ruggedness";
@@ -59,9 +60,7 @@ export default function DesignPage({ loaderData }: Route.ComponentProps) {
         <ol className="flex flex-col gap-3">
           {plan.runOrder.map((run, position) => (
             <li key={run} className="break-inside-avoid rounded-md border border-basalt-200 p-3">
-              <p className="font-semibold">
-                {position + 1}. Run {run}
-              </p>
+              <RunHeading run={run} position={position} className="font-semibold" />
               <ul className="ml-5 list-disc">
                 {factors.map((f) => (
                   <li key={f.column}>

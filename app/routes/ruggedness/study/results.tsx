@@ -5,6 +5,7 @@ import type { Route } from "./+types/results";
 import { ConcreteCaution } from "~/components/cautions";
 import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
 import { NoDesignYet } from "~/components/no-design-yet";
+import { RunHeading } from "~/components/run-heading";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { Button, Card, Field, Notice } from "~/components/ui";
 import { resultFieldName, ruggednessResultsSchema } from "~/lib/ruggedness/forms";
@@ -88,9 +89,7 @@ function ResultsForm({
           <fieldset disabled={!canEdit} className="flex flex-col gap-3">
             {plan.runOrder.map((run, position) => (
               <div key={run} className="rounded-md border border-basalt-100 p-3">
-                <p className="mb-2 font-semibold">
-                  {position + 1}. Run {run}
-                </p>
+                <RunHeading run={run} position={position} className="mb-2 font-semibold" />
                 <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
                   {responses.flatMap((r) =>
                     replicates.map((k) => {

@@ -1,6 +1,6 @@
 import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, useNavigation } from "react-router";
+import type { z } from "zod";
 import type { Route } from "./+types/labs";
 import { DataTable } from "~/components/data-table";
 import { fieldProps, FormErrors, formWideErrors, refusalOf, useSchemaForm } from "~/components/forms";
@@ -16,7 +16,7 @@ import { ConfirmStep } from "~/components/confirm-dialog";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { inviteLab, inviteOutsideLab, listStudyEnrollments, withdrawEnrollment } from "~/models/invitation.server";
 import { listLabs } from "~/models/lab.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 
@@ -52,10 +52,7 @@ export async function loader({ context }: Route.LoaderArgs) {
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireStudy(context, ["coordinator"]);
-  const submission = parseWithZod(await request.formData(), { schema: labsSchema });
-  if (submission.status !== "success") return refuse(submission);
-  const form = submission.value;
-  const outcome = await withRefusals(submission, async () => {
+  const change = async (form: z.output<typeof labsSchema>) => {
     if (form.intent === "invite") {
       await inviteLab(study, form.labId, user.id, request);
       return "Invitation sent to the lab's contact.";
@@ -66,9 +63,8 @@ export async function action({ request, context }: Route.ActionArgs) {
     }
     await withdrawEnrollment(study, form.enrollmentId, form.reason, user.id);
     return "The lab is withdrawn: it can no longer change results, and its results have left the analysis.";
-  });
-  if (!outcome.ok) return outcome.reply;
-  return redirectWithToast(`/studies/${study.id}/labs`, outcome.value);
+  };
+  return submitForm(request, labsSchema, change, (message) => redirectWithToast(`/studies/${study.id}/labs`, message));
 }
 
 export default function StudyLabs({ loaderData, actionData }: Route.ComponentProps) {

@@ -1,7 +1,7 @@
 import { getFormProps } from "@conform-to/react";
-import { parseWithZod } from "@conform-to/zod/v4";
 import type { MouseEvent } from "react";
 import { Form, Link, useNavigation } from "react-router";
+import type { z } from "zod";
 import type { Route } from "./+types/shipments";
 import { DataTable } from "~/components/data-table";
 import { fieldProps, FormErrors, formWideErrors, refusalOf, replyAbout, useSchemaForm } from "~/components/forms";
@@ -17,7 +17,7 @@ import { shipmentForms, shipmentsSchema } from "~/lib/study-forms";
 import { studyPageMeta } from "~/lib/study-page-meta";
 import { mayWrite, writeRefusal } from "~/lib/write-rules";
 import { labsAwaitingShipment, listStudyShipments, markLost, markShipped, prepareShipments, studyStartingPackingList } from "~/models/shipment.server";
-import { refuse, withRefusals } from "~/server/form-reply.server";
+import { submitForm } from "~/server/form-reply.server";
 import { requireStudy } from "~/server/study-context.server";
 import { redirectWithToast } from "~/server/toast.server";
 
@@ -42,10 +42,7 @@ export async function loader({ context }: Route.LoaderArgs) {
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { study, user } = requireStudy(context, ["coordinator"]);
-  const submission = parseWithZod(await request.formData(), { schema: shipmentsSchema });
-  if (submission.status !== "success") return refuse(submission);
-  const form = submission.value;
-  const outcome = await withRefusals(submission, async () => {
+  const change = async (form: z.output<typeof shipmentsSchema>) => {
     switch (form.intent) {
       case "create": {
         const { intent: _, ...input } = form;
@@ -61,9 +58,8 @@ export async function action({ request, context }: Route.ActionArgs) {
         await markLost(study, form.shipmentId, user.id);
         return "Marked lost in transit.";
     }
-  });
-  if (!outcome.ok) return outcome.reply;
-  return redirectWithToast(`/studies/${study.id}/shipments`, outcome.value);
+  };
+  return submitForm(request, shipmentsSchema, change, (message) => redirectWithToast(`/studies/${study.id}/shipments`, message));
 }
 
 type Shipment = Route.ComponentProps["loaderData"]["shipments"][number];
