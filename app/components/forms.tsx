@@ -8,7 +8,7 @@ import { getZodConstraint, parseWithZod } from "@conform-to/zod/v4";
 import type { ReactNode } from "react";
 import { Form, useNavigation } from "react-router";
 import type { z } from "zod";
-import { Button, Field, Notice } from "~/components/ui";
+import { Button, type ButtonVariant, Field, Notice } from "~/components/ui";
 
 /** What an action returns when it refuses a form (see `refuse` in form-reply.server). */
 export type FormReply = { result?: SubmissionResult<string[]> } | undefined | null;
@@ -61,15 +61,18 @@ export function NewPasswordFields({ label, password, confirm }: { label: string;
 
 /**
  * A page's form that posts to its action: hidden fields (an intent, the ids
- * it is about), the form-wide errors, the fields, then the submit button,
+ * it is about), the form-wide errors, the fields (if any), then the submit button,
  * which waits (and may say so) while the request is on its way. In a grid,
  * `errorsClassName` and `submitClassName` place the errors and the button.
+ * A form that carries a file sets `encType="multipart/form-data"`.
  */
 export function PostForm<Fields extends Record<string, unknown>>({
   form,
   submitLabel,
   busyLabel = submitLabel,
+  submitVariant,
   className = "flex flex-col gap-4",
+  encType,
   hidden = {},
   errorsClassName,
   submitClassName,
@@ -78,23 +81,25 @@ export function PostForm<Fields extends Record<string, unknown>>({
   form: FormMetadata<Fields, string[]>;
   submitLabel: string;
   busyLabel?: string;
+  submitVariant?: ButtonVariant;
   className?: string;
+  encType?: "multipart/form-data";
   hidden?: Record<string, string | number>;
   errorsClassName?: string;
   submitClassName?: string;
-  children: ReactNode;
+  children?: ReactNode;
 }) {
   const busy = useNavigation().state === "submitting";
-  const errors = <FormErrors errors={form.errors} />;
+  const errors = <FormErrors errors={formWideErrors(form)} />;
   return (
-    <Form method="post" className={className} {...getFormProps(form)}>
+    <Form method="post" encType={encType} className={className} {...getFormProps(form)}>
       {Object.entries(hidden).map(([name, value]) => (
         <input key={name} type="hidden" name={name} value={value} />
       ))}
       {errorsClassName ? <div className={errorsClassName}>{errors}</div> : errors}
       {children}
       <div className={submitClassName}>
-        <Button type="submit" disabled={busy}>
+        <Button type="submit" variant={submitVariant} disabled={busy}>
           {busy ? busyLabel : submitLabel}
         </Button>
       </div>

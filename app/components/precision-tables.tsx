@@ -29,6 +29,21 @@ function ClassBadge({ value }: { value: "straggler" | "outlier" | null }) {
   return value ? <Badge tone={CLASS_TONE[value]}>{value}</Badge> : <span className="text-basalt-700">—</span>;
 }
 
+/** The h or k column: the lab's statistic, marked where it flags the lab. */
+function consistencyColumn(statistic: "h" | "k", decimals: number): DataColumn<LabResult> {
+  return {
+    id: statistic,
+    header: statistic,
+    value: (l) => l[statistic],
+    cell: (l) => (
+      <>
+        {formatFigure(l[statistic], decimals)}
+        {l.flags.includes(statistic) && <FlagMark>{statistic}</FlagMark>}
+      </>
+    ),
+  };
+}
+
 export function PrecisionSummaryTable({ analysis, response }: { analysis: StudyAnalysis; response: ResponseInfo }) {
   const d = figureDecimals(response.decimals);
   const groups = analysis.groups.filter((g) => g.response === response.key);
@@ -88,28 +103,8 @@ export function LabTable({
       { id: "mean", header: "Cell average", value: (l) => l.mean, cell: (l) => formatFigure(l.mean, d.mean) },
       { id: "sd", header: "s", value: (l) => l.sd, cell: (l) => formatFigure(l.sd, d.sd) },
       { id: "d", header: "d", value: (l) => l.d, cell: (l) => formatFigure(l.d, d.mean) },
-      {
-        id: "h",
-        header: "h",
-        value: (l) => l.h,
-        cell: (l) => (
-          <>
-            {formatFigure(l.h, d.ratio)}
-            {l.flags.includes("h") && <FlagMark>h</FlagMark>}
-          </>
-        ),
-      },
-      {
-        id: "k",
-        header: "k",
-        value: (l) => l.k,
-        cell: (l) => (
-          <>
-            {formatFigure(l.k, d.ratio)}
-            {l.flags.includes("k") && <FlagMark>k</FlagMark>}
-          </>
-        ),
-      },
+      consistencyColumn("h", d.ratio),
+      consistencyColumn("k", d.ratio),
       { id: "flags", header: "Flags", value: (l) => l.flags.join(", ") || null, cell: (l) => l.flags.join(", ") || "none" },
       { id: "cochran", header: "Cochran", value: (l) => labClasses(group, l.lab).cochran, cell: (l) => <ClassBadge value={labClasses(group, l.lab).cochran} /> },
       {

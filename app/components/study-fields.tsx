@@ -20,6 +20,13 @@ type StudyFieldName =
 /** The Conform fields of a form built on `studyFields` (from `~/lib/study-forms`). */
 export type StudyFieldsMeta = { [Name in StudyFieldName]: FieldMetadata<unknown> };
 
+const SURFACE_RATINGS = [
+  { value: "", label: "None (not a float finishing study)" },
+  { value: "1", label: "1 — smoothest" },
+  { value: "2", label: "2" },
+  { value: "3", label: "3" },
+];
+
 /** `fixed` names fields the study's state no longer lets change, with the sentence shown beside them (they stay read-only). */
 export function StudyFields({ fields, fixed = {} }: { fields: StudyFieldsMeta; fixed?: Partial<Record<"replicatesPerCell" | "significanceLevel", string>> }) {
   return (
@@ -49,16 +56,7 @@ export function StudyFields({ fields, fixed = {} }: { fields: StudyFieldsMeta; f
         {...fieldProps(fields.specimenVolumeM3)}
       />
       <Field label="Waste allowance (%)" inputMode="decimal" hint="Extra concrete for spillage and what sticks to the mixer" {...fieldProps(fields.wastePercent)} />
-      <SelectField
-        label="Target surface rating (1–3 visual scale)"
-        {...fieldProps(fields.targetSurfaceRating)}
-        options={[
-          { value: "", label: "None (not a float finishing study)" },
-          { value: "1", label: "1 — smoothest" },
-          { value: "2", label: "2" },
-          { value: "3", label: "3" },
-        ]}
-      />
+      <SelectField label="Target surface rating (1–3 visual scale)" options={SURFACE_RATINGS} {...fieldProps(fields.targetSurfaceRating)} />
       <Field label="Enrollment deadline" type="date" {...fieldProps(fields.enrollmentDeadline)} />
       <Field label="Ship date" type="date" {...fieldProps(fields.shipDate)} />
       <Field label="Results due" type="date" {...fieldProps(fields.resultsDue)} />

@@ -39,11 +39,13 @@ const BUTTON_STYLES = {
   danger: "bg-signal-700 text-white hover:brightness-110",
 } as const;
 
+export type ButtonVariant = keyof typeof BUTTON_STYLES;
+
 export function Button({
   variant = "primary",
   className = "",
   ...props
-}: ComponentProps<"button"> & { variant?: keyof typeof BUTTON_STYLES }) {
+}: ComponentProps<"button"> & { variant?: ButtonVariant }) {
   return (
     <button
       className={`inline-flex min-h-11 items-center justify-center rounded-md px-4 py-2 font-semibold disabled:opacity-60 ${BUTTON_STYLES[variant]} ${className}`}
@@ -66,13 +68,18 @@ function FieldFrame({ id, label, hint, error, children }: { id: string; label: s
           {hint}
         </p>
       )}
-      {error && (
-        <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
-          {error}
-        </p>
-      )}
+      <FieldError id={id} error={error} />
     </div>
   );
+}
+
+/** A field's error message, which its control names in `aria-describedby`. */
+function FieldError({ id, error }: { id: string; error?: string }) {
+  return error ? (
+    <p id={`${id}-error`} className="text-sm font-semibold text-signal-700">
+      {error}
+    </p>
+  ) : null;
 }
 
 /** The attributes that tie a control to its frame's hint and error. */
@@ -138,6 +145,47 @@ export function SelectField({
         ))}
       </select>
     </FieldFrame>
+  );
+}
+
+/**
+ * A choice among a few options shown side by side as radio buttons, with its
+ * error message below. Left to itself it starts at `defaultValue`; a page that
+ * reacts to the choice passes `value` and `onChange`.
+ */
+export function RadioField({
+  label,
+  id,
+  name,
+  options,
+  defaultValue,
+  error,
+  value,
+  onChange,
+}: {
+  label: string;
+  id: string;
+  name: string;
+  options: readonly { value: string; label: string }[];
+  defaultValue?: string;
+  error?: string;
+  value?: string;
+  onChange?: (value: string) => void;
+}) {
+  const checkedState = (option: string) => (onChange ? { checked: value === option, onChange: () => onChange(option) } : { defaultChecked: defaultValue === option });
+  return (
+    <fieldset aria-describedby={error ? `${id}-error` : undefined}>
+      <legend className="mb-1 font-semibold text-basalt-800">{label}</legend>
+      <div className="flex flex-wrap gap-4">
+        {options.map((o) => (
+          <label key={o.value} className="inline-flex min-h-11 items-center gap-2">
+            <input type="radio" name={name} value={o.value} className="size-5" {...checkedState(o.value)} />
+            {o.label}
+          </label>
+        ))}
+      </div>
+      <FieldError id={id} error={error} />
+    </fieldset>
   );
 }
 

@@ -1,3 +1,4 @@
+import type { ReactNode } from "react";
 import { StateBadge } from "~/components/state-badge";
 import { type ObjectionStage, OBJECTION_STAGE_TEXT } from "~/lib/review/publication";
 import { VOTE_CHOICE } from "~/lib/state-labels";
@@ -45,5 +46,28 @@ export function VoteTrail({ vote, answerLabel }: { vote: VoteRecord; answerLabel
       )}
       {vote.stage && <p className="mt-1 text-sm text-basalt-700">{OBJECTION_STAGE_TEXT[vote.stage]}</p>}
     </>
+  );
+}
+
+/** The votes of a round, each with its trail and, where the reader may act on it, the form `actionFor` gives. */
+export function VoteList<Vote extends VoteRecord & { id: number }>({
+  votes,
+  answerLabel,
+  actionFor,
+}: {
+  votes: Vote[];
+  answerLabel: string;
+  actionFor: (vote: Vote) => ReactNode;
+}) {
+  if (votes.length === 0) return <p>No vote yet.</p>;
+  return (
+    <ul className="flex flex-col gap-3">
+      {votes.map((v) => (
+        <li key={v.id} className="rounded border border-basalt-100 p-3">
+          <VoteTrail vote={v} answerLabel={answerLabel} />
+          {actionFor(v)}
+        </li>
+      ))}
+    </ul>
   );
 }

@@ -1,8 +1,8 @@
 import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { data, Form, Link, redirect, useNavigation } from "react-router";
+import { data, Form, Link, redirect } from "react-router";
 import type { Route } from "./+types/account";
-import { fieldProps, FormErrors, formWideErrors, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, PostForm, useSchemaForm } from "~/components/forms";
 import { Button, Card, Field, Notice, PageHeader, SelectField, SimpleTable } from "~/components/ui";
 import {
   accountSchema,
@@ -130,7 +130,6 @@ type ActionData = Route.ComponentProps["actionData"];
 
 export default function Account({ loaderData, actionData }: Route.ComponentProps) {
   const { user, contactLabs, tokens, targets, notices } = loaderData;
-  const busy = useNavigation().state === "submitting";
   const newToken = actionData && "token" in actionData ? actionData.token : null;
   const [profileForm, profileFields] = useSchemaForm(profileSchema, { reply: actionData, intent: "profile", defaultValue: { name: user.name } });
   const [passwordForm, passwordFields] = useSchemaForm(passwordChangeSchema, { reply: actionData, intent: "password" });
@@ -142,17 +141,12 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
       <PageHeader title="Your account" subtitle={user.email} />
       <div className="grid gap-6 md:grid-cols-2">
         <Card title="Name">
-          <Form method="post" className="flex flex-col gap-4" {...getFormProps(profileForm)}>
-            <input type="hidden" name="intent" value="profile" />
-            <FormErrors errors={formWideErrors(profileForm)} />
+          <PostForm form={profileForm} submitLabel="Save name" hidden={{ intent: "profile" }}>
             <Field label="Name" {...fieldProps(profileFields.name)} />
-            <Button type="submit" disabled={busy}>Save name</Button>
-          </Form>
+          </PostForm>
         </Card>
         <Card title="Password">
-          <Form method="post" className="flex flex-col gap-4" {...getFormProps(passwordForm)}>
-            <input type="hidden" name="intent" value="password" />
-            <FormErrors errors={formWideErrors(passwordForm)} />
+          <PostForm form={passwordForm} submitLabel="Change password" hidden={{ intent: "password" }}>
             <Field label="Current password" type="password" autoComplete="current-password" {...fieldProps(passwordFields.currentPassword)} />
             <Field
               label="New password"
@@ -162,13 +156,10 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
               {...fieldProps(passwordFields.newPassword)}
             />
             <Field label="New password again" type="password" autoComplete="new-password" {...fieldProps(passwordFields.confirmPassword)} />
-            <Button type="submit" disabled={busy}>Change password</Button>
-          </Form>
+          </PostForm>
         </Card>
         <Card title="E-mail notices">
-          <Form method="post" className="flex flex-col gap-3" {...getFormProps(noticesForm)}>
-            <input type="hidden" name="intent" value="notices" />
-            <FormErrors errors={formWideErrors(noticesForm)} />
+          <PostForm form={noticesForm} submitLabel="Save notices" submitVariant="secondary" hidden={{ intent: "notices" }} className="flex flex-col gap-3">
             <label className="flex items-start gap-2">
               <input type="checkbox" name={noticesFields.resultReminders.name} defaultChecked={notices.resultReminders} className="mt-1 h-5 w-5" />
               <span>Reminders to my lab a week before results are due, and when they are overdue</span>
@@ -178,17 +169,11 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
               <span>A note when a lab accepts or declines an invitation to a study I coordinate</span>
             </label>
             <p className="text-sm text-basalt-700">Notices of a damaged or lost shipment always go to the study's coordinators.</p>
-            <div>
-              <Button type="submit" variant="secondary" disabled={busy}>Save notices</Button>
-            </div>
-          </Form>
+          </PostForm>
         </Card>
         <Card title="Sessions">
           <p className="mb-4">Signed in on another device you no longer use? End every session, this one included; your API tokens are revoked too.</p>
-          <Form method="post" {...getFormProps(signOutForm)}>
-            <input type="hidden" name="intent" value="sign-out-everywhere" />
-            <Button type="submit" variant="secondary" disabled={busy}>Sign out of every session and revoke all API tokens</Button>
-          </Form>
+          <PostForm form={signOutForm} submitLabel="Sign out of every session and revoke all API tokens" submitVariant="secondary" hidden={{ intent: "sign-out-everywhere" }} />
         </Card>
       </div>
       <Card title="API tokens" className="mt-6">
@@ -221,21 +206,16 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
           />
         )}
         {targets.length > 0 ? (
-          <Form method="post" className="mt-4 grid gap-4 md:grid-cols-3" {...getFormProps(tokenForm)}>
-            <input type="hidden" name="intent" value="create-token" />
-            <FormErrors errors={formWideErrors(tokenForm)} />
+          <PostForm form={tokenForm} submitLabel="Create token" hidden={{ intent: "create-token" }} className="mt-4 grid gap-4 md:grid-cols-3" submitClassName="self-end">
             <Field label="Token name" hint="Say where it is used, e.g. the lab system's name." {...fieldProps(tokenFields.tokenName)} />
             <SelectField label="May reach" options={targets} {...fieldProps(tokenFields.target)} />
-            <div className="self-end">
-              <Button type="submit" disabled={busy}>Create token</Button>
-            </div>
-          </Form>
+          </PostForm>
         ) : (
           <p>There is no study yet that a token of yours could reach.</p>
         )}
       </Card>
       {contactLabs.map(({ labId, colleagues }) => (
-        <ColleaguesCard key={labId} labId={labId} colleagues={colleagues} actionData={actionData} busy={busy} />
+        <ColleaguesCard key={labId} labId={labId} colleagues={colleagues} actionData={actionData} />
       ))}
     </>
   );
@@ -282,12 +262,10 @@ function ColleaguesCard({
   labId,
   colleagues,
   actionData,
-  busy,
 }: {
   labId: number;
   colleagues: Awaited<ReturnType<typeof listColleagues>>;
   actionData: ActionData;
-  busy: boolean;
 }) {
   const [form, fields] = useSchemaForm(colleagueSchema, {
     reply: replyFor(actionData, { intent: "add-colleague", labId: String(labId) }),
@@ -305,16 +283,16 @@ function ColleaguesCard({
           c.isContact ? null : <RemoveColleagueForm key="remove" labId={labId} colleague={c} actionData={actionData} />,
         ])}
       />
-      <Form method="post" className="mt-4 grid gap-4 md:grid-cols-2" {...getFormProps(form)}>
-        <input type="hidden" name="intent" value="add-colleague" />
-        <input type="hidden" name="labId" value={labId} />
-        <FormErrors errors={formWideErrors(form)} />
+      <PostForm
+        form={form}
+        submitLabel="Add analyst and send the e-mail"
+        hidden={{ intent: "add-colleague", labId }}
+        className="mt-4 grid gap-4 md:grid-cols-2"
+        submitClassName="md:col-span-2"
+      >
         <Field label="Colleague's name" {...fieldProps(fields.name)} />
         <Field label="Colleague's e-mail" type="email" {...fieldProps(fields.email)} />
-        <div className="md:col-span-2">
-          <Button type="submit" disabled={busy}>Add analyst and send the e-mail</Button>
-        </div>
-      </Form>
+      </PostForm>
     </Card>
   );
 }

@@ -1,19 +1,18 @@
-import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { data, Form } from "react-router";
+import { data } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/ballot";
 import { LazyCharts } from "~/components/charts/lazy-charts";
-import { fieldProps, FormErrors, formWideErrors, replyAbout, useSchemaForm } from "~/components/forms";
+import { fieldProps, PostForm, replyAbout, useSchemaForm } from "~/components/forms";
 import { PrecisionSummaryTable } from "~/components/precision-tables";
 import { MaterialPicker } from "~/components/material-picker";
 import { DecisionsOnRecord, MaterialEvidence } from "~/components/review-evidence";
 import { StudyDownloads } from "~/components/study-downloads";
 import { StateBadge } from "~/components/state-badge";
 import { StatementCaution, StatementTexts } from "~/components/statement-parts";
-import { VoteTrail } from "~/components/vote-trail";
+import { VoteList } from "~/components/vote-trail";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Button, Card, TextAreaField } from "~/components/ui";
+import { Card, RadioField, TextAreaField } from "~/components/ui";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { countOf, formatDate, formatDateTime } from "~/lib/format";
 import { withheldIdentities } from "~/lib/blinding";
@@ -173,6 +172,16 @@ const CHOICES = [
   { value: "abstain", label: "Abstain" },
 ] as const;
 
+const REPLIES = [
+  { value: "withdrawn", label: "Withdraw my objection" },
+  { value: "maintained", label: "Maintain it" },
+] as const;
+
+const RULINGS = [
+  { value: "upheld", label: "Upheld (the statement goes back for revision)" },
+  { value: "not_upheld", label: "Not upheld" },
+] as const;
+
 export default function ReviewStudy({ loaderData, actionData }: Route.ComponentProps) {
   const { statement, votes, own, comments, refusal, round, tally, responses, material } = loaderData;
   return (
@@ -268,18 +277,7 @@ export default function ReviewStudy({ loaderData, actionData }: Route.ComponentP
             </aside>
           </section>
           <Card title="Votes and answers">
-            {votes.length === 0 ? (
-              <p>No vote yet.</p>
-            ) : (
-              <ul className="flex flex-col gap-2">
-                {votes.map((v) => (
-                  <li key={v.id} className="rounded border border-basalt-100 p-3">
-                    <VoteTrail vote={v} answerLabel="Coordinator's answer" />
-                    {v.ruleable && !refusal && <RulingForm vote={v} actionData={actionData} />}
-                  </li>
-                ))}
-              </ul>
-            )}
+            <VoteList votes={votes} answerLabel="Coordinator's answer" actionFor={(v) => v.ruleable && !refusal && <RulingForm vote={v} actionData={actionData} />} />
           </Card>
           <Card title="Comments">
             {comments.length === 0 ? (
@@ -322,68 +320,26 @@ function VoteForm({
     intent: "vote",
     defaultValue: { choice: own?.choice, reason: own?.reason ?? "" },
   });
-  const choiceError = fields.choice.errors?.[0];
   return (
-    <Form method="post" className="flex flex-col gap-3" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="vote" />
-      <FormErrors errors={formWideErrors(form)} />
-      <fieldset aria-describedby={choiceError ? `${fields.choice.id}-error` : undefined}>
-        <legend className="mb-1 font-semibold text-basalt-800">{own ? "Change your vote" : "Your vote"}</legend>
-        <div className="flex flex-wrap gap-4">
-          {CHOICES.map((c) => (
-            <label key={c.value} className="inline-flex min-h-11 items-center gap-2">
-              <input type="radio" name={fields.choice.name} value={c.value} defaultChecked={fields.choice.initialValue === c.value} className="size-5" />
-              {c.label}
-            </label>
-          ))}
-        </div>
-        {choiceError && (
-          <p id={`${fields.choice.id}-error`} className="text-sm font-semibold text-signal-700">
-            {choiceError}
-          </p>
-        )}
-      </fieldset>
+    <PostForm form={form} submitLabel="Record my vote" hidden={{ intent: "vote" }} className="flex flex-col gap-3">
+      <RadioField label={own ? "Change your vote" : "Your vote"} options={CHOICES} {...fieldProps(fields.choice)} />
       <TextAreaField label="Reason" hint="Required when you object." {...fieldProps(fields.reason)} />
-      <div>
-        <Button type="submit">Record my vote</Button>
-      </div>
-    </Form>
+    </PostForm>
   );
 }
 
 /** The objector's reply to a "not upheld" answer: withdraw, or maintain it for the chair's ruling. */
 function ReplyForm({ answerRationale, chair, actionData }: { answerRationale: string | null; chair: string | null; actionData: ActionData }) {
   const [form, fields] = useSchemaForm(replySchema, { reply: actionData, intent: "reply" });
-  const replyError = fields.reply.errors?.[0];
   return (
-    <Form method="post" className="mb-4 flex flex-col gap-3 rounded border border-ochre-300 p-3" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="reply" />
-      <FormErrors errors={formWideErrors(form)} />
+    <PostForm form={form} submitLabel="Send my reply" hidden={{ intent: "reply" }} className="mb-4 flex flex-col gap-3 rounded border border-ochre-300 p-3">
       <p>
         The coordinator answered your objection <strong>not upheld</strong>: “{answerRationale}”. Withdraw the objection, or maintain it and the chair
         {chair ? ` (${chair})` : ""} will rule on it.
       </p>
-      <fieldset aria-describedby={replyError ? fields.reply.errorId : undefined}>
-        <legend className="font-semibold text-basalt-800">Your reply</legend>
-        <div className="flex flex-wrap gap-4">
-          <label className="inline-flex min-h-11 items-center gap-2">
-            <input type="radio" name={fields.reply.name} value="withdrawn" className="size-5" defaultChecked={fields.reply.initialValue === "withdrawn"} /> Withdraw my objection
-          </label>
-          <label className="inline-flex min-h-11 items-center gap-2">
-            <input type="radio" name={fields.reply.name} value="maintained" className="size-5" defaultChecked={fields.reply.initialValue === "maintained"} /> Maintain it
-          </label>
-        </div>
-        {replyError && (
-          <p id={fields.reply.errorId} className="text-sm font-semibold text-signal-700">
-            {replyError}
-          </p>
-        )}
-      </fieldset>
+      <RadioField label="Your reply" options={REPLIES} {...fieldProps(fields.reply)} />
       <TextAreaField label="Note" hint="Required when you maintain the objection." {...fieldProps(fields.note)} />
-      <div>
-        <Button type="submit">Send my reply</Button>
-      </div>
-    </Form>
+    </PostForm>
   );
 }
 
@@ -392,33 +348,11 @@ type RoundVote = Route.ComponentProps["loaderData"]["votes"][number];
 /** The chair's ruling on one maintained objection; the action's answer belongs to it only when it names this vote. */
 function RulingForm({ vote, actionData }: { vote: RoundVote; actionData: ActionData }) {
   const [form, fields] = useSchemaForm(rulingSchema, { reply: replyAbout(actionData, "voteId", vote.id), intent: "rule", id: `ruling-${vote.id}` });
-  const rulingError = fields.ruling.errors?.[0];
   return (
-    <Form method="post" className="mt-3 flex flex-col gap-3" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="rule" />
-      <input type="hidden" name="voteId" value={vote.id} />
-      <FormErrors errors={formWideErrors(form)} />
-      <fieldset aria-describedby={rulingError ? fields.ruling.errorId : undefined}>
-        <legend className="font-semibold text-basalt-800">Your ruling as chair on {vote.reviewer}'s maintained objection</legend>
-        <div className="flex flex-wrap gap-4">
-          <label className="inline-flex min-h-11 items-center gap-2">
-            <input type="radio" name={fields.ruling.name} value="upheld" className="size-5" defaultChecked={fields.ruling.initialValue === "upheld"} /> Upheld (the statement goes back for revision)
-          </label>
-          <label className="inline-flex min-h-11 items-center gap-2">
-            <input type="radio" name={fields.ruling.name} value="not_upheld" className="size-5" defaultChecked={fields.ruling.initialValue === "not_upheld"} /> Not upheld
-          </label>
-        </div>
-        {rulingError && (
-          <p id={fields.ruling.errorId} className="text-sm font-semibold text-signal-700">
-            {rulingError}
-          </p>
-        )}
-      </fieldset>
+    <PostForm form={form} submitLabel="Record the ruling" hidden={{ intent: "rule", voteId: vote.id }} className="mt-3 flex flex-col gap-3">
+      <RadioField label={`Your ruling as chair on ${vote.reviewer}'s maintained objection`} options={RULINGS} {...fieldProps(fields.ruling)} />
       <TextAreaField label="Reason for the ruling (recorded and shown to the committee)" {...fieldProps(fields.reason)} />
-      <div>
-        <Button type="submit">Record the ruling</Button>
-      </div>
-    </Form>
+    </PostForm>
   );
 }
 
@@ -428,15 +362,8 @@ function CommentForm({ actionData }: { actionData: ActionData }) {
     intent: "comment",
   });
   return (
-    <Form method="post" className="flex flex-col gap-3" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="comment" />
-      <FormErrors errors={formWideErrors(form)} />
+    <PostForm form={form} submitLabel="Add the comment" submitVariant="secondary" hidden={{ intent: "comment" }} className="flex flex-col gap-3">
       <TextAreaField label="Add a comment" {...fieldProps(fields.body)} />
-      <div>
-        <Button type="submit" variant="secondary">
-          Add the comment
-        </Button>
-      </div>
-    </Form>
+    </PostForm>
   );
 }

@@ -13,7 +13,7 @@ import { PrecisionTables } from "~/components/precision-tables";
 import { StateBadge } from "~/components/state-badge";
 import { StudyDownloads } from "~/components/study-downloads";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Button, Card, Field, Notice, SimpleTable, TextAreaField } from "~/components/ui";
+import { Button, Card, Field, Notice, RadioField, SimpleTable, TextAreaField } from "~/components/ui";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { blindingRefusals } from "~/lib/blinding";
 import { formatDate, formatDateTime } from "~/lib/format";
@@ -403,6 +403,11 @@ function AskTheLab({
   );
 }
 
+const DECISIONS = [
+  { value: "retained", label: "Retain the cell" },
+  { value: "excluded", label: "Exclude the cell" },
+];
+
 function DecisionForm({
   loaderData,
   actionData,
@@ -430,7 +435,6 @@ function DecisionForm({
     return groups;
   }, [engine, whatIf, saved, cell, choice]);
   if (decisionRefusal || !whatIf) return <Notice>{decisionRefusal}</Notice>;
-  const decisionError = fields.decision.errors?.[0];
   return (
     <Form method="post" className="flex flex-col gap-3" aria-labelledby="decide-heading" {...getFormProps(form)}>
       <h3 id="decide-heading" className="font-semibold text-basalt-800">
@@ -444,22 +448,7 @@ function DecisionForm({
       <FormErrors errors={[...formWideErrors(form), ...(fields.lab.errors ?? [])]} />
       <input type="hidden" name="intent" value="decide" />
       <CellHiddenFields cell={cell} />
-      <fieldset aria-describedby={decisionError ? fields.decision.errorId : undefined}>
-        <legend className="mb-1 font-semibold text-basalt-800">Decision</legend>
-        <div className="flex flex-wrap gap-4">
-          {(["retained", "excluded"] as const).map((value) => (
-            <label key={value} className="inline-flex min-h-11 items-center gap-2">
-              <input type="radio" name={fields.decision.name} value={value} checked={choice === value} onChange={() => setChoice(value)} className="size-5" />
-              {value === "retained" ? "Retain the cell" : "Exclude the cell"}
-            </label>
-          ))}
-        </div>
-        {decisionError && (
-          <p id={fields.decision.errorId} className="text-sm font-semibold text-signal-700">
-            {decisionError}
-          </p>
-        )}
-      </fieldset>
+      <RadioField label="Decision" options={DECISIONS} {...fieldProps(fields.decision)} value={choice} onChange={setChoice} />
       <TextAreaField label="Reason" hint="The assignable cause the lab confirmed, or the statistical justification." {...fieldProps(fields.reason)} />
       <div aria-live="polite">
         {after && choice && (

@@ -1,6 +1,6 @@
 import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { useMemo, useState } from "react";
+import { type ChangeEvent, useMemo, useState } from "react";
 import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/material";
 import { DetailList } from "~/components/detail-list";
@@ -20,6 +20,7 @@ import {
   rowsFromDesign,
   rowsFromForm,
   rowsFromTyped,
+  type RowField,
   type UnitSystem,
 } from "~/lib/mixture-form";
 import { materialEditorSchema } from "~/lib/study-forms";
@@ -90,6 +91,15 @@ export default function MaterialPage({ loaderData, actionData }: Route.Component
   const errors: Record<string, string | undefined> = { ...live.errors, ...serverErrors };
 
   const update = (index: number, patch: Partial<EditorRow>) => setRows((rs) => rs.map((r, i) => (i === index ? { ...r, ...patch } : r)));
+  // What every typed input of a constituent row shares: its name in the form, the value as typed, its error.
+  const rowInput = (i: number, row: EditorRow, field: "name" | "lot" | RowField) => ({
+    id: `row-${i}-${field}`,
+    name: inputName(i, field),
+    value: row[field] ?? "",
+    disabled: !canEdit,
+    onChange: (e: ChangeEvent<HTMLInputElement>) => update(i, { [field]: e.target.value }),
+    error: errors[inputName(i, field)],
+  });
   const switchUnits = (next: UnitSystem) => {
     setRows((rs) => convertRows(rs, units, next));
     setUnits(next);
@@ -148,36 +158,10 @@ export default function MaterialPage({ loaderData, actionData }: Route.Component
                       ))}
                     </select>
                   </div>
-                  <Field
-                    label="Name"
-                    id={`row-${i}-name`}
-                    name={inputName(i, "name")}
-                    value={row.name}
-                    disabled={!canEdit}
-                    onChange={(e) => update(i, { name: e.target.value })}
-                    error={errors[inputName(i, "name")]}
-                  />
-                  <Field
-                    label="Lot"
-                    id={`row-${i}-lot`}
-                    name={inputName(i, "lot")}
-                    value={row.lot}
-                    disabled={!canEdit}
-                    onChange={(e) => update(i, { lot: e.target.value })}
-                    error={errors[inputName(i, "lot")]}
-                  />
+                  <Field label="Name" {...rowInput(i, row, "name")} />
+                  <Field label="Lot" {...rowInput(i, row, "lot")} />
                   {FIELDS_BY_KIND[row.kind].map((field) => (
-                    <Field
-                      key={field}
-                      label={FIELD_UNITS[field].label[units]}
-                      id={`row-${i}-${field}`}
-                      name={inputName(i, field)}
-                      inputMode="decimal"
-                      value={row[field] ?? ""}
-                      disabled={!canEdit}
-                      onChange={(e) => update(i, { [field]: e.target.value })}
-                      error={errors[inputName(i, field)]}
-                    />
+                    <Field key={field} label={FIELD_UNITS[field].label[units]} inputMode="decimal" {...rowInput(i, row, field)} />
                   ))}
                   {check && <p className="self-end text-sm text-basalt-700">Absolute volume {check.absoluteVolume.rows[i]!.volumeM3.toFixed(4)} m³</p>}
                 </fieldset>

@@ -1,11 +1,11 @@
-import { getFormProps } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
+import type { ReactNode } from "react";
 import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/setup";
 import { DetailList } from "~/components/detail-list";
 import { ConfirmStep } from "~/components/confirm-dialog";
-import { DataTable } from "~/components/data-table";
-import { fieldProps, FormErrors, formWideErrors, refusalOf, useSchemaForm } from "~/components/forms";
+import { type DataColumn, DataTable } from "~/components/data-table";
+import { fieldProps, FormErrors, PostForm, refusalOf, useSchemaForm } from "~/components/forms";
 import { StateBadge } from "~/components/state-badge";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { StudyFields } from "~/components/study-fields";
@@ -162,6 +162,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
   const slump = setup.targets.find((t) => t.property === "slump");
   const air = setup.targets.find((t) => t.property === "air_content");
   const transitionRefusal = refusalOf(actionData, "transition");
+  const designEditing = { editable, designFixed, reply: actionData, busy };
   return (
     <div className="flex flex-col gap-6">
       <p className="text-basalt-700">
@@ -210,7 +211,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
       <Card title="Study details">
         {canEdit && writeRefusal("details", study.state) && <p className="mb-3 text-basalt-700">{writeRefusal("details", study.state)}</p>}
         {canEdit && mayWrite("details", study.state) ? (
-          <DetailsForm study={study} reply={actionData} busy={busy} />
+          <DetailsForm study={study} reply={actionData} />
         ) : (
           <DetailList
             items={[
@@ -223,30 +224,16 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
         )}
       </Card>
 
-      <Card title="Responses">
-        <DataTable
-          caption="Responses of the test method"
-          filterLabel="Filter responses"
-          empty="No responses yet."
-          data={setup.responses}
-          columns={[
-            { id: "key", header: "Key", value: (r) => r.key },
-            { id: "name", header: "Name", value: (r) => r.name },
-            { id: "unit", header: "Unit", value: (r) => r.unit || null },
-            { id: "kind", header: "Kind", value: (r) => r.kind },
-            { id: "decimals", header: "Decimals", value: (r) => r.decimals },
-            {
-              id: "range",
-              header: "Plausible range",
-              value: (r) => ((r.plausibleMin ?? r.plausibleMax) == null ? null : `${r.plausibleMin ?? "…"} to ${r.plausibleMax ?? "…"}`),
-            },
-            ...(editable ? [removeColumn<(typeof setup.responses)[number]>("response-remove", (r) => `Remove response ${r.name}`, busy)] : []),
-          ]}
-        />
-        <FormErrors errors={refusalOf(actionData, "response-remove")} />
-        {designFixed && <p className="mt-3 text-basalt-700">{designFixed}</p>}
-        {editable && <ResponseForm reply={actionData} busy={busy} />}
-      </Card>
+      <DesignListCard
+        title="Responses"
+        caption="Responses of the test method"
+        rows={setup.responses}
+        columns={RESPONSE_COLUMNS}
+        remove={{ intent: "response-remove", label: (r) => `Remove response ${r.name}` }}
+        {...designEditing}
+      >
+        <ResponseForm reply={actionData} />
+      </DesignListCard>
 
       <Card title="Fresh-property targets">
         <p className="mb-3">
@@ -254,7 +241,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
           content: {air ? `${air.target} ± ${air.tolerance} %` : "no target"}.
         </p>
         {designFixed && <p className="mt-3 text-basalt-700">{designFixed}</p>}
-        {editable && <TargetsForm reply={actionData} busy={busy} slump={slump} air={air} />}
+        {editable && <TargetsForm reply={actionData} slump={slump} air={air} />}
       </Card>
 
       <Card title="Protocol">
@@ -268,7 +255,7 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
           )}
         </p>
         {canEdit && writeRefusal("protocol", study.state) && <p className="text-basalt-700">{writeRefusal("protocol", study.state)}</p>}
-        {canEdit && mayWrite("protocol", study.state) && <ProtocolForm reply={actionData} busy={busy} />}
+        {canEdit && mayWrite("protocol", study.state) && <ProtocolForm reply={actionData} />}
       </Card>
 
       <div className="grid gap-6 md:grid-cols-2">
@@ -293,32 +280,16 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
         />
       </div>
 
-      <Card title="Materials">
-        <DataTable
-          caption="Materials of the study"
-          filterLabel="Filter materials"
-          empty="No materials yet."
-          data={setup.materials}
-          columns={[
-            {
-              id: "code",
-              header: "Code",
-              value: (m) => m.code,
-              cell: (m) => (
-                <Link to={`/studies/${study.id}/materials/${m.id}`} className="font-semibold text-basalt-700 underline">
-                  {m.code}
-                </Link>
-              ),
-            },
-            { id: "description", header: "Description", value: (m) => m.description || null },
-            { id: "constituents", header: "Mixture design rows", value: (m) => m.constituents },
-            ...(editable ? [removeColumn<(typeof setup.materials)[number]>("material-remove", (m) => `Remove material ${m.code}`, busy)] : []),
-          ]}
-        />
-        <FormErrors errors={refusalOf(actionData, "material-remove")} />
-        {designFixed && <p className="mt-3 text-basalt-700">{designFixed}</p>}
-        {editable && <MaterialForm reply={actionData} busy={busy} />}
-      </Card>
+      <DesignListCard
+        title="Materials"
+        caption="Materials of the study"
+        rows={setup.materials}
+        columns={materialColumns(study.id)}
+        remove={{ intent: "material-remove", label: (m) => `Remove material ${m.code}` }}
+        {...designEditing}
+      >
+        <MaterialForm reply={actionData} />
+      </DesignListCard>
       {loaderData.planner && (
         <Card>
           <StudyPlanner view={loaderData.planner} />
@@ -331,8 +302,83 @@ export default function StudySetup({ loaderData, actionData }: Route.ComponentPr
   );
 }
 
-type FormArgs = { reply: unknown; busy: boolean };
+type FormArgs = { reply: unknown };
 type SetupStudy = Route.ComponentProps["loaderData"]["study"];
+type SetupLists = Route.ComponentProps["loaderData"]["setup"];
+
+const RESPONSE_COLUMNS: DataColumn<SetupLists["responses"][number]>[] = [
+  { id: "key", header: "Key", value: (r) => r.key },
+  { id: "name", header: "Name", value: (r) => r.name },
+  { id: "unit", header: "Unit", value: (r) => r.unit || null },
+  { id: "kind", header: "Kind", value: (r) => r.kind },
+  { id: "decimals", header: "Decimals", value: (r) => r.decimals },
+  {
+    id: "range",
+    header: "Plausible range",
+    value: (r) => ((r.plausibleMin ?? r.plausibleMax) == null ? null : `${r.plausibleMin ?? "…"} to ${r.plausibleMax ?? "…"}`),
+  },
+];
+
+function materialColumns(studyId: number): DataColumn<SetupLists["materials"][number]>[] {
+  return [
+    {
+      id: "code",
+      header: "Code",
+      value: (m) => m.code,
+      cell: (m) => (
+        <Link to={`/studies/${studyId}/materials/${m.id}`} className="font-semibold text-basalt-700 underline">
+          {m.code}
+        </Link>
+      ),
+    },
+    { id: "description", header: "Description", value: (m) => m.description || null },
+    { id: "constituents", header: "Mixture design rows", value: (m) => m.constituents },
+  ];
+}
+
+/**
+ * A list of the study's design (its responses, its materials): the table and,
+ * while the design may change, a "Remove" button per row and the form that
+ * adds one (`children`); otherwise the reason it is fixed.
+ */
+function DesignListCard<Row extends { id: number }>({
+  title,
+  caption,
+  rows,
+  columns,
+  remove,
+  editable,
+  designFixed,
+  reply,
+  busy,
+  children,
+}: FormArgs & {
+  title: string;
+  caption: string;
+  rows: Row[];
+  columns: DataColumn<Row>[];
+  remove: { intent: string; label: (row: Row) => string };
+  editable: boolean;
+  designFixed: string | null;
+  busy: boolean;
+  children: ReactNode;
+}) {
+  const listName = title.toLowerCase();
+  return (
+    <Card title={title}>
+      <DataTable
+        caption={caption}
+        filterLabel={`Filter ${listName}`}
+        empty={`No ${listName} yet.`}
+        data={rows}
+        columns={editable ? [...columns, removeColumn(remove.intent, remove.label, busy)] : columns}
+      />
+      <FormErrors errors={refusalOf(reply, remove.intent)} />
+      {designFixed && <p className="mt-3 text-basalt-700">{designFixed}</p>}
+      {editable && children}
+    </Card>
+  );
+}
 
 /** The study as the details form shows it: stored values as typed text. */
 function detailsDefaults(study: SetupStudy) {
@@ -352,56 +398,49 @@ function detailsDefaults(study: SetupStudy) {
   };
 }
 
-function DetailsForm({ study, reply, busy }: FormArgs & { study: SetupStudy }) {
+function DetailsForm({ study, reply }: FormArgs & { study: SetupStudy }) {
   const [form, fields] = useSchemaForm(studyDetailsForms[study.kind], { reply, intent: "study", defaultValue: detailsDefaults(study) });
   return (
-    <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="study" />
-      <FormErrors errors={formWideErrors(form)} />
+    <PostForm form={form} submitLabel="Save details" hidden={{ intent: "study" }}>
       <StudyFields
         fields={fields}
         fixed={{ replicatesPerCell: writeRefusal("design", study.state) ?? undefined, significanceLevel: writeRefusal("analysisSettings", study.state) ?? undefined }}
       />
-      <div>
-        <Button type="submit" disabled={busy}>
-          Save details
-        </Button>
-      </div>
-    </Form>
+    </PostForm>
   );
 }
 
-function ResponseForm({ reply, busy }: FormArgs) {
+/** The look of a form that adds a row below its card's table. */
+const ADD_ROW_FORM = { className: "mt-4 grid gap-4 border-t border-basalt-100 pt-4 md:grid-cols-3", errorsClassName: "md:col-span-3", submitClassName: "self-end" };
+
+const RESPONSE_KINDS = [
+  { value: "count", label: "Count" },
+  { value: "continuous", label: "Continuous" },
+];
+
+function ResponseForm({ reply }: FormArgs) {
   const [form, fields] = useSchemaForm(setupForms.responseAdd, { reply, intent: "response-add", defaultValue: { kind: "count", decimals: "0" } });
   return (
-    <Form method="post" className="mt-4 grid gap-4 border-t border-basalt-100 pt-4 md:grid-cols-3" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="response-add" />
+    <PostForm form={form} submitLabel="Add response" hidden={{ intent: "response-add" }} {...ADD_ROW_FORM}>
       <Field label="Key" hint="e.g. holes" {...fieldProps(fields.key)} />
       <Field label="Response name" {...fieldProps(fields.name)} />
       <Field label="Unit" {...fieldProps(fields.unit)} />
-      <SelectField
-        label="Kind"
-        {...fieldProps(fields.kind)}
-        options={[
-          { value: "count", label: "Count" },
-          { value: "continuous", label: "Continuous" },
-        ]}
-      />
+      <SelectField label="Kind" options={RESPONSE_KINDS} {...fieldProps(fields.kind)} />
       <Field label="Decimals" inputMode="numeric" {...fieldProps(fields.decimals)} />
       <Field label="Lowest plausible value" inputMode="decimal" {...fieldProps(fields.plausibleMin)} />
       <Field label="Highest plausible value" inputMode="decimal" {...fieldProps(fields.plausibleMax)} />
-      <div className="self-end">
-        <Button type="submit" disabled={busy}>
-          Add response
-        </Button>
-      </div>
-    </Form>
+    </PostForm>
   );
 }
 
 type Target = { target: number; tolerance: number } | undefined;
 
-function TargetsForm({ reply, busy, slump, air }: FormArgs & { slump: Target; air: Target }) {
+const SLUMP_UNITS = [
+  { value: "mm", label: "mm" },
+  { value: "in", label: "in" },
+];
+
+function TargetsForm({ reply, slump, air }: FormArgs & { slump: Target; air: Target }) {
   const [form, fields] = useSchemaForm(setupForms.targets, {
     reply,
     intent: "targets",
@@ -414,17 +453,9 @@ function TargetsForm({ reply, busy, slump, air }: FormArgs & { slump: Target; ai
     },
   });
   return (
-    <Form method="post" className="grid gap-4 md:grid-cols-3" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="targets" />
+    <PostForm form={form} submitLabel="Save targets" hidden={{ intent: "targets" }} className="grid gap-4 md:grid-cols-3" errorsClassName="md:col-span-3" submitClassName="self-end">
       <Field label="Slump target" inputMode="decimal" {...fieldProps(fields.slumpTarget)} />
-      <SelectField
-        label="Slump unit"
-        {...fieldProps(fields.slumpUnit)}
-        options={[
-          { value: "mm", label: "mm" },
-          { value: "in", label: "in" },
-        ]}
-      />
+      <SelectField label="Slump unit" options={SLUMP_UNITS} {...fieldProps(fields.slumpUnit)} />
       <Field label="Slump tolerance ±" inputMode="decimal" hint="Blank: the usual tolerance for the target (ASTM C94)" {...fieldProps(fields.slumpTolerance)} />
       <Field label="Air content target, %" inputMode="decimal" {...fieldProps(fields.airTarget)} />
       <Field
@@ -433,41 +464,26 @@ function TargetsForm({ reply, busy, slump, air }: FormArgs & { slump: Target; ai
         hint="Blank: ± 1.5 points (ASTM C94)"
         {...fieldProps(fields.airTolerance)}
       />
-      <div className="self-end">
-        <Button type="submit" disabled={busy}>
-          Save targets
-        </Button>
-      </div>
-    </Form>
+    </PostForm>
   );
 }
 
-function ProtocolForm({ reply, busy }: FormArgs) {
+function ProtocolForm({ reply }: FormArgs) {
   const [form, fields] = useSchemaForm(protocolSchema, { reply, intent: "protocol" });
   return (
-    <Form method="post" encType="multipart/form-data" className="flex flex-wrap items-end gap-4" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="protocol" />
+    <PostForm form={form} submitLabel="Upload protocol" hidden={{ intent: "protocol" }} encType="multipart/form-data" className="flex flex-wrap items-end gap-4">
       <Field label="Protocol (PDF, up to 10 MB)" type="file" accept="application/pdf" {...fieldProps(fields.protocol)} defaultValue={undefined} />
-      <Button type="submit" disabled={busy}>
-        Upload protocol
-      </Button>
-    </Form>
+    </PostForm>
   );
 }
 
-function MaterialForm({ reply, busy }: FormArgs) {
+function MaterialForm({ reply }: FormArgs) {
   const [form, fields] = useSchemaForm(setupForms.materialAdd, { reply, intent: "material-add" });
   return (
-    <Form method="post" className="mt-4 grid gap-4 border-t border-basalt-100 pt-4 md:grid-cols-3" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="material-add" />
+    <PostForm form={form} submitLabel="Add material" hidden={{ intent: "material-add" }} {...ADD_ROW_FORM}>
       <Field label="Material code" hint="e.g. M1" {...fieldProps(fields.code)} />
       <Field label="Description" {...fieldProps(fields.description)} />
-      <div className="self-end">
-        <Button type="submit" disabled={busy}>
-          Add material
-        </Button>
-      </div>
-    </Form>
+    </PostForm>
   );
 }
 
@@ -485,6 +501,7 @@ function PeopleCard({
   busy,
   candidates,
 }: FormArgs & {
+  busy: boolean;
   title: string;
   kind: "coordinator" | "reviewer";
   /** Whom the e-mail field suggests, and who is left out and why (reviewers of a participating lab). */
@@ -505,22 +522,13 @@ function PeopleCard({
             <span>
               {p.name} <span className="text-sm text-basalt-700">{p.email}</span> {p.owner && <Badge>Owner</Badge>}
             </span>
-            {canChange && !p.owner && (
-              <Form method="post">
-                <input type="hidden" name="intent" value={`${kind}-remove`} />
-                <input type="hidden" name="id" value={p.id} />
-                <Button type="submit" variant="secondary" aria-label={`Remove ${p.name}`} disabled={busy}>
-                  Remove
-                </Button>
-              </Form>
-            )}
+            {canChange && !p.owner && <RemoveButton intent={`${kind}-remove`} id={p.id} label={`Remove ${p.name}`} busy={busy} />}
           </li>
         ))}
       </ul>
       <FormErrors errors={refusalOf(reply, `${kind}-remove`)} />
       {canChange && (
-        <Form method="post" className="flex flex-wrap items-end gap-3" {...getFormProps(form)}>
-          <input type="hidden" name="intent" value={`${kind}-add`} />
+        <PostForm form={form} submitLabel="Add" hidden={{ intent: `${kind}-add` }} className="flex flex-wrap items-end gap-3">
           <Field
             label={`Add ${kind === "coordinator" ? "co-coordinator" : "reviewer"} by e-mail`}
             type="email"
@@ -536,10 +544,7 @@ function PeopleCard({
               ))}
             </datalist>
           )}
-          <Button type="submit" disabled={busy}>
-            Add
-          </Button>
-        </Form>
+        </PostForm>
       )}
       {canChange && candidates && candidates.leftOut.length > 0 && (
         <ul className="mt-3 text-sm text-basalt-700">
@@ -561,14 +566,19 @@ function removeColumn<Row extends { id: number }>(intent: string, label: (row: R
     header: "Remove",
     sortable: false,
     value: () => null,
-    cell: (row: Row) => (
-      <Form method="post">
-        <input type="hidden" name="intent" value={intent} />
-        <input type="hidden" name="id" value={row.id} />
-        <Button type="submit" variant="secondary" aria-label={label(row)} disabled={busy}>
-          Remove
-        </Button>
-      </Form>
-    ),
+    cell: (row: Row) => <RemoveButton intent={intent} id={row.id} label={label(row)} busy={busy} />,
   };
+}
+
+/** A "Remove" button that posts `intent` with the id of what it removes; `label` names that for screen readers. */
+function RemoveButton({ intent, id, label, busy }: { intent: string; id: number; label: string; busy: boolean }) {
+  return (
+    <Form method="post">
+      <input type="hidden" name="intent" value={intent} />
+      <input type="hidden" name="id" value={id} />
+      <Button type="submit" variant="secondary" aria-label={label} disabled={busy}>
+        Remove
+      </Button>
+    </Form>
+  );
 }

@@ -3,15 +3,15 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/statement";
-import { fieldProps, FormErrors, formWideErrors, refusalOf, replyAbout, useSchemaForm } from "~/components/forms";
+import { fieldProps, FormErrors, formWideErrors, PostForm, refusalOf, replyAbout, useSchemaForm } from "~/components/forms";
 import { PrecisionSummaryTable } from "~/components/precision-tables";
 import { StateBadge } from "~/components/state-badge";
 import { ExcludedCells, StatementCaution, StatementTexts } from "~/components/statement-parts";
 import { StatementBundle } from "~/components/statement-bundle";
-import { VoteTrail } from "~/components/vote-trail";
+import { VoteList } from "~/components/vote-trail";
 import type { StudyPageHandle } from "~/components/study-frame";
 import { ConfirmStep } from "~/components/confirm-dialog";
-import { Button, Card, Notice, SelectField, SimpleTable, TextAreaField } from "~/components/ui";
+import { Button, Card, Notice, RadioField, SelectField, SimpleTable, TextAreaField } from "~/components/ui";
 import { refuseUnsafeCharacters } from "~/lib/text-hygiene";
 import { blindingRefusals } from "~/lib/blinding";
 import { formatDate, formatDateTime } from "~/lib/format";
@@ -210,18 +210,10 @@ function TextForm({ statement, reply }: { statement: NonNullable<LoaderData["lat
     defaultValue: { statementId: String(statement.id), textE691: statement.textE691, textC670: statement.textC670 },
   });
   return (
-    <Form method="post" className="mt-4 flex flex-col gap-4" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="save-text" />
-      <input type="hidden" name="statementId" value={statement.id} />
-      <FormErrors errors={formWideErrors(form)} />
+    <PostForm form={form} submitLabel="Save the text" submitVariant="secondary" hidden={{ intent: "save-text", statementId: statement.id }} className="mt-4 flex flex-col gap-4">
       <TextAreaField label="Statement text, E691 form (r and R)" rows={14} {...fieldProps(fields.textE691)} />
       <TextAreaField label="Statement text, C670 form (1s and d2s)" rows={14} {...fieldProps(fields.textC670)} />
-      <div>
-        <Button type="submit" variant="secondary">
-          Save the text
-        </Button>
-      </div>
-    </Form>
+    </PostForm>
   );
 }
 
@@ -258,38 +250,19 @@ function SendForm({ statement, reviewers, reply }: { statement: NonNullable<Load
 
 type Vote = LoaderData["votes"][number];
 
+const ANSWERS = [
+  { value: "upheld", label: "Upheld (revise the statement)" },
+  { value: "not_upheld", label: "Not upheld" },
+] as const;
+
 /** The coordinator's answer to one objection; the action's answer belongs to it only when it names this vote. */
 function AnswerForm({ vote, reply }: { vote: Vote; reply: unknown }) {
   const [form, fields] = useSchemaForm(statementForms.answer, { reply: replyAbout(reply, "voteId", vote.id), intent: "answer", id: `answer-${vote.id}` });
-  const answerError = fields.answer.errors?.[0];
   return (
-    <Form method="post" className="mt-3 flex flex-col gap-3" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="answer" />
-      <input type="hidden" name="voteId" value={vote.id} />
-      <FormErrors errors={formWideErrors(form)} />
-      <fieldset aria-describedby={answerError ? fields.answer.errorId : undefined}>
-        <legend className="font-semibold text-basalt-800">Your answer to {vote.reviewer}'s objection</legend>
-        <div className="flex flex-wrap gap-4">
-          <label className="inline-flex min-h-11 items-center gap-2">
-            <input type="radio" name={fields.answer.name} value="upheld" defaultChecked={fields.answer.initialValue === "upheld"} className="size-5" /> Upheld (revise the statement)
-          </label>
-          <label className="inline-flex min-h-11 items-center gap-2">
-            <input type="radio" name={fields.answer.name} value="not_upheld" defaultChecked={fields.answer.initialValue === "not_upheld"} className="size-5" /> Not upheld
-          </label>
-        </div>
-        {answerError && (
-          <p id={fields.answer.errorId} className="text-sm font-semibold text-signal-700">
-            {answerError}
-          </p>
-        )}
-      </fieldset>
+    <PostForm form={form} submitLabel="Record the answer" submitVariant="secondary" hidden={{ intent: "answer", voteId: vote.id }} className="mt-3 flex flex-col gap-3">
+      <RadioField label={`Your answer to ${vote.reviewer}'s objection`} options={ANSWERS} {...fieldProps(fields.answer)} />
       <TextAreaField label="Rationale (shown to every reviewer)" {...fieldProps(fields.rationale)} />
-      <div>
-        <Button type="submit" variant="secondary">
-          Record the answer
-        </Button>
-      </div>
-    </Form>
+    </PostForm>
   );
 }
 
@@ -304,18 +277,7 @@ function Round({ loaderData, reply, votes, publication }: { loaderData: LoaderDa
         Tally: {tally.voted} of {tally.reviewers} reviewers voted · {tally.approve} approve · {tally.object} object · {tally.abstain} abstain
         {tally.withdrawn > 0 && <> (of which {tally.withdrawn} withdrawn objections)</>}
       </p>
-      {votes.length === 0 ? (
-        <p>No vote yet.</p>
-      ) : (
-        <ul className="flex flex-col gap-3">
-          {votes.map((v) => (
-            <li key={v.id} className="rounded border border-basalt-100 p-3">
-              <VoteTrail vote={v} answerLabel="Answer" />
-              {v.choice === "object" && !v.answer && canAnswer && <AnswerForm vote={v} reply={reply} />}
-            </li>
-          ))}
-        </ul>
-      )}
+      <VoteList votes={votes} answerLabel="Answer" actionFor={(v) => v.choice === "object" && !v.answer && canAnswer && <AnswerForm vote={v} reply={reply} />} />
       {loaderData.latest?.state === "in_review" && (
         <div className="mt-4 flex flex-col gap-3">
           {publication.problems.length > 0 && (

@@ -1,10 +1,9 @@
-import { getFormProps } from "@conform-to/react";
-import { Form, Link, useNavigation } from "react-router";
+import { Link } from "react-router";
 import type { Route } from "./+types/uncertainty";
-import { fieldProps, FormErrors, useSchemaForm } from "~/components/forms";
-import { replyFor } from "~/components/round-parts";
+import { fieldProps, PostForm, useSchemaForm } from "~/components/forms";
+import { groupFields, replyFor } from "~/components/round-parts";
 import type { StudyPageHandle } from "~/components/study-frame";
-import { Button, Card, Field } from "~/components/ui";
+import { Card, Field } from "~/components/ui";
 import { uncertaintySchema } from "~/lib/round-forms";
 import { labUncertainties, roundDesign, saveLabUncertainty } from "~/models/round.server";
 import { submitForm } from "~/server/form-reply.server";
@@ -40,22 +39,14 @@ function UncertaintyForm({ group, reply }: { group: Group; reply: unknown }) {
     id: `uncertainty-${group.material.id}-${group.response.id}`,
     defaultValue: { standardUncertainty: group.uncertainty?.toString() ?? "" },
   });
-  const busy = useNavigation().state === "submitting";
   return (
-    <Form method="post" className="flex flex-wrap items-end gap-3" {...getFormProps(form)}>
-      <input type="hidden" name="intent" value="uncertainty" />
-      <input type="hidden" name="materialId" value={group.material.id} />
-      <input type="hidden" name="responseId" value={group.response.id} />
-      <FormErrors errors={form.errors} />
+    <PostForm form={form} submitLabel="Save" submitVariant="secondary" hidden={groupFields("uncertainty", group)} className="flex flex-wrap items-end gap-3">
       <Field
         label={`${group.material.code} · ${group.response.name}: standard uncertainty${group.response.unit ? ` (${group.response.unit})` : ""}`}
         inputMode="decimal"
         {...fieldProps(fields.standardUncertainty)}
       />
-      <Button type="submit" variant="secondary" disabled={busy}>
-        Save
-      </Button>
-    </Form>
+    </PostForm>
   );
 }
 
