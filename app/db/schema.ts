@@ -33,6 +33,9 @@ const groupColumns = () => ({ materialId: materialIdColumn(), responseId: ownedB
 /** A person the row names (who raised, decided or wrote it); their account stays while a row names it. */
 const personColumn = <N extends string>(name: N) => integer(name).notNull().references(() => users.id);
 
+/** The lab taking part; a lab is never deleted (a merged one keeps its row), so nothing cascades. */
+const labIdColumn = () => integer("lab_id").notNull().references(() => labs.id);
+
 const createdAt = () =>
   integer("created_at", { mode: "timestamp_ms" })
     .notNull()
@@ -221,7 +224,7 @@ export const enrollments = sqliteTable(
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
     studyId: studyIdColumn(),
-    labId: integer("lab_id").notNull().references(() => labs.id),
+    labId: labIdColumn(),
     /** Blind code such as `L07`, drawn at random on acceptance, unique within the study. */
     labCode: text("lab_code"),
     state: text("state", { enum: ENROLLMENT_STATES }).notNull().default("invited"),
@@ -668,7 +671,9 @@ export const comparisons = sqliteTable(
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
     userId: userIdColumn(),
-    statementId: integer("statement_id").notNull().references(() => precisionStatements.id),
+    statementId: integer("statement_id")
+      .notNull()
+      .references(() => precisionStatements.id),
     /** response key in the statement */
     response: text("response").notNull(),
     setting: text("setting", { enum: COMPARISON_SETTINGS }).notNull(),
@@ -753,7 +758,7 @@ export const roundScores = sqliteTable(
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
     studyId: studyIdColumn(),
-    labId: integer("lab_id").notNull().references(() => labs.id),
+    labId: labIdColumn(),
     labCode: text("lab_code").notNull(),
     materialCode: text("material_code").notNull(),
     responseKey: text("response_key").notNull(),
