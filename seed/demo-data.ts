@@ -110,36 +110,36 @@ export const DEMO_MATERIALS: { code: string; description: string; constituents: 
   },
 ];
 
+/**
+ * An overlay mixture: its cementitious materials, water and sand per m³, with
+ * the 12.5 mm stone, 0.5 % macro-fiber, 6 % air and admixtures they all share.
+ */
+function overlayConstituents(cementitious: Constituent[], waterKg: number, sandKg: number): Constituent[] {
+  return [
+    ...cementitious,
+    water(waterKg),
+    { ...coarse, name: "Crushed limestone 12.5 mm", ssdMassKgPerM3: 950 },
+    naturalSand(sandKg),
+    { kind: "fiber", name: "Polypropylene macro-fiber", lot: "P-0601", volumeFractionPercent: 0.5, fiberDensityKgPerM3: 910 },
+    { ...air, airContentPercent: 6 },
+    waterReducer,
+    airEntrainer,
+  ];
+}
+
+const flyAsh: Constituent = { kind: "scm", name: "Class F fly ash", lot: "F-3302", ssdMassKgPerM3: 97, relativeDensity: 2.35 };
+
 /** The second study's overlay mixtures carry fibers. */
 export const DEMO_OVERLAY_MATERIALS: typeof DEMO_MATERIALS = [
   {
     code: "F1",
     description: "Bonded overlay, 0.5 % polypropylene macro-fiber",
-    constituents: [
-      cement(390),
-      water(160),
-      { ...coarse, name: "Crushed limestone 12.5 mm", ssdMassKgPerM3: 950 },
-      naturalSand(770),
-      { kind: "fiber", name: "Polypropylene macro-fiber", lot: "P-0601", volumeFractionPercent: 0.5, fiberDensityKgPerM3: 910 },
-      { ...air, airContentPercent: 6 },
-      waterReducer,
-      airEntrainer,
-    ],
+    constituents: overlayConstituents([cement(390)], 160, 770),
   },
   {
     code: "F2",
     description: "Bonded overlay, 0.5 % fiber with 25 % fly ash",
-    constituents: [
-      cement(293),
-      { kind: "scm", name: "Class F fly ash", lot: "F-3302", ssdMassKgPerM3: 97, relativeDensity: 2.35 },
-      water(158),
-      { ...coarse, name: "Crushed limestone 12.5 mm", ssdMassKgPerM3: 950 },
-      naturalSand(742),
-      { kind: "fiber", name: "Polypropylene macro-fiber", lot: "P-0601", volumeFractionPercent: 0.5, fiberDensityKgPerM3: 910 },
-      { ...air, airContentPercent: 6 },
-      waterReducer,
-      airEntrainer,
-    ],
+    constituents: overlayConstituents([cement(293), flyAsh], 158, 742),
   },
 ];
 

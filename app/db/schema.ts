@@ -19,10 +19,22 @@ import { LAB_LISTINGS, PASSWORD_LINK_PURPOSES, ROLES, STUDY_KINDS, STUDY_STATES,
 
 export * from "./values";
 
-/** The owner's id in a row that goes with its study, user or enrollment when that is deleted. */
-const studyIdColumn = () => integer("study_id").notNull().references(() => studies.id, { onDelete: "cascade" });
-const userIdColumn = () => integer("user_id").notNull().references(() => users.id, { onDelete: "cascade" });
-const enrollmentIdColumn = () => integer("enrollment_id").notNull().references(() => enrollments.id, { onDelete: "cascade" });
+/** The owner's id in a row that goes with its owner when that is deleted. */
+const ownedBy = <N extends string>(name: N, owner: () => AnySQLiteColumn) => integer(name).notNull().references(owner, { onDelete: "cascade" });
+
+const studyIdColumn = () => ownedBy("study_id", () => studies.id);
+const userIdColumn = () => ownedBy("user_id", () => users.id);
+const enrollmentIdColumn = () => ownedBy("enrollment_id", () => enrollments.id);
+const materialIdColumn = () => ownedBy("material_id", () => materials.id);
+
+/** The material × response a row is about: one group of the analysis. */
+const groupColumns = () => ({ materialId: materialIdColumn(), responseId: ownedBy("response_id", () => responses.id) });
+
+/** A person the row names (who raised, decided or wrote it); their account stays while a row names it. */
+const personColumn = <N extends string>(name: N) => integer(name).notNull().references(() => users.id);
+
+/** The lab taking part; a lab is never deleted (a merged one keeps its row), so nothing cascades. */
+const labIdColumn = () => integer("lab_id").notNull().references(() => labs.id);
 
 const createdAt = () =>
   integer("created_at", { mode: "timestamp_ms" })
@@ -71,9 +83,7 @@ export const labs = sqliteTable("labs", {
 export const labMembers = sqliteTable(
   "lab_members",
   {
-    labId: integer("lab_id")
-      .notNull()
-      .references(() => labs.id, { onDelete: "cascade" }),
+    labId: ownedBy("lab_id", () => labs.id),
     userId: userIdColumn(),
     /** The lab's contact receives invitations and may add colleagues. */
     isContact: integer("is_contact", { mode: "boolean" }).notNull().default(false),
@@ -116,9 +126,7 @@ export const studies = sqliteTable("studies", {
   enrollmentDeadline: text("enrollment_deadline"),
   shipDate: text("ship_date"),
   resultsDue: text("results_due"),
-  ownerId: integer("owner_id")
-    .notNull()
-    .references(() => users.id),
+  ownerId: personColumn("owner_id"),
   protocolAttachmentId: integer("protocol_attachment_id").references(() => attachments.id),
   /** Bumped on every change of results or decisions; analyses are cached by it. */
   dataVersion: integer("data_version").notNull().default(0),
@@ -193,9 +201,7 @@ export const mixtureConstituents = sqliteTable(
   "mixture_constituents",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    materialId: integer("material_id")
-      .notNull()
-      .references(() => materials.id, { onDelete: "cascade" }),
+    materialId: materialIdColumn(),
     kind: text("kind", { enum: CONSTITUENT_KINDS }).notNull(),
     name: text("name").notNull(),
     lot: text("lot").notNull().default(""),
@@ -218,9 +224,7 @@ export const enrollments = sqliteTable(
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
     studyId: studyIdColumn(),
-    labId: integer("lab_id")
-      .notNull()
-      .references(() => labs.id),
+    labId: labIdColumn(),
     /** Blind code such as `L07`, drawn at random on acceptance, unique within the study. */
     labCode: text("lab_code"),
     state: text("state", { enum: ENROLLMENT_STATES }).notNull().default("invited"),
@@ -276,9 +280,7 @@ export const shipmentItems = sqliteTable(
   "shipment_items",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    shipmentId: integer("shipment_id")
-      .notNull()
-      .references(() => shipments.id, { onDelete: "cascade" }),
+    shipmentId: ownedBy("shipment_id", () => shipments.id),
     sortOrder: integer("sort_order").notNull().default(0),
     description: text("description").notNull(),
     quantity: real("quantity").notNull(),
@@ -295,9 +297,7 @@ export const batches = sqliteTable(
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
     enrollmentId: enrollmentIdColumn(),
-    materialId: integer("material_id")
-      .notNull()
-      .references(() => materials.id, { onDelete: "cascade" }),
+    materialId: materialIdColumn(),
     batchVolumeM3: real("batch_volume_m3"),
     /** JSON: { [constituentId]: moisture content % of oven-dry mass }. */
     aggregateMoisture: text("aggregate_moisture", { mode: "json" }).$type<Record<string, number>>(),
@@ -318,12 +318,7 @@ export const cells = sqliteTable(
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
     enrollmentId: enrollmentIdColumn(),
-    materialId: integer("material_id")
-      .notNull()
-      .references(() => materials.id, { onDelete: "cascade" }),
-    responseId: integer("response_id")
-      .notNull()
-      .references(() => responses.id, { onDelete: "cascade" }),
+    ...groupColumns(),
     status: text("status", { enum: CELL_STATUSES }).notNull().default("draft"),
     submittedAt: integer("submitted_at", { mode: "timestamp_ms" }),
     submittedBy: integer("submitted_by").references(() => users.id),
@@ -341,9 +336,7 @@ export const results = sqliteTable(
   "results",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    cellId: integer("cell_id")
-      .notNull()
-      .references(() => cells.id, { onDelete: "cascade" }),
+    cellId: ownedBy("cell_id", () => cells.id),
     replicate: integer("replicate").notNull(),
     value: real("value").notNull(),
     testedOn: text("tested_on"),
@@ -362,18 +355,14 @@ export const amendments = sqliteTable(
   "amendments",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    cellId: integer("cell_id")
-      .notNull()
-      .references(() => cells.id, { onDelete: "cascade" }),
+    cellId: ownedBy("cell_id", () => cells.id),
     replicate: integer("replicate").notNull(),
     oldValue: real("old_value"),
     newValue: real("new_value").notNull(),
     reason: text("reason").notNull(),
     /** The correction query the amendment answers, when it came after testing. */
     queryId: integer("query_id").references(() => queries.id),
-    byUserId: integer("by_user_id")
-      .notNull()
-      .references(() => users.id),
+    byUserId: personColumn("by_user_id"),
     createdAt: createdAt(),
   },
   (t) => [index("amendments_cell").on(t.cellId)],
@@ -404,12 +393,8 @@ export const queries = sqliteTable(
   "queries",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    cellId: integer("cell_id")
-      .notNull()
-      .references(() => cells.id, { onDelete: "cascade" }),
-    raisedBy: integer("raised_by")
-      .notNull()
-      .references(() => users.id),
+    cellId: ownedBy("cell_id", () => cells.id),
+    raisedBy: personColumn("raised_by"),
     /** The statistic that prompted it, e.g. `h = 2.41 (critical 2.06)`. */
     statistic: text("statistic").notNull().default(""),
     question: text("question").notNull(),
@@ -429,15 +414,10 @@ export const cellDecisions = sqliteTable(
   "cell_decisions",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    cellId: integer("cell_id")
-      .notNull()
-      .unique()
-      .references(() => cells.id, { onDelete: "cascade" }),
+    cellId: ownedBy("cell_id", () => cells.id).unique(),
     decision: text("decision", { enum: ["retained", "excluded"] }).notNull(),
     reason: text("reason").notNull(),
-    decidedBy: integer("decided_by")
-      .notNull()
-      .references(() => users.id),
+    decidedBy: personColumn("decided_by"),
     decidedAt: integer("decided_at", { mode: "timestamp_ms" }).notNull(),
   },
 );
@@ -456,9 +436,7 @@ export const precisionStatements = sqliteTable(
     /** Frozen figures, decisions and data version this text is tied to. */
     snapshot: text("snapshot", { mode: "json" }).notNull(),
     dataVersion: integer("data_version").notNull(),
-    createdBy: integer("created_by")
-      .notNull()
-      .references(() => users.id),
+    createdBy: personColumn("created_by"),
     sentAt: integer("sent_at", { mode: "timestamp_ms" }),
     createdAt: createdAt(),
   },
@@ -469,12 +447,8 @@ export const votes = sqliteTable(
   "votes",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    statementId: integer("statement_id")
-      .notNull()
-      .references(() => precisionStatements.id, { onDelete: "cascade" }),
-    reviewerId: integer("reviewer_id")
-      .notNull()
-      .references(() => users.id),
+    statementId: ownedBy("statement_id", () => precisionStatements.id),
+    reviewerId: personColumn("reviewer_id"),
     choice: text("choice", { enum: VOTE_CHOICES }).notNull(),
     reason: text("reason"),
     /** The coordinator's answer to an objection. */
@@ -503,17 +477,10 @@ export const votes = sqliteTable(
  */
 export const reviewRounds = sqliteTable("review_rounds", {
   id: integer("id").primaryKey({ autoIncrement: true }),
-  statementId: integer("statement_id")
-    .notNull()
-    .unique()
-    .references(() => precisionStatements.id, { onDelete: "cascade" }),
+  statementId: ownedBy("statement_id", () => precisionStatements.id).unique(),
   /** Rules on objections that their reviewer maintains after a "not upheld" answer. */
-  chairId: integer("chair_id")
-    .notNull()
-    .references(() => users.id),
-  openedBy: integer("opened_by")
-    .notNull()
-    .references(() => users.id),
+  chairId: personColumn("chair_id"),
+  openedBy: personColumn("opened_by"),
   outcome: text("outcome", { enum: ["open", "published", "returned", "cancelled"] }).notNull().default("open"),
   closedAt: integer("closed_at", { mode: "timestamp_ms" }),
   createdAt: createdAt(),
@@ -522,12 +489,8 @@ export const reviewRounds = sqliteTable("review_rounds", {
 export const roundReviewers = sqliteTable(
   "round_reviewers",
   {
-    roundId: integer("round_id")
-      .notNull()
-      .references(() => reviewRounds.id, { onDelete: "cascade" }),
-    userId: integer("user_id")
-      .notNull()
-      .references(() => users.id),
+    roundId: ownedBy("round_id", () => reviewRounds.id),
+    userId: personColumn("user_id"),
   },
   (t) => [primaryKey({ columns: [t.roundId, t.userId] })],
 );
@@ -536,12 +499,8 @@ export const reviewComments = sqliteTable(
   "review_comments",
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
-    statementId: integer("statement_id")
-      .notNull()
-      .references(() => precisionStatements.id, { onDelete: "cascade" }),
-    authorId: integer("author_id")
-      .notNull()
-      .references(() => users.id),
+    statementId: ownedBy("statement_id", () => precisionStatements.id),
+    authorId: personColumn("author_id"),
     body: text("body").notNull(),
     createdAt: createdAt(),
   },
@@ -586,9 +545,7 @@ export const notices = sqliteTable(
 
 /** Which optional notices a person receives; no row means all of them. */
 export const noticePreferences = sqliteTable("notice_preferences", {
-  userId: integer("user_id")
-    .primaryKey()
-    .references(() => users.id, { onDelete: "cascade" }),
+  userId: userIdColumn().primaryKey(),
   resultReminders: integer("result_reminders", { mode: "boolean" }).notNull().default(true),
   enrollmentAnswers: integer("enrollment_answers", { mode: "boolean" }).notNull().default(true),
 });
@@ -602,9 +559,7 @@ export const attachments = sqliteTable("attachments", {
   originalName: text("original_name").notNull(),
   /** A small JPEG of an image (its hash under data/uploads), for the pages; null for PDFs. */
   thumbnailSha256: text("thumbnail_sha256"),
-  uploadedBy: integer("uploaded_by")
-    .notNull()
-    .references(() => users.id),
+  uploadedBy: personColumn("uploaded_by"),
   createdAt: createdAt(),
 });
 
@@ -665,9 +620,7 @@ export const setupLinks = sqliteTable("setup_links", {
  * order drawn from a seed. Fixed once the first result is entered.
  */
 export const ruggednessPlans = sqliteTable("ruggedness_plans", {
-  studyId: integer("study_id")
-    .primaryKey()
-    .references(() => studies.id, { onDelete: "cascade" }),
+  studyId: studyIdColumn().primaryKey(),
   runs: integer("runs").notNull(),
   replicates: integer("replicates").notNull(),
   runOrderSeed: integer("run_order_seed").notNull(),
@@ -699,14 +652,10 @@ export const ruggednessResults = sqliteTable(
     studyId: studyIdColumn(),
     /** design row number, 1-based */
     run: integer("run").notNull(),
-    responseId: integer("response_id")
-      .notNull()
-      .references(() => responses.id, { onDelete: "cascade" }),
+    responseId: ownedBy("response_id", () => responses.id),
     replicate: integer("replicate").notNull(),
     value: real("value").notNull(),
-    enteredBy: integer("entered_by")
-      .notNull()
-      .references(() => users.id),
+    enteredBy: personColumn("entered_by"),
     updatedAt: integer("updated_at", { mode: "timestamp_ms" }).notNull(),
   },
   (t) => [uniqueIndex("ruggedness_results_run_response_replicate").on(t.studyId, t.run, t.responseId, t.replicate)],
@@ -747,9 +696,7 @@ export const comparisons = sqliteTable(
  * a round's σ_pt.
  */
 export const roundSettings = sqliteTable("round_settings", {
-  studyId: integer("study_id")
-    .primaryKey()
-    .references(() => studies.id, { onDelete: "cascade" }),
+  studyId: studyIdColumn().primaryKey(),
   sourceStudyId: integer("source_study_id").references(() => studies.id),
   /** JSON: the source study's code and its approved statement's frozen analysis (null without a source study). */
   precision: text("precision", { mode: "json" }).notNull(),
@@ -765,12 +712,7 @@ export const roundAssignments = sqliteTable(
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
     studyId: studyIdColumn(),
-    materialId: integer("material_id")
-      .notNull()
-      .references(() => materials.id, { onDelete: "cascade" }),
-    responseId: integer("response_id")
-      .notNull()
-      .references(() => responses.id, { onDelete: "cascade" }),
+    ...groupColumns(),
     assignedMethod: text("assigned_method", { enum: ASSIGNED_VALUE_METHODS }).notNull().default("consensus"),
     referenceValue: real("reference_value"),
     referenceUncertainty: real("reference_uncertainty"),
@@ -790,12 +732,7 @@ export const roundCheckResults = sqliteTable(
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
     studyId: studyIdColumn(),
-    materialId: integer("material_id")
-      .notNull()
-      .references(() => materials.id, { onDelete: "cascade" }),
-    responseId: integer("response_id")
-      .notNull()
-      .references(() => responses.id, { onDelete: "cascade" }),
+    ...groupColumns(),
     check: text("check", { enum: MATERIAL_CHECKS }).notNull(),
     sample: integer("sample").notNull(),
     replicate: integer("replicate").notNull(),
@@ -809,12 +746,7 @@ export const roundLabUncertainties = sqliteTable(
   "round_lab_uncertainties",
   {
     enrollmentId: enrollmentIdColumn(),
-    materialId: integer("material_id")
-      .notNull()
-      .references(() => materials.id, { onDelete: "cascade" }),
-    responseId: integer("response_id")
-      .notNull()
-      .references(() => responses.id, { onDelete: "cascade" }),
+    ...groupColumns(),
     standardUncertainty: real("standard_uncertainty").notNull(),
   },
   (t) => [primaryKey({ columns: [t.enrollmentId, t.materialId, t.responseId] })],
@@ -826,9 +758,7 @@ export const roundScores = sqliteTable(
   {
     id: integer("id").primaryKey({ autoIncrement: true }),
     studyId: studyIdColumn(),
-    labId: integer("lab_id")
-      .notNull()
-      .references(() => labs.id),
+    labId: labIdColumn(),
     labCode: text("lab_code").notNull(),
     materialCode: text("material_code").notNull(),
     responseKey: text("response_key").notNull(),

@@ -264,20 +264,7 @@ export async function withdrawEnrollment(study: Study, enrollmentId: number, rea
 /** The study's enrollments with their labs, for the coordinator's lab page. */
 export async function listStudyEnrollments(studyId: number) {
   return db
-    .select({
-      lab: labs,
-      id: enrollments.id,
-      labId: labs.id,
-      labName: labs.name,
-      contactName: labs.contactName,
-      contactEmail: labs.contactEmail,
-      accreditationNumber: labs.accreditationNumber,
-      address: labs.address,
-      state: enrollments.state,
-      labCode: enrollments.labCode,
-      invitedAt: enrollments.invitedAt,
-      respondedAt: enrollments.respondedAt,
-    })
+    .select({ lab: labs, id: enrollments.id, labId: labs.id, state: enrollments.state, labCode: enrollments.labCode, invitedAt: enrollments.invitedAt })
     .from(enrollments)
     .innerJoin(labs, eq(labs.id, enrollments.labId))
     .where(eq(enrollments.studyId, studyId))

@@ -4,7 +4,7 @@
  * an analyst reaches only their own lab's cells. Each write records its audit
  * event and bumps the study's data version in the same transaction.
  */
-import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, min, sql } from "drizzle-orm";
 import { db, type Transaction } from "~/db/client.server";
 import { amendments, auditEvents, batches, cells, enrollments, labs, materials, queries, responses, results, shipments, studies, users, type Study } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
@@ -62,12 +62,11 @@ async function studyFrame(studyId: number) {
 
 /** The first day the lab received materials of the study; tests are not dated before it. */
 export async function receivedOnOf(enrollmentId: number) {
-  const received = await db
-    .select({ on: shipments.receivedOn })
+  const [first] = await db
+    .select({ on: min(shipments.receivedOn) })
     .from(shipments)
-    .where(and(eq(shipments.enrollmentId, enrollmentId), eq(shipments.status, "received")))
-    .orderBy(asc(shipments.receivedOn));
-  return received[0]?.on ?? null;
+    .where(and(eq(shipments.enrollmentId, enrollmentId), eq(shipments.status, "received")));
+  return first?.on ?? null;
 }
 type StudyFrame = Awaited<ReturnType<typeof studyFrame>>;
 

@@ -42,7 +42,7 @@ import type { StatementSnapshot } from "~/lib/statement-text";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import type { assignmentSchema, checksSchema, newRoundSchema } from "~/lib/round-forms";
 import type { SessionUser } from "~/models/user.server";
-import { coordinatedBy } from "~/models/study.server";
+import { coordinatedBy, insertStudy } from "~/models/study.server";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import type { z } from "zod";
@@ -129,44 +129,41 @@ export async function createRound(ownerId: number, input: z.infer<typeof newRoun
   const precision: RoundPrecision = source ? { sourceCode: source.study.code, analysis: source.snapshot.analysis } : { sourceCode: null, analysis: null };
 
   return db.transaction(async (tx) => {
-    const [round] = await tx
-      .insert(studies)
-      .values({
-        code: input.code,
-        title: input.title,
-        kind: "proficiency",
-        testMethod: source ? source.study.testMethod : input.testMethod,
-        replicatesPerCell: input.replicatesPerCell,
-        targetSurfaceRating: source ? source.study.targetSurfaceRating : FLOAT_FINISHING_TEMPLATE.targetSurfaceRating,
-        resultsDue: input.resultsDue,
-        ownerId,
-      })
-      .returning();
+    const round = await insertStudy(tx, {
+      code: input.code,
+      title: input.title,
+      kind: "proficiency",
+      testMethod: source ? source.study.testMethod : input.testMethod,
+      replicatesPerCell: input.replicatesPerCell,
+      targetSurfaceRating: source ? source.study.targetSurfaceRating : FLOAT_FINISHING_TEMPLATE.targetSurfaceRating,
+      resultsDue: input.resultsDue,
+      ownerId,
+    });
     const responseRows = source
       ? source.responses.map(({ key, name, unit, kind, decimals, plausibleMin, plausibleMax, sortOrder }) => ({ key, name, unit, kind, decimals, plausibleMin, plausibleMax, sortOrder }))
       : FLOAT_FINISHING_TEMPLATE.responses.map((r, sortOrder) => ({ ...r, sortOrder }));
-    const insertedResponses = await tx.insert(responses).values(responseRows.map((r) => ({ ...r, studyId: round!.id }))).returning();
+    const insertedResponses = await tx.insert(responses).values(responseRows.map((r) => ({ ...r, studyId: round.id }))).returning();
     if (source) {
       const targets = await tx.select().from(freshPropertyTargets).where(eq(freshPropertyTargets.studyId, source.study.id));
-      if (targets.length) await tx.insert(freshPropertyTargets).values(targets.map((t) => ({ ...t, studyId: round!.id })));
+      if (targets.length) await tx.insert(freshPropertyTargets).values(targets.map((t) => ({ ...t, studyId: round.id })));
     }
     const insertedMaterials = await tx
       .insert(materials)
-      .values(input.materials.map((m, sortOrder) => ({ ...m, studyId: round!.id, sortOrder })))
+      .values(input.materials.map((m, sortOrder) => ({ ...m, studyId: round.id, sortOrder })))
       .returning();
-    await tx.insert(roundSettings).values({ studyId: round!.id, sourceStudyId: source?.study.id ?? null, precision });
+    await tx.insert(roundSettings).values({ studyId: round.id, sourceStudyId: source?.study.id ?? null, precision });
     await tx.insert(roundAssignments).values(
       insertedMaterials.flatMap((material) =>
         insertedResponses.map((response) => ({
-          studyId: round!.id,
+          studyId: round.id,
           materialId: material.id,
           responseId: response.id,
           sigmaMethod: defaultSigmaMethod(precision, response.key),
         })),
       ),
     );
-    await recordAudit({ actorUserId: ownerId, action: "round_created", entityType: "study", entityId: round!.id, studyId: round!.id, after: { ...input, sourceCode: source?.study.code ?? null } }, tx);
-    return round!;
+    await recordAudit({ actorUserId: ownerId, action: "round_created", entityType: "study", entityId: round.id, studyId: round.id, after: { ...input, sourceCode: source?.study.code ?? null } }, tx);
+    return round;
   });
 }
 

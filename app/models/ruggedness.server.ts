@@ -17,7 +17,7 @@ import type { newRuggednessSchema } from "~/lib/ruggedness/forms";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
 import { recordAudit } from "~/server/audit.server";
 import type { SessionUser } from "~/models/user.server";
-import { coordinatedBy } from "~/models/study.server";
+import { coordinatedBy, insertStudy } from "~/models/study.server";
 
 type Study = typeof studies.$inferSelect;
 
@@ -43,26 +43,23 @@ export async function createRuggednessStudy(ownerId: number, input: z.output<typ
   if (await db.query.studies.findFirst({ where: eq(studies.code, input.code) })) throw new FieldRefusal("code", "Another study already has this code.");
   const float = input.template === "float_finishing";
   return db.transaction(async (tx) => {
-    const [study] = await tx
-      .insert(studies)
-      .values({
-        code: input.code,
-        title: input.title,
-        kind: "ruggedness",
-        testMethod: float ? FLOAT_FINISHING_TEMPLATE.testMethod : input.testMethod!,
-        notes: input.notes ?? "",
-        replicatesPerCell: 1,
-        targetSurfaceRating: float ? FLOAT_FINISHING_TEMPLATE.targetSurfaceRating : null,
-        ownerId,
-      })
-      .returning();
-    const studyId = study!.id;
+    const study = await insertStudy(tx, {
+      code: input.code,
+      title: input.title,
+      kind: "ruggedness",
+      testMethod: float ? FLOAT_FINISHING_TEMPLATE.testMethod : input.testMethod!,
+      notes: input.notes ?? "",
+      replicatesPerCell: 1,
+      targetSurfaceRating: float ? FLOAT_FINISHING_TEMPLATE.targetSurfaceRating : null,
+      ownerId,
+    });
+    const studyId = study.id;
     const responseRows = float
       ? FLOAT_FINISHING_TEMPLATE.responses.map((r, i) => ({ ...r, studyId, sortOrder: i }))
       : [{ studyId, key: "result", name: input.responseName!, unit: input.responseUnit ?? "", kind: "continuous" as const, decimals: 2, sortOrder: 0 }];
     await tx.insert(responses).values(responseRows);
     await recordAudit({ actorUserId: ownerId, action: "study_created", entityType: "study", entityId: studyId, studyId, after: { ...input, kind: "ruggedness" } }, tx);
-    return study!;
+    return study;
   });
 }
 

@@ -62,19 +62,24 @@ export async function studyDescription(study: Study, access: StudyAccess, ownEnr
 
 type ExportedResult = StudyResultRow & { amendments: number; decision: "retained" | "excluded" | null; decisionReason: string | null };
 
+/** The titles of the columns after the lab code; each column's key is the row's field it shows. */
+const RESULT_FIELD_TITLES = {
+  labName: "Lab",
+  material: "Material",
+  response: "Response",
+  replicate: "Replicate",
+  value: "Value",
+  testedOn: "Test date",
+  operator: "Operator",
+  status: "Cell status",
+  amendments: "Amendments",
+  decision: "Cell decision",
+  decisionReason: "Decision reason",
+} satisfies Partial<Record<keyof ExportedResult, string>>;
+
 const RESULT_COLUMNS: ExportColumn<ExportedResult>[] = [
   { key: "lab", title: "Lab code", value: (r) => r.labCode },
-  { key: "labName", title: "Lab", value: (r) => r.labName },
-  { key: "material", title: "Material", value: (r) => r.material },
-  { key: "response", title: "Response", value: (r) => r.response },
-  { key: "replicate", title: "Replicate", value: (r) => r.replicate },
-  { key: "value", title: "Value", value: (r) => r.value },
-  { key: "testedOn", title: "Test date", value: (r) => r.testedOn },
-  { key: "operator", title: "Operator", value: (r) => r.operator },
-  { key: "status", title: "Cell status", value: (r) => r.status },
-  { key: "amendments", title: "Amendments", value: (r) => r.amendments },
-  { key: "decision", title: "Cell decision", value: (r) => r.decision },
-  { key: "decisionReason", title: "Decision reason", value: (r) => r.decisionReason },
+  ...(Object.entries(RESULT_FIELD_TITLES) as [keyof typeof RESULT_FIELD_TITLES, string][]).map(([key, title]) => ({ key, title, value: (r: ExportedResult) => r[key] })),
 ];
 
 /**

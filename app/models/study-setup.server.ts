@@ -28,6 +28,7 @@ import { AIR_CONTENT_TOLERANCE_POINTS, type Constituent, inToMm, slumpTolerance 
 import { type freshTargetsSchema, type materialSchema, type newStudySchema, replicatesProblem, type responseSchema, type studyFields } from "~/lib/study-forms";
 import { type WriteKind, writeRefusal } from "~/lib/write-rules";
 import { FLOAT_FINISHING_TEMPLATE } from "~/lib/study-templates";
+import { insertStudy } from "~/models/study.server";
 import { holdsRole, loadSessionUser, normaliseEmail } from "~/models/user.server";
 
 type StudyInput = z.infer<typeof studyFields>;
@@ -63,13 +64,13 @@ export async function createStudy(ownerId: number, input: z.infer<typeof newStud
     throw new SetupError("testMethod", "A custom study needs its own test method name; choose the float finishing template for the float finishing test.");
   }
   return db.transaction(async (tx) => {
-    const [study] = await tx.insert(studies).values({ ...fields, ownerId }).returning();
+    const study = await insertStudy(tx, { ...fields, ownerId });
     if (template === "float_finishing") {
-      await tx.insert(responses).values(FLOAT_FINISHING_TEMPLATE.responses.map((r, i) => ({ ...r, studyId: study!.id, sortOrder: i })));
-      await tx.insert(freshPropertyTargets).values(FLOAT_FINISHING_TEMPLATE.freshTargets.map((t) => ({ ...t, studyId: study!.id })));
+      await tx.insert(responses).values(FLOAT_FINISHING_TEMPLATE.responses.map((r, i) => ({ ...r, studyId: study.id, sortOrder: i })));
+      await tx.insert(freshPropertyTargets).values(FLOAT_FINISHING_TEMPLATE.freshTargets.map((t) => ({ ...t, studyId: study.id })));
     }
-    await recordAudit({ actorUserId: ownerId, action: "study_created", entityType: "study", entityId: study!.id, studyId: study!.id, after: input }, tx);
-    return study!;
+    await recordAudit({ actorUserId: ownerId, action: "study_created", entityType: "study", entityId: study.id, studyId: study.id, after: input }, tx);
+    return study;
   });
 }
 
@@ -110,14 +111,8 @@ export async function addResponse(study: Study, input: z.infer<typeof responseSc
   });
 }
 
-export async function removeResponse(study: Study, responseId: number, actorUserId: number) {
-  assertSetupEditable(study);
-  await assertNoCells(cells.responseId, responseId, "response");
-  await db.transaction(async (tx) => {
-    const removed = await tx.delete(responses).where(and(eq(responses.id, responseId), eq(responses.studyId, study.id))).returning();
-    if (removed.length === 0) throw new SetupError("form", "That response is not part of this study.");
-    await recordAudit({ actorUserId, action: "response_removed", entityType: "response", entityId: responseId, studyId: study.id, before: removed[0] }, tx);
-  });
+export function removeResponse(study: Study, responseId: number, actorUserId: number) {
+  return removeDesignPart(study, "response", responseId, actorUserId);
 }
 
 /**
@@ -199,13 +194,24 @@ export async function addMaterial(study: Study, input: z.infer<typeof materialSc
   });
 }
 
-export async function removeMaterial(study: Study, materialId: number, actorUserId: number) {
+export function removeMaterial(study: Study, materialId: number, actorUserId: number) {
+  return removeDesignPart(study, "material", materialId, actorUserId);
+}
+
+/** The parts of a study's design that setup removes, with the cell column that points at each. */
+const DESIGN_PARTS = {
+  response: { table: responses, cellColumn: cells.responseId },
+  material: { table: materials, cellColumn: cells.materialId },
+} as const;
+
+async function removeDesignPart(study: Study, part: keyof typeof DESIGN_PARTS, id: number, actorUserId: number) {
+  const { table, cellColumn } = DESIGN_PARTS[part];
   assertSetupEditable(study);
-  await assertNoCells(cells.materialId, materialId, "material");
+  await assertNoCells(cellColumn, id, part);
   await db.transaction(async (tx) => {
-    const removed = await tx.delete(materials).where(and(eq(materials.id, materialId), eq(materials.studyId, study.id))).returning();
-    if (removed.length === 0) throw new SetupError("form", "That material is not part of this study.");
-    await recordAudit({ actorUserId, action: "material_removed", entityType: "material", entityId: materialId, studyId: study.id, before: removed[0] }, tx);
+    const removed = await tx.delete(table).where(and(eq(table.id, id), eq(table.studyId, study.id))).returning();
+    if (removed.length === 0) throw new SetupError("form", `That ${part} is not part of this study.`);
+    await recordAudit({ actorUserId, action: `${part}_removed`, entityType: part, entityId: id, studyId: study.id, before: removed[0] }, tx);
   });
 }
 

@@ -1,5 +1,5 @@
 import { and, asc, count, desc, eq, inArray, isNull, or } from "drizzle-orm";
-import { db } from "~/db/client.server";
+import { db, type Transaction } from "~/db/client.server";
 import { batches, cells, enrollments, invitations, labs, materials, queries, responses, results, shipments, studies, studyCoordinators, studyReviewers, type Study, type StudyKind } from "~/db/schema";
 import { CELL_STATUS_ORDER, type CellStatus, cellStatusOf } from "~/lib/cell-status";
 import type { SessionUser } from "~/models/user.server";
@@ -7,6 +7,11 @@ import { readPage } from "~/lib/paging";
 import { formatDate } from "~/lib/format";
 import type { LabStudyFacts } from "~/lib/lab-todo";
 
+/** Writes a new study's row, of any kind, inside the transaction that sets up the rest of it. */
+export async function insertStudy(tx: Transaction, values: typeof studies.$inferInsert) {
+  const [study] = await tx.insert(studies).values(values).returning();
+  return study!;
+}
 
 /** Studies of `kind` that the user owns or coordinates; every one for an admin. */
 export function coordinatedBy(user: SessionUser, kind: StudyKind | "any") {
