@@ -1,5 +1,5 @@
 import { averageOfCellAverages, averageReplicates, mostFrequentReplicates, replicateWeightedMean, standardDeviationOfCellAverages } from "./cell-averages";
-import { cellStatistics, type CellStatistics } from "./cell-statistics";
+import { cellStatistics } from "./cell-statistics";
 import { repeatabilityInterval, reproducibilityInterval } from "./confidence-intervals";
 import { hCritical, hStatistic, kCritical, kStatistic } from "./consistency";
 import type { GroupAccumulator } from "./group-rows";
@@ -17,8 +17,23 @@ import { workingUnits } from "./working-units";
 export const MIN_LABS = 3;
 export const MIN_REPLICATES = 2;
 
-type Cell = CellStatistics & { lab: string };
-type ComputedCell = Cell & { variance: number; sd: number };
+/**
+ * A group's cells with results, in working units, as one list per figure (in
+ * order of first appearance): the formulas over all cells take lists, and a
+ * study of many labs would otherwise build an object per cell only to take
+ * them apart again.
+ */
+interface CellLists {
+  labs: string[];
+  counts: number[];
+  means: number[];
+  /** null for a cell of one result */
+  variances: (number | null)[];
+  sds: (number | null)[];
+}
+
+/** The lists of a group that is computed: every cell has at least two results. */
+type ComputedCellLists = CellLists & { variances: number[]; sds: number[] };
 
 const ALPHA_TEXT: Record<SignificanceLevel, string> = { 0.005: "0.5 %", 0.01: "1 %", 0.05: "5 %" };
 const TEST_NAME: Record<ScreeningStep["test"], string> = {
@@ -64,9 +79,13 @@ function screeningFindings(steps: readonly ScreeningStep[]): Map<string, Finding
   return byLab;
 }
 
+/** How the h and k critical values were chosen, as a finding's text names it. */
+function consistencyLevel(alpha: SignificanceLevel): string {
+  return `ASTM E691 ${alpha === 0.005 ? "" : "/ ISO 5725-2 "}at ${ALPHA_TEXT[alpha]}`;
+}
+
 function consistencyFindings(h: number | null, k: number | null, hLimit: number, kLimit: number, alpha: SignificanceLevel): Finding[] {
   const findings: Finding[] = [];
-  const level = `ASTM E691 ${alpha === 0.005 ? "" : "/ ISO 5725-2 "}at ${ALPHA_TEXT[alpha]}`;
   if (h !== null && Math.abs(h) > hLimit) {
     findings.push({
       test: "h",
@@ -77,7 +96,7 @@ function consistencyFindings(h: number | null, k: number | null, hLimit: number,
       critical1: null,
       class: null,
       partner: null,
-      text: `h = ${fixed(h, 2)}, beyond ±${fixed(hLimit, 2)} (${level})`,
+      text: `h = ${fixed(h, 2)}, beyond ±${fixed(hLimit, 2)} (${consistencyLevel(alpha)})`,
     });
   }
   if (k !== null && k > kLimit) {
@@ -90,10 +109,32 @@ function consistencyFindings(h: number | null, k: number | null, hLimit: number,
       critical1: null,
       class: null,
       partner: null,
-      text: `k = ${fixed(k, 2)}, above ${fixed(kLimit, 2)} (${level})`,
+      text: `k = ${fixed(k, 2)}, above ${fixed(kLimit, 2)} (${consistencyLevel(alpha)})`,
     });
   }
   return findings;
+}
+
+/** Each cell's statistics in working units (ASTM E691), list by list. */
+function cellLists(group: GroupAccumulator, values: Float64Array, units: { origin: number; scale: number }): CellLists {
+  const lists: CellLists = { labs: [], counts: [], means: [], variances: [], sds: [] };
+  for (const cell of group.cells) {
+    if (cell.count === 0) continue;
+    const { n, mean, variance, sd } = cellStatistics(values, cell.start, cell.start + cell.count, units.origin, units.scale);
+    lists.labs.push(cell.lab);
+    lists.counts.push(n);
+    lists.means.push(mean);
+    lists.variances.push(variance);
+    lists.sds.push(sd);
+  }
+  return lists;
+}
+
+/** Degrees of freedom within the cells, Σ(n_i − 1); p(n − 1) with equal replicates. */
+function withinCellDegreesOfFreedom(counts: readonly number[]): number {
+  let df = 0;
+  for (const count of counts) df += count - 1;
+  return df;
 }
 
 /**
@@ -103,15 +144,14 @@ function consistencyFindings(h: number | null, k: number | null, hLimit: number,
  */
 function computePrecision(
   group: GroupAccumulator,
-  cells: readonly ComputedCell[],
+  cells: ComputedCellLists,
   alpha: SignificanceLevel,
   units: { origin: number; scale: number },
 ): ComputedGroup {
   const notes: string[] = [];
   const { origin, scale } = units;
-  const p = cells.length;
-  const counts = cells.map((cell) => cell.n);
-  const means = cells.map((cell) => cell.mean);
+  const { counts, means, variances, sds } = cells;
+  const p = counts.length;
   const replicatesEqual = counts.every((count) => count === counts[0]);
   const n = averageReplicates(counts);
   const sx = standardDeviationOfCellAverages(means);
@@ -124,14 +164,15 @@ function computePrecision(
   let criticalN: number;
   if (replicatesEqual) {
     mean = averageOfAverages;
-    sr = repeatabilityStandardDeviation(cells.map((cell) => cell.sd));
+    sr = repeatabilityStandardDeviation(sds);
     sL2 = betweenLabVariance(sx, sr, n);
     sd2 = n * sx * sx;
     criticalN = n;
   } else {
-    mean = replicateWeightedMean(cells);
-    sr = pooledRepeatabilityStandardDeviation(cells);
-    sd2 = betweenCellVariance(cells, mean);
+    const weighted = counts.map((count, i) => ({ n: count, mean: means[i], variance: variances[i] }));
+    mean = replicateWeightedMean(weighted);
+    sr = pooledRepeatabilityStandardDeviation(weighted);
+    sd2 = betweenCellVariance(weighted, mean);
     sL2 = generalBetweenLabVariance(sd2, sr, n);
     criticalN = mostFrequentReplicates(counts);
     notes.push(
@@ -151,25 +192,28 @@ function computePrecision(
 
   const hLimit = hCritical(p, alpha);
   const kLimit = kCritical(p, criticalN, alpha);
-  const screening = screenCells({ labs: cells.map((cell) => cell.lab), means, variances: cells.map((cell) => cell.variance), n: criticalN });
+  const screening = screenCells({ labs: cells.labs, means, variances, n: criticalN });
   const isoFindings = screeningFindings(screening.steps);
-  const labs: LabResult[] = cells.map((cell) => {
-    const d = cell.mean - averageOfAverages;
+  const labs: LabResult[] = cells.labs.map((lab, i) => {
+    const d = means[i] - averageOfAverages;
     const h = hStatistic(d, sx);
-    const k = kStatistic(cell.sd, sr);
+    const k = kStatistic(sds[i], sr);
     const flags: ConsistencyFlag[] = [];
     if (h !== null && Math.abs(h) > hLimit) flags.push("h");
     if (k !== null && k > kLimit) flags.push("k");
+    const findings = consistencyFindings(h, k, hLimit, kLimit, alpha);
+    const screened = isoFindings.get(lab);
+    if (screened !== undefined) findings.push(...screened);
     return {
-      lab: cell.lab,
-      n: cell.n,
-      mean: origin + scale * cell.mean,
-      sd: scale * cell.sd,
+      lab,
+      n: counts[i],
+      mean: origin + scale * means[i],
+      sd: scale * sds[i],
       d: scale * d,
       h,
       k,
       flags,
-      findings: [...consistencyFindings(h, k, hLimit, kLimit, alpha), ...(isoFindings.get(cell.lab) ?? [])],
+      findings,
     };
   });
 
@@ -177,7 +221,7 @@ function computePrecision(
   const sROut = scale * sR;
   const repeatabilityForms = c670Limits(srOut, generalMean);
   const reproducibilityForms = c670Limits(sROut, generalMean);
-  const dfr = counts.reduce((sum, count) => sum + count - 1, 0);
+  const dfr = withinCellDegreesOfFreedom(counts);
   const gamma = sr > 0 ? sR / sr : 1;
   const uncertainty = {
     sr: repeatabilityInterval(srOut, dfr),
@@ -243,53 +287,53 @@ export function analyzeGroup(
   values: Float64Array,
   alpha: SignificanceLevel,
 ): { result: GroupResult; problems: Problem[] } {
-  const cells: Cell[] = [];
   const damagedLabs = new Set<string>();
   const inputProblems = [...group.problems];
-  const units = workingUnits(values, group.cells);
   for (const cell of group.cells) {
-    if (cell.count > 0) {
-      const { n, mean, variance, sd } = cellStatistics(values, cell.start, cell.start + cell.count, units.origin, units.scale);
-      cells.push({ lab: cell.lab, n, mean, variance, sd });
-    }
     if (cell.problems.length > 0) {
       damagedLabs.add(cell.lab);
       inputProblems.push(...cell.problems);
     }
   }
+  const units = workingUnits(values, group.cells);
+  const cells = cellLists(group, values, units);
+  const p = cells.labs.length;
   const problems: Problem[] = [];
-  if (cells.length < MIN_LABS) {
-    problems.push(
-      groupProblem(group, "too-few-labs", `precision statistics need at least ${MIN_LABS} labs with results; this group has ${cells.length}`),
-    );
+  if (p < MIN_LABS) {
+    problems.push(groupProblem(group, "too-few-labs", `precision statistics need at least ${MIN_LABS} labs with results; this group has ${p}`));
   }
   // A damaged cell's shortfall is already explained by its row problems.
-  for (const cell of cells) {
-    if (cell.n < MIN_REPLICATES && !damagedLabs.has(cell.lab)) {
+  for (let i = 0; i < p; i++) {
+    const lab = cells.labs[i];
+    const n = cells.counts[i];
+    if (n < MIN_REPLICATES && !damagedLabs.has(lab)) {
       problems.push(
         groupProblem(
           group,
           "too-few-replicates",
-          `lab ${cell.lab} has ${cell.n} result; every lab needs at least ${MIN_REPLICATES} (exclude the cell to compute the others)`,
-          cell.lab,
+          `lab ${lab} has ${n} result; every lab needs at least ${MIN_REPLICATES} (exclude the cell to compute the others)`,
+          lab,
         ),
       );
     }
   }
   if (inputProblems.length === 0 && problems.length === 0) {
-    return { result: computePrecision(group, cells as ComputedCell[], alpha, units), problems };
+    return { result: computePrecision(group, cells as ComputedCellLists, alpha, units), problems };
   }
-  const labs: LabResult[] = cells.map((cell) => ({
-    lab: cell.lab,
-    n: cell.n,
-    mean: units.origin + units.scale * cell.mean,
-    sd: cell.sd === null ? null : units.scale * cell.sd,
-    d: null,
-    h: null,
-    k: null,
-    flags: [],
-    findings: [],
-  }));
+  const labs: LabResult[] = cells.labs.map((lab, i) => {
+    const sd = cells.sds[i];
+    return {
+      lab,
+      n: cells.counts[i],
+      mean: units.origin + units.scale * cells.means[i],
+      sd: sd === null ? null : units.scale * sd,
+      d: null,
+      h: null,
+      k: null,
+      flags: [],
+      findings: [],
+    };
+  });
   const reasons = [...inputProblems, ...problems].map((problem) => problem.message);
   return {
     result: {
@@ -297,8 +341,8 @@ export function analyzeGroup(
       material: group.material,
       response: group.response,
       kind: group.kind,
-      p: cells.length,
-      n: cells.length > 0 ? averageReplicates(cells.map((cell) => cell.n)) : 0,
+      p,
+      n: p > 0 ? averageReplicates(cells.counts) : 0,
       labs,
       notes: [],
       reasons,

@@ -1,5 +1,17 @@
 import { chiSquareQuantile } from "./distributions";
+import { memoize } from "./memoize";
 import type { StandardDeviationInterval } from "./types";
+
+/**
+ * Whole degrees of freedom recur from group to group (p(n − 1) for every
+ * material of a study), so their quantiles are computed once; fractional ones
+ * (Satterthwaite) seldom recur and are not kept.
+ */
+const chiSquareQuantileOfWholeDf = memoize(chiSquareQuantile);
+
+function chiSquare(probability: number, df: number): number {
+  return Number.isInteger(df) ? chiSquareQuantileOfWholeDf(probability, df) : chiSquareQuantile(probability, df);
+}
 
 /**
  * Two-sided confidence interval of a standard deviation s with ν degrees of
@@ -12,8 +24,8 @@ export function standardDeviationInterval(s: number, df: number, confidence = 0.
   if (!(df > 0)) throw new RangeError(`degrees of freedom must be positive, got ${df}`);
   const tail = (1 - confidence) / 2;
   return {
-    lower: s * Math.sqrt(df / chiSquareQuantile(1 - tail, df)),
-    upper: s * Math.sqrt(df / chiSquareQuantile(tail, df)),
+    lower: s * Math.sqrt(df / chiSquare(1 - tail, df)),
+    upper: s * Math.sqrt(df / chiSquare(tail, df)),
     df,
     method,
   };

@@ -29,6 +29,9 @@ export interface GroupedRows {
 
 interface CellInProgress extends CellAccumulator {
   id: number;
+  /** the replicate numbers met so far: one bit each for 1 … 30, a set for larger ones */
+  replicatesSeen: number;
+  largeReplicatesSeen: Set<number> | null;
 }
 
 interface GroupInProgress extends GroupAccumulator {
@@ -90,14 +93,38 @@ function rowDataProblem(row: ResultRow, isCount: boolean): [ProblemCode, string]
   return ["count-not-whole", `the value ${value} is not a whole number, but ${row.response} is a count`];
 }
 
+/** A row repeating a replicate number of its cell. */
+interface RepeatedReplicate {
+  position: number;
+  cell: CellInProgress;
+}
+
 interface CellAssignment {
   groups: GroupInProgress[];
   cells: CellInProgress[];
-  /** each row's cell id, −1 for a row that failed a check */
+  /** each row's cell id, −1 for a row that failed a check or repeats a replicate number */
   cellOf: Int32Array;
+  repeats: RepeatedReplicate[];
 }
 
-/** Checks each row and numbers its cell; rows continuing the previous row's group or cell skip the lookups. */
+/** Notes a replicate number in its cell; true when the cell had met it already. */
+function isRepeat(cell: CellInProgress, replicate: number): boolean {
+  if (replicate <= 30) {
+    const bit = 1 << (replicate - 1);
+    const repeated = (cell.replicatesSeen & bit) !== 0;
+    cell.replicatesSeen |= bit;
+    return repeated;
+  }
+  cell.largeReplicatesSeen ??= new Set();
+  if (cell.largeReplicatesSeen.has(replicate)) return true;
+  cell.largeReplicatesSeen.add(replicate);
+  return false;
+}
+
+/**
+ * Checks each row, numbers its cell and keeps the first row of each replicate
+ * number in a cell; rows continuing the previous row's group or cell skip the lookups.
+ */
 function assignCells(
   rows: readonly ResultRow[],
   responseKinds: Readonly<Record<string, ResponseKind>>,
@@ -108,6 +135,7 @@ function assignCells(
   const groups: GroupInProgress[] = [];
   const cells: CellInProgress[] = [];
   const cellOf = new Int32Array(rows.length).fill(-1);
+  const repeats: RepeatedReplicate[] = [];
   let group: GroupInProgress | null = null;
   let cell: CellInProgress | null = null;
 
@@ -141,7 +169,16 @@ function assignCells(
       if (lab === undefined) labIndex.set(row.lab, (lab = labIndex.size));
       cell = group.cellByLab[lab] ?? null;
       if (cell === null) {
-        cell = { lab: row.lab, start: 0, count: 0, rowCount: 0, problems: NO_PROBLEMS, id: cells.length };
+        cell = {
+          lab: row.lab,
+          start: 0,
+          count: 0,
+          rowCount: 0,
+          problems: NO_PROBLEMS,
+          id: cells.length,
+          replicatesSeen: 0,
+          largeReplicatesSeen: null,
+        };
         cells.push(cell);
         group.cells.push(cell);
         group.cellByLab[lab] = cell;
@@ -163,73 +200,57 @@ function assignCells(
       located.push({ position, problem: rowProblem(row, position, code, message), owner: cell });
       continue;
     }
+    if (isRepeat(cell, replicate)) {
+      repeats.push({ position, cell });
+      continue;
+    }
     cellOf[position] = cell.id;
     cell.count++;
   }
 
-  return { groups, cells, cellOf };
-}
-
-/** Counting sort: the checked rows of each cell become one contiguous run of `order`, starting at `start[id]`. */
-function orderByCell(cells: readonly CellInProgress[], cellOf: Int32Array): { start: Int32Array; order: Int32Array } {
-  const start = new Int32Array(cells.length + 1);
-  for (const cell of cells) start[cell.id + 1] = start[cell.id] + cell.count;
-  const order = new Int32Array(start[cells.length]);
-  const cursor = start.slice(0, cells.length);
-  for (let position = 0; position < cellOf.length; position++) {
-    const id = cellOf[position];
-    if (id >= 0) order[cursor[id]++] = position;
-  }
-  return { start, order };
+  return { groups, cells, cellOf, repeats };
 }
 
 /**
- * Per cell, drops rows repeating a replicate number (a bit mask covers numbers
- * up to 30, a set the rest) and gathers the values; sets each cell's range.
+ * Counting sort: each cell's kept results become one contiguous run of the
+ * returned buffer, in input order, and the cell's `start` points at it.
  */
-function gatherCellValues(
-  rows: readonly ResultRow[],
-  assignment: CellAssignment,
-  located: LocatedProblem[],
-): Float64Array {
-  const { cells } = assignment;
-  const { start, order } = orderByCell(cells, assignment.cellOf);
-  const values = new Float64Array(order.length);
+function layOutValues(rows: readonly ResultRow[], { cells, cellOf }: CellAssignment): Float64Array {
+  const next = new Int32Array(cells.length);
+  let total = 0;
   for (const cell of cells) {
-    const begin = start[cell.id];
-    let kept = begin;
-    let seenMask = 0;
-    let seenLarge: Set<number> | null = null;
-    for (let k = begin; k < start[cell.id + 1]; k++) {
-      const position = order[k];
-      const row = rows[position];
-      const replicate = row.replicate;
-      let repeated: boolean;
-      if (replicate <= 30) {
-        const bit = 1 << (replicate - 1);
-        repeated = (seenMask & bit) !== 0;
-        seenMask |= bit;
-      } else {
-        seenLarge ??= new Set();
-        repeated = seenLarge.has(replicate);
-        seenLarge.add(replicate);
-      }
-      if (repeated) {
-        let first = begin;
-        while (rows[order[first]].replicate !== replicate) first++;
-        const earlier = order[first];
-        const message = `replicate ${replicate} appears twice in this cell; first at ${rowPlace(rows[earlier], earlier)}`;
-        located.push({ position, problem: rowProblem(row, position, "duplicate-replicate", message), owner: cell });
-        continue;
-      }
-      order[kept] = position;
-      values[kept] = row.value;
-      kept++;
-    }
-    cell.start = begin;
-    cell.count = kept - begin;
+    cell.start = next[cell.id] = total;
+    total += cell.count;
+  }
+  const values = new Float64Array(total);
+  for (let position = 0; position < cellOf.length; position++) {
+    const id = cellOf[position];
+    if (id >= 0) values[next[id]++] = rows[position].value;
   }
   return values;
+}
+
+/**
+ * The problem of each row repeating a replicate number, naming the first row
+ * of its cell with that number (found in one pass, for the cells concerned only).
+ */
+function repeatProblems(rows: readonly ResultRow[], { cellOf, repeats }: CellAssignment, located: LocatedProblem[]): void {
+  if (repeats.length === 0) return;
+  // cell id → replicate number → position of its first row
+  const firstRows = new Map<number, Map<number, number>>();
+  for (const { cell } of repeats) firstRows.set(cell.id, new Map());
+  for (let position = 0; position < cellOf.length; position++) {
+    const firstOfCell = firstRows.get(cellOf[position]);
+    if (firstOfCell === undefined) continue;
+    const { replicate } = rows[position];
+    if (!firstOfCell.has(replicate)) firstOfCell.set(replicate, position);
+  }
+  for (const { position, cell } of repeats) {
+    const row = rows[position];
+    const earlier = firstRows.get(cell.id)?.get(row.replicate) as number;
+    const message = `replicate ${row.replicate} appears twice in this cell; first at ${rowPlace(rows[earlier], earlier)}`;
+    located.push({ position, problem: rowProblem(row, position, "duplicate-replicate", message), owner: cell });
+  }
 }
 
 /** Puts the problems in input order and hands each to the cell or group it belongs to. */
@@ -250,11 +271,11 @@ function distributeProblems(located: LocatedProblem[]): Problem[] {
  * groups and lab cells, in order of first appearance. A row's problem is kept
  * with the cell it belongs to, so excluding that cell drops it too; problems
  * come back in input order.
- * Built for a million rows: one pass checks the rows and numbers their cells,
- * a counting sort lays each cell's results out contiguously in one buffer,
- * and a pass per cell catches repeated replicate numbers. Cells hold ranges
- * of that buffer rather than arrays of their own, so there is little garbage
- * to collect; each phase is its own function so the engine optimises it whole.
+ * Built for a million rows: one pass checks the rows, numbers their cells and
+ * catches repeated replicate numbers, and a counting sort lays each cell's
+ * results out contiguously in one buffer. Cells hold ranges of that buffer
+ * rather than arrays of their own, so there is little garbage to collect;
+ * each phase is its own function so the engine optimises it whole.
  */
 export function groupRows(
   rows: readonly ResultRow[],
@@ -262,6 +283,7 @@ export function groupRows(
 ): GroupedRows {
   const located: LocatedProblem[] = [];
   const assignment = assignCells(rows, responseKinds, located);
-  const values = gatherCellValues(rows, assignment, located);
+  repeatProblems(rows, assignment, located);
+  const values = layOutValues(rows, assignment);
   return { groups: assignment.groups, values, problems: distributeProblems(located) };
 }

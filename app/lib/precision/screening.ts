@@ -7,14 +7,36 @@ import type { CochranResult, GrubbsDoubleResult, GrubbsResult, GrubbsSingleResul
 /** A share of a sum of squares this small is rounding, not spread: the values are tied. */
 const TIE_SHARE = 1e-20;
 
-function sumOfSquares(values: readonly number[]): number {
-  if (values.length === 0) return 0;
+/**
+ * Σ(x − x̄)² over the values, each set about its own mean, leaving out those at
+ * the indices `without` names (−1 for none): the same sums a filtered copy
+ * would give, without the copy.
+ */
+function sumOfSquares(values: readonly number[], without = -1, alsoWithout = -1): number {
+  let count = 0;
   let sum = 0;
-  for (const value of values) sum += value;
-  const mean = sum / values.length;
+  for (let i = 0; i < values.length; i++) {
+    if (i === without || i === alsoWithout) continue;
+    sum += values[i];
+    count++;
+  }
+  if (count === 0) return 0;
+  const mean = sum / count;
   let squares = 0;
-  for (const value of values) squares += (value - mean) ** 2;
+  for (let i = 0; i < values.length; i++) {
+    if (i === without || i === alsoWithout) continue;
+    squares += (values[i] - mean) ** 2;
+  }
   return squares;
+}
+
+/** The labs whose cell average is `average`, leaving out the lab at index `without` (−1 for none). */
+function labsAveraging(labs: readonly string[], means: readonly number[], average: number, without = -1): string[] {
+  const found: string[] = [];
+  for (let i = 0; i < labs.length; i++) {
+    if (i !== without && means[i] === average) found.push(labs[i]);
+  }
+  return found;
 }
 
 function listLabs(labs: readonly string[]): string {
@@ -77,13 +99,12 @@ export function screenGrubbsSingle({ labs, means }: ScreeningInput, side: "high"
   const critical5 = grubbsSingleCritical(p, 0.05);
   const critical1 = grubbsSingleCritical(p, 0.01);
   const extreme = means[single.index];
-  const tied = labs.filter((_, i) => means[i] === extreme);
+  const tied = labsAveraging(labs, means, extreme);
   let uninformative: string | null = null;
   if (single.G !== null) {
-    const rest = means.filter((_, i) => i !== single.index);
     if (tied.length > 1) {
       uninformative = `${listLabs(tied)} share the ${side === "high" ? "highest" : "lowest"} average, so the single test cannot single one out`;
-    } else if (sumOfSquares(rest) <= TIE_SHARE * sumOfSquares(means)) {
+    } else if (sumOfSquares(means, single.index) <= TIE_SHARE * sumOfSquares(means)) {
       uninformative = `every other lab has the same average, so G = (p − 1)/√p = ${single.G.toFixed(3)}, its largest possible value, however close ${labs[single.index]} is; the test cannot judge it — h does`;
     }
   }
@@ -113,11 +134,10 @@ export function screenGrubbsDouble({ labs, means }: ScreeningInput, side: "high"
   const pair: [string, string] = [labs[first], labs[second]];
   let uninformative: string | null = null;
   if (double.G !== null) {
-    const rest = means.filter((_, i) => i !== first && i !== second);
-    const sharing = labs.filter((_, i) => i !== first && means[i] === means[second]);
+    const sharing = labsAveraging(labs, means, means[second], first);
     if (sharing.length > 1) {
       uninformative = `${listLabs(sharing)} share the ${side === "high" ? "second highest" : "second lowest"} average, so no single pair is the most extreme`;
-    } else if (sumOfSquares(rest) <= TIE_SHARE * sumOfSquares(means)) {
+    } else if (sumOfSquares(means, first, second) <= TIE_SHARE * sumOfSquares(means)) {
       uninformative = `the other ${p - 2} labs all have the same average, so the statistic is 0 however close ${pair[0]} and ${pair[1]} are; the test cannot judge them`;
     }
   }

@@ -10,6 +10,13 @@ export const RECOMMENDED_REPLICATES = 2;
 
 const place = (group: GroupResult) => `${group.material} / ${group.response}`;
 
+/** The labs of a group with fewer results than both practices need (a loop: groups can hold a thousand labs). */
+function labsWithFewReplicates(group: GroupResult): string[] {
+  const labs: string[] = [];
+  for (const lab of group.labs) if (lab.n < RECOMMENDED_REPLICATES) labs.push(lab.lab);
+  return labs;
+}
+
 /**
  * Where the study falls short of the practices' minimum design: fewer than 6
  * labs in a group (ASTM E691; ISO 5725-1 recommends 8), fewer than 3 materials
@@ -46,13 +53,15 @@ export function studyWarnings(groups: readonly GroupResult[]): StudyWarning[] {
       });
     }
   }
-  const fewReplicates = groups.filter((group) => group.labs.some((lab) => lab.n < RECOMMENDED_REPLICATES));
+  const fewReplicates = groups
+    .map((group) => ({ group, labs: labsWithFewReplicates(group) }))
+    .filter(({ labs }) => labs.length > 0);
   if (fewReplicates.length > 0) {
     warnings.push({
       code: "few-replicates",
       message:
         `fewer than ${RECOMMENDED_REPLICATES} results in a lab's cell: ${fewReplicates
-          .map((group) => `${place(group)} (${group.labs.filter((lab) => lab.n < RECOMMENDED_REPLICATES).map((lab) => lab.lab).join(", ")})`)
+          .map(({ group, labs }) => `${place(group)} (${labs.join(", ")})`)
           .join(", ")}. ` + "Both practices need at least 2 replicates per lab and material to estimate repeatability",
     });
   }
