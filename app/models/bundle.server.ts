@@ -8,7 +8,7 @@
 import { createHash } from "node:crypto";
 import { asc, and, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { precisionStatements, responses, studies } from "~/db/schema";
+import { precisionStatements, responses, type Study } from "~/db/schema";
 import { decisionsCsv } from "~/lib/bundle/decisions-csv";
 import { bundleReadme } from "~/lib/bundle/readme";
 import { RESULT_COLUMNS } from "~/lib/precision";
@@ -17,7 +17,6 @@ import { studyResultRows } from "~/models/analysis.server";
 import { listCellDecisions } from "~/models/decisions.server";
 import Papa from "papaparse";
 
-type Study = typeof studies.$inferSelect;
 
 export type BundleFile = { name: string; sha256: string; bytes: number };
 export type StatementBundle = { fileName: string; zip: Buffer; sha256: string; statementVersion: number; files: BundleFile[] };

@@ -21,6 +21,7 @@ import {
   roundScores,
   roundSettings,
   studies,
+  type Study,
   type MaterialCheck,
 } from "~/db/schema";
 import { FieldRefusal } from "~/lib/field-refusal";
@@ -47,7 +48,6 @@ import { recordAudit } from "~/server/audit.server";
 import { appUrl, composeEmail, sendEmail } from "~/server/email.server";
 import type { z } from "zod";
 
-type Study = typeof studies.$inferSelect;
 
 /** What a round keeps of the published study it was set up from: the code and the approved statement's frozen analysis. */
 type RoundPrecision = { sourceCode: string | null; analysis: StudyAnalysis | null };

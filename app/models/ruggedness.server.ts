@@ -7,7 +7,7 @@
 import { randomInt } from "node:crypto";
 import { asc, count, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { responses, ruggednessFactors, ruggednessPlans, ruggednessResults, studies } from "~/db/schema";
+import { responses, ruggednessFactors, ruggednessPlans, ruggednessResults, studies, type Study } from "~/db/schema";
 import { FieldRefusal } from "~/lib/field-refusal";
 import { type WriteKind, writeRefusal } from "~/lib/write-rules";
 import { analyzeRuggedness, designFor, plackettBurmanDesign, randomRunOrder, type RunCount } from "~/lib/ruggedness";
@@ -19,7 +19,6 @@ import { recordAudit } from "~/server/audit.server";
 import type { SessionUser } from "~/models/user.server";
 import { coordinatedBy, insertStudy } from "~/models/study.server";
 
-type Study = typeof studies.$inferSelect;
 
 /** Refuses a write where the one table of write rules (~/lib/write-rules) does, with its sentence beside `field`. */
 function assertRuggednessWrite(kind: Extract<WriteKind, "ruggednessDesign" | "ruggednessResults">, study: Pick<Study, "state">, field: string) {
